@@ -1,0 +1,5 @@
+import { JobListScreen } from '../../components/jobs/JobListScreen';
+
+export default function HomeRoute() {
+  return <JobListScreen />;
+}

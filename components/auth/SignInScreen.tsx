@@ -1,0 +1,109 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useRef } from 'react';
+import { Controller, useForm } from 'react-hook-form';
+import { StyleSheet, View, type TextInput } from 'react-native';
+import { signInSchema, type SignInInput } from '../../shared/schemas/session';
+import { ApiError } from '../api/client';
+import { useSignInMutation } from '../queries/session';
+import { colors, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Button } from '../ui/Button';
+import { Card } from '../ui/Card';
+import { Screen } from '../ui/Screen';
+import { TextField } from '../ui/TextField';
+import { Wordmark } from '../ui/Wordmark';
+
+export function SignInScreen() {
+  const signIn = useSignInMutation();
+  const passwordRef = useRef<TextInput>(null);
+  const { control, handleSubmit, formState, setError } = useForm<SignInInput>({
+    resolver: zodResolver(signInSchema),
+    defaultValues: { email: '', password: '' },
+  });
+
+  const onSubmit = handleSubmit(async (values) => {
+    try {
+      await signIn.mutateAsync(values);
+    } catch (err) {
+      if (err instanceof ApiError) {
+        for (const [field, message] of Object.entries(err.fields)) {
+          if (field === 'email' || field === 'password') setError(field, { message });
+        }
+        setError('root', { message: err.message });
+      } else {
+        setError('root', { message: 'Sign-in failed. Try again.' });
+      }
+    }
+  });
+
+  const rootError = formState.errors.root?.message;
+
+  return (
+    <Screen testID="sign-in-screen" maxWidth={440}>
+      <View style={styles.brand}>
+        <Wordmark />
+        <AppText muted>Install audits and punch lists for indoor units, from first walk to last sign-off.</AppText>
+      </View>
+      <Card>
+        <AppText variant="title" role="heading">
+          Sign in
+        </AppText>
+        {rootError ? (
+          <View style={styles.alert} role="alert" testID="sign-in-error">
+            <AppText style={styles.alertText}>{rootError}</AppText>
+          </View>
+        ) : null}
+        <Controller
+          control={control}
+          name="email"
+          render={({ field, fieldState }) => (
+            <TextField
+              testID="sign-in-email"
+              label="E-mail"
+              value={field.value}
+              onChangeText={field.onChange}
+              onBlur={field.onBlur}
+              error={fieldState.error?.message}
+              autoCapitalize="none"
+              autoComplete="email"
+              inputMode="email"
+              returnKeyType="next"
+              onSubmitEditing={() => passwordRef.current?.focus()}
+            />
+          )}
+        />
+        <Controller
+          control={control}
+          name="password"
+          render={({ field, fieldState }) => (
+            <TextField
+              ref={passwordRef}
+              testID="sign-in-password"
+              label="Password"
+              value={field.value}
+              onChangeText={field.onChange}
+              onBlur={field.onBlur}
+              error={fieldState.error?.message}
+              secureTextEntry
+              autoComplete="current-password"
+              returnKeyType="go"
+              onSubmitEditing={onSubmit}
+            />
+          )}
+        />
+        <Button testID="sign-in-submit" label="Sign in" onPress={onSubmit} busy={signIn.isPending} />
+      </Card>
+      <AppText variant="small" muted style={styles.note}>
+        Trimout records what people observed on site. It does not certify an installation: the manufacturer&apos;s
+        installation manual, local codes and licensed practice govern.
+      </AppText>
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  brand: { gap: space.sm, marginTop: space.xl, marginBottom: space.sm },
+  alert: { backgroundColor: colors.dangerSoft, borderRadius: 8, padding: space.md },
+  alertText: { color: colors.danger },
+  note: { textAlign: 'center' },
+});

@@ -1,0 +1,79 @@
+import { Link } from 'expo-router';
+import { Pressable, StyleSheet, View } from 'react-native';
+import type { SessionJob } from '../../shared/schemas/session';
+import { useJobsQuery } from '../queries/jobs';
+import { useSessionQuery } from '../queries/session';
+import { colors, radius, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { RoleBadge } from '../ui/RoleBadge';
+import { Screen } from '../ui/Screen';
+import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+
+export function JobListScreen() {
+  const session = useSessionQuery();
+  const jobs = useJobsQuery();
+  const firstName = session.data?.user?.name.split(' ')[0];
+
+  return (
+    <Screen testID="job-list-screen">
+      <View style={styles.head}>
+        <AppText variant="display" role="heading">
+          Your jobs
+        </AppText>
+        {firstName ? <AppText muted>Signed in as {firstName}. Pick a job to work on.</AppText> : null}
+      </View>
+      {jobs.isPending ? (
+        <LoadingState label="Loading your jobs…" />
+      ) : jobs.isError ? (
+        <ErrorState message={jobs.error.message} onRetry={() => jobs.refetch()} />
+      ) : jobs.data.length === 0 ? (
+        <EmptyState
+          title="No jobs yet"
+          body="You are not a member of any job. A GC manager adds you to a job by inviting your e-mail address."
+        />
+      ) : (
+        <View style={styles.grid} testID="job-list">
+          {jobs.data.map((job) => (
+            <JobCard key={job.id} job={job} />
+          ))}
+        </View>
+      )}
+    </Screen>
+  );
+}
+
+function JobCard({ job }: { job: SessionJob }) {
+  return (
+    <Link href={{ pathname: '/jobs/[jobId]', params: { jobId: job.id } }} asChild>
+      <Pressable style={({ pressed }) => [styles.card, pressed && styles.pressed]} testID={`job-card-${job.id}`} accessibilityRole="link">
+        <View style={styles.cardTop}>
+          <AppText variant="small" muted>
+            {job.number ? `Job ${job.number}` : 'Job'}
+          </AppText>
+          <RoleBadge role={job.role} testID="job-role" />
+        </View>
+        <AppText variant="title">{job.name}</AppText>
+        {job.address ? <AppText muted>{job.address}</AppText> : null}
+      </Pressable>
+    </Link>
+  );
+}
+
+const styles = StyleSheet.create({
+  head: { gap: space.xs },
+  grid: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
+  card: {
+    flexGrow: 1,
+    flexBasis: 300,
+    backgroundColor: colors.surface,
+    borderRadius: radius.lg,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderLeftWidth: 6,
+    borderLeftColor: colors.spruce,
+    padding: space.lg,
+    gap: space.xs,
+  },
+  pressed: { opacity: 0.8 },
+  cardTop: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.sm },
+});

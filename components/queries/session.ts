@@ -1,0 +1,39 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { SessionResponse, SignInInput } from '../../shared/schemas/session';
+import { apiGet, setCsrfToken } from '../api/client';
+import { newWrite, sendWrite } from '../api/mutations';
+
+export const sessionKeys = { all: ['session'] as const };
+
+async function fetchSession(): Promise<SessionResponse> {
+  const session = await apiGet<SessionResponse>('/api/session');
+  setCsrfToken(session.csrfToken);
+  return session;
+}
+
+export function useSessionQuery() {
+  return useQuery({ queryKey: sessionKeys.all, queryFn: fetchSession, staleTime: 60_000 });
+}
+
+export function useSignInMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: SignInInput) => sendWrite<SessionResponse>(newWrite({ method: 'POST', path: '/api/session', body: input })),
+    onSuccess: (session) => {
+      setCsrfToken(session.csrfToken);
+      queryClient.clear();
+      queryClient.setQueryData(sessionKeys.all, session);
+    },
+  });
+}
+
+export function useSignOutMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: () => sendWrite<void>(newWrite({ method: 'DELETE', path: '/api/session' })),
+    onSettled: async () => {
+      queryClient.clear();
+      await queryClient.fetchQuery({ queryKey: sessionKeys.all, queryFn: fetchSession });
+    },
+  });
+}

@@ -1,0 +1,41 @@
+/**
+ * Four projects, one runner:
+ * - shared: pure calculations and schemas (ts-jest, node)
+ * - server: API tests with supertest against the real PostgreSQL (ts-jest, node)
+ * - components: screen components (jest-expo preset)
+ * - e2e: a real chromium driven by playwright-core against the built web app
+ * scripts/test.ts sets DATABASE_URL and the other services before calling jest.
+ */
+const tsJest = ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.json' }];
+
+module.exports = {
+  projects: [
+    {
+      displayName: 'shared',
+      rootDir: __dirname,
+      testEnvironment: 'node',
+      testMatch: ['<rootDir>/tests/shared/**/*.test.ts'],
+      transform: { '^.+\\.tsx?$': tsJest },
+    },
+    {
+      displayName: 'server',
+      rootDir: __dirname,
+      testEnvironment: 'node',
+      testMatch: ['<rootDir>/tests/server/**/*.test.ts'],
+      transform: { '^.+\\.tsx?$': tsJest },
+    },
+    {
+      displayName: 'components',
+      rootDir: __dirname,
+      preset: 'jest-expo/web',
+      testMatch: ['<rootDir>/tests/components/**/*.test.tsx'],
+    },
+    {
+      displayName: 'e2e',
+      rootDir: __dirname,
+      testEnvironment: 'node',
+      testMatch: ['<rootDir>/tests/e2e/**/*.test.ts'],
+      transform: { '^.+\\.tsx?$': tsJest },
+    },
+  ],
+};

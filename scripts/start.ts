@@ -1,0 +1,74 @@
+/**
+ * `npm start`: PostgreSQL (installed from Debian when missing) in .pgdata on 127.0.0.1,
+ * migrations, the demo seed the first time, the web app built when its sources changed,
+ * then the server. Ctrl-C stops the server and the database cleanly.
+ */
+import path from 'node:path';
+import { connect, migrate } from '../server/db';
+import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../server/seed/demo';
+import { startServer } from '../server/index';
+import { ensureDatabase, startCluster } from './lib/postgres';
+import { say } from './lib/run';
+import { buildWebIfStale } from './lib/web';
+import { ROLE_LABELS } from '../shared/words';
+
+const root = path.resolve(__dirname, '..');
+
+async function main() {
+  const pgPort = Number(process.env.TRIMOUT_PG_PORT ?? 54329);
+  const cluster = await startCluster({ dataDir: path.join(root, '.pgdata'), port: pgPort });
+  let stopping = false;
+  const stopDatabase = () => {
+    try {
+      cluster.stop();
+      say('database stopped.');
+    } catch (err) {
+      console.error('Could not stop the database cleanly:', err instanceof Error ? err.message : err);
+    }
+  };
+  try {
+    await ensureDatabase(cluster, 'trimout');
+    const databaseUrl = process.env.DATABASE_URL ?? cluster.url('trimout');
+    const db = connect(databaseUrl);
+    const ran = await migrate(db.sequelize);
+    if (ran.length) say(`ran ${ran.length} migration(s).`);
+    const { created } = await seedDemo(db);
+    if (created) say('demo data created.');
+    await db.close();
+
+    await buildWebIfStale(path.join(root, 'dist'));
+
+    const server = await startServer({
+      ...process.env,
+      DATABASE_URL: databaseUrl,
+      WEB_DIST: path.join(root, 'dist'),
+    });
+    const width = Math.max(...DEMO_ACCOUNTS.map((a) => a.email.length));
+    console.log(`
+Trimout is running at ${server.url}
+
+Demo sign-ins (password for all: ${DEMO_PASSWORD})
+${DEMO_ACCOUNTS.map((a) => `  ${a.email.padEnd(width)}  ${ROLE_LABELS[a.role]}`).join('\n')}
+
+Press Ctrl-C to stop.`);
+
+    const shutdown = async () => {
+      if (stopping) return;
+      stopping = true;
+      say('stopping ...');
+      await server.stop().catch(() => undefined);
+      stopDatabase();
+      process.exit(0);
+    };
+    process.on('SIGINT', shutdown);
+    process.on('SIGTERM', shutdown);
+  } catch (err) {
+    stopDatabase();
+    throw err;
+  }
+}
+
+main().catch((err: unknown) => {
+  console.error(`\nTrimout could not start: ${err instanceof Error ? err.message : String(err)}`);
+  process.exit(1);
+});

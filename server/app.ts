@@ -1,0 +1,163 @@
+/**
+ * Builds the Express app. It does not listen (server/index.ts does) and opens no connection
+ * until a request needs one, so tests import it with supertest.
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import express, { type Express } from 'express';
+import session from 'express-session';
+import connectPgSimple from 'connect-pg-simple';
+import helmet from 'helmet';
+import pg from 'pg';
+import { configurePassport } from './auth/passport';
+import type { Database } from './db';
+import type { Env } from './env';
+import { apiNotFound, errorHandler, unauthorized } from './errors';
+import { csrfProtection } from './middleware/csrf';
+import { requireJsonBody } from './middleware/json';
+import { healthRouter } from './routes/health';
+import { jobsRouter } from './routes/jobs';
+import { sessionRouter } from './routes/session';
+
+declare module 'express-session' {
+  interface SessionData {
+    signedInAt: number;
+    csrfToken: string;
+  }
+}
+
+export const HOUR = 60 * 60 * 1000;
+
+export interface AppOptions {
+  env: Env;
+  db: Database;
+  /** ASVS 7.3.1 / 7.3.2: idle 2 h (rolling), absolute 12 h from sign-in. */
+  sessionIdleMs?: number;
+  sessionAbsoluteMs?: number;
+  signInLimits?: { perAccount: number; perAddress: number; windowMs: number };
+  log?: (message: string, err?: unknown) => void;
+}
+
+export interface TrimoutApp {
+  app: Express;
+  /** Ends the session store's pool. The caller closes the database. */
+  close(): Promise<void>;
+}
+
+export function createApp(options: AppOptions): TrimoutApp {
+  const { env, db } = options;
+  const log = options.log ?? ((m: string, e?: unknown) => console.error(m, e));
+  const idleMs = options.sessionIdleMs ?? 2 * HOUR;
+  const absoluteMs = options.sessionAbsoluteMs ?? 12 * HOUR;
+  const cookieName = env.cookieSecure ? '__Host-trimout.sid' : 'trimout.sid';
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', env.TRUST_PROXY);
+  app.set('query parser', 'simple');
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: true,
+        directives: {
+          'default-src': ["'self'"],
+          'base-uri': ["'none'"],
+          'object-src': ["'none'"],
+          'frame-ancestors': ["'none'"],
+          'script-src': ["'self'"],
+          // react-native-web writes its styles into <style> elements at run time.
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'font-src': ["'self'", 'data:'],
+          'media-src': ["'self'", 'blob:'],
+          'connect-src': ["'self'"],
+          'form-action': ["'self'"],
+          'upgrade-insecure-requests': env.cookieSecure ? [] : null,
+        },
+      },
+      strictTransportSecurity: env.cookieSecure,
+    }),
+  );
+
+  const sessionPool = new pg.Pool({ connectionString: env.DATABASE_URL, max: 5, connectionTimeoutMillis: 5_000 });
+  sessionPool.on('error', (err) => log('session pool error', err));
+  const PgStore = connectPgSimple(session);
+  const store = new PgStore({ pool: sessionPool, tableName: 'sessions', createTableIfMissing: false, pruneSessionInterval: false });
+
+  const passport = configurePassport();
+  const api = express.Router();
+  api.use((_req, res, next) => {
+    res.set('Cache-Control', 'no-store');
+    next();
+  });
+  api.use(requireJsonBody);
+  api.use(express.json({ limit: '100kb', strict: true }));
+  api.use(
+    session({
+      name: cookieName,
+      store,
+      secret: env.sessionSecrets,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      unset: 'destroy',
+      cookie: { httpOnly: true, sameSite: 'lax', secure: env.cookieSecure, maxAge: idleMs, path: '/' },
+    }),
+  );
+  api.use(passport.initialize());
+  api.use(passport.session());
+  // Absolute timeout: express-session only knows idle time.
+  api.use((req, res, next) => {
+    if (req.user && (!req.session.signedInAt || Date.now() - req.session.signedInAt > absoluteMs)) {
+      return req.session.destroy(() => {
+        res.clearCookie(cookieName, { path: '/' });
+        next(unauthorized('Your session has ended. Sign in again.'));
+      });
+    }
+    next();
+  });
+  api.use(csrfProtection({ secret: env.sessionSecrets[0]!, publicUrl: env.PUBLIC_URL }));
+
+  api.use(healthRouter(db.sequelize));
+  api.use(
+    sessionRouter({
+      passport,
+      csrfSecret: env.sessionSecrets[0]!,
+      cookieName,
+      signInLimits: options.signInLimits ?? { perAccount: 10, perAddress: 100, windowMs: 15 * 60 * 1000 },
+    }),
+  );
+  api.use(jobsRouter());
+  api.use(apiNotFound);
+
+  app.use('/api', api);
+
+  const dist = path.resolve(env.WEB_DIST);
+  const indexHtml = path.join(dist, 'index.html');
+  if (fs.existsSync(indexHtml)) {
+    app.use(
+      express.static(dist, {
+        index: false,
+        setHeaders: (res, file) => {
+          if (file.includes(`${path.sep}_expo${path.sep}static${path.sep}`)) {
+            res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+          }
+        },
+      }),
+    );
+    // Client routes (/sign-in, /jobs/...) all load the single-page app.
+    app.get('/{*splat}', (_req, res) => {
+      res.set('Cache-Control', 'no-cache');
+      res.sendFile(indexHtml);
+    });
+  }
+  app.use(errorHandler(log));
+
+  return {
+    app,
+    close: async () => {
+      await sessionPool.end();
+    },
+  };
+}

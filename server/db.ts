@@ -1,0 +1,53 @@
+/**
+ * Database wiring. Nothing connects on import: callers create a Sequelize instance,
+ * run the migrations through umzug, and close it when done.
+ */
+import path from 'node:path';
+import { Sequelize } from 'sequelize';
+import { Umzug, SequelizeStorage } from 'umzug';
+import { initModels, type Models } from './models';
+
+export interface Database {
+  sequelize: Sequelize;
+  models: Models;
+  close(): Promise<void>;
+}
+
+export function connect(databaseUrl: string, options: { poolMax?: number; logging?: boolean } = {}): Database {
+  const sequelize = new Sequelize(databaseUrl, {
+    dialect: 'postgres',
+    logging: options.logging ? (sql) => console.log(sql) : false,
+    pool: { max: options.poolMax ?? 10, min: 0, idle: 10_000, acquire: 10_000 },
+    define: { underscored: true },
+    dialectOptions: { application_name: 'trimout', connectionTimeoutMillis: 5_000 },
+  });
+  const models = initModels(sequelize);
+  return { sequelize, models, close: () => sequelize.close() };
+}
+
+export function migrator(sequelize: Sequelize) {
+  return new Umzug({
+    migrations: {
+      glob: ['migrations/*.{ts,js}', { cwd: __dirname, ignore: ['**/*.d.ts'] }],
+      // Names are stored without the extension, so tsx, jest and compiled JS agree on what ran.
+      resolve: ({ name, path: file, context }) => {
+        const bare = name.replace(/\.(ts|js)$/, '');
+        return {
+          name: bare,
+          up: async () => (await import(file!)).up({ context }),
+          down: async () => (await import(file!)).down({ context }),
+        };
+      },
+    },
+    context: sequelize.getQueryInterface(),
+    storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
+    logger: undefined,
+  });
+}
+
+export async function migrate(sequelize: Sequelize): Promise<string[]> {
+  const done = await migrator(sequelize).up();
+  return done.map((m) => m.name);
+}
+
+export const migrationsDir = path.join(__dirname, 'migrations');

@@ -1,0 +1,51 @@
+/**
+ * Environment, parsed once at boot with zod: a wrong value stops the server with a clear message.
+ * Nothing here connects to anything.
+ */
+import { z } from 'zod';
+
+const bool = z
+  .enum(['true', 'false', '1', '0', 'yes', 'no'])
+  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+
+export const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+  HOST: z.string().min(1).default('127.0.0.1'),
+  DATABASE_URL: z.string().url().default('postgres://trimout@127.0.0.1:54329/trimout'),
+  /** One or more secrets, comma-separated; the first signs, all verify (rotation). */
+  SESSION_SECRET: z.string().optional(),
+  /** The public origin the app is served from, e.g. https://punch.example.org. */
+  PUBLIC_URL: z.string().url().optional(),
+  /** Secure cookies (served over TLS). Defaults to true when PUBLIC_URL is https. */
+  COOKIE_SECURE: bool.optional(),
+  /** Number of proxy hops in front of the server (never "true"). */
+  TRUST_PROXY: z.coerce.number().int().min(0).max(10).default(0),
+  /** Folder of the exported web app. */
+  WEB_DIST: z.string().default('dist'),
+  SMTP_URL: z.string().optional(),
+  MAIL_FROM: z.string().default('Trimout <no-reply@trimout.local>'),
+});
+
+export type Env = z.infer<typeof envSchema> & { sessionSecrets: string[]; cookieSecure: boolean };
+
+export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
+  const parsed = envSchema.safeParse(source);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Trimout cannot start: the environment is not valid.\n${lines.join('\n')}`);
+  }
+  const env = parsed.data;
+  const secrets = (env.SESSION_SECRET ?? '').split(',').map((s) => s.trim()).filter(Boolean);
+  if (secrets.length === 0) {
+    if (env.NODE_ENV === 'production') {
+      throw new Error('Trimout cannot start: SESSION_SECRET is required in production (32 random bytes or more).');
+    }
+    secrets.push('development-only-session-secret-not-for-production-use');
+  }
+  if (env.NODE_ENV === 'production' && secrets.some((s) => s.length < 32)) {
+    throw new Error('Trimout cannot start: every SESSION_SECRET must be at least 32 characters.');
+  }
+  const cookieSecure = env.COOKIE_SECURE ?? (env.PUBLIC_URL ?? '').startsWith('https:');
+  return { ...env, sessionSecrets: secrets, cookieSecure };
+}

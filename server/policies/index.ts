@@ -1,0 +1,61 @@
+/**
+ * Who may do what, in one place. Every API route declares exactly one policy middleware;
+ * each carries a `policy` tag so tests can walk the routers and refuse an undeclared route.
+ *
+ * - public:     no session needed
+ * - signedIn:   any signed-in user
+ * - jobMember:  a member of the job in :jobId with one of the given roles. Membership is read
+ *               from the database on every request (never cached in the session). A job the user
+ *               is not a member of answers 404, so its existence is not leaked.
+ */
+import type { NextFunction, Request, RequestHandler, Response } from 'express';
+import { z } from 'zod';
+import type { Role } from '../../shared/words';
+import { ROLES } from '../../shared/words';
+import { badRequest, forbidden, notFound, unauthorized } from '../errors';
+import { Job, JobMember } from '../models';
+
+export type PolicyHandler = RequestHandler & { policy: string };
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    interface Request {
+      /** Set by policy.jobMember: the job and the caller's role on it. */
+      membership?: { job: Job; role: Role; companyId: string };
+    }
+  }
+}
+
+function tag(name: string, fn: RequestHandler): PolicyHandler {
+  return Object.assign(fn, { policy: name });
+}
+
+export const uuidSchema = z.string().uuid('Not a valid id.');
+
+export const policy = {
+  public: () => tag('public', (_req, _res, next) => next()),
+
+  signedIn: () =>
+    tag('signedIn', (req, _res, next) => {
+      if (!req.user) return next(unauthorized());
+      next();
+    }),
+
+  jobMember: (roles: readonly Role[] = ROLES) =>
+    tag(`jobMember:${roles.join(',')}`, async (req: Request, _res: Response, next: NextFunction) => {
+      if (!req.user) return next(unauthorized());
+      const jobId = uuidSchema.safeParse(req.params.jobId);
+      if (!jobId.success) return next(badRequest('jobId: Not a valid id.', { jobId: 'Not a valid id.' }));
+      const member = await JobMember.findOne({
+        where: { jobId: jobId.data, userId: req.user.id },
+        include: [{ model: Job, as: 'job', required: true }],
+      });
+      if (!member || !member.job) return next(notFound('Job not found.'));
+      if (!roles.includes(member.role)) {
+        return next(forbidden(`Your role on this job (${member.role.replace('_', ' ')}) cannot do that.`));
+      }
+      req.membership = { job: member.job, role: member.role, companyId: req.user.companyId };
+      next();
+    }),
+};

@@ -1,0 +1,90 @@
+/**
+ * GET /api/session     who am I, my jobs and roles, and the CSRF token to send back
+ * POST /api/session    sign in (e-mail + password)
+ * DELETE /api/session  sign out: the session is destroyed and the cookie cleared
+ */
+import { Router, type Request, type Response, type NextFunction } from 'express';
+import type passport from 'passport';
+import { rateLimit } from 'express-rate-limit';
+import { signInSchema, type SessionResponse } from '../../shared/schemas/session';
+import { tooManyRequests, unauthorized } from '../errors';
+import { expectedCsrfToken, newCsrfToken } from '../middleware/csrf';
+import { validate } from '../middleware/validate';
+import { policy } from '../policies';
+import { presentUser } from '../presenters/session';
+import { jobsOf } from '../services/memberships';
+import type { AuthUser } from '../auth/passport';
+
+export interface SessionRouteOptions {
+  passport: passport.PassportStatic;
+  csrfSecret: string;
+  cookieName: string;
+  /** Failed sign-ins per account per 15 minutes; per address, all sign-in attempts. */
+  signInLimits: { perAccount: number; perAddress: number; windowMs: number };
+}
+
+const WRONG = 'That e-mail and password do not match an account. Check both and try again.';
+
+export function sessionRouter(options: SessionRouteOptions): Router {
+  const router = Router();
+  const { windowMs } = options.signInLimits;
+  const limitHandler = (_req: Request, _res: Response, next: NextFunction, opts: { windowMs: number }) =>
+    next(tooManyRequests('Too many sign-in attempts. Wait a few minutes and try again.', Math.ceil(opts.windowMs / 1000)));
+
+  const perAddress = rateLimit({
+    windowMs,
+    limit: options.signInLimits.perAddress,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    handler: (req, res, next, opts) => limitHandler(req, res, next, opts),
+  });
+  const perAccount = rateLimit({
+    windowMs,
+    limit: options.signInLimits.perAccount,
+    standardHeaders: false,
+    legacyHeaders: false,
+    skipSuccessfulRequests: true,
+    keyGenerator: (req) => `account:${String(req.body?.email ?? '').trim().toLowerCase()}`,
+    handler: (req, res, next, opts) => limitHandler(req, res, next, opts),
+  });
+
+  async function payload(req: Request): Promise<SessionResponse> {
+    const csrfToken = expectedCsrfToken(req, options.csrfSecret);
+    if (!req.user) return { user: null, jobs: [], csrfToken };
+    return { user: presentUser(req.user), jobs: await jobsOf(req.user.id), csrfToken };
+  }
+
+  router.get('/session', policy.public(), async (req, res) => {
+    res.json(await payload(req));
+  });
+
+  router.post('/session', policy.public(), perAddress, validate({ body: signInSchema }), perAccount, (req, res, next) => {
+    options.passport.authenticate('local', { session: false }, (err: unknown, user: AuthUser | false) => {
+      if (err) return next(err);
+      if (!user) return next(unauthorized(WRONG));
+      // passport >= 0.6 regenerates the session here: the old id dies, nothing of it is kept.
+      req.login(user, (loginErr) => {
+        if (loginErr) return next(loginErr);
+        req.session.signedInAt = Date.now();
+        req.session.csrfToken = newCsrfToken();
+        payload(req)
+          .then((body) => res.status(200).json(body))
+          .catch(next);
+      });
+    })(req, res, next);
+  });
+
+  router.delete('/session', policy.public(), (req, res, next) => {
+    const clear = () => {
+      res.clearCookie(options.cookieName, { path: '/' });
+      res.status(204).end();
+    };
+    if (!req.session) return clear();
+    req.logout((err) => {
+      if (err) return next(err);
+      req.session.destroy((destroyErr) => (destroyErr ? next(destroyErr) : clear()));
+    });
+  });
+
+  return router;
+}

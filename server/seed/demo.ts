@@ -1,0 +1,100 @@
+/**
+ * The demo: an invented six-storey mixed-use job in close-out. No real people, companies,
+ * addresses or products. Idempotent: running it again changes nothing. Never runs in production.
+ */
+import type { Database } from '../db';
+import { hashPassword } from '../auth/passwords';
+import type { Role } from '../../shared/words';
+
+export const DEMO_PASSWORD = 'trimout-demo-2026';
+
+export const DEMO_COMPANIES = {
+  gc: 'Halden Row Builders',
+  inspection: 'Fernhill Commissioning',
+  mechanical: 'Kestrel Vale Mechanical',
+  electrical: 'Quillon Electric',
+  ceilings: 'Mossgate Ceilings',
+} as const;
+type CompanyKey = keyof typeof DEMO_COMPANIES;
+
+export const DEMO_ACCOUNTS: { email: string; name: string; company: CompanyKey; role: Role }[] = [
+  { email: 'gc.manager@demo.trimout.example', name: 'Maren Holt', company: 'gc', role: 'gc_manager' },
+  { email: 'inspector@demo.trimout.example', name: 'Idris Calloway', company: 'inspection', role: 'inspector' },
+  { email: 'mechanical@demo.trimout.example', name: 'Tomasz Reed', company: 'mechanical', role: 'subcontractor' },
+  { email: 'electrical@demo.trimout.example', name: 'Ana Brightwater', company: 'electrical', role: 'subcontractor' },
+  { email: 'ceilings@demo.trimout.example', name: 'Joss Amberley', company: 'ceilings', role: 'subcontractor' },
+];
+
+export const DEMO_JOBS = [
+  {
+    key: 'main',
+    name: 'Cinder Lane Commons',
+    number: 'CLC-2611',
+    address: '1400 Cinder Lane, Harrowgate',
+    startsOn: '2025-03-03',
+    endsOn: '2027-01-29',
+    timeZone: 'America/Chicago',
+    members: ['gc.manager', 'inspector', 'mechanical', 'electrical', 'ceilings'],
+  },
+  {
+    key: 'clinic',
+    name: 'Orchard Row Clinic fit-out',
+    number: 'ORC-2702',
+    address: '22 Orchard Row, Harrowgate',
+    startsOn: '2026-09-14',
+    endsOn: '2027-04-30',
+    timeZone: 'America/Chicago',
+    members: ['gc.manager', 'inspector'],
+  },
+] as const;
+
+export async function seedDemo(db: Database): Promise<{ created: boolean }> {
+  if (process.env.NODE_ENV === 'production') {
+    throw new Error('The demo seed never runs in production: it creates accounts with a published password.');
+  }
+  const { Company, User, Job, JobMember } = db.models;
+  const existing = await User.count({ where: { email: DEMO_ACCOUNTS[0]!.email } });
+  if (existing > 0) return { created: false };
+
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  await db.sequelize.transaction(async (transaction) => {
+    const companies = {} as Record<CompanyKey, string>;
+    for (const [key, name] of Object.entries(DEMO_COMPANIES) as [CompanyKey, string][]) {
+      const [company] = await Company.findOrCreate({ where: { name }, defaults: { name }, transaction });
+      companies[key] = company.id;
+    }
+    const users: Record<string, { id: string; role: Role }> = {};
+    for (const account of DEMO_ACCOUNTS) {
+      const [user] = await User.findOrCreate({
+        where: { email: account.email },
+        defaults: { email: account.email, name: account.name, companyId: companies[account.company], passwordHash },
+        transaction,
+      });
+      users[account.email.split('@')[0]!] = { id: user.id, role: account.role };
+    }
+    for (const spec of DEMO_JOBS) {
+      const [job] = await Job.findOrCreate({
+        where: { name: spec.name, ownerCompanyId: companies.gc },
+        defaults: {
+          name: spec.name,
+          number: spec.number,
+          address: spec.address,
+          startsOn: spec.startsOn,
+          endsOn: spec.endsOn,
+          timeZone: spec.timeZone,
+          ownerCompanyId: companies.gc,
+        },
+        transaction,
+      });
+      for (const member of spec.members) {
+        const user = users[member]!;
+        await JobMember.findOrCreate({
+          where: { jobId: job.id, userId: user.id },
+          defaults: { jobId: job.id, userId: user.id, role: user.role },
+          transaction,
+        });
+      }
+    }
+  });
+  return { created: true };
+}
