@@ -52,6 +52,7 @@ export function createApp(options: AppOptions): TrimoutApp {
   const cookieName = env.cookieSecure ? '__Host-trimout.sid' : 'trimout.sid';
 
   const app = express();
+  app.set('sequelize', db.sequelize);
   app.disable('x-powered-by');
   app.set('trust proxy', env.TRUST_PROXY);
   app.set('query parser', 'simple');

@@ -3,9 +3,14 @@
  * run the migrations through umzug, and close it when done.
  */
 import path from 'node:path';
-import { Sequelize } from 'sequelize';
+import { Sequelize, type QueryInterface } from 'sequelize';
 import { Umzug, SequelizeStorage } from 'umzug';
 import { initModels, type Models } from './models';
+
+interface MigrationModule {
+  up(args: { context: QueryInterface }): Promise<void>;
+  down(args: { context: QueryInterface }): Promise<void>;
+}
 
 export interface Database {
   sequelize: Sequelize;
@@ -34,8 +39,9 @@ export function migrator(sequelize: Sequelize) {
         const bare = name.replace(/\.(ts|js)$/, '');
         return {
           name: bare,
-          up: async () => (await import(file!)).up({ context }),
-          down: async () => (await import(file!)).down({ context }),
+          // require, not import(): the server runs as CommonJS under tsx and under jest alike.
+          up: async () => (require(file!) as MigrationModule).up({ context }),
+          down: async () => (require(file!) as MigrationModule).down({ context }),
         };
       },
     },

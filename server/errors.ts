@@ -64,7 +64,11 @@ function classify(err: unknown): HttpError {
   if (err instanceof ConnectionError) {
     return serviceUnavailable('The database is not reachable right now. Try again in a moment.');
   }
-  const e = err as BodyParserError;
+  const e = err as BodyParserError & { code?: string };
+  // The database went away (node-postgres error codes and PostgreSQL SQLSTATE classes 08 and 57P).
+  if (e && typeof e.code === 'string' && (/^(ECONNREFUSED|ECONNRESET|ETIMEDOUT|57P0[1-3])$/.test(e.code) || e.code.startsWith('08'))) {
+    return serviceUnavailable('The database is not reachable right now. Try again in a moment.');
+  }
   // body-parser and multer errors carry a type or code; classify by those, never by message text.
   if (e && typeof e === 'object') {
     if (e.type === 'entity.parse.failed') return badRequest('The request body is not valid JSON.');
@@ -88,12 +92,14 @@ export function errorHandler(log: (msg: string, err: unknown) => void): ErrorReq
       return;
     }
     if (httpError.headers) res.set(httpError.headers);
+    const current = (httpError as { current?: unknown }).current;
     res.status(httpError.status).json({
       error: {
         id: httpError.id,
         message: httpError.message,
         ...(httpError.fields ? { fields: httpError.fields } : {}),
       },
+      ...(current !== undefined ? { current } : {}),
     });
   };
 }

@@ -45,7 +45,7 @@ export function JobListScreen() {
 function JobCard({ job }: { job: SessionJob }) {
   return (
     <Link href={{ pathname: '/jobs/[jobId]', params: { jobId: job.id } }} asChild>
-      <Pressable style={({ pressed }) => [styles.card, pressed && styles.pressed]} testID={`job-card-${job.id}`} accessibilityRole="link">
+      <Pressable style={styles.card} testID={`job-card-${job.id}`} accessibilityRole="link">
         <View style={styles.cardTop}>
           <AppText variant="small" muted>
             {job.number ? `Job ${job.number}` : 'Job'}
@@ -74,6 +74,5 @@ const styles = StyleSheet.create({
     padding: space.lg,
     gap: space.xs,
   },
-  pressed: { opacity: 0.8 },
   cardTop: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.sm },
 });

@@ -1,4 +1,4 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { QueryClient, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { SessionResponse, SignInInput } from '../../shared/schemas/session';
 import { apiGet, setCsrfToken } from '../api/client';
 import { newWrite, sendWrite } from '../api/mutations';
@@ -11,6 +11,14 @@ async function fetchSession(): Promise<SessionResponse> {
   return session;
 }
 
+/**
+ * Another user's data must not survive a sign-in or sign-out. The session query itself stays
+ * (screens observe it) and is overwritten or refetched.
+ */
+function forgetEverythingButSession(queryClient: QueryClient) {
+  queryClient.removeQueries({ predicate: (q) => q.queryKey[0] !== sessionKeys.all[0] });
+}
+
 export function useSessionQuery() {
   return useQuery({ queryKey: sessionKeys.all, queryFn: fetchSession, staleTime: 60_000 });
 }
@@ -21,7 +29,7 @@ export function useSignInMutation() {
     mutationFn: (input: SignInInput) => sendWrite<SessionResponse>(newWrite({ method: 'POST', path: '/api/session', body: input })),
     onSuccess: (session) => {
       setCsrfToken(session.csrfToken);
-      queryClient.clear();
+      forgetEverythingButSession(queryClient);
       queryClient.setQueryData(sessionKeys.all, session);
     },
   });
@@ -32,8 +40,8 @@ export function useSignOutMutation() {
   return useMutation({
     mutationFn: () => sendWrite<void>(newWrite({ method: 'DELETE', path: '/api/session' })),
     onSettled: async () => {
-      queryClient.clear();
-      await queryClient.fetchQuery({ queryKey: sessionKeys.all, queryFn: fetchSession });
+      forgetEverythingButSession(queryClient);
+      await queryClient.refetchQueries({ queryKey: sessionKeys.all });
     },
   });
 }

@@ -1,0 +1,85 @@
+/**
+ * Idempotent writes (IETF draft "The Idempotency-Key HTTP Header Field").
+ *
+ * A handler wraps its write in `idempotentWrite(req, res, work)`. In ONE transaction it claims
+ * the key (user, key) with INSERT ... ON CONFLICT DO NOTHING, runs the write, and stores the
+ * response; so either the record and its stored response both exist, or neither does.
+ * - the same key again with the same request → the stored response is replayed (same status);
+ * - the same key with another request body or path → 422;
+ * - a replay while the first is still running waits on the unique index, then replays.
+ * Keys are kept 7 days (see security.md), longer than a phone's outbox keeps a request.
+ * Without the header the write simply runs once (scripts, tests that do not care).
+ */
+import { createHash } from 'node:crypto';
+import type { Request, Response } from 'express';
+import { QueryTypes, type Transaction } from 'sequelize';
+import { badRequest, unprocessable } from '../errors';
+
+export const IDEMPOTENCY_RETENTION_DAYS = 7;
+const KEY_PATTERN = /^[A-Za-z0-9._:-]{8,100}$/;
+
+export interface WriteResult {
+  status: number;
+  body: unknown;
+}
+
+function fingerprint(req: Request): string {
+  return createHash('sha256')
+    .update(`${req.method} ${req.baseUrl}${req.path}\n`)
+    .update(JSON.stringify(req.body ?? null))
+    .digest('hex');
+}
+
+export async function idempotentWrite(
+  req: Request,
+  res: Response,
+  work: (transaction: Transaction) => Promise<WriteResult>,
+): Promise<void> {
+  const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
+  const key = req.get('idempotency-key');
+  if (key !== undefined && !KEY_PATTERN.test(key)) {
+    throw badRequest('Idempotency-Key: use 8 to 100 letters, digits, dots, dashes, colons or underscores.', {
+      'Idempotency-Key': 'Not a valid key.',
+    });
+  }
+  const userId = req.user?.id;
+  const result = await sequelize.transaction(async (transaction) => {
+    if (!key || !userId) return { replay: false, ...(await work(transaction)) };
+    const print = fingerprint(req);
+    const claimed = await sequelize.query<{ id: string }>(
+      `INSERT INTO idempotency_keys (user_id, key, fingerprint, response_status, created_at)
+       VALUES ($1, $2, $3, 0, now())
+       ON CONFLICT (user_id, key) DO NOTHING
+       RETURNING id`,
+      { bind: [userId, key, print], type: QueryTypes.SELECT, transaction },
+    );
+    if (claimed.length === 0) {
+      const [stored] = await sequelize.query<{ fingerprint: string; response_status: number; response_body: unknown }>(
+        `SELECT fingerprint, response_status, response_body FROM idempotency_keys WHERE user_id = $1 AND key = $2`,
+        { bind: [userId, key], type: QueryTypes.SELECT, transaction },
+      );
+      if (!stored || stored.fingerprint !== print) {
+        throw unprocessable('This Idempotency-Key was already used for a different request.');
+      }
+      return { replay: true, status: stored.response_status, body: stored.response_body };
+    }
+    const outcome = await work(transaction);
+    await sequelize.query(`UPDATE idempotency_keys SET response_status = $1, response_body = $2 WHERE id = $3`, {
+      bind: [outcome.status, JSON.stringify(outcome.body ?? null), claimed[0]!.id],
+      transaction,
+    });
+    return { replay: false, ...outcome };
+  });
+  if (result.replay) res.set('Idempotent-Replayed', 'true');
+  if (result.body === undefined || result.body === null) res.status(result.status).end();
+  else res.status(result.status).json(result.body);
+}
+
+/** Deletes keys past their retention; run by the scheduler. */
+export async function pruneIdempotencyKeys(sequelize: import('sequelize').Sequelize): Promise<number> {
+  const [, meta] = await sequelize.query(
+    `DELETE FROM idempotency_keys WHERE created_at < now() - ($1 || ' days')::interval`,
+    { bind: [String(IDEMPOTENCY_RETENTION_DAYS)] },
+  );
+  return (meta as { rowCount?: number })?.rowCount ?? 0;
+}

@@ -1,0 +1,97 @@
+/**
+ * Browser tests: the real server (API + exported web app from dist/) on a free port, and
+ * Debian's chromium driven by playwright-core. Screenshots go to .artifacts/screenshots
+ * (git-ignored) to be looked at.
+ */
+import fs from 'node:fs';
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import type { TrimoutApp } from '../../server/app';
+import type { Database } from '../../server/db';
+import { buildTestApp, testEnv } from './app';
+import { connectTestDb } from './db';
+
+export const PHONE = { width: 390, height: 844 } as const;
+export const WIDE = { width: 1280, height: 800 } as const;
+
+export const artifactsDir = process.env.TRIMOUT_ARTIFACTS ?? path.resolve(__dirname, '..', '..', '.artifacts');
+export const screenshotsDir = path.join(artifactsDir, 'screenshots');
+
+export interface BrowserHarness {
+  db: Database;
+  trimout: TrimoutApp;
+  baseUrl: string;
+  newPage(viewport: { width: number; height: number }): Promise<{ page: Page; context: BrowserContext; problems: string[] }>;
+  screenshot(page: Page, name: string): Promise<void>;
+  close(): Promise<void>;
+}
+
+export async function startBrowserHarness(): Promise<BrowserHarness> {
+  const dist = process.env.WEB_DIST ?? path.resolve(__dirname, '..', '..', 'dist');
+  if (!fs.existsSync(path.join(dist, 'index.html'))) throw new Error(`No web build in ${dist}: run \`npm test\`, which builds it.`);
+  const db = await connectTestDb();
+  const trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }) });
+  const server: Server = await new Promise((resolve) => {
+    const s = trimout.app.listen(0, '127.0.0.1', () => resolve(s));
+  });
+  const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  const userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'trimout-chromium-'));
+  const context = await chromium.launchPersistentContext(userDataDir, {
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    args: [
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
+  });
+  const browser = context.browser();
+  fs.mkdirSync(screenshotsDir, { recursive: true });
+  const contexts: BrowserContext[] = [];
+
+  return {
+    db,
+    trimout,
+    baseUrl,
+    async newPage(viewport) {
+      // A fresh, isolated context per page: its own cookies. Persistent contexts cannot
+      // spawn siblings, so pages share `context` only when no browser object exists.
+      const ctx = browser ? await browser.newContext({ viewport, baseURL: baseUrl }) : context;
+      if (browser) contexts.push(ctx);
+      else await ctx.clearCookies();
+      const page = await ctx.newPage();
+      if (!browser) await page.setViewportSize(viewport);
+      const problems: string[] = [];
+      page.on('console', (msg) => {
+        const text = msg.text();
+        if (msg.type() === 'error' && !/Failed to load resource: the server responded with a status of 40[14]/.test(text)) {
+          problems.push(`console: ${text}`);
+        }
+      });
+      page.on('pageerror', (err) => problems.push(`page error: ${err.message}`));
+      return { page, context: ctx, problems };
+    },
+    async screenshot(page, name) {
+      await page.screenshot({ path: path.join(screenshotsDir, `${name}.png`), fullPage: true });
+    },
+    async close() {
+      for (const ctx of contexts) await ctx.close().catch(() => undefined);
+      await context.close();
+      fs.rmSync(userDataDir, { recursive: true, force: true });
+      await new Promise<void>((resolve) => {
+        server.close(() => resolve());
+        server.closeAllConnections();
+      });
+      await trimout.close();
+      await db.close();
+    },
+  };
+}
