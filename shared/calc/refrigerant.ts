@@ -1,0 +1,360 @@
+/**
+ * Refrigerant concentration: a system's total charge (factory + field-added) against the
+ * concentration limit × volume of the smallest enclosed occupied space its units serve; and the
+ * A2L (R-32) minimum room floor area of IEC 60335-2-40:2018 Annex GG.
+ *
+ * Spaces joined by permanent openings count together: union-find over the links, volume = sum.
+ * Institutional occupancy halves the limit for any group that contains an institutional space
+ * (IMC 1104.3 / ASHRAE 15; section from memory). The governing group is the one that allows the
+ * least charge (usually the smallest volume; a halved group can govern over a smaller one).
+ *
+ * Limits are published twice, in lb per 1,000 ft³ (lb/Mcf) and g/m³, each rounded on its own, so
+ * they are not exact conversions of each other. Trimout computes in the figure printed for the job's
+ * unit system: lb/Mcf for imperial jobs, g/m³ for metric jobs. Never expect the two to round-trip.
+ *
+ * No value is invented: a refrigerant without a stored, published limit (R-454B here) returns
+ * `limit_not_set` until the job enters the limit with its source (`override`).
+ */
+import type { EditionChoice, UnitSystem } from '../catalogue/types';
+import type { Refrigerant } from '../words';
+import type { CodeDocument } from '../catalogue/types';
+import { DEFAULT_EDITIONS } from './limits';
+import type { Provenance } from './limits';
+import { CUBIC_METRES_PER_CUBIC_FOOT, formatQuantity, KG_PER_POUND, roundToResolution } from './quantity';
+import type { RuleStatus } from './rules';
+
+export interface ConcentrationLimit {
+  refrigerant: Refrigerant;
+  /** Safety group (ASHRAE 34): A1 non-flammable, A2L mildly flammable. */
+  safetyGroup: 'A1' | 'A2L';
+  document: CodeDocument;
+  editions: readonly string[];
+  section: string;
+  lbPerMcf: number;
+  gPerM3: number;
+  provenance: Provenance;
+  note?: string;
+}
+
+/** Stored concentration limits (RCL). R-454B deliberately absent. */
+export const CONCENTRATION_LIMITS: readonly ConcentrationLimit[] = [
+  {
+    refrigerant: 'R-410A',
+    safetyGroup: 'A1',
+    document: 'ASHRAE 34',
+    editions: ['2010', '2013', '2016', '2019', '2022'],
+    section: 'Table 4-2, refrigerant concentration limit (RCL)',
+    lbPerMcf: 26,
+    gPerM3: 420,
+    provenance: 'issue text',
+    note: 'Current editions print 26 lb/Mcf; the g/m³ figure (420) and the list of editions are from memory.',
+  },
+  {
+    refrigerant: 'R-410A',
+    safetyGroup: 'A1',
+    document: 'ASHRAE 34',
+    editions: ['pre-2010'],
+    section: 'Table of refrigerant concentration limits (older edition)',
+    lbPerMcf: 25,
+    gPerM3: 400,
+    provenance: 'issue text',
+    note: 'An older edition printed 25 lb/Mcf (issue text). Which edition exactly is not confirmed here; the g/m³ figure is from memory.',
+  },
+  {
+    refrigerant: 'R-32',
+    safetyGroup: 'A2L',
+    document: 'IMC',
+    editions: ['2018', '2021'],
+    section: 'Table 1103.1',
+    lbPerMcf: 4.8,
+    gPerM3: 77,
+    provenance: 'issue text',
+    note: 'Values from the issue text; the editions listed are from memory. Also ASHRAE 34 RCL for R-32 (from memory). For A2L systems the IEC 60335-2-40 Annex GG floor-area check also applies.',
+  },
+];
+
+export type LimitUnit = 'lb/Mcf' | 'g/m³' | 'kg/m³';
+
+/** A limit the job enters itself, with its source (required for refrigerants we hold no value for). */
+export interface LimitOverride {
+  value: number;
+  unit: LimitUnit;
+  source: string;
+}
+
+export interface ConcentrationSpace {
+  id: string;
+  name?: string;
+  /** m³; or give floorArea and ceilingHeight. */
+  volume?: number;
+  /** m² */
+  floorArea?: number;
+  /** mm */
+  ceilingHeight?: number;
+  institutional?: boolean;
+}
+
+export interface ConcentrationInput {
+  refrigerant: Refrigerant;
+  /** kg */
+  factoryCharge: number;
+  /** kg, added in the field for line length */
+  fieldCharge: number;
+  /** Ids of the spaces the system's indoor units serve. */
+  servedSpaceIds: readonly string[];
+  spaces: readonly ConcentrationSpace[];
+  /** Pairs of space ids joined by a permanent opening. */
+  openings?: ReadonlyArray<readonly [string, string]>;
+  editions?: EditionChoice;
+  override?: LimitOverride;
+  system?: UnitSystem;
+}
+
+export interface SpaceGroupResult {
+  spaceIds: string[];
+  names: string[];
+  /** m³ */
+  volume: number;
+  /** m², null when a space was given by volume only */
+  floorArea: number | null;
+  /** mm: volume ÷ floor area (the ceiling height of a single space) */
+  ceilingHeight: number | null;
+  institutional: boolean;
+  /** kg/m³ after any institutional halving */
+  limitDensity: number;
+  /** kg */
+  allowedCharge: number;
+  /** m³ the total charge needs */
+  requiredVolume: number;
+  /** m² the total charge needs at this group's ceiling height */
+  requiredFloorArea: number | null;
+  pass: boolean;
+}
+
+export interface ConcentrationResult {
+  status: RuleStatus;
+  pass: boolean | null;
+  refrigerant: Refrigerant;
+  /** kg */
+  totalCharge: number;
+  limit: { value: number; unit: LimitUnit; density: number; source: string } | null;
+  governing: SpaceGroupResult | null;
+  groups: SpaceGroupResult[];
+  message: string;
+}
+
+/** kg/m³ for a limit in any of the accepted units. lb/Mcf uses the exact lb and ft³. */
+export function limitDensity(value: number, unit: LimitUnit): number {
+  if (unit === 'lb/Mcf') return (value * KG_PER_POUND) / (1000 * CUBIC_METRES_PER_CUBIC_FOOT);
+  if (unit === 'g/m³') return value / 1000;
+  return value;
+}
+
+/** The stored limit for a refrigerant in the job's chosen edition; undefined when none is stored. */
+export function pickConcentrationLimit(refrigerant: Refrigerant, editions: EditionChoice = {}): ConcentrationLimit | undefined {
+  return CONCENTRATION_LIMITS.find((l) => {
+    if (l.refrigerant !== refrigerant) return false;
+    const ed = editions[l.document] ?? DEFAULT_EDITIONS[l.document];
+    return l.editions.includes(ed);
+  });
+}
+
+/** Union-find over space ids. Returns groups of ids (each sorted), in first-seen order. */
+export function groupConnectedSpaces(ids: readonly string[], links: ReadonlyArray<readonly [string, string]>): string[][] {
+  const parent = new Map<string, string>();
+  for (const id of ids) parent.set(id, id);
+  const find = (x: string): string => {
+    let r = x;
+    while (parent.get(r) !== r) r = parent.get(r) ?? r;
+    let c = x;
+    while (parent.get(c) !== r) {
+      const next = parent.get(c) ?? r;
+      parent.set(c, r);
+      c = next;
+    }
+    return r;
+  };
+  for (const [a, b] of links) {
+    if (!parent.has(a) || !parent.has(b)) continue;
+    const ra = find(a);
+    const rb = find(b);
+    if (ra !== rb) parent.set(rb, ra);
+  }
+  const groups = new Map<string, string[]>();
+  for (const id of ids) {
+    const r = find(id);
+    const g = groups.get(r) ?? [];
+    g.push(id);
+    groups.set(r, g);
+  }
+  return [...groups.values()];
+}
+
+function spaceVolume(s: ConcentrationSpace): number | null {
+  if (s.volume !== undefined) return Number.isFinite(s.volume) && s.volume > 0 ? s.volume : null;
+  if (s.floorArea !== undefined && s.ceilingHeight !== undefined) {
+    const v = (s.floorArea * s.ceilingHeight) / 1000;
+    return Number.isFinite(v) && v > 0 ? v : null;
+  }
+  return null;
+}
+
+/** System charge against the smallest served space (or connected group of spaces). */
+export function checkRefrigerantConcentration(input: ConcentrationInput): ConcentrationResult {
+  const system = input.system ?? 'imperial';
+  const totalCharge = input.factoryCharge + input.fieldCharge;
+  const mass = (kg: number): string => formatQuantity(kg, 'mass', system);
+  const empty = { refrigerant: input.refrigerant, totalCharge, governing: null, groups: [] as SpaceGroupResult[] };
+
+  if (!Number.isFinite(totalCharge) || input.factoryCharge < 0 || input.fieldCharge < 0) {
+    return { ...empty, status: 'invalid', pass: null, limit: null, message: 'Charges must be zero or more (factory and field-added, kg).' };
+  }
+
+  let limit: ConcentrationResult['limit'];
+  if (input.override) {
+    const o = input.override;
+    if (!Number.isFinite(o.value) || o.value <= 0 || o.source.trim() === '') {
+      return { ...empty, status: 'invalid', pass: null, limit: null, message: 'An entered concentration limit needs a value above zero and its source.' };
+    }
+    limit = { value: o.value, unit: o.unit, density: limitDensity(o.value, o.unit), source: `Job entry: ${o.source}` };
+  } else {
+    const stored = pickConcentrationLimit(input.refrigerant, input.editions);
+    if (!stored) {
+      const anyStored = CONCENTRATION_LIMITS.some((l) => l.refrigerant === input.refrigerant);
+      return {
+        ...empty,
+        status: 'limit_not_set',
+        pass: null,
+        limit: null,
+        message: anyStored
+          ? `No ${input.refrigerant} concentration limit is stored for the chosen edition: the job must enter the limit with its source (document, edition, table).`
+          : `No confirmed published concentration limit for ${input.refrigerant} is stored: the job must enter the limit with its source (document, edition, table).`,
+      };
+    }
+    const ed = input.editions?.[stored.document] ?? DEFAULT_EDITIONS[stored.document];
+    const unit: LimitUnit = system === 'imperial' ? 'lb/Mcf' : 'g/m³';
+    const value = unit === 'lb/Mcf' ? stored.lbPerMcf : stored.gPerM3;
+    limit = { value, unit, density: limitDensity(value, unit), source: `${stored.document} ${ed} ${stored.section}` };
+  }
+
+  const served = new Set(input.servedSpaceIds);
+  const byId = new Map(input.spaces.map((s) => [s.id, s]));
+  const missing = [...served].filter((id) => !byId.has(id));
+  if (served.size === 0 || missing.length > 0) {
+    return {
+      ...empty,
+      status: 'invalid',
+      pass: null,
+      limit,
+      message: served.size === 0 ? 'The system serves no spaces: assign its units to spaces.' : `Unknown served space(s): ${missing.join(', ')}.`,
+    };
+  }
+  const noVolume = input.spaces.filter((s) => spaceVolume(s) === null).map((s) => s.name ?? s.id);
+  if (noVolume.length > 0) {
+    return { ...empty, status: 'invalid', pass: null, limit, message: `Space(s) without a volume (floor area and ceiling height): ${noVolume.join(', ')}.` };
+  }
+
+  const groups: SpaceGroupResult[] = [];
+  for (const ids of groupConnectedSpaces(input.spaces.map((s) => s.id), input.openings ?? [])) {
+    if (!ids.some((id) => served.has(id))) continue;
+    const spaces = ids.map((id) => byId.get(id)).filter((s): s is ConcentrationSpace => s !== undefined);
+    const volume = spaces.reduce((sum, s) => sum + (spaceVolume(s) ?? 0), 0);
+    const areas = spaces.map((s) => s.floorArea);
+    const floorArea = areas.every((a): a is number => a !== undefined && a > 0) ? areas.reduce((x, y) => x + y, 0) : null;
+    const ceilingHeight = floorArea ? (volume / floorArea) * 1000 : null;
+    const institutional = spaces.some((s) => s.institutional === true);
+    const density = institutional ? limit.density / 2 : limit.density;
+    const allowedCharge = density * volume;
+    const requiredVolume = totalCharge / density;
+    groups.push({
+      spaceIds: ids,
+      names: spaces.map((s) => s.name ?? s.id),
+      volume,
+      floorArea,
+      ceilingHeight,
+      institutional,
+      limitDensity: density,
+      allowedCharge,
+      requiredVolume,
+      requiredFloorArea: ceilingHeight ? requiredVolume / (ceilingHeight / 1000) : null,
+      pass: roundToResolution(allowedCharge - totalCharge) >= 0,
+    });
+  }
+  const governing = groups.reduce<SpaceGroupResult | null>((g, x) => (g === null || x.allowedCharge < g.allowedCharge ? x : g), null);
+  if (!governing) {
+    return { ...empty, status: 'invalid', pass: null, limit, message: 'No served space found.' };
+  }
+  const pass = governing.pass;
+  const where = governing.names.join(' + ');
+  const half = governing.institutional ? ' (halved: institutional occupancy)' : '';
+  const need = governing.requiredFloorArea !== null
+    ? ` It would need ${formatQuantity(governing.requiredVolume, 'volume', system)}, i.e. ${formatQuantity(governing.requiredFloorArea, 'area', system)} of floor at its ${formatQuantity(governing.ceilingHeight ?? 0, 'length', system)} ceiling.`
+    : ` It would need ${formatQuantity(governing.requiredVolume, 'volume', system)}.`;
+  const message = pass
+    ? `${input.refrigerant} ${mass(totalCharge)} is within the ${mass(governing.allowedCharge)} that ${where} (${formatQuantity(governing.volume, 'volume', system)}) allows at ${limit.value} ${limit.unit}${half} (${limit.source}).`
+    : `${input.refrigerant} ${mass(totalCharge)} exceeds the ${mass(governing.allowedCharge)} that ${where} (${formatQuantity(governing.volume, 'volume', system)}) allows at ${limit.value} ${limit.unit}${half} (${limit.source}).${need}`;
+  return { status: pass ? 'pass' : 'fail', pass, refrigerant: input.refrigerant, totalCharge, limit, governing, groups, message };
+}
+
+// ------------------------------------------------------------------------------------------------
+// A2L minimum floor area: IEC 60335-2-40:2018 Annex GG
+// ------------------------------------------------------------------------------------------------
+
+/** Lower flammability limits, kg/m³ (IEC 60335-2-40:2018 Annex BB / ISO 817). R-454B not stored. */
+export const LFL: Partial<Record<Refrigerant, { value: number; source: string }>> = {
+  'R-32': { value: 0.307, source: 'IEC 60335-2-40:2018 (R-32 LFL 0.307 kg/m³; issue text)' },
+};
+
+/** Release heights h0 of Annex GG, m: floor-standing 0.6, wall-mounted 1.8, ceiling-mounted 2.2. */
+export const RELEASE_HEIGHTS = { floor: 0.6, wall: 1.8, ceiling: 2.2 } as const;
+export type MountPosition = keyof typeof RELEASE_HEIGHTS;
+
+/**
+ * A_min = (m / (2.5 × LFL^(5/4) × h0))², m², for charge m in kg, LFL in kg/m³, h0 in m.
+ * (IEC 60335-2-40:2018 Annex GG.2.)
+ */
+export function a2lMinFloorArea(chargeKg: number, mount: MountPosition | number, lfl = 0.307): number {
+  const h0 = typeof mount === 'number' ? mount : RELEASE_HEIGHTS[mount];
+  if (!(chargeKg >= 0) || !(h0 > 0) || !(lfl > 0)) {
+    throw new RangeError('A_min needs a charge ≥ 0 kg, a release height > 0 m and an LFL > 0 kg/m³.');
+  }
+  return (chargeKg / (2.5 * lfl ** 1.25 * h0)) ** 2;
+}
+
+export interface A2lAreaResult {
+  status: RuleStatus;
+  pass: boolean | null;
+  minArea: number | null;
+  margin: number | null;
+  message: string;
+}
+
+/** Room floor area (m²) against A_min for the charge and mounting position. */
+export function checkA2lFloorArea(input: {
+  refrigerant: Refrigerant;
+  chargeKg: number;
+  floorArea: number | null;
+  mount: MountPosition;
+  /** kg/m³; required for refrigerants without a stored LFL. */
+  lfl?: number;
+  system?: UnitSystem;
+}): A2lAreaResult {
+  const lfl = input.lfl ?? LFL[input.refrigerant]?.value;
+  if (lfl === undefined) {
+    return { status: 'limit_not_set', pass: null, minArea: null, margin: null, message: `No LFL is stored for ${input.refrigerant}: enter it with its source.` };
+  }
+  const minArea = a2lMinFloorArea(input.chargeKg, input.mount, lfl);
+  const sys = input.system ?? 'metric';
+  if (input.floorArea === null) {
+    return { status: 'not_measured', pass: null, minArea, margin: null, message: `Room floor area not entered; ${formatQuantity(minArea, 'area', sys)} is needed.` };
+  }
+  const margin = roundToResolution(input.floorArea - minArea);
+  const pass = margin >= 0;
+  return {
+    status: pass ? 'pass' : 'fail',
+    pass,
+    minArea,
+    margin,
+    message: `${input.refrigerant} ${formatQuantity(input.chargeKg, 'mass', sys)}, ${input.mount}-mounted, needs ${formatQuantity(minArea, 'area', sys)} of floor (IEC 60335-2-40:2018 Annex GG); the room has ${formatQuantity(input.floorArea, 'area', sys)}.`,
+  };
+}
