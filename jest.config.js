@@ -27,7 +27,7 @@ module.exports = {
     {
       displayName: 'components',
       rootDir: __dirname,
-      preset: 'jest-expo/web',
+      preset: 'jest-expo',
       testMatch: ['<rootDir>/tests/components/**/*.test.tsx'],
     },
     {

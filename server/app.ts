@@ -15,7 +15,11 @@ import type { Env } from './env';
 import { apiNotFound, errorHandler, unauthorized } from './errors';
 import { csrfProtection } from './middleware/csrf';
 import { requireJsonBody } from './middleware/json';
+import { createMailService, type MailService } from './mail';
+import { accountsRouter } from './routes/accounts';
+import { devMailRouter } from './routes/devMail';
 import { healthRouter } from './routes/health';
+import { invitationsRouter } from './routes/invitations';
 import { jobsRouter } from './routes/jobs';
 import { sessionRouter } from './routes/session';
 
@@ -36,10 +40,14 @@ export interface AppOptions {
   sessionAbsoluteMs?: number;
   signInLimits?: { perAccount: number; perAddress: number; windowMs: number };
   log?: (message: string, err?: unknown) => void;
+  /** Mail (server/mail): made from env when not given; tests pass one on their fake SMTP server. */
+  mail?: MailService;
 }
 
 export interface TrimoutApp {
   app: Express;
+  /** The /api router, for tests that walk every route. */
+  api: express.Router;
   /** Ends the session store's pool. The caller closes the database. */
   close(): Promise<void>;
 }
@@ -50,6 +58,8 @@ export function createApp(options: AppOptions): TrimoutApp {
   const idleMs = options.sessionIdleMs ?? 2 * HOUR;
   const absoluteMs = options.sessionAbsoluteMs ?? 12 * HOUR;
   const cookieName = env.cookieSecure ? '__Host-trimout.sid' : 'trimout.sid';
+  const mail = options.mail ?? createMailService({ env, log });
+  const signInLimits = options.signInLimits ?? { perAccount: 10, perAddress: 100, windowMs: 15 * 60 * 1000 };
 
   const app = express();
   app.set('sequelize', db.sequelize);
@@ -126,9 +136,12 @@ export function createApp(options: AppOptions): TrimoutApp {
       passport,
       csrfSecret: env.sessionSecrets[0]!,
       cookieName,
-      signInLimits: options.signInLimits ?? { perAccount: 10, perAddress: 100, windowMs: 15 * 60 * 1000 },
+      signInLimits,
     }),
   );
+  api.use(accountsRouter({ mail, limits: signInLimits }));
+  api.use(invitationsRouter({ mail, limits: signInLimits }));
+  api.use(devMailRouter(mail));
   api.use(jobsRouter());
   api.use(apiNotFound);
 
@@ -157,6 +170,7 @@ export function createApp(options: AppOptions): TrimoutApp {
 
   return {
     app,
+    api,
     close: async () => {
       await sessionPool.end();
     },
