@@ -20,6 +20,8 @@ module.exports = {
     {
       displayName: 'server',
       rootDir: __dirname,
+      // Real scrypt hashes and a real database: generous on a busy 2-core machine.
+      testTimeout: 30_000,
       testEnvironment: 'node',
       testMatch: ['<rootDir>/tests/server/**/*.test.ts'],
       transform: { '^.+\\.tsx?$': tsJest },
