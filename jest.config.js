@@ -9,6 +9,9 @@
 const tsJest = ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.json' }];
 
 module.exports = {
+  // Real scrypt hashes, a real database and a real browser: generous on a busy 2-core machine.
+  // (testTimeout is a global option: jest ignores it inside a project.)
+  testTimeout: 60_000,
   projects: [
     {
       displayName: 'shared',
@@ -20,8 +23,6 @@ module.exports = {
     {
       displayName: 'server',
       rootDir: __dirname,
-      // Real scrypt hashes and a real database: generous on a busy 2-core machine.
-      testTimeout: 30_000,
       testEnvironment: 'node',
       testMatch: ['<rootDir>/tests/server/**/*.test.ts'],
       transform: { '^.+\\.tsx?$': tsJest },

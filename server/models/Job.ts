@@ -1,4 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import type { CodeEditions, RecurringThresholds, SeverityDueDays, StatedLimitDto } from '../../shared/schemas/setup';
+import type { JobSettingKey } from '../../shared/catalogue/types';
 import type { Company } from './Company';
 
 export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job>> {
@@ -12,6 +14,11 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   declare endsOn: CreationOptional<string | null>;
   declare timeZone: CreationOptional<string>;
   declare unitSystem: CreationOptional<'imperial' | 'metric'>;
+  /** Job set-up (migration 20261201010000). */
+  declare codeEditions: CreationOptional<CodeEditions>;
+  declare severityDueDays: CreationOptional<SeverityDueDays>;
+  declare recurringThresholds: CreationOptional<RecurringThresholds>;
+  declare settings: CreationOptional<Partial<Record<JobSettingKey, StatedLimitDto>>>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -28,6 +35,10 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
         endsOn: { type: DataTypes.DATEONLY, allowNull: true },
         timeZone: { type: DataTypes.STRING(64), allowNull: false, defaultValue: 'UTC' },
         unitSystem: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'imperial' },
+        codeEditions: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
+        severityDueDays: { type: DataTypes.JSONB, allowNull: false, defaultValue: { critical: 2, major: 7, minor: 14 } },
+        recurringThresholds: { type: DataTypes.JSONB, allowNull: false, defaultValue: { minUnits: 5, windowDays: 14 } },
+        settings: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
         version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

@@ -5,6 +5,9 @@
 import type { Database } from '../db';
 import { hashPassword } from '../auth/passwords';
 import type { Role } from '../../shared/words';
+import { seedDemoSetup } from './demoSetup';
+
+export { DEMO_COMPANY_TRADES, DEMO_MODELS, DEMO_SYSTEMS } from './demoSetup';
 
 export const DEMO_PASSWORD = 'trimout-demo-2026';
 
@@ -52,10 +55,36 @@ export async function seedDemo(db: Database): Promise<{ created: boolean }> {
   if (process.env.NODE_ENV === 'production') {
     throw new Error('The demo seed never runs in production: it creates accounts with a published password.');
   }
-  const { Company, User, Job, JobMember } = db.models;
+  const { Company, User, Job } = db.models;
   const existing = await User.count({ where: { email: DEMO_ACCOUNTS[0]!.email } });
-  if (existing > 0) return { created: false };
+  let created = false;
+  if (existing === 0) {
+    await seedAccountsAndJobs(db);
+    created = true;
+  }
+  // Job set-up (levels, spaces, systems, models, units, companies on the job, catalogue): each
+  // part only when missing, so a database seeded before set-up existed gets it too.
+  const setUp = await db.sequelize.transaction(async (transaction) => {
+    const companies = {} as Record<CompanyKey, string>;
+    for (const [key, name] of Object.entries(DEMO_COMPANIES) as [CompanyKey, string][]) {
+      const company = await Company.findOne({ where: { name }, transaction });
+      if (!company) return false;
+      companies[key] = company.id;
+    }
+    const ids: Record<string, string> = {};
+    for (const spec of DEMO_JOBS) {
+      const job = await Job.findOne({ where: { name: spec.name, ownerCompanyId: companies.gc }, transaction });
+      if (!job) return false;
+      ids[spec.key] = job.id;
+    }
+    const others = DEMO_JOBS.filter((j) => j.key !== 'main').map((j) => ids[j.key]!);
+    return seedDemoSetup(db, { main: ids.main!, others }, companies, transaction);
+  });
+  return { created: created || setUp };
+}
 
+async function seedAccountsAndJobs(db: Database): Promise<void> {
+  const { Company, User, Job, JobMember } = db.models;
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   await db.sequelize.transaction(async (transaction) => {
     const companies = {} as Record<CompanyKey, string>;
@@ -96,5 +125,4 @@ export async function seedDemo(db: Database): Promise<{ created: boolean }> {
       }
     }
   });
-  return { created: true };
 }

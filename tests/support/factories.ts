@@ -4,8 +4,9 @@
  */
 import { randomUUID } from 'node:crypto';
 import { hashPassword } from '../../server/auth/passwords';
-import { Company, Job, JobMember, User } from '../../server/models';
-import type { Role } from '../../shared/words';
+import { CatalogueItem, Company, Job, JobCompany, JobMember, Level, Space, System, Unit, UnitModel, User } from '../../server/models';
+import { copyBuiltinCatalogue } from '../../server/services/catalogue';
+import type { Refrigerant, Role, TradeKey, UnitKindKey } from '../../shared/words';
 
 export const TEST_PASSWORD = 'correct horse battery staple';
 let passwordHash: Promise<string> | undefined;
@@ -56,4 +57,81 @@ export async function buildJobWithCrew() {
   await addMember(job.id, subA.id, 'subcontractor');
   await addMember(job.id, subB.id, 'subcontractor');
   return { job, gcCompany, gcManager, inspector, subA, subB };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Job set-up builders (levels, spaces, systems, unit models, units, companies on a job, catalogue)
+// ---------------------------------------------------------------------------------------------
+
+export async function buildLevel(jobId: string, overrides: Partial<{ name: string; position: number }> = {}) {
+  const position = overrides.position ?? ((await Level.max<number, Level>('position', { where: { jobId } })) ?? 0) + 1;
+  return Level.create({ jobId, name: overrides.name ?? `Level ${unique()}`, position });
+}
+
+export async function buildSpace(
+  jobId: string,
+  levelId: string,
+  overrides: Partial<{ name: string; floorArea: number | null; ceilingHeight: number | null; occupancy: 'general' | 'institutional'; enclosed: boolean }> = {},
+) {
+  return Space.create({
+    jobId,
+    levelId,
+    name: overrides.name ?? `Space ${unique()}`,
+    floorArea: overrides.floorArea === undefined ? 20 : overrides.floorArea,
+    ceilingHeight: overrides.ceilingHeight === undefined ? 2700 : overrides.ceilingHeight,
+    ...(overrides.occupancy ? { occupancy: overrides.occupancy } : {}),
+    ...(overrides.enclosed !== undefined ? { enclosed: overrides.enclosed } : {}),
+  });
+}
+
+export async function buildSystem(
+  jobId: string,
+  overrides: Partial<{ name: string; refrigerant: Refrigerant; factoryCharge: number | null; fieldCharge: number | null }> = {},
+) {
+  return System.create({
+    jobId,
+    name: overrides.name ?? `System ${unique()}`,
+    outdoorModel: null,
+    refrigerant: overrides.refrigerant ?? 'R-410A',
+    factoryCharge: overrides.factoryCharge === undefined ? 10 : overrides.factoryCharge,
+    fieldCharge: overrides.fieldCharge === undefined ? 2 : overrides.fieldCharge,
+    concentrationLimitOverride: null,
+  });
+}
+
+export async function buildUnitModel(jobId: string, overrides: Partial<{ name: string; unitKind: UnitKindKey; modelNumber: string | null }> = {}) {
+  return UnitModel.create({
+    jobId,
+    name: overrides.name ?? `Model ${unique()}`,
+    modelNumber: overrides.modelNumber ?? null,
+    unitKind: overrides.unitKind ?? 'cassette_4way',
+    nominalCapacity: null,
+  });
+}
+
+export async function buildUnit(
+  jobId: string,
+  levelId: string,
+  overrides: Partial<{ tag: string; kind: UnitKindKey; spaceId: string | null; systemId: string | null; modelId: string | null; capacity: number | null }> = {},
+) {
+  return Unit.create({
+    jobId,
+    levelId,
+    tag: overrides.tag ?? `IU-${unique()}`,
+    kind: overrides.kind ?? 'cassette_4way',
+    spaceId: overrides.spaceId ?? null,
+    systemId: overrides.systemId ?? null,
+    modelId: overrides.modelId ?? null,
+    capacity: overrides.capacity ?? null,
+  });
+}
+
+export async function linkCompany(jobId: string, companyId: string, trades: TradeKey[] = []) {
+  return JobCompany.create({ jobId, companyId, trades });
+}
+
+/** Copies the built-in catalogue into a job (as POST /api/jobs does). */
+export async function copyCatalogue(jobId: string) {
+  const sequelize = CatalogueItem.sequelize!;
+  return sequelize.transaction((transaction) => copyBuiltinCatalogue(jobId, transaction));
 }

@@ -1,0 +1,47 @@
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
+import type { UnitKindKey } from '../../shared/words';
+import type { Job } from './Job';
+import type { Level } from './Level';
+import type { Space } from './Space';
+import type { System } from './System';
+import type { UnitModel } from './UnitModel';
+
+/** One indoor unit, known by its tag (unique within the job). capacity in W. */
+export class Unit extends Model<InferAttributes<Unit>, InferCreationAttributes<Unit>> {
+  declare id: CreationOptional<string>;
+  declare jobId: ForeignKey<Job['id']>;
+  declare tag: string;
+  declare kind: UnitKindKey;
+  declare modelId: ForeignKey<UnitModel['id']> | null;
+  declare capacity: number | null;
+  declare levelId: ForeignKey<Level['id']>;
+  declare spaceId: ForeignKey<Space['id']> | null;
+  declare systemId: ForeignKey<System['id']> | null;
+  declare version: CreationOptional<number>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+  declare level?: NonAttribute<Level>;
+  declare space?: NonAttribute<Space | null>;
+  declare system?: NonAttribute<System | null>;
+  declare model?: NonAttribute<UnitModel | null>;
+
+  static initModel(sequelize: Sequelize) {
+    Unit.init(
+      {
+        id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+        jobId: { type: DataTypes.UUID, allowNull: false },
+        tag: { type: DataTypes.STRING(40), allowNull: false },
+        kind: { type: DataTypes.STRING(40), allowNull: false },
+        modelId: { type: DataTypes.UUID, allowNull: true },
+        capacity: { type: DataTypes.DOUBLE, allowNull: true },
+        levelId: { type: DataTypes.UUID, allowNull: false },
+        spaceId: { type: DataTypes.UUID, allowNull: true },
+        systemId: { type: DataTypes.UUID, allowNull: true },
+        version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'units' },
+    );
+  }
+}

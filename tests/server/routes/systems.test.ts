@@ -1,0 +1,185 @@
+import request from 'supertest';
+import type { TrimoutApp } from '../../../server/app';
+import type { Database } from '../../../server/db';
+import { System } from '../../../server/models';
+import { a2lMinFloorArea } from '../../../shared/calc/refrigerant';
+import { KG_PER_POUND } from '../../../shared/calc/quantity';
+import { ifMatch, jobPath, newJobFor, signInCrew, type SignedCrew } from '../../support/api';
+import { buildTestApp } from '../../support/app';
+import { connectTestDb } from '../../support/db';
+import { buildJobWithCrew, buildLevel, buildSpace, buildSystem, buildUnit } from '../../support/factories';
+
+jest.setTimeout(60_000);
+
+let db: Database;
+let trimout: TrimoutApp;
+let crew: SignedCrew;
+
+beforeAll(async () => {
+  db = await connectTestDb();
+  trimout = buildTestApp(db);
+  crew = await signInCrew(trimout.app);
+});
+afterAll(async () => {
+  await trimout.close();
+  await db.close();
+});
+
+const FT2 = 0.09290304; // m² per ft² (exact)
+const FT = 304.8; // mm per ft (exact)
+
+describe('systems', () => {
+  it('answers 401 signed out', async () => {
+    const job = await newJobFor(crew);
+    await request(trimout.app).get(jobPath(job.id, '/systems')).expect(401);
+  });
+
+  it('creates a system with charges typed in lb and kg (stored in kg)', async () => {
+    const job = await newJobFor(crew);
+    const res = await crew.gc.post(jobPath(job.id, '/systems'), {
+      name: 'VRF-1',
+      outdoorModel: 'OU-120',
+      refrigerant: 'R-410A',
+      factoryCharge: '38 lb',
+      fieldCharge: '2.5 kg',
+    });
+    expect(res.status).toBe(201);
+    expect(res.headers.etag).toBe('"v1"');
+    expect(res.body.factoryCharge).toBeCloseTo(38 * KG_PER_POUND, 12);
+    expect(res.body.totalCharge).toBeCloseTo(38 * KG_PER_POUND + 2.5, 12);
+    const dup = await crew.gc.post(jobPath(job.id, '/systems'), { name: 'vrf-1', refrigerant: 'R-32' });
+    expect(dup.status).toBe(409);
+    expect(dup.body.error.message).toBe('This job already has a system named "vrf-1".');
+  });
+
+  it.each([
+    [{ refrigerant: 'R-22' }, /^refrigerant: Choose a refrigerant: R-410A, R-32, R-454B\./],
+    [{ factoryCharge: '38' }, /^factoryCharge: "38" is a bare number/],
+    [{ concentrationLimitOverride: { value: 5, unit: 'lb/Mcf' } }, /^concentrationLimitOverride\.source: /],
+  ])('answers 400 with a message for %j', async (change, message) => {
+    const job = await newJobFor(crew);
+    const res = await crew.gc.post(jobPath(job.id, '/systems'), { name: 'S', refrigerant: 'R-410A', ...change });
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toMatch(message);
+  });
+
+  it('computes the R-410A concentration check over the spaces its units serve (fails for a 10×10×8 ft office)', async () => {
+    const job = await newJobFor(crew);
+    const level = await buildLevel(job.id);
+    const small = await buildSpace(job.id, level.id, { name: 'Office 3-12', floorArea: 100 * FT2, ceilingHeight: 8 * FT });
+    const big = await buildSpace(job.id, level.id, { name: 'Open office', floorArea: 400, ceilingHeight: 2700 });
+    const system = await buildSystem(job.id, { name: 'VRF-3', factoryCharge: 30 * KG_PER_POUND, fieldCharge: 8 * KG_PER_POUND });
+    await buildUnit(job.id, level.id, { spaceId: small.id, systemId: system.id, kind: 'wall_mounted' });
+    await buildUnit(job.id, level.id, { spaceId: big.id, systemId: system.id });
+    for (const who of [crew.gc, crew.insp, crew.sub]) {
+      const res = await who.get(jobPath(job.id, `/systems/${system.id}`));
+      expect(res.status).toBe(200);
+      expect(res.headers.etag).toBe('"v1"');
+      // 800 ft³ × 26 lb/1000 ft³ = 20.8 lb allowed; 38 lb total (ASHRAE 34 RCL for R-410A, as stored in shared/calc).
+      expect(res.body.concentration).toMatchObject({ status: 'fail', pass: false, refrigerant: 'R-410A' });
+      expect(res.body.concentration.governing.names).toEqual(['Office 3-12']);
+      expect(res.body.concentration.governing.allowedCharge).toBeCloseTo(20.8 * KG_PER_POUND, 9);
+      expect(res.body.a2lFloorArea).toEqual([]);
+      expect(res.body.unitCount).toBe(2);
+    }
+  });
+
+  it('counts linked spaces together: a permanent opening to the corridor makes the same charge pass', async () => {
+    const job = await newJobFor(crew);
+    const level = await buildLevel(job.id);
+    const small = await buildSpace(job.id, level.id, { name: 'Office', floorArea: 100 * FT2, ceilingHeight: 8 * FT });
+    const corridor = await buildSpace(job.id, level.id, { name: 'Corridor', floorArea: 100, ceilingHeight: 2700 });
+    const system = await buildSystem(job.id, { factoryCharge: 30 * KG_PER_POUND, fieldCharge: 8 * KG_PER_POUND });
+    await buildUnit(job.id, level.id, { spaceId: small.id, systemId: system.id });
+    await crew.gc.patch(jobPath(job.id, `/spaces/${small.id}`), { linkedSpaceIds: [corridor.id] }, ifMatch(1));
+    const res = await crew.gc.get(jobPath(job.id, `/systems/${system.id}`));
+    expect(res.body.concentration.status).toBe('pass');
+    expect(res.body.concentration.governing.names.sort()).toEqual(['Corridor', 'Office']);
+  });
+
+  it('gives an R-32 system the A2L minimum floor area per unit, by mounting (IEC 60335-2-40 Annex GG)', async () => {
+    const job = await newJobFor(crew);
+    const level = await buildLevel(job.id);
+    const room = await buildSpace(job.id, level.id, { name: 'Flat 2', floorArea: 30, ceilingHeight: 2700 });
+    const system = await buildSystem(job.id, { refrigerant: 'R-32', factoryCharge: 3, fieldCharge: 0.5 });
+    await buildUnit(job.id, level.id, { tag: 'A', spaceId: room.id, systemId: system.id, kind: 'wall_mounted' });
+    await buildUnit(job.id, level.id, { tag: 'B', spaceId: room.id, systemId: system.id, kind: 'floor_console' });
+    await buildUnit(job.id, level.id, { tag: 'C', spaceId: room.id, systemId: system.id, kind: 'ducted_low' });
+    await buildUnit(job.id, level.id, { tag: 'D', systemId: system.id, kind: 'floor_ceiling' });
+    const res = await crew.insp.get(jobPath(job.id, `/systems/${system.id}`));
+    const rows = res.body.a2lFloorArea as Array<{ tag: string; mount: string; result: { status: string; minArea: number } }>;
+    expect(rows.map((r) => [r.tag, r.mount, r.result.status])).toEqual([
+      ['A', 'wall', 'pass'],
+      ['B', 'floor', 'fail'],
+      ['C', 'ceiling', 'pass'],
+      ['D', 'floor', 'not_measured'],
+    ]);
+    expect(rows[0]!.result.minArea).toBeCloseTo(a2lMinFloorArea(3.5, 'wall'), 12);
+  });
+
+  it('asks for an entered limit for R-454B, and uses it once entered with its source', async () => {
+    const job = await newJobFor(crew);
+    const level = await buildLevel(job.id);
+    const room = await buildSpace(job.id, level.id, { floorArea: 30, ceilingHeight: 2700 });
+    const system = await buildSystem(job.id, { refrigerant: 'R-454B', factoryCharge: 5, fieldCharge: 0 });
+    await buildUnit(job.id, level.id, { spaceId: room.id, systemId: system.id });
+    const before = await crew.gc.get(jobPath(job.id, `/systems/${system.id}`));
+    expect(before.body.concentration.status).toBe('limit_not_set');
+    const after = await crew.gc.patch(
+      jobPath(job.id, `/systems/${system.id}`),
+      { concentrationLimitOverride: { value: 0.1, unit: 'kg/m³', source: 'Job engineer letter 2026-11-02 (invented for the test)' } },
+      ifMatch(1),
+    );
+    expect(after.status).toBe(200);
+    expect(after.headers.etag).toBe('"v2"');
+    expect(after.body.concentration.status).toBe('pass');
+    expect(after.body.concentration.limit.source).toMatch(/^Job entry: /);
+  });
+
+  it('changes with If-Match (428 / 412) and refuses to delete a system with units (409)', async () => {
+    const job = await newJobFor(crew);
+    const level = await buildLevel(job.id);
+    const system = await buildSystem(job.id, { name: 'VRF-8' });
+    const path = jobPath(job.id, `/systems/${system.id}`);
+    expect((await crew.gc.patch(path, { name: 'VRF-9' })).status).toBe(428);
+    const stale = await crew.gc.patch(path, { name: 'VRF-9' }, ifMatch(2));
+    expect(stale.status).toBe(412);
+    expect(stale.body.current).toMatchObject({ name: 'VRF-8', version: 1 });
+    await buildUnit(job.id, level.id, { systemId: system.id });
+    await buildUnit(job.id, level.id, { systemId: system.id });
+    const refused = await crew.gc.del(path, ifMatch(1));
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.message).toBe('VRF-8 still has 2 units. Move those units to another system (or clear their system) first.');
+    const empty = await buildSystem(job.id);
+    expect((await crew.gc.del(jobPath(job.id, `/systems/${empty.id}`), ifMatch(1))).status).toBe(204);
+  });
+
+  it.each(['insp', 'sub'] as const)('refuses system writes to the %s (403)', async (who) => {
+    const job = await newJobFor(crew);
+    const system = await buildSystem(job.id);
+    expect((await crew[who].get(jobPath(job.id, '/systems'))).status).toBe(200);
+    expect((await crew[who].post(jobPath(job.id, '/systems'), { name: 'X', refrigerant: 'R-32' })).status).toBe(403);
+    expect((await crew[who].patch(jobPath(job.id, `/systems/${system.id}`), { name: 'X' }, ifMatch(1))).status).toBe(403);
+    expect((await crew[who].del(jobPath(job.id, `/systems/${system.id}`), ifMatch(1))).status).toBe(403);
+    expect(await System.count({ where: { jobId: job.id } })).toBe(1);
+  });
+
+  it("answers 404 for another job's systems", async () => {
+    const other = await buildJobWithCrew();
+    const system = await buildSystem(other.job.id);
+    expect((await crew.gc.get(jobPath(other.job.id, '/systems'))).status).toBe(404);
+    const mine = await newJobFor(crew);
+    expect((await crew.gc.get(jobPath(mine.id, `/systems/${system.id}`))).status).toBe(404);
+  });
+
+  it('replays a create with the same Idempotency-Key', async () => {
+    const job = await newJobFor(crew);
+    const key = { 'Idempotency-Key': `system-${job.id}` };
+    const first = await crew.gc.post(jobPath(job.id, '/systems'), { name: 'VRF-1', refrigerant: 'R-410A' }, key);
+    const again = await crew.gc.post(jobPath(job.id, '/systems'), { name: 'VRF-1', refrigerant: 'R-410A' }, key);
+    expect(first.status).toBe(201);
+    expect(again.headers['idempotent-replayed']).toBe('true');
+    expect(await System.count({ where: { jobId: job.id } })).toBe(1);
+    expect((await crew.gc.post(jobPath(job.id, '/systems'), { name: 'VRF-2', refrigerant: 'R-410A' }, key)).status).toBe(422);
+  });
+});

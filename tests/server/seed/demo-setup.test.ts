@@ -1,0 +1,88 @@
+/**
+ * The demo seed's job set-up: idempotent, the numbers the product brief names, and exactly one
+ * system (VRF-3, via the 10 × 10 × 8 ft Office 3-12) failing the concentration check.
+ */
+import type { Database } from '../../../server/db';
+import { CatalogueItem, Job, JobCompany, Level, Space, System, Unit, UnitModel } from '../../../server/models';
+import { DEMO_PASSWORD, seedDemo } from '../../../server/seed/demo';
+import { systemDetail } from '../../../server/services/refrigerantChecks';
+import { BUILTIN_CATALOGUE } from '../../../shared/catalogue';
+import { UNIT_KIND_KEYS } from '../../../shared/words';
+import { connectTestDb } from '../../support/db';
+
+jest.setTimeout(120_000);
+
+let db: Database;
+beforeAll(async () => {
+  db = await connectTestDb();
+});
+afterAll(async () => {
+  await db.close();
+});
+
+describe('demo seed: job set-up', () => {
+  it('builds Cinder Lane Commons once, and changes nothing when run again', async () => {
+    expect(DEMO_PASSWORD).toBeTruthy();
+    await seedDemo(db);
+    const job = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!;
+    const counts = async () => ({
+      levels: await Level.count({ where: { jobId: job.id } }),
+      spaces: await Space.count({ where: { jobId: job.id } }),
+      systems: await System.count({ where: { jobId: job.id } }),
+      models: await UnitModel.count({ where: { jobId: job.id } }),
+      units: await Unit.count({ where: { jobId: job.id } }),
+      companies: await JobCompany.count({ where: { jobId: job.id } }),
+      catalogue: await CatalogueItem.count({ where: { jobId: job.id } }),
+    });
+    const before = await counts();
+    const again = await seedDemo(db);
+    expect(again.created).toBe(false);
+    expect(await counts()).toEqual(before);
+    // Tests of other files may add levels and units of their own to the demo job; the seed's own are at least these.
+    expect(before.systems).toBeGreaterThanOrEqual(8);
+    expect(before.catalogue).toBeGreaterThanOrEqual(BUILTIN_CATALOGUE.length);
+    expect(before.companies).toBe(5);
+    const levels = await Level.findAll({ where: { jobId: job.id }, order: [['position', 'ASC']] });
+    expect(levels.slice(0, 7).map((l) => l.name)).toEqual(['Level 1', 'Level 2', 'Level 3', 'Level 4', 'Level 5', 'Level 6', 'Roof']);
+    const seeded = await Unit.findAll({ where: { jobId: job.id } });
+    const demoUnits = seeded.filter((u) => /^IU-L\d-\d\d$/.test(u.tag));
+    expect(demoUnits.length).toBeGreaterThanOrEqual(110);
+    expect(demoUnits.length).toBeLessThanOrEqual(130);
+    expect(new Set(demoUnits.map((u) => u.kind))).toEqual(new Set(UNIT_KIND_KEYS));
+  });
+
+  it('has one R-410A system failing the concentration check (VRF-3, Office 3-12); the others pass; R-32 meets its A2L floor areas', async () => {
+    await seedDemo(db);
+    const job = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!;
+    const systems = await System.findAll({ where: { jobId: job.id, name: ['VRF-1', 'VRF-2', 'VRF-3', 'VRF-4', 'VRF-5', 'VRF-6', 'VRF-7', 'VRF-8'] } });
+    const results = new Map<string, Awaited<ReturnType<typeof systemDetail>>>();
+    for (const s of systems) results.set(s.name, await systemDetail(job, s));
+    const statuses = [...results.entries()].map(([name, r]) => [name, r.concentration.status]).sort();
+    expect(statuses).toEqual([
+      ['VRF-1', 'pass'],
+      ['VRF-2', 'pass'],
+      ['VRF-3', 'fail'],
+      ['VRF-4', 'pass'],
+      ['VRF-5', 'pass'],
+      ['VRF-6', 'pass'],
+      ['VRF-7', 'pass'],
+      ['VRF-8', 'pass'],
+    ]);
+    expect(results.get('VRF-3')!.concentration.governing!.names).toEqual(['Office 3-12']);
+    const r32 = results.get('VRF-8')!;
+    expect(r32.refrigerant).toBe('R-32');
+    expect(r32.a2lFloorArea.length).toBeGreaterThan(0);
+    expect(r32.a2lFloorArea.every((row) => row.result.status === 'pass')).toBe(true);
+  });
+
+  it('gives the unit models their limits with a source that says they are invented / common practice', async () => {
+    await seedDemo(db);
+    const job = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!;
+    const ducted = (await UnitModel.findOne({ where: { jobId: job.id, modelNumber: 'DL-24' } }))!;
+    expect(ducted.limits.max_pump_lift).toMatchObject({ value: 1000.125, stated: 39.375, unit: 'in' });
+    expect(ducted.limits.max_drain_horizontal_run!.value).toBeCloseTo(298.45, 9);
+    expect(ducted.limits.max_pump_lift!.source).toMatch(/common practice/);
+    const kit = (await UnitModel.findOne({ where: { jobId: job.id, modelNumber: 'AK-60' } }))!;
+    expect(kit.limits.max_valve_kit_pipe_length).toMatchObject({ value: 2000.25, stated: 78.75, unit: 'in' });
+  });
+});
