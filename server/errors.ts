@@ -22,7 +22,7 @@ export class HttpError extends Error {
 export const badRequest = (message: string, fields?: FieldErrors) =>
   new HttpError(400, 'bad_request', message, fields);
 export const unauthorized = (message = 'Sign in to continue.') => new HttpError(401, 'unauthorized', message);
-export const forbidden = (message = 'You are not allowed to do that.') => new HttpError(403, 'forbidden', message);
+export const forbidden = (message = 'You are not allowed to do that.', id = 'forbidden') => new HttpError(403, id, message);
 export const notFound = (message = 'Not found.') => new HttpError(404, 'not_found', message);
 export const conflict = (message: string, id = 'conflict') => new HttpError(409, id, message);
 export const preconditionFailed = (message: string) => new HttpError(412, 'stale', message);

@@ -2,11 +2,19 @@
 import { createApp } from './app';
 import { connect } from './db';
 import { loadEnv } from './env';
+import { createMailService } from './mail';
+import { startFakeSmtp, type FakeSmtp } from './mail/fakeSmtp';
 
 export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   const env = loadEnv(envSource);
+  // Without SMTP_URL (development only: production refuses to start), mail goes to a fake
+  // SMTP server in this process, on 127.0.0.1:MAIL_PORT, readable at /mailbox.
+  let fake: FakeSmtp | undefined;
+  if (!env.SMTP_URL && env.NODE_ENV !== 'production') fake = await startFakeSmtp({ port: env.MAIL_PORT });
+  const log = (m: string, e?: unknown) => console.error(m, e);
+  const mail = createMailService({ env, fake, log });
   const db = connect(env.DATABASE_URL);
-  const { app, close } = createApp({ env, db });
+  const { app, close } = createApp({ env, db, mail, log });
   const server = await new Promise<import('node:http').Server>((resolve, reject) => {
     const s = app.listen(env.PORT, env.HOST, () => resolve(s));
     s.on('error', reject);
@@ -15,12 +23,16 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   const port = typeof address === 'object' && address ? address.port : env.PORT;
   return {
     url: `http://${env.HOST}:${port}`,
+    /** Where caught mails are read, when the fake SMTP server is in use. */
+    mailboxUrl: fake ? `http://${env.HOST}:${port}/mailbox` : undefined,
     async stop() {
       const closed = new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeIdleConnections();
       await closed;
+      await mail.outbox.idle();
       await close();
       await db.close();
+      await fake?.close();
     },
   };
 }

@@ -1,11 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
+import { Link } from 'expo-router';
 import { useRef } from 'react';
 import { Controller, useForm } from 'react-hook-form';
 import { StyleSheet, View, type TextInput } from 'react-native';
 import { signInSchema, type SignInInput } from '../../shared/schemas/session';
 import { ApiError } from '../api/client';
 import { useSignInMutation } from '../queries/session';
-import { colors, space } from '../theme';
+import { colors, fonts, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
@@ -92,7 +93,16 @@ export function SignInScreen() {
           )}
         />
         <Button testID="sign-in-submit" label="Sign in" onPress={onSubmit} busy={signIn.isPending} />
+        <Link href="/forgot-password" testID="sign-in-forgot" style={styles.link}>
+          Forgot your password?
+        </Link>
       </Card>
+      <View style={styles.signUp}>
+        <AppText muted>New to Trimout?</AppText>
+        <Link href="/sign-up" testID="sign-in-sign-up" style={styles.link}>
+          Create an account
+        </Link>
+      </View>
       <AppText variant="small" muted style={styles.note}>
         Trimout records what people observed on site. It does not certify an installation: the manufacturer&apos;s
         installation manual, local codes and licensed practice govern.
@@ -106,4 +116,6 @@ const styles = StyleSheet.create({
   alert: { backgroundColor: colors.dangerSoft, borderRadius: 8, padding: space.md },
   alertText: { color: colors.danger },
   note: { textAlign: 'center' },
+  link: { color: colors.spruce, textDecorationLine: 'underline', fontFamily: fonts.bold, fontSize: 15, alignSelf: 'center', paddingVertical: space.xs },
+  signUp: { flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'center', alignItems: 'center', gap: space.sm },
 });

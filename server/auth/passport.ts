@@ -36,6 +36,15 @@ async function loadUser(where: { id: string } | { email: string }): Promise<(Use
   >;
 }
 
+/** passport info.message code for a right password on an address not yet confirmed. */
+export const UNCONFIRMED = 'email_unconfirmed';
+
+/** The signed-in shape of a user, read fresh from the database (null when gone or disabled). */
+export async function loadAuthUser(id: string): Promise<AuthUser | null> {
+  const user = await loadUser({ id });
+  return user && !user.disabledAt ? toAuthUser(user) : null;
+}
+
 function toAuthUser(user: User & { company?: Company }): AuthUser {
   return {
     id: user.id,
@@ -58,6 +67,8 @@ export function configurePassport(): passport.PassportStatic {
           return done(null, false);
         }
         if (!(await verifyPassword(password, user.passwordHash))) return done(null, false);
+        // Only now, with the password right, may the answer say the address is unconfirmed.
+        if (!user.emailConfirmedAt) return done(null, false, { message: UNCONFIRMED });
         return done(null, toAuthUser(user));
       })().catch(done);
     }),

@@ -10,6 +10,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   /** Raised on password change or removal: every session holding an older epoch ends. */
   declare sessionEpoch: CreationOptional<number>;
   declare disabledAt: CreationOptional<Date | null>;
+  /** Null until a self-signed-up user follows the confirmation link; now() for everyone else. */
+  declare emailConfirmedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -29,6 +31,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         passwordHash: { type: DataTypes.STRING(300), allowNull: true },
         sessionEpoch: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         disabledAt: { type: DataTypes.DATE, allowNull: true },
+        emailConfirmedAt: { type: DataTypes.DATE, allowNull: true, defaultValue: DataTypes.NOW },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -7,13 +7,13 @@ import { Router, type Request, type Response, type NextFunction } from 'express'
 import type passport from 'passport';
 import { rateLimit } from 'express-rate-limit';
 import { signInSchema, type SessionResponse } from '../../shared/schemas/session';
-import { tooManyRequests, unauthorized } from '../errors';
+import { forbidden, tooManyRequests, unauthorized } from '../errors';
 import { expectedCsrfToken, newCsrfToken } from '../middleware/csrf';
 import { validate } from '../middleware/validate';
 import { policy } from '../policies';
 import { presentUser } from '../presenters/session';
 import { jobsOf } from '../services/memberships';
-import type { AuthUser } from '../auth/passport';
+import { UNCONFIRMED, type AuthUser } from '../auth/passport';
 
 export interface SessionRouteOptions {
   passport: passport.PassportStatic;
@@ -24,6 +24,9 @@ export interface SessionRouteOptions {
 }
 
 const WRONG = 'That e-mail and password do not match an account. Check both and try again.';
+/** Said only after the password matched (no account enumeration). */
+const UNCONFIRMED_MESSAGE =
+  'Confirm your e-mail address first: open the link in the mail we sent you. If it expired, use "Forgot your password?" to get a new link.';
 
 export function sessionRouter(options: SessionRouteOptions): Router {
   const router = Router();
@@ -59,8 +62,9 @@ export function sessionRouter(options: SessionRouteOptions): Router {
   });
 
   router.post('/session', policy.public(), perAddress, validate({ body: signInSchema }), perAccount, (req, res, next) => {
-    options.passport.authenticate('local', { session: false }, (err: unknown, user: AuthUser | false) => {
+    options.passport.authenticate('local', { session: false }, (err: unknown, user: AuthUser | false, info?: { message?: string }) => {
       if (err) return next(err);
+      if (!user && info?.message === UNCONFIRMED) return next(forbidden(UNCONFIRMED_MESSAGE, 'email_unconfirmed'));
       if (!user) return next(unauthorized(WRONG));
       // passport >= 0.6 regenerates the session here: the old id dies, nothing of it is kept.
       req.login(user, (loginErr) => {

@@ -9,7 +9,7 @@ import type { AddressInfo } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import type { TrimoutApp } from '../../server/app';
+import type { AppOptions, TrimoutApp } from '../../server/app';
 import type { Database } from '../../server/db';
 import { buildTestApp, testEnv } from './app';
 import { connectTestDb } from './db';
@@ -29,11 +29,12 @@ export interface BrowserHarness {
   close(): Promise<void>;
 }
 
-export async function startBrowserHarness(): Promise<BrowserHarness> {
+/** `appOptions` go to the test app (e.g. `mail` on a test's own fake SMTP server). */
+export async function startBrowserHarness(appOptions: Partial<AppOptions> = {}): Promise<BrowserHarness> {
   const dist = process.env.WEB_DIST ?? path.resolve(__dirname, '..', '..', 'dist');
   if (!fs.existsSync(path.join(dist, 'index.html'))) throw new Error(`No web build in ${dist}: run \`npm test\`, which builds it.`);
   const db = await connectTestDb();
-  const trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }) });
+  const trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }), ...appOptions });
   const server: Server = await new Promise((resolve) => {
     const s = trimout.app.listen(0, '127.0.0.1', () => resolve(s));
   });

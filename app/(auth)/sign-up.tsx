@@ -1,0 +1,11 @@
+import { Redirect } from 'expo-router';
+import { SignUpScreen } from '../../components/auth/SignUpScreen';
+import { useSessionQuery } from '../../components/queries/session';
+import { LoadingState } from '../../components/ui/States';
+
+export default function SignUpRoute() {
+  const session = useSessionQuery();
+  if (session.isPending) return <LoadingState />;
+  if (session.data?.user) return <Redirect href="/" />;
+  return <SignUpScreen />;
+}

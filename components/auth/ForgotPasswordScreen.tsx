@@ -1,0 +1,70 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { Controller, useForm } from 'react-hook-form';
+import { passwordResetRequestSchema, type PasswordResetRequestInput } from '../../shared/schemas/auth';
+import { usePasswordResetRequestMutation } from '../queries/auth';
+import { Button } from '../ui/Button';
+import { Notice } from '../ui/Notice';
+import { TextField } from '../ui/TextField';
+import { AuthFrame, AuthLink } from './AuthFrame';
+import { applyApiError } from './formErrors';
+
+/** /forgot-password: ask for a reset link. The answer is the same whether the address has an account. */
+export function ForgotPasswordScreen() {
+  const requestReset = usePasswordResetRequestMutation();
+  const { control, handleSubmit, formState, setError } = useForm<PasswordResetRequestInput>({
+    resolver: zodResolver(passwordResetRequestSchema),
+    defaultValues: { email: '' },
+  });
+  const onSubmit = handleSubmit(async (values) => {
+    try {
+      await requestReset.mutateAsync(values);
+    } catch (err) {
+      applyApiError(err, setError, ['email'], 'That did not work. Try again.');
+    }
+  });
+  const footer = <AuthLink href="/sign-in" label="Back to sign in" testID="forgot-to-sign-in" />;
+  if (requestReset.isSuccess) {
+    return (
+      <AuthFrame testID="forgot-screen" title="Check your e-mail" footer={footer}>
+        <Notice tone="success" testID="forgot-done">
+          {requestReset.data.message}
+        </Notice>
+      </AuthFrame>
+    );
+  }
+  const rootError = formState.errors.root?.message;
+  return (
+    <AuthFrame
+      testID="forgot-screen"
+      title="Forgot your password?"
+      intro="Enter the e-mail address of your account. We send it a link to choose a new password."
+      footer={footer}
+    >
+      {rootError ? (
+        <Notice tone="error" testID="forgot-error">
+          {rootError}
+        </Notice>
+      ) : null}
+      <Controller
+        control={control}
+        name="email"
+        render={({ field, fieldState }) => (
+          <TextField
+            testID="forgot-email"
+            label="E-mail"
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+            autoCapitalize="none"
+            autoComplete="email"
+            inputMode="email"
+            returnKeyType="go"
+            onSubmitEditing={onSubmit}
+          />
+        )}
+      />
+      <Button testID="forgot-submit" label="Send me a link" onPress={onSubmit} busy={requestReset.isPending} />
+    </AuthFrame>
+  );
+}

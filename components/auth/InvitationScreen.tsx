@@ -1,0 +1,211 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useRouter } from 'expo-router';
+import { useRef } from 'react';
+import { Controller, useForm } from 'react-hook-form';
+import { StyleSheet, View, type TextInput } from 'react-native';
+import { invitationNewAccountSchema, type InvitationNewAccountInput, type InvitationPreview } from '../../shared/schemas/auth';
+import { signInSchema } from '../../shared/schemas/session';
+import { ApiError } from '../api/client';
+import { useAcceptInvitationMutation, useInvitationPreviewQuery } from '../queries/auth';
+import { colors, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Button } from '../ui/Button';
+import { Notice } from '../ui/Notice';
+import { RoleBadge } from '../ui/RoleBadge';
+import { LoadingState } from '../ui/States';
+import { TextField } from '../ui/TextField';
+import { AuthFrame, AuthLink } from './AuthFrame';
+import { applyApiError } from './formErrors';
+
+/** /invite/<token>: see the job and role, choose a password (or sign in), and land on the job. */
+export function InvitationScreen({ token }: { token: string }) {
+  const preview = useInvitationPreviewQuery(token);
+  const footer = <AuthLink href="/sign-in" label="Go to sign in" testID="invite-to-sign-in" />;
+
+  if (preview.isPending) {
+    return (
+      <AuthFrame testID="invite-screen" title="Your invitation">
+        <LoadingState label="Opening your invitation…" testID="invite-loading" />
+      </AuthFrame>
+    );
+  }
+  if (preview.isError) {
+    const gone = preview.error instanceof ApiError && [400, 404, 410].includes(preview.error.status);
+    return (
+      <AuthFrame testID="invite-screen" title="This invitation cannot be used" footer={footer}>
+        <Notice tone="error" testID="invite-error">
+          {preview.error.message}
+        </Notice>
+        {gone ? (
+          <AppText muted>
+            {preview.error instanceof ApiError && preview.error.id === 'link_used'
+              ? 'If you accepted it already, sign in: the job is on your job list.'
+              : 'Ask the GC manager who invited you to send a new invitation.'}
+          </AppText>
+        ) : (
+          <Button label="Try again" tone="secondary" onPress={() => preview.refetch()} testID="invite-retry" />
+        )}
+      </AuthFrame>
+    );
+  }
+  const invite = preview.data;
+  return (
+    <AuthFrame testID="invite-screen" title={`Join ${invite.job.name}`} footer={footer}>
+      <InvitationSummary invite={invite} />
+      {invite.existingAccount ? <ExistingAccountForm token={token} invite={invite} /> : <NewAccountForm token={token} invite={invite} />}
+    </AuthFrame>
+  );
+}
+
+function InvitationSummary({ invite }: { invite: InvitationPreview }) {
+  return (
+    <View style={styles.summary} testID="invite-summary">
+      <View style={styles.row}>
+        <AppText variant="label">Your role</AppText>
+        <RoleBadge role={invite.role} testID="invite-role" />
+      </View>
+      <AppText testID="invite-details">
+        {`${invite.invitedBy ?? 'A GC manager'} invited you to work on this job for ${invite.company.name}.`}
+      </AppText>
+    </View>
+  );
+}
+
+function useLandOnJob() {
+  const router = useRouter();
+  return (jobId: string) => router.replace({ pathname: '/jobs/[jobId]', params: { jobId } });
+}
+
+function NewAccountForm({ token, invite }: { token: string; invite: InvitationPreview }) {
+  const accept = useAcceptInvitationMutation(token);
+  const land = useLandOnJob();
+  const passwordRef = useRef<TextInput>(null);
+  const { control, handleSubmit, formState, setError } = useForm<InvitationNewAccountInput>({
+    resolver: zodResolver(invitationNewAccountSchema),
+    defaultValues: { name: invite.name ?? '', password: '' },
+  });
+  const onSubmit = handleSubmit(async (values) => {
+    try {
+      const session = await accept.mutateAsync(values);
+      land(session.jobId);
+    } catch (err) {
+      applyApiError(err, setError, ['name', 'password'], 'That did not work. Try again.');
+    }
+  });
+  const rootError = formState.errors.root?.message;
+  return (
+    <>
+      <AppText muted>Choose your name as others will see it, and a password. You are signed in straight away.</AppText>
+      {rootError ? (
+        <Notice tone="error" testID="invite-accept-error">
+          {rootError}
+        </Notice>
+      ) : null}
+      <TextField
+        testID="invite-email"
+        label="E-mail (from the invitation)"
+        value={invite.email}
+        editable={false}
+        autoComplete="username"
+        style={styles.readOnly}
+      />
+      <Controller
+        control={control}
+        name="name"
+        render={({ field, fieldState }) => (
+          <TextField
+            testID="invite-name"
+            label="Your name"
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+            autoComplete="name"
+            returnKeyType="next"
+            onSubmitEditing={() => passwordRef.current?.focus()}
+          />
+        )}
+      />
+      <Controller
+        control={control}
+        name="password"
+        render={({ field, fieldState }) => (
+          <TextField
+            ref={passwordRef}
+            testID="invite-password"
+            label="Choose a password"
+            hint="At least 8 characters; a long phrase is best."
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+            secureTextEntry
+            autoComplete="new-password"
+            returnKeyType="go"
+            onSubmitEditing={onSubmit}
+          />
+        )}
+      />
+      <Button testID="invite-submit" label="Join the job" onPress={onSubmit} busy={accept.isPending} />
+    </>
+  );
+}
+
+const existingSchema = signInSchema.pick({ password: true });
+type ExistingInput = { password: string };
+
+function ExistingAccountForm({ token, invite }: { token: string; invite: InvitationPreview }) {
+  const accept = useAcceptInvitationMutation(token);
+  const land = useLandOnJob();
+  const { control, handleSubmit, formState, setError } = useForm<ExistingInput>({
+    resolver: zodResolver(existingSchema),
+    defaultValues: { password: '' },
+  });
+  const onSubmit = handleSubmit(async (values) => {
+    try {
+      const session = await accept.mutateAsync(values);
+      land(session.jobId);
+    } catch (err) {
+      applyApiError(err, setError, ['password'], 'That did not work. Try again.');
+    }
+  });
+  const rootError = formState.errors.root?.message;
+  return (
+    <>
+      <Notice tone="info" testID="invite-existing">
+        {`${invite.email} already has a Trimout account. Sign in with its password to add this job to it.`}
+      </Notice>
+      {rootError ? (
+        <Notice tone="error" testID="invite-accept-error">
+          {rootError}
+        </Notice>
+      ) : null}
+      <Controller
+        control={control}
+        name="password"
+        render={({ field, fieldState }) => (
+          <TextField
+            testID="invite-password"
+            label="Your password"
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+            secureTextEntry
+            autoComplete="current-password"
+            returnKeyType="go"
+            onSubmitEditing={onSubmit}
+          />
+        )}
+      />
+      <Button testID="invite-submit" label="Sign in and join" onPress={onSubmit} busy={accept.isPending} />
+      <AuthLink href="/forgot-password" label="Forgot your password?" testID="invite-forgot" />
+    </>
+  );
+}
+
+const styles = StyleSheet.create({
+  summary: { gap: space.sm, marginBottom: space.sm },
+  row: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
+  readOnly: { backgroundColor: colors.paper, color: colors.inkMuted, borderStyle: 'dashed' },
+});

@@ -1,0 +1,135 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useRef } from 'react';
+import { Controller, useForm } from 'react-hook-form';
+import type { TextInput } from 'react-native';
+import { signUpSchema, type SignUpInput } from '../../shared/schemas/auth';
+import { useSignUpMutation } from '../queries/auth';
+import { AppText } from '../ui/AppText';
+import { Button } from '../ui/Button';
+import { Notice } from '../ui/Notice';
+import { TextField } from '../ui/TextField';
+import { AuthFrame, AuthLink } from './AuthFrame';
+import { applyApiError } from './formErrors';
+
+/** A GC new to Trimout: their company and first account; the address is confirmed by mail. */
+export function SignUpScreen() {
+  const signUp = useSignUpMutation();
+  const nameRef = useRef<TextInput>(null);
+  const emailRef = useRef<TextInput>(null);
+  const passwordRef = useRef<TextInput>(null);
+  const { control, handleSubmit, formState, setError } = useForm<SignUpInput>({
+    resolver: zodResolver(signUpSchema),
+    defaultValues: { companyName: '', name: '', email: '', password: '' },
+  });
+  const onSubmit = handleSubmit(async (values) => {
+    try {
+      await signUp.mutateAsync(values);
+    } catch (err) {
+      applyApiError(err, setError, ['companyName', 'name', 'email', 'password'], 'Sign-up failed. Try again.');
+    }
+  });
+  const footer = <AuthLink href="/sign-in" label="Already have an account? Sign in" testID="sign-up-to-sign-in" />;
+
+  if (signUp.isSuccess) {
+    return (
+      <AuthFrame testID="sign-up-screen" title="Check your e-mail" footer={footer}>
+        <Notice tone="success" testID="sign-up-done">
+          {`We sent a link to ${signUp.variables.email}. Open it to confirm your address and you are signed in. The link works for 24 hours.`}
+        </Notice>
+        <AppText muted>No mail after a few minutes? Look in the spam folder, or sign up again with the same address to get a new link.</AppText>
+      </AuthFrame>
+    );
+  }
+
+  const rootError = formState.errors.root?.message;
+  return (
+    <AuthFrame
+      testID="sign-up-screen"
+      title="Create your Trimout account"
+      intro="For a GC new to Trimout: your company and your own account. Others join a job by invitation from its GC manager."
+      footer={footer}
+    >
+      {rootError ? (
+        <Notice tone="error" testID="sign-up-error">
+          {rootError}
+        </Notice>
+      ) : null}
+      <Controller
+        control={control}
+        name="companyName"
+        render={({ field, fieldState }) => (
+          <TextField
+            testID="sign-up-company"
+            label="Company"
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+            autoComplete="organization"
+            returnKeyType="next"
+            onSubmitEditing={() => nameRef.current?.focus()}
+          />
+        )}
+      />
+      <Controller
+        control={control}
+        name="name"
+        render={({ field, fieldState }) => (
+          <TextField
+            ref={nameRef}
+            testID="sign-up-name"
+            label="Your name"
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+            autoComplete="name"
+            returnKeyType="next"
+            onSubmitEditing={() => emailRef.current?.focus()}
+          />
+        )}
+      />
+      <Controller
+        control={control}
+        name="email"
+        render={({ field, fieldState }) => (
+          <TextField
+            ref={emailRef}
+            testID="sign-up-email"
+            label="Work e-mail"
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+            autoCapitalize="none"
+            autoComplete="email"
+            inputMode="email"
+            returnKeyType="next"
+            onSubmitEditing={() => passwordRef.current?.focus()}
+          />
+        )}
+      />
+      <Controller
+        control={control}
+        name="password"
+        render={({ field, fieldState }) => (
+          <TextField
+            ref={passwordRef}
+            testID="sign-up-password"
+            label="Password"
+            hint="At least 8 characters; a long phrase is best."
+            value={field.value}
+            onChangeText={field.onChange}
+            onBlur={field.onBlur}
+            error={fieldState.error?.message}
+            secureTextEntry
+            autoComplete="new-password"
+            returnKeyType="go"
+            onSubmitEditing={onSubmit}
+          />
+        )}
+      />
+      <Button testID="sign-up-submit" label="Create account" onPress={onSubmit} busy={signUp.isPending} />
+    </AuthFrame>
+  );
+}

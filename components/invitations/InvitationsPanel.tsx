@@ -1,0 +1,242 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { Controller, useForm } from 'react-hook-form';
+import { StyleSheet, View } from 'react-native';
+import { invitationFormSchema, type Invitation, type InvitationFormInput } from '../../shared/schemas/auth';
+import { ROLES, ROLE_LABELS } from '../../shared/words';
+import { ApiError } from '../api/client';
+import { useJobCompaniesQuery } from '../queries/companies';
+import { inviteWrite, useCreateInvitationMutation, useInvitationsQuery, useRevokeInvitationMutation } from '../queries/invitations';
+import { colors, radius, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Button } from '../ui/Button';
+import { Card } from '../ui/Card';
+import { Notice } from '../ui/Notice';
+import { RoleBadge } from '../ui/RoleBadge';
+import { Segmented } from '../ui/Segmented';
+import { Select } from '../ui/Select';
+import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { TextField } from '../ui/TextField';
+
+/**
+ * For GC managers on the members screen: invite someone by e-mail with a role and company, and
+ * see or withdraw the invitations still waiting. Drop it in with `<InvitationsPanel jobId={...} />`.
+ */
+export function InvitationsPanel({ jobId }: { jobId: string }) {
+  return (
+    <View style={styles.panel} testID="invitations-panel">
+      <InviteForm jobId={jobId} />
+      <PendingInvitations jobId={jobId} />
+    </View>
+  );
+}
+
+const EMPTY: InvitationFormInput = { email: '', name: '', role: 'subcontractor', companyId: '' };
+
+function InviteForm({ jobId }: { jobId: string }) {
+  const companies = useJobCompaniesQuery(jobId);
+  const create = useCreateInvitationMutation(jobId);
+  const [sentTo, setSentTo] = useState<string | null>(null);
+  // One write per user action: a retry of the same submit reuses its Idempotency-Key.
+  const [pending, setPending] = useState<{ key: string; write: ReturnType<typeof inviteWrite> } | null>(null);
+  const { control, handleSubmit, formState, setError, reset, watch } = useForm<InvitationFormInput>({
+    resolver: zodResolver(invitationFormSchema),
+    defaultValues: EMPTY,
+  });
+  const role = watch('role');
+
+  const onSubmit = handleSubmit(async (values) => {
+    const input = {
+      email: values.email,
+      role: values.role,
+      ...(values.name ? { name: values.name } : {}),
+      ...(values.companyId ? { companyId: values.companyId } : {}),
+    };
+    const key = JSON.stringify(input);
+    const write = pending?.key === key ? pending.write : inviteWrite(jobId, input);
+    setPending({ key, write });
+    try {
+      await create.mutateAsync(write);
+      setPending(null);
+      setSentTo(values.email);
+      reset({ ...EMPTY, role: values.role, companyId: values.companyId });
+    } catch (err) {
+      if (err instanceof ApiError) {
+        for (const [field, message] of Object.entries(err.fields)) {
+          if (field === 'email' || field === 'name' || field === 'role' || field === 'companyId') setError(field, { message });
+        }
+        if (err.status !== 0) setPending(null); // refused: a changed form makes a new write
+        setError('root', { message: err.message });
+      } else {
+        setError('root', { message: 'The invitation was not sent. Try again.' });
+      }
+    }
+  });
+
+  const companyOptions = (companies.data ?? []).map((c) => ({ value: c.id, label: c.name }));
+  const rootError = formState.errors.root?.message;
+  return (
+    <Card testID="invite-form">
+      <AppText variant="heading" role="heading">
+        Invite someone
+      </AppText>
+      <AppText variant="small" muted>
+        They get an e-mail with a link that works once, for 7 days, to choose a password (or sign in, if they already have an
+        account) and join this job.
+      </AppText>
+      {sentTo ? (
+        <Notice tone="success" testID="invite-sent">
+          {`Invitation sent to ${sentTo}.`}
+        </Notice>
+      ) : null}
+      {rootError ? (
+        <Notice tone="error" testID="invite-form-error">
+          {rootError}
+        </Notice>
+      ) : null}
+      <View style={styles.fields}>
+        <View style={styles.field}>
+          <Controller
+            control={control}
+            name="email"
+            render={({ field, fieldState }) => (
+              <TextField
+                testID="invite-form-email"
+                label="E-mail"
+                value={field.value}
+                onChangeText={(v) => {
+                  setSentTo(null);
+                  field.onChange(v);
+                }}
+                onBlur={field.onBlur}
+                error={fieldState.error?.message}
+                autoCapitalize="none"
+                autoComplete="email"
+                inputMode="email"
+              />
+            )}
+          />
+        </View>
+        <View style={styles.field}>
+          <Controller
+            control={control}
+            name="name"
+            render={({ field, fieldState }) => (
+              <TextField
+                testID="invite-form-name"
+                label="Name (optional)"
+                value={field.value}
+                onChangeText={field.onChange}
+                onBlur={field.onBlur}
+                error={fieldState.error?.message}
+              />
+            )}
+          />
+        </View>
+      </View>
+      <Controller
+        control={control}
+        name="role"
+        render={({ field }) => (
+          <Segmented
+            label="Role"
+            testID="invite-form-role"
+            value={field.value}
+            options={ROLES.map((r) => ({ value: r, label: ROLE_LABELS[r] }))}
+            onChange={field.onChange}
+          />
+        )}
+      />
+      <Controller
+        control={control}
+        name="companyId"
+        render={({ field, fieldState }) => (
+          <Select
+            testID="invite-form-company"
+            label="Company"
+            value={field.value}
+            options={companyOptions}
+            onChange={field.onChange}
+            placeholder={role === 'subcontractor' ? 'Choose the company they work for' : 'My own company'}
+            hint={companies.isError ? 'The companies on this job did not load.' : 'Companies on this job. Add a company on the Companies page first.'}
+            error={fieldState.error?.message}
+            disabled={companies.isPending}
+          />
+        )}
+      />
+      <Button testID="invite-form-submit" label="Send invitation" onPress={onSubmit} busy={create.isPending} />
+    </Card>
+  );
+}
+
+function PendingInvitations({ jobId }: { jobId: string }) {
+  const invitations = useInvitationsQuery(jobId);
+  return (
+    <View style={styles.pending}>
+      <AppText variant="heading" role="heading">
+        Waiting for an answer
+      </AppText>
+      {invitations.isPending ? (
+        <LoadingState label="Loading invitations…" testID="invitations-loading" />
+      ) : invitations.isError ? (
+        <ErrorState message={invitations.error.message} onRetry={() => invitations.refetch()} testID="invitations-error" />
+      ) : invitations.data.length === 0 ? (
+        <EmptyState title="No invitations waiting" body="Invitations appear here until they are accepted, withdrawn or expire." testID="invitations-empty" />
+      ) : (
+        <View style={styles.list} testID="invitations-list">
+          {invitations.data.map((inv) => (
+            <InvitationRow key={inv.id} jobId={jobId} invitation={inv} />
+          ))}
+        </View>
+      )}
+    </View>
+  );
+}
+
+function InvitationRow({ jobId, invitation }: { jobId: string; invitation: Invitation }) {
+  const revoke = useRevokeInvitationMutation(jobId);
+  const expires = new Date(invitation.expiresAt);
+  return (
+    <View style={styles.row} testID={`invitation-row-${invitation.id}`}>
+      <View style={styles.grow}>
+        <AppText variant="heading">{invitation.name ?? invitation.email}</AppText>
+        <AppText variant="small" muted>
+          {[invitation.name ? invitation.email : null, invitation.company.name, `link valid until ${expires.toLocaleDateString()}`].filter(Boolean).join(' · ')}
+        </AppText>
+        {revoke.isError ? (
+          <AppText variant="small" style={{ color: colors.danger }} role="alert">
+            {revoke.error.message}
+          </AppText>
+        ) : null}
+      </View>
+      <RoleBadge role={invitation.role} />
+      <Button
+        testID={`invitation-withdraw-${invitation.id}`}
+        label="Withdraw"
+        tone="quiet"
+        busy={revoke.isPending}
+        onPress={() => revoke.mutate(invitation.id)}
+      />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  panel: { gap: space.lg },
+  fields: { flexDirection: 'row', flexWrap: 'wrap', columnGap: space.md },
+  field: { flexGrow: 1, flexBasis: 260 },
+  pending: { gap: space.sm },
+  list: { gap: space.sm },
+  row: {
+    flexDirection: 'row',
+    flexWrap: 'wrap',
+    alignItems: 'center',
+    gap: space.sm,
+    backgroundColor: colors.surface,
+    borderWidth: 1,
+    borderColor: colors.line,
+    borderRadius: radius.md,
+    padding: space.md,
+  },
+  grow: { flexGrow: 1, flexBasis: 220, gap: 2 },
+});

@@ -1,0 +1,184 @@
+/**
+ * Accounts by mail, no session needed:
+ * POST /api/signup                         a GC new to Trimout: company + first account (unconfirmed)
+ * POST /api/email-confirmations/:token     confirm the address, then signed in
+ * POST /api/password-resets                ask for a reset link (always the same 202)
+ * GET  /api/password-resets/:token         is the link still good?
+ * POST /api/password-resets/:token         new password: every other session ends, then signed in
+ *
+ * No answer tells whether an address has an account: sign-up and reset requests answer the same
+ * 202 either way, and the mail (to the address's owner) says what happened.
+ */
+import { Router, type NextFunction, type Request, type Response } from 'express';
+import { rateLimit } from 'express-rate-limit';
+import { UniqueConstraintError, fn, literal, Op } from 'sequelize';
+import {
+  passwordResetRequestSchema,
+  passwordResetSchema,
+  signUpSchema,
+  tokenParamsSchema,
+  type AcceptedResponse,
+  type PasswordResetInput,
+  type PasswordResetPreview,
+  type PasswordResetRequestInput,
+  type SignUpInput,
+} from '../../shared/schemas/auth';
+import { signInAs } from '../auth/establish';
+import { hashPassword } from '../auth/passwords';
+import { tooManyRequests } from '../errors';
+import type { MailService } from '../mail';
+import { confirmationMail, passwordResetMail, signUpExistsMail } from '../mail/messages';
+import { validate, valid } from '../middleware/validate';
+import { AuthToken, Company, User } from '../models';
+import { policy } from '../policies';
+import { consumeToken, hashToken, inspectToken, issueToken } from '../services/tokens';
+import { idempotentWrite } from '../services/idempotency';
+
+export interface AccountRouteOptions {
+  mail: MailService;
+  /** The sign-in limits: the same per-address budget; per-account for mails to one address. */
+  limits: { perAccount: number; perAddress: number; windowMs: number };
+}
+
+export const SIGN_UP_ACCEPTED: AcceptedResponse = {
+  message: 'Check your e-mail: we sent a link to confirm your address. It works for 24 hours.',
+};
+export const RESET_ACCEPTED: AcceptedResponse = {
+  message: 'If that address has a Trimout account, we sent it a link to choose a new password. It works for 1 hour.',
+};
+
+type Token = { token: string };
+
+export function accountsRouter(options: AccountRouteOptions): Router {
+  const router = Router();
+  const { mail } = options;
+  const { windowMs } = options.limits;
+  const tooMany = (_req: Request, _res: Response, next: NextFunction) =>
+    next(tooManyRequests('Too many attempts. Wait a few minutes and try again.', Math.ceil(windowMs / 1000)));
+  const perAddress = rateLimit({ windowMs, limit: options.limits.perAddress, standardHeaders: 'draft-8', legacyHeaders: false, handler: tooMany });
+  // Mails to one address: the same budget as failed sign-ins, so nobody can flood an inbox.
+  const perEmail = rateLimit({
+    windowMs,
+    limit: options.limits.perAccount,
+    standardHeaders: false,
+    legacyHeaders: false,
+    keyGenerator: (req) => `mail:${String(req.body?.email ?? '').trim().toLowerCase()}`,
+    handler: tooMany,
+  });
+  const perToken = rateLimit({
+    windowMs,
+    limit: options.limits.perAccount,
+    standardHeaders: false,
+    legacyHeaders: false,
+    keyGenerator: (req) => `token:${hashToken(String(req.params.token ?? ''))}`, // never keep the token itself
+    handler: tooMany,
+  });
+
+  router.post('/signup', policy.public(), perAddress, validate({ body: signUpSchema }), perEmail, async (req, res) => {
+    const input = valid<SignUpInput>(req.valid.body);
+    const email = input.email.toLowerCase();
+    // Hash first, whatever happens next: both answers take as long (no enumeration by timing).
+    const passwordHash = await hashPassword(input.password);
+    try {
+      await idempotentWrite(req, res, async (transaction) => {
+        const existing = await User.findOne({ where: { email }, transaction });
+        if (existing && !existing.disabledAt) {
+          if (!existing.emailConfirmedAt) {
+            // Signed up before and never confirmed: a fresh confirmation link; the password stays.
+            const { token } = await issueToken('email_confirmation', { userId: existing.id }, transaction);
+            mail.outbox.sendAfterCommit(transaction, confirmationMail({ name: existing.name, address: existing.email }, mail.link(req, `/confirm/${token}`)));
+          } else {
+            mail.outbox.sendAfterCommit(
+              transaction,
+              signUpExistsMail({ name: existing.name, address: existing.email }, mail.link(req, '/sign-in'), mail.link(req, '/forgot-password')),
+            );
+          }
+          return { status: 202, body: SIGN_UP_ACCEPTED };
+        }
+        if (existing) return { status: 202, body: SIGN_UP_ACCEPTED };
+        const company = await Company.create({ name: input.companyName }, { transaction });
+        const user = await User.create(
+          { companyId: company.id, email, name: input.name, passwordHash, emailConfirmedAt: null },
+          { transaction },
+        );
+        const { token } = await issueToken('email_confirmation', { userId: user.id }, transaction);
+        mail.outbox.sendAfterCommit(transaction, confirmationMail({ name: user.name, address: user.email }, mail.link(req, `/confirm/${token}`)));
+        return { status: 202, body: SIGN_UP_ACCEPTED };
+      });
+    } catch (err) {
+      // Two sign-ups with one address at the same moment: the loser gets the same answer.
+      if (err instanceof UniqueConstraintError && !res.headersSent) {
+        res.status(202).json(SIGN_UP_ACCEPTED);
+        return;
+      }
+      throw err;
+    }
+  });
+
+  router.post('/email-confirmations/:token', policy.public(), perAddress, validate({ params: tokenParamsSchema }), perToken, async (req, res) => {
+    const { token } = valid<Token>(req.valid.params);
+    const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
+    const userId = await sequelize.transaction(async (transaction) => {
+      const row = await consumeToken(token, 'email_confirmation', transaction);
+      await User.update({ emailConfirmedAt: fn('coalesce', literal('email_confirmed_at'), fn('now')) as unknown as Date }, { where: { id: row.userId! }, transaction });
+      return row.userId!;
+    });
+    res.status(200).json(await signInAs(req, userId));
+  });
+
+  router.post('/password-resets', policy.public(), perAddress, validate({ body: passwordResetRequestSchema }), perEmail, async (req, res) => {
+    const { email } = valid<PasswordResetRequestInput>(req.valid.body);
+    const user = await User.findOne({ where: { email: email.toLowerCase() } });
+    if (user && !user.disabledAt) {
+      const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
+      await sequelize.transaction(async (transaction) => {
+        const { token } = await issueToken('password_reset', { userId: user.id }, transaction);
+        mail.outbox.sendAfterCommit(transaction, passwordResetMail({ name: user.name, address: user.email }, mail.link(req, `/reset/${token}`)));
+      });
+    }
+    res.status(202).json(RESET_ACCEPTED);
+  });
+
+  router.get('/password-resets/:token', policy.public(), perAddress, validate({ params: tokenParamsSchema }), async (req, res) => {
+    const { token } = valid<Token>(req.valid.params);
+    const row = await inspectToken(token, 'password_reset');
+    res.json({ valid: true, expiresAt: row.expiresAt.toISOString() } satisfies PasswordResetPreview);
+  });
+
+  router.post(
+    '/password-resets/:token',
+    policy.public(),
+    perAddress,
+    validate({ params: tokenParamsSchema, body: passwordResetSchema }),
+    perToken,
+    async (req, res) => {
+      const { token } = valid<Token>(req.valid.params);
+      const { password } = valid<PasswordResetInput>(req.valid.body);
+      await inspectToken(token, 'password_reset'); // a dead link fails before the slow hash
+      const passwordHash = await hashPassword(password);
+      const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
+      const userId = await sequelize.transaction(async (transaction) => {
+        const row = await consumeToken(token, 'password_reset', transaction);
+        await User.update(
+          {
+            passwordHash,
+            // Ends every session of this user (the session keeps the epoch it was made with).
+            sessionEpoch: literal('session_epoch + 1') as unknown as number,
+            // The link came to this address: it is confirmed now.
+            emailConfirmedAt: fn('coalesce', literal('email_confirmed_at'), fn('now')) as unknown as Date,
+          },
+          { where: { id: row.userId! }, transaction },
+        );
+        // Other reset links of this user die with this one.
+        await AuthToken.update(
+          { revokedAt: fn('now') as unknown as Date },
+          { where: { userId: row.userId!, purpose: 'password_reset', usedAt: null, revokedAt: null, id: { [Op.ne]: row.id } }, transaction },
+        );
+        return row.userId!;
+      });
+      res.status(200).json(await signInAs(req, userId));
+    },
+  );
+
+  return router;
+}
