@@ -1,12 +1,15 @@
 /**
  * `npm start`: PostgreSQL (installed from Debian when missing) in .pgdata on 127.0.0.1,
  * migrations, the demo seed the first time, the web app built when its sources changed,
- * then the server. Ctrl-C stops the server and the database cleanly.
+ * the local S3 fake for photos (s3rver on 127.0.0.1:S3_PORT, data in .data/s3) unless S3_ENDPOINT
+ * is set, then the server. Ctrl-C stops the server, the S3 fake and the database cleanly.
  */
 import path from 'node:path';
 import { connect, migrate } from '../server/db';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../server/seed/demo';
 import { startServer } from '../server/index';
+import { envSchema } from '../server/env';
+import { startLocalObjectStore, type LocalObjectStore } from '../server/storage/local';
 import { ensureDatabase, startCluster } from './lib/postgres';
 import { say } from './lib/run';
 import { buildWebIfStale } from './lib/web';
@@ -18,6 +21,7 @@ async function main() {
   const pgPort = Number(process.env.TRIMOUT_PG_PORT ?? 54329);
   const cluster = await startCluster({ dataDir: path.join(root, '.pgdata'), port: pgPort });
   let stopping = false;
+  let photoStorage: LocalObjectStore | undefined;
   const stopDatabase = () => {
     try {
       cluster.stop();
@@ -38,14 +42,26 @@ async function main() {
 
     await buildWebIfStale(path.join(root, 'dist'));
 
+    const s3 = envSchema.pick({ S3_ENDPOINT: true, S3_PORT: true, S3_BUCKET: true }).parse(process.env);
+    if (!s3.S3_ENDPOINT) {
+      photoStorage = await startLocalObjectStore({
+        directory: path.join(root, '.data', 's3'),
+        port: s3.S3_PORT,
+        bucket: s3.S3_BUCKET,
+        log: say,
+      });
+    }
+    say(`photos are stored in ${photoStorage ? `${photoStorage.store.location} (data in ${path.relative(root, photoStorage.directory)})` : `s3://${s3.S3_BUCKET} at ${s3.S3_ENDPOINT}`}.`);
+
     const server = await startServer({
       ...process.env,
+      ...photoStorage?.env,
       DATABASE_URL: databaseUrl,
       WEB_DIST: path.join(root, 'dist'),
     });
     const width = Math.max(...DEMO_ACCOUNTS.map((a) => a.email.length));
     console.log(`
-Trimout is running at ${server.url}
+Trimout is running at ${server.url}${server.mailboxUrl ? `\nCaught mail: ${server.mailboxUrl}` : ''}
 
 Demo sign-ins (password for all: ${DEMO_PASSWORD})
 ${DEMO_ACCOUNTS.map((a) => `  ${a.email.padEnd(width)}  ${ROLE_LABELS[a.role]}`).join('\n')}
@@ -57,12 +73,14 @@ Press Ctrl-C to stop.`);
       stopping = true;
       say('stopping ...');
       await server.stop().catch(() => undefined);
+      await photoStorage?.close().catch(() => undefined);
       stopDatabase();
       process.exit(0);
     };
     process.on('SIGINT', shutdown);
     process.on('SIGTERM', shutdown);
   } catch (err) {
+    await photoStorage?.close().catch(() => undefined);
     stopDatabase();
     throw err;
   }

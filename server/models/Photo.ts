@@ -1,0 +1,49 @@
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import type { PhotoType } from '../services/photos';
+import type { Job } from './Job';
+import type { User } from './User';
+
+/**
+ * A stored photo of a finding or a fix (bytes in object storage, see server/services/photos.ts).
+ * Immutable once written: no updated_at, no version. finding_id / fix_id get their foreign keys
+ * from the findings and fixes migrations.
+ */
+export class Photo extends Model<InferAttributes<Photo>, InferCreationAttributes<Photo>> {
+  /** The UUID in the object keys (StoredPhoto.id). */
+  declare id: string;
+  declare jobId: ForeignKey<Job['id']>;
+  declare storageKey: string;
+  declare thumbKey: string;
+  declare contentType: string;
+  declare sourceType: PhotoType;
+  declare byteSize: number;
+  declare width: number;
+  declare height: number;
+  declare sha256: string;
+  declare uploadedBy: ForeignKey<User['id']>;
+  declare findingId: CreationOptional<string | null>;
+  declare fixId: CreationOptional<string | null>;
+  declare createdAt: CreationOptional<Date>;
+
+  static initModel(sequelize: Sequelize) {
+    Photo.init(
+      {
+        id: { type: DataTypes.UUID, primaryKey: true },
+        jobId: { type: DataTypes.UUID, allowNull: false },
+        storageKey: { type: DataTypes.STRING(200), allowNull: false },
+        thumbKey: { type: DataTypes.STRING(200), allowNull: false },
+        contentType: { type: DataTypes.STRING(40), allowNull: false },
+        sourceType: { type: DataTypes.STRING(40), allowNull: false },
+        byteSize: { type: DataTypes.INTEGER, allowNull: false },
+        width: { type: DataTypes.INTEGER, allowNull: false },
+        height: { type: DataTypes.INTEGER, allowNull: false },
+        sha256: { type: DataTypes.STRING(64), allowNull: false },
+        uploadedBy: { type: DataTypes.UUID, allowNull: false },
+        findingId: { type: DataTypes.UUID, allowNull: true },
+        fixId: { type: DataTypes.UUID, allowNull: true },
+        createdAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'photos', updatedAt: false },
+    );
+  }
+}

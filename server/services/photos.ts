@@ -1,0 +1,423 @@
+/**
+ * Photos: read from the bytes, re-encoded, stored, served.
+ *
+ * THE CONTRACT FOR CALLERS (a finding or a fix with photos is saved all or nothing):
+ *   1. `processPhotos(files)` first. It refuses the whole request (400/413/415 with a clear
+ *      message) before anything is stored, if any one file is not an acceptable photo.
+ *   2. `withStoredPhotos(store, processed, work)`: stores every photo (full + thumbnail) under
+ *      fresh server-made keys, then runs `work(stored)`, which writes the finding and its
+ *      `photos` rows in ONE database transaction. If storing fails, what was stored is deleted;
+ *      if `work` throws (the transaction rolled back), every stored object is deleted again.
+ *   So a failed upload never leaves a finding pointing at a missing photo, and a failed
+ *   finding never leaves orphan photos referenced. (Deleting the objects of a row that is
+ *   later removed is the caller's job: `removeStoredPhotos` after its transaction commits.)
+ *   `storePhotos` and `removeStoredPhotos` are the two halves, for callers that need them apart.
+ *
+ * Processing (`processPhoto`):
+ * - The type is decided from the bytes (magic numbers), never from the name or the declared
+ *   Content-Type: JPEG, PNG, WebP and HEIC/HEIF are accepted; SVG, GIF, AVIF, text, empty
+ *   files and everything else are refused.
+ * - Dimensions are read from the header and anything over PHOTO_PIXEL_LIMIT (40 MP, well under
+ *   sharp's default of 268 MP) is refused before it is decoded (a pixel flood); sharp's
+ *   `limitInputPixels` is set to the same value as a second guard.
+ * - JPEG, PNG and WebP are decoded by sharp with `failOn: 'truncated'` (a cut-off file is
+ *   refused). HEIC is decoded by `heic-decode` (libheif compiled to WebAssembly, no download):
+ *   sharp's prebuilt libvips reads HEIF containers but has no HEVC decoder.
+ * - EXIF orientation is applied (`.rotate()`), transparency is flattened onto white, the long
+ *   edge is capped at FULL_MAX_EDGE, and the result is re-encoded as a fresh sRGB JPEG with no
+ *   metadata at all (no EXIF, no GPS, no XMP, no ICC), plus a THUMB_EDGE thumbnail.
+ */
+import { createHash, randomUUID } from 'node:crypto';
+import { pipeline } from 'node:stream/promises';
+import type { Response } from 'express';
+import sharp from 'sharp';
+import { HttpError, notFound } from '../errors';
+import type { ObjectStore } from '../storage/types';
+
+/** Largest accepted photo in pixels (width × height): 40 MP, above any phone camera's 12–24 MP default. */
+export const PHOTO_PIXEL_LIMIT = 40_000_000;
+/** Long edge of the stored full-size photo, in pixels (a 12 MP phone photo, 4032 px, is kept as is). */
+export const FULL_MAX_EDGE = 4096;
+/** Long edge of the thumbnail, in pixels. */
+export const THUMB_EDGE = 320;
+export const FULL_JPEG_QUALITY = 85;
+export const THUMB_JPEG_QUALITY = 75;
+/** What every stored photo is. */
+export const PHOTO_CONTENT_TYPE = 'image/jpeg';
+/** Photos never change under an id: browsers may keep them, privately, for a day. */
+export const PHOTO_MAX_AGE_SECONDS = 24 * 60 * 60;
+
+export const ACCEPTED_PHOTO_TYPES = ['image/jpeg', 'image/png', 'image/webp', 'image/heic'] as const;
+export type PhotoType = (typeof ACCEPTED_PHOTO_TYPES)[number];
+
+export interface ProcessedPhoto {
+  /** The re-encoded photo (JPEG, no metadata). */
+  full: Buffer;
+  /** The thumbnail (JPEG, long edge THUMB_EDGE or less). */
+  thumb: Buffer;
+  /** Of `full`, after orientation. */
+  width: number;
+  height: number;
+  /** The type of the uploaded bytes. */
+  detectedType: PhotoType;
+  /** Hex SHA-256 of `full`, the stored object. */
+  sha256: string;
+}
+
+export interface StoredPhoto {
+  /** The photo's id: the UUID in its keys, to be used as the `photos` row id. */
+  id: string;
+  key: string;
+  thumbKey: string;
+  contentType: typeof PHOTO_CONTENT_TYPE;
+  byteSize: number;
+  width: number;
+  height: number;
+  sha256: string;
+  sourceType: PhotoType;
+}
+
+const ACCEPTED_LIST = 'JPEG, PNG, WebP or HEIC';
+
+const refusedType = (what: string) =>
+  new HttpError(415, 'unsupported_photo_type', `${what}. Photos must be ${ACCEPTED_LIST} images.`);
+const unreadable = () =>
+  new HttpError(400, 'unreadable_photo', 'The photo could not be read: the file is damaged or incomplete. Take or pick it again.');
+
+// ---------------------------------------------------------------------------------------------
+// Type from the bytes
+
+type Detection = { type: PhotoType } | { refused: string };
+
+function ascii(buf: Buffer, start: number, end: number): string {
+  return buf.subarray(start, Math.min(end, buf.length)).toString('latin1');
+}
+
+/** HEIF family from the ISO-BMFF `ftyp` box: major brand and compatible brands. */
+function heifBrands(buf: Buffer): string[] | null {
+  if (buf.length < 16 || ascii(buf, 4, 8) !== 'ftyp') return null;
+  const boxSize = buf.readUInt32BE(0);
+  const end = Math.min(boxSize >= 16 ? boxSize : 16, buf.length, 4096);
+  const brands = [ascii(buf, 8, 12)];
+  for (let i = 16; i + 4 <= end; i += 4) brands.push(ascii(buf, i, i + 4));
+  return brands;
+}
+
+const HEIC_BRANDS = new Set(['heic', 'heix', 'heim', 'heis', 'hevc', 'hevx', 'hevm', 'hevs']);
+const AVIF_BRANDS = new Set(['avif', 'avis']);
+
+/** Decides the type of an upload from its first bytes. */
+export function detectPhotoType(buf: Buffer): Detection {
+  if (buf.length === 0) return { refused: 'The file is empty (0 bytes)' };
+  if (buf.length >= 3 && buf[0] === 0xff && buf[1] === 0xd8 && buf[2] === 0xff) return { type: 'image/jpeg' };
+  if (buf.length >= 8 && buf.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]))) {
+    return { type: 'image/png' };
+  }
+  if (buf.length >= 12 && ascii(buf, 0, 4) === 'RIFF' && ascii(buf, 8, 12) === 'WEBP') return { type: 'image/webp' };
+  const brands = heifBrands(buf);
+  if (brands) {
+    if (brands.some((b) => HEIC_BRANDS.has(b))) return { type: 'image/heic' };
+    if (brands.some((b) => AVIF_BRANDS.has(b))) return { refused: 'This file is an AVIF image, which is not accepted' };
+    if (brands[0] === 'mif1' || brands[0] === 'msf1') return { type: 'image/heic' };
+    return { refused: 'This file is a video or another ISO media file, not a photo' };
+  }
+  const head = ascii(buf, 0, 6);
+  if (head === 'GIF87a' || head === 'GIF89a') return { refused: 'This file is a GIF image, which is not accepted' };
+  const text = buf.subarray(0, 512).toString('utf8').replace(/^\uFEFF/, '').trimStart().toLowerCase();
+  if (text.startsWith('<svg') || (text.startsWith('<?xml') && text.includes('<svg'))) {
+    return { refused: 'This file is an SVG drawing, which is not accepted' };
+  }
+  if (head.startsWith('%PDF')) return { refused: 'This file is a PDF document, not a photo' };
+  return { refused: 'This file is not an image' };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Decoding
+
+interface RawImage {
+  data: Buffer;
+  info: { width: number; height: number; channels: 1 | 2 | 3 | 4 };
+}
+
+function assertPixels(width: number, height: number) {
+  if (!(width > 0 && height > 0)) throw unreadable();
+  if (width * height > PHOTO_PIXEL_LIMIT) {
+    throw new HttpError(
+      413,
+      'too_many_pixels',
+      `The photo is ${width} × ${height} pixels; at most ${PHOTO_PIXEL_LIMIT / 1_000_000} megapixels are accepted.`,
+    );
+  }
+}
+
+const SHARP_INPUT: sharp.SharpOptions = { limitInputPixels: PHOTO_PIXEL_LIMIT, failOn: 'truncated', sequentialRead: true };
+
+/** Orientation applied, flattened onto white, long edge capped, 8-bit sRGB raw pixels. */
+function normalise(image: sharp.Sharp): Promise<RawImage> {
+  return image
+    .rotate()
+    .flatten({ background: '#ffffff' })
+    .resize({ width: FULL_MAX_EDGE, height: FULL_MAX_EDGE, fit: 'inside', withoutEnlargement: true })
+    .toColourspace('srgb')
+    .raw({ depth: 'uchar' })
+    .toBuffer({ resolveWithObject: true })
+    .then(({ data, info }) => ({ data, info: { width: info.width, height: info.height, channels: info.channels } }));
+}
+
+const SHARP_FORMAT: Record<Exclude<PhotoType, 'image/heic'>, string> = {
+  'image/jpeg': 'jpeg',
+  'image/png': 'png',
+  'image/webp': 'webp',
+};
+
+async function decodeWithSharp(buf: Buffer, type: Exclude<PhotoType, 'image/heic'>): Promise<RawImage> {
+  let meta: sharp.Metadata;
+  try {
+    // Header only, no pixels decoded: read without the pixel limit so an oversized image gets
+    // the clear 413 below rather than a generic decoding error.
+    meta = await sharp(buf, { limitInputPixels: false }).metadata();
+  } catch {
+    throw unreadable();
+  }
+  if (meta.format !== SHARP_FORMAT[type]) throw unreadable();
+  assertPixels(meta.width ?? 0, meta.height ?? 0);
+  try {
+    return await normalise(sharp(buf, SHARP_INPUT));
+  } catch {
+    throw unreadable();
+  }
+}
+
+/** The part of heic-decode's API used here (the package ships no types). */
+interface HeicImage {
+  width: number;
+  height: number;
+  decode(): Promise<{ width: number; height: number; data: Uint8ClampedArray }>;
+}
+type HeicDecodeAll = (input: { buffer: Uint8Array }) => Promise<HeicImage[] & { dispose(): void }>;
+
+let heicDecoder: HeicDecodeAll | undefined;
+function loadHeicDecoder(): HeicDecodeAll {
+  // Loaded on first use: it compiles libheif's WebAssembly (a few MB) when required.
+  heicDecoder ??= (require('heic-decode') as { all: HeicDecodeAll }).all;
+  return heicDecoder;
+}
+
+async function decodeHeic(buf: Buffer): Promise<RawImage> {
+  let images: Awaited<ReturnType<HeicDecodeAll>>;
+  try {
+    images = await loadHeicDecoder()({ buffer: buf });
+  } catch {
+    throw unreadable();
+  }
+  try {
+    const primary = images[0];
+    if (!primary) throw unreadable();
+    // Header dimensions first: nothing is decoded for a pixel flood.
+    assertPixels(primary.width, primary.height);
+    let decoded: Awaited<ReturnType<HeicImage['decode']>>;
+    try {
+      decoded = await primary.decode();
+    } catch {
+      throw unreadable();
+    }
+    // libheif has already applied the file's rotation and mirroring (irot/imir).
+    const pixels = Buffer.from(decoded.data.buffer, decoded.data.byteOffset, decoded.data.byteLength);
+    return await normalise(
+      sharp(pixels, { raw: { width: decoded.width, height: decoded.height, channels: 4 }, limitInputPixels: PHOTO_PIXEL_LIMIT }),
+    );
+  } finally {
+    images.dispose();
+  }
+}
+
+async function encode(raw: RawImage): Promise<Pick<ProcessedPhoto, 'full' | 'thumb' | 'width' | 'height'>> {
+  const input = () => sharp(raw.data, { raw: raw.info });
+  // No withMetadata()/keepExif(): sharp writes no EXIF, XMP or ICC into these JPEGs.
+  const [full, thumb] = await Promise.all([
+    input().jpeg({ quality: FULL_JPEG_QUALITY }).toBuffer(),
+    input()
+      .resize({ width: THUMB_EDGE, height: THUMB_EDGE, fit: 'inside', withoutEnlargement: true })
+      .jpeg({ quality: THUMB_JPEG_QUALITY })
+      .toBuffer(),
+  ]);
+  return { full, thumb, width: raw.info.width, height: raw.info.height };
+}
+
+/**
+ * Reads one upload and returns the re-encoded photo and its thumbnail, or throws an HttpError:
+ * 400 empty_photo / unreadable_photo, 413 too_many_pixels, 415 unsupported_photo_type.
+ */
+export async function processPhoto(buffer: Buffer): Promise<ProcessedPhoto> {
+  if (buffer.length === 0) throw new HttpError(400, 'empty_photo', 'The photo is empty (0 bytes). Take or pick it again.');
+  const detected = detectPhotoType(buffer);
+  if ('refused' in detected) throw refusedType(detected.refused);
+  const raw = detected.type === 'image/heic' ? await decodeHeic(buffer) : await decodeWithSharp(buffer, detected.type);
+  const out = await encode(raw);
+  return { ...out, detectedType: detected.type, sha256: createHash('sha256').update(out.full).digest('hex') };
+}
+
+/**
+ * Processes every upload of a request, one at a time (bounded memory), before anything is
+ * stored. The first refusal refuses the request; with several files its message names which.
+ */
+export async function processPhotos(files: readonly { buffer: Buffer }[]): Promise<ProcessedPhoto[]> {
+  const out: ProcessedPhoto[] = [];
+  for (const [i, file] of files.entries()) {
+    try {
+      out.push(await processPhoto(file.buffer));
+    } catch (err) {
+      if (err instanceof HttpError && files.length > 1) {
+        throw new HttpError(err.status, err.id, `Photo ${i + 1} of ${files.length}: ${err.message}`, err.fields, err.headers);
+      }
+      throw err;
+    }
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Storage
+
+/** The object keys of a photo: server-made from its UUID, never from a client's file name. */
+export function photoKeys(id: string): { key: string; thumbKey: string } {
+  return { key: `photos/${id}.jpg`, thumbKey: `photos/${id}-thumb.jpg` };
+}
+
+/** Keys of stored photos (both variants), for removeStoredPhotos. */
+export function keysOf(photos: readonly { key: string; thumbKey: string }[]): string[] {
+  return photos.flatMap((p) => [p.key, p.thumbKey]);
+}
+
+/**
+ * Stores each processed photo (full and thumbnail) under a fresh UUID. All or nothing: if any
+ * write fails, whatever this call wrote is deleted before the error is rethrown.
+ */
+export async function storePhotos(store: ObjectStore, processed: readonly ProcessedPhoto[]): Promise<StoredPhoto[]> {
+  const written: string[] = [];
+  const stored: StoredPhoto[] = [];
+  try {
+    for (const photo of processed) {
+      const id = randomUUID();
+      const { key, thumbKey } = photoKeys(id);
+      written.push(key);
+      await store.put(key, photo.full, PHOTO_CONTENT_TYPE);
+      written.push(thumbKey);
+      await store.put(thumbKey, photo.thumb, PHOTO_CONTENT_TYPE);
+      stored.push({
+        id,
+        key,
+        thumbKey,
+        contentType: PHOTO_CONTENT_TYPE,
+        byteSize: photo.full.length,
+        width: photo.width,
+        height: photo.height,
+        sha256: photo.sha256,
+        sourceType: photo.detectedType,
+      });
+    }
+  } catch (err) {
+    await removeStoredPhotos(store, written).catch(() => undefined);
+    throw err;
+  }
+  return stored;
+}
+
+/** The `photos` row values for stored photos (Photo.bulkCreate inside the caller's transaction). */
+export function photoRowValues(
+  stored: readonly StoredPhoto[],
+  owner: { jobId: string; uploadedBy: string; findingId?: string | null; fixId?: string | null },
+) {
+  return stored.map((p) => ({
+    id: p.id,
+    jobId: owner.jobId,
+    storageKey: p.key,
+    thumbKey: p.thumbKey,
+    contentType: p.contentType,
+    sourceType: p.sourceType,
+    byteSize: p.byteSize,
+    width: p.width,
+    height: p.height,
+    sha256: p.sha256,
+    uploadedBy: owner.uploadedBy,
+    findingId: owner.findingId ?? null,
+    fixId: owner.fixId ?? null,
+  }));
+}
+
+/**
+ * Deletes stored objects by key (keys that are already gone are fine). Rejects if the store
+ * refuses; callers cleaning up after another error log this and rethrow the first one.
+ */
+export async function removeStoredPhotos(store: ObjectStore, keys: readonly string[]): Promise<void> {
+  if (keys.length === 0) return;
+  await store.delete(keys);
+}
+
+/**
+ * Stores the photos, runs `work` (the caller's database transaction that writes the rows that
+ * reference them), and deletes the stored objects again if `work` throws. Returns what `work`
+ * returns. A cleanup failure is passed to `log` (those objects are then unreferenced, never
+ * referenced-but-missing) and the original error is rethrown.
+ */
+export async function withStoredPhotos<T>(
+  store: ObjectStore,
+  processed: readonly ProcessedPhoto[],
+  work: (stored: StoredPhoto[]) => Promise<T>,
+  log: (message: string, err?: unknown) => void = (m, e) => console.error(m, e),
+): Promise<T> {
+  const stored = await storePhotos(store, processed);
+  try {
+    return await work(stored);
+  } catch (err) {
+    try {
+      await removeStoredPhotos(store, keysOf(stored));
+    } catch (cleanupError) {
+      log(`could not remove ${stored.length} stored photo(s) after a failed write: ${keysOf(stored).join(', ')}`, cleanupError);
+    }
+    throw err;
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Serving
+
+export interface ServablePhoto {
+  id: string;
+  storageKey: string;
+  thumbKey: string;
+  contentType: string;
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/**
+ * Streams a photo (or its thumbnail) from the store. Call it only after the route's policy has
+ * decided the caller may see this photo. Sends the stored Content-Type with `nosniff`, an
+ * inline Content-Disposition named after the photo's id (never the uploaded file name), and a
+ * private cache lifetime. A missing object answers 404.
+ */
+export async function sendPhoto(
+  store: ObjectStore,
+  res: Response,
+  photo: ServablePhoto,
+  variant: 'full' | 'thumb',
+): Promise<void> {
+  if (!UUID.test(photo.id)) throw notFound('Photo not found.');
+  const object = await store.get(variant === 'thumb' ? photo.thumbKey : photo.storageKey);
+  if (!object) throw notFound('Photo not found.');
+  res.status(200).set({
+    'Content-Type': photo.contentType,
+    'Content-Length': String(object.length),
+    'X-Content-Type-Options': 'nosniff',
+    'Content-Disposition': `inline; filename="${photo.id}${variant === 'thumb' ? '-thumb' : ''}.jpg"`,
+    'Cache-Control': `private, max-age=${PHOTO_MAX_AGE_SECONDS}`,
+  });
+  try {
+    await pipeline(object.body, res);
+  } catch (err) {
+    // The client went away mid-photo: nothing to answer, nothing to log.
+    if ((err as NodeJS.ErrnoException).code === 'ERR_STREAM_PREMATURE_CLOSE' && res.destroyed) return;
+    throw err;
+  }
+}
