@@ -38,27 +38,55 @@ async function toError(res: Response): Promise<ApiError> {
   return new ApiError(res.status, 'http', `The server answered ${res.status}.`);
 }
 
+export interface WithMeta<T> {
+  data: T;
+  /** The record's version as the server sent it (ETag), for If-Match on a later change. */
+  etag: string | null;
+}
+
+/** True for a multipart body (FormData), sent without JSON encoding. */
+export function isFormData(body: unknown): body is FormData {
+  return typeof FormData !== 'undefined' && body instanceof FormData;
+}
+
 export async function request<T>(method: string, path: string, init: { body?: unknown; headers?: Record<string, string> } = {}): Promise<T> {
+  return (await requestWithMeta<T>(method, path, init)).data;
+}
+
+/** Like request(), and also hands back the response's ETag. */
+export async function requestWithMeta<T>(
+  method: string,
+  path: string,
+  init: { body?: unknown; headers?: Record<string, string> } = {},
+): Promise<WithMeta<T>> {
   let res: Response;
+  // A FormData body (photos) goes as it is: the browser writes the multipart Content-Type and boundary.
+  const form = isFormData(init.body);
   try {
     res = await fetch(path, {
       method,
       credentials: 'same-origin',
       headers: {
         Accept: 'application/json',
-        ...(init.body !== undefined ? { 'Content-Type': 'application/json' } : {}),
+        ...(init.body !== undefined && !form ? { 'Content-Type': 'application/json' } : {}),
         ...init.headers,
       },
-      body: init.body !== undefined ? JSON.stringify(init.body) : undefined,
+      body: form ? (init.body as FormData) : init.body !== undefined ? JSON.stringify(init.body) : undefined,
     });
   } catch {
     throw new ApiError(0, 'offline', 'No connection to Trimout. Check your signal and try again.');
   }
   if (!res.ok) throw await toError(res);
-  if (res.status === 204) return undefined as T;
-  return (await res.json()) as T;
+  const etag = res.headers.get('ETag');
+  if (res.status === 204) return { data: undefined as T, etag };
+  return { data: (await res.json()) as T, etag };
 }
 
 export function apiGet<T>(path: string): Promise<T> {
   return request<T>('GET', path);
+}
+
+/** A 409 (conflict) or 412 (someone changed it first): the screen reloads and says so. */
+export function isConflict(err: unknown): err is ApiError {
+  return err instanceof ApiError && (err.status === 409 || err.status === 412);
 }

@@ -1,10 +1,11 @@
-import { Link } from 'expo-router';
+import { Link, useRouter } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { SessionJob } from '../../shared/schemas/session';
 import { useJobsQuery } from '../queries/jobs';
 import { useSessionQuery } from '../queries/session';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
+import { Button } from '../ui/Button';
 import { RoleBadge } from '../ui/RoleBadge';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
@@ -12,15 +13,20 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 export function JobListScreen() {
   const session = useSessionQuery();
   const jobs = useJobsQuery();
+  const router = useRouter();
   const firstName = session.data?.user?.name.split(' ')[0];
+  const newJob = () => router.push('/jobs/new');
 
   return (
     <Screen testID="job-list-screen">
-      <View style={styles.head}>
-        <AppText variant="display" role="heading">
-          Your jobs
-        </AppText>
-        {firstName ? <AppText muted>Signed in as {firstName}. Pick a job to work on.</AppText> : null}
+      <View style={styles.headRow}>
+        <View style={styles.head}>
+          <AppText variant="display" role="heading">
+            Your jobs
+          </AppText>
+          {firstName ? <AppText muted>Signed in as {firstName}. Pick a job to work on.</AppText> : null}
+        </View>
+        {jobs.data && jobs.data.length > 0 ? <Button testID="new-job" label="New job" tone="secondary" onPress={newJob} /> : null}
       </View>
       {jobs.isPending ? (
         <LoadingState label="Loading your jobs…" />
@@ -29,7 +35,8 @@ export function JobListScreen() {
       ) : jobs.data.length === 0 ? (
         <EmptyState
           title="No jobs yet"
-          body="You are not a member of any job. A GC manager adds you to a job by inviting your e-mail address."
+          body="Create your first job to describe its levels, spaces, systems and units. If you were invited to someone else's job, it appears here once you accept."
+          action={<Button testID="create-first-job" label="Create your first job" onPress={newJob} />}
         />
       ) : (
         <View style={styles.grid} testID="job-list">
@@ -60,7 +67,8 @@ function JobCard({ job }: { job: SessionJob }) {
 }
 
 const styles = StyleSheet.create({
-  head: { gap: space.xs },
+  head: { gap: space.xs, flexShrink: 1 },
+  headRow: { flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'space-between', alignItems: 'flex-end', gap: space.md },
   grid: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   card: {
     flexGrow: 1,

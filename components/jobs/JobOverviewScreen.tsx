@@ -1,14 +1,16 @@
-import { Link } from 'expo-router';
-import { StyleSheet, View } from 'react-native';
+import { Link, type Href } from 'expo-router';
+import { Pressable, StyleSheet, View, useWindowDimensions } from 'react-native';
 import { ROLE_LABELS } from '../../shared/words';
 import { ApiError } from '../api/client';
 import { useJobQuery } from '../queries/jobs';
-import { colors, space } from '../theme';
+import { READ_ONLY_SECTIONS, SETUP_SECTIONS, canEditSetup, setupHref } from '../setup/SetupFrame';
+import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
 import { RoleBadge } from '../ui/RoleBadge';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { JobWalkLinks } from '../walk/JobWalkLinks';
 
 function formatDate(iso: string | null): string {
   if (!iso) return 'not set';
@@ -64,6 +66,8 @@ export function JobOverviewScreen({ jobId }: { jobId: string }) {
               <AppText>{job.data.timeZone}</AppText>
             </View>
           </Card>
+          <JobWalkLinks jobId={jobId} role={job.data.role} />
+          <SetupLinks jobId={jobId} editor={canEditSetup(job.data)} />
           <AppText variant="small" muted>
             Signed in as {ROLE_LABELS[job.data.role].toLowerCase()} on this job.
           </AppText>
@@ -73,7 +77,62 @@ export function JobOverviewScreen({ jobId }: { jobId: string }) {
   );
 }
 
+/** GC managers get every set-up section (and the job's details); others read what they need. */
+function SetupLinks({ jobId, editor }: { jobId: string; editor: boolean }) {
+  const sections = SETUP_SECTIONS.filter((s) => editor || READ_ONLY_SECTIONS.includes(s.key));
+  // Whole columns: a last card alone on its row keeps the width of the others.
+  const { width } = useWindowDimensions();
+  const columns = width >= 900 ? 3 : width >= 600 ? 2 : 1;
+  const cell = { width: `${(100 - (columns - 1) * 2) / columns}%` as const };
+  return (
+    <View style={styles.setup} testID="job-setup-links">
+      <View style={styles.setupHead}>
+        <AppText variant="title" role="heading">
+          {editor ? 'Set-up' : 'About this job'}
+        </AppText>
+        <AppText muted>
+          {editor
+            ? 'Describe the job before anyone walks a floor: levels, spaces, systems, units, companies, members and the defect catalogue.'
+            : 'The job as its GC manager set it up. You can read these; only a GC manager changes them.'}
+        </AppText>
+      </View>
+      <View style={styles.grid}>
+        {editor ? <SectionLink href={setupHref(jobId, 'job')} label="Job details" blurb="Name, number, address, dates, time zone and units." testID="setup-link-job" cell={cell} /> : null}
+        {sections.map((s) => (
+          <SectionLink key={s.key} href={setupHref(jobId, s.key)} label={s.label} blurb={s.blurb} testID={`setup-link-${s.key}`} cell={cell} />
+        ))}
+      </View>
+    </View>
+  );
+}
+
+function SectionLink({ href, label, blurb, testID, cell }: { href: Href; label: string; blurb: string; testID: string; cell: { width: `${number}%` } }) {
+  return (
+    <Link href={href} asChild>
+      <Pressable style={StyleSheet.flatten([styles.section, cell])} testID={testID} accessibilityRole="link">
+        <AppText variant="heading" style={{ color: colors.spruce }}>
+          {label} →
+        </AppText>
+        <AppText variant="small" muted>
+          {blurb}
+        </AppText>
+      </Pressable>
+    </Link>
+  );
+}
+
 const styles = StyleSheet.create({
+  setup: { gap: space.md },
+  setupHead: { gap: space.xs },
+  grid: { flexDirection: 'row', flexWrap: 'wrap', columnGap: '2%', rowGap: space.md },
+  section: {
+    backgroundColor: colors.surface,
+    borderRadius: radius.md,
+    borderWidth: 1,
+    borderColor: colors.line,
+    padding: space.lg,
+    gap: space.xs,
+  },
   back: { alignSelf: 'flex-start', paddingVertical: space.xs },
   head: { gap: space.xs },
   row: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.md, flexWrap: 'wrap', paddingVertical: space.xs },

@@ -1,3 +1,4 @@
+import type { ReactNode } from 'react';
 import { ActivityIndicator, StyleSheet, View } from 'react-native';
 import { colors, space } from '../theme';
 import { AppText } from './AppText';
@@ -24,7 +25,18 @@ export function ErrorState({ message, onRetry, testID = 'state-error' }: { messa
   );
 }
 
-export function EmptyState({ title, body, testID = 'state-empty' }: { title: string; body?: string; testID?: string }) {
+export function EmptyState({
+  title,
+  body,
+  testID = 'state-empty',
+  action,
+}: {
+  title: string;
+  body?: string;
+  testID?: string;
+  /** The clear next step, e.g. a button that adds the first item. */
+  action?: ReactNode;
+}) {
   return (
     <View style={styles.box} testID={testID}>
       <AppText variant="heading">{title}</AppText>
@@ -33,6 +45,7 @@ export function EmptyState({ title, body, testID = 'state-empty' }: { title: str
           {body}
         </AppText>
       ) : null}
+      {action ?? null}
     </View>
   );
 }

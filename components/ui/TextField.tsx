@@ -7,15 +7,17 @@ export interface TextFieldProps extends TextInputProps {
   label: string;
   error?: string;
   hint?: string;
+  /** Drop the bottom margin (inline in a row of filters). */
+  compact?: boolean;
 }
 
 /** A labelled input; its error is announced and shown under it. */
 export const TextField = forwardRef<TextInput, TextFieldProps>(function TextField(
-  { label, error, hint, style, testID, ...rest },
+  { label, error, hint, style, testID, compact, ...rest },
   ref,
 ) {
   return (
-    <View style={styles.wrap}>
+    <View style={[styles.wrap, compact ? styles.compact : null]}>
       <AppText variant="label" nativeID={testID ? `${testID}-label` : undefined}>
         {label}
       </AppText>
@@ -43,6 +45,7 @@ export const TextField = forwardRef<TextInput, TextFieldProps>(function TextFiel
 
 const styles = StyleSheet.create({
   wrap: { gap: space.xs, marginBottom: space.lg },
+  compact: { marginBottom: 0 },
   input: {
     minHeight: touchTarget + 4,
     borderWidth: 1.5,

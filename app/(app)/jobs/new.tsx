@@ -1,0 +1,5 @@
+import { NewJobScreen } from '../../../components/jobs/NewJobScreen';
+
+export default function NewJobRoute() {
+  return <NewJobScreen />;
+}

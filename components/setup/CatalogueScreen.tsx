@@ -1,0 +1,423 @@
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { CODE_LIMITS } from '../../shared/calc/limits';
+import { CATALOGUE_GROUPS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type LimitRef } from '../../shared/catalogue/types';
+import {
+  createCatalogueItemSchema,
+  measuredRuleSchema,
+  updateCatalogueItemSchema,
+  type CatalogueItemDto,
+  type JobDetail,
+} from '../../shared/schemas/setup';
+import { SEVERITIES, SEVERITY_LABELS, TRADES, UNIT_KINDS, type Severity, type TradeKey, type UnitKindKey } from '../../shared/words';
+import { ApiError } from '../api/client';
+import { useCatalogueQuery, useCreateCatalogueItemMutation, useUpdateCatalogueItemMutation } from '../queries/catalogue';
+import { colors, radius, severityColors, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Badge } from '../ui/Badge';
+import { Button } from '../ui/Button';
+import { Card } from '../ui/Card';
+import { Chips } from '../ui/Chips';
+import { Notice, SafetyCaution } from '../ui/Notice';
+import { Segmented } from '../ui/Segmented';
+import { Select } from '../ui/Select';
+import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { TextField } from '../ui/TextField';
+import { useWide } from '../ui/useWide';
+import { TRADE_LABEL } from './CompaniesScreen';
+import { writeErrorMessage } from './formErrors';
+import { ruleWords } from './ruleWords';
+import { SetupFrame, canEditSetup } from './SetupFrame';
+import { KIND_LABEL } from './UnitsScreen';
+
+export function CatalogueScreen({ jobId }: { jobId: string }) {
+  return (
+    <SetupFrame
+      jobId={jobId}
+      section="catalogue"
+      title="Defect catalogue"
+      intro="The defect types this job checks. It starts from Trimout's built-in catalogue; add your own, edit, or retire types you do not check."
+      testID="catalogue-screen"
+    >
+      {(job) => <CatalogueBody job={job} />}
+    </SetupFrame>
+  );
+}
+
+function CatalogueBody({ job }: { job: JobDetail }) {
+  const editor = canEditSetup(job);
+  const [unitKind, setUnitKind] = useState<UnitKindKey | ''>('');
+  const [includeRetired, setIncludeRetired] = useState(false);
+  const [form, setForm] = useState<{ item?: CatalogueItemDto } | null>(null);
+  const items = useCatalogueQuery(job.id, { unitKind: unitKind || undefined, includeRetired });
+
+  return (
+    <View style={styles.body}>
+      <View style={styles.filters}>
+        <View style={styles.filter}>
+          <Select
+            compact
+            label="Unit kind"
+            testID="catalogue-kind"
+            value={unitKind}
+            placeholder="All unit kinds"
+            options={UNIT_KINDS.map((k) => ({ value: k.key, label: k.label }))}
+            onChange={(v) => setUnitKind(v as UnitKindKey | '')}
+          />
+        </View>
+        <View style={styles.filter}>
+          <Select
+            compact
+            label="Show"
+            testID="catalogue-retired"
+            value={includeRetired ? 'all' : 'active'}
+            options={[
+              { value: 'active', label: 'Types in use' },
+              { value: 'all', label: 'Also retired types' },
+            ]}
+            onChange={(v) => setIncludeRetired(v === 'all')}
+          />
+        </View>
+        {editor && !form ? <Button testID="catalogue-add" label="Add a defect type" tone="secondary" onPress={() => setForm({})} /> : null}
+      </View>
+      {form && editor ? <CatalogueForm key={form.item?.id ?? 'new'} job={job} existing={form.item} onDone={() => setForm(null)} /> : null}
+      {items.isPending ? (
+        <LoadingState label="Loading the catalogue…" />
+      ) : items.isError ? (
+        <ErrorState message={items.error.message} onRetry={() => items.refetch()} />
+      ) : items.data.length === 0 ? (
+        <EmptyState
+          title="No defect types"
+          body={unitKind ? 'No defect type applies to this unit kind.' : 'This job has no defect types yet.'}
+          testID="catalogue-empty"
+        />
+      ) : (
+        <View style={styles.groups} testID="catalogue-list">
+          {CATALOGUE_GROUPS.map((g) => {
+            const inGroup = items.data.filter((i) => i.group === g.key);
+            if (inGroup.length === 0) return null;
+            return (
+              <View key={g.key} style={styles.group} testID={`catalogue-group-${g.key}`}>
+                <AppText variant="title" role="heading">
+                  {g.label}{' '}
+                  <AppText variant="body" muted>
+                    ({inGroup.length})
+                  </AppText>
+                </AppText>
+                {inGroup.map((item) => (
+                  <CatalogueItemCard key={item.id} job={job} item={item} editor={editor} onEdit={() => setForm({ item })} />
+                ))}
+              </View>
+            );
+          })}
+        </View>
+      )}
+    </View>
+  );
+}
+
+function SeverityBadge({ severity }: { severity: Severity }) {
+  const c = severityColors[severity];
+  return (
+    <View style={[styles.severity, { backgroundColor: c.bg }]}>
+      <AppText variant="label" style={{ color: c.fg }}>
+        {SEVERITY_LABELS[severity]}
+      </AppText>
+    </View>
+  );
+}
+
+function CatalogueItemCard({ job, item, editor, onEdit }: { job: JobDetail; item: CatalogueItemDto; editor: boolean; onEdit: () => void }) {
+  const [open, setOpen] = useState(false);
+  const [error, setError] = useState<string | null>(null);
+  const update = useUpdateCatalogueItemMutation(job.id);
+  const retired = item.retiredAt !== null;
+  return (
+    <View style={[styles.item, retired ? styles.retired : null]} testID={`catalogue-item-${item.code}`}>
+      <View style={styles.itemHead}>
+        <AppText variant="label" style={styles.code}>
+          {item.code}
+        </AppText>
+        <View style={styles.grow}>
+          <AppText variant="heading">{item.title}</AppText>
+          <View style={styles.meta}>
+            <SeverityBadge severity={item.defaultSeverity} />
+            <Badge label={TRADE_LABEL[item.trade]} />
+            {item.measuredRule ? <Badge label="Measured" tone="info" /> : null}
+            {item.caution ? <Badge label="Caution" tone="warn" /> : null}
+            {!item.builtin ? <Badge label="Added for this job" tone="neutral" /> : null}
+            {retired ? <Badge label="Retired" tone="bad" /> : null}
+          </View>
+        </View>
+        <Button label={open ? 'Less' : 'More'} tone="quiet" testID={`catalogue-more-${item.code}`} onPress={() => setOpen((o) => !o)} />
+      </View>
+      {open ? (
+        <View style={styles.detail}>
+          <AppText>{item.description}</AppText>
+          <AppText variant="small" muted>
+            Applies to: {item.unitKinds.map((k) => KIND_LABEL[k]).join(', ')}
+            {item.needsCeilingAccess ? '. The fix needs access above the ceiling.' : '.'}
+          </AppText>
+          {item.measuredRule ? (
+            <View>
+              <AppText variant="label">Measured rule</AppText>
+              <AppText testID={`catalogue-rule-${item.code}`}>{ruleWords(item.measuredRule, job.unitSystem)}</AppText>
+            </View>
+          ) : null}
+          <View>
+            <AppText variant="label">How to fix</AppText>
+            <AppText>{item.fixGuidance}</AppText>
+          </View>
+          {item.caution ? <SafetyCaution text={item.caution} testID={`catalogue-caution-${item.code}`} /> : null}
+          {error ? <Notice tone="error">{error}</Notice> : null}
+          {editor ? (
+            <View style={styles.actions}>
+              <Button label="Edit" tone="secondary" testID={`catalogue-edit-${item.code}`} onPress={onEdit} />
+              <Button
+                label={retired ? 'Bring back' : 'Retire'}
+                tone="quiet"
+                testID={`catalogue-retire-${item.code}`}
+                busy={update.isPending}
+                onPress={() => {
+                  setError(null);
+                  update.mutate({ item, input: { retired: !retired } }, { onError: (err) => setError(writeErrorMessage(err)) });
+                }}
+              />
+            </View>
+          ) : null}
+        </View>
+      ) : null}
+    </View>
+  );
+}
+
+// --------------------------------------------------------------------------------------------
+// Add / edit
+// --------------------------------------------------------------------------------------------
+
+const LIMIT_SOURCES: { value: string; label: string }[] = [
+  ...MODEL_LIMITS.map((m) => ({ value: `model:${m.key}`, label: `Unit model: ${m.label}` })),
+  ...JOB_SETTINGS.map((s) => ({ value: `job:${s.key}`, label: `Job setting: ${s.label}` })),
+  ...Object.values(CODE_LIMITS).map((c) => ({ value: `code:${c.key}`, label: `${c.document} ${c.section}: ${c.label}` })),
+];
+
+function toRef(value: string): LimitRef | undefined {
+  const [from, ...rest] = value.split(':');
+  const key = rest.join(':');
+  if (!key) return undefined;
+  if (from === 'model' || from === 'job' || from === 'code') return { from, key } as LimitRef;
+  return undefined;
+}
+const fromRef = (ref: LimitRef | undefined) => (ref ? `${ref.from}:${ref.key}` : '');
+
+interface Draft {
+  code: string;
+  group: string;
+  title: string;
+  description: string;
+  unitKinds: UnitKindKey[];
+  defaultSeverity: Severity;
+  trade: TradeKey;
+  fixGuidance: string;
+  caution: string;
+  needsCeilingAccess: 'yes' | 'no';
+  hasRule: 'yes' | 'no';
+  measure: string;
+  quantity: string;
+  comparison: string;
+  limit: string;
+  upper: string;
+  tolerance: string;
+  expected: 'yes' | 'no';
+}
+
+function draftOf(item?: CatalogueItemDto): Draft {
+  const r = item?.measuredRule;
+  return {
+    code: item?.code ?? '',
+    group: item?.group ?? 'mounting',
+    title: item?.title ?? '',
+    description: item?.description ?? '',
+    unitKinds: item?.unitKinds ?? [],
+    defaultSeverity: item?.defaultSeverity ?? 'major',
+    trade: item?.trade ?? 'mechanical',
+    fixGuidance: item?.fixGuidance ?? '',
+    caution: item?.caution ?? '',
+    needsCeilingAccess: item?.needsCeilingAccess ? 'yes' : 'no',
+    hasRule: r ? 'yes' : 'no',
+    measure: r?.measure ?? '',
+    quantity: r?.quantity ?? 'length',
+    comparison: r?.comparison ?? 'at_least',
+    limit: fromRef(r?.limit),
+    upper: fromRef(r?.upper),
+    tolerance: r?.tolerance !== undefined ? String(r.tolerance) : '',
+    expected: r?.expected === false ? 'no' : 'yes',
+  };
+}
+
+const COMPARISON_LABEL: Record<string, string> = {
+  at_least: 'At least the limit',
+  at_most: 'At most the limit',
+  between: 'Between two limits',
+  equal_within: 'Equal to the limit, within a tolerance',
+  yes_no: 'A yes/no answer',
+};
+
+function CatalogueForm({ job, existing, onDone }: { job: JobDetail; existing?: CatalogueItemDto; onDone: () => void }) {
+  const wide = useWide();
+  const create = useCreateCatalogueItemMutation(job.id);
+  const update = useUpdateCatalogueItemMutation(job.id);
+  const [d, setD] = useState<Draft>(() => draftOf(existing));
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const set = <K extends keyof Draft>(k: K, v: Draft[K]) => setD((x) => ({ ...x, [k]: v }));
+
+  const submit = () => {
+    let measuredRule: unknown = null;
+    if (d.hasRule === 'yes') {
+      const rule = {
+        measure: d.measure,
+        quantity: d.quantity,
+        comparison: d.comparison,
+        ...(d.comparison !== 'yes_no' ? { limit: toRef(d.limit) } : {}),
+        ...(d.comparison === 'between' ? { upper: toRef(d.upper) } : {}),
+        ...(d.comparison === 'equal_within' ? { tolerance: Number(d.tolerance) } : {}),
+        ...(d.comparison === 'yes_no' ? { expected: d.expected === 'yes' } : {}),
+      };
+      const r = measuredRuleSchema.safeParse(rule);
+      if (!r.success) {
+        const issue = r.error.issues[0];
+        setErrors({ measuredRule: issue?.message ?? 'Check the measured rule.' });
+        return;
+      }
+      measuredRule = r.data;
+    }
+    const body = {
+      group: d.group,
+      title: d.title,
+      description: d.description,
+      unitKinds: d.unitKinds,
+      defaultSeverity: d.defaultSeverity,
+      trade: d.trade,
+      measuredRule,
+      fixGuidance: d.fixGuidance,
+      caution: d.caution.trim() === '' ? null : d.caution,
+      needsCeilingAccess: d.needsCeilingAccess === 'yes',
+    };
+    const parsed = existing ? updateCatalogueItemSchema.safeParse(body) : createCatalogueItemSchema.safeParse({ ...body, code: d.code });
+    if (!parsed.success) {
+      const next: Record<string, string> = {};
+      for (const issue of parsed.error.issues) next[String(issue.path[0] ?? 'root')] ??= issue.message;
+      setErrors(next);
+      return;
+    }
+    setErrors({});
+    const onError = (err: unknown) => setErrors({ ...(err instanceof ApiError ? topLevel(err.fields) : {}), root: writeErrorMessage(err) });
+    if (existing) {
+      update.mutate({ item: existing, input: updateCatalogueItemSchema.parse(body) }, { onSuccess: onDone, onError });
+    } else {
+      create.mutate(createCatalogueItemSchema.parse({ ...body, code: d.code }), { onSuccess: onDone, onError });
+    }
+  };
+
+  const pair = wide ? styles.pair : null;
+  return (
+    <Card testID="catalogue-form">
+      <AppText variant="heading">{existing ? `Edit ${existing.code}` : 'New defect type'}</AppText>
+      {errors.root ? (
+        <Notice tone="error" testID="catalogue-form-error">
+          {errors.root}
+        </Notice>
+      ) : null}
+      <View style={pair}>
+        {!existing ? (
+          <View style={styles.cell}>
+            <TextField label="Code" testID="catalogue-code-input" value={d.code} onChangeText={(v) => set('code', v)} placeholder="e.g. DR-41" autoCapitalize="characters" error={errors.code} />
+          </View>
+        ) : null}
+        <View style={styles.cell}>
+          <Select label="Group" testID="catalogue-group-input" value={d.group} options={CATALOGUE_GROUPS.map((g) => ({ value: g.key, label: g.label }))} onChange={(v) => set('group', v)} error={errors.group} />
+        </View>
+      </View>
+      <TextField label="Title" testID="catalogue-title-input" value={d.title} onChangeText={(v) => set('title', v)} error={errors.title} />
+      <TextField label="Description" testID="catalogue-description-input" value={d.description} onChangeText={(v) => set('description', v)} multiline style={styles.multi} error={errors.description} />
+      <Chips label="Applies to" values={d.unitKinds} options={UNIT_KINDS.map((k) => ({ value: k.key, label: k.label }))} onChange={(v) => set('unitKinds', v)} error={errors.unitKinds} testID="catalogue-kinds-input" />
+      <View style={pair}>
+        <View style={styles.cell}>
+          <Select label="Default severity" testID="catalogue-severity-input" value={d.defaultSeverity} options={SEVERITIES.map((s) => ({ value: s, label: SEVERITY_LABELS[s] }))} onChange={(v) => set('defaultSeverity', v as Severity)} />
+        </View>
+        <View style={styles.cell}>
+          <Select label="Usual trade" testID="catalogue-trade-input" value={d.trade} options={TRADES.map((t) => ({ value: t.key, label: t.label }))} onChange={(v) => set('trade', v as TradeKey)} />
+        </View>
+      </View>
+      <TextField label="How to fix" testID="catalogue-fix-input" value={d.fixGuidance} onChangeText={(v) => set('fixGuidance', v)} multiline style={styles.multi} error={errors.fixGuidance} />
+      <TextField
+        label="Caution (optional)"
+        testID="catalogue-caution-input"
+        value={d.caution}
+        onChangeText={(v) => set('caution', v)}
+        multiline
+        style={styles.multi}
+        hint="For hazardous work: electrical, refrigerant, brazing, lifting, overhead."
+        error={errors.caution}
+      />
+      <Segmented label="The fix needs access above the ceiling" value={d.needsCeilingAccess} options={[{ value: 'no', label: 'No' }, { value: 'yes', label: 'Yes' }]} onChange={(v) => set('needsCeilingAccess', v)} />
+      <Segmented label="Measured rule" testID="catalogue-has-rule" value={d.hasRule} options={[{ value: 'no', label: 'None' }, { value: 'yes', label: 'Measure a value' }]} onChange={(v) => set('hasRule', v)} />
+      {d.hasRule === 'yes' ? (
+        <View style={styles.rule}>
+          {errors.measuredRule ? <Notice tone="error">{errors.measuredRule}</Notice> : null}
+          <TextField label="What is measured" testID="catalogue-measure-input" value={d.measure} onChangeText={(v) => set('measure', v)} placeholder="e.g. Pump lift from the unit's base" />
+          <View style={pair}>
+            <View style={styles.cell}>
+              <Select label="Quantity" value={d.quantity} options={QUANTITY_KINDS.map((q) => ({ value: q, label: q }))} onChange={(v) => set('quantity', v)} />
+            </View>
+            <View style={styles.cell}>
+              <Select label="Passes when" value={d.comparison} options={COMPARISONS.map((c) => ({ value: c, label: COMPARISON_LABEL[c] ?? c }))} onChange={(v) => set('comparison', v)} />
+            </View>
+          </View>
+          {d.comparison === 'yes_no' ? (
+            <Segmented label="The answer that passes" value={d.expected} options={[{ value: 'yes', label: 'Yes' }, { value: 'no', label: 'No' }]} onChange={(v) => set('expected', v)} />
+          ) : (
+            <Select label={d.comparison === 'between' ? 'Lower limit from' : 'Limit from'} value={d.limit} placeholder="Choose where the limit comes from" options={LIMIT_SOURCES} onChange={(v) => set('limit', v)} />
+          )}
+          {d.comparison === 'between' ? (
+            <Select label="Upper limit from" value={d.upper} placeholder="Choose where the limit comes from" options={LIMIT_SOURCES} onChange={(v) => set('upper', v)} />
+          ) : null}
+          {d.comparison === 'equal_within' ? (
+            <TextField label="Tolerance (base units: mm, degrees or ratio)" value={d.tolerance} onChangeText={(v) => set('tolerance', v)} inputMode="decimal" />
+          ) : null}
+        </View>
+      ) : null}
+      <View style={styles.actions}>
+        <Button testID="catalogue-submit" label={existing ? 'Save defect type' : 'Add defect type'} onPress={submit} busy={create.isPending || update.isPending} />
+        <Button label="Cancel" tone="quiet" onPress={onDone} />
+      </View>
+    </Card>
+  );
+}
+
+function topLevel(fields: Record<string, string>): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [k, v] of Object.entries(fields)) out[k.split('.')[0]!] ??= v;
+  return out;
+}
+
+const styles = StyleSheet.create({
+  body: { gap: space.lg },
+  filters: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'flex-end' },
+  filter: { flexGrow: 1, flexBasis: 200, minWidth: 0 },
+  groups: { gap: space.xl },
+  group: { gap: space.sm },
+  item: { backgroundColor: colors.surface, borderRadius: radius.md, borderWidth: 1, borderColor: colors.line, padding: space.md, gap: space.sm },
+  retired: { opacity: 0.7, borderStyle: 'dashed' },
+  itemHead: { flexDirection: 'row', alignItems: 'flex-start', gap: space.md },
+  code: { minWidth: 52, paddingTop: 2, color: colors.spruce },
+  grow: { flexGrow: 1, flexShrink: 1, minWidth: 0, gap: space.xs },
+  meta: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
+  severity: { alignSelf: 'flex-start', borderRadius: radius.sm, paddingHorizontal: space.sm, paddingVertical: 2 },
+  detail: { gap: space.sm, borderTopWidth: 1, borderTopColor: colors.line, paddingTop: space.sm },
+  actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs, alignItems: 'center' },
+  pair: { flexDirection: 'row', gap: space.lg },
+  cell: { flex: 1, minWidth: 0 },
+  multi: { minHeight: 90, paddingTop: space.sm, textAlignVertical: 'top' },
+  rule: { borderLeftWidth: 3, borderLeftColor: colors.spruceSoft, paddingLeft: space.md },
+});

@@ -1,0 +1,84 @@
+import { StyleSheet, View } from 'react-native';
+import { formatQuantity } from '../../shared/calc/format';
+import type { UnitSystem } from '../../shared/catalogue/types';
+import type { SystemDetail } from '../../shared/schemas/setup';
+import { colors, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Badge } from '../ui/Badge';
+import { SafetyCaution } from '../ui/Notice';
+
+const STATUS: Record<SystemDetail['concentration']['status'], { label: string; tone: 'good' | 'bad' | 'warn' | 'info' }> = {
+  pass: { label: 'Within the limit', tone: 'good' },
+  fail: { label: 'Over the limit', tone: 'bad' },
+  limit_not_set: { label: 'Limit not set', tone: 'warn' },
+  not_measured: { label: 'Not checked yet', tone: 'info' },
+  invalid: { label: 'Cannot check yet', tone: 'warn' },
+};
+
+/**
+ * A system's refrigerant concentration check in plain words: which space (or joined spaces)
+ * governs, the charge it allows against the system's charge, pass or fail, and the code source.
+ */
+export function ConcentrationResultView({ detail, unitSystem }: { detail: SystemDetail; unitSystem: UnitSystem }) {
+  const c = detail.concentration;
+  const status = STATUS[c.status];
+  const mass = (kg: number) => formatQuantity(kg, 'mass', unitSystem);
+  return (
+    <View style={styles.box} testID={`concentration-${detail.id}`}>
+      <View style={styles.head}>
+        <AppText variant="heading">Refrigerant concentration</AppText>
+        <Badge label={status.label} tone={status.tone} testID="concentration-status" />
+      </View>
+      <AppText testID="concentration-message">{c.message}</AppText>
+      {c.governing ? (
+        <View style={styles.facts}>
+          <Fact label="Governing space" value={c.governing.names.join(' + ')} testID="concentration-governing" />
+          <Fact label="Its volume" value={formatQuantity(c.governing.volume, 'volume', unitSystem)} />
+          <Fact label="Charge it allows" value={mass(c.governing.allowedCharge)} testID="concentration-allowed" />
+          <Fact label="System charge (factory + field)" value={mass(c.totalCharge)} />
+          {c.governing.institutional ? <Fact label="Occupancy" value="Institutional: limit halved" /> : null}
+        </View>
+      ) : (
+        <Fact label="System charge (factory + field)" value={mass(c.totalCharge)} />
+      )}
+      {c.limit ? (
+        <AppText variant="small" muted testID="concentration-source">
+          Limit {c.limit.value} {c.limit.unit}. Source: {c.limit.source}.
+        </AppText>
+      ) : null}
+      {detail.a2lFloorArea.length > 0 ? (
+        <View style={styles.a2l}>
+          <AppText variant="label">Minimum room floor area (A2L refrigerant, IEC 60335-2-40 Annex GG)</AppText>
+          {detail.a2lFloorArea.map((a) => (
+            <AppText key={a.unitId} variant="small">
+              {a.tag}
+              {a.spaceName ? ` in ${a.spaceName}` : ''}: {a.result.message}
+            </AppText>
+          ))}
+        </View>
+      ) : null}
+      <SafetyCaution text="Refrigerant work (charging, recovery, brazing) is hazardous and regulated." />
+    </View>
+  );
+}
+
+function Fact({ label, value, testID }: { label: string; value: string; testID?: string }) {
+  return (
+    <View style={styles.fact}>
+      <AppText variant="small" muted>
+        {label}
+      </AppText>
+      <AppText variant="label" testID={testID}>
+        {value}
+      </AppText>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  box: { gap: space.sm, borderTopWidth: 1, borderTopColor: colors.line, paddingTop: space.md },
+  head: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm },
+  facts: { flexDirection: 'row', flexWrap: 'wrap', gap: space.lg },
+  fact: { minWidth: 140, flexShrink: 1 },
+  a2l: { gap: 2 },
+});

@@ -1,0 +1,106 @@
+import { StyleSheet, View } from 'react-native';
+import { formatQuantity } from '../../shared/calc/format';
+import type { UnitSystem } from '../../shared/catalogue/types';
+import type { UnitImportReport, UnitImportRowError } from '../../shared/schemas/setup';
+import { UNIT_KINDS } from '../../shared/words';
+import { colors, radius, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Badge } from '../ui/Badge';
+import { Notice } from '../ui/Notice';
+
+const FIELD_LABEL: Record<string, string> = {
+  tag: 'Tag',
+  kind: 'Unit kind',
+  model: 'Model',
+  capacity: 'Capacity',
+  level: 'Level',
+  space: 'Space',
+  system: 'System',
+};
+
+const KIND_LABEL: Record<string, string> = Object.fromEntries(UNIT_KINDS.map((k) => [k.key, k.label]));
+
+/** "Level: Unknown level …", without saying the field twice when the reason already names it. */
+export function reasonText(e: UnitImportRowError): string {
+  const label = e.field ? (FIELD_LABEL[e.field] ?? e.field) : null;
+  if (!label || e.reason.toLowerCase().startsWith(`${label.toLowerCase()}:`)) return e.reason;
+  return `${label}: ${e.reason}`;
+}
+
+/** How many preview rows to list on screen (the server sends up to 500). */
+export const PREVIEW_ROWS_SHOWN = 10;
+
+/**
+ * The answer to a preview or an import: counts, every bad row with its line number and reason,
+ * and the first good rows as they would be imported.
+ */
+export function ImportReportView({ report, unitSystem }: { report: UnitImportReport; unitSystem: UnitSystem }) {
+  const bad = report.errors.length > 0;
+  return (
+    <View style={styles.box} testID="import-report">
+      <View style={styles.counts}>
+        <Badge label={`${report.totalRows} row${report.totalRows === 1 ? '' : 's'} read`} tone="neutral" testID="import-total" />
+        <Badge label={`${report.goodRows} good`} tone="good" testID="import-good" />
+        <Badge label={`${report.badRows} bad`} tone={report.badRows > 0 ? 'bad' : 'neutral'} testID="import-bad" />
+      </View>
+      {report.committed ? (
+        <Notice tone="success" title="Imported" testID="import-done">
+          {`${report.created} unit${report.created === 1 ? ' was' : 's were'} added to the register.`}
+        </Notice>
+      ) : bad ? (
+        <Notice tone="error" title={`Nothing was imported: ${report.badRows} row${report.badRows === 1 ? ' needs' : 's need'} fixing`} testID="import-refused">
+          Fix these rows in the file (line numbers count the header as line 1), then preview again. Either every row is imported or none.
+        </Notice>
+      ) : (
+        <Notice tone="info" title="Ready to import" testID="import-ready">
+          {`Every row reads well. Import adds all ${report.goodRows} units at once.`}
+        </Notice>
+      )}
+      {bad ? (
+        <View style={styles.errors} testID="import-bad-rows" role="list">
+          {report.errors.map((e, i) => (
+            <View key={`${e.line}-${e.field ?? ''}-${i}`} style={styles.errorRow} testID={`import-bad-row-${e.line}`} role="listitem">
+              <AppText variant="label" style={styles.line}>
+                Line {e.line}
+              </AppText>
+              <AppText style={styles.reason}>{reasonText(e)}</AppText>
+            </View>
+          ))}
+        </View>
+      ) : null}
+      {!report.committed && report.preview.length > 0 ? (
+        <View style={styles.preview} testID="import-preview">
+          <AppText variant="label">
+            {bad ? 'Good rows' : 'First rows'} as they would be imported
+            {report.preview.length > PREVIEW_ROWS_SHOWN ? ` (first ${PREVIEW_ROWS_SHOWN} of ${report.goodRows})` : ''}
+          </AppText>
+          {report.preview.slice(0, PREVIEW_ROWS_SHOWN).map((r) => (
+            <View key={r.line} style={styles.previewRow}>
+              <AppText variant="small" muted style={styles.line}>
+                Line {r.line}
+              </AppText>
+              <AppText variant="small" style={styles.reason}>
+                <AppText variant="label">{r.tag}</AppText> · {KIND_LABEL[r.kind] ?? r.kind}
+                {r.modelName ? ` · ${r.modelName}` : ''}
+                {r.capacity !== null ? ` · ${formatQuantity(r.capacity, 'capacity', unitSystem)}` : ''} · {r.levelName}
+                {r.spaceName ? ` · ${r.spaceName}` : ''}
+                {r.systemName ? ` · ${r.systemName}` : ''}
+              </AppText>
+            </View>
+          ))}
+        </View>
+      ) : null}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  box: { gap: space.md },
+  counts: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  errors: { borderWidth: 1, borderColor: colors.danger, borderRadius: radius.md, backgroundColor: colors.surface, overflow: 'hidden' },
+  errorRow: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, padding: space.md, borderBottomWidth: 1, borderBottomColor: colors.line },
+  line: { minWidth: 64 },
+  reason: { flexShrink: 1, flexBasis: 220, flexGrow: 1 },
+  preview: { gap: space.xs },
+  previewRow: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, paddingVertical: 2 },
+});

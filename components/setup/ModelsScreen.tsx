@@ -1,0 +1,273 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { StyleSheet, View } from 'react-native';
+import { formatQuantity } from '../../shared/calc/format';
+import { MODEL_LIMITS, type ModelLimitKey } from '../../shared/catalogue/types';
+import { createModelSchema, statedLimitInput, type JobDetail, type StatedLimitInput, type UnitModelDto } from '../../shared/schemas/setup';
+import { UNIT_KINDS } from '../../shared/words';
+import { ApiError } from '../api/client';
+import { useCreateModelMutation, useDeleteModelMutation, useModelsQuery, useUpdateModelMutation } from '../queries/models';
+import { colors, radius, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Button } from '../ui/Button';
+import { Card } from '../ui/Card';
+import { Notice } from '../ui/Notice';
+import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { TextField } from '../ui/TextField';
+import { useWide } from '../ui/useWide';
+import { FormQuantity, FormSelect, FormText } from './fields';
+import { showServerErrors, writeErrorMessage } from './formErrors';
+import { SetupFrame, canEditSetup } from './SetupFrame';
+import { KIND_LABEL } from './UnitsScreen';
+
+export function ModelsScreen({ jobId }: { jobId: string }) {
+  return (
+    <SetupFrame
+      jobId={jobId}
+      section="models"
+      title="Unit models"
+      intro="Limits taken from each model's installation manual (pump lift, clearances, drain run…), each with the unit it is stated in and where it came from. Measured rules check against them."
+      testID="models-screen"
+    >
+      {(job) => <ModelsBody job={job} />}
+    </SetupFrame>
+  );
+}
+
+function ModelsBody({ job }: { job: JobDetail }) {
+  const editor = canEditSetup(job);
+  const models = useModelsQuery(job.id);
+  const [form, setForm] = useState<{ model?: UnitModelDto } | null>(null);
+  return (
+    <View style={styles.body}>
+      {editor ? (
+        form ? (
+          <ModelForm key={form.model?.id ?? 'new'} job={job} existing={form.model} onDone={() => setForm(null)} />
+        ) : (
+          <Button testID="model-add" label="Add a model" tone="secondary" onPress={() => setForm({})} style={styles.start} />
+        )
+      ) : null}
+      {models.isPending ? (
+        <LoadingState label="Loading models…" />
+      ) : models.isError ? (
+        <ErrorState message={models.error.message} onRetry={() => models.refetch()} />
+      ) : models.data.length === 0 ? (
+        <EmptyState
+          title="No unit models yet"
+          body={editor ? 'Add each indoor unit model used on the job, with the limits from its installation manual.' : 'The GC manager has not added unit models yet.'}
+          testID="models-empty"
+        />
+      ) : (
+        <View style={styles.list} testID="models-list">
+          {models.data.map((m) => (
+            <ModelCard key={m.id} job={job} model={m} editor={editor} onEdit={() => setForm({ model: m })} />
+          ))}
+        </View>
+      )}
+    </View>
+  );
+}
+
+function ModelCard({ job, model, editor, onEdit }: { job: JobDetail; model: UnitModelDto; editor: boolean; onEdit: () => void }) {
+  const remove = useDeleteModelMutation(job.id);
+  const [error, setError] = useState<string | null>(null);
+  const limits = MODEL_LIMITS.filter((l) => model.limits[l.key]);
+  return (
+    <Card testID={`model-card-${model.name}`}>
+      <View style={styles.head}>
+        <View style={styles.grow}>
+          <AppText variant="heading">
+            {model.name}
+            {model.modelNumber ? ` (${model.modelNumber})` : ''}
+          </AppText>
+          <AppText variant="small" muted>
+            {KIND_LABEL[model.unitKind]}
+            {model.nominalCapacity !== null ? ` · ${formatQuantity(model.nominalCapacity, 'capacity', job.unitSystem)}` : ''} · {model.unitCount} unit
+            {model.unitCount === 1 ? '' : 's'}
+          </AppText>
+        </View>
+        {editor ? (
+          <View style={styles.actions}>
+            <Button label="Edit" tone="quiet" testID={`model-edit-${model.name}`} onPress={onEdit} />
+            <Button
+              label="Delete"
+              tone="quiet"
+              busy={remove.isPending}
+              onPress={() => {
+                setError(null);
+                remove.mutate(model, { onError: (err) => setError(writeErrorMessage(err)) });
+              }}
+            />
+          </View>
+        ) : null}
+      </View>
+      {error ? <Notice tone="error">{error}</Notice> : null}
+      {limits.length === 0 ? (
+        <AppText variant="small" muted>
+          No limits entered yet.
+        </AppText>
+      ) : (
+        <View style={styles.limits}>
+          {limits.map((l) => {
+            const v = model.limits[l.key]!;
+            return (
+              <View key={l.key} style={styles.limit} testID={`model-limit-${l.key}`}>
+                <AppText variant="small" style={styles.limitLabel}>
+                  {l.label}
+                </AppText>
+                <View style={styles.limitValue}>
+                  <AppText variant="label">{v.text}</AppText>
+                  <AppText variant="small" muted>
+                    Source: {v.source}
+                  </AppText>
+                </View>
+              </View>
+            );
+          })}
+        </View>
+      )}
+    </Card>
+  );
+}
+
+type LimitDraft = { value: string; source: string };
+
+function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitModelDto; onDone: () => void }) {
+  const wide = useWide();
+  const create = useCreateModelMutation(job.id);
+  const update = useUpdateModelMutation(job.id);
+  const metric = job.unitSystem === 'metric';
+  const { control, handleSubmit, setError, formState } = useForm({
+    resolver: zodResolver(createModelSchema),
+    defaultValues: {
+      name: existing?.name ?? '',
+      modelNumber: existing?.modelNumber ?? null,
+      unitKind: existing?.unitKind ?? 'cassette_4way',
+      nominalCapacity:
+        existing?.nominalCapacity != null ? formatQuantity(existing.nominalCapacity, 'capacity', job.unitSystem).replace(/,/g, '') : null,
+    },
+  });
+  const [drafts, setDrafts] = useState<Record<string, LimitDraft>>(() =>
+    Object.fromEntries(MODEL_LIMITS.map((l) => [l.key, { value: existing?.limits[l.key]?.text ?? '', source: existing?.limits[l.key]?.source ?? '' }])),
+  );
+  const [limitErrors, setLimitErrors] = useState<Record<string, string>>({});
+
+  const submit = handleSubmit(async (values) => {
+    const limits: Partial<Record<ModelLimitKey, StatedLimitInput | null>> = {};
+    const errors: Record<string, string> = {};
+    for (const def of MODEL_LIMITS) {
+      const d = drafts[def.key]!;
+      if (d.value.trim() === '' && d.source.trim() === '') {
+        if (existing?.limits[def.key]) limits[def.key] = null;
+        continue;
+      }
+      const parsed = statedLimitInput(def.quantity, def.label).safeParse({ value: d.value, source: d.source });
+      if (!parsed.success) errors[def.key] = parsed.error.issues[0]?.message ?? 'Check this limit.';
+      else limits[def.key] = { value: parsed.data.value, source: parsed.data.source };
+    }
+    setLimitErrors(errors);
+    if (Object.keys(errors).length > 0) {
+      setError('root', { message: 'Check the limits marked below.' });
+      return;
+    }
+    try {
+      const input = { ...values, limits };
+      if (existing) await update.mutateAsync({ model: existing, input });
+      else await create.mutateAsync(input);
+      onDone();
+    } catch (err) {
+      if (err instanceof ApiError) {
+        const fromServer: Record<string, string> = {};
+        for (const [k, m] of Object.entries(err.fields)) {
+          const key = k.split('.')[1];
+          if (k.startsWith('limits.') && key) fromServer[key] = m;
+        }
+        setLimitErrors(fromServer);
+      }
+      showServerErrors(err, setError, ['name', 'modelNumber', 'unitKind', 'nominalCapacity'], { duplicate: 'name' });
+    }
+  });
+
+  return (
+    <Card testID="model-form">
+      <AppText variant="heading">{existing ? `Edit ${existing.name}` : 'New unit model'}</AppText>
+      {formState.errors.root?.message ? (
+        <Notice tone="error" testID="model-form-error">
+          {formState.errors.root.message}
+        </Notice>
+      ) : null}
+      <View style={wide ? styles.pair : null}>
+        <View style={styles.cell}>
+          <FormText control={control} name="name" label="Model name" testID="model-name-input" placeholder="e.g. Cassette 24" />
+        </View>
+        <View style={styles.cell}>
+          <FormText control={control} name="modelNumber" label="Model number (optional)" testID="model-number-input" nullable />
+        </View>
+      </View>
+      <View style={wide ? styles.pair : null}>
+        <View style={styles.cell}>
+          <FormSelect control={control} name="unitKind" label="Unit kind" testID="model-kind-input" options={UNIT_KINDS.map((k) => ({ value: k.key, label: k.label }))} />
+        </View>
+        <View style={styles.cell}>
+          <FormQuantity
+            control={control}
+            name="nominalCapacity"
+            label="Nominal capacity (optional)"
+            testID="model-capacity-input"
+            units={metric ? ['kW', 'Btu/h', 'ton'] : ['Btu/h', 'ton', 'kW']}
+            defaultUnit={metric ? 'kW' : 'Btu/h'}
+          />
+        </View>
+      </View>
+      <AppText variant="label">Limits from the installation manual</AppText>
+      <AppText variant="small" muted>
+        Type each value with the unit the manual states it in (e.g. 27-9/16 in, 700 mm, 30°) and say where it came from (document,
+        page). Leave both empty for limits the manual does not give.
+      </AppText>
+      {MODEL_LIMITS.map((def) => (
+        <View key={def.key} style={[styles.limitForm, wide ? styles.pair : null]} testID={`model-limit-input-${def.key}`}>
+          <View style={styles.cell}>
+            <TextField
+              label={def.label}
+              testID={`model-limit-${def.key}-value`}
+              value={drafts[def.key]!.value}
+              onChangeText={(value) => setDrafts((d) => ({ ...d, [def.key]: { ...d[def.key]!, value } }))}
+              placeholder={def.quantity === 'angle' ? 'e.g. 30°' : 'e.g. 27-9/16 in'}
+              error={limitErrors[def.key]}
+            />
+          </View>
+          <View style={styles.cell}>
+            <TextField
+              label="Source"
+              testID={`model-limit-${def.key}-source`}
+              value={drafts[def.key]!.source}
+              onChangeText={(source) => setDrafts((d) => ({ ...d, [def.key]: { ...d[def.key]!, source } }))}
+              placeholder="e.g. installation manual, p. 12"
+            />
+          </View>
+        </View>
+      ))}
+      <View style={styles.actions}>
+        <Button testID="model-submit" label={existing ? 'Save model' : 'Add model'} onPress={submit} busy={create.isPending || update.isPending} />
+        <Button label="Cancel" tone="quiet" onPress={onDone} />
+      </View>
+    </Card>
+  );
+}
+
+const styles = StyleSheet.create({
+  body: { gap: space.lg },
+  start: { alignSelf: 'flex-start' },
+  list: { gap: space.md },
+  head: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'flex-start' },
+  grow: { flexGrow: 1, flexShrink: 1, flexBasis: 260, minWidth: 0, gap: 2 },
+  actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs, alignItems: 'center' },
+  limits: { borderTopWidth: 1, borderTopColor: colors.line },
+  limit: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, paddingVertical: space.sm, borderBottomWidth: 1, borderBottomColor: colors.line },
+  limitLabel: { flexBasis: 260, flexGrow: 1, flexShrink: 1 },
+  limitValue: { flexBasis: 220, flexGrow: 1, flexShrink: 1 },
+  limitForm: { borderTopWidth: 1, borderTopColor: colors.line, paddingTop: space.sm, borderRadius: radius.sm },
+  pair: { flexDirection: 'row', gap: space.lg },
+  cell: { flex: 1, minWidth: 0 },
+});

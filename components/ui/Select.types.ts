@@ -1,0 +1,19 @@
+export interface SelectOption {
+  value: string;
+  label: string;
+}
+
+export interface SelectProps {
+  label: string;
+  value: string;
+  options: readonly SelectOption[];
+  onChange: (value: string) => void;
+  /** Shown as the first, empty choice (value ''). Leave out to require a choice. */
+  placeholder?: string;
+  error?: string;
+  hint?: string;
+  testID?: string;
+  disabled?: boolean;
+  /** Drop the bottom margin (inline in a row of filters). */
+  compact?: boolean;
+}
