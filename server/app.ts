@@ -21,7 +21,19 @@ import { devMailRouter } from './routes/devMail';
 import { healthRouter } from './routes/health';
 import { invitationsRouter } from './routes/invitations';
 import { jobsRouter } from './routes/jobs';
+import { catalogueRouter } from './routes/catalogue';
+import { companiesRouter } from './routes/companies';
+import { levelsRouter } from './routes/levels';
+import { membersRouter } from './routes/members';
+import { spacesRouter } from './routes/spaces';
+import { systemsRouter } from './routes/systems';
+import { unitModelsRouter } from './routes/unitModels';
+import { unitImportBodyParsers, unitsRouter } from './routes/units';
 import { sessionRouter } from './routes/session';
+import { checksRouter } from './routes/checks';
+import { findingsRouter } from './routes/findings';
+import { walksRouter } from './routes/walks';
+import { createObjectStore, type ObjectStore } from './storage';
 
 declare module 'express-session' {
   interface SessionData {
@@ -42,6 +54,8 @@ export interface AppOptions {
   log?: (message: string, err?: unknown) => void;
   /** Mail (server/mail): made from env when not given; tests pass one on their fake SMTP server. */
   mail?: MailService;
+  /** Photo storage (server/storage): made from env when not given; tests pass one on their S3 fake. */
+  objectStore?: ObjectStore;
 }
 
 export interface TrimoutApp {
@@ -103,6 +117,8 @@ export function createApp(options: AppOptions): TrimoutApp {
     next();
   });
   api.use(requireJsonBody);
+  // The unit import takes a schedule larger than 100 kB (JSON or text/csv); its parsers run first.
+  api.use(unitImportBodyParsers());
   api.use(express.json({ limit: '100kb', strict: true }));
   api.use(
     session({
@@ -143,6 +159,17 @@ export function createApp(options: AppOptions): TrimoutApp {
   api.use(invitationsRouter({ mail, limits: signInLimits }));
   api.use(devMailRouter(mail));
   api.use(jobsRouter());
+  api.use(levelsRouter());
+  api.use(spacesRouter());
+  api.use(systemsRouter());
+  api.use(unitModelsRouter());
+  api.use(unitsRouter());
+  api.use(companiesRouter());
+  api.use(membersRouter());
+  api.use(catalogueRouter());
+  api.use(walksRouter());
+  api.use(checksRouter());
+  api.use(findingsRouter({ store: options.objectStore ?? createObjectStore(env), log }));
   api.use(apiNotFound);
 
   app.use('/api', api);
@@ -163,7 +190,8 @@ export function createApp(options: AppOptions): TrimoutApp {
     // Client routes (/sign-in, /jobs/...) all load the single-page app.
     app.get('/{*splat}', (_req, res) => {
       res.set('Cache-Control', 'no-cache');
-      res.sendFile(indexHtml);
+      // root + relative name: a dot folder above dist/ (a checkout in ~/.cache, say) must not hide the app.
+      res.sendFile('index.html', { root: dist });
     });
   }
   app.use(errorHandler(log));

@@ -1,0 +1,389 @@
+/**
+ * Reading findings: the list (filters, allowlisted sorts, keyset cursor, counts), one finding's
+ * detail (photos, events), and the photos a caller may see. A subcontractor's company scope is
+ * a condition in the SQL WHERE of every query here (`scope.companyId`), so another company's
+ * finding is simply not found. Request values only ever arrive as bound parameters.
+ */
+import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import type { RuleResult } from '../../shared/calc/rules';
+import {
+  findingLabel,
+  type FindingDetail,
+  type FindingDto,
+  type FindingEventDto,
+  type FindingEventKind,
+  type FindingListResponse,
+  type FindingSort,
+  type PhotoDto,
+} from '../../shared/schemas/findings';
+import { FINDING_STATUSES, SEVERITIES, type FindingStatus, type Severity, type UnitKindKey } from '../../shared/words';
+import type { MeasuredRule } from '../../shared/catalogue/types';
+import type { PageRequest } from './paging';
+import { encodeCursor } from './paging';
+import { likeContains } from './records';
+import { SEVERITY_RANK_SQL, todayIn } from './findings';
+
+/** Who is asking: the job, its time zone (for "overdue"), and for a subcontractor their company. */
+export interface FindingScope {
+  jobId: string;
+  timeZone: string;
+  /** Set for subcontractors: only this company's findings exist for them. */
+  companyId: string | null;
+}
+
+export interface FindingFilters {
+  levelId?: string;
+  spaceId?: string;
+  unitId?: string;
+  kind?: UnitKindKey;
+  status?: FindingStatus[];
+  severity?: Severity[];
+  companyId?: string;
+  catalogueItemId?: string;
+  overdue?: boolean;
+  q?: string;
+}
+
+interface FindingRow {
+  id: string;
+  number: number;
+  level_id: string;
+  level_name: string;
+  space_id: string | null;
+  space_name: string | null;
+  unit_id: string | null;
+  unit_tag: string | null;
+  unit_kind: UnitKindKey | null;
+  catalogue_item_id: string;
+  code: string;
+  title: string;
+  severity: Severity;
+  status: FindingStatus;
+  company_id: string;
+  company_name: string;
+  due_on: string;
+  overdue: boolean;
+  note: string;
+  measured_text: string | null;
+  measured_value: number | null;
+  rule_result: RuleResult | null;
+  return_count: number;
+  logged_by: string;
+  logged_by_name: string;
+  logged_at: Date;
+  walk_id: string | null;
+  pin_x: number | null;
+  pin_y: number | null;
+  voided_reason: string | null;
+  photo_count: string | number;
+  first_photo_id: string | null;
+  version: number;
+  sort_key: string | number;
+  description: string;
+  fix_guidance: string;
+  caution: string | null;
+  needs_ceiling_access: boolean;
+  measured_rule: MeasuredRule | null;
+}
+
+export function photoUrls(jobId: string, photoId: string): { url: string; thumbUrl: string } {
+  const url = `/api/jobs/${jobId}/photos/${photoId}`;
+  return { url, thumbUrl: `${url}/thumb` };
+}
+
+const SORTS: Record<FindingSort, { expr: string; key: string; desc: boolean; cast: string }> = {
+  number: { expr: 'f.number', key: 'f.number', desc: false, cast: 'int' },
+  '-number': { expr: 'f.number', key: 'f.number', desc: true, cast: 'int' },
+  dueOn: { expr: 'f.due_on', key: `to_char(f.due_on, 'YYYY-MM-DD')`, desc: false, cast: 'date' },
+  '-dueOn': { expr: 'f.due_on', key: `to_char(f.due_on, 'YYYY-MM-DD')`, desc: true, cast: 'date' },
+  loggedAt: {
+    expr: 'f.logged_at',
+    key: `to_char(f.logged_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"')`,
+    desc: false,
+    cast: 'timestamptz',
+  },
+  '-loggedAt': {
+    expr: 'f.logged_at',
+    key: `to_char(f.logged_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"')`,
+    desc: true,
+    cast: 'timestamptz',
+  },
+  severity: { expr: SEVERITY_RANK_SQL('f.severity'), key: SEVERITY_RANK_SQL('f.severity'), desc: false, cast: 'int' },
+  '-severity': { expr: SEVERITY_RANK_SQL('f.severity'), key: SEVERITY_RANK_SQL('f.severity'), desc: true, cast: 'int' },
+};
+
+/** Bound parameters of one statement: $1 is the job; today's date is bound once, when first used. */
+class Params {
+  readonly bind: unknown[];
+  private todayRef: string | null = null;
+  constructor(
+    jobId: string,
+    private readonly todayValue: string,
+  ) {
+    this.bind = [jobId];
+  }
+  add(value: unknown): string {
+    return `$${this.bind.push(value)}`;
+  }
+  today(): string {
+    this.todayRef ??= `${this.add(this.todayValue)}::date`;
+    return this.todayRef;
+  }
+}
+
+function selectSql(sortKey: string, today: string): string {
+  return `
+  SELECT f.id, f.number, f.level_id, l.name AS level_name, f.space_id, s.name AS space_name,
+         f.unit_id, u.tag AS unit_tag, u.kind AS unit_kind, f.catalogue_item_id, ci.code, ci.title,
+         f.severity, f.status, f.company_id, c.name AS company_name, to_char(f.due_on, 'YYYY-MM-DD') AS due_on,
+         (f.due_on < ${today} AND f.status IN ('open', 'fix_submitted')) AS overdue,
+         f.note, f.measured_text, f.measured_value, f.rule_result, f.return_count,
+         f.logged_by, lb.name AS logged_by_name, f.logged_at, f.walk_id, f.pin_x, f.pin_y, f.voided_reason,
+         (SELECT count(*) FROM photos p WHERE p.finding_id = f.id) AS photo_count,
+         (SELECT p.id FROM photos p WHERE p.finding_id = f.id ORDER BY p.created_at, p.id LIMIT 1) AS first_photo_id,
+         f.version, ${sortKey} AS sort_key,
+         ci.description, ci.fix_guidance, ci.caution, ci.needs_ceiling_access, ci.measured_rule`;
+}
+
+const FROM_SQL = `
+    FROM findings f
+    JOIN levels l ON l.id = f.level_id
+    LEFT JOIN spaces s ON s.id = f.space_id
+    LEFT JOIN units u ON u.id = f.unit_id
+    JOIN catalogue_items ci ON ci.id = f.catalogue_item_id
+    JOIN companies c ON c.id = f.company_id
+    JOIN users lb ON lb.id = f.logged_by`;
+
+/** WHERE conditions; $1 = job id. */
+function whereSql(p: Params, scope: FindingScope, filters: FindingFilters, skip: { status?: boolean; severity?: boolean } = {}): string {
+  const conds = ['f.job_id = $1'];
+  const add = (value: unknown) => p.add(value);
+  if (scope.companyId) conds.push(`f.company_id = ${add(scope.companyId)}`);
+  if (filters.levelId) conds.push(`f.level_id = ${add(filters.levelId)}`);
+  if (filters.spaceId) {
+    const space = add(filters.spaceId);
+    conds.push(`(f.space_id = ${space} OR u.space_id = ${space})`);
+  }
+  if (filters.unitId) conds.push(`f.unit_id = ${add(filters.unitId)}`);
+  if (filters.kind) conds.push(`u.kind = ${add(filters.kind)}`);
+  if (filters.status && !skip.status) conds.push(`f.status = ANY (${add(filters.status)}::text[])`);
+  if (filters.severity && !skip.severity) conds.push(`f.severity = ANY (${add(filters.severity)}::text[])`);
+  if (filters.companyId) conds.push(`f.company_id = ${add(filters.companyId)}`);
+  if (filters.catalogueItemId) conds.push(`f.catalogue_item_id = ${add(filters.catalogueItemId)}`);
+  if (filters.overdue === true) conds.push(`(f.due_on < ${p.today()} AND f.status IN ('open', 'fix_submitted'))`);
+  if (filters.overdue === false) conds.push(`NOT (f.due_on < ${p.today()} AND f.status IN ('open', 'fix_submitted'))`);
+  if (filters.q) {
+    const like = add(likeContains(filters.q));
+    const parts = [`f.note ILIKE ${like}`, `ci.title ILIKE ${like}`, `ci.code ILIKE ${like}`, `u.tag ILIKE ${like}`];
+    const asNumber = /^#?(\d{1,9})$/.exec(filters.q.trim());
+    if (asNumber) parts.push(`f.number = ${add(Number(asNumber[1]))}`);
+    conds.push(`(${parts.join(' OR ')})`);
+  }
+  return conds.join(' AND ');
+}
+
+function presentRow(jobId: string, row: FindingRow): FindingDto {
+  return {
+    id: row.id,
+    number: row.number,
+    label: findingLabel(row.number),
+    levelId: row.level_id,
+    levelName: row.level_name,
+    spaceId: row.space_id,
+    spaceName: row.space_name,
+    unitId: row.unit_id,
+    unitTag: row.unit_tag,
+    unitKind: row.unit_kind,
+    catalogueItemId: row.catalogue_item_id,
+    code: row.code,
+    title: row.title,
+    severity: row.severity,
+    status: row.status,
+    companyId: row.company_id,
+    companyName: row.company_name,
+    dueOn: row.due_on,
+    overdue: Boolean(row.overdue),
+    note: row.note,
+    measuredText: row.measured_text,
+    measuredValue: row.measured_value,
+    ruleResult: row.rule_result,
+    returnCount: row.return_count,
+    loggedBy: { id: row.logged_by, name: row.logged_by_name },
+    loggedAt: new Date(row.logged_at).toISOString(),
+    walkId: row.walk_id,
+    pinX: row.pin_x,
+    pinY: row.pin_y,
+    voidedReason: row.voided_reason,
+    photoCount: Number(row.photo_count),
+    thumbUrl: row.first_photo_id ? photoUrls(jobId, row.first_photo_id).thumbUrl : null,
+    version: row.version,
+  };
+}
+
+export async function listFindings(
+  sequelize: Sequelize,
+  scope: FindingScope,
+  filters: FindingFilters,
+  sort: FindingSort,
+  page: PageRequest,
+): Promise<FindingListResponse> {
+  const today = todayIn(scope.timeZone);
+  const s = SORTS[sort];
+  const p = new Params(scope.jobId, today);
+  let where = whereSql(p, scope, filters);
+  if (page.after) {
+    const v = `${p.add(page.after.value)}::${s.cast}`;
+    const id = `${p.add(page.after.id)}::uuid`;
+    const op = s.desc ? '<' : '>';
+    where += ` AND (${s.expr} ${op} ${v} OR (${s.expr} = ${v} AND f.id ${op} ${id}))`;
+  }
+  const dir = s.desc ? 'DESC' : 'ASC';
+  const select = selectSql(s.key, p.today());
+  const limit = p.add(page.limit + 1);
+  const rows = await sequelize.query<FindingRow>(`${select} ${FROM_SQL} WHERE ${where} ORDER BY ${s.expr} ${dir}, f.id ${dir} LIMIT ${limit}`, {
+    bind: p.bind,
+    type: QueryTypes.SELECT,
+  });
+  let nextCursor: string | null = null;
+  if (rows.length > page.limit) {
+    rows.length = page.limit;
+    const last = rows[rows.length - 1]!;
+    nextCursor = encodeCursor(typeof last.sort_key === 'string' ? last.sort_key : Number(last.sort_key), last.id);
+  }
+
+  const count = async <K extends string>(skip: { status?: boolean; severity?: boolean }, groupBy?: string) => {
+    const cp = new Params(scope.jobId, today);
+    const w = whereSql(cp, scope, filters, skip);
+    const sql = groupBy
+      ? `SELECT ${groupBy} AS k, count(*) AS n ${FROM_SQL} WHERE ${w} GROUP BY ${groupBy}`
+      : `SELECT count(*) AS n ${FROM_SQL} WHERE ${w}`;
+    return sequelize.query<{ k: K; n: string }>(sql, { bind: cp.bind, type: QueryTypes.SELECT });
+  };
+  const [total] = await count({});
+  const byStatusRows = await count<FindingStatus>({ status: true }, 'f.status');
+  const bySeverityRows = await count<Severity>({ severity: true }, 'f.severity');
+  const byStatus = Object.fromEntries(FINDING_STATUSES.map((k) => [k, 0])) as Record<FindingStatus, number>;
+  for (const r of byStatusRows) byStatus[r.k] = Number(r.n);
+  const bySeverity = Object.fromEntries(SEVERITIES.map((k) => [k, 0])) as Record<Severity, number>;
+  for (const r of bySeverityRows) bySeverity[r.k] = Number(r.n);
+
+  return {
+    items: rows.map((r) => presentRow(scope.jobId, r)),
+    nextCursor,
+    total: Number(total?.n ?? 0),
+    counts: { byStatus, bySeverity },
+  };
+}
+
+interface PhotoRow {
+  id: string;
+  content_type: string;
+  width: number | null;
+  height: number | null;
+  byte_size: number | null;
+  fix_id: string | null;
+  uploaded_by: string | null;
+  uploader_name: string | null;
+  created_at: Date;
+}
+
+interface EventRow {
+  id: string;
+  kind: FindingEventKind;
+  actor_id: string;
+  actor_name: string;
+  at: Date;
+  from: Record<string, unknown> | null;
+  to: Record<string, unknown> | null;
+  reason: string | null;
+  photo_ids: string[] | null;
+}
+
+/** One finding with its photos and history, or null when it does not exist for this caller. */
+export async function findingDetail(
+  sequelize: Sequelize,
+  scope: FindingScope,
+  findingId: string,
+  transaction?: Transaction,
+): Promise<FindingDetail | null> {
+  const p = new Params(scope.jobId, todayIn(scope.timeZone));
+  const where = whereSql(p, scope, {});
+  const idParam = p.add(findingId);
+  const [row] = await sequelize.query<FindingRow>(`${selectSql('f.number', p.today())} ${FROM_SQL} WHERE ${where} AND f.id = ${idParam}`, {
+    bind: p.bind,
+    type: QueryTypes.SELECT,
+    transaction,
+  });
+  if (!row) return null;
+  const photos = await sequelize.query<PhotoRow>(
+    `SELECT p.id, p.content_type, p.width, p.height, p.byte_size, p.fix_id, p.uploaded_by, u.name AS uploader_name, p.created_at
+       FROM photos p LEFT JOIN users u ON u.id = p.uploaded_by
+      WHERE p.job_id = $1 AND p.finding_id = $2
+      ORDER BY p.created_at, p.id`,
+    { bind: [scope.jobId, row.id], type: QueryTypes.SELECT, transaction },
+  );
+  const events = await sequelize.query<EventRow>(
+    `SELECT e.id, e.kind, e.actor_id, u.name AS actor_name, e.at, e."from", e."to", e.reason, e.photo_ids
+       FROM finding_events e JOIN users u ON u.id = e.actor_id
+      WHERE e.job_id = $1 AND e.finding_id = $2
+      ORDER BY e.at, e.id`,
+    { bind: [scope.jobId, row.id], type: QueryTypes.SELECT, transaction },
+  );
+  const photoDtos: PhotoDto[] = photos.map((p) => ({
+    id: p.id,
+    ...photoUrls(scope.jobId, p.id),
+    contentType: p.content_type,
+    width: p.width,
+    height: p.height,
+    bytes: p.byte_size,
+    fixId: p.fix_id,
+    uploadedBy: p.uploaded_by ? { id: p.uploaded_by, name: p.uploader_name ?? '' } : null,
+    createdAt: new Date(p.created_at).toISOString(),
+  }));
+  const eventDtos: FindingEventDto[] = events.map((e) => ({
+    id: e.id,
+    kind: e.kind,
+    actor: { id: e.actor_id, name: e.actor_name },
+    at: new Date(e.at).toISOString(),
+    from: e.from,
+    to: e.to,
+    reason: e.reason,
+    photoIds: e.photo_ids ?? [],
+  }));
+  return {
+    ...presentRow(scope.jobId, row),
+    photos: photoDtos,
+    events: eventDtos,
+    catalogue: {
+      description: row.description,
+      fixGuidance: row.fix_guidance,
+      caution: row.caution,
+      needsCeilingAccess: row.needs_ceiling_access,
+      quantity: row.measured_rule?.quantity ?? null,
+      measure: row.measured_rule?.measure ?? null,
+    },
+  };
+}
+
+export interface VisiblePhoto {
+  id: string;
+  storageKey: string;
+  thumbKey: string;
+  contentType: string;
+}
+
+/**
+ * A photo of a finding the caller may see (same job; for a subcontractor, a finding of their
+ * company), or null. Photos that belong to no finding of this job are never served here.
+ */
+export async function visiblePhoto(sequelize: Sequelize, scope: FindingScope, photoId: string): Promise<VisiblePhoto | null> {
+  const bind: unknown[] = [scope.jobId, photoId];
+  const company = scope.companyId ? ` AND f.company_id = $${bind.push(scope.companyId)}` : '';
+  const [row] = await sequelize.query<{ id: string; storage_key: string; thumb_key: string; content_type: string }>(
+    `SELECT p.id, p.storage_key, p.thumb_key, p.content_type
+       FROM photos p JOIN findings f ON f.id = p.finding_id AND f.job_id = p.job_id
+      WHERE p.job_id = $1 AND p.id = $2${company}`,
+    { bind, type: QueryTypes.SELECT },
+  );
+  return row ? { id: row.id, storageKey: row.storage_key, thumbKey: row.thumb_key, contentType: row.content_type } : null;
+}

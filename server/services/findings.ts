@@ -1,0 +1,190 @@
+/**
+ * Walks, unit checks and findings: the logic the routes share.
+ * - due dates from the job's per-severity policy, counted in the job's time zone;
+ * - the responsible company suggested from the defect type's trade and the job's companies;
+ * - measured values parsed (shared/calc parseQuantity) and evaluated against the unit's model
+ *   limits, the job's settings and the job's code editions (evaluateRule + makeLimitResolver);
+ * - per-job finding numbers (#1, #2 ...) handed out under a row lock;
+ * - the append-only finding history (finding_events: create only; the database refuses changes).
+ */
+import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import type { JobSettingKey, ModelLimitKey, StatedLimit } from '../../shared/catalogue/types';
+import { parseQuantity } from '../../shared/calc/quantity';
+import { evaluateRule, makeLimitResolver, type LimitResolver, type RuleResult } from '../../shared/calc/rules';
+import type { FindingEventKind } from '../../shared/schemas/findings';
+import { DEFAULT_SEVERITY_DUE_DAYS, type StatedLimitDto } from '../../shared/schemas/setup';
+import type { Severity } from '../../shared/words';
+import { badRequest } from '../errors';
+import { FindingEvent, type CatalogueItem, type Job, type UnitModel } from '../models';
+
+// ---------------------------------------------------------------------------------------------
+// Dates
+
+/** Today's date (YYYY-MM-DD) in a time zone. */
+export function todayIn(timeZone: string, now: Date = new Date()): string {
+  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(now);
+  const get = (t: string) => parts.find((p) => p.type === t)?.value ?? '';
+  return `${get('year')}-${get('month')}-${get('day')}`;
+}
+
+/** YYYY-MM-DD plus whole days (calendar arithmetic in UTC, no daylight-saving effects). */
+export function addDays(date: string, days: number): string {
+  const d = new Date(`${date}T00:00:00Z`);
+  d.setUTCDate(d.getUTCDate() + days);
+  return d.toISOString().slice(0, 10);
+}
+
+/**
+ * Due date of a finding logged now: today in the job's time zone plus the job's days for the
+ * severity (default critical 2, major 7, minor 14 days: common practice, set per job).
+ */
+export function dueOnFor(job: Pick<Job, 'timeZone' | 'severityDueDays'>, severity: Severity, now: Date = new Date()): string {
+  const policy = { ...DEFAULT_SEVERITY_DUE_DAYS, ...(job.severityDueDays ?? {}) };
+  return addDays(todayIn(job.timeZone || 'UTC', now), policy[severity]);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Companies
+
+export interface CompanyRef {
+  id: string;
+  name: string;
+}
+
+/** The job's company whose trades include `trade` (first by name), or null. */
+export async function suggestCompany(
+  sequelize: Sequelize,
+  jobId: string,
+  trade: string,
+  transaction?: Transaction,
+): Promise<CompanyRef | null> {
+  const rows = await sequelize.query<CompanyRef>(
+    `SELECT c.id, c.name FROM job_companies jc JOIN companies c ON c.id = jc.company_id
+      WHERE jc.job_id = $1 AND $2 = ANY (jc.trades)
+      ORDER BY c.name, c.id LIMIT 1`,
+    { bind: [jobId, trade], type: QueryTypes.SELECT, transaction },
+  );
+  return rows[0] ?? null;
+}
+
+/** The company if it is on the job, else null. */
+export async function companyOnJob(
+  sequelize: Sequelize,
+  jobId: string,
+  companyId: string,
+  transaction?: Transaction,
+): Promise<CompanyRef | null> {
+  const rows = await sequelize.query<CompanyRef>(
+    `SELECT c.id, c.name FROM job_companies jc JOIN companies c ON c.id = jc.company_id
+      WHERE jc.job_id = $1 AND jc.company_id = $2`,
+    { bind: [jobId, companyId], type: QueryTypes.SELECT, transaction },
+  );
+  return rows[0] ?? null;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Measured values
+
+/** A stored limit (base value + the value as stated) → what the engine's resolver reads. */
+function asStated(dto: StatedLimitDto): StatedLimit {
+  return { value: dto.stated, unit: dto.unit, source: dto.source };
+}
+
+/** The limit resolver for one unit (its model's limits, or none) on one job. */
+export function limitResolverFor(job: Job, model: UnitModel | null): LimitResolver {
+  const modelLimits: Partial<Record<ModelLimitKey, StatedLimit>> = {};
+  for (const [key, dto] of Object.entries(model?.limits ?? {}) as Array<[ModelLimitKey, StatedLimitDto | undefined]>) {
+    if (dto) modelLimits[key] = asStated(dto);
+  }
+  const jobSettings: Partial<Record<JobSettingKey, StatedLimit>> = {};
+  for (const [key, dto] of Object.entries(job.settings ?? {}) as Array<[JobSettingKey, StatedLimitDto | undefined]>) {
+    if (dto) jobSettings[key] = asStated(dto);
+  }
+  return makeLimitResolver({
+    model: model ? { name: model.name, limits: modelLimits } : undefined,
+    job: jobSettings,
+    editions: job.codeEditions ?? {},
+  });
+}
+
+export interface Measurement {
+  measuredText: string;
+  /** Base units; yes/no answers as 1 / 0. */
+  measuredValue: number;
+  result: RuleResult;
+}
+
+/**
+ * Parses `text` as the item's rule quantity and evaluates the rule. A value that cannot be read
+ * is a 400 naming `field`; an item without a measured rule is a 400 too.
+ */
+export function measure(
+  item: Pick<CatalogueItem, 'code' | 'title' | 'measuredRule'>,
+  text: string,
+  resolver: LimitResolver,
+  job: Pick<Job, 'unitSystem'>,
+  field: string,
+): Measurement {
+  const rule = item.measuredRule;
+  if (!rule) {
+    const message = `${item.code} ${item.title} has no measured rule, so it takes no measured value.`;
+    throw badRequest(`${field}: ${message}`, { [field]: message });
+  }
+  const parsed = parseQuantity(text, rule.quantity, { system: job.unitSystem, allowNegative: false });
+  if (!parsed.ok) throw badRequest(`${field}: ${parsed.error}`, { [field]: parsed.error });
+  const measured = rule.quantity === 'boolean' ? parsed.value === 1 : parsed.value;
+  const result = evaluateRule(rule, measured, resolver, {
+    system: job.unitSystem,
+    source: rule.comparison === 'yes_no' ? `${item.code} ${item.title}` : undefined,
+  });
+  return { measuredText: text.trim(), measuredValue: parsed.value, result };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Numbers and events
+
+/** The job's next finding number; the counter row stays locked until the transaction ends. */
+export async function nextFindingNumber(sequelize: Sequelize, jobId: string, transaction: Transaction): Promise<number> {
+  const [row] = await sequelize.query<{ last_number: number }>(
+    `INSERT INTO job_finding_numbers (job_id, last_number) VALUES ($1, 1)
+     ON CONFLICT (job_id) DO UPDATE SET last_number = job_finding_numbers.last_number + 1
+     RETURNING last_number`,
+    { bind: [jobId], type: QueryTypes.SELECT, transaction },
+  );
+  return row!.last_number;
+}
+
+export interface EventInput {
+  findingId: string;
+  jobId: string;
+  actorId: string;
+  kind: FindingEventKind;
+  from?: Record<string, unknown> | null;
+  to?: Record<string, unknown> | null;
+  reason?: string | null;
+  photoIds?: string[];
+  at?: Date;
+}
+
+/** Appends one event to a finding's history (never updated or deleted afterwards). */
+export async function recordFindingEvent(input: EventInput, transaction: Transaction): Promise<FindingEvent> {
+  return FindingEvent.create(
+    {
+      findingId: input.findingId,
+      jobId: input.jobId,
+      actorId: input.actorId,
+      kind: input.kind,
+      from: input.from ?? null,
+      to: input.to ?? null,
+      reason: input.reason ?? null,
+      photoIds: input.photoIds ?? [],
+      at: input.at ?? new Date(),
+    },
+    { transaction },
+  );
+}
+
+/** Severity rank for sorting and "worst": critical 1, major 2, minor 3. */
+export const SEVERITY_RANK_SQL = (column: string) =>
+  `(CASE ${column} WHEN 'critical' THEN 1 WHEN 'major' THEN 2 ELSE 3 END)`;
+export const SEVERITY_BY_RANK: Record<number, Severity> = { 1: 'critical', 2: 'major', 3: 'minor' };

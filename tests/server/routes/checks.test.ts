@@ -1,0 +1,242 @@
+/**
+ * Unit checks: every route per role, validation of items against the unit's kind and the job's
+ * catalogue, measured values evaluated by shared/calc (a cassette pump lift of 34 in against a
+ * model limit of 30 in fails by 4 in = 101.6 mm and proposes a finding), history and state.
+ */
+import request from 'supertest';
+import type { TrimoutApp } from '../../../server/app';
+import type { Database } from '../../../server/db';
+import { CatalogueItem } from '../../../server/models';
+import { addDays, todayIn } from '../../../server/services/findings';
+import { buildTestApp, csrfFor, signIn, type SignedIn } from '../../support/app';
+import { connectTestDb } from '../../support/db';
+import { buildUser } from '../../support/factories';
+import { buildWalkJob, type People, type WalkJob } from '../../support/findings';
+
+jest.setTimeout(120_000);
+
+let db: Database;
+let trimout: TrimoutApp;
+let people: People;
+let gc: SignedIn;
+let inspector: SignedIn;
+let subA: SignedIn;
+let outsider: SignedIn;
+
+beforeAll(async () => {
+  db = await connectTestDb();
+  trimout = buildTestApp(db);
+  const first = await buildWalkJob();
+  people = first;
+  const outsiderUser = await buildUser();
+  gc = await signIn(trimout.app, first.gcManager.email);
+  inspector = await signIn(trimout.app, first.inspector.email);
+  subA = await signIn(trimout.app, first.subA.email);
+  outsider = await signIn(trimout.app, outsiderUser.email);
+});
+afterAll(async () => {
+  await trimout.close();
+  await db.close();
+});
+
+const MISSING = '00000000-0000-4000-8000-000000000000';
+
+function post(who: SignedIn, w: WalkJob, unitId: string, body: unknown, key?: string) {
+  const req = who.agent.post(`/api/jobs/${w.job.id}/units/${unitId}/checks`).set('X-CSRF-Token', who.csrf);
+  if (key) req.set('Idempotency-Key', key);
+  return req.send(body as object);
+}
+
+const ok = (w: WalkJob, code: string) => ({ catalogueItemId: w.byCode(code).id, mark: 'ok' as const });
+
+describe('POST /api/jobs/:jobId/units/:unitId/checks', () => {
+  it('answers 401 signed out, 403 to a subcontractor, 404 to a non-member and for a unit of another job', async () => {
+    const w = await buildWalkJob(people);
+    const other = await buildWalkJob(people);
+    const body = { items: [ok(w, 'MT-01')], complete: true };
+    const agent = request.agent(trimout.app);
+    const csrf = await csrfFor(agent);
+    await agent.post(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).set('X-CSRF-Token', csrf).send(body).expect(401);
+    await post(subA, w, w.cassette.id, body).expect(403);
+    await post(outsider, w, w.cassette.id, body).expect(404);
+    const foreign = await post(inspector, w, other.cassette.id, body).expect(404);
+    expect(foreign.body.error.message).toBe('Unit not found.');
+    await post(inspector, w, MISSING, body).expect(404);
+  });
+
+  it('records an all-ok complete check (201) for the inspector and the GC manager; the unit is then checked ok', async () => {
+    const w = await buildWalkJob(people);
+    const items = ['MT-01', 'MT-02', 'DR-01'].map((c) => ok(w, c));
+    const res = await post(inspector, w, w.cassette.id, { items, complete: true }).expect(201);
+    expect(res.body).toMatchObject({
+      unitId: w.cassette.id,
+      walkId: null,
+      checkedBy: { id: w.inspector.id },
+      complete: true,
+      counts: { ok: 3, defect: 0, notApplicable: 0, failedMeasurements: 0 },
+    });
+    expect(res.body.items.map((i: { code: string; mark: string; result: unknown }) => [i.code, i.mark, i.result])).toEqual([
+      ['MT-01', 'ok', null],
+      ['MT-02', 'ok', null],
+      ['DR-01', 'ok', null],
+    ]);
+    await post(gc, w, w.cassette2.id, { items: [ok(w, 'MT-01')], complete: true }).expect(201);
+    const state = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(200);
+    expect(state.body.unit).toMatchObject({ tag: 'IU-3-01', state: 'checked_ok' });
+    expect(state.body.current.id).toBe(res.body.id);
+  });
+
+  it('evaluates a measured pump lift: 34 in against the model limit of 30 in fails by 4 in and proposes a finding', async () => {
+    const w = await buildWalkJob(people);
+    const dr03 = w.byCode('DR-03');
+    const res = await post(inspector, w, w.cassette.id, {
+      items: [{ catalogueItemId: dr03.id, mark: 'ok', measuredText: '34 in' }, ok(w, 'MT-01')],
+      complete: true,
+    }).expect(201);
+    const item = res.body.items[0];
+    // 34 in = 863.6 mm, 30 in = 762 mm (NIST SP 811: 1 in = 25.4 mm exactly); margin = 762 − 863.6 = −101.6 mm.
+    expect(item).toMatchObject({
+      code: 'DR-03',
+      mark: 'defect', // a failed measurement is a defect whatever mark was sent
+      measuredText: '34 in',
+      quantity: 'length',
+      pass: false,
+      status: 'fail',
+      limitSource: 'Model CX-24 installation manual, p. 12',
+    });
+    expect(item.measuredValue).toBeCloseTo(863.6, 9);
+    expect(item.margin).toBeCloseTo(-101.6, 9);
+    expect(item.result.limit).toBeCloseTo(762, 9);
+    expect(item.message).toMatch(/over the maximum/);
+    expect(item.proposedFinding).toMatchObject({
+      unitId: w.cassette.id,
+      levelId: w.level.id,
+      spaceId: w.space.id,
+      catalogueItemId: dr03.id,
+      code: 'DR-03',
+      severity: 'major',
+      companyId: w.subA.companyId, // mechanical trade → company A
+      dueOn: addDays(todayIn('UTC'), 7), // major: 7 days (default policy)
+      measuredText: '34 in',
+      limitSource: 'Model CX-24 installation manual, p. 12',
+      unitCheckId: res.body.id,
+    });
+    expect(item.proposedFinding.limit).toBeCloseTo(762, 9);
+    expect(res.body.items[1].proposedFinding).toBeNull();
+    expect(res.body.counts).toEqual({ ok: 1, defect: 1, notApplicable: 0, failedMeasurements: 1 });
+  });
+
+  it('passes a lift typed as feet and inches within the limit, and says so when the unit has no model limit', async () => {
+    const w = await buildWalkJob(people);
+    const dr03 = w.byCode('DR-03');
+    const pass = await post(inspector, w, w.cassette.id, {
+      items: [{ catalogueItemId: dr03.id, mark: 'ok', measuredText: `2' 4"` }],
+      complete: true,
+    }).expect(201);
+    // 28 in = 711.2 mm; 762 − 711.2 = 50.8 mm to spare.
+    expect(pass.body.items[0]).toMatchObject({ mark: 'ok', pass: true, status: 'pass', proposedFinding: null });
+    expect(pass.body.items[0].margin).toBeCloseTo(50.8, 9);
+    const exact = await post(inspector, w, w.cassette.id, {
+      items: [{ catalogueItemId: dr03.id, mark: 'ok', measuredText: '762 mm' }],
+      complete: true,
+    }).expect(201);
+    expect(exact.body.items[0]).toMatchObject({ pass: true, margin: 0 });
+    const noModel = await post(inspector, w, w.cassette2.id, {
+      items: [{ catalogueItemId: dr03.id, mark: 'ok', measuredText: '34 in' }],
+      complete: true,
+    }).expect(201);
+    expect(noModel.body.items[0]).toMatchObject({ mark: 'ok', pass: null, status: 'limit_not_set', proposedFinding: null });
+  });
+
+  it('answers 400 with the field and a clear message for every malformed check', async () => {
+    const w = await buildWalkJob(people);
+    const other = await buildWalkJob(people);
+    const send = async (body: unknown) => (await post(inspector, w, w.cassette.id, body).expect(400)).body.error.message as string;
+    expect(await send({ complete: true })).toBe('items: Send items: the catalogue items checked, each with a mark.');
+    expect(await send({ items: [], complete: true })).toBe('items: Mark at least one item.');
+    expect(await send({ items: [ok(w, 'MT-01')] })).toBe('complete: Send complete: true or false.');
+    expect(await send({ items: [ok(w, 'MT-01'), ok(w, 'MT-01')], complete: true })).toBe('items: A catalogue item appears twice.');
+    expect(await send({ items: [{ ...ok(w, 'MT-01'), mark: 'good' }], complete: true })).toBe(
+      'items.0.mark: One of ok, defect, not_applicable.',
+    );
+    expect(await send({ items: [ok(w, 'MT-01')], complete: true, inspector: 'me' })).toMatch(/inspector|Unrecognized/);
+    expect(await send({ items: [ok(other, 'MT-01')], complete: true })).toBe('items.0.catalogueItemId: Not a defect type of this job.');
+    expect(await send({ items: [ok(w, 'MT-01'), { catalogueItemId: w.notForCassettes.id, mark: 'ok' }], complete: true })).toBe(
+      `items.1.catalogueItemId: ${w.notForCassettes.code} ${w.notForCassettes.title} does not apply to this unit's kind (cassette_4way).`,
+    );
+    expect(await send({ items: [{ ...ok(w, 'MT-01'), measuredText: '3 in' }], complete: true })).toMatch(
+      /^items\.0\.measuredText: MT-01 .* has no measured rule, so it takes no measured value\.$/,
+    );
+    expect(await send({ items: [{ catalogueItemId: w.byCode('DR-03').id, mark: 'ok', measuredText: '34' }], complete: true })).toMatch(
+      /^items\.0\.measuredText: /,
+    );
+    expect(
+      await send({ items: [{ catalogueItemId: w.byCode('DR-03').id, mark: 'not_applicable', measuredText: '3 in' }], complete: true }),
+    ).toBe('items.0.measuredText: An item marked not applicable takes no measured value.');
+    await CatalogueItem.update({ retiredAt: new Date() }, { where: { id: w.byCode('MT-02').id } });
+    expect(await send({ items: [ok(w, 'MT-02')], complete: true })).toBe(
+      `items.0.catalogueItemId: MT-02 ${w.byCode('MT-02').title} is retired from this job's catalogue.`,
+    );
+    const walk = (await inspector.agent.post(`/api/jobs/${w.job.id}/walks`).set('X-CSRF-Token', inspector.csrf).send({ levelId: w.otherLevel.id }).expect(201))
+      .body;
+    expect(await send({ walkId: walk.id, items: [ok(w, 'MT-01')], complete: true })).toBe('walkId: That walk is on another level than this unit.');
+    expect(await send({ walkId: MISSING, items: [ok(w, 'MT-01')], complete: true })).toBe('walkId: That walk is not on this job.');
+    const none = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(200);
+    expect(none.body.items).toEqual([]);
+    expect(none.body.current).toBeNull();
+    expect(none.body.unit.state).toBe('not_checked');
+  });
+
+  it('replays a retried check with the same Idempotency-Key (one check recorded)', async () => {
+    const w = await buildWalkJob(people);
+    const body = { items: [ok(w, 'MT-01')], complete: true };
+    const first = await post(inspector, w, w.cassette.id, body, 'check-retry-0001').expect(201);
+    const again = await post(inspector, w, w.cassette.id, body, 'check-retry-0001').expect(201);
+    expect(again.headers['idempotent-replayed']).toBe('true');
+    expect(again.body.id).toBe(first.body.id);
+    const changed = await post(inspector, w, w.cassette.id, { ...body, complete: false }, 'check-retry-0001').expect(422);
+    expect(changed.body.error.message).toBe('This Idempotency-Key was already used for a different request.');
+    const history = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(200);
+    expect(history.body.items).toHaveLength(1);
+  });
+});
+
+describe('GET /api/jobs/:jobId/units/:unitId/checks', () => {
+  it('returns the unit state, the current (latest) check and the history newest first, paged', async () => {
+    const w = await buildWalkJob(people);
+    const walk = (await inspector.agent.post(`/api/jobs/${w.job.id}/walks`).set('X-CSRF-Token', inspector.csrf).send({ levelId: w.level.id }).expect(201))
+      .body;
+    const a = (await post(inspector, w, w.cassette.id, { walkId: walk.id, items: [ok(w, 'MT-01')], complete: true }).expect(201)).body;
+    const b = (
+      await post(inspector, w, w.cassette.id, {
+        walkId: walk.id,
+        items: [{ catalogueItemId: w.byCode('DR-03').id, mark: 'ok', measuredText: '34 in' }],
+        complete: false,
+      }).expect(201)
+    ).body;
+    const res = await gc.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(200);
+    expect(res.body.items.map((c: { id: string }) => c.id)).toEqual([b.id, a.id]);
+    expect(res.body.current.id).toBe(b.id);
+    expect(res.body.unit).toMatchObject({ id: w.cassette.id, state: 'in_progress', lastCheck: { id: b.id, complete: false } });
+    expect(res.body.items[0].items[0].proposedFinding).toMatchObject({ code: 'DR-03', walkId: walk.id, unitCheckId: b.id });
+    const p1 = await gc.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks?limit=1`).expect(200);
+    expect(p1.body.items.map((c: { id: string }) => c.id)).toEqual([b.id]);
+    const p2 = await gc.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks?limit=1&cursor=${p1.body.nextCursor}`).expect(200);
+    expect(p2.body.items.map((c: { id: string }) => c.id)).toEqual([a.id]);
+    expect(p2.body.current.id).toBe(b.id);
+    expect(p2.body.nextCursor).toBeNull();
+  });
+
+  it('answers 400 for a bad cursor or limit, 403 to a subcontractor, 404 to a non-member or another job, 401 signed out', async () => {
+    const w = await buildWalkJob(people);
+    const other = await buildWalkJob(people);
+    const badCursor = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks?cursor=nonsense`).expect(400);
+    expect(badCursor.body.error.message).toBe('cursor: Not a valid cursor. Start again from the first page.');
+    const badLimit = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks?limit=0`).expect(400);
+    expect(badLimit.body.error.message).toBe('query.limit: A whole number from 1 to 200.');
+    await subA.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(403);
+    await outsider.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(404);
+    await inspector.agent.get(`/api/jobs/${w.job.id}/units/${other.cassette.id}/checks`).expect(404);
+    await request(trimout.app).get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(401);
+  });
+});
