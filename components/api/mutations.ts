@@ -8,6 +8,7 @@ import { getCsrfToken, request } from './client';
 export interface Write {
   method: 'POST' | 'PUT' | 'PATCH' | 'DELETE';
   path: string;
+  /** JSON-encoded, or a FormData (multipart, e.g. a finding with its photos) sent as it is. */
   body?: unknown;
   /** Made by newWrite(); kept across retries of the same action. */
   idempotencyKey?: string;
@@ -31,6 +32,10 @@ export function newWrite(write: Omit<Write, 'idempotencyKey'>): Write {
   return { ...write, idempotencyKey: write.method === 'POST' ? randomKey() : undefined };
 }
 
+/**
+ * Sends one write. A FormData body keeps the same headers (CSRF, Idempotency-Key, If-Match) and
+ * no Content-Type of ours: the browser sets multipart/form-data with its boundary.
+ */
 export function sendWrite<T>(write: Write): Promise<T> {
   const headers: Record<string, string> = { 'X-CSRF-Token': getCsrfToken() };
   if (write.idempotencyKey) headers['Idempotency-Key'] = write.idempotencyKey;

@@ -1,0 +1,254 @@
+import { Link, type Href } from 'expo-router';
+import type { ReactNode } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { formatQuantity } from '../../shared/calc/format';
+import type { UnitSystem } from '../../shared/catalogue/types';
+import type { FindingDetail, FindingEventDto, FindingEventKind } from '../../shared/schemas/findings';
+import { FINDING_STATUS_LABELS, SEVERITY_LABELS, type FindingStatus, type Severity } from '../../shared/words';
+import { ApiError } from '../api/client';
+import { useFindingQuery } from '../queries/findings';
+import { useJobQuery } from '../queries/jobs';
+import { colors, radius, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Card } from '../ui/Card';
+import { Screen } from '../ui/Screen';
+import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { ItemCaution } from '../walk/ItemCaution';
+import { SeverityMark } from '../walk/SeverityMark';
+import { unitCheckHref } from '../walk/LevelWalkScreen';
+import { formatDay, formatWhen } from './due';
+import { StatusBadge } from './FindingCard';
+import { PhotoStrip } from './PhotoStrip';
+
+const EVENT_WORDS: Record<FindingEventKind, string> = {
+  logged: 'Logged',
+  fix_submitted: 'Fix submitted',
+  accepted: 'Re-inspected: accepted',
+  returned: 'Re-inspected: returned',
+  closed_on_walk: 'Closed on a walk',
+  voided: 'Voided',
+  reopened: 'Reopened',
+  reassigned: 'Reassigned',
+  severity_changed: 'Severity changed',
+  due_changed: 'Due date changed',
+  comment: 'Comment',
+  photo_added: 'Photo added',
+};
+
+/** A change's "what": from → to for the fields it names, in words. */
+function describeChange(e: FindingEventDto): string | null {
+  const keys = new Set([...Object.keys(e.from ?? {}), ...Object.keys(e.to ?? {})]);
+  const word = (k: string, v: unknown): string => {
+    if (v === null || v === undefined || v === '') return '—';
+    if (k === 'status' && typeof v === 'string') return FINDING_STATUS_LABELS[v as FindingStatus] ?? v;
+    if (k === 'severity' && typeof v === 'string') return SEVERITY_LABELS[v as Severity] ?? v;
+    if (k === 'dueOn' && typeof v === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(v)) return formatDay(v);
+    return typeof v === 'object' ? JSON.stringify(v) : String(v);
+  };
+  const parts = [...keys].map((k) => {
+    const from = e.from?.[k];
+    const to = e.to?.[k];
+    return e.from && k in e.from ? `${k}: ${word(k, from)} → ${word(k, to)}` : `${k}: ${word(k, to)}`;
+  });
+  return parts.length ? parts.join('; ') : null;
+}
+
+export function FindingDetailScreen({ jobId, findingId }: { jobId: string; findingId: string }) {
+  const job = useJobQuery(jobId);
+  const finding = useFindingQuery(jobId, findingId);
+  const failed = job.isError ? job.error : finding.isError ? finding.error : null;
+  return (
+    <Screen testID="finding-detail-screen" maxWidth={720}>
+      <Link href={`/jobs/${encodeURIComponent(jobId)}/findings` as Href} style={styles.back} testID="finding-back">
+        <AppText variant="label" style={{ color: colors.spruce }}>
+          ← All findings
+        </AppText>
+      </Link>
+      {failed ? (
+        failed instanceof ApiError && failed.status === 404 ? (
+          <EmptyState title="Finding not found" body="It does not exist on this job, or it is not assigned to your company." testID="finding-not-found" />
+        ) : (
+          <ErrorState message={failed.message} onRetry={() => void Promise.all([job.refetch(), finding.refetch()])} />
+        )
+      ) : !job.data || !finding.data ? (
+        <LoadingState label="Loading the finding…" />
+      ) : (
+        <FindingBody jobId={jobId} f={finding.data} timeZone={job.data.timeZone} system={job.data.unitSystem} />
+      )}
+    </Screen>
+  );
+}
+
+function Row({ label, children, testID }: { label: string; children: ReactNode; testID?: string }) {
+  return (
+    <View style={styles.row} testID={testID}>
+      <AppText variant="label" muted style={styles.rowLabel}>
+        {label}
+      </AppText>
+      <View style={styles.rowValue}>{typeof children === 'string' ? <AppText>{children}</AppText> : children}</View>
+    </View>
+  );
+}
+
+function FindingBody({ jobId, f, timeZone, system }: { jobId: string; f: FindingDetail; timeZone: string; system: UnitSystem }) {
+  const r = f.ruleResult;
+  const q = f.catalogue.quantity;
+  const fmt = (v: number | null) => (v === null || !q || q === 'boolean' ? null : formatQuantity(v, q, system));
+  const logPhotos = f.photos.filter((p) => !p.fixId);
+  const fixPhotos = f.photos.filter((p) => p.fixId);
+  return (
+    <>
+      <View style={styles.head}>
+        <AppText variant="label" muted testID="finding-label">
+          {f.label} · {f.code}
+        </AppText>
+        <AppText variant="display" role="heading" testID="finding-title">
+          {f.title}
+        </AppText>
+        <View style={styles.badges}>
+          <StatusBadge status={f.status} testID="finding-status" />
+          <SeverityMark severity={f.severity} testID="finding-severity" />
+          {f.overdue ? <AppText style={styles.overdue}>⚠ Overdue</AppText> : null}
+        </View>
+      </View>
+
+      <Card>
+        <Row label="Where" testID="finding-where">
+          <View>
+            {f.unitId && f.unitTag ? (
+              <Link href={unitCheckHref(jobId, f.unitId)}>
+                <AppText style={styles.link}>Unit {f.unitTag}</AppText>
+              </Link>
+            ) : null}
+            <AppText>{[f.spaceName, f.levelName].filter(Boolean).join(' · ')}</AppText>
+          </View>
+        </Row>
+        <Row label="Company" testID="finding-company">
+          {f.companyName}
+        </Row>
+        <Row label="Due" testID="finding-due">
+          {formatDay(f.dueOn)}
+        </Row>
+        <Row label="Logged">{`${formatWhen(f.loggedAt, timeZone)} by ${f.loggedBy.name}`}</Row>
+        {f.returnCount ? <Row label="Returned">{`${f.returnCount} time${f.returnCount === 1 ? '' : 's'}`}</Row> : null}
+        {f.voidedReason ? <Row label="Voided because">{f.voidedReason}</Row> : null}
+      </Card>
+
+      {f.measuredText ? (
+        <View style={[styles.measured, r?.pass === false ? styles.fail : r?.pass ? styles.pass : styles.unset]} testID="finding-measured">
+          <AppText variant="label">{f.catalogue.measure ?? 'Measured'}</AppText>
+          <View style={styles.badges}>
+            {r?.pass === true || r?.pass === false ? (
+              <View style={[styles.stamp, { backgroundColor: r.pass ? colors.good : colors.danger }]}>
+                <AppText variant="label" style={{ color: '#FFFFFF' }} testID="finding-measured-status">
+                  {r.pass ? '✓ PASS' : '✗ FAIL'}
+                </AppText>
+              </View>
+            ) : null}
+            <AppText variant="heading">{f.measuredText}</AppText>
+          </View>
+          {r && fmt(r.limit) ? (
+            <AppText variant="small" testID="finding-measured-limit">
+              Limit: {r.upper !== null ? `${fmt(r.limit)} to ${fmt(r.upper)}` : fmt(r.limit)}
+              {r.tolerance !== null ? ` ± ${fmt(r.tolerance)}` : ''}
+            </AppText>
+          ) : null}
+          {r && r.margin !== null && fmt(Math.abs(r.margin)) ? (
+            <AppText variant="small">Margin: {r.margin >= 0 ? `${fmt(r.margin)} to spare` : `${fmt(-r.margin)} outside the limit`}</AppText>
+          ) : null}
+          {r?.limitSource ? (
+            <AppText variant="small" muted testID="finding-measured-source">
+              Source: {r.limitSource}
+            </AppText>
+          ) : null}
+          {r ? <AppText variant="small">{r.message}</AppText> : null}
+        </View>
+      ) : null}
+
+      {f.note ? (
+        <Card>
+          <AppText variant="label">Note</AppText>
+          <AppText testID="finding-note">{f.note}</AppText>
+        </Card>
+      ) : null}
+
+      <View style={styles.section}>
+        <AppText variant="title" role="heading">
+          Photos ({logPhotos.length})
+        </AppText>
+        {logPhotos.length ? (
+          <PhotoStrip
+            testID="finding-photos"
+            photos={logPhotos.map((p, i) => ({ key: p.id, thumbUri: p.thumbUrl, fullUri: p.url, label: `Photo ${i + 1} of ${f.label}` }))}
+          />
+        ) : (
+          <AppText muted>No photos with this finding.</AppText>
+        )}
+        {fixPhotos.length ? (
+          <>
+            <AppText variant="heading">Fix photos ({fixPhotos.length})</AppText>
+            <PhotoStrip
+              testID="finding-fix-photos"
+              photos={fixPhotos.map((p, i) => ({ key: p.id, thumbUri: p.thumbUrl, fullUri: p.url, label: `Fix photo ${i + 1}` }))}
+            />
+          </>
+        ) : null}
+      </View>
+
+      <Card>
+        <AppText variant="label">About this defect type</AppText>
+        <AppText variant="small">{f.catalogue.description}</AppText>
+        <AppText variant="label">How it is usually fixed</AppText>
+        <AppText variant="small">{f.catalogue.fixGuidance}</AppText>
+        {f.catalogue.needsCeilingAccess ? <AppText variant="small" muted>The fix needs access above the ceiling.</AppText> : null}
+      </Card>
+      {f.catalogue.caution ? <ItemCaution text={f.catalogue.caution} initiallyOpen testID="finding-caution" /> : null}
+
+      <View style={styles.section} testID="finding-history">
+        <AppText variant="title" role="heading">
+          History
+        </AppText>
+        {f.events.length === 0 ? (
+          <AppText muted>No changes recorded.</AppText>
+        ) : (
+          f.events.map((e) => {
+            const what = describeChange(e);
+            return (
+              <View key={e.id} style={styles.event} testID={`finding-event-${e.kind}`}>
+                <AppText variant="label">{EVENT_WORDS[e.kind] ?? e.kind}</AppText>
+                <AppText variant="small" muted>
+                  {formatWhen(e.at, timeZone)} · {e.actor.name}
+                </AppText>
+                {what ? <AppText variant="small">{what}</AppText> : null}
+                {e.reason ? <AppText variant="small">“{e.reason}”</AppText> : null}
+                {e.photoIds.length ? (
+                  <AppText variant="small" muted>
+                    {e.photoIds.length} photo{e.photoIds.length === 1 ? '' : 's'}
+                  </AppText>
+                ) : null}
+              </View>
+            );
+          })
+        )}
+      </View>
+    </>
+  );
+}
+
+const styles = StyleSheet.create({
+  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  head: { gap: space.xs },
+  badges: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm },
+  overdue: { color: colors.danger, fontWeight: '700' },
+  row: { flexDirection: 'row', gap: space.md, paddingVertical: 2, flexWrap: 'wrap' },
+  rowLabel: { width: 96 },
+  rowValue: { flex: 1, minWidth: 160 },
+  link: { color: colors.spruce, textDecorationLine: 'underline', fontWeight: '700' },
+  measured: { borderRadius: radius.md, borderLeftWidth: 4, padding: space.md, gap: 4 },
+  pass: { backgroundColor: colors.goodSoft, borderLeftColor: colors.good },
+  fail: { backgroundColor: colors.dangerSoft, borderLeftColor: colors.danger },
+  unset: { backgroundColor: colors.ochreSoft, borderLeftColor: colors.ochre },
+  stamp: { borderRadius: radius.sm, paddingHorizontal: space.sm, paddingVertical: 2 },
+  section: { gap: space.sm },
+  event: { borderLeftWidth: 3, borderLeftColor: colors.spruce, paddingLeft: space.md, paddingVertical: space.xs, gap: 2 },
+});

@@ -1,0 +1,113 @@
+import { Link, type Href } from 'expo-router';
+import { useState } from 'react';
+import { StyleSheet, useWindowDimensions, View } from 'react-native';
+import type { FindingSort } from '../../shared/schemas/findings';
+import { ApiError } from '../api/client';
+import { useCatalogueQuery } from '../queries/catalogue';
+import { useJobCompaniesQuery } from '../queries/companies';
+import { useFindingsQuery, type FindingFilters } from '../queries/findings';
+import { useJobQuery } from '../queries/jobs';
+import { useLevelsQuery } from '../queries/levels';
+import { useSpacesQuery } from '../queries/spaces';
+import { useUnitsQuery } from '../queries/units';
+import { colors, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Button } from '../ui/Button';
+import { Screen } from '../ui/Screen';
+import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { FindingCard } from './FindingCard';
+import { FindingsFilters } from './FindingsFilters';
+import { FindingsTable } from './FindingsTable';
+
+/** The table takes over from cards at this width. */
+export const TABLE_BREAKPOINT = 1024;
+
+/** Findings of the job: cards on a phone, a sortable table on a wide screen; filtered, counted, paged by cursor. */
+export function FindingsListScreen({ jobId, initial }: { jobId: string; initial: FindingFilters }) {
+  const { width } = useWindowDimensions();
+  const wide = width >= TABLE_BREAKPOINT;
+  const [filters, setFilters] = useState<FindingFilters>(initial);
+  const job = useJobQuery(jobId);
+  const findings = useFindingsQuery(jobId, filters);
+  const levels = useLevelsQuery(jobId);
+  const spaces = useSpacesQuery(jobId);
+  const units = useUnitsQuery(jobId, { levelId: filters.levelId }, 200);
+  const companies = useJobCompaniesQuery(jobId);
+  const catalogue = useCatalogueQuery(jobId, { includeRetired: true });
+  const first = findings.data?.pages[0];
+  const rows = findings.data?.pages.flatMap((p) => p.items) ?? [];
+  const filtered = Object.entries(filters).some(([k, v]) => k !== 'sort' && v !== undefined);
+  const sort: FindingSort = filters.sort ?? '-number';
+
+  return (
+    <Screen testID="findings-screen" maxWidth={wide ? 1200 : 720}>
+      <Link href={`/jobs/${encodeURIComponent(jobId)}` as Href} style={styles.back} testID="findings-back">
+        <AppText variant="label" style={{ color: colors.spruce }}>
+          ← {job.data?.name ?? 'The job'}
+        </AppText>
+      </Link>
+      <View style={styles.head}>
+        <AppText variant="display" role="heading">
+          Findings
+        </AppText>
+        {first ? (
+          <AppText muted testID="findings-total">
+            {first.total} finding{first.total === 1 ? '' : 's'}
+            {filtered ? ' match the filters' : ' on this job'}
+          </AppText>
+        ) : null}
+      </View>
+      {job.data && job.data.role !== 'subcontractor' ? (
+        <Link href={`/jobs/${encodeURIComponent(jobId)}/walk` as Href} asChild>
+          <Button label="Walk a level" tone="secondary" testID="findings-walk" />
+        </Link>
+      ) : null}
+      <FindingsFilters
+        value={filters}
+        onChange={setFilters}
+        counts={first?.counts}
+        levels={levels.data ?? []}
+        spaces={spaces.data ?? []}
+        units={filters.levelId ? (units.data?.pages.flatMap((p) => p.items) ?? []) : []}
+        companies={companies.data ?? []}
+        catalogue={catalogue.data ?? []}
+        showSort={!wide}
+      />
+      {findings.isPending ? (
+        <LoadingState label="Loading the findings…" />
+      ) : findings.isError ? (
+        findings.error instanceof ApiError && findings.error.status === 404 ? (
+          <EmptyState title="Job not found" body="This job does not exist, or you are not a member of it." testID="job-not-found" />
+        ) : (
+          <ErrorState message={findings.error.message} onRetry={() => findings.refetch()} />
+        )
+      ) : rows.length === 0 ? (
+        <EmptyState
+          title={filtered ? 'No finding matches' : 'No findings yet'}
+          body={filtered ? 'Change or clear the filters.' : 'Findings logged on a walk show here.'}
+          testID="findings-empty"
+        />
+      ) : (
+        <View style={styles.list} testID="findings-list">
+          {wide ? (
+            <FindingsTable jobId={jobId} rows={rows} sort={sort} onSort={(s) => setFilters((f) => ({ ...f, sort: s }))} />
+          ) : (
+            rows.map((f) => <FindingCard key={f.id} jobId={jobId} finding={f} />)
+          )}
+          <AppText variant="small" muted testID="findings-shown">
+            Showing {rows.length} of {first?.total ?? rows.length}
+          </AppText>
+          {findings.hasNextPage ? (
+            <Button label="Load more" tone="secondary" testID="findings-more" busy={findings.isFetchingNextPage} onPress={() => findings.fetchNextPage()} />
+          ) : null}
+        </View>
+      )}
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  head: { gap: space.xs },
+  list: { gap: space.sm },
+});

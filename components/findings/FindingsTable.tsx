@@ -1,0 +1,123 @@
+import { Link } from 'expo-router';
+import type { ReactNode } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
+import type { FindingDto, FindingSort } from '../../shared/schemas/findings';
+import { colors, radius, space, touchTarget } from '../theme';
+import { AppText } from '../ui/AppText';
+import { SeverityMark } from '../walk/SeverityMark';
+import { formatDay } from './due';
+import { StatusBadge, findingHref, findingPlace } from './FindingCard';
+
+type SortKey = 'number' | 'dueOn' | 'loggedAt' | 'severity';
+
+interface Col {
+  key: string;
+  title: string;
+  flex: number;
+  sort?: SortKey;
+  render: (f: FindingDto) => ReactNode;
+}
+
+const COLUMNS: Col[] = [
+  { key: 'number', title: 'No.', flex: 0.6, sort: 'number', render: (f) => <AppText variant="label">{f.label}</AppText> },
+  {
+    key: 'defect',
+    title: 'Defect',
+    flex: 2.4,
+    render: (f) => (
+      <View>
+        <AppText variant="small" muted>
+          {f.code}
+        </AppText>
+        <AppText numberOfLines={2}>{f.title}</AppText>
+      </View>
+    ),
+  },
+  { key: 'where', title: 'Where', flex: 1.8, render: (f) => <AppText variant="small">{findingPlace(f)}</AppText> },
+  { key: 'severity', title: 'Severity', flex: 1.1, sort: 'severity', render: (f) => <SeverityMark severity={f.severity} /> },
+  { key: 'status', title: 'Status', flex: 1.2, render: (f) => <StatusBadge status={f.status} /> },
+  { key: 'company', title: 'Company', flex: 1.4, render: (f) => <AppText variant="small">{f.companyName}</AppText> },
+  {
+    key: 'due',
+    title: 'Due',
+    flex: 1.2,
+    sort: 'dueOn',
+    render: (f) => (
+      <AppText variant="small" style={f.overdue ? styles.overdue : null}>
+        {f.overdue ? '⚠ ' : ''}
+        {formatDay(f.dueOn)}
+      </AppText>
+    ),
+  },
+  { key: 'measured', title: 'Measured', flex: 1, render: (f) => <AppText variant="small">{f.measuredText ?? '—'}</AppText> },
+];
+
+/** The findings as a table on a wide screen; the sortable column headers toggle ascending / descending. */
+export function FindingsTable({
+  jobId,
+  rows,
+  sort,
+  onSort,
+}: {
+  jobId: string;
+  rows: readonly FindingDto[];
+  sort: FindingSort;
+  onSort: (s: FindingSort) => void;
+}) {
+  const current = sort.replace(/^-/, '') as SortKey;
+  const desc = sort.startsWith('-');
+  return (
+    <View style={styles.table} role="table" testID="findings-table">
+      <View style={[styles.row, styles.head]} role="row">
+        {COLUMNS.map((c) => {
+          const on = c.sort === current;
+          const arrow = on ? (desc ? ' ▼' : ' ▲') : '';
+          return (
+            <View key={c.key} style={[styles.cell, { flex: c.flex }]} role="columnheader" aria-sort={on ? (desc ? 'descending' : 'ascending') : undefined}>
+              {c.sort ? (
+                <Pressable
+                  accessibilityRole="button"
+                  accessibilityLabel={`Sort by ${c.title}`}
+                  testID={`findings-sort-${c.sort}`}
+                  style={styles.sortButton}
+                  onPress={() => onSort((on && !desc ? `-${c.sort}` : c.sort) as FindingSort)}
+                >
+                  <AppText variant="label" style={{ color: on ? colors.spruce : colors.inkMuted }}>
+                    {c.title}
+                    {arrow}
+                  </AppText>
+                </Pressable>
+              ) : (
+                <AppText variant="label" muted>
+                  {c.title}
+                </AppText>
+              )}
+            </View>
+          );
+        })}
+      </View>
+      {rows.map((f, i) => (
+        <Link key={f.id} href={findingHref(jobId, f.id)} asChild>
+          {/* One style object: a style array does not survive Link's asChild on the web. */}
+          <Pressable style={StyleSheet.flatten([styles.row, i % 2 === 1 ? styles.zebra : null])} role="row" testID={`finding-row-${f.number}`}>
+            {COLUMNS.map((c) => (
+              <View key={c.key} style={[styles.cell, { flex: c.flex }]} role="cell">
+                {c.render(f)}
+              </View>
+            ))}
+          </Pressable>
+        </Link>
+      ))}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  table: { borderWidth: 1, borderColor: colors.line, borderRadius: radius.md, backgroundColor: colors.surface, overflow: 'hidden' },
+  row: { flexDirection: 'row', borderBottomWidth: 1, borderBottomColor: colors.line, alignItems: 'center', minHeight: touchTarget },
+  head: { backgroundColor: colors.paper },
+  zebra: { backgroundColor: '#FAF8F3' },
+  cell: { paddingHorizontal: space.sm, paddingVertical: space.sm, minWidth: 0 },
+  sortButton: { minHeight: touchTarget, justifyContent: 'center' },
+  overdue: { color: colors.danger, fontWeight: '700' },
+});

@@ -1,0 +1,68 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { RecordCheckInput, UnitCheckDto, UnitChecksResponse, WalkDetail, WalkDto } from '../../shared/schemas/findings';
+import type { ListResponse, UnitDto, UnitModelDto } from '../../shared/schemas/setup';
+import { apiGet } from '../api/client';
+import { jobPath, queryString } from '../api/lists';
+import { newWrite, sendWrite, type Write } from '../api/mutations';
+import { setupKeys } from './setupKeys';
+import { refreshWalkData, walkKeys } from './walks';
+
+export const checkKeys = {
+  unit: (jobId: string, unitId: string) => [...walkKeys.job(jobId), 'checks', unitId] as const,
+  /** The unit's register record (model, level, space) under the set-up keys, refreshed with them. */
+  unitRecord: (jobId: string, unitId: string) => [...setupKeys.resource(jobId, 'units'), 'one', unitId] as const,
+  model: (jobId: string, modelId: string) => [...setupKeys.resource(jobId, 'models'), 'one', modelId] as const,
+};
+
+/** GET /units/:unitId/checks: the unit's state, its current check and the history. */
+export function useUnitChecksQuery(jobId: string, unitId: string) {
+  return useQuery({
+    queryKey: checkKeys.unit(jobId, unitId),
+    queryFn: () => apiGet<UnitChecksResponse>(`${jobPath(jobId, 'units', unitId, 'checks')}${queryString({ limit: 10 })}`),
+    enabled: Boolean(jobId && unitId),
+  });
+}
+
+/** GET /units/:unitId (set-up): its model id, level and space. */
+export function useUnitRecordQuery(jobId: string, unitId: string) {
+  return useQuery({
+    queryKey: checkKeys.unitRecord(jobId, unitId),
+    queryFn: () => apiGet<UnitDto>(jobPath(jobId, 'units', unitId)),
+    enabled: Boolean(jobId && unitId),
+  });
+}
+
+/** GET /models/:modelId: the limits entered from the model's installation manual. */
+export function useUnitModelQuery(jobId: string, modelId: string | null | undefined) {
+  return useQuery({
+    queryKey: checkKeys.model(jobId, modelId ?? ''),
+    queryFn: () => apiGet<UnitModelDto>(jobPath(jobId, 'models', modelId ?? '')),
+    enabled: Boolean(jobId && modelId),
+  });
+}
+
+/** The write that records a unit check; made once per press of "Save" so a retry reuses its key. */
+export function recordCheckWrite(jobId: string, unitId: string, input: RecordCheckInput): Write {
+  return newWrite({ method: 'POST', path: jobPath(jobId, 'units', unitId, 'checks'), body: input });
+}
+
+/**
+ * The inspector's open walk on the level, started if there is none: every unit check belongs to
+ * a walk (one inspector's pass over a level) without an extra tap.
+ */
+export async function ensureWalk(jobId: string, levelId: string, inspectorId: string): Promise<string> {
+  const open = await apiGet<ListResponse<WalkDto>>(`${jobPath(jobId, 'walks')}${queryString({ levelId, inspectorId, open: 'true', limit: 1 })}`);
+  const walk = open.items[0];
+  if (walk) return walk.id;
+  const started = await sendWrite<WalkDetail>(newWrite({ method: 'POST', path: jobPath(jobId, 'walks'), body: { levelId } }));
+  return started.id;
+}
+
+/** POST /units/:unitId/checks; refreshes the walk screens (states, coverage) when it settles. */
+export function useRecordCheckMutation(jobId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (write: Write) => sendWrite<UnitCheckDto>(write),
+    onSettled: () => refreshWalkData(queryClient, jobId),
+  });
+}

@@ -1,0 +1,78 @@
+import { useInfiniteQuery, useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
+import type { WalkDetail, WalkDto, WalkUnitsQuery, WalkUnitsResponse } from '../../shared/schemas/findings';
+import type { ListResponse } from '../../shared/schemas/setup';
+import { apiGet } from '../api/client';
+import { jobPath, queryString } from '../api/lists';
+import { newWrite, sendWrite } from '../api/mutations';
+
+/** The level's units as filtered on the walk screen (no paging fields). */
+export type WalkUnitFilters = Omit<WalkUnitsQuery, 'limit' | 'cursor'>;
+
+export const WALK_UNITS_PAGE_SIZE = 100;
+
+/** Every walk key starts with ['walk', jobId]: a check or a finding refreshes them all at once. */
+export const walkKeys = {
+  job: (jobId: string) => ['walk', jobId] as const,
+  units: (jobId: string, levelId: string, filters: WalkUnitFilters) => [...walkKeys.job(jobId), 'units', levelId, filters] as const,
+  open: (jobId: string, levelId: string, inspectorId: string) => [...walkKeys.job(jobId), 'open', levelId, inspectorId] as const,
+  walk: (jobId: string, walkId: string) => [...walkKeys.job(jobId), 'detail', walkId] as const,
+};
+
+/** Refresh every walk, check and finding screen of a job (after a check or a finding is saved). */
+export function refreshWalkData(queryClient: QueryClient, jobId: string) {
+  return queryClient.invalidateQueries({ queryKey: walkKeys.job(jobId) });
+}
+
+/** GET /levels/:levelId/walk-units: units with their state, counts and the level's coverage; "Load more" pages. */
+export function useWalkUnitsQuery(jobId: string, levelId: string, filters: WalkUnitFilters) {
+  return useInfiniteQuery({
+    queryKey: walkKeys.units(jobId, levelId, filters),
+    queryFn: ({ pageParam }) =>
+      apiGet<WalkUnitsResponse>(
+        `${jobPath(jobId, 'levels', levelId, 'walk-units')}${queryString({ ...filters, limit: WALK_UNITS_PAGE_SIZE, cursor: pageParam })}`,
+      ),
+    initialPageParam: null as string | null,
+    getNextPageParam: (last) => last.nextCursor,
+    enabled: Boolean(jobId && levelId),
+  });
+}
+
+/** The inspector's walk on this level that is not finished yet, or null. */
+export function useOpenWalkQuery(jobId: string, levelId: string, inspectorId: string | undefined) {
+  return useQuery({
+    queryKey: walkKeys.open(jobId, levelId, inspectorId ?? ''),
+    queryFn: async () => {
+      const res = await apiGet<ListResponse<WalkDto>>(
+        `${jobPath(jobId, 'walks')}${queryString({ levelId, inspectorId, open: 'true', limit: 1 })}`,
+      );
+      return res.items[0] ?? null;
+    },
+    enabled: Boolean(jobId && levelId && inspectorId),
+  });
+}
+
+export function useStartWalkMutation(jobId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (levelId: string) => sendWrite<WalkDetail>(newWrite({ method: 'POST', path: jobPath(jobId, 'walks'), body: { levelId } })),
+    onSettled: () => refreshWalkData(queryClient, jobId),
+  });
+}
+
+export function useFinishWalkMutation(jobId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (walkId: string) => sendWrite<WalkDetail>(newWrite({ method: 'POST', path: jobPath(jobId, 'walks', walkId, 'finish'), body: {} })),
+    onSettled: () => refreshWalkData(queryClient, jobId),
+  });
+}
+
+/** A level's coverage only (one unit fetched), for the list of levels. */
+export function useLevelCoverageQuery(jobId: string, levelId: string) {
+  return useQuery({
+    queryKey: [...walkKeys.job(jobId), 'coverage', levelId] as const,
+    queryFn: async () =>
+      (await apiGet<WalkUnitsResponse>(`${jobPath(jobId, 'levels', levelId, 'walk-units')}${queryString({ limit: 1 })}`)).coverage,
+    enabled: Boolean(jobId && levelId),
+  });
+}

@@ -1,0 +1,27 @@
+import { Link, type Href } from 'expo-router';
+import { StyleSheet, View } from 'react-native';
+import type { Role } from '../../shared/words';
+import { space } from '../theme';
+import { Button } from '../ui/Button';
+
+/** The job's way into the walk and the findings (on the job's overview). */
+export function JobWalkLinks({ jobId, role }: { jobId: string; role: Role }) {
+  const base = `/jobs/${encodeURIComponent(jobId)}`;
+  return (
+    <View style={styles.row} testID="job-walk-links">
+      {role !== 'subcontractor' ? (
+        <Link href={`${base}/walk` as Href} asChild>
+          <Button label="Walk a level" testID="job-walk" style={styles.grow} />
+        </Link>
+      ) : null}
+      <Link href={`${base}/findings` as Href} asChild>
+        <Button label="Findings" tone="secondary" testID="job-findings" style={styles.grow} />
+      </Link>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  grow: { flexGrow: 1, flexBasis: 160 },
+});

@@ -1,0 +1,258 @@
+import { Link, type Href } from 'expo-router';
+import { useState } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
+import type { Coverage, WalkUnitDto } from '../../shared/schemas/findings';
+import type { JobDetail } from '../../shared/schemas/setup';
+import { UNIT_KINDS } from '../../shared/words';
+import { ApiError } from '../api/client';
+import { formatWhen } from '../findings/due';
+import { useJobQuery } from '../queries/jobs';
+import { useLevelsQuery } from '../queries/levels';
+import { useSessionQuery } from '../queries/session';
+import { useSpacesQuery } from '../queries/spaces';
+import { useSystemsQuery } from '../queries/systems';
+import { useFinishWalkMutation, useOpenWalkQuery, useWalkUnitsQuery, type WalkUnitFilters } from '../queries/walks';
+import { colors, radius, space, touchTarget } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Button } from '../ui/Button';
+import { Card } from '../ui/Card';
+import { Notice } from '../ui/Notice';
+import { Screen } from '../ui/Screen';
+import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { UnitStateBadge } from './UnitStateBadge';
+import { WalkFilters } from './WalkFilters';
+
+const KIND_LABEL: Record<string, string> = Object.fromEntries(UNIT_KINDS.map((k) => [k.key, k.label]));
+
+export function unitCheckHref(jobId: string, unitId: string): Href {
+  return `/jobs/${encodeURIComponent(jobId)}/units/${encodeURIComponent(unitId)}/check` as Href;
+}
+export function newFindingHref(jobId: string, params: Record<string, string>): Href {
+  const q = Object.entries(params)
+    .map(([k, v]) => `${encodeURIComponent(k)}=${encodeURIComponent(v)}`)
+    .join('&');
+  return `/jobs/${encodeURIComponent(jobId)}/findings/new${q ? `?${q}` : ''}` as Href;
+}
+export function findingsHref(jobId: string, params: Record<string, string> = {}): Href {
+  const q = Object.entries(params)
+    .map(([k, v]) => `${encodeURIComponent(k)}=${encodeURIComponent(v)}`)
+    .join('&');
+  return `/jobs/${encodeURIComponent(jobId)}/findings${q ? `?${q}` : ''}` as Href;
+}
+
+/** One level's walk: coverage, the inspector's walk, and the units with their state at a glance. */
+export function LevelWalkScreen({ jobId, levelId, saved }: { jobId: string; levelId: string; saved?: string }) {
+  const job = useJobQuery(jobId);
+  const levels = useLevelsQuery(jobId);
+  const level = levels.data?.find((l) => l.id === levelId);
+  return (
+    <Screen testID="level-walk-screen" maxWidth={720}>
+      <Link href={`/jobs/${encodeURIComponent(jobId)}/walk` as Href} style={styles.back} testID="level-walk-back">
+        <AppText variant="label" style={{ color: colors.spruce }}>
+          ← All levels
+        </AppText>
+      </Link>
+      {job.isError || levels.isError ? (
+        job.error instanceof ApiError && job.error.status === 404 ? (
+          <EmptyState title="Job not found" body="This job does not exist, or you are not a member of it." testID="job-not-found" />
+        ) : (
+          <ErrorState message={(job.error ?? levels.error)?.message ?? ''} onRetry={() => void Promise.all([job.refetch(), levels.refetch()])} />
+        )
+      ) : job.isPending || levels.isPending ? (
+        <LoadingState label="Loading the level…" />
+      ) : !level ? (
+        <EmptyState title="Level not found" body="This level is not on the job any more." testID="level-not-found" />
+      ) : job.data.role === 'subcontractor' ? (
+        <InspectorsOnly jobId={jobId} />
+      ) : (
+        <LevelWalkBody job={job.data} levelId={level.id} levelName={level.name} saved={saved} />
+      )}
+    </Screen>
+  );
+}
+
+/** Walks show every company's work: subcontractors see their own findings in the list instead. */
+export function InspectorsOnly({ jobId }: { jobId: string }) {
+  return (
+    <EmptyState
+      title="Walks are for inspectors"
+      body="Inspectors and GC managers walk the levels. Your company's findings are in the findings list."
+      testID="walk-inspectors-only"
+      action={
+        <Link href={findingsHref(jobId)} asChild>
+          <Button label="Your findings" tone="secondary" />
+        </Link>
+      }
+    />
+  );
+}
+
+function LevelWalkBody({ job, levelId, levelName, saved }: { job: JobDetail; levelId: string; levelName: string; saved?: string }) {
+  const [filters, setFilters] = useState<WalkUnitFilters>({});
+  const units = useWalkUnitsQuery(job.id, levelId, filters);
+  const spaces = useSpacesQuery(job.id, levelId);
+  const systems = useSystemsQuery(job.id);
+  const first = units.data?.pages[0];
+  const rows = units.data?.pages.flatMap((p) => p.items) ?? [];
+  const filtered = Boolean(filters.q || filters.spaceId || filters.systemId || filters.kind || filters.state);
+  return (
+    <>
+      <View style={styles.head}>
+        <AppText variant="small" muted>
+          {job.name} · walk
+        </AppText>
+        <AppText variant="display" role="heading" testID="level-walk-name">
+          {levelName}
+        </AppText>
+      </View>
+      {saved ? (
+        <Notice tone="success" testID="level-walk-saved">
+          {`Unit check of ${saved} saved.`}
+        </Notice>
+      ) : null}
+      {first ? <CoverageCard coverage={first.coverage} /> : null}
+      <WalkBanner job={job} levelId={levelId} />
+      <WalkFilters value={filters} onChange={setFilters} spaces={spaces.data ?? []} systems={systems.data ?? []} />
+      {units.isPending ? (
+        <LoadingState label="Loading the units…" />
+      ) : units.isError ? (
+        <ErrorState message={units.error.message} onRetry={() => units.refetch()} />
+      ) : rows.length === 0 ? (
+        <EmptyState
+          title={filtered ? 'No unit matches' : 'No units on this level'}
+          body={filtered ? 'Change or clear the filters.' : 'A GC manager adds units in set-up (or imports the equipment schedule).'}
+          testID="level-walk-empty"
+        />
+      ) : (
+        <View style={styles.list} testID="level-walk-units">
+          {filtered && first ? (
+            <AppText variant="small" muted testID="level-walk-count">
+              {first.counts.total} unit{first.counts.total === 1 ? '' : 's'} match · {first.counts.checked} checked
+            </AppText>
+          ) : null}
+          {rows.map((u) => (
+            <UnitRow key={u.id} jobId={job.id} unit={u} />
+          ))}
+          {units.hasNextPage ? (
+            <Button label="Load more units" tone="secondary" testID="level-walk-more" busy={units.isFetchingNextPage} onPress={() => units.fetchNextPage()} />
+          ) : null}
+        </View>
+      )}
+      <View style={styles.links}>
+        <Link href={newFindingHref(job.id, { levelId })} asChild>
+          <Button label="Log a finding for this level (not one unit)" tone="secondary" testID="level-walk-level-finding" />
+        </Link>
+        <Link href={findingsHref(job.id, { levelId })} asChild>
+          <Button label={`Findings on ${levelName}`} tone="quiet" testID="level-walk-findings" />
+        </Link>
+      </View>
+    </>
+  );
+}
+
+function CoverageCard({ coverage }: { coverage: Coverage }) {
+  const pct = coverage.total ? Math.round((coverage.checked / coverage.total) * 100) : 0;
+  return (
+    <Card testID="level-coverage">
+      <View style={styles.coverageRow}>
+        <AppText variant="title" testID="level-coverage-count">
+          {coverage.checked} of {coverage.total} checked
+        </AppText>
+        <AppText variant="label" muted>
+          {pct}%
+        </AppText>
+      </View>
+      <View
+        style={styles.bar}
+        role="progressbar"
+        aria-valuemin={0}
+        aria-valuemax={coverage.total}
+        aria-valuenow={coverage.checked}
+        accessibilityLabel="Units checked"
+      >
+        <View style={[styles.barFill, { width: `${pct}%` }]} />
+      </View>
+      <AppText variant="small" muted testID="level-coverage-detail">
+        {coverage.withOpenFindings} with open findings · {coverage.inProgress} in progress · {coverage.total - coverage.checked - coverage.inProgress} not checked
+      </AppText>
+    </Card>
+  );
+}
+
+/** The inspector's own walk on this level: started by the first unit check, finished here. */
+function WalkBanner({ job, levelId }: { job: JobDetail; levelId: string }) {
+  const session = useSessionQuery();
+  const open = useOpenWalkQuery(job.id, levelId, session.data?.user?.id);
+  const finish = useFinishWalkMutation(job.id);
+  if (job.role === 'subcontractor' || !open.data) {
+    return job.role === 'subcontractor' ? null : (
+      <AppText variant="small" muted testID="walk-none">
+        Your walk starts with your first unit check on this level.
+      </AppText>
+    );
+  }
+  return (
+    <View style={styles.walk} testID="walk-open">
+      <AppText style={styles.walkText}>
+        Your walk started {formatWhen(open.data.startedAt, job.timeZone)} · {open.data.checkCount} unit check{open.data.checkCount === 1 ? '' : 's'}
+      </AppText>
+      <Button label="Finish walk" tone="secondary" testID="walk-finish" busy={finish.isPending} onPress={() => finish.mutate(open.data!.id)} style={styles.walkButton} />
+    </View>
+  );
+}
+
+function UnitRow({ jobId, unit }: { jobId: string; unit: WalkUnitDto }) {
+  const where = [unit.spaceName, unit.systemName].filter(Boolean).join(' · ');
+  return (
+    <Link href={unitCheckHref(jobId, unit.id)} asChild>
+      <Pressable style={styles.row} testID={`walk-unit-${unit.tag}`} accessibilityRole="link" accessibilityLabel={`Unit ${unit.tag}`}>
+        <View style={styles.rowMain}>
+          <AppText variant="heading">{unit.tag}</AppText>
+          <AppText variant="small" muted numberOfLines={1}>
+            {KIND_LABEL[unit.kind] ?? unit.kind}
+            {where ? ` · ${where}` : ''}
+          </AppText>
+          <UnitStateBadge state={unit.state} openFindings={unit.openFindings} worstSeverity={unit.worstSeverity} testID={`walk-unit-${unit.tag}-state`} />
+        </View>
+        <AppText variant="title" style={{ color: colors.spruce }} aria-hidden>
+          ›
+        </AppText>
+      </Pressable>
+    </Link>
+  );
+}
+
+const styles = StyleSheet.create({
+  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  head: { gap: space.xs },
+  coverageRow: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'baseline' },
+  bar: { height: 12, borderRadius: 6, backgroundColor: colors.spruceSoft, overflow: 'hidden' },
+  barFill: { height: 12, backgroundColor: colors.spruce },
+  walk: {
+    gap: space.xs,
+    backgroundColor: colors.ochreSoft,
+    borderRadius: radius.md,
+    borderLeftWidth: 4,
+    borderLeftColor: colors.ochre,
+    paddingHorizontal: space.md,
+    paddingTop: space.sm,
+    paddingBottom: space.xs,
+  },
+  walkText: {},
+  walkButton: { alignSelf: 'flex-end' },
+  list: { gap: space.sm },
+  row: {
+    minHeight: touchTarget + 28,
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: space.md,
+    backgroundColor: colors.surface,
+    borderRadius: radius.md,
+    borderWidth: 1,
+    borderColor: colors.line,
+    paddingHorizontal: space.md,
+    paddingVertical: space.sm,
+  },
+  rowMain: { flex: 1, gap: 4 },
+  links: { gap: space.sm },
+});

@@ -1,0 +1,85 @@
+/**
+ * The unit check's measured items, computed on the phone as the inspector types: parse the text
+ * the trade's way (shared/calc parseQuantity), then evaluate the item's rule against the limit
+ * from the unit's model, the job's settings or a built-in code value (shared/calc evaluateRule).
+ * The server evaluates the same rule again when the check is saved.
+ */
+import { formatQuantity } from '../../shared/calc/format';
+import { parseQuantity } from '../../shared/calc/quantity';
+import { evaluateRule, makeLimitResolver, type LimitResolver, type LimitSources, type RuleResult } from '../../shared/calc/rules';
+import type { JobSettingKey, MeasuredRule, ModelLimitKey, StatedLimit, UnitSystem } from '../../shared/catalogue/types';
+import type { JobDetail, StatedLimitDto, UnitModelDto } from '../../shared/schemas/setup';
+
+export type MeasurementView =
+  /** Nothing typed: the limit is shown so the inspector knows what to look for. */
+  | { kind: 'empty'; result: RuleResult }
+  /** The text does not parse: the parser's own message says why. */
+  | { kind: 'parse_error'; error: string; result: RuleResult }
+  | { kind: 'result'; value: number | boolean; display: string; result: RuleResult };
+
+function toStated(dto: StatedLimitDto): StatedLimit {
+  return { value: dto.stated, unit: dto.unit, source: dto.source };
+}
+
+function mapLimits<K extends string>(limits: Partial<Record<K, StatedLimitDto>> | undefined): Partial<Record<K, StatedLimit>> {
+  const out: Partial<Record<K, StatedLimit>> = {};
+  if (!limits) return out;
+  for (const key of Object.keys(limits) as K[]) {
+    const dto = limits[key];
+    if (dto) out[key] = toStated(dto);
+  }
+  return out;
+}
+
+/** The limit sources of one unit: its model's limits, the job's settings and code editions. */
+export function limitSourcesFor(model: Pick<UnitModelDto, 'name' | 'limits'> | null | undefined, job: Pick<JobDetail, 'settings' | 'codeEditions'> | null | undefined): LimitSources {
+  return {
+    model: model ? { name: model.name, limits: mapLimits<ModelLimitKey>(model.limits) } : undefined,
+    job: mapLimits<JobSettingKey>(job?.settings),
+    editions: job?.codeEditions,
+  };
+}
+
+export function limitResolverFor(
+  model: Pick<UnitModelDto, 'name' | 'limits'> | null | undefined,
+  job: Pick<JobDetail, 'settings' | 'codeEditions'> | null | undefined,
+): LimitResolver {
+  return makeLimitResolver(limitSourcesFor(model, job));
+}
+
+/** Parse and evaluate one measured item's text (or yes/no answer). */
+export function measure(rule: MeasuredRule, text: string, resolve: LimitResolver, system: UnitSystem): MeasurementView {
+  const evaluate = (v: number | boolean | null) => evaluateRule(rule, v, resolve, { system });
+  if (text.trim() === '') return { kind: 'empty', result: evaluate(null) };
+  const parsed = parseQuantity(text, rule.quantity, { system });
+  if (!parsed.ok) return { kind: 'parse_error', error: parsed.error, result: evaluate(null) };
+  const value = rule.quantity === 'boolean' ? parsed.value === 1 : parsed.value;
+  return { kind: 'result', value, display: parsed.display, result: evaluate(value) };
+}
+
+const COMPARISON_WORDS = { at_least: 'at least', at_most: 'at most' } as const;
+
+/** "at least 30-1/2"", "between 1' 0" and 2' 0"", "30° ± 2°", "yes" — the limit in words. */
+export function describeLimit(rule: MeasuredRule, result: RuleResult, system: UnitSystem): string | null {
+  const fmt = (v: number) => formatQuantity(v, rule.quantity, system);
+  switch (rule.comparison) {
+    case 'yes_no':
+      return result.expected === null ? null : result.expected ? 'must be yes' : 'must be no';
+    case 'at_least':
+    case 'at_most':
+      return result.limit === null ? null : `${COMPARISON_WORDS[rule.comparison]} ${fmt(result.limit)}`;
+    case 'between':
+      return result.limit === null || result.upper === null ? null : `between ${fmt(result.limit)} and ${fmt(result.upper)}`;
+    case 'equal_within':
+      return result.limit === null || result.tolerance === null ? null : `${fmt(result.limit)} ± ${fmt(result.tolerance)}`;
+  }
+}
+
+/** The margin in words: "2-1/2" to spare" / "1-1/4" short" (null when undecided or yes/no). */
+export function describeMargin(rule: MeasuredRule, result: RuleResult, system: UnitSystem): string | null {
+  if (result.margin === null || rule.quantity === 'boolean') return null;
+  const fmt = (v: number) => formatQuantity(v, rule.quantity, system);
+  if (result.margin > 0) return `${fmt(result.margin)} to spare`;
+  if (result.margin === 0) return 'exactly at the limit (limits are inclusive)';
+  return `${fmt(-result.margin)} outside the limit`;
+}
