@@ -32,6 +32,7 @@ import { unitImportBodyParsers, unitsRouter } from './routes/units';
 import { sessionRouter } from './routes/session';
 import { checksRouter } from './routes/checks';
 import { findingsRouter } from './routes/findings';
+import { correctionRouter } from './routes/correction';
 import { walksRouter } from './routes/walks';
 import { createObjectStore, type ObjectStore } from './storage';
 
@@ -169,7 +170,9 @@ export function createApp(options: AppOptions): TrimoutApp {
   api.use(catalogueRouter());
   api.use(walksRouter());
   api.use(checksRouter());
-  api.use(findingsRouter({ store: options.objectStore ?? createObjectStore(env), log }));
+  const photoStore = options.objectStore ?? createObjectStore(env);
+  api.use(findingsRouter({ store: photoStore, log }));
+  api.use(correctionRouter({ store: photoStore, log }));
   api.use(apiNotFound);
 
   app.use('/api', api);

@@ -15,6 +15,7 @@ import { UnitModel } from './UnitModel';
 import { Photo } from './Photo';
 import { Finding } from './Finding';
 import { FindingEvent } from './FindingEvent';
+import { Fix } from './Fix';
 import { UnitCheck } from './UnitCheck';
 import { UnitCheckItem } from './UnitCheckItem';
 import { Walk } from './Walk';
@@ -23,6 +24,7 @@ export { AuthToken, Company, Job, JobMember, User };
 export { CatalogueItem, JobCompany, Level, Space, SpaceLink, System, Unit, UnitModel };
 export { Photo };
 export { Finding, FindingEvent, UnitCheck, UnitCheckItem, Walk };
+export { Fix };
 
 export function initModels(sequelize: Sequelize) {
   Company.initModel(sequelize);
@@ -53,6 +55,8 @@ export function initModels(sequelize: Sequelize) {
   UnitCheckItem.initModel(sequelize);
   Finding.initModel(sequelize);
   FindingEvent.initModel(sequelize);
+  // Correction loop (issue 5).
+  Fix.initModel(sequelize);
 
   return { Company, User, Job, JobMember, AuthToken, Level, Space, SpaceLink, System, UnitModel, Unit, JobCompany, CatalogueItem, Photo };
 }

@@ -5,7 +5,8 @@
 import type { Database } from '../db';
 import { hashPassword } from '../auth/passwords';
 import type { Role } from '../../shared/words';
-import { seedDemoSetup } from './demoSetup';
+import { DEMO_COMPANY_TRADES, seedDemoSetup } from './demoSetup';
+import { seedDemoFindings } from './demoFindings';
 
 export { DEMO_COMPANY_TRADES, DEMO_MODELS, DEMO_SYSTEMS } from './demoSetup';
 
@@ -78,7 +79,27 @@ export async function seedDemo(db: Database): Promise<{ created: boolean }> {
       ids[spec.key] = job.id;
     }
     const others = DEMO_JOBS.filter((j) => j.key !== 'main').map((j) => ids[j.key]!);
-    return seedDemoSetup(db, { main: ids.main!, others }, companies, transaction);
+    const setupCreated = await seedDemoSetup(db, { main: ids.main!, others }, companies, transaction);
+    // Walks, unit checks and findings in every status with their histories (issue 5); only when the job has none.
+    const userIds: Record<string, string> = {};
+    for (const account of DEMO_ACCOUNTS) {
+      const user = await User.findOne({ where: { email: account.email }, transaction });
+      if (!user) return setupCreated;
+      userIds[account.email.split('@')[0]!] = user.id;
+    }
+    const findingsCreated = await seedDemoFindings(
+      db,
+      ids.main!,
+      companies,
+      { mechanical: DEMO_COMPANY_TRADES.mechanical, electrical: DEMO_COMPANY_TRADES.electrical, ceilings: DEMO_COMPANY_TRADES.ceilings },
+      {
+        gc: userIds['gc.manager']!,
+        inspector: userIds.inspector!,
+        subs: { mechanical: userIds.mechanical!, electrical: userIds.electrical!, ceilings: userIds.ceilings! },
+      },
+      transaction,
+    );
+    return setupCreated || findingsCreated;
   });
   return { created: created || setUp };
 }

@@ -44,7 +44,7 @@ export interface FindingFilters {
   q?: string;
 }
 
-interface FindingRow {
+export interface FindingRow {
   id: string;
   number: number;
   level_id: string;
@@ -131,7 +131,7 @@ class Params {
   }
 }
 
-function selectSql(sortKey: string, today: string): string {
+export function selectSql(sortKey: string, today: string): string {
   return `
   SELECT f.id, f.number, f.level_id, l.name AS level_name, f.space_id, s.name AS space_name,
          f.unit_id, u.tag AS unit_tag, u.kind AS unit_kind, f.catalogue_item_id, ci.code, ci.title,
@@ -145,7 +145,7 @@ function selectSql(sortKey: string, today: string): string {
          ci.description, ci.fix_guidance, ci.caution, ci.needs_ceiling_access, ci.measured_rule`;
 }
 
-const FROM_SQL = `
+export const FROM_SQL = `
     FROM findings f
     JOIN levels l ON l.id = f.level_id
     LEFT JOIN spaces s ON s.id = f.space_id
@@ -182,7 +182,7 @@ function whereSql(p: Params, scope: FindingScope, filters: FindingFilters, skip:
   return conds.join(' AND ');
 }
 
-function presentRow(jobId: string, row: FindingRow): FindingDto {
+export function presentRow(jobId: string, row: FindingRow): FindingDto {
   return {
     id: row.id,
     number: row.number,
@@ -318,7 +318,7 @@ export async function findingDetail(
   const photos = await sequelize.query<PhotoRow>(
     `SELECT p.id, p.content_type, p.width, p.height, p.byte_size, p.fix_id, p.uploaded_by, u.name AS uploader_name, p.created_at
        FROM photos p LEFT JOIN users u ON u.id = p.uploaded_by
-      WHERE p.job_id = $1 AND p.finding_id = $2
+      WHERE p.job_id = $1 AND (p.finding_id = $2 OR p.fix_id IN (SELECT x.id FROM fixes x WHERE x.finding_id = $2))
       ORDER BY p.created_at, p.id`,
     { bind: [scope.jobId, row.id], type: QueryTypes.SELECT, transaction },
   );
@@ -373,17 +373,39 @@ export interface VisiblePhoto {
 }
 
 /**
- * A photo of a finding the caller may see (same job; for a subcontractor, a finding of their
- * company), or null. Photos that belong to no finding of this job are never served here.
+ * A photo of a finding, or of a fix of a finding, the caller may see (same job; for a
+ * subcontractor, a finding of their company), or null. Photos that belong to no finding of this job are never served here.
  */
 export async function visiblePhoto(sequelize: Sequelize, scope: FindingScope, photoId: string): Promise<VisiblePhoto | null> {
   const bind: unknown[] = [scope.jobId, photoId];
   const company = scope.companyId ? ` AND f.company_id = $${bind.push(scope.companyId)}` : '';
   const [row] = await sequelize.query<{ id: string; storage_key: string; thumb_key: string; content_type: string }>(
     `SELECT p.id, p.storage_key, p.thumb_key, p.content_type
-       FROM photos p JOIN findings f ON f.id = p.finding_id AND f.job_id = p.job_id
+       FROM photos p
+       LEFT JOIN fixes x ON x.id = p.fix_id AND x.job_id = p.job_id
+       JOIN findings f ON f.id = COALESCE(p.finding_id, x.finding_id) AND f.job_id = p.job_id
       WHERE p.job_id = $1 AND p.id = $2${company}`,
     { bind, type: QueryTypes.SELECT },
   );
   return row ? { id: row.id, storageKey: row.storage_key, thumbKey: row.thumb_key, contentType: row.content_type } : null;
+}
+
+/** Findings by id in the caller's scope, as list rows (order of `ids`; ids not visible are left out). */
+export async function findingsByIds(
+  sequelize: Sequelize,
+  scope: FindingScope,
+  ids: readonly string[],
+  transaction?: Transaction,
+): Promise<FindingDto[]> {
+  if (ids.length === 0) return [];
+  const p = new Params(scope.jobId, todayIn(scope.timeZone));
+  const where = whereSql(p, scope, {});
+  const idsParam = p.add(ids);
+  const rows = await sequelize.query<FindingRow>(`${selectSql('f.number', p.today())} ${FROM_SQL} WHERE ${where} AND f.id = ANY (${idsParam}::uuid[])`, {
+    bind: p.bind,
+    type: QueryTypes.SELECT,
+    transaction,
+  });
+  const byId = new Map(rows.map((r) => [r.id, presentRow(scope.jobId, r)]));
+  return ids.flatMap((id) => byId.get(id) ?? []);
 }

@@ -511,3 +511,225 @@ export interface FindingListResponse {
 export function findingLabel(number: number): string {
   return `#${number}`;
 }
+
+// ---------------------------------------------------------------------------------------------
+// Correction loop (issue 5): fixes, re-inspections, changes, comments, bulk, inbox, queue.
+// Paths under /api/jobs/:jobId/findings/:findingId unless said otherwise. See docs/api-findings.md.
+// ---------------------------------------------------------------------------------------------
+
+export const REASON_MAX = 1000;
+export const COMMENT_MAX = 2000;
+export const BULK_FINDINGS_MAX = 200;
+
+const reason = (what = 'a reason') =>
+  z
+    .string({ error: `Give ${what}.` })
+    .trim()
+    .min(1, `Give ${what}.`)
+    .max(REASON_MAX, `The reason is at most ${REASON_MAX} characters.`);
+
+const optionalReason = z.string({ error: 'The reason must be text.' }).trim().max(REASON_MAX, `The reason is at most ${REASON_MAX} characters.`).optional();
+
+/** The actions of the status machine (server/services/findingStatus.ts). */
+export const FINDING_ACTIONS = ['submit_fix', 'accept', 'return', 'close', 'void', 'reopen', 'reassign', 'change_severity', 'change_due'] as const;
+export type FindingAction = (typeof FINDING_ACTIONS)[number];
+/** Words used in refusals: "This finding is closed; it cannot be voided." */
+export const FINDING_ACTION_WORDS: Record<FindingAction, string> = {
+  submit_fix: 'given a fix',
+  accept: 'accepted',
+  return: 'returned',
+  close: 'closed',
+  void: 'voided',
+  reopen: 'reopened',
+  reassign: 'reassigned',
+  change_severity: 'given another severity',
+  change_due: 'given another due date',
+};
+
+/**
+ * POST /findings/:findingId/fixes (the finding's subcontractor company, GC manager) → 201 FixDetail.
+ * multipart/form-data: `data` = this JSON, and 1 to 10 files in `photos` (same rules as findings).
+ * Idempotency-Key honoured. Only an open finding takes a fix (409 otherwise).
+ */
+export const submitFixSchema = z
+  .object({
+    note: z
+      .string({ error: 'Say what was fixed.' })
+      .trim()
+      .min(1, 'Say what was fixed.')
+      .max(NOTE_MAX, `The note is at most ${NOTE_MAX} characters.`),
+  })
+  .strict();
+export type SubmitFixInput = z.input<typeof submitFixSchema>;
+
+export interface FixDto {
+  id: string;
+  findingId: string;
+  note: string;
+  submittedBy: PersonRef;
+  submittedAt: string;
+  photos: PhotoDto[];
+}
+
+/** POST /fixes → 201: the fix and the finding as it is now (ETag of the finding). */
+export interface FixDetail {
+  fix: FixDto;
+  finding: FindingDetail;
+}
+
+export const REINSPECTION_VERDICTS = ['accept', 'return'] as const;
+export type ReinspectionVerdict = (typeof REINSPECTION_VERDICTS)[number];
+
+/**
+ * POST /findings/:findingId/reinspections (inspector, GC manager) → 200 FindingDetail (ETag).
+ * If-Match required (428 / 412). Idempotency-Key honoured. Only a fix-submitted finding.
+ * accept → closed; return → open, returnCount + 1, reason required.
+ */
+export const reinspectionSchema = z
+  .object({
+    verdict: z.enum(REINSPECTION_VERDICTS, { error: 'Choose accept or return.' }),
+    reason: optionalReason,
+  })
+  .strict()
+  .refine((r) => r.verdict !== 'return' || Boolean(r.reason), { message: 'Say why the fix is returned.', path: ['reason'] });
+export type ReinspectionInput = z.input<typeof reinspectionSchema>;
+
+/**
+ * PATCH /findings/:findingId → 200 FindingDetail (ETag). If-Match required. The body holds
+ * exactly ONE change:
+ *   { reassign: { companyId, reason } }           GC manager, inspector; open or fix-submitted
+ *   { severity: { to, reason? } }                 GC manager, inspector; open or fix-submitted
+ *   { dueOn: { to: 'YYYY-MM-DD', reason? } }      GC manager, inspector; open or fix-submitted
+ *   { void: { reason } }                          GC manager, the inspector who logged it; open or fix-submitted
+ *   { reopen: { reason } }                        GC manager; closed
+ *   { close: { note? } }                          inspector ("closed on walk"); open
+ * A subcontractor gets 403 for every change (nothing written).
+ */
+export const findingChangeSchema = z
+  .object({
+    reassign: z.object({ companyId: id('responsible company'), reason: reason('a reason for the reassignment') }).strict().optional(),
+    severity: z
+      .object({ to: z.enum(SEVERITIES, { error: `One of ${SEVERITIES.join(', ')}.` }), reason: optionalReason })
+      .strict()
+      .optional(),
+    dueOn: z.object({ to: dateOnly, reason: optionalReason }).strict().optional(),
+    void: z.object({ reason: reason('a reason for voiding') }).strict().optional(),
+    reopen: z.object({ reason: reason('a reason for reopening') }).strict().optional(),
+    close: z.object({ note: note.optional() }).strict().optional(),
+  })
+  .strict()
+  .refine((c) => Object.values(c).filter((v) => v !== undefined).length === 1, {
+    message: 'Send exactly one change: reassign, severity, dueOn, void, reopen or close.',
+    path: ['change'],
+  });
+export type FindingChangeInput = z.input<typeof findingChangeSchema>;
+export type FindingChangeParsed = z.output<typeof findingChangeSchema>;
+
+/** GET /findings/:findingId/events → { items: FindingEventDto[] } oldest first (every role that sees the finding). */
+export interface FindingEventsResponse {
+  items: FindingEventDto[];
+}
+
+/**
+ * POST /findings/:findingId/comments (everyone who can see the finding) → 201 FindingEventDto
+ * (kind 'comment', reason = the text). Idempotency-Key honoured. Any status.
+ * GET /findings/:findingId/comments → { items: FindingEventDto[] } oldest first.
+ */
+export const commentSchema = z
+  .object({
+    text: z
+      .string({ error: 'Write a comment.' })
+      .trim()
+      .min(1, 'Write a comment.')
+      .max(COMMENT_MAX, `A comment is at most ${COMMENT_MAX} characters.`),
+  })
+  .strict();
+export type CommentInput = z.input<typeof commentSchema>;
+export interface CommentsResponse {
+  items: FindingEventDto[];
+}
+
+/**
+ * POST /api/jobs/:jobId/findings/bulk (GC manager, inspector) → 200 BulkChangeResponse.
+ * All or nothing, one transaction. Any id not on the job → 404 with `fields.findingIds` listing
+ * them; any finding whose status refuses the change → 409 listing them; nothing is changed.
+ * Idempotency-Key honoured.
+ */
+export const bulkChangeSchema = z
+  .object({
+    findingIds: z
+      .array(id('finding'), { error: 'Send findingIds: a list of finding ids.' })
+      .min(1, 'Choose at least one finding.')
+      .max(BULK_FINDINGS_MAX, `At most ${BULK_FINDINGS_MAX} findings at once.`)
+      .refine((ids) => new Set(ids).size === ids.length, 'A finding appears twice.'),
+    change: z
+      .object({
+        reassign: z.object({ companyId: id('responsible company'), reason: reason('a reason for the reassignment') }).strict().optional(),
+        dueOn: z.object({ to: dateOnly, reason: optionalReason }).strict().optional(),
+      })
+      .strict()
+      .refine((c) => (c.reassign === undefined) !== (c.dueOn === undefined), {
+        message: 'Send exactly one change: reassign or dueOn.',
+      }),
+  })
+  .strict();
+export type BulkChangeInput = z.input<typeof bulkChangeSchema>;
+export type BulkChangeParsed = z.output<typeof bulkChangeSchema>;
+export interface BulkChangeResponse {
+  /** The changed findings, in the order sent, with their new versions. */
+  items: FindingDto[];
+}
+
+/**
+ * GET /api/inbox (subcontractors; other roles 403) → InboxResponse. Their company's open and
+ * fix-submitted findings on every job they are a member of: overdue first, then by due date,
+ * then by number. groupBy=area → `groups` by job, level and space (same order inside each).
+ */
+export const INBOX_GROUPINGS = ['none', 'area'] as const;
+export const inboxQuerySchema = z
+  .object({
+    groupBy: z.enum(INBOX_GROUPINGS, { error: 'Use none or area.' }).optional(),
+    jobId: id('job id').optional(),
+    status: enumList(['open', 'fix_submitted'] as const).optional(),
+  })
+  .strict();
+export type InboxQuery = z.input<typeof inboxQuerySchema>;
+export type InboxQueryParsed = z.output<typeof inboxQuerySchema>;
+
+export interface InboxItem extends FindingDto {
+  jobId: string;
+  jobName: string;
+  /** Set when the finding came back from re-inspection (returnCount > 0): the last return's reason. */
+  lastReturnReason: string | null;
+}
+export interface InboxGroup {
+  jobId: string;
+  jobName: string;
+  levelId: string;
+  levelName: string;
+  /** null: findings on the level itself (no space). */
+  spaceId: string | null;
+  spaceName: string | null;
+  items: InboxItem[];
+}
+export interface InboxResponse {
+  items: InboxItem[];
+  /** Only with groupBy=area; ordered by job name, level, space name. */
+  groups: InboxGroup[] | null;
+  counts: { total: number; overdue: number; returned: number; fixSubmitted: number };
+}
+
+/**
+ * GET /api/jobs/:jobId/reinspections/queue (inspector, GC manager; subcontractor 403) →
+ * ReinspectionQueueResponse: fix-submitted findings grouped by level (level order), each with
+ * the latest fix (note, who, photos) and the photos of the finding as logged.
+ */
+export interface ReinspectionQueueItem {
+  finding: FindingDto;
+  latestFix: FixDto | null;
+  originalPhotos: PhotoDto[];
+}
+export interface ReinspectionQueueResponse {
+  levels: Array<{ levelId: string; levelName: string; items: ReinspectionQueueItem[] }>;
+  total: number;
+}
