@@ -3,14 +3,22 @@ import type { ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
 import type { UnitSystem } from '../../shared/catalogue/types';
-import type { FindingDetail, FindingEventDto, FindingEventKind } from '../../shared/schemas/findings';
-import { FINDING_STATUS_LABELS, SEVERITY_LABELS, type FindingStatus, type Severity } from '../../shared/words';
+import type { FindingDetail } from '../../shared/schemas/findings';
+import type { Role } from '../../shared/words';
 import { ApiError } from '../api/client';
+import { BeforeAfter, latestFixPhotos } from '../correction/BeforeAfter';
+import { Comments } from '../correction/Comments';
+import { FindingActions } from '../correction/FindingActions';
+import { FixForm } from '../correction/FixForm';
+import { mayDo } from '../correction/rules';
+import { Timeline } from '../correction/Timeline';
 import { useFindingQuery } from '../queries/findings';
 import { useJobQuery } from '../queries/jobs';
+import { useSessionQuery } from '../queries/session';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
+import { Notice } from '../ui/Notice';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { ItemCaution } from '../walk/ItemCaution';
@@ -20,48 +28,17 @@ import { formatDay, formatWhen } from './due';
 import { StatusBadge } from './FindingCard';
 import { PhotoStrip } from './PhotoStrip';
 
-const EVENT_WORDS: Record<FindingEventKind, string> = {
-  logged: 'Logged',
-  fix_submitted: 'Fix submitted',
-  accepted: 'Re-inspected: accepted',
-  returned: 'Re-inspected: returned',
-  closed_on_walk: 'Closed on a walk',
-  voided: 'Voided',
-  reopened: 'Reopened',
-  reassigned: 'Reassigned',
-  severity_changed: 'Severity changed',
-  due_changed: 'Due date changed',
-  comment: 'Comment',
-  photo_added: 'Photo added',
-};
-
-/** A change's "what": from → to for the fields it names, in words. */
-function describeChange(e: FindingEventDto): string | null {
-  const keys = new Set([...Object.keys(e.from ?? {}), ...Object.keys(e.to ?? {})]);
-  const word = (k: string, v: unknown): string => {
-    if (v === null || v === undefined || v === '') return '—';
-    if (k === 'status' && typeof v === 'string') return FINDING_STATUS_LABELS[v as FindingStatus] ?? v;
-    if (k === 'severity' && typeof v === 'string') return SEVERITY_LABELS[v as Severity] ?? v;
-    if (k === 'dueOn' && typeof v === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(v)) return formatDay(v);
-    return typeof v === 'object' ? JSON.stringify(v) : String(v);
-  };
-  const parts = [...keys].map((k) => {
-    const from = e.from?.[k];
-    const to = e.to?.[k];
-    return e.from && k in e.from ? `${k}: ${word(k, from)} → ${word(k, to)}` : `${k}: ${word(k, to)}`;
-  });
-  return parts.length ? parts.join('; ') : null;
-}
-
 export function FindingDetailScreen({ jobId, findingId }: { jobId: string; findingId: string }) {
   const job = useJobQuery(jobId);
   const finding = useFindingQuery(jobId, findingId);
+  const session = useSessionQuery();
+  const sub = job.data?.role === 'subcontractor';
   const failed = job.isError ? job.error : finding.isError ? finding.error : null;
   return (
     <Screen testID="finding-detail-screen" maxWidth={720}>
-      <Link href={`/jobs/${encodeURIComponent(jobId)}/findings` as Href} style={styles.back} testID="finding-back">
+      <Link href={(sub ? '/inbox' : `/jobs/${encodeURIComponent(jobId)}/findings`) as Href} style={styles.back} testID="finding-back">
         <AppText variant="label" style={{ color: colors.spruce }}>
-          ← All findings
+          {sub ? '← Your findings to fix' : '← All findings'}
         </AppText>
       </Link>
       {failed ? (
@@ -73,7 +50,15 @@ export function FindingDetailScreen({ jobId, findingId }: { jobId: string; findi
       ) : !job.data || !finding.data ? (
         <LoadingState label="Loading the finding…" />
       ) : (
-        <FindingBody jobId={jobId} f={finding.data} timeZone={job.data.timeZone} system={job.data.unitSystem} />
+        <FindingBody
+          jobId={jobId}
+          f={finding.data}
+          timeZone={job.data.timeZone}
+          system={job.data.unitSystem}
+          role={job.data.role}
+          isLogger={finding.data.loggedBy.id === session.data?.user?.id}
+          reload={() => void finding.refetch()}
+        />
       )}
     </Screen>
   );
@@ -90,12 +75,32 @@ function Row({ label, children, testID }: { label: string; children: ReactNode; 
   );
 }
 
-function FindingBody({ jobId, f, timeZone, system }: { jobId: string; f: FindingDetail; timeZone: string; system: UnitSystem }) {
+function FindingBody({
+  jobId,
+  f,
+  timeZone,
+  system,
+  role,
+  isLogger,
+  reload,
+}: {
+  jobId: string;
+  f: FindingDetail;
+  timeZone: string;
+  system: UnitSystem;
+  role: Role;
+  isLogger: boolean;
+  /** Someone changed the finding first: fetch it as it is now. */
+  reload: () => void;
+}) {
   const r = f.ruleResult;
   const q = f.catalogue.quantity;
   const fmt = (v: number | null) => (v === null || !q || q === 'boolean' ? null : formatQuantity(v, q, system));
   const logPhotos = f.photos.filter((p) => !p.fixId);
   const fixPhotos = f.photos.filter((p) => p.fixId);
+  const latestFix = latestFixPhotos(f.photos);
+  const lastReturn = [...f.events].reverse().find((e) => e.kind === 'returned');
+  const sub = role === 'subcontractor';
   return (
     <>
       <View style={styles.head}>
@@ -111,6 +116,12 @@ function FindingBody({ jobId, f, timeZone, system }: { jobId: string; f: Finding
           {f.overdue ? <AppText style={styles.overdue}>⚠ Overdue</AppText> : null}
         </View>
       </View>
+
+      {f.status === 'open' && lastReturn?.reason ? (
+        <Notice tone="error" title={`Returned ${f.returnCount === 1 ? 'once' : `${f.returnCount} times`}`} testID="finding-returned">
+          {`Returned: ${lastReturn.reason}`}
+        </Notice>
+      ) : null}
 
       <Card>
         <Row label="Where" testID="finding-where">
@@ -176,7 +187,9 @@ function FindingBody({ jobId, f, timeZone, system }: { jobId: string; f: Finding
         <AppText variant="title" role="heading">
           Photos ({logPhotos.length})
         </AppText>
-        {logPhotos.length ? (
+        {fixPhotos.length ? (
+          <BeforeAfter before={logPhotos} after={latestFix} label={f.label} testID="finding-before-after" />
+        ) : logPhotos.length ? (
           <PhotoStrip
             testID="finding-photos"
             photos={logPhotos.map((p, i) => ({ key: p.id, thumbUri: p.thumbUrl, fullUri: p.url, label: `Photo ${i + 1} of ${f.label}` }))}
@@ -184,16 +197,10 @@ function FindingBody({ jobId, f, timeZone, system }: { jobId: string; f: Finding
         ) : (
           <AppText muted>No photos with this finding.</AppText>
         )}
-        {fixPhotos.length ? (
-          <>
-            <AppText variant="heading">Fix photos ({fixPhotos.length})</AppText>
-            <PhotoStrip
-              testID="finding-fix-photos"
-              photos={fixPhotos.map((p, i) => ({ key: p.id, thumbUri: p.thumbUrl, fullUri: p.url, label: `Fix photo ${i + 1}` }))}
-            />
-          </>
-        ) : null}
       </View>
+
+      {/* Inspector and GC: the verdict and the changes right under the photos they compare. */}
+      {!sub ? <FindingActions jobId={jobId} finding={f} role={role} isLogger={isLogger} onStale={reload} /> : null}
 
       <Card>
         <AppText variant="label">About this defect type</AppText>
@@ -201,36 +208,24 @@ function FindingBody({ jobId, f, timeZone, system }: { jobId: string; f: Finding
         <AppText variant="label">How it is usually fixed</AppText>
         <AppText variant="small">{f.catalogue.fixGuidance}</AppText>
         {f.catalogue.needsCeilingAccess ? <AppText variant="small" muted>The fix needs access above the ceiling.</AppText> : null}
+        {f.catalogue.caution ? null : (
+          <AppText variant="small" muted testID="finding-guidance-deferral">
+            This guidance is general: the manufacturer’s installation manual, local codes and licensed practice govern.
+          </AppText>
+        )}
       </Card>
       {f.catalogue.caution ? <ItemCaution text={f.catalogue.caution} initiallyOpen testID="finding-caution" /> : null}
 
-      <View style={styles.section} testID="finding-history">
-        <AppText variant="title" role="heading">
-          History
-        </AppText>
-        {f.events.length === 0 ? (
-          <AppText muted>No changes recorded.</AppText>
-        ) : (
-          f.events.map((e) => {
-            const what = describeChange(e);
-            return (
-              <View key={e.id} style={styles.event} testID={`finding-event-${e.kind}`}>
-                <AppText variant="label">{EVENT_WORDS[e.kind] ?? e.kind}</AppText>
-                <AppText variant="small" muted>
-                  {formatWhen(e.at, timeZone)} · {e.actor.name}
-                </AppText>
-                {what ? <AppText variant="small">{what}</AppText> : null}
-                {e.reason ? <AppText variant="small">“{e.reason}”</AppText> : null}
-                {e.photoIds.length ? (
-                  <AppText variant="small" muted>
-                    {e.photoIds.length} photo{e.photoIds.length === 1 ? '' : 's'}
-                  </AppText>
-                ) : null}
-              </View>
-            );
-          })
-        )}
-      </View>
+      {sub && mayDo('submit_fix', f.status, role, isLogger) ? (
+        <FixForm jobId={jobId} finding={f} onStale={reload} />
+      ) : sub && f.status === 'fix_submitted' ? (
+        <Notice tone="info" title="Fix sent" testID="finding-fix-waiting">
+          The inspector re-inspects it next. You will see here whether it is accepted or returned.
+        </Notice>
+      ) : null}
+
+      <Timeline events={f.events} photos={f.photos} timeZone={timeZone} />
+      <Comments jobId={jobId} findingId={f.id} timeZone={timeZone} />
     </>
   );
 }
@@ -250,5 +245,4 @@ const styles = StyleSheet.create({
   unset: { backgroundColor: colors.ochreSoft, borderLeftColor: colors.ochre },
   stamp: { borderRadius: radius.sm, paddingHorizontal: space.sm, paddingVertical: 2 },
   section: { gap: space.sm },
-  event: { borderLeftWidth: 3, borderLeftColor: colors.spruce, paddingLeft: space.md, paddingVertical: space.xs, gap: 2 },
 });

@@ -3,6 +3,8 @@ import { useState } from 'react';
 import { StyleSheet, useWindowDimensions, View } from 'react-native';
 import type { FindingSort } from '../../shared/schemas/findings';
 import { ApiError } from '../api/client';
+import { BulkBar } from '../correction/BulkBar';
+import { mayBulkChange } from '../correction/rules';
 import { useCatalogueQuery } from '../queries/catalogue';
 import { useJobCompaniesQuery } from '../queries/companies';
 import { useFindingsQuery, type FindingFilters } from '../queries/findings';
@@ -17,7 +19,7 @@ import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { FindingCard } from './FindingCard';
 import { FindingsFilters } from './FindingsFilters';
-import { FindingsTable } from './FindingsTable';
+import { FindingsTable, type TableSelection } from './FindingsTable';
 
 /** The table takes over from cards at this width. */
 export const TABLE_BREAKPOINT = 1024;
@@ -38,6 +40,17 @@ export function FindingsListScreen({ jobId, initial }: { jobId: string; initial:
   const rows = findings.data?.pages.flatMap((p) => p.items) ?? [];
   const filtered = Object.entries(filters).some(([k, v]) => k !== 'sort' && v !== undefined);
   const sort: FindingSort = filters.sort ?? '-number';
+  const bulkAllowed = wide && mayBulkChange(job.data?.role);
+  const [selected, setSelected] = useState<string[]>([]);
+  // Only rows on screen stay selected (a filter change drops the others).
+  const shownSelected = selected.filter((id) => rows.some((r) => r.id === id));
+  const selection: TableSelection | undefined = bulkAllowed
+    ? {
+        selected: new Set(shownSelected),
+        onToggle: (id) => setSelected((now) => (now.includes(id) ? now.filter((x) => x !== id) : [...now, id])),
+        onToggleAll: () => setSelected(rows.length > 0 && rows.every((r) => shownSelected.includes(r.id)) ? [] : rows.map((r) => r.id)),
+      }
+    : undefined;
 
   return (
     <Screen testID="findings-screen" maxWidth={wide ? 1200 : 720}>
@@ -89,8 +102,11 @@ export function FindingsListScreen({ jobId, initial }: { jobId: string; initial:
         />
       ) : (
         <View style={styles.list} testID="findings-list">
+          {bulkAllowed ? (
+            <BulkBar jobId={jobId} selected={shownSelected} rows={rows} companies={companies.data ?? []} onClear={() => setSelected([])} />
+          ) : null}
           {wide ? (
-            <FindingsTable jobId={jobId} rows={rows} sort={sort} onSort={(s) => setFilters((f) => ({ ...f, sort: s }))} />
+            <FindingsTable jobId={jobId} rows={rows} sort={sort} onSort={(s) => setFilters((f) => ({ ...f, sort: s }))} selection={selection} />
           ) : (
             rows.map((f) => <FindingCard key={f.id} jobId={jobId} finding={f} />)
           )}

@@ -52,23 +52,50 @@ const COLUMNS: Col[] = [
   { key: 'measured', title: 'Measured', flex: 1, render: (f) => <AppText variant="small">{f.measuredText ?? '—'}</AppText> },
 ];
 
-/** The findings as a table on a wide screen; the sortable column headers toggle ascending / descending. */
+/** Row selection for bulk changes (GC managers and inspectors). */
+export interface TableSelection {
+  selected: ReadonlySet<string>;
+  onToggle: (findingId: string) => void;
+  /** Select every row shown, or clear when all are selected. */
+  onToggleAll: () => void;
+}
+
+function Check({ on, label, onPress, testID }: { on: boolean; label: string; onPress: () => void; testID: string }) {
+  return (
+    <Pressable role="checkbox" aria-checked={on} accessibilityState={{ checked: on }} accessibilityLabel={label} onPress={onPress} style={styles.check} testID={testID}>
+      <View style={[styles.box, on ? styles.boxOn : null]}>{on ? <AppText style={styles.tick}>✓</AppText> : null}</View>
+    </Pressable>
+  );
+}
+
+/**
+ * The findings as a table on a wide screen; the sortable column headers toggle ascending /
+ * descending. With `selection`, a checkbox column picks rows for a bulk change.
+ */
 export function FindingsTable({
   jobId,
   rows,
   sort,
   onSort,
+  selection,
 }: {
   jobId: string;
   rows: readonly FindingDto[];
   sort: FindingSort;
   onSort: (s: FindingSort) => void;
+  selection?: TableSelection;
 }) {
+  const allOn = selection !== undefined && rows.length > 0 && rows.every((r) => selection.selected.has(r.id));
   const current = sort.replace(/^-/, '') as SortKey;
   const desc = sort.startsWith('-');
   return (
     <View style={styles.table} role="table" testID="findings-table">
       <View style={[styles.row, styles.head]} role="row">
+        {selection ? (
+          <View style={styles.checkCell} role="columnheader">
+            <Check on={allOn} label={allOn ? 'Clear the selection' : 'Select every finding shown'} onPress={selection.onToggleAll} testID="findings-select-all" />
+          </View>
+        ) : null}
         {COLUMNS.map((c) => {
           const on = c.sort === current;
           const arrow = on ? (desc ? ' ▼' : ' ▲') : '';
@@ -96,18 +123,35 @@ export function FindingsTable({
           );
         })}
       </View>
-      {rows.map((f, i) => (
-        <Link key={f.id} href={findingHref(jobId, f.id)} asChild>
-          {/* One style object: a style array does not survive Link's asChild on the web. */}
-          <Pressable style={StyleSheet.flatten([styles.row, i % 2 === 1 ? styles.zebra : null])} role="row" testID={`finding-row-${f.number}`}>
-            {COLUMNS.map((c) => (
-              <View key={c.key} style={[styles.cell, { flex: c.flex }]} role="cell">
-                {c.render(f)}
-              </View>
-            ))}
-          </Pressable>
-        </Link>
-      ))}
+      {rows.map((f, i) => {
+        const link = (
+          <Link key={f.id} href={findingHref(jobId, f.id)} asChild>
+            {/* One style object: a style array does not survive Link's asChild on the web. */}
+            <Pressable
+              style={StyleSheet.flatten([styles.row, selection ? styles.inner : null, i % 2 === 1 ? styles.zebra : null])}
+              role={selection ? undefined : 'row'}
+              testID={`finding-row-${f.number}`}
+            >
+              {COLUMNS.map((c) => (
+                <View key={c.key} style={[styles.cell, { flex: c.flex }]} role="cell">
+                  {c.render(f)}
+                </View>
+              ))}
+            </Pressable>
+          </Link>
+        );
+        if (!selection) return link;
+        const on = selection.selected.has(f.id);
+        // The checkbox sits beside the row's link (not inside it), so ticking never opens the finding.
+        return (
+          <View key={f.id} style={[styles.row, i % 2 === 1 ? styles.zebra : null, on ? styles.picked : null]} role="row">
+            <View style={styles.checkCell} role="cell">
+              <Check on={on} label={`Select ${f.label}`} onPress={() => selection.onToggle(f.id)} testID={`finding-select-${f.number}`} />
+            </View>
+            {link}
+          </View>
+        );
+      })}
     </View>
   );
 }
@@ -120,4 +164,11 @@ const styles = StyleSheet.create({
   cell: { paddingHorizontal: space.sm, paddingVertical: space.sm, minWidth: 0 },
   sortButton: { minHeight: touchTarget, justifyContent: 'center' },
   overdue: { color: colors.danger, fontWeight: '700' },
+  inner: { flex: 1, borderBottomWidth: 0 },
+  picked: { backgroundColor: colors.spruceSoft },
+  checkCell: { width: 52, alignItems: 'center', justifyContent: 'center' },
+  check: { minWidth: touchTarget, minHeight: touchTarget, alignItems: 'center', justifyContent: 'center' },
+  box: { width: 22, height: 22, borderRadius: 4, borderWidth: 2, borderColor: colors.spruce, backgroundColor: colors.surface, alignItems: 'center', justifyContent: 'center' },
+  boxOn: { backgroundColor: colors.spruce },
+  tick: { color: colors.paper, fontWeight: '700', lineHeight: 18 },
 });

@@ -1,4 +1,4 @@
-import { Link, useRouter } from 'expo-router';
+import { Link, useRouter, type Href } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { SessionJob } from '../../shared/schemas/session';
 import { useJobsQuery } from '../queries/jobs';
@@ -16,6 +16,8 @@ export function JobListScreen() {
   const router = useRouter();
   const firstName = session.data?.user?.name.split(' ')[0];
   const newJob = () => router.push('/jobs/new');
+  // Subcontractors on any job get their inbox: their company's findings across their jobs.
+  const subcontractor = (session.data?.jobs ?? []).some((j) => j.role === 'subcontractor');
 
   return (
     <Screen testID="job-list-screen">
@@ -28,6 +30,16 @@ export function JobListScreen() {
         </View>
         {jobs.data && jobs.data.length > 0 ? <Button testID="new-job" label="New job" tone="secondary" onPress={newJob} /> : null}
       </View>
+      {subcontractor ? (
+        <Link href={'/inbox' as Href} asChild>
+          <Pressable style={styles.inbox} testID="home-inbox" accessibilityRole="link">
+            <AppText variant="title" style={{ color: colors.paper }}>
+              Findings to fix →
+            </AppText>
+            <AppText style={{ color: colors.paper }}>Your company’s findings on all your jobs, overdue first or by area.</AppText>
+          </Pressable>
+        </Link>
+      ) : null}
       {jobs.isPending ? (
         <LoadingState label="Loading your jobs…" />
       ) : jobs.isError ? (
@@ -82,5 +94,6 @@ const styles = StyleSheet.create({
     padding: space.lg,
     gap: space.xs,
   },
+  inbox: { backgroundColor: colors.spruce, borderRadius: radius.lg, padding: space.lg, gap: space.xs },
   cardTop: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.sm },
 });

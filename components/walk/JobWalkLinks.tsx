@@ -17,6 +17,15 @@ export function JobWalkLinks({ jobId, role }: { jobId: string; role: Role }) {
       <Link href={`${base}/findings` as Href} asChild>
         <Button label="Findings" tone="secondary" testID="job-findings" style={styles.grow} />
       </Link>
+      {role !== 'subcontractor' ? (
+        <Link href={`${base}/reinspections` as Href} asChild>
+          <Button label="Re-inspections" tone="secondary" testID="job-reinspections" style={styles.grow} />
+        </Link>
+      ) : (
+        <Link href={'/inbox' as Href} asChild>
+          <Button label="Findings to fix" tone="secondary" testID="job-inbox" style={styles.grow} />
+        </Link>
+      )}
     </View>
   );
 }

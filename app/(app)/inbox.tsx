@@ -1,0 +1,6 @@
+import { InboxScreen } from '../../components/correction/InboxScreen';
+
+/** A subcontractor's findings across their jobs. */
+export default function InboxRoute() {
+  return <InboxScreen />;
+}

@@ -1,0 +1,50 @@
+/**
+ * What the screens offer, by role and status: the same status machine the server runs
+ * (shared/findingStatus.ts). The server stays the authority: a refusal shows its message.
+ */
+import { decide } from '../../shared/findingStatus';
+import type { FindingAction } from '../../shared/schemas/findings';
+import type { FindingStatus, Role } from '../../shared/words';
+import { ApiError } from '../api/client';
+import type { Write } from '../api/mutations';
+
+/** True when this role may take this action on a finding in this status. */
+export function mayDo(action: FindingAction, status: FindingStatus, role: Role, isLogger: boolean): boolean {
+  return decide(status, action, role, isLogger).allowed;
+}
+
+/** GC managers and inspectors change many findings at once from the table. */
+export function mayBulkChange(role: Role | undefined): boolean {
+  return role === 'gc_manager' || role === 'inspector';
+}
+
+export const STALE_MESSAGE = 'Someone changed this finding while you were looking at it. It is shown as it is now: check it and try again.';
+
+/** A write's refusal in words: 412 → someone changed it (the screen reloads), 409 → the server's message. */
+export function writeErrorMessage(err: unknown): string {
+  if (err instanceof ApiError) {
+    if (err.status === 412) return STALE_MESSAGE;
+    return err.message;
+  }
+  return err instanceof Error ? err.message : 'That did not work. Try again.';
+}
+
+/** True when the screen should reload the finding (someone else changed it first). */
+export function isStale(err: unknown): boolean {
+  return err instanceof ApiError && (err.status === 412 || err.status === 409);
+}
+
+/**
+ * One write per user action: a retry after a lost connection or a server failure re-sends the
+ * same write (same Idempotency-Key); a refusal (4xx) or a success lets the next press make a new one.
+ */
+export class ActionWrite {
+  private current: Write | null = null;
+  take(make: () => Write): Write {
+    this.current ??= make();
+    return this.current;
+  }
+  settled(err?: unknown) {
+    if (!err || (err instanceof ApiError && err.status >= 400 && err.status < 500)) this.current = null;
+  }
+}
