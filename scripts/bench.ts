@@ -113,7 +113,7 @@ async function main() {
     await db.close();
     await buildWebIfStale(path.join(root, 'dist'));
 
-    const server = await startServer({ ...process.env, NODE_ENV: 'development', DATABASE_URL: url, PORT: '0', WEB_DIST: path.join(root, 'dist') });
+    const server = await startServer({ ...process.env, NODE_ENV: 'development', DATABASE_URL: url, PORT: '0', MAIL_PORT: '0', WEB_DIST: path.join(root, 'dist') });
     try {
       const account = DEMO_ACCOUNTS[0]!;
       const anon = await fetch(`${server.url}/api/session`).then((r) => r.json() as Promise<{ csrfToken: string }>);
