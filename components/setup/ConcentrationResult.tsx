@@ -7,7 +7,7 @@ import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
 import { SafetyCaution } from '../ui/Notice';
 
-const STATUS: Record<SystemDetail['concentration']['status'], { label: string; tone: 'good' | 'bad' | 'warn' | 'info' }> = {
+export const CONCENTRATION_STATUS: Record<SystemDetail['concentration']['status'], { label: string; tone: 'good' | 'bad' | 'warn' | 'info' }> = {
   pass: { label: 'Within the limit', tone: 'good' },
   fail: { label: 'Over the limit', tone: 'bad' },
   limit_not_set: { label: 'Limit not set', tone: 'warn' },
@@ -21,7 +21,7 @@ const STATUS: Record<SystemDetail['concentration']['status'], { label: string; t
  */
 export function ConcentrationResultView({ detail, unitSystem }: { detail: SystemDetail; unitSystem: UnitSystem }) {
   const c = detail.concentration;
-  const status = STATUS[c.status];
+  const status = CONCENTRATION_STATUS[c.status];
   const mass = (kg: number) => formatQuantity(kg, 'mass', unitSystem);
   return (
     <View style={styles.box} testID={`concentration-${detail.id}`}>
@@ -36,6 +36,9 @@ export function ConcentrationResultView({ detail, unitSystem }: { detail: System
           <Fact label="Its volume" value={formatQuantity(c.governing.volume, 'volume', unitSystem)} />
           <Fact label="Charge it allows" value={mass(c.governing.allowedCharge)} testID="concentration-allowed" />
           <Fact label="System charge (factory + field)" value={mass(c.totalCharge)} />
+          {c.status === 'fail' ? (
+            <Fact label="Over the allowed charge by" value={mass(c.totalCharge - c.governing.allowedCharge)} testID="concentration-excess" />
+          ) : null}
           {c.governing.institutional ? <Fact label="Occupancy" value="Institutional: limit halved" /> : null}
         </View>
       ) : (

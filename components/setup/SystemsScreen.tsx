@@ -16,6 +16,7 @@ import { REFRIGERANTS, type Refrigerant } from '../../shared/words';
 import { useCreateSystemMutation, useDeleteSystemMutation, useSystemQuery, useSystemsQuery, useUpdateSystemMutation } from '../queries/systems';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
+import { Badge } from '../ui/Badge';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
@@ -23,7 +24,7 @@ import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { TextField } from '../ui/TextField';
 import { useWide } from '../ui/useWide';
-import { ConcentrationResultView } from './ConcentrationResult';
+import { CONCENTRATION_STATUS, ConcentrationResultView } from './ConcentrationResult';
 import { FormQuantity, FormSelect, FormText } from './fields';
 import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
@@ -81,14 +82,19 @@ function SystemCard({ job, system, editor }: { job: JobDetail; system: SystemDto
   const [editing, setEditing] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const remove = useDeleteSystemMutation(job.id);
-  const detail = useSystemQuery(job.id, open ? system.id : null);
+  // Loaded for every card: the list shows each system's refrigerant status at a glance.
+  const detail = useSystemQuery(job.id, system.id);
+  const status = detail.data ? CONCENTRATION_STATUS[detail.data.concentration.status] : null;
   const mass = (kg: number | null) => (kg === null ? 'not set' : formatQuantity(kg, 'mass', job.unitSystem));
   if (editing) return <SystemForm job={job} existing={system} onDone={() => setEditing(false)} />;
   return (
     <Card testID={`system-card-${system.name}`}>
       <View style={styles.cardHead}>
         <View style={styles.grow}>
-          <AppText variant="heading">{system.name}</AppText>
+          <View style={styles.nameRow}>
+            <AppText variant="heading">{system.name}</AppText>
+            {status ? <Badge label={status.label} tone={status.tone} testID={`system-status-${system.name}`} /> : null}
+          </View>
           <AppText variant="small" muted>
             {system.refrigerant} · outdoor unit {system.outdoorModel ?? 'not set'} · {system.unitCount} indoor unit{system.unitCount === 1 ? '' : 's'}
           </AppText>
@@ -273,6 +279,7 @@ function SystemForm({ job, existing, onDone }: { job: JobDetail; existing?: Syst
 }
 
 const styles = StyleSheet.create({
+  nameRow: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm },
   body: { gap: space.lg },
   start: { alignSelf: 'flex-start' },
   list: { gap: space.md },

@@ -105,6 +105,12 @@ function UnitCheckBody({
   const [mode, setMode] = useState<Mode>({ kind: 'check' });
   const [error, setError] = useState<string | null>(null);
   const [saving, setSaving] = useState(false);
+  /** Codes of defects saved without a finding after a warning: the second tap saves. */
+  const [warnedUnlogged, setWarnedUnlogged] = useState<string>('');
+  const previousMarks = useMemo(
+    () => Object.fromEntries((checks.current?.items ?? []).map((i) => [i.catalogueItemId, i.mark])),
+    [checks.current],
+  );
 
   const markedCount = items.filter((i) => marks[i.id]).length;
   const defects = items.filter((i) => marks[i.id] === 'defect').length;
@@ -146,6 +152,18 @@ function UnitCheckBody({
     const bad = marked.find((i) => i.measuredRule && (texts[i.id] ?? '').trim() && measure(i.measuredRule, texts[i.id] ?? '', resolve, job.unitSystem).kind === 'parse_error');
     if (bad) {
       setError(`${bad.code}: the measured value cannot be read. Correct it or clear it.`);
+      return;
+    }
+    // A defect newly marked in this check with no finding behind it is a hole in the audit:
+    // warn once, naming them; a second tap saves anyway (the finding may be logged later).
+    const unlogged = marked.filter((i) => marks[i.id] === 'defect' && !logged[i.id]?.length && previousMarks[i.id] !== 'defect');
+    const unloggedKey = unlogged.map((i) => i.code).join(', ');
+    if (unlogged.length > 0 && warnedUnlogged !== unloggedKey) {
+      setWarnedUnlogged(unloggedKey);
+      setError(
+        `${unlogged.length === 1 ? 'This item is' : 'These items are'} marked Defect with no finding logged: ${unloggedKey}. ` +
+          'Tap “Log finding” on each, or tap Save again to save the check without them.',
+      );
       return;
     }
     if (!userId) return;

@@ -4,7 +4,7 @@
  */
 import { z } from 'zod';
 import { ROLES, type Role } from '../words';
-import { emailSchema, newPasswordSchema } from './session';
+import { emailFor, emailSchema, newPasswordSchema } from './session';
 
 export const personNameSchema = z
   .string({ error: 'Enter your name.' })
@@ -42,7 +42,7 @@ export type PasswordResetInput = z.infer<typeof passwordResetSchema>;
 /** POST /api/jobs/:jobId/invitations */
 export const invitationCreateSchema = z
   .object({
-    email: emailSchema,
+    email: emailFor('their'),
     name: z.string().trim().max(120, 'Names are at most 120 characters.').optional(),
     role: z.enum(ROLES, { error: 'Choose a role: GC manager, inspector or subcontractor.' }),
     companyId: z.string().uuid('Choose a company on this job.').optional(),
@@ -135,7 +135,7 @@ export interface CaughtMailDto {
 /** The invite form on the members screen: companyId '' means "my own company" (not for subcontractors). */
 export const invitationFormSchema = z
   .object({
-    email: emailSchema,
+    email: emailFor('their'),
     name: z.string().trim().max(120, 'Names are at most 120 characters.'),
     role: z.enum(ROLES, { error: 'Choose a role.' }),
     companyId: z.string(),

@@ -5,12 +5,17 @@ import { ROLES } from '../words';
 export const PASSWORD_MIN = 8;
 export const PASSWORD_MAX = 128;
 
-export const emailSchema = z
-  .string({ error: 'Enter your e-mail address.' })
-  .trim()
-  .min(1, 'Enter your e-mail address.')
-  .max(254, 'That e-mail address is too long.')
-  .email('Enter a valid e-mail address.');
+/** An e-mail address; `whose` words the empty-field message ("your", "their"). */
+export function emailFor(whose: 'your' | 'their') {
+  return z
+    .string({ error: `Enter ${whose} e-mail address.` })
+    .trim()
+    .min(1, `Enter ${whose} e-mail address.`)
+    .max(254, 'That e-mail address is too long.')
+    .email('Enter a valid e-mail address.');
+}
+
+export const emailSchema = emailFor('your');
 
 export const signInSchema = z
   .object({

@@ -160,6 +160,11 @@ describe('walking a level on a phone', () => {
     await page.getByTestId('check-item-MT-01-caution-toggle').click();
     expect(await text(page, 'check-item-MT-01-caution-text')).toContain('installation manual, local codes and licensed practice govern');
     await h.screenshot(page, 'walk-03-unit-check-phone');
+    // A defect marked with no finding behind it is named before the check saves.
+    await page.getByTestId('check-item-MT-01-mark-defect').click();
+    await page.getByTestId('unit-check-save').click();
+    expect(await text(page, 'unit-check-error')).toContain('marked Defect with no finding logged: MT-01');
+    await page.getByTestId('check-item-MT-01-mark-ok').click();
     await page.getByTestId('unit-check-all-ok').click();
     expect(await text(page, 'unit-check-progress')).toMatch(/^(\d+) of \1 marked$/);
     await saveCheck(page, tags[0]);
