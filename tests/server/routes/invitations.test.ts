@@ -121,7 +121,7 @@ describe('POST /api/jobs/:jobId/invitations', () => {
   });
 
   it.each([
-    [{ role: 'inspector' }, 'email', /email: Enter your e-mail/],
+    [{ role: 'inspector' }, 'email', /email: Enter their e-mail address\./],
     [{ email: 'nope', role: 'inspector' }, 'email', /valid e-mail/],
     [{ email: 'a@b.example', role: 'owner' }, 'role', /Choose a role/],
     [{ email: 'a@b.example', role: 'subcontractor' }, 'companyId', /needs the company/],
