@@ -1,10 +1,10 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { passwordResetRequestSchema, type PasswordResetRequestInput } from '../../shared/schemas/auth';
 import { usePasswordResetRequestMutation } from '../queries/auth';
 import { Button } from '../ui/Button';
 import { Notice } from '../ui/Notice';
-import { TextField } from '../ui/TextField';
+import { FormText } from '../ui/FormFields';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
 
@@ -45,24 +45,16 @@ export function ForgotPasswordScreen() {
           {rootError}
         </Notice>
       ) : null}
-      <Controller
+      <FormText
         control={control}
         name="email"
-        render={({ field, fieldState }) => (
-          <TextField
-            testID="forgot-email"
-            label="E-mail"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            autoCapitalize="none"
-            autoComplete="email"
-            inputMode="email"
-            returnKeyType="go"
-            onSubmitEditing={onSubmit}
-          />
-        )}
+        testID="forgot-email"
+        label="E-mail"
+        autoCapitalize="none"
+        autoComplete="email"
+        inputMode="email"
+        returnKeyType="go"
+        onSubmitEditing={onSubmit}
       />
       <Button testID="forgot-submit" label="Send me a link" onPress={onSubmit} busy={requestReset.isPending} />
     </AuthFrame>

@@ -1,7 +1,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useRouter } from 'expo-router';
 import { useRef } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View, type TextInput } from 'react-native';
 import { invitationNewAccountSchema, type InvitationNewAccountInput, type InvitationPreview } from '../../shared/schemas/auth';
 import { signInSchema } from '../../shared/schemas/session';
@@ -13,6 +13,7 @@ import { Button } from '../ui/Button';
 import { Notice } from '../ui/Notice';
 import { RoleBadge } from '../ui/RoleBadge';
 import { LoadingState } from '../ui/States';
+import { FormText } from '../ui/FormFields';
 import { TextField } from '../ui/TextField';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
@@ -109,42 +110,26 @@ function NewAccountForm({ token, invite }: { token: string; invite: InvitationPr
         autoComplete="username"
         style={styles.readOnly}
       />
-      <Controller
+      <FormText
         control={control}
         name="name"
-        render={({ field, fieldState }) => (
-          <TextField
-            testID="invite-name"
-            label="Your name"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            autoComplete="name"
-            returnKeyType="next"
-            onSubmitEditing={() => passwordRef.current?.focus()}
-          />
-        )}
+        testID="invite-name"
+        label="Your name"
+        autoComplete="name"
+        returnKeyType="next"
+        onSubmitEditing={() => passwordRef.current?.focus()}
       />
-      <Controller
+      <FormText
         control={control}
         name="password"
-        render={({ field, fieldState }) => (
-          <TextField
-            ref={passwordRef}
-            testID="invite-password"
-            label="Choose a password"
-            hint="At least 8 characters; a long phrase is best."
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            secureTextEntry
-            autoComplete="new-password"
-            returnKeyType="go"
-            onSubmitEditing={onSubmit}
-          />
-        )}
+        inputRef={passwordRef}
+        testID="invite-password"
+        label="Choose a password"
+        hint="At least 8 characters; a long phrase is best."
+        secureTextEntry
+        autoComplete="new-password"
+        returnKeyType="go"
+        onSubmitEditing={onSubmit}
       />
       <Button testID="invite-submit" label="Join the job" onPress={onSubmit} busy={accept.isPending} />
     </>
@@ -180,23 +165,15 @@ function ExistingAccountForm({ token, invite }: { token: string; invite: Invitat
           {rootError}
         </Notice>
       ) : null}
-      <Controller
+      <FormText
         control={control}
         name="password"
-        render={({ field, fieldState }) => (
-          <TextField
-            testID="invite-password"
-            label="Your password"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            secureTextEntry
-            autoComplete="current-password"
-            returnKeyType="go"
-            onSubmitEditing={onSubmit}
-          />
-        )}
+        testID="invite-password"
+        label="Your password"
+        secureTextEntry
+        autoComplete="current-password"
+        returnKeyType="go"
+        onSubmitEditing={onSubmit}
       />
       <Button testID="invite-submit" label="Sign in and join" onPress={onSubmit} busy={accept.isPending} />
       <AuthLink href="/forgot-password" label="Forgot your password?" testID="invite-forgot" />

@@ -1,6 +1,6 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useRouter } from 'expo-router';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { passwordResetSchema, type PasswordResetInput } from '../../shared/schemas/auth';
 import { ApiError } from '../api/client';
 import { usePasswordResetPreviewQuery, useResetPasswordMutation } from '../queries/auth';
@@ -8,7 +8,7 @@ import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Notice } from '../ui/Notice';
 import { LoadingState } from '../ui/States';
-import { TextField } from '../ui/TextField';
+import { FormText } from '../ui/FormFields';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
 
@@ -62,24 +62,16 @@ export function ResetPasswordScreen({ token }: { token: string }) {
           {rootError}
         </Notice>
       ) : null}
-      <Controller
+      <FormText
         control={control}
         name="password"
-        render={({ field, fieldState }) => (
-          <TextField
-            testID="reset-password"
-            label="New password"
-            hint="At least 8 characters; a long phrase is best."
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            secureTextEntry
-            autoComplete="new-password"
-            returnKeyType="go"
-            onSubmitEditing={onSubmit}
-          />
-        )}
+        testID="reset-password"
+        label="New password"
+        hint="At least 8 characters; a long phrase is best."
+        secureTextEntry
+        autoComplete="new-password"
+        returnKeyType="go"
+        onSubmitEditing={onSubmit}
       />
       <Button testID="reset-submit" label="Save and sign in" onPress={onSubmit} busy={reset.isPending} />
     </AuthFrame>

@@ -1,7 +1,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { Link } from 'expo-router';
 import { useRef } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View, type TextInput } from 'react-native';
 import { signInSchema, type SignInInput } from '../../shared/schemas/session';
 import { ApiError } from '../api/client';
@@ -11,7 +11,7 @@ import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
 import { Screen } from '../ui/Screen';
-import { TextField } from '../ui/TextField';
+import { FormText } from '../ui/FormFields';
 import { Wordmark } from '../ui/Wordmark';
 
 export function SignInScreen() {
@@ -54,43 +54,27 @@ export function SignInScreen() {
             <AppText style={styles.alertText}>{rootError}</AppText>
           </View>
         ) : null}
-        <Controller
+        <FormText
           control={control}
           name="email"
-          render={({ field, fieldState }) => (
-            <TextField
-              testID="sign-in-email"
-              label="E-mail"
-              value={field.value}
-              onChangeText={field.onChange}
-              onBlur={field.onBlur}
-              error={fieldState.error?.message}
-              autoCapitalize="none"
-              autoComplete="email"
-              inputMode="email"
-              returnKeyType="next"
-              onSubmitEditing={() => passwordRef.current?.focus()}
-            />
-          )}
+          testID="sign-in-email"
+          label="E-mail"
+          autoCapitalize="none"
+          autoComplete="email"
+          inputMode="email"
+          returnKeyType="next"
+          onSubmitEditing={() => passwordRef.current?.focus()}
         />
-        <Controller
+        <FormText
           control={control}
           name="password"
-          render={({ field, fieldState }) => (
-            <TextField
-              ref={passwordRef}
-              testID="sign-in-password"
-              label="Password"
-              value={field.value}
-              onChangeText={field.onChange}
-              onBlur={field.onBlur}
-              error={fieldState.error?.message}
-              secureTextEntry
-              autoComplete="current-password"
-              returnKeyType="go"
-              onSubmitEditing={onSubmit}
-            />
-          )}
+          inputRef={passwordRef}
+          testID="sign-in-password"
+          label="Password"
+          secureTextEntry
+          autoComplete="current-password"
+          returnKeyType="go"
+          onSubmitEditing={onSubmit}
         />
         <Button testID="sign-in-submit" label="Sign in" onPress={onSubmit} busy={signIn.isPending} />
         <Link href="/forgot-password" testID="sign-in-forgot" style={styles.link}>

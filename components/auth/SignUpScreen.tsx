@@ -1,13 +1,13 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useRef } from 'react';
-import { Controller, useForm } from 'react-hook-form';
+import { useForm } from 'react-hook-form';
 import type { TextInput } from 'react-native';
 import { signUpSchema, type SignUpInput } from '../../shared/schemas/auth';
 import { useSignUpMutation } from '../queries/auth';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Notice } from '../ui/Notice';
-import { TextField } from '../ui/TextField';
+import { FormText } from '../ui/FormFields';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
 
@@ -54,80 +54,48 @@ export function SignUpScreen() {
           {rootError}
         </Notice>
       ) : null}
-      <Controller
+      <FormText
         control={control}
         name="companyName"
-        render={({ field, fieldState }) => (
-          <TextField
-            testID="sign-up-company"
-            label="Company"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            autoComplete="organization"
-            returnKeyType="next"
-            onSubmitEditing={() => nameRef.current?.focus()}
-          />
-        )}
+        testID="sign-up-company"
+        label="Company"
+        autoComplete="organization"
+        returnKeyType="next"
+        onSubmitEditing={() => nameRef.current?.focus()}
       />
-      <Controller
+      <FormText
         control={control}
         name="name"
-        render={({ field, fieldState }) => (
-          <TextField
-            ref={nameRef}
-            testID="sign-up-name"
-            label="Your name"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            autoComplete="name"
-            returnKeyType="next"
-            onSubmitEditing={() => emailRef.current?.focus()}
-          />
-        )}
+        inputRef={nameRef}
+        testID="sign-up-name"
+        label="Your name"
+        autoComplete="name"
+        returnKeyType="next"
+        onSubmitEditing={() => emailRef.current?.focus()}
       />
-      <Controller
+      <FormText
         control={control}
         name="email"
-        render={({ field, fieldState }) => (
-          <TextField
-            ref={emailRef}
-            testID="sign-up-email"
-            label="Work e-mail"
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            autoCapitalize="none"
-            autoComplete="email"
-            inputMode="email"
-            returnKeyType="next"
-            onSubmitEditing={() => passwordRef.current?.focus()}
-          />
-        )}
+        inputRef={emailRef}
+        testID="sign-up-email"
+        label="Work e-mail"
+        autoCapitalize="none"
+        autoComplete="email"
+        inputMode="email"
+        returnKeyType="next"
+        onSubmitEditing={() => passwordRef.current?.focus()}
       />
-      <Controller
+      <FormText
         control={control}
         name="password"
-        render={({ field, fieldState }) => (
-          <TextField
-            ref={passwordRef}
-            testID="sign-up-password"
-            label="Password"
-            hint="At least 8 characters; a long phrase is best."
-            value={field.value}
-            onChangeText={field.onChange}
-            onBlur={field.onBlur}
-            error={fieldState.error?.message}
-            secureTextEntry
-            autoComplete="new-password"
-            returnKeyType="go"
-            onSubmitEditing={onSubmit}
-          />
-        )}
+        inputRef={passwordRef}
+        testID="sign-up-password"
+        label="Password"
+        hint="At least 8 characters; a long phrase is best."
+        secureTextEntry
+        autoComplete="new-password"
+        returnKeyType="go"
+        onSubmitEditing={onSubmit}
       />
       <Button testID="sign-up-submit" label="Create account" onPress={onSubmit} busy={signUp.isPending} />
     </AuthFrame>

@@ -3,7 +3,7 @@ import { useMemo } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { createJobSchema, type CreateJobInput } from '../../shared/schemas/setup';
-import { FormSelect, FormText } from '../setup/fields';
+import { FormSelect, FormText } from '../ui/FormFields';
 import { showServerErrors } from '../setup/formErrors';
 import { space } from '../theme';
 import { Button } from '../ui/Button';

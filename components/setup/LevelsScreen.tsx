@@ -17,7 +17,7 @@ import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
-import { FormText } from './fields';
+import { FormText } from '../ui/FormFields';
 import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 

@@ -16,7 +16,7 @@ import { Notice } from '../ui/Notice';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { TextField } from '../ui/TextField';
 import { useWide } from '../ui/useWide';
-import { FormQuantity, FormSelect, FormText } from './fields';
+import { FormQuantity, FormSelect, FormText } from '../ui/FormFields';
 import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 import { KIND_LABEL } from './UnitsScreen';

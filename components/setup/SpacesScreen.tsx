@@ -18,7 +18,7 @@ import { Segmented } from '../ui/Segmented';
 import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
-import { FormQuantity, FormSelect, FormText } from './fields';
+import { FormQuantity, FormSelect, FormText } from '../ui/FormFields';
 import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup, setupHref } from './SetupFrame';
 

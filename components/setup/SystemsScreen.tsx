@@ -25,7 +25,7 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { TextField } from '../ui/TextField';
 import { useWide } from '../ui/useWide';
 import { CONCENTRATION_STATUS, ConcentrationResultView } from './ConcentrationResult';
-import { FormQuantity, FormSelect, FormText } from './fields';
+import { FormQuantity, FormSelect, FormText } from '../ui/FormFields';
 import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 

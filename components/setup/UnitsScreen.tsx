@@ -26,7 +26,7 @@ import { Notice } from '../ui/Notice';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { Table, type Column } from '../ui/Table';
 import { useWide } from '../ui/useWide';
-import { FormQuantity, FormSelect, FormText } from './fields';
+import { FormQuantity, FormSelect, FormText } from '../ui/FormFields';
 import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup, setupHref } from './SetupFrame';
 import { UnitFiltersBar } from './UnitFiltersBar';

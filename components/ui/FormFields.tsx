@@ -2,13 +2,13 @@
  * Form fields bound to react-hook-form: a labelled text box, a choice list and a quantity
  * typed with its unit. Each shows its own error (schema or server) under the field.
  */
-import { useState } from 'react';
+import { useState, type Ref } from 'react';
 import { Controller, type Control, type FieldValues, type Path } from 'react-hook-form';
-import { StyleSheet, View, type TextInputProps } from 'react-native';
+import { StyleSheet, View, type TextInput, type TextInputProps } from 'react-native';
 import { space } from '../theme';
-import { Segmented } from '../ui/Segmented';
-import { Select, type SelectOption } from '../ui/Select';
-import { TextField } from '../ui/TextField';
+import { Segmented } from './Segmented';
+import { Select, type SelectOption } from './Select';
+import { TextField } from './TextField';
 
 interface Base<T extends FieldValues> {
   control: Control<T>;
@@ -26,8 +26,9 @@ export function FormText<T extends FieldValues>({
   testID,
   hint,
   nullable,
+  inputRef,
   ...input
-}: Base<T> & { nullable?: boolean } & Omit<TextInputProps, 'value' | 'onChangeText' | 'testID'>) {
+}: Base<T> & { nullable?: boolean; inputRef?: Ref<TextInput> } & Omit<TextInputProps, 'value' | 'onChangeText' | 'testID'>) {
   return (
     <Controller
       control={control}
@@ -35,6 +36,7 @@ export function FormText<T extends FieldValues>({
       render={({ field, fieldState }) => (
         <TextField
           {...input}
+          ref={inputRef}
           testID={testID}
           label={label}
           hint={hint}
