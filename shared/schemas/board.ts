@@ -1,0 +1,237 @@
+/**
+ * The GC's view of a job: levels board, readiness, company scorecards, recurring defects,
+ * the open-findings trend, and level plans with pins. Query schemas (zod, strict) and
+ * response types shared by the server (server/routes/board.ts, plans.ts) and the screens.
+ *
+ * Every path is under /api/jobs/:jobId:
+ *   GET /board                     BoardResponse      (all roles; a subcontractor's counts cover only their company)
+ *   GET /readiness?levelId&systemId ReadinessResponse (all roles)
+ *   GET /scorecards                ScorecardsResponse (GC manager, inspector)
+ *   GET /recurring                 RecurringResponse  (all roles; subcontractor: own company's rows)
+ *   GET /trend?levelId&days        TrendResponse      (all roles)
+ *   GET/POST/DELETE /levels/:levelId/plan             (plan image; metadata in LevelPlanDto)
+ *
+ * Words: "open" on the board means status open (not yet fixed); "unresolved" means open or
+ * fix submitted; "overdue" is unresolved and past its due date in the job's time zone.
+ *
+ * Stable contract: change it by adding, never by renaming or removing.
+ */
+import { z } from 'zod';
+import type { Severity, UnitKindKey } from '../words';
+
+// ---------------------------------------------------------------------------------------------
+// Levels board
+// ---------------------------------------------------------------------------------------------
+
+/** Counts for one level (or the whole job). Voided findings are never counted. */
+export interface BoardCounts {
+  /** Status open, any severity. */
+  open: number;
+  /** Status open and severity critical / major (subsets of `open`). */
+  openCritical: number;
+  openMajor: number;
+  /** Status fix submitted (waiting for re-inspection). */
+  fixSubmitted: number;
+  closed: number;
+  /** Unresolved (open or fix submitted) and past due. */
+  overdue: number;
+  /** Units on the level, and those with a complete unit check. */
+  unitsTotal: number;
+  unitsChecked: number;
+}
+
+export interface BoardLevelRow extends BoardCounts {
+  levelId: string;
+  name: string;
+  position: number;
+  /** Ready to close ceilings: no unresolved finding on the level whose defect type needs access above the ceiling. */
+  ceilingReady: boolean;
+  /** How many unresolved findings block closing the ceiling. */
+  ceilingBlockers: number;
+}
+
+export interface BoardResponse {
+  levels: BoardLevelRow[];
+  totals: BoardCounts;
+  /** Today in the job's time zone (YYYY-MM-DD): the date "overdue" was judged on. */
+  today: string;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Readiness
+// ---------------------------------------------------------------------------------------------
+
+export const readinessQuerySchema = z
+  .object({
+    levelId: z.string().uuid().optional(),
+    systemId: z.string().uuid().optional(),
+  })
+  .strict();
+export type ReadinessQuery = z.infer<typeof readinessQuerySchema>;
+
+/** A finding that holds something back. */
+export interface ReadinessBlocker {
+  findingId: string;
+  number: number;
+  code: string;
+  title: string;
+  severity: Severity;
+  status: 'open' | 'fix_submitted';
+  unitId: string | null;
+  unitTag: string | null;
+}
+
+export interface UnitReadiness {
+  unitId: string;
+  tag: string;
+  kind: UnitKindKey;
+  levelId: string;
+  systemId: string | null;
+  /** A complete unit check exists (the latest check is complete). */
+  checked: boolean;
+  /** Ready for startup: checked and no unresolved critical or major finding. */
+  ready: boolean;
+  /** Unresolved critical or major findings on the unit. */
+  blockers: ReadinessBlocker[];
+}
+
+export interface SystemReadiness {
+  systemId: string;
+  name: string;
+  /** All its units are ready (a system with no units is not ready). */
+  ready: boolean;
+  unitsTotal: number;
+  unitsReady: number;
+  unitsUnchecked: number;
+  units: UnitReadiness[];
+}
+
+export interface LevelReadiness {
+  levelId: string;
+  name: string;
+  position: number;
+  /** Ready to close ceilings. */
+  ceilingReady: boolean;
+  /** Unresolved findings whose defect type needs access above the ceiling. */
+  blockers: ReadinessBlocker[];
+  unitsTotal: number;
+  unitsReady: number;
+}
+
+export interface ReadinessResponse {
+  systems: SystemReadiness[];
+  levels: LevelReadiness[];
+  /** Units not on any system (still judged for startup). */
+  unitsWithoutSystem: UnitReadiness[];
+}
+
+// ---------------------------------------------------------------------------------------------
+// Company scorecards
+// ---------------------------------------------------------------------------------------------
+
+export interface CompanyScorecard {
+  companyId: string;
+  name: string;
+  trade: string | null;
+  /** Status open. */
+  open: number;
+  /** Unresolved and past due. */
+  overdue: number;
+  /** Fix submitted, waiting for re-inspection. */
+  fixesWaiting: number;
+  /** Findings closed by an accepted fix. */
+  accepted: number;
+  /** Of those, accepted on their first re-inspection (never returned). */
+  acceptedFirstPass: number;
+  /** acceptedFirstPass / accepted, 0..1; null when nothing was accepted yet. */
+  firstPassRate: number | null;
+  /** Median days from assignment (logging or reassignment to this company) to the accepted fix; null when none. */
+  medianDaysToAccept: number | null;
+  /** Re-inspections that returned a fix to this company. */
+  returns: number;
+}
+
+export interface ScorecardsResponse {
+  companies: CompanyScorecard[];
+}
+
+// ---------------------------------------------------------------------------------------------
+// Recurring defects
+// ---------------------------------------------------------------------------------------------
+
+/** The job's thresholds (`recurringThresholds` on the job, schema in ./setup.ts): a defect type is
+ * recurring when found on at least `minUnits` units and at least `minShare` (0..1) of the checked
+ * units of the kinds it applies to. Default: 3 units and 10 %. */
+export interface RecurringThresholdsView {
+  minUnits: number;
+  minShare: number;
+}
+export const DEFAULT_RECURRING_THRESHOLDS: RecurringThresholdsView = { minUnits: 3, minShare: 0.1 };
+
+export interface RecurringDefect {
+  catalogueItemId: string;
+  code: string;
+  title: string;
+  /** Distinct units with a (non-voided) finding of this type. */
+  unitCount: number;
+  /** Checked units of the kinds the type applies to (the denominator). */
+  checkedUnits: number;
+  /** unitCount / checkedUnits. */
+  share: number;
+  /** When the type crossed the thresholds (ISO date-time): used by the digest to say "new". */
+  recurringSince: string;
+  byLevel: { levelId: string; name: string; count: number }[];
+  byCompany: { companyId: string; name: string; count: number }[];
+}
+
+export interface RecurringResponse {
+  thresholds: RecurringThresholdsView;
+  items: RecurringDefect[];
+}
+
+// ---------------------------------------------------------------------------------------------
+// Trend
+// ---------------------------------------------------------------------------------------------
+
+export const trendQuerySchema = z
+  .object({
+    levelId: z.string().uuid().optional(),
+    days: z.coerce.number().int().min(7).max(365).optional(),
+  })
+  .strict();
+export type TrendQuery = z.infer<typeof trendQuerySchema>;
+
+export interface TrendPoint {
+  /** YYYY-MM-DD in the job's time zone; counts are as at the end of that day. */
+  date: string;
+  open: number;
+  fixSubmitted: number;
+}
+
+export interface TrendResponse {
+  levelId: string | null;
+  points: TrendPoint[];
+}
+
+// ---------------------------------------------------------------------------------------------
+// Plans and pins
+// ---------------------------------------------------------------------------------------------
+
+/** A level's plan image, as it appears on the level (`plan` field, null when none). */
+export interface LevelPlanDto {
+  contentType: 'image/png' | 'image/jpeg';
+  width: number;
+  height: number;
+  /** Bumped on each upload; use as a cache key in the image URL. */
+  version: number;
+  uploadedAt: string;
+}
+
+/** A pin is a point on the level's plan, as fractions of its width and height (0..1). */
+export const pinSchema = z
+  .object({
+    x: z.number().min(0).max(1),
+    y: z.number().min(0).max(1),
+  })
+  .strict();
+export type Pin = z.infer<typeof pinSchema>;
