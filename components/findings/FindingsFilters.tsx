@@ -126,6 +126,20 @@ export function FindingsFilters({
           );
         })}
       </View>
+      <View style={styles.chips} accessibilityLabel="Due">
+        <Pressable
+          role="checkbox"
+          aria-checked={value.overdue === 'true'}
+          accessibilityState={{ checked: value.overdue === 'true' }}
+          testID={`${testID}-overdue`}
+          onPress={() => onChange({ ...value, overdue: value.overdue === 'true' ? undefined : 'true' })}
+          style={[styles.chip, value.overdue === 'true' ? styles.chipOn : null]}
+        >
+          <AppText style={[styles.chipText, value.overdue === 'true' ? styles.chipTextOn : null]}>
+            {value.overdue === 'true' ? '✓ ' : ''}Overdue only
+          </AppText>
+        </Pressable>
+      </View>
       <Button
         label={more ? 'Fewer filters' : `More filters${extra ? ` (${extra} on)` : ''}`}
         tone="quiet"

@@ -2,6 +2,7 @@ import { Link, type Href } from 'expo-router';
 import { Pressable, StyleSheet, View, useWindowDimensions } from 'react-native';
 import { ROLE_LABELS } from '../../shared/words';
 import { ApiError } from '../api/client';
+import { BoardLink } from '../board/BoardLink';
 import { useJobQuery } from '../queries/jobs';
 import { READ_ONLY_SECTIONS, SETUP_SECTIONS, canEditSetup, setupHref } from '../setup/SetupFrame';
 import { colors, radius, space } from '../theme';
@@ -46,6 +47,7 @@ export function JobOverviewScreen({ jobId }: { jobId: string }) {
             </AppText>
             {job.data.address ? <AppText muted>{job.data.address}</AppText> : null}
           </View>
+          <BoardLink jobId={jobId} role={job.data.role} />
           <Card>
             <View style={styles.row}>
               <AppText variant="label">Your role</AppText>

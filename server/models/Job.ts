@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { CodeEditions, RecurringThresholds, SeverityDueDays, StatedLimitDto } from '../../shared/schemas/setup';
+import type { CodeEditions, RecurringThresholdsInput, SeverityDueDays, StatedLimitDto } from '../../shared/schemas/setup';
 import type { JobSettingKey } from '../../shared/catalogue/types';
 import type { Company } from './Company';
 
@@ -17,7 +17,7 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   /** Job set-up (migration 20261201010000). */
   declare codeEditions: CreationOptional<CodeEditions>;
   declare severityDueDays: CreationOptional<SeverityDueDays>;
-  declare recurringThresholds: CreationOptional<RecurringThresholds>;
+  declare recurringThresholds: CreationOptional<RecurringThresholdsInput>;
   declare settings: CreationOptional<Partial<Record<JobSettingKey, StatedLimitDto>>>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
@@ -37,7 +37,7 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
         unitSystem: { type: DataTypes.STRING(10), allowNull: false, defaultValue: 'imperial' },
         codeEditions: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
         severityDueDays: { type: DataTypes.JSONB, allowNull: false, defaultValue: { critical: 2, major: 7, minor: 14 } },
-        recurringThresholds: { type: DataTypes.JSONB, allowNull: false, defaultValue: { minUnits: 5, windowDays: 14 } },
+        recurringThresholds: { type: DataTypes.JSONB, allowNull: false, defaultValue: { minUnits: 3, minShare: 0.1 } },
         settings: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
         version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
         createdAt: DataTypes.DATE,

@@ -55,6 +55,8 @@ export interface BoardResponse {
   totals: BoardCounts;
   /** Today in the job's time zone (YYYY-MM-DD): the date "overdue" was judged on. */
   today: string;
+  /** Set (to the caller's company) when the counts cover only that company's findings: a subcontractor. */
+  companyScope: string | null;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -91,8 +93,10 @@ export interface UnitReadiness {
   checked: boolean;
   /** Ready for startup: checked and no unresolved critical or major finding. */
   ready: boolean;
-  /** Unresolved critical or major findings on the unit. */
+  /** Unresolved critical or major findings on the unit (by number; at most READINESS_UNIT_BLOCKERS_MAX). */
   blockers: ReadinessBlocker[];
+  /** How many there are in all: present only when `blockers` was cut to READINESS_UNIT_BLOCKERS_MAX. */
+  blockersTotal?: number;
 }
 
 export interface SystemReadiness {
@@ -112,17 +116,28 @@ export interface LevelReadiness {
   position: number;
   /** Ready to close ceilings. */
   ceilingReady: boolean;
-  /** Unresolved findings whose defect type needs access above the ceiling. */
+  /** Unresolved findings whose defect type needs access above the ceiling (by number; at most READINESS_LEVEL_BLOCKERS_MAX). */
   blockers: ReadinessBlocker[];
+  /** How many there are in all: present only when `blockers` was cut to READINESS_LEVEL_BLOCKERS_MAX. */
+  blockersTotal?: number;
   unitsTotal: number;
   unitsReady: number;
 }
+
+/** Readiness lists at most this many blockers per unit / per level (the first by number); `blockersTotal` then gives the full count. */
+export const READINESS_UNIT_BLOCKERS_MAX = 5;
+export const READINESS_LEVEL_BLOCKERS_MAX = 20;
 
 export interface ReadinessResponse {
   systems: SystemReadiness[];
   levels: LevelReadiness[];
   /** Units not on any system (still judged for startup). */
   unitsWithoutSystem: UnitReadiness[];
+  /**
+   * Set (to the caller's company) for a subcontractor: blockers are only that company's findings,
+   * so `ready` / `ceilingReady` then mean "nothing of this company holds it back".
+   */
+  companyScope: string | null;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -132,7 +147,10 @@ export interface ReadinessResponse {
 export interface CompanyScorecard {
   companyId: string;
   name: string;
+  /** The first of the company's trades on this job (a TradeKey), or null. */
   trade: string | null;
+  /** All its trades on this job (TradeKey values). */
+  trades: string[];
   /** Status open. */
   open: number;
   /** Unresolved and past due. */
@@ -174,9 +192,10 @@ export interface RecurringDefect {
   title: string;
   /** Distinct units with a (non-voided) finding of this type. */
   unitCount: number;
-  /** Checked units of the kinds the type applies to (the denominator). */
+  /** The denominator: units of the kinds the type applies to whose latest check is complete,
+   * plus the units the type was found on that are not among them (they were looked at). */
   checkedUnits: number;
-  /** unitCount / checkedUnits. */
+  /** unitCount / checkedUnits, 0..1. */
   share: number;
   /** When the type crossed the thresholds (ISO date-time): used by the digest to say "new". */
   recurringSince: string;
@@ -187,6 +206,8 @@ export interface RecurringDefect {
 export interface RecurringResponse {
   thresholds: RecurringThresholdsView;
   items: RecurringDefect[];
+  /** Set (to the caller's company) for a subcontractor: counted over that company's findings only. */
+  companyScope: string | null;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -200,6 +221,8 @@ export const trendQuerySchema = z
   })
   .strict();
 export type TrendQuery = z.infer<typeof trendQuerySchema>;
+/** Days in the trend when `days` is not given. */
+export const TREND_DAYS_DEFAULT = 30;
 
 export interface TrendPoint {
   /** YYYY-MM-DD in the job's time zone; counts are as at the end of that day. */
@@ -211,6 +234,8 @@ export interface TrendPoint {
 export interface TrendResponse {
   levelId: string | null;
   points: TrendPoint[];
+  /** Set (to the caller's company) for a subcontractor: that company's findings only. */
+  companyScope: string | null;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -235,3 +260,16 @@ export const pinSchema = z
   })
   .strict();
 export type Pin = z.infer<typeof pinSchema>;
+
+/** GET /levels/:levelId/plan?v=N: `v` is the plan version the URL was made for (a cache key). */
+export const planImageQuerySchema = z
+  .object({
+    v: z.coerce.number().int().min(1).max(2_147_483_647).optional(),
+  })
+  .strict();
+export type PlanImageQuery = z.infer<typeof planImageQuerySchema>;
+
+/** The URL of a level's plan image, with its version as the cache key. */
+export function planImageUrl(jobId: string, levelId: string, version: number): string {
+  return `/api/jobs/${encodeURIComponent(jobId)}/levels/${encodeURIComponent(levelId)}/plan?v=${version}`;
+}

@@ -80,7 +80,7 @@ describe('GET and PATCH /api/jobs/:jobId', () => {
       const res = await who.get(jobPath(job.id));
       expect(res.status).toBe(200);
       expect(res.headers.etag).toBe('"v1"');
-      expect(res.body).toMatchObject({ id: job.id, recurringThresholds: { minUnits: 5, windowDays: 14 }, settings: {} });
+      expect(res.body).toMatchObject({ id: job.id, recurringThresholds: { minUnits: 3, minShare: 0.1 }, settings: {} });
     }
   });
 

@@ -1,9 +1,10 @@
 import { useLocalSearchParams } from 'expo-router';
 import { FindingsListScreen } from '../../../../../components/findings/FindingsListScreen';
+import { findingFiltersFromParams, filtersKey } from '../../../../../components/findings/filterParams';
 
-/** Filters may arrive in the address (from a level's walk: ?levelId=…). */
+/** Filters may arrive in the address (from a level's walk: ?levelId=…; from the levels board: ?levelId&status&severity&overdue …). */
 export default function FindingsRoute() {
-  const { jobId, levelId, unitId, spaceId } = useLocalSearchParams<{ jobId: string; levelId?: string; unitId?: string; spaceId?: string }>();
-  const initial = { levelId: levelId || undefined, unitId: unitId || undefined, spaceId: spaceId || undefined };
-  return <FindingsListScreen key={`${levelId ?? ''}-${unitId ?? ''}-${spaceId ?? ''}`} jobId={String(jobId ?? '')} initial={initial} />;
+  const { jobId, ...params } = useLocalSearchParams<Record<string, string>>();
+  const initial = findingFiltersFromParams(params);
+  return <FindingsListScreen key={filtersKey(initial)} jobId={String(jobId ?? '')} initial={initial} />;
 }

@@ -1,0 +1,69 @@
+import { Link } from 'expo-router';
+import { StyleSheet, View } from 'react-native';
+import type { BoardCounts, BoardLevelRow, BoardResponse } from '../../shared/schemas/board';
+import { colors, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Card } from '../ui/Card';
+import { COUNT_LABELS, levelHref, type BoardCountKey } from './links';
+import { CeilingBadge, CountLink, CoverageBar } from './parts';
+
+const TILES: BoardCountKey[] = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'overdue'];
+
+/** The levels board on a phone: the job's totals, then one card per level with the same numbers and links. */
+export function BoardCards({ jobId, board }: { jobId: string; board: BoardResponse }) {
+  const levels = [...board.levels].sort((a, b) => a.position - b.position);
+  return (
+    <View style={styles.list} testID="board-cards">
+      <LevelCard jobId={jobId} row={board.totals} />
+      {levels.map((l) => (
+        <LevelCard key={l.levelId} jobId={jobId} row={l} />
+      ))}
+    </View>
+  );
+}
+
+function LevelCard({ jobId, row }: { jobId: string; row: BoardCounts | BoardLevelRow }) {
+  const level = 'levelId' in row ? row : null;
+  const id = level ? level.levelId : 'total';
+  return (
+    <Card testID={`board-card-${id}`} style={level ? null : styles.totals}>
+      <View style={styles.top}>
+        {level ? (
+          <Link href={levelHref(jobId, level.levelId)} testID={`board-level-${level.levelId}`}>
+            <AppText variant="title" style={styles.levelName}>
+              {level.name} →
+            </AppText>
+          </Link>
+        ) : (
+          <AppText variant="title">All levels</AppText>
+        )}
+        {level ? <CeilingBadge ready={level.ceilingReady} blockers={level.ceilingBlockers} testID={`board-ceiling-${id}`} /> : null}
+      </View>
+      <View style={styles.tiles}>
+        {TILES.map((k) => (
+          <View key={k} style={styles.tile}>
+            <AppText variant="small" muted numberOfLines={1} style={styles.tileLabel}>
+              {COUNT_LABELS[k]}
+            </AppText>
+            <CountLink jobId={jobId} levelId={level?.levelId} countKey={k} value={row[k]} place={level ? level.name : 'all levels'} testID={`board-cell-${id}-${k}`} big />
+          </View>
+        ))}
+      </View>
+      <View style={styles.cov}>
+        <AppText variant="label">Units checked</AppText>
+        <CoverageBar checked={row.unitsChecked} total={row.unitsTotal} testID={`board-coverage-${id}`} />
+      </View>
+    </Card>
+  );
+}
+
+const styles = StyleSheet.create({
+  list: { gap: space.md },
+  totals: { backgroundColor: colors.spruceSoft, borderColor: colors.spruce },
+  top: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', flexWrap: 'wrap', gap: space.sm },
+  levelName: { color: colors.spruce },
+  tiles: { flexDirection: 'row', flexWrap: 'wrap', rowGap: space.xs },
+  tile: { width: '33.33%', gap: 2 },
+  tileLabel: { paddingLeft: space.sm },
+  cov: { gap: space.xs },
+});

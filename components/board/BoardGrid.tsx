@@ -1,0 +1,112 @@
+import { Link } from 'expo-router';
+import { StyleSheet, View } from 'react-native';
+import type { BoardCounts, BoardLevelRow, BoardResponse } from '../../shared/schemas/board';
+import { colors, radius, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { SeverityShape } from '../walk/SeverityMark';
+import { levelHref, type BoardCountKey } from './links';
+import { CeilingBadge, CountLink, CoverageBar } from './parts';
+
+interface Col {
+  key: string;
+  title: string;
+  flex: number;
+  count?: BoardCountKey;
+  shape?: 'critical' | 'major';
+}
+
+const COLS: Col[] = [
+  { key: 'level', title: 'Level', flex: 1.4 },
+  { key: 'open', title: 'Open', flex: 0.8, count: 'open' },
+  { key: 'openCritical', title: 'Critical', flex: 0.9, count: 'openCritical', shape: 'critical' },
+  { key: 'openMajor', title: 'Major', flex: 0.9, count: 'openMajor', shape: 'major' },
+  { key: 'fixSubmitted', title: 'Fix submitted', flex: 1, count: 'fixSubmitted' },
+  { key: 'closed', title: 'Closed', flex: 0.8, count: 'closed' },
+  { key: 'overdue', title: 'Overdue', flex: 0.9, count: 'overdue' },
+  { key: 'coverage', title: 'Units checked', flex: 1.3 },
+  { key: 'ceilings', title: 'Ceilings', flex: 1.3 },
+];
+
+/**
+ * The levels board on a wide screen: one row per level in building order, a column per count,
+ * and the job's totals last. Each count opens the findings behind it, already filtered.
+ * Critical and major are the open findings of that severity (part of "Open").
+ */
+export function BoardGrid({ jobId, board }: { jobId: string; board: BoardResponse }) {
+  const levels = [...board.levels].sort((a, b) => a.position - b.position);
+  return (
+    <View style={styles.table} role="table" testID="board-grid" aria-label="Levels board">
+      <View style={[styles.row, styles.head]} role="row">
+        {COLS.map((c) => (
+          <View key={c.key} style={[styles.cell, { flex: c.flex }]} role="columnheader">
+            <View style={styles.headInner}>
+              {c.shape ? <SeverityShape severity={c.shape} size={12} /> : null}
+              <AppText variant="label" muted>
+                {c.title}
+              </AppText>
+            </View>
+            {c.shape ? (
+              <AppText variant="small" muted>
+                open
+              </AppText>
+            ) : null}
+          </View>
+        ))}
+      </View>
+      {levels.map((l, i) => (
+        <Row key={l.levelId} jobId={jobId} row={l} zebra={i % 2 === 1} />
+      ))}
+      <Row jobId={jobId} row={board.totals} totals />
+    </View>
+  );
+}
+
+function Row({ jobId, row, zebra, totals }: { jobId: string; row: BoardCounts | BoardLevelRow; zebra?: boolean; totals?: boolean }) {
+  const level = 'levelId' in row ? row : null;
+  const id = level ? level.levelId : 'total';
+  const place = level ? level.name : 'all levels';
+  return (
+    <View style={[styles.row, zebra ? styles.zebra : null, totals ? styles.totals : null]} role="row" testID={`board-row-${id}`}>
+      {COLS.map((c) => {
+        let content: React.ReactNode = null;
+        if (c.key === 'level') {
+          content = level ? (
+            <Link href={levelHref(jobId, level.levelId)} testID={`board-level-${level.levelId}`}>
+              <AppText variant="heading" style={styles.levelName}>
+                {level.name}
+              </AppText>
+            </Link>
+          ) : (
+            <AppText variant="heading">All levels</AppText>
+          );
+        } else if (c.count) {
+          content = <CountLink jobId={jobId} levelId={level?.levelId} countKey={c.count} value={row[c.count]} place={place} testID={`board-cell-${id}-${c.count}`} />;
+        } else if (c.key === 'coverage') {
+          content = <CoverageBar checked={row.unitsChecked} total={row.unitsTotal} testID={`board-coverage-${id}`} />;
+        } else if (c.key === 'ceilings') {
+          content = level ? (
+            <Link href={levelHref(jobId, level.levelId)} testID={`board-ceiling-${id}`}>
+              <CeilingBadge ready={level.ceilingReady} blockers={level.ceilingBlockers} short />
+            </Link>
+          ) : null;
+        }
+        return (
+          <View key={c.key} style={[styles.cell, { flex: c.flex }]} role={c.key === 'level' ? 'rowheader' : 'cell'}>
+            {content}
+          </View>
+        );
+      })}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  table: { borderWidth: 1, borderColor: colors.line, borderRadius: radius.md, backgroundColor: colors.surface, overflow: 'hidden' },
+  row: { flexDirection: 'row', borderBottomWidth: 1, borderBottomColor: colors.line, alignItems: 'center' },
+  head: { backgroundColor: colors.paper, alignItems: 'flex-end' },
+  headInner: { flexDirection: 'row', alignItems: 'center', gap: 4 },
+  zebra: { backgroundColor: '#FAF8F3' },
+  totals: { backgroundColor: colors.spruceSoft, borderTopWidth: 2, borderTopColor: colors.spruce, borderBottomWidth: 0 },
+  cell: { paddingHorizontal: space.sm, paddingVertical: space.sm, minWidth: 0 },
+  levelName: { color: colors.spruce, textDecorationLine: 'underline' },
+});

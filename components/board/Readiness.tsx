@@ -1,0 +1,186 @@
+import { Link, type Href } from 'expo-router';
+import { useState } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
+import type { LevelReadiness, ReadinessBlocker, SystemReadiness, UnitReadiness } from '../../shared/schemas/board';
+import { FINDING_STATUS_LABELS } from '../../shared/words';
+import { findingHref } from '../findings/FindingCard';
+import { colors, radius, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Button } from '../ui/Button';
+import { Card } from '../ui/Card';
+import { SeverityMark } from '../walk/SeverityMark';
+import { jobBase, levelHref } from './links';
+import { CeilingBadge, StartupBadge } from './parts';
+
+const SHOWN = 6;
+
+/** A finding that holds something back, as a link to it. */
+export function BlockerRow({ jobId, blocker, testID }: { jobId: string; blocker: ReadinessBlocker; testID?: string }) {
+  const b = blocker;
+  return (
+    <Link href={findingHref(jobId, b.findingId)} asChild>
+      <Pressable style={styles.blocker} testID={testID ?? `blocker-${b.number}`} accessibilityRole="link" accessibilityLabel={`Finding #${b.number}: ${b.title}`}>
+        <SeverityMark severity={b.severity} />
+        <View style={styles.blockerText}>
+          <AppText variant="label" style={styles.link}>
+            #{b.number} · {b.code} {b.title}
+          </AppText>
+          <AppText variant="small" muted>
+            {[b.unitTag, FINDING_STATUS_LABELS[b.status]].filter(Boolean).join(' · ')}
+          </AppText>
+        </View>
+      </Pressable>
+    </Link>
+  );
+}
+
+const TAGS_SHOWN = 12;
+
+/**
+ * What keeps units from startup, the actionable part first: each blocking finding (with its
+ * unit), then the units without a complete unit check, as one list of tags.
+ */
+export function UnitsNotReady({ jobId, units, testID }: { jobId: string; units: readonly UnitReadiness[]; testID: string }) {
+  const [all, setAll] = useState(false);
+  const [allTags, setAllTags] = useState(false);
+  const blockers = units.flatMap((u) => u.blockers);
+  // The server lists a unit's first few blockers; blockersTotal says how many there are in all.
+  const notListed = units.reduce((n, u) => n + (u.blockersTotal ?? u.blockers.length) - u.blockers.length, 0);
+  const unchecked = units.filter((u) => !u.checked).map((u) => u.tag);
+  if (blockers.length === 0 && unchecked.length === 0) return null;
+  const shown = all ? blockers : blockers.slice(0, SHOWN);
+  const tags = allTags ? unchecked : unchecked.slice(0, TAGS_SHOWN);
+  return (
+    <View style={styles.units} testID={testID}>
+      {blockers.length > 0 ? (
+        <>
+          <AppText variant="label">Unresolved critical or major findings</AppText>
+          {shown.map((b) => (
+            <BlockerRow key={b.findingId} jobId={jobId} blocker={b} />
+          ))}
+          {blockers.length > SHOWN ? (
+            <Button tone="quiet" label={all ? 'Show fewer' : `Show all ${blockers.length} findings`} onPress={() => setAll((a) => !a)} testID={`${testID}-all`} />
+          ) : null}
+          {notListed > 0 && (all || blockers.length <= SHOWN) ? (
+            <AppText variant="small" muted testID={`${testID}-more`}>
+              and {notListed} more (see each unit's findings)
+            </AppText>
+          ) : null}
+        </>
+      ) : null}
+      {unchecked.length > 0 ? (
+        <View style={styles.unchecked} testID={`${testID}-unchecked`}>
+          <AppText variant="label">
+            No complete unit check yet ({unchecked.length} unit{unchecked.length === 1 ? '' : 's'})
+          </AppText>
+          <AppText variant="small" muted>
+            {tags.join(', ')}
+            {unchecked.length > tags.length ? ' …' : ''}
+          </AppText>
+          {unchecked.length > TAGS_SHOWN ? (
+            <Button tone="quiet" label={allTags ? 'Show fewer' : `Show all ${unchecked.length}`} onPress={() => setAllTags((a) => !a)} testID={`${testID}-tags`} />
+          ) : null}
+        </View>
+      ) : null}
+    </View>
+  );
+}
+
+/** A system: ready for startup when every unit on it is (checked, no unresolved critical or major finding). */
+export function SystemReadinessCard({ jobId, system }: { jobId: string; system: SystemReadiness }) {
+  const s = system;
+  const blockers = s.units.reduce((n, u) => n + (u.blockersTotal ?? u.blockers.length), 0);
+  return (
+    <Card testID={`system-readiness-${s.systemId}`}>
+      <View style={styles.top}>
+        <Link href={`${jobBase(jobId)}/readiness?systemId=${encodeURIComponent(s.systemId)}` as Href} testID={`system-link-${s.systemId}`}>
+          <AppText variant="title" style={styles.link}>
+            {s.name}
+          </AppText>
+        </Link>
+        <StartupBadge ready={s.ready} testID={`system-ready-${s.systemId}`} />
+      </View>
+      <AppText variant="small" muted>
+        {s.unitsTotal === 0
+          ? 'No units on this system yet.'
+          : `${s.unitsReady} of ${s.unitsTotal} units ready · ${s.unitsUnchecked} not checked · ${blockers} blocking finding${blockers === 1 ? '' : 's'}`}
+      </AppText>
+      <UnitsNotReady jobId={jobId} units={s.units} testID={`system-blocks-${s.systemId}`} />
+    </Card>
+  );
+}
+
+/** A level: ready to close its ceilings when no unresolved finding on it needs access above the ceiling. */
+export function LevelReadinessCard({ jobId, level, linkName = true, title }: { jobId: string; level: LevelReadiness; linkName?: boolean; title?: string }) {
+  const l = level;
+  const name = (
+    <AppText variant="title" style={linkName ? styles.link : null}>
+      {title ?? l.name}
+    </AppText>
+  );
+  return (
+    <Card testID={`level-readiness-${l.levelId}`}>
+      <View style={styles.top}>
+        {linkName ? (
+          <Link href={levelHref(jobId, l.levelId)} testID={`level-link-${l.levelId}`}>
+            {name}
+          </Link>
+        ) : (
+          name
+        )}
+        <CeilingBadge ready={l.ceilingReady} blockers={l.blockersTotal ?? l.blockers.length} testID={`level-ceiling-${l.levelId}`} />
+      </View>
+      {title ? null : (
+        <AppText variant="small" muted>
+          {l.unitsReady} of {l.unitsTotal} units ready for startup
+        </AppText>
+      )}
+      {l.blockers.length > 0 ? (
+        <View style={styles.units}>
+          <AppText variant="label">Findings that need access above the ceiling</AppText>
+          {l.blockers.map((b) => (
+            <BlockerRow key={b.findingId} jobId={jobId} blocker={b} />
+          ))}
+          {l.blockersTotal !== undefined && l.blockersTotal > l.blockers.length ? (
+            <AppText variant="small" muted testID={`level-blockers-more-${l.levelId}`}>
+              and {l.blockersTotal - l.blockers.length} more
+            </AppText>
+          ) : null}
+        </View>
+      ) : null}
+    </Card>
+  );
+}
+
+/** Units not on any system: still judged for startup. */
+export function LooseUnitsCard({ jobId, units }: { jobId: string; units: readonly UnitReadiness[] }) {
+  if (units.length === 0) return null;
+  const ready = units.filter((u) => u.ready).length;
+  return (
+    <Card testID="units-without-system">
+      <AppText variant="title">Units not on a system</AppText>
+      <AppText variant="small" muted>
+        {ready} of {units.length} ready for startup
+      </AppText>
+      <UnitsNotReady jobId={jobId} units={units} testID="loose-blocks" />
+    </Card>
+  );
+}
+
+const styles = StyleSheet.create({
+  top: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', flexWrap: 'wrap', gap: space.sm },
+  link: { color: colors.spruce, textDecorationLine: 'underline' },
+  units: { gap: space.sm, marginTop: space.xs },
+  unchecked: { gap: 2, alignItems: 'flex-start' },
+  blocker: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: space.sm,
+    flexWrap: 'wrap',
+    minHeight: 44,
+    padding: space.xs,
+    borderRadius: radius.sm,
+    backgroundColor: colors.paper,
+  },
+  blockerText: { flexShrink: 1, minWidth: 0 },
+});

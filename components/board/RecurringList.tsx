@@ -1,0 +1,145 @@
+import { Link } from 'expo-router';
+import { StyleSheet, View } from 'react-native';
+import type { RecurringDefect, RecurringResponse } from '../../shared/schemas/board';
+import { colors, radius, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Card } from '../ui/Card';
+import { Table, type Column } from '../ui/Table';
+import { findingsHref, percent } from './links';
+
+/**
+ * Defect types found on many units of the job (a crew habit to correct before the next floor):
+ * code and title, units and share of the checked units, and where (levels) and who (companies).
+ */
+export function RecurringList({ jobId, data, wide }: { jobId: string; data: RecurringResponse; wide: boolean }) {
+  const t = data.thresholds;
+  return (
+    <View style={styles.wrap} testID="recurring">
+      <View style={styles.head}>
+        <AppText variant="title" role="heading">
+          Recurring defects
+        </AppText>
+        <AppText variant="small" muted>
+          A defect type counts as recurring on this job when found on at least {t.minUnits} units and at least {percent(t.minShare)} of the checked
+          units it applies to.
+        </AppText>
+      </View>
+      {data.items.length === 0 ? (
+        <AppText muted testID="recurring-empty">
+          No recurring defects: no defect type has reached the job&apos;s thresholds.
+        </AppText>
+      ) : wide ? (
+        <Table columns={columns(jobId)} rows={data.items} rowKey={(r) => r.catalogueItemId} rowTestID={(r) => `recurring-${r.code}`} testID="recurring-table" />
+      ) : (
+        data.items.map((r) => (
+          <Card key={r.catalogueItemId} testID={`recurring-${r.code}`}>
+            <View style={styles.top}>
+              <AppText variant="small" muted>
+                {r.code}
+              </AppText>
+              <Link href={findingsHref(jobId, { catalogueItemId: r.catalogueItemId })} testID={`recurring-link-${r.code}`}>
+                <AppText variant="heading" style={styles.link}>
+                  {r.title}
+                </AppText>
+              </Link>
+            </View>
+            <AppText variant="small" muted>
+              <AppText variant="heading" testID={`recurring-share-${r.code}`}>
+                {percent(r.share)}
+              </AppText>{' '}
+              {unitsText(r)}
+            </AppText>
+            <View style={styles.bar} aria-hidden>
+              <View style={[styles.fill, { width: `${Math.min(100, r.share * 100)}%` }]} />
+            </View>
+            <Breakdown label="Units by level" items={r.byLevel.map((l) => ({ key: l.levelId, name: l.name, count: l.count }))} />
+            <Breakdown label="Units by company" items={r.byCompany.map((c) => ({ key: c.companyId, name: c.name, count: c.count }))} />
+          </Card>
+        ))
+      )}
+    </View>
+  );
+}
+
+/** "on 6 of 30 looked-at units of its kinds" (checked, or the type was found on them). */
+function unitsText(r: RecurringDefect): string {
+  return `on ${r.unitCount} of ${r.checkedUnits} looked-at unit${r.checkedUnits === 1 ? '' : 's'} of its kinds`;
+}
+
+function Pills({ items }: { items: { key: string; name: string; count: number }[] }) {
+  return (
+    <View style={styles.pills}>
+      {items.map((i) => (
+        <View key={i.key} style={styles.pill}>
+          <AppText variant="small">
+            {i.name} <AppText variant="label">{i.count}</AppText>
+          </AppText>
+        </View>
+      ))}
+    </View>
+  );
+}
+
+function columns(jobId: string): Column<RecurringDefect>[] {
+  return [
+    {
+      key: 'defect',
+      title: 'Defect type',
+      flex: 2.4,
+      render: (r) => (
+        <Link href={findingsHref(jobId, { catalogueItemId: r.catalogueItemId })} testID={`recurring-link-${r.code}`}>
+          <AppText variant="label" style={styles.link}>
+            <AppText variant="small" muted>
+              {r.code}
+            </AppText>{' '}
+            {r.title}
+          </AppText>
+        </Link>
+      ),
+    },
+    { key: 'units', title: 'Units', flex: 0.7, render: (r) => <AppText variant="heading">{r.unitCount}</AppText> },
+    {
+      key: 'share',
+      title: 'Share of looked-at',
+      flex: 1.2,
+      render: (r) => (
+        <View style={styles.shareCell} testID={`recurring-share-${r.code}`}>
+          <AppText variant="label">
+            {percent(r.share)}{' '}
+            <AppText variant="small" muted>
+              of {r.checkedUnits}
+            </AppText>
+          </AppText>
+          <View style={styles.bar} aria-hidden>
+            <View style={[styles.fill, { width: `${Math.min(100, r.share * 100)}%` }]} />
+          </View>
+        </View>
+      ),
+    },
+    { key: 'levels', title: 'Units by level', flex: 2.2, render: (r) => <Pills items={r.byLevel.map((l) => ({ key: l.levelId, name: l.name, count: l.count }))} /> },
+    { key: 'companies', title: 'Units by company', flex: 2, render: (r) => <Pills items={r.byCompany.map((c) => ({ key: c.companyId, name: c.name, count: c.count }))} /> },
+  ];
+}
+
+function Breakdown({ label, items }: { label: string; items: { key: string; name: string; count: number }[] }) {
+  if (items.length === 0) return null;
+  return (
+    <View style={styles.breakdown}>
+      <AppText variant="label">{label}</AppText>
+      <Pills items={items} />
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  wrap: { gap: space.md },
+  head: { gap: space.xs },
+  top: { gap: 2 },
+  link: { color: colors.spruce, textDecorationLine: 'underline' },
+  bar: { height: 6, borderRadius: 3, backgroundColor: colors.line, overflow: 'hidden' },
+  fill: { height: 6, backgroundColor: colors.ochre },
+  shareCell: { gap: 4 },
+  breakdown: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
+  pills: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
+  pill: { borderRadius: radius.sm, backgroundColor: colors.paper, borderWidth: 1, borderColor: colors.line, paddingHorizontal: space.sm, paddingVertical: 2 },
+});

@@ -1,0 +1,240 @@
+import { Link, type Href } from 'expo-router';
+import { useState, type ReactNode } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
+import type { CompanyScorecard } from '../../shared/schemas/board';
+import { TRADES } from '../../shared/words';
+import { ApiError } from '../api/client';
+import { ExportLink } from '../exports/ExportLink';
+import { scorecardsCsvHref } from '../exports/hrefs';
+import { useScorecardsQuery } from '../queries/board';
+import { useJobQuery } from '../queries/jobs';
+import { colors, radius, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Card } from '../ui/Card';
+import { Notice } from '../ui/Notice';
+import { Screen } from '../ui/Screen';
+import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { useWide } from '../ui/useWide';
+import { findingsHref, jobBase, percent } from './links';
+import { BackLink, BoardTabs, maySeeScorecards } from './parts';
+import { DEFAULT_SCORECARD_SORT, nextSort, sortScorecards, type ScorecardKey, type ScorecardSort } from './scorecardSort';
+
+/** The company's trades on the job as labels ("mechanical" → "Mechanical"). */
+function tradeLabel(c: Pick<CompanyScorecard, 'trade' | 'trades'>): string | null {
+  const keys = c.trades?.length ? c.trades : c.trade ? [c.trade] : [];
+  return keys.length ? keys.map((k) => TRADES.find((t) => t.key === k)?.label ?? k).join(', ') : null;
+}
+
+function days(v: number | null): string {
+  if (v === null) return '—';
+  const r = Math.round(v * 10) / 10;
+  return `${r} day${r === 1 ? '' : 's'}`;
+}
+function rate(c: CompanyScorecard): string {
+  return c.firstPassRate === null ? '—' : `${percent(c.firstPassRate)} (${c.acceptedFirstPass} of ${c.accepted})`;
+}
+
+interface Col {
+  key: ScorecardKey;
+  title: string;
+  flex: number;
+  render: (c: CompanyScorecard, jobId: string) => ReactNode;
+}
+
+const COLS: Col[] = [
+  {
+    key: 'name',
+    title: 'Company',
+    flex: 2,
+    render: (c) => (
+      <View>
+        <AppText variant="heading" testID="scorecard-name">
+          {c.name}
+        </AppText>
+        {tradeLabel(c) ? (
+          <AppText variant="small" muted>
+            {tradeLabel(c)}
+          </AppText>
+        ) : null}
+      </View>
+    ),
+  },
+  { key: 'open', title: 'Open', flex: 0.8, render: (c) => String(c.open) },
+  { key: 'overdue', title: 'Overdue', flex: 0.9, render: (c) => String(c.overdue) },
+  { key: 'fixesWaiting', title: 'Fixes waiting', flex: 1, render: (c) => String(c.fixesWaiting) },
+  { key: 'medianDaysToAccept', title: 'Median days to accepted fix', flex: 1.4, render: (c) => days(c.medianDaysToAccept) },
+  { key: 'firstPassRate', title: 'First-pass acceptance', flex: 1.5, render: (c) => rate(c) },
+  { key: 'returns', title: 'Returns', flex: 0.8, render: (c) => String(c.returns) },
+];
+
+/** Per company: open, overdue, fixes waiting, time to an accepted fix, first-pass acceptance and returns. */
+export function ScorecardsScreen({ jobId }: { jobId: string }) {
+  const wide = useWide();
+  const job = useJobQuery(jobId);
+  const role = job.data?.role;
+  const allowed = role === undefined ? false : maySeeScorecards(role);
+  const cards = useScorecardsQuery(jobId, allowed);
+  const [sort, setSort] = useState<ScorecardSort>(DEFAULT_SCORECARD_SORT);
+  const forbidden = (job.data && !allowed) || (cards.error instanceof ApiError && cards.error.status === 403);
+
+  return (
+    <Screen testID="scorecards-screen" maxWidth={wide ? 1200 : 720}>
+      <BackLink href={jobBase(jobId) as Href} label={job.data?.name ?? 'The job'} testID="scorecards-back" />
+      <View style={styles.head}>
+        <AppText variant="display" role="heading">
+          Company scorecards
+        </AppText>
+        <AppText muted>
+          Who is holding the job up. First-pass acceptance: fixes accepted on their first re-inspection, of all accepted. Days run from the
+          finding&apos;s assignment to the company until its fix was accepted.
+        </AppText>
+      </View>
+      <BoardTabs jobId={jobId} role={role} current="scorecards" />
+      {forbidden ? (
+        <Notice tone="info" title="For the GC manager and inspectors" testID="scorecards-forbidden">
+          Company scorecards compare every company on the job, so only the GC manager and inspectors see them.
+        </Notice>
+      ) : job.isPending || cards.isPending ? (
+        <LoadingState label="Loading the scorecards…" />
+      ) : job.isError ? (
+        <ErrorState message={job.error.message} onRetry={() => job.refetch()} />
+      ) : cards.isError ? (
+        <ErrorState message={cards.error.message} onRetry={() => cards.refetch()} />
+      ) : cards.data.companies.length === 0 ? (
+        <EmptyState title="No companies yet" body="Companies appear here once findings are assigned to them." testID="scorecards-empty" />
+      ) : wide ? (
+        <ScorecardsTable jobId={jobId} rows={sortScorecards(cards.data.companies, sort)} sort={sort} onSort={(k) => setSort((s) => nextSort(s, k))} />
+      ) : (
+        <ScorecardCards jobId={jobId} rows={sortScorecards(cards.data.companies, sort)} />
+      )}
+      {allowed && cards.data && cards.data.companies.length > 0 ? (
+        <ExportLink href={scorecardsCsvHref(jobId)} label="Export scorecards as CSV" testID="scorecards-export" />
+      ) : null}
+    </Screen>
+  );
+}
+
+/** The wide table: each header sorts by its column (again: the other way round). */
+export function ScorecardsTable({
+  jobId,
+  rows,
+  sort,
+  onSort,
+}: {
+  jobId: string;
+  rows: readonly CompanyScorecard[];
+  sort: ScorecardSort;
+  onSort: (key: ScorecardKey) => void;
+}) {
+  return (
+    <View style={styles.table} role="table" testID="scorecards-table" aria-label="Company scorecards">
+      <View style={[styles.row, styles.headRow]} role="row">
+        {COLS.map((c) => {
+          const on = sort.key === c.key;
+          const arrow = on ? (sort.dir === 'desc' ? ' ▼' : ' ▲') : '';
+          return (
+            <View
+              key={c.key}
+              style={[styles.cell, { flex: c.flex }]}
+              role="columnheader"
+              aria-sort={on ? (sort.dir === 'desc' ? 'descending' : 'ascending') : 'none'}
+              testID={`scorecards-col-${c.key}`}
+            >
+              <Pressable accessibilityRole="button" accessibilityLabel={`Sort by ${c.title}`} testID={`scorecards-sort-${c.key}`} onPress={() => onSort(c.key)} style={styles.sortButton}>
+                <AppText variant="label" style={{ color: on ? colors.spruce : colors.inkMuted }}>
+                  {c.title}
+                  {arrow}
+                </AppText>
+              </Pressable>
+            </View>
+          );
+        })}
+      </View>
+      {rows.map((r, i) => (
+        <View key={r.companyId} style={[styles.row, i % 2 === 1 ? styles.zebra : null]} role="row" testID={`scorecards-row-${i}`}>
+          {COLS.map((c) => {
+            const content = c.key === 'open' || c.key === 'overdue' ? <CompanyCount jobId={jobId} row={r} which={c.key} /> : c.render(r, jobId);
+            return (
+              <View key={c.key} style={[styles.cell, { flex: c.flex }]} role="cell">
+                {typeof content === 'string' ? <AppText>{content}</AppText> : content}
+              </View>
+            );
+          })}
+        </View>
+      ))}
+    </View>
+  );
+}
+
+/** Open and overdue open the company's findings. */
+function CompanyCount({ jobId, row, which }: { jobId: string; row: CompanyScorecard; which: 'open' | 'overdue' }) {
+  const href = findingsHref(jobId, which === 'open' ? { companyId: row.companyId, status: 'open' } : { companyId: row.companyId, overdue: true });
+  return (
+    <LinkText href={href} label={`${row[which]}`} a11y={`${which === 'open' ? 'Open' : 'Overdue'} findings of ${row.name}: ${row[which]}`} />
+  );
+}
+
+function LinkText({ href, label, a11y }: { href: Href; label: string; a11y: string }) {
+  return (
+    <Link href={href} accessibilityLabel={a11y}>
+      <AppText variant="heading" style={styles.link}>
+        {label}
+      </AppText>
+    </Link>
+  );
+}
+
+/** Phone: one card per company, in the same order. */
+function ScorecardCards({ jobId, rows }: { jobId: string; rows: readonly CompanyScorecard[] }) {
+  return (
+    <View style={styles.cards} testID="scorecards-cards">
+      {rows.map((r, i) => (
+        <Card key={r.companyId} testID={`scorecards-card-${i}`}>
+          <AppText variant="title">{r.name}</AppText>
+          {tradeLabel(r) ? (
+            <AppText variant="small" muted>
+              {tradeLabel(r)}
+            </AppText>
+          ) : null}
+          <View style={styles.facts}>
+            <Fact label="Open">
+              <CompanyCount jobId={jobId} row={r} which="open" />
+            </Fact>
+            <Fact label="Overdue">
+              <CompanyCount jobId={jobId} row={r} which="overdue" />
+            </Fact>
+            <Fact label="Fixes waiting">{String(r.fixesWaiting)}</Fact>
+            <Fact label="Returns">{String(r.returns)}</Fact>
+            <Fact label="Median days to accepted fix">{days(r.medianDaysToAccept)}</Fact>
+            <Fact label="First-pass acceptance">{rate(r)}</Fact>
+          </View>
+        </Card>
+      ))}
+    </View>
+  );
+}
+
+function Fact({ label, children }: { label: string; children: ReactNode }) {
+  return (
+    <View style={styles.fact}>
+      <AppText variant="small" muted>
+        {label}
+      </AppText>
+      {typeof children === 'string' ? <AppText variant="heading">{children}</AppText> : children}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  head: { gap: space.xs },
+  table: { borderWidth: 1, borderColor: colors.line, borderRadius: radius.md, backgroundColor: colors.surface, overflow: 'hidden' },
+  row: { flexDirection: 'row', borderBottomWidth: 1, borderBottomColor: colors.line, alignItems: 'center' },
+  headRow: { backgroundColor: colors.paper, alignItems: 'stretch' },
+  zebra: { backgroundColor: '#FAF8F3' },
+  cell: { paddingHorizontal: space.sm, paddingVertical: space.sm, minWidth: 0, justifyContent: 'center' },
+  sortButton: { minHeight: 40, justifyContent: 'center' },
+  link: { color: colors.spruce, textDecorationLine: 'underline' },
+  cards: { gap: space.md },
+  facts: { flexDirection: 'row', flexWrap: 'wrap', rowGap: space.sm },
+  fact: { width: '50%', gap: 2, paddingRight: space.sm },
+});

@@ -1,0 +1,134 @@
+import { Link, type Href } from 'expo-router';
+import { Pressable, StyleSheet, View } from 'react-native';
+import type { Role } from '../../shared/words';
+import { colors, radius, space } from '../theme';
+import { AppText } from '../ui/AppText';
+import { Badge } from '../ui/Badge';
+import { Tabs, type TabItem } from '../ui/Tabs';
+import { SeverityShape } from '../walk/SeverityMark';
+import { COUNT_LABELS, boardCellHref, coverage, jobBase, percent, type BoardCountKey } from './links';
+
+/** Who sees company scorecards (the server answers 403 to anyone else). */
+export function maySeeScorecards(role: Role | undefined): boolean {
+  return role === 'gc_manager' || role === 'inspector';
+}
+
+/** The GC's view in three sections, as tabs at the top of each. */
+export function BoardTabs({ jobId, role, current }: { jobId: string; role: Role | undefined; current: 'board' | 'readiness' | 'scorecards' }) {
+  const base = jobBase(jobId);
+  const items: TabItem[] = [
+    { key: 'board', label: 'Levels board', href: `${base}/board` as Href },
+    { key: 'readiness', label: 'Readiness', href: `${base}/readiness` as Href },
+  ];
+  if (maySeeScorecards(role)) items.push({ key: 'scorecards', label: 'Company scorecards', href: `${base}/scorecards` as Href });
+  return <Tabs items={items} current={current} testID="board-tabs" />;
+}
+
+/** A back link at the top of a screen. */
+export function BackLink({ href, label, testID }: { href: Href; label: string; testID?: string }) {
+  return (
+    <Link href={href} style={styles.back} testID={testID}>
+      <AppText variant="label" style={{ color: colors.spruce }}>
+        ← {label}
+      </AppText>
+    </Link>
+  );
+}
+
+/**
+ * One count of the board as a link to the findings behind it, already filtered. The label says
+ * what the number counts and where (read by screen readers in place of the bare number).
+ */
+export function CountLink({
+  jobId,
+  levelId,
+  countKey,
+  value,
+  place,
+  testID,
+  big,
+}: {
+  jobId: string;
+  levelId?: string;
+  countKey: BoardCountKey;
+  value: number;
+  /** "Level 3" or "all levels", for the link's label. */
+  place: string;
+  testID: string;
+  big?: boolean;
+}) {
+  const alarm = value > 0 && (countKey === 'openCritical' || countKey === 'overdue');
+  return (
+    <Link href={boardCellHref(jobId, countKey, levelId)} asChild>
+      <Pressable
+        accessibilityRole="link"
+        accessibilityLabel={`${COUNT_LABELS[countKey]} on ${place}: ${value}. Show these findings.`}
+        testID={testID}
+        style={StyleSheet.flatten([styles.count, big ? styles.countBig : null, alarm ? styles.alarm : null])}
+      >
+        {countKey === 'openCritical' || countKey === 'openMajor' ? (
+          <SeverityShape severity={countKey === 'openCritical' ? 'critical' : 'major'} size={12} />
+        ) : null}
+        <AppText
+          variant={big ? 'title' : 'heading'}
+          style={{ color: value === 0 ? colors.inkFaint : alarm ? colors.danger : colors.spruce, textDecorationLine: value === 0 ? 'none' : 'underline' }}
+        >
+          {value}
+        </AppText>
+      </Pressable>
+    </Link>
+  );
+}
+
+/** Units checked of units, with a small bar (the words carry the number; the bar only supports it). */
+export function CoverageBar({ checked, total, testID }: { checked: number; total: number; testID?: string }) {
+  const c = coverage({ unitsChecked: checked, unitsTotal: total });
+  const full = total > 0 && checked >= total;
+  return (
+    <View style={styles.coverage} testID={testID} accessibilityLabel={`${c.text} units checked (${percent(c.share)})`}>
+      <AppText variant="small">
+        {c.text}
+        <AppText variant="small" muted>
+          {' '}
+          · {percent(c.share)}
+        </AppText>
+      </AppText>
+      <View style={styles.track} aria-hidden>
+        <View style={[styles.fill, { width: `${Math.min(100, c.share * 100)}%`, backgroundColor: full ? colors.good : colors.spruce }]} />
+      </View>
+    </View>
+  );
+}
+
+/** Ready to close ceilings, or how many findings block it. */
+export function CeilingBadge({ ready, blockers, testID, short }: { ready: boolean; blockers: number; testID?: string; short?: boolean }) {
+  return ready ? (
+    <Badge label={short ? '✓ Can close' : '✓ Ceilings can close'} tone="good" testID={testID} />
+  ) : (
+    <Badge label={`✕ ${blockers} blocking`} tone="bad" testID={testID} />
+  );
+}
+
+/** Ready for startup, or not yet. */
+export function StartupBadge({ ready, testID }: { ready: boolean; testID?: string }) {
+  return ready ? <Badge label="✓ Ready for startup" tone="good" testID={testID} /> : <Badge label="✕ Not ready" tone="bad" testID={testID} />;
+}
+
+const styles = StyleSheet.create({
+  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  count: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: space.xs,
+    alignSelf: 'flex-start',
+    minHeight: 36,
+    minWidth: 44,
+    paddingHorizontal: space.sm,
+    borderRadius: radius.sm,
+  },
+  countBig: { minHeight: 44 },
+  alarm: { backgroundColor: colors.dangerSoft },
+  coverage: { gap: 4, minWidth: 0 },
+  track: { height: 6, borderRadius: 3, backgroundColor: colors.line, overflow: 'hidden' },
+  fill: { height: 6, borderRadius: 3 },
+});

@@ -1,0 +1,71 @@
+import { useQuery } from '@tanstack/react-query';
+import type {
+  BoardResponse,
+  ReadinessQuery,
+  ReadinessResponse,
+  RecurringResponse,
+  ScorecardsResponse,
+  TrendQuery,
+  TrendResponse,
+} from '../../shared/schemas/board';
+import { apiGet } from '../api/client';
+import { jobPath, queryString } from '../api/lists';
+import { walkKeys } from './walks';
+
+/**
+ * The GC's view (shared/schemas/board.ts). Keys sit under the job's walk keys, so saving a
+ * unit check or changing a finding (refreshWalkData) refreshes the board too.
+ */
+export const boardKeys = {
+  all: (jobId: string) => [...walkKeys.job(jobId), 'board'] as const,
+  board: (jobId: string) => [...boardKeys.all(jobId), 'levels'] as const,
+  readiness: (jobId: string, query: ReadinessQuery) => [...boardKeys.all(jobId), 'readiness', query] as const,
+  scorecards: (jobId: string) => [...boardKeys.all(jobId), 'scorecards'] as const,
+  recurring: (jobId: string) => [...boardKeys.all(jobId), 'recurring'] as const,
+  trend: (jobId: string, query: TrendQuery) => [...boardKeys.all(jobId), 'trend', query] as const,
+};
+
+/** GET /board: counts per level in building order, and the job's totals. */
+export function useBoardQuery(jobId: string) {
+  return useQuery({
+    queryKey: boardKeys.board(jobId),
+    queryFn: () => apiGet<BoardResponse>(jobPath(jobId, 'board')),
+    enabled: Boolean(jobId),
+  });
+}
+
+/** GET /readiness: systems ready for startup, levels ready to close ceilings, and what blocks each. */
+export function useReadinessQuery(jobId: string, query: ReadinessQuery = {}) {
+  return useQuery({
+    queryKey: boardKeys.readiness(jobId, query),
+    queryFn: () => apiGet<ReadinessResponse>(`${jobPath(jobId, 'readiness')}${queryString({ ...query })}`),
+    enabled: Boolean(jobId),
+  });
+}
+
+/** GET /scorecards (GC managers and inspectors; others get 403, so do not ask). */
+export function useScorecardsQuery(jobId: string, enabled = true) {
+  return useQuery({
+    queryKey: boardKeys.scorecards(jobId),
+    queryFn: () => apiGet<ScorecardsResponse>(jobPath(jobId, 'scorecards')),
+    enabled: Boolean(jobId) && enabled,
+  });
+}
+
+/** GET /recurring: defect types found on many units of the job. */
+export function useRecurringQuery(jobId: string) {
+  return useQuery({
+    queryKey: boardKeys.recurring(jobId),
+    queryFn: () => apiGet<RecurringResponse>(jobPath(jobId, 'recurring')),
+    enabled: Boolean(jobId),
+  });
+}
+
+/** GET /trend: open and fix-submitted counts at the end of each day (the job or one level). */
+export function useTrendQuery(jobId: string, query: TrendQuery = {}) {
+  return useQuery({
+    queryKey: boardKeys.trend(jobId, query),
+    queryFn: () => apiGet<TrendResponse>(`${jobPath(jobId, 'trend')}${queryString({ ...query })}`),
+    enabled: Boolean(jobId),
+  });
+}

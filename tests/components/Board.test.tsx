@@ -1,0 +1,343 @@
+/**
+ * The levels board's screens with a fake fetch answering like the API (shared/schemas/board.ts):
+ * a grid on a wide screen and a card per level on a phone, each count a link to the findings list
+ * filtered to exactly the findings it counts (and the list reads those filters back from the
+ * address), the trend chart's text summary, and the scorecards' sortable headers.
+ */
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { fireEvent, render, screen, within } from '@testing-library/react-native';
+import type { ReactElement } from 'react';
+import { BoardScreen } from '../../components/board/BoardScreen';
+import { LevelDetailScreen } from '../../components/board/LevelDetailScreen';
+import { ReadinessScreen } from '../../components/board/ReadinessScreen';
+import { ScorecardsScreen } from '../../components/board/ScorecardsScreen';
+import { nextSort, sortScorecards } from '../../components/board/scorecardSort';
+import { niceTicks, trendSummary } from '../../components/board/TrendChart';
+import { boardCellHref } from '../../components/board/links';
+import { findingFiltersFromParams } from '../../components/findings/filterParams';
+import type { BoardResponse, CompanyScorecard, ReadinessResponse, RecurringResponse, TrendResponse } from '../../shared/schemas/board';
+import type { Role } from '../../shared/words';
+
+jest.setTimeout(30_000);
+
+let mockWide = true;
+jest.mock('../../components/ui/useWide', () => ({ useWide: () => mockWide, WIDE_BREAKPOINT: 760 }));
+
+// Links render their href as a prop, so a test can read where each one goes.
+jest.mock('expo-router', () => {
+  const React = jest.requireActual<typeof import('react')>('react');
+  const { Text } = jest.requireActual<typeof import('react-native')>('react-native');
+  return {
+    Link: ({ href, asChild, children, ...rest }: { href: string; asChild?: boolean; children: ReactElement }) =>
+      asChild ? React.cloneElement(React.Children.only(children), { href } as object) : React.createElement(Text, { ...rest, href } as object, children),
+  };
+});
+
+const JOB = '00000000-0000-4000-8000-0000000000a1';
+const L1 = '00000000-0000-4000-8000-000000000011';
+const L2 = '00000000-0000-4000-8000-000000000012';
+const L3 = '00000000-0000-4000-8000-000000000013';
+const C1 = '00000000-0000-4000-8000-0000000000c1';
+const C2 = '00000000-0000-4000-8000-0000000000c2';
+const C3 = '00000000-0000-4000-8000-0000000000c3';
+
+const zero = { open: 0, openCritical: 0, openMajor: 0, fixSubmitted: 0, closed: 0, overdue: 0, unitsTotal: 0, unitsChecked: 0 };
+// Sent out of building order on purpose: the board sorts by position.
+const BOARD: BoardResponse = {
+  levels: [
+    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingReady: false, ceilingBlockers: 2 },
+    { ...zero, levelId: L1, name: 'Level 1', position: 1, open: 2, openCritical: 0, openMajor: 1, fixSubmitted: 1, closed: 6, overdue: 0, unitsTotal: 20, unitsChecked: 20, ceilingReady: true, ceilingBlockers: 0 },
+    { ...zero, levelId: L3, name: 'Roof', position: 3, unitsTotal: 4, ceilingReady: true, ceilingBlockers: 0 },
+  ],
+  totals: { open: 7, openCritical: 1, openMajor: 4, fixSubmitted: 3, closed: 10, overdue: 2, unitsTotal: 44, unitsChecked: 35 },
+  today: '2026-11-30',
+  companyScope: null,
+};
+const TREND: TrendResponse = {
+  levelId: null,
+  points: [
+    { date: '2026-11-27', open: 3, fixSubmitted: 0 },
+    { date: '2026-11-28', open: 9, fixSubmitted: 1 },
+    { date: '2026-11-29', open: 8, fixSubmitted: 2 },
+    { date: '2026-11-30', open: 7, fixSubmitted: 3 },
+  ],
+  companyScope: null,
+};
+const RECURRING: RecurringResponse = {
+  thresholds: { minUnits: 3, minShare: 0.1 },
+  items: [
+    {
+      catalogueItemId: '00000000-0000-4000-8000-0000000000d1',
+      code: 'CD-02',
+      title: 'Drain not sloped',
+      unitCount: 6,
+      checkedUnits: 30,
+      share: 0.2,
+      recurringSince: '2026-11-28T10:00:00.000Z',
+      byLevel: [{ levelId: L2, name: 'Level 2', count: 6 }],
+      byCompany: [{ companyId: C1, name: 'Mech Co', count: 6 }],
+    },
+  ],
+  companyScope: null,
+};
+function card(c: Partial<CompanyScorecard> & { companyId: string; name: string }): CompanyScorecard {
+  return { trade: null, trades: [], open: 0, overdue: 0, fixesWaiting: 0, accepted: 0, acceptedFirstPass: 0, firstPassRate: null, medianDaysToAccept: null, returns: 0, ...c };
+}
+const CARDS: CompanyScorecard[] = [
+  card({ companyId: C1, name: 'Mech Co', trade: 'mechanical', trades: ['mechanical', 'controls'], open: 4, overdue: 1, fixesWaiting: 2, accepted: 4, acceptedFirstPass: 3, firstPassRate: 0.75, medianDaysToAccept: 3.5, returns: 1 }),
+  card({ companyId: C2, name: 'Amp Electric', open: 1, overdue: 3, fixesWaiting: 0, accepted: 2, acceptedFirstPass: 2, firstPassRate: 1, medianDaysToAccept: 1, returns: 0 }),
+  card({ companyId: C3, name: 'Ceil Co', open: 2, overdue: 0 }),
+];
+const READINESS: ReadinessResponse = {
+  systems: [
+    {
+      systemId: '00000000-0000-4000-8000-0000000000e1',
+      name: 'VRF-1',
+      ready: false,
+      unitsTotal: 2,
+      unitsReady: 0,
+      unitsUnchecked: 1,
+      units: [
+        { unitId: 'u1', tag: 'IU-2-01', kind: 'cassette_4way', levelId: L2, systemId: 'x', checked: false, ready: false, blockers: [] },
+        {
+          unitId: 'u2',
+          tag: 'IU-2-02',
+          kind: 'cassette_4way',
+          levelId: L2,
+          systemId: 'x',
+          checked: true,
+          ready: false,
+          blockers: [{ findingId: 'f-12', number: 12, code: 'HG-01', title: 'Hanger rod without washers', severity: 'major', status: 'open', unitId: 'u2', unitTag: 'IU-2-02' }],
+        },
+      ],
+    },
+  ],
+  levels: [
+    {
+      levelId: L2,
+      name: 'Level 2',
+      position: 2,
+      ceilingReady: false,
+      unitsTotal: 2,
+      unitsReady: 0,
+      blockers: [{ findingId: 'f-14', number: 14, code: 'CD-02', title: 'Drain not sloped', severity: 'critical', status: 'fix_submitted', unitId: 'u2', unitTag: 'IU-2-02' }],
+    },
+  ],
+  unitsWithoutSystem: [],
+  companyScope: null,
+};
+
+/** The fake API: answers by path; anything else is a 404. */
+function fakeApi(role: Role, over: Record<string, [number, unknown]> = {}) {
+  const routes: Record<string, [number, unknown]> = {
+    [`/api/jobs/${JOB}`]: [200, { id: JOB, name: 'Cinder Test', role, timeZone: 'UTC' }],
+    [`/api/jobs/${JOB}/board`]: [200, BOARD],
+    [`/api/jobs/${JOB}/trend`]: [200, TREND],
+    [`/api/jobs/${JOB}/trend?levelId=${L2}`]: [200, { ...TREND, levelId: L2 }],
+    [`/api/jobs/${JOB}/recurring`]: [200, RECURRING],
+    [`/api/jobs/${JOB}/scorecards`]: role === 'subcontractor' ? [403, { error: { id: 'forbidden', message: 'Not allowed.' } }] : [200, { companies: CARDS }],
+    [`/api/jobs/${JOB}/readiness`]: [200, READINESS],
+    [`/api/jobs/${JOB}/readiness?levelId=${L2}`]: [200, READINESS],
+    ...over,
+  };
+  const fn = jest.fn(async (path: string) => {
+    const [status, body] = routes[path] ?? [404, { error: { id: 'not_found', message: `No route ${path}` } }];
+    return { ok: status >= 200 && status < 300, status, json: async () => body, headers: { get: () => null } };
+  });
+  (globalThis as { fetch: unknown }).fetch = fn;
+  return fn;
+}
+
+function renderWith(ui: ReactElement) {
+  const client = new QueryClient({ defaultOptions: { queries: { retry: false, gcTime: Infinity } } });
+  return render(<QueryClientProvider client={client}>{ui}</QueryClientProvider>);
+}
+
+function hrefOf(testID: string): string {
+  return String(screen.getByTestId(testID).props.href);
+}
+
+const F = `/jobs/${JOB}/findings`;
+
+describe('the levels board', () => {
+  beforeEach(() => {
+    mockWide = true;
+  });
+
+  it('shows a grid on a wide screen: levels in building order, then the totals', async () => {
+    fakeApi('gc_manager');
+    renderWith(<BoardScreen jobId={JOB} />);
+    const grid = await screen.findByTestId('board-grid');
+    expect(screen.queryByTestId('board-cards')).toBeNull();
+    const rows = within(grid)
+      .getAllByTestId(/^board-row-/)
+      .map((r) => r.props.testID);
+    expect(rows).toEqual([`board-row-${L1}`, `board-row-${L2}`, `board-row-${L3}`, 'board-row-total']);
+    expect(within(screen.getByTestId(`board-cell-${L2}-openCritical`)).getByText('1')).toBeTruthy();
+    expect(within(screen.getByTestId(`board-cell-${L2}-openMajor`)).getByText('3')).toBeTruthy();
+    expect(within(screen.getByTestId('board-cell-total-closed')).getByText('10')).toBeTruthy();
+    expect(within(screen.getByTestId(`board-coverage-${L2}`)).getByText(/15 of 20/)).toBeTruthy();
+    expect(within(screen.getByTestId(`board-ceiling-${L2}`)).getByText('✕ 2 blocking')).toBeTruthy();
+    expect(within(screen.getByTestId(`board-ceiling-${L1}`)).getByText('✓ Can close')).toBeTruthy();
+  });
+
+  it('shows one card per level on a phone, totals first, with the same numbers', async () => {
+    mockWide = false;
+    fakeApi('gc_manager');
+    renderWith(<BoardScreen jobId={JOB} />);
+    await screen.findByTestId('board-cards');
+    expect(screen.queryByTestId('board-grid')).toBeNull();
+    const cards = screen.getAllByTestId(/^board-card-/).map((c) => c.props.testID);
+    expect(cards).toEqual(['board-card-total', `board-card-${L1}`, `board-card-${L2}`, `board-card-${L3}`]);
+    expect(within(screen.getByTestId(`board-cell-${L2}-overdue`)).getByText('2')).toBeTruthy();
+    expect(hrefOf(`board-cell-${L2}-overdue`)).toBe(`${F}?levelId=${L2}&overdue=true`);
+  });
+
+  it('links each count to the findings list filtered to what it counts', async () => {
+    fakeApi('gc_manager');
+    renderWith(<BoardScreen jobId={JOB} />);
+    await screen.findByTestId('board-grid');
+    expect(hrefOf(`board-cell-${L2}-open`)).toBe(`${F}?levelId=${L2}&status=open`);
+    expect(hrefOf(`board-cell-${L2}-openCritical`)).toBe(`${F}?levelId=${L2}&status=open&severity=critical`);
+    expect(hrefOf(`board-cell-${L2}-openMajor`)).toBe(`${F}?levelId=${L2}&status=open&severity=major`);
+    expect(hrefOf(`board-cell-${L2}-fixSubmitted`)).toBe(`${F}?levelId=${L2}&status=fix_submitted`);
+    expect(hrefOf(`board-cell-${L2}-closed`)).toBe(`${F}?levelId=${L2}&status=closed`);
+    expect(hrefOf(`board-cell-${L2}-overdue`)).toBe(`${F}?levelId=${L2}&overdue=true`);
+    expect(hrefOf('board-cell-total-open')).toBe(`${F}?status=open`);
+    expect(hrefOf(`board-level-${L2}`)).toBe(`/jobs/${JOB}/levels/${L2}`);
+    expect(hrefOf(`recurring-link-CD-02`)).toBe(`${F}?catalogueItemId=00000000-0000-4000-8000-0000000000d1`);
+    // Scorecards and readiness are one tap away for the GC.
+    expect(hrefOf('board-tabs-scorecards')).toBe(`/jobs/${JOB}/scorecards`);
+    expect(hrefOf('board-tabs-readiness')).toBe(`/jobs/${JOB}/readiness`);
+  });
+
+  it('the findings list reads those links back as the same filters', () => {
+    const read = (href: string) => findingFiltersFromParams(Object.fromEntries(new URLSearchParams(href.split('?')[1] ?? '')));
+    expect(read(String(boardCellHref(JOB, 'openCritical', L2)))).toEqual({ levelId: L2, status: 'open', severity: 'critical' });
+    expect(read(String(boardCellHref(JOB, 'overdue', L2)))).toEqual({ levelId: L2, overdue: 'true' });
+    expect(read(String(boardCellHref(JOB, 'fixSubmitted')))).toEqual({ status: 'fix_submitted' });
+    // Junk in the address is left out rather than sent to the API.
+    expect(findingFiltersFromParams({ levelId: 'nope', status: 'open,bogus', severity: 'huge', overdue: 'yes', sort: 'dueOn' })).toEqual({ status: 'open', sort: 'dueOn' });
+  });
+
+  it('gives a subcontractor no link to the scorecards', async () => {
+    fakeApi('subcontractor');
+    renderWith(<BoardScreen jobId={JOB} />);
+    await screen.findByTestId('board-grid');
+    await screen.findByTestId('board-tabs-readiness');
+    expect(screen.queryByTestId('board-tabs-scorecards')).toBeNull();
+  });
+
+  it('says "no levels yet" for a job without levels, and shows the error with a retry', async () => {
+    fakeApi('gc_manager', { [`/api/jobs/${JOB}/board`]: [200, { levels: [], totals: zero, today: '2026-11-30', companyScope: null }] });
+    const first = renderWith(<BoardScreen jobId={JOB} />);
+    expect(await screen.findByTestId('board-empty')).toBeTruthy();
+    first.unmount();
+    fakeApi('gc_manager', { [`/api/jobs/${JOB}/board`]: [500, { error: { id: 'internal', message: 'Something went wrong.' } }] });
+    renderWith(<BoardScreen jobId={JOB} />);
+    expect(await screen.findByText('Something went wrong.')).toBeTruthy();
+  });
+});
+
+describe('the trend chart', () => {
+  it('says in words what the chart shows', async () => {
+    // Counted by hand from TREND: 3 → 7 (up 4), highest 9 on the 28th, 3 fixes waiting at the end.
+    expect(trendSummary(TREND.points)).toBe(
+      'Open findings went from 3 on Fri, 27 Nov 2026 to 7 on Mon, 30 Nov 2026 (up 4); highest 9 on Sat, 28 Nov 2026. 3 with a fix submitted at the end.',
+    );
+    expect(trendSummary([])).toBe('Open findings: no days to show yet.');
+    fakeApi('gc_manager');
+    renderWith(<BoardScreen jobId={JOB} />);
+    const summary = await screen.findByTestId('trend-summary');
+    expect(summary.props.children).toBe(trendSummary(TREND.points));
+    expect(screen.getByTestId('trend-chart').props['aria-label']).toBe(trendSummary(TREND.points));
+  });
+
+  it('puts round numbers on the y axis, covering the highest count', () => {
+    expect(niceTicks(9)).toEqual([0, 5, 10]);
+    expect(niceTicks(7)).toEqual([0, 2, 4, 6, 8]);
+    expect(niceTicks(0)).toEqual([0, 1]);
+    expect(niceTicks(120)).toEqual([0, 50, 100, 150]);
+  });
+});
+
+describe('company scorecards', () => {
+  beforeEach(() => {
+    mockWide = true;
+  });
+
+  const nameText = () => screen.getAllByTestId(/^scorecards-row-/).map((r) => within(r).getByTestId('scorecard-name').props.children);
+
+  it('sorts by a header and turns the order round on a second press (aria-sort follows)', async () => {
+    fakeApi('gc_manager');
+    renderWith(<ScorecardsScreen jobId={JOB} />);
+    await screen.findByTestId('scorecards-table');
+    // Most overdue first by default.
+    expect(nameText()).toEqual(['Amp Electric', 'Mech Co', 'Ceil Co']);
+    expect(screen.getByTestId('scorecards-col-overdue').props['aria-sort']).toBe('descending');
+    fireEvent.press(screen.getByTestId('scorecards-sort-open'));
+    expect(nameText()).toEqual(['Mech Co', 'Ceil Co', 'Amp Electric']);
+    expect(screen.getByTestId('scorecards-col-open').props['aria-sort']).toBe('descending');
+    expect(screen.getByTestId('scorecards-col-overdue').props['aria-sort']).toBe('none');
+    fireEvent.press(screen.getByTestId('scorecards-sort-open'));
+    expect(nameText()).toEqual(['Amp Electric', 'Ceil Co', 'Mech Co']);
+    expect(screen.getByTestId('scorecards-col-open').props['aria-sort']).toBe('ascending');
+    fireEvent.press(screen.getByTestId('scorecards-sort-name'));
+    expect(nameText()).toEqual(['Amp Electric', 'Ceil Co', 'Mech Co']);
+    expect(screen.getByTestId('scorecards-col-name').props['aria-sort']).toBe('ascending');
+    expect(screen.getByText('75% (3 of 4)')).toBeTruthy();
+  });
+
+  it('keeps a company with nothing accepted last, whichever way the rate is sorted', () => {
+    const desc = sortScorecards(CARDS, { key: 'firstPassRate', dir: 'desc' }).map((c) => c.name);
+    const asc = sortScorecards(CARDS, nextSort({ key: 'firstPassRate', dir: 'desc' }, 'firstPassRate')).map((c) => c.name);
+    expect(desc).toEqual(['Amp Electric', 'Mech Co', 'Ceil Co']);
+    expect(asc).toEqual(['Mech Co', 'Amp Electric', 'Ceil Co']);
+  });
+
+  it('shows cards on a phone', async () => {
+    mockWide = false;
+    fakeApi('inspector');
+    renderWith(<ScorecardsScreen jobId={JOB} />);
+    await screen.findByTestId('scorecards-cards');
+    expect(screen.queryByTestId('scorecards-table')).toBeNull();
+    expect(within(screen.getByTestId('scorecards-card-0')).getByText('Amp Electric')).toBeTruthy();
+  });
+
+  it('does not ask for them as a subcontractor and says who sees them', async () => {
+    const fetchSpy = fakeApi('subcontractor');
+    renderWith(<ScorecardsScreen jobId={JOB} />);
+    expect(await screen.findByTestId('scorecards-forbidden')).toBeTruthy();
+    expect(fetchSpy.mock.calls.map((c) => c[0])).not.toContain(`/api/jobs/${JOB}/scorecards`);
+  });
+});
+
+describe('readiness and the level screen', () => {
+  it('names what blocks a system and a level, each finding a link', async () => {
+    mockWide = false;
+    fakeApi('gc_manager');
+    renderWith(<ReadinessScreen jobId={JOB} />);
+    const sys = await screen.findByTestId('system-readiness-00000000-0000-4000-8000-0000000000e1');
+    expect(within(sys).getByText('✕ Not ready')).toBeTruthy();
+    expect(within(sys).getByText('No complete unit check yet (1 unit)')).toBeTruthy();
+    expect(within(sys).getByText('IU-2-01')).toBeTruthy();
+    expect(within(sys).getByText(/0 of 2 units ready · 1 not checked · 1 blocking finding$/)).toBeTruthy();
+    expect(hrefOf('blocker-12')).toBe(`/jobs/${JOB}/findings/f-12`);
+    const level = screen.getByTestId(`level-readiness-${L2}`);
+    expect(within(level).getByText('✕ 1 blocking')).toBeTruthy();
+    expect(hrefOf('blocker-14')).toBe(`/jobs/${JOB}/findings/f-14`);
+    expect(screen.getByTestId('readiness-systems-count').props.children).toEqual([0, ' of ', 1, ' systems ready for startup.']);
+  });
+
+  it('shows a level’s numbers, readiness and trend, and links to walk it and to its plan', async () => {
+    mockWide = false;
+    fakeApi('gc_manager');
+    renderWith(<LevelDetailScreen jobId={JOB} levelId={L2} />);
+    expect(await screen.findByTestId('level-name')).toBeTruthy();
+    expect(hrefOf('level-walk')).toBe(`/jobs/${JOB}/levels/${L2}/walk`);
+    expect(hrefOf('level-plan')).toBe(`/jobs/${JOB}/levels/${L2}/plan`);
+    expect(hrefOf('level-cell-openCritical')).toBe(`${F}?levelId=${L2}&status=open&severity=critical`);
+    expect(await screen.findByTestId(`level-readiness-${L2}`)).toBeTruthy();
+    expect(await screen.findByTestId('trend-summary')).toBeTruthy();
+  });
+});
