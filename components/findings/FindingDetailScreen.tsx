@@ -27,6 +27,7 @@ import { unitCheckHref } from '../walk/LevelWalkScreen';
 import { formatDay, formatWhen } from './due';
 import { StatusBadge } from './FindingCard';
 import { PhotoStrip } from './PhotoStrip';
+import { PlanPinLink } from '../plans/PlanPinLink';
 
 export function FindingDetailScreen({ jobId, findingId }: { jobId: string; findingId: string }) {
   const job = useJobQuery(jobId);
@@ -132,6 +133,7 @@ function FindingBody({
               </Link>
             ) : null}
             <AppText>{[f.spaceName, f.levelName].filter(Boolean).join(' · ')}</AppText>
+            <PlanPinLink jobId={jobId} levelId={f.levelId} kind="finding" id={f.id} pinned={f.pinX !== null} canPlace={!sub && f.status !== 'voided'} testID="finding-plan-link" />
           </View>
         </Row>
         <Row label="Company" testID="finding-company">

@@ -1,4 +1,5 @@
 import { zodResolver } from '@hookform/resolvers/zod';
+import { LevelPlanLink } from '../plans/PlanPinLink';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
@@ -183,7 +184,9 @@ function LevelRow({
           </AppText>
           <AppText variant="small" muted>
             {counts}
+            {level.plan ? ' · plan uploaded' : ''}
           </AppText>
+          <LevelPlanLink jobId={jobId} levelId={level.id} levelName={level.name} testID={`level-plan-${level.position}`} />
           {rowError ? (
             <AppText variant="small" style={{ color: colors.danger }} role="alert">
               {rowError}

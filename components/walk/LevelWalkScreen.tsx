@@ -1,4 +1,5 @@
 import { Link, type Href } from 'expo-router';
+import { LevelPlanLink } from '../plans/PlanPinLink';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { Coverage, WalkUnitDto } from '../../shared/schemas/findings';
@@ -104,6 +105,7 @@ function LevelWalkBody({ job, levelId, levelName, saved }: { job: JobDetail; lev
         <AppText variant="display" role="heading" testID="level-walk-name">
           {levelName}
         </AppText>
+        <LevelPlanLink jobId={job.id} levelId={levelId} levelName={levelName} testID="level-walk-plan" />
       </View>
       {saved ? (
         <Notice tone="success" testID="level-walk-saved">

@@ -1,4 +1,5 @@
 import { Link, useRouter, type Href } from 'expo-router';
+import { PlanPinLink } from '../plans/PlanPinLink';
 import { useMemo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { CATALOGUE_GROUPS } from '../../shared/catalogue/types';
@@ -308,6 +309,7 @@ function Header({ job, unit, checks, where, compact }: { job: JobDetail; unit: U
         {unit.modelName ? ` · ${unit.modelName}` : ''}
       </AppText>
       {where ? <AppText variant="small" muted>{where}</AppText> : null}
+      <PlanPinLink jobId={job.id} levelId={unit.levelId} kind="unit" id={unit.id} pinned={unit.pinX !== null} canPlace={job.role === 'gc_manager'} testID="unit-plan-link" />
       {compact ? null : (
         <>
           <UnitStateBadge state={checks.unit.state} openFindings={checks.unit.openFindings} worstSeverity={checks.unit.worstSeverity} testID="unit-check-state" />

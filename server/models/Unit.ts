@@ -17,6 +17,9 @@ export class Unit extends Model<InferAttributes<Unit>, InferCreationAttributes<U
   declare levelId: ForeignKey<Level['id']>;
   declare spaceId: ForeignKey<Space['id']> | null;
   declare systemId: ForeignKey<System['id']> | null;
+  /** Pin on the level's plan: fractions of its width and height (0..1), both set or both null. */
+  declare pinX: CreationOptional<number | null>;
+  declare pinY: CreationOptional<number | null>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -37,6 +40,8 @@ export class Unit extends Model<InferAttributes<Unit>, InferCreationAttributes<U
         levelId: { type: DataTypes.UUID, allowNull: false },
         spaceId: { type: DataTypes.UUID, allowNull: true },
         systemId: { type: DataTypes.UUID, allowNull: true },
+        pinX: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
+        pinY: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
         version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

@@ -14,6 +14,7 @@ import {
   type UnitDto,
   type UnitModelDto,
 } from '../../shared/schemas/setup';
+import type { LevelPlanDto } from '../../shared/schemas/board';
 import type { Role } from '../../shared/words';
 import type { CatalogueItem, Company, Job, JobCompany, JobMember, Level, Space, System, Unit, UnitModel, User } from '../models';
 
@@ -45,6 +46,19 @@ export function presentLevel(level: Level, counts: { spaces: number; units: numb
     spaceCount: counts.spaces,
     unitCount: counts.units,
     version: level.version,
+    plan: presentLevelPlan(level),
+  };
+}
+
+/** The level's plan metadata (issue 7), or null when it has none. */
+export function presentLevelPlan(level: Level): LevelPlanDto | null {
+  if (!level.planKey || !level.planContentType || !level.planWidth || !level.planHeight || !level.planUploadedAt) return null;
+  return {
+    contentType: level.planContentType,
+    width: level.planWidth,
+    height: level.planHeight,
+    version: level.planVersion,
+    uploadedAt: level.planUploadedAt.toISOString(),
   };
 }
 
@@ -109,6 +123,8 @@ export function presentUnit(unit: Unit): UnitDto {
     spaceName: unit.space?.name ?? null,
     systemId: unit.systemId ?? null,
     systemName: unit.system?.name ?? null,
+    pinX: unit.pinX ?? null,
+    pinY: unit.pinY ?? null,
     version: unit.version,
   };
 }

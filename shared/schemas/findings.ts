@@ -603,6 +603,8 @@ export type ReinspectionInput = z.input<typeof reinspectionSchema>;
  *   { void: { reason } }                          GC manager, the inspector who logged it; open or fix-submitted
  *   { reopen: { reason } }                        GC manager; closed
  *   { close: { note? } }                          inspector ("closed on walk"); open
+ *   { pin: { x, y } | null }                      GC manager, inspector; any status (place, move or remove the plan pin;
+ *                                                 no event: a pin is where the item is drawn, not part of its history)
  * A subcontractor gets 403 for every change (nothing written).
  */
 export const findingChangeSchema = z
@@ -616,10 +618,12 @@ export const findingChangeSchema = z
     void: z.object({ reason: reason('a reason for voiding') }).strict().optional(),
     reopen: z.object({ reason: reason('a reason for reopening') }).strict().optional(),
     close: z.object({ note: note.optional() }).strict().optional(),
+    /** Where the finding is on its level's plan (fractions 0..1); null removes the pin. */
+    pin: z.object({ x: pin(), y: pin() }).strict().nullable().optional(),
   })
   .strict()
   .refine((c) => Object.values(c).filter((v) => v !== undefined).length === 1, {
-    message: 'Send exactly one change: reassign, severity, dueOn, void, reopen or close.',
+    message: 'Send exactly one change: reassign, severity, dueOn, void, reopen, close or pin.',
     path: ['change'],
   });
 export type FindingChangeInput = z.input<typeof findingChangeSchema>;

@@ -7,7 +7,7 @@ import type { LevelDto, SpaceDto, SystemDto } from '../../shared/schemas/setup';
 
 const L1 = '00000000-0000-4000-8000-000000000001';
 const L2 = '00000000-0000-4000-8000-000000000002';
-const level = (id: string, name: string, position: number): LevelDto => ({ id, name, position, spaceCount: 1, unitCount: 0, version: 1 });
+const level = (id: string, name: string, position: number): LevelDto => ({ id, name, position, spaceCount: 1, unitCount: 0, version: 1, plan: null });
 const space = (id: string, levelId: string, levelName: string, name: string): SpaceDto => ({
   id,
   levelId,

@@ -348,7 +348,7 @@ describe('PATCH /findings/:findingId', () => {
     const a = await anon();
     await a.agent.patch(path(w, f)).set('X-CSRF-Token', a.csrf).send({ close: {} }).expect(401);
     const none = await patch(gc, w, f, {}).expect(400);
-    expect(none.body.error.message).toBe('change: Send exactly one change: reassign, severity, dueOn, void, reopen or close.');
+    expect(none.body.error.message).toBe('change: Send exactly one change: reassign, severity, dueOn, void, reopen, close or pin.');
     await patch(gc, w, f, { close: {}, void: { reason: 'x' } }).expect(400);
     const noReason = await patch(gc, w, f, { void: { reason: ' ' } }).expect(400);
     expect(noReason.body.error.message).toBe('void.reason: Give a reason for voiding.');
