@@ -20,11 +20,12 @@ export const SETUP_SECTIONS = [
   { key: 'companies', label: 'Companies', blurb: 'Companies on the job and the trades they cover.' },
   { key: 'members', label: 'Members', blurb: 'Who is on the job and with which role.' },
   { key: 'catalogue', label: 'Defect catalogue', blurb: 'The defect types this job checks.' },
+  { key: 'settings', label: 'Job settings', blurb: 'Code editions, days to fix by severity, when a defect counts as recurring, job limits.' },
 ] as const;
 export type SetupSectionKey = (typeof SETUP_SECTIONS)[number]['key'] | 'job';
 
 /** Sections everybody on the job may read; the rest (import) are GC-manager only. */
-export const READ_ONLY_SECTIONS: readonly SetupSectionKey[] = ['levels', 'spaces', 'systems', 'models', 'units', 'companies', 'members', 'catalogue'];
+export const READ_ONLY_SECTIONS: readonly SetupSectionKey[] = ['levels', 'spaces', 'systems', 'models', 'units', 'companies', 'members', 'catalogue', 'settings'];
 
 export function setupHref(jobId: string, section: SetupSectionKey): Href {
   return `/jobs/${encodeURIComponent(jobId)}/setup/${section}` as Href;

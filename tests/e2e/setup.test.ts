@@ -292,7 +292,7 @@ describe('a GC manager sets up a job from empty (wide, 1280x800)', () => {
     // The job overview links every set-up section for a GC manager.
     await page.getByTestId('setup-back').click();
     await page.getByTestId('job-setup-links').waitFor();
-    expect(await page.locator('[data-testid^="setup-link-"]').count()).toBe(10);
+    expect(await page.locator('[data-testid^="setup-link-"]').count()).toBe(11);
     await shot(page, 'setup-13-job-overview-wide');
 
     // Catalogue: grouped, with the measured rule, fix guidance and caution.
