@@ -4,6 +4,8 @@ import { StyleSheet, useWindowDimensions, View } from 'react-native';
 import type { FindingSort } from '../../shared/schemas/findings';
 import { ApiError } from '../api/client';
 import { BulkBar } from '../correction/BulkBar';
+import { ExportLink } from '../exports/ExportLink';
+import { findingsCsvHref } from '../exports/hrefs';
 import { mayBulkChange } from '../correction/rules';
 import { useCatalogueQuery } from '../queries/catalogue';
 import { useJobCompaniesQuery } from '../queries/companies';
@@ -74,6 +76,13 @@ export function FindingsListScreen({ jobId, initial }: { jobId: string; initial:
         <Link href={`/jobs/${encodeURIComponent(jobId)}/walk` as Href} asChild>
           <Button label="Walk a level" tone="secondary" testID="findings-walk" />
         </Link>
+      ) : null}
+      {first && first.total > 0 ? (
+        <ExportLink
+          href={findingsCsvHref(jobId, filters)}
+          label={filtered ? `Export these ${first.total} as CSV` : 'Export all as CSV'}
+          testID="findings-export"
+        />
       ) : null}
       <FindingsFilters
         value={filters}

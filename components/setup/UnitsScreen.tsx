@@ -2,10 +2,11 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { Link } from 'expo-router';
 import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
-import { Linking, StyleSheet, View } from 'react-native';
+import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
 import { createUnitSchema, type JobDetail, type UnitDto } from '../../shared/schemas/setup';
 import { UNIT_KINDS, type UnitKindKey } from '../../shared/words';
+import { ExportLink } from '../exports/ExportLink';
 import { useLevelsQuery } from '../queries/levels';
 import { useModelsQuery } from '../queries/models';
 import { useSpacesQuery } from '../queries/spaces';
@@ -68,14 +69,7 @@ function UnitsBody({ job }: { job: JobDetail }) {
             <Button testID="unit-import-link" label="Import from CSV" tone="secondary" />
           </Link>
         ) : null}
-        <Button
-          testID="unit-export"
-          label="Download CSV"
-          tone="quiet"
-          onPress={() => {
-            void Linking.openURL(unitsCsvHref(job.id));
-          }}
-        />
+        <ExportLink testID="unit-export" label={filtered ? 'Download these as CSV' : 'Download CSV'} href={unitsCsvHref(job.id, filters)} />
       </View>
       {form && editor && levels.data ? (
         <UnitForm

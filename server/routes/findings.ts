@@ -31,7 +31,8 @@ import { valid, validate, zodFieldErrors } from '../middleware/validate';
 import { CatalogueItem, Finding, Level, Photo, Space, Unit, UnitCheck, UnitModel } from '../models';
 import { policy } from '../policies';
 import { companyOnJob, dueOnFor, limitResolverFor, measure, nextFindingNumber, recordFindingEvent, suggestCompany } from '../services/findings';
-import { findingDetail, listFindings, visiblePhoto, type FindingScope } from '../services/findingQueries';
+import { findingDetail, findingFiltersOf, listFindings, visiblePhoto, type FindingScope } from '../services/findingQueries';
+import { notifyCriticalAssignment } from '../digests/events';
 import { idempotentWrite } from '../services/idempotency';
 import { pageRequest } from '../services/paging';
 import { keysOf, photoRowValues, processPhotos, removeStoredPhotos, sendPhoto, withStoredPhotos, type ProcessedPhoto } from '../services/photos';
@@ -143,18 +144,7 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
       const body = await listFindings(
         sequelizeOf(req),
         scopeOf(req),
-        {
-          levelId: q.levelId,
-          spaceId: q.spaceId,
-          unitId: q.unitId,
-          kind: q.kind,
-          status: q.status,
-          severity: q.severity,
-          companyId: q.companyId,
-          catalogueItemId: q.catalogueItemId,
-          overdue: q.overdue,
-          q: q.q || undefined,
-        },
+        findingFiltersOf(q),
         q.sort ?? '-number',
         page,
       );
@@ -271,6 +261,7 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
             },
             transaction,
           );
+          await notifyCriticalAssignment(req, transaction, { jobId: job.id, findingId: finding.id, companyId: company.id, severity, how: 'logged' });
           const detail = await findingDetail(sequelize, scopeOf(req), finding.id, transaction);
           setEtag(res, finding.version);
           return { status: 201, body: detail };

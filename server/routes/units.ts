@@ -1,15 +1,14 @@
 /**
  * Units: indoor units known by their tag (unique within the job).
  * GET    /jobs/:jobId/units?levelId&spaceId&systemId&kind&q&limit&cursor   all roles
- * GET    /jobs/:jobId/units.csv                                             all roles; the register as CSV
+ * GET    /jobs/:jobId/units.csv?levelId&spaceId&systemId&kind&q            all roles; the register as CSV
  * POST   /jobs/:jobId/units                                                 GC manager (Idempotency-Key)
  * POST   /jobs/:jobId/units/import                                          GC manager; CSV (text/csv or JSON {csv, mapping, dryRun})
  * GET    /jobs/:jobId/units/:unitId                                         all roles
- * PATCH  /jobs/:jobId/units/:unitId                                         GC manager (If-Match)
+ * PATCH  /jobs/:jobId/units/:unitId                                         GC manager (If-Match); also pinX/pinY (plan pin)
  * DELETE /jobs/:jobId/units/:unitId                                         GC manager (If-Match)
  */
-import express, { Router, type RequestHandler } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import express, { Router } from 'express';
 import { Op, UniqueConstraintError, type Transaction } from 'sequelize';
 import {
   createUnitSchema,
@@ -23,7 +22,7 @@ import {
   type UpdateUnitInput,
 } from '../../shared/schemas/setup';
 import type { UnitKindKey } from '../../shared/words';
-import { badRequest, notFound, tooManyRequests } from '../errors';
+import { badRequest, notFound } from '../errors';
 import { valid, validate, zodFieldErrors } from '../middleware/validate';
 import { Unit } from '../models';
 import { policy } from '../policies';
@@ -33,6 +32,7 @@ import { afterCursor, finishPage, pageRequest } from '../services/paging';
 import { optionalQuantity } from '../services/quantities';
 import { destroyOrConflict, inTransaction, likeContains, lockForChange } from '../services/records';
 import { decodeCsv, importUnits } from '../services/unitImport';
+import { csvFileName, exportLimiter } from '../services/csvSafe';
 import { exportUnits } from '../services/unitExport';
 import { checkUnitRefs, duplicateTag, tagTaken, UNIT_INCLUDES } from '../services/units';
 import { setEtag } from '../services/versioning';
@@ -60,40 +60,35 @@ async function loadUnit(jobId: string, unitId: string, transaction?: Transaction
   return unit;
 }
 
-function exportLimiter(): RequestHandler {
-  return rateLimit({
-    windowMs: 60_000,
-    limit: 30,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => `export:${req.user?.id ?? 'anonymous'}`,
-    handler: (_req, _res, next, options) =>
-      next(tooManyRequests('Too many exports in a minute. Wait a moment and try again.', Math.ceil(options.windowMs / 1000))),
-  });
+interface UnitListFilters {
+  levelId?: string;
+  spaceId?: string;
+  systemId?: string;
+  kind?: UnitKindKey;
+  q?: string;
+}
+
+/** The register's filters as a where: one for the list and for units.csv. */
+function unitWhere(jobId: string, query: UnitListFilters) {
+  return {
+    jobId,
+    ...(query.levelId ? { levelId: query.levelId } : {}),
+    ...(query.spaceId ? { spaceId: query.spaceId } : {}),
+    ...(query.systemId ? { systemId: query.systemId } : {}),
+    ...(query.kind ? { kind: query.kind } : {}),
+    ...(query.q ? { tag: { [Op.iLike]: likeContains(query.q) } } : {}),
+  };
 }
 
 export function unitsRouter(): Router {
   const router = Router();
 
   router.get('/jobs/:jobId/units', policy.jobMember(), validate({ query: unitListQuerySchema }), async (req, res) => {
-    const query = valid<{
-      levelId?: string;
-      spaceId?: string;
-      systemId?: string;
-      kind?: UnitKindKey;
-      q?: string;
-      limit?: number;
-      cursor?: string;
-    }>(req.valid.query);
+    const query = valid<UnitListFilters & { limit?: number; cursor?: string }>(req.valid.query);
     const page = pageRequest(query);
     const rows = await Unit.findAll({
       where: {
-        jobId: req.membership!.job.id,
-        ...(query.levelId ? { levelId: query.levelId } : {}),
-        ...(query.spaceId ? { spaceId: query.spaceId } : {}),
-        ...(query.systemId ? { systemId: query.systemId } : {}),
-        ...(query.kind ? { kind: query.kind } : {}),
-        ...(query.q ? { tag: { [Op.iLike]: likeContains(query.q) } } : {}),
+        ...unitWhere(req.membership!.job.id, query),
         ...afterCursor('tag', page),
       },
       include: UNIT_INCLUDES,
@@ -104,12 +99,12 @@ export function unitsRouter(): Router {
     res.json({ items: units.map(presentUnit), nextCursor });
   });
 
-  router.get('/jobs/:jobId/units.csv', policy.jobMember(), exportLimiter(), async (req, res) => {
+  // The register's filters apply (limit and cursor are ignored: the export holds every matching unit).
+  router.get('/jobs/:jobId/units.csv', policy.jobMember(), exportLimiter(), validate({ query: unitListQuerySchema }), async (req, res) => {
     const job = req.membership!.job;
-    const units = await Unit.findAll({ where: { jobId: job.id }, include: UNIT_INCLUDES, order: [['tag', 'ASC']] });
-    const stamp = new Date().toISOString().slice(0, 10);
-    const name = (job.number ?? 'job').replace(/[^A-Za-z0-9-]/g, '_').slice(0, 40);
-    await exportUnits(res, units, job.unitSystem, `units-${name}-${stamp}.csv`);
+    const query = valid<UnitListFilters>(req.valid.query);
+    const units = await Unit.findAll({ where: unitWhere(job.id, query), include: UNIT_INCLUDES, order: [['tag', 'ASC'], ['id', 'ASC']] });
+    await exportUnits(res, units, job.unitSystem, csvFileName('units', job.number));
   });
 
   router.post('/jobs/:jobId/units', policy.jobMember(['gc_manager']), validate({ body: createUnitSchema }), async (req, res) => {
@@ -205,7 +200,16 @@ export function unitsRouter(): Router {
             unit.tag = body.tag;
           }
           if (body.kind !== undefined) unit.kind = body.kind;
-          if (body.levelId !== undefined) unit.levelId = body.levelId;
+          if (body.levelId !== undefined && body.levelId !== unit.levelId) {
+            unit.levelId = body.levelId;
+            // The pin was on the old level's plan: it means nothing on another level's.
+            unit.pinX = null;
+            unit.pinY = null;
+          }
+          if (body.pinX !== undefined && body.pinY !== undefined) {
+            unit.pinX = body.pinX;
+            unit.pinY = body.pinY;
+          }
           if (body.spaceId !== undefined) unit.spaceId = body.spaceId;
           if (body.systemId !== undefined) unit.systemId = body.systemId;
           if (body.modelId !== undefined) unit.modelId = body.modelId;

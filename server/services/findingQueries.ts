@@ -12,6 +12,7 @@ import {
   type FindingDto,
   type FindingEventDto,
   type FindingEventKind,
+  type FindingListQueryParsed,
   type FindingListResponse,
   type FindingSort,
   type PhotoDto,
@@ -112,8 +113,31 @@ const SORTS: Record<FindingSort, { expr: string; key: string; desc: boolean; cas
   '-severity': { expr: SEVERITY_RANK_SQL('f.severity'), key: SEVERITY_RANK_SQL('f.severity'), desc: true, cast: 'int' },
 };
 
+/** ORDER BY for a list sort (the list's keyset order; the CSV export uses the same). */
+export function orderBySql(sort: FindingSort): string {
+  const s = SORTS[sort];
+  const dir = s.desc ? 'DESC' : 'ASC';
+  return `${s.expr} ${dir}, f.id ${dir}`;
+}
+
+/** The list's query parameters as filters: one mapping for GET /findings and GET /findings.csv. */
+export function findingFiltersOf(q: FindingListQueryParsed): FindingFilters {
+  return {
+    levelId: q.levelId,
+    spaceId: q.spaceId,
+    unitId: q.unitId,
+    kind: q.kind,
+    status: q.status,
+    severity: q.severity,
+    companyId: q.companyId,
+    catalogueItemId: q.catalogueItemId,
+    overdue: q.overdue,
+    q: q.q || undefined,
+  };
+}
+
 /** Bound parameters of one statement: $1 is the job; today's date is bound once, when first used. */
-class Params {
+export class Params {
   readonly bind: unknown[];
   private todayRef: string | null = null;
   constructor(
@@ -154,8 +178,19 @@ export const FROM_SQL = `
     JOIN companies c ON c.id = f.company_id
     JOIN users lb ON lb.id = f.logged_by`;
 
-/** WHERE conditions; $1 = job id. */
-function whereSql(p: Params, scope: FindingScope, filters: FindingFilters, skip: { status?: boolean; severity?: boolean } = {}): string {
+/** FROM for counts: just the tables whereSql may refer to (u, ci); unused LEFT JOINs on primary keys are dropped by the planner. */
+const COUNT_FROM_SQL = `
+    FROM findings f
+    LEFT JOIN units u ON u.id = f.unit_id
+    LEFT JOIN catalogue_items ci ON ci.id = f.catalogue_item_id`;
+
+/**
+ * THE filter-to-SQL function: WHERE conditions for the caller's scope (job, and a
+ * subcontractor's company) and the list filters; $1 = job id. Used by the list, its counts,
+ * a finding's detail and the CSV export, so they cannot disagree on which rows a filter means.
+ * It refers to the aliases of FROM_SQL (f, u, ci).
+ */
+export function whereSql(p: Params, scope: FindingScope, filters: FindingFilters, skip: { status?: boolean; severity?: boolean } = {}): string {
   const conds = ['f.job_id = $1'];
   const add = (value: unknown) => p.add(value);
   if (scope.companyId) conds.push(`f.company_id = ${add(scope.companyId)}`);
@@ -237,10 +272,9 @@ export async function listFindings(
     const op = s.desc ? '<' : '>';
     where += ` AND (${s.expr} ${op} ${v} OR (${s.expr} = ${v} AND f.id ${op} ${id}))`;
   }
-  const dir = s.desc ? 'DESC' : 'ASC';
   const select = selectSql(s.key, p.today());
   const limit = p.add(page.limit + 1);
-  const rows = await sequelize.query<FindingRow>(`${select} ${FROM_SQL} WHERE ${where} ORDER BY ${s.expr} ${dir}, f.id ${dir} LIMIT ${limit}`, {
+  const rows = await sequelize.query<FindingRow>(`${select} ${FROM_SQL} WHERE ${where} ORDER BY ${orderBySql(sort)} LIMIT ${limit}`, {
     bind: p.bind,
     type: QueryTypes.SELECT,
   });
@@ -251,26 +285,34 @@ export async function listFindings(
     nextCursor = encodeCursor(typeof last.sort_key === 'string' ? last.sort_key : Number(last.sort_key), last.id);
   }
 
-  const count = async <K extends string>(skip: { status?: boolean; severity?: boolean }, groupBy?: string) => {
-    const cp = new Params(scope.jobId, today);
-    const w = whereSql(cp, scope, filters, skip);
-    const sql = groupBy
-      ? `SELECT ${groupBy} AS k, count(*) AS n ${FROM_SQL} WHERE ${w} GROUP BY ${groupBy}`
-      : `SELECT count(*) AS n ${FROM_SQL} WHERE ${w}`;
-    return sequelize.query<{ k: K; n: string }>(sql, { bind: cp.bind, type: QueryTypes.SELECT });
-  };
-  const [total] = await count({});
-  const byStatusRows = await count<FindingStatus>({ status: true }, 'f.status');
-  const bySeverityRows = await count<Severity>({ severity: true }, 'f.severity');
+  // Counts in ONE pass, grouped by (status, severity) with the status and severity filters left
+  // out, then split here: total = rows passing both, byStatus = rows passing the severity filter,
+  // bySeverity = rows passing the status filter (what three separate counts would give). The FROM
+  // is lean: only the tables whereSql can refer to, as LEFT JOINs on primary keys, which
+  // PostgreSQL drops when no condition uses them (the other joins of FROM_SQL follow NOT NULL
+  // foreign keys, so they never change a count). Measured by `npm run bench` on 100,000 findings.
+  const cp = new Params(scope.jobId, today);
+  const cw = whereSql(cp, scope, filters, { status: true, severity: true });
+  const groups = await sequelize.query<{ status: FindingStatus; severity: Severity; n: string }>(
+    `SELECT f.status, f.severity, count(*) AS n ${COUNT_FROM_SQL} WHERE ${cw} GROUP BY f.status, f.severity`,
+    { bind: cp.bind, type: QueryTypes.SELECT },
+  );
+  const statusOk = (v: FindingStatus) => !filters.status || filters.status.includes(v);
+  const severityOk = (v: Severity) => !filters.severity || filters.severity.includes(v);
   const byStatus = Object.fromEntries(FINDING_STATUSES.map((k) => [k, 0])) as Record<FindingStatus, number>;
-  for (const r of byStatusRows) byStatus[r.k] = Number(r.n);
   const bySeverity = Object.fromEntries(SEVERITIES.map((k) => [k, 0])) as Record<Severity, number>;
-  for (const r of bySeverityRows) bySeverity[r.k] = Number(r.n);
+  let totalCount = 0;
+  for (const g of groups) {
+    const n = Number(g.n);
+    if (severityOk(g.severity)) byStatus[g.status] += n;
+    if (statusOk(g.status)) bySeverity[g.severity] += n;
+    if (statusOk(g.status) && severityOk(g.severity)) totalCount += n;
+  }
 
   return {
     items: rows.map((r) => presentRow(scope.jobId, r)),
     nextCursor,
-    total: Number(total?.n ?? 0),
+    total: totalCount,
     counts: { byStatus, bySeverity },
   };
 }

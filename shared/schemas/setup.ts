@@ -42,6 +42,7 @@ import {
   type TradeKey,
   type UnitKindKey,
 } from '../words';
+import type { LevelPlanDto } from './board';
 
 // ---------------------------------------------------------------------------------------------
 // Building blocks
@@ -236,15 +237,23 @@ export const severityDueDaysSchema = z
 export type SeverityDueDays = Record<Severity, number>;
 export const DEFAULT_SEVERITY_DUE_DAYS: SeverityDueDays = { critical: 2, major: 7, minor: 14 };
 
-/** A defect type is flagged "recurring" when it is found on at least minUnits units within windowDays. */
+/**
+ * A defect type is flagged "recurring" on a job when it is found on at least `minUnits` units
+ * and on at least `minShare` (0..1) of the checked units of the kinds it applies to (see
+ * docs/api-board.md). Default 3 units and 10 %. `minShare` may be left out (the default applies);
+ * `windowDays` was the earlier rule's window: still accepted from older clients, never used.
+ */
 export const recurringThresholdsSchema = z
   .object({
     minUnits: z.number().int('minUnits: a whole number.').min(2, 'minUnits: at least 2.').max(1000, 'minUnits: at most 1000.'),
-    windowDays: z.number().int('windowDays: a whole number.').min(1, 'windowDays: at least 1.').max(365, 'windowDays: at most 365.'),
+    minShare: z.number('minShare: a number from 0 to 1.').min(0, 'minShare: at least 0.').max(1, 'minShare: at most 1 (100 %).').optional(),
+    windowDays: z.number().int('windowDays: a whole number.').min(1, 'windowDays: at least 1.').max(365, 'windowDays: at most 365.').optional(),
   })
   .strict();
-export type RecurringThresholds = z.infer<typeof recurringThresholdsSchema>;
-export const DEFAULT_RECURRING_THRESHOLDS: RecurringThresholds = { minUnits: 5, windowDays: 14 };
+export type RecurringThresholdsInput = z.infer<typeof recurringThresholdsSchema>;
+/** Stored and answered thresholds: `minShare` always filled in (the default when never set). */
+export type RecurringThresholds = RecurringThresholdsInput & { minShare: number };
+export const DEFAULT_RECURRING_THRESHOLDS: RecurringThresholds = { minUnits: 3, minShare: 0.1 };
 
 const jobFields = {
   name: text('a job name', 160),
@@ -328,6 +337,8 @@ export interface LevelDto {
   spaceCount: number;
   unitCount: number;
   version: number;
+  /** The level's plan image (issue 7; GET/POST/DELETE /levels/:levelId/plan), null when none. */
+  plan: LevelPlanDto | null;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -503,9 +514,23 @@ const unitFields = {
 };
 export const createUnitSchema = z.object(unitFields).strict();
 export type CreateUnitInput = z.input<typeof createUnitSchema>;
+/** A unit's pin on its level's plan: a fraction of the plan image's width / height, 0..1 (null clears it). */
+const unitPin = (axis: 'pinX' | 'pinY') =>
+  z.number({ error: `${axis}: a number from 0 to 1.` }).min(0, `${axis}: from 0 to 1.`).max(1, `${axis}: from 0 to 1.`);
 export const updateUnitSchema = z
-  .object({ ...unitFields, tag: unitFields.tag.optional(), kind: unitFields.kind.optional(), levelId: unitFields.levelId.optional() })
-  .strict();
+  .object({
+    ...unitFields,
+    tag: unitFields.tag.optional(),
+    kind: unitFields.kind.optional(),
+    levelId: unitFields.levelId.optional(),
+    pinX: unitPin('pinX').nullable().optional(),
+    pinY: unitPin('pinY').nullable().optional(),
+  })
+  .strict()
+  .refine((u) => (u.pinX === undefined) === (u.pinY === undefined) && (u.pinX === null) === (u.pinY === null), {
+    message: 'Send both pinX and pinY (numbers, or both null to remove the pin), or neither.',
+    path: ['pinX'],
+  });
 export type UpdateUnitInput = z.input<typeof updateUnitSchema>;
 
 export const unitListQuerySchema = z
@@ -535,6 +560,9 @@ export interface UnitDto {
   spaceName: string | null;
   systemId: string | null;
   systemName: string | null;
+  /** Pin on the level's plan (fractions 0..1 of its width / height); both null when not placed. */
+  pinX: number | null;
+  pinY: number | null;
   version: number;
 }
 
