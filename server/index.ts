@@ -4,6 +4,8 @@ import { connect } from './db';
 import { loadEnv } from './env';
 import { createMailService } from './mail';
 import { startFakeSmtp, type FakeSmtp } from './mail/fakeSmtp';
+import type { DigestService } from './digests/service';
+import { startDigestScheduler, type DigestScheduler } from './digests/scheduler';
 
 export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   const env = loadEnv(envSource);
@@ -15,6 +17,16 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   const mail = createMailService({ env, fake, log });
   const db = connect(env.DATABASE_URL);
   const { app, close } = createApp({ env, db, mail, log });
+  // Digests: pg-boss keeps its state in PostgreSQL (schema pgboss); an hourly job sends what is due.
+  let scheduler: DigestScheduler | undefined;
+  if (env.DIGEST_SCHEDULER) {
+    scheduler = await startDigestScheduler({ connectionString: env.DATABASE_URL, digests: app.get('digests') as DigestService, log }).catch(
+      (err: unknown) => {
+        log('digest scheduler did not start (digests will not be sent on schedule)', err);
+        return undefined;
+      },
+    );
+  }
   const server = await new Promise<import('node:http').Server>((resolve, reject) => {
     const s = app.listen(env.PORT, env.HOST, () => resolve(s));
     s.on('error', reject);
@@ -29,6 +41,7 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
       const closed = new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeIdleConnections();
       await closed;
+      await scheduler?.stop();
       await mail.outbox.idle();
       await close();
       await db.close();

@@ -27,6 +27,13 @@ export function AppHeader() {
               </AppText>
             </View>
           ) : null}
+          {user ? (
+            <Link href="/preferences" accessibilityLabel="Mail preferences" testID="header-preferences" style={styles.prefs}>
+              <AppText variant="label" style={styles.prefsText}>
+                Mail
+              </AppText>
+            </Link>
+          ) : null}
           <Button
             testID="sign-out"
             label="Sign out"
@@ -54,4 +61,6 @@ const styles = StyleSheet.create({
   },
   right: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexShrink: 1 },
   who: { alignItems: 'flex-end', flexShrink: 1 },
+  prefs: { paddingHorizontal: space.sm, paddingVertical: space.sm },
+  prefsText: { color: colors.spruce, textDecorationLine: 'underline' },
 });

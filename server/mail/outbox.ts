@@ -14,6 +14,8 @@ export interface MailMessage {
   subject: string;
   text: string;
   html: string;
+  /** Extra headers of ours (List-Unsubscribe, List-Unsubscribe-Post); values are cleaned like the subject. */
+  headers?: Record<string, string>;
 }
 
 export interface Outbox {
@@ -49,6 +51,9 @@ export function createOutbox(options: OutboxOptions): Outbox {
       subject: headerSafe(message.subject),
       text: message.text,
       html: message.html,
+      ...(message.headers
+        ? { headers: Object.fromEntries(Object.entries(message.headers).map(([k, v]) => [headerSafe(k, 80), headerSafe(v, 900)])) }
+        : {}),
       // Header values are ours and already cleaned; no user value becomes a header of its own.
       disableFileAccess: true,
       disableUrlAccess: true,

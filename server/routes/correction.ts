@@ -3,7 +3,7 @@
  * POST  /fixes              subcontractor (their company's finding), GC manager; multipart: `data` {note} + 1–10
  *                           `photos`; Idempotency-Key → 201 FixDetail (finding ETag)
  * POST  /reinspections      inspector, GC manager; {verdict, reason}; If-Match; Idempotency-Key → 200 FindingDetail
- * PATCH (the finding)       one change (reassign | severity | dueOn | void | reopen | close); If-Match → 200 FindingDetail
+ * PATCH (the finding)       one change (reassign | severity | dueOn | void | reopen | close | pin); If-Match → 200 FindingDetail
  * GET   /events             everyone who sees the finding → { items: FindingEventDto[] }
  * GET   /comments           everyone who sees the finding → { items } (events of kind 'comment')
  * POST  /comments           everyone who sees the finding; Idempotency-Key → 201 FindingEventDto
@@ -46,6 +46,7 @@ import { inbox, fixDto, reinspectionQueue } from '../services/correction';
 import { findingDetail, findingsByIds, type FindingScope } from '../services/findingQueries';
 import { companyOnJob, recordFindingEvent } from '../services/findings';
 import { assertAllowed, decide, refusalError } from '../services/findingStatus';
+import { notifyCriticalAssignment } from '../digests/events';
 import { idempotentWrite } from '../services/idempotency';
 import { keysOf, photoRowValues, processPhotos, removeStoredPhotos, withStoredPhotos, type ProcessedPhoto } from '../services/photos';
 import { sequelizeOf } from '../services/records';
@@ -53,6 +54,8 @@ import { checkIfMatch, etagOf, setEtag } from '../services/versioning';
 import type { ObjectStore } from '../storage/types';
 
 const REINSPECT_ROLES = ['gc_manager', 'inspector'] as const;
+/** Who may place a finding's pin on the level's plan. */
+const PIN_ROLES: readonly string[] = ['gc_manager', 'inspector'];
 
 export interface CorrectionRouterOptions {
   store: ObjectStore;
@@ -281,6 +284,13 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
         const to = await authorise(req, finding, 'reopen', transaction, true);
         await event('reopened', { status: finding.status }, { status: to }, change.reopen.reason);
         finding.status = to;
+      } else if (change.pin !== undefined) {
+        // A pin is where the finding is drawn on its level's plan, not a change of its status:
+        // the GC manager and inspectors may place it in any status; no event is recorded.
+        if (!PIN_ROLES.includes(req.membership!.role)) throw forbidden('Only the GC manager and inspectors place findings on the plan.');
+        await requireIfMatch(req, finding, transaction);
+        finding.pinX = change.pin?.x ?? null;
+        finding.pinY = change.pin?.y ?? null;
       } else if (change.close) {
         const to = await authorise(req, finding, 'close', transaction, true);
         await event('closed_on_walk', { status: finding.status }, { status: to }, change.close.note || null);
@@ -288,6 +298,9 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
       }
       finding.version += 1;
       await finding.save({ transaction });
+      if (change.reassign) {
+        await notifyCriticalAssignment(req, transaction, { jobId: finding.jobId, findingId: finding.id, companyId: finding.companyId, severity: finding.severity, how: 'reassigned' });
+      }
       return answerWithFinding(req, res, finding, transaction);
     });
     res.status(result.status).json(result.body);
@@ -358,6 +371,9 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
         }
         finding.version += 1;
         await finding.save({ transaction });
+        if (body.change.reassign && company) {
+          await notifyCriticalAssignment(req, transaction, { jobId: job.id, findingId: finding.id, companyId: company.id, severity: finding.severity, how: 'reassigned' });
+        }
       }
       const items = await findingsByIds(sequelize, scopeOf(req), body.findingIds, transaction);
       return { status: 200, body: { items } };

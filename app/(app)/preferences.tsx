@@ -1,0 +1,5 @@
+import { PreferencesScreen } from '../../components/preferences/PreferencesScreen';
+
+export default function PreferencesRoute() {
+  return <PreferencesScreen />;
+}
