@@ -1,68 +1,504 @@
 /**
  * `npm run bench` (not part of `npm test`): speed figures on this machine.
- * - API read latency through HTTP (autocannon, 1 request per connection at a time: browsers do
- *   not pipeline) next to the same SQL run directly on PostgreSQL, as a ratio;
- * - the web app's production bundle size (raw and gzip);
- * - time until the sign-in page is usable in headless chromium.
- * p95 is computed from every request's own time (autocannon's histogram has no p95).
- * Later capabilities (findings, board, exports) add their endpoints to READS below.
+ *
+ * 1. A private cluster `.pgbench` on 127.0.0.1:54349 holds a large job (scripts/lib/benchSeed.ts:
+ *    100,000 findings on 2,000 units, 20 companies, with fixes and history). It is seeded once
+ *    and reused while BENCH_SEED_VERSION matches; BENCH_RESEED=1 starts from an empty cluster.
+ * 2. The server runs in its own process (scripts/lib/benchServer.ts) on 127.0.0.1.
+ * 3. Load: BENCH_CLIENTS (50) signed-in clients, each with its own session (GC managers,
+ *    inspectors, subcontractors of several companies), one keep-alive connection each, no think
+ *    time, for BENCH_SECONDS (60) after a short warm-up, on a mix of reads (findings list with
+ *    filters and cursors, finding detail, units, board family when present) and writes (fix
+ *    submissions with a photo, re-inspections, comments; CSRF token and an Idempotency-Key
+ *    each). Per endpoint: requests/s, p50/p95/p99 from every request's own time, non-2xx.
+ * 4. Per read endpoint, the SQL the route itself sends (captured from one request, without the
+ *    session / user / membership queries every request pays) is replayed directly on PostgreSQL;
+ *    printed next to the API's latency with one client and under load, as ratios.
+ * 5. Exports (scripts/lib/benchExport.ts when present), the web bundle size (gzip) and the time
+ *    until the sign-in page is usable in headless chromium (BENCH_SKIP_WEB=1 skips these two).
+ * Results also go to .artifacts/bench.json.
  */
+import { type ChildProcess, spawn } from 'node:child_process';
 import fs from 'node:fs';
+import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import zlib from 'node:zlib';
-import autocannon from 'autocannon';
 import pg from 'pg';
 import { chromium } from 'playwright-core';
+import sharp from 'sharp';
 import { connect, migrate } from '../server/db';
-import { startServer } from '../server/index';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedDemo } from '../server/seed/demo';
+import { BENCH_PASSWORD, seedBenchJob, type BenchJob, type BenchUser } from './lib/benchSeed';
+import { cookieFrom, multipart, newAgent, send, stats, type BenchClient, type Reply, type Stats } from './lib/benchHttp';
+import type { CaptureMessage, CapturedQuery } from './lib/benchServer';
 import { ensureDatabase, removeCluster, startCluster } from './lib/postgres';
 import { say } from './lib/run';
 import { buildWebIfStale } from './lib/web';
 
 const root = path.resolve(__dirname, '..');
-const DURATION = Number(process.env.BENCH_SECONDS ?? 10);
-const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 60);
+const WARMUP = Number(process.env.BENCH_WARMUP_SECONDS ?? 5);
+const CLIENTS = Number(process.env.BENCH_CLIENTS ?? 50);
+const SERIAL_RUNS = Number(process.env.BENCH_SERIAL_RUNS ?? 40);
+const SQL_RUNS = Number(process.env.BENCH_SQL_RUNS ?? 100);
+/** Each endpoint's one-client and SQL runs stop early after this long (slow endpoints). */
+const COMPARE_BUDGET_MS = Number(process.env.BENCH_COMPARE_BUDGET_MS ?? 6000);
+const SKIP_WEB = process.env.BENCH_SKIP_WEB === '1';
+const TARGET = { readP95: 150, boardP95: 100, ratio: 3 };
 
-function percentile(sorted: number[], p: number): number {
-  if (sorted.length === 0) return NaN;
-  const i = Math.min(sorted.length - 1, Math.max(0, Math.ceil((p / 100) * sorted.length) - 1));
-  return sorted[i]!;
+// ---------------------------------------------------------------------------------------------
+// Server process
+// ---------------------------------------------------------------------------------------------
+
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const s = net.createServer();
+    s.listen(0, '127.0.0.1', () => {
+      const port = (s.address() as net.AddressInfo).port;
+      s.close(() => resolve(port));
+    });
+    s.on('error', reject);
+  });
 }
 
-async function httpLatency(url: string, cookie: string) {
-  const times: number[] = [];
-  const result = await new Promise<autocannon.Result>((resolve, reject) => {
-    const instance = autocannon(
-      { url, connections: CONNECTIONS, pipelining: 1, duration: DURATION, headers: { cookie } },
-      (err, res) => (err ? reject(err) : resolve(res)),
-    );
-    instance.on('response', (_client, _status, _bytes, responseTime) => times.push(responseTime));
+interface ServerProcess {
+  url: URL;
+  child: ChildProcess;
+  capture(id: string): Promise<CaptureMessage>;
+  stop(): Promise<void>;
+}
+
+async function startBenchServer(databaseUrl: string): Promise<ServerProcess> {
+  const port = await freePort();
+  const storage = fs.mkdtempSync(path.join(os.tmpdir(), 'trimout-bench-photos-'));
+  const nodeArgs = process.env.BENCH_CPU_PROF === '1' ? ['--cpu-prof', `--cpu-prof-dir=${path.join(root, '.artifacts', 'cpu-prof')}`] : [];
+  const child = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', path.join(__dirname, 'lib', 'benchServer.ts')], {
+    cwd: root,
+    env: {
+      ...process.env,
+      NODE_ENV: 'development',
+      DATABASE_URL: databaseUrl,
+      HOST: '127.0.0.1',
+      PORT: String(port),
+      MAIL_PORT: '0',
+      DIGEST_SCHEDULER: 'false',
+      STORAGE_DISK_DIR: storage,
+      WEB_DIST: path.join(root, 'dist'),
+    },
+    stdio: ['ignore', 'pipe', 'pipe', 'ipc'],
   });
-  times.sort((a, b) => a - b);
+  const waiting = new Map<string, (m: CaptureMessage) => void>();
+  child.on('message', (m: CaptureMessage) => waiting.get(m.captureId)?.(m));
+  let log = '';
+  child.stderr!.on('data', (d: Buffer) => {
+    log += d.toString();
+    if (process.env.BENCH_SERVER_LOG === '1') process.stderr.write(d);
+  });
+  await new Promise<void>((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error(`the bench server did not start in 60 s:\n${log}`)), 60_000);
+    child.stdout!.on('data', (d: Buffer) => {
+      if (d.toString().includes('listening on')) {
+        clearTimeout(timer);
+        resolve();
+      }
+    });
+    child.on('exit', (code) => {
+      clearTimeout(timer);
+      reject(new Error(`the bench server exited with ${code}:\n${log}`));
+    });
+  });
+  child.removeAllListeners('exit');
   return {
-    requests: result.requests.total,
-    rps: result.requests.average,
-    p50: percentile(times, 50),
-    p95: percentile(times, 95),
-    p99: percentile(times, 99),
-    errors: result.errors,
-    timeouts: result.timeouts,
-    non2xx: result.non2xx,
+    url: new URL(`http://127.0.0.1:${port}`),
+    child,
+    capture: (id) => new Promise((resolve) => waiting.set(id, resolve)),
+    stop: async () => {
+      if (child.exitCode === null) {
+        const exited = new Promise((r) => child.once('exit', r));
+        child.kill('SIGTERM');
+        await Promise.race([exited, new Promise((r) => setTimeout(r, 10_000))]);
+      }
+      fs.rmSync(storage, { recursive: true, force: true });
+    },
   };
 }
 
-async function sqlLatency(client: pg.Client, sql: string, params: unknown[], runs = 500) {
+// ---------------------------------------------------------------------------------------------
+// Clients
+// ---------------------------------------------------------------------------------------------
+
+async function signIn(base: URL, user: BenchUser, label: string): Promise<BenchClient> {
+  const agent = newAgent();
+  const anon = await send(base, agent, 'GET', '/api/session');
+  const anonToken = (JSON.parse(anon.body) as { csrfToken: string }).csrfToken;
+  const res = await send(base, agent, 'POST', '/api/session', { 'content-type': 'application/json', 'x-csrf-token': anonToken }, JSON.stringify({ email: user.email, password: BENCH_PASSWORD }));
+  if (res.status !== 200) throw new Error(`sign-in of ${user.email} answered ${res.status}: ${res.body}`);
+  const body = JSON.parse(res.body) as { csrfToken: string };
+  return { label, role: user.role, userId: user.id, companyId: user.companyId, cookie: cookieFrom(res.headers), csrf: body.csrfToken, agent };
+}
+
+/** 20 % GC managers, 20 % inspectors, 60 % subcontractors spread over the companies. */
+function pickUsers(users: BenchUser[], n: number): BenchUser[] {
+  const by = (role: BenchUser['role']) => users.filter((u) => u.role === role);
+  const gcs = by('gc_manager');
+  const inspectors = by('inspector');
+  const subs = by('subcontractor');
+  const out: BenchUser[] = [];
+  for (let i = 0; i < n; i++) {
+    const slot = i % 5;
+    if (slot === 0) out.push(gcs[Math.floor(i / 5) % gcs.length]!);
+    else if (slot === 1) out.push(inspectors[Math.floor(i / 5) % inspectors.length]!);
+    else out.push(subs[(Math.floor(i / 5) * 3 + slot - 2) % subs.length]!);
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// The mix
+// ---------------------------------------------------------------------------------------------
+
+interface Fixture {
+  jobId: string;
+  levelIds: string[];
+  companyIds: string[];
+  /** Finding ids to read, all and per company. */
+  anyFindings: string[];
+  companyFindings: Map<string, string[]>;
+  /** Per client: open findings it may submit a fix for; fix-submitted ones (with version) it may re-inspect. */
+  fixPool: Map<BenchClient, string[]>;
+  reinspectPool: Map<BenchClient, { id: string; version: number }[]>;
+  photo: Buffer;
+  optional: Set<string>;
+}
+
+type Endpoint =
+  | 'GET /api/jobs'
+  | 'GET findings list'
+  | 'GET findings list (next page)'
+  | 'GET finding detail'
+  | 'GET units'
+  | 'GET board'
+  | 'GET readiness'
+  | 'GET recurring'
+  | 'GET scorecards'
+  | 'GET trend'
+  | 'POST comment'
+  | 'POST fix (photo)'
+  | 'POST re-inspection';
+
+const READS: Endpoint[] = [
+  'GET /api/jobs',
+  'GET findings list',
+  'GET findings list (next page)',
+  'GET finding detail',
+  'GET units',
+  'GET board',
+  'GET readiness',
+  'GET recurring',
+  'GET scorecards',
+  'GET trend',
+];
+
+/** Board-family endpoints are used only when the server has them (probed at start). */
+const OPTIONAL: Partial<Record<Endpoint, string>> = {
+  'GET board': '/board',
+  'GET readiness': '/readiness',
+  'GET recurring': '/recurring',
+  'GET scorecards': '/scorecards',
+  'GET trend': '/trend',
+};
+
+const WEIGHTS: Record<BenchClient['role'], [Endpoint, number][]> = {
+  gc_manager: [
+    ['GET findings list', 26],
+    ['GET findings list (next page)', 8],
+    ['GET finding detail', 18],
+    ['GET units', 8],
+    ['GET board', 12],
+    ['GET readiness', 3],
+    ['GET recurring', 2],
+    ['GET scorecards', 2],
+    ['GET trend', 2],
+    ['GET /api/jobs', 3],
+    ['POST comment', 3],
+    ['POST re-inspection', 4],
+  ],
+  inspector: [
+    ['GET findings list', 28],
+    ['GET findings list (next page)', 8],
+    ['GET finding detail', 22],
+    ['GET units', 10],
+    ['GET board', 8],
+    ['GET readiness', 2],
+    ['GET recurring', 2],
+    ['GET scorecards', 1],
+    ['GET trend', 1],
+    ['GET /api/jobs', 3],
+    ['POST comment', 3],
+    ['POST re-inspection', 8],
+  ],
+  subcontractor: [
+    ['GET findings list', 32],
+    ['GET findings list (next page)', 10],
+    ['GET finding detail', 26],
+    ['GET units', 6],
+    ['GET board', 6],
+    ['GET recurring', 2],
+    ['GET trend', 1],
+    ['GET /api/jobs', 5],
+    ['POST comment', 4],
+    ['POST fix (photo)', 3],
+  ],
+};
+
+function listVariants(client: BenchClient, fx: Fixture, i: number): string {
+  const level = fx.levelIds[i % fx.levelIds.length]!;
+  const company = fx.companyIds[i % fx.companyIds.length]!;
+  const all = [
+    '',
+    'status=open,fix_submitted',
+    `levelId=${level}`,
+    'severity=critical,major&status=open',
+    'overdue=true',
+    'sort=dueOn&status=open',
+    `levelId=${level}&status=open`,
+  ];
+  if (client.role !== 'subcontractor') all.push(`companyId=${company}`, `companyId=${company}&overdue=true`);
+  return all[i % all.length]!;
+}
+
+function pick<T>(items: T[], i: number): T {
+  return items[i % items.length]!;
+}
+
+let keySeq = 0;
+function idempotencyKey(): string {
+  return `bench-${process.pid}-${Date.now().toString(36)}-${(keySeq++).toString(36)}`;
+}
+
+interface ClientState {
+  n: number;
+  lastList: { query: string; cursor: string | null } | null;
+}
+
+/** One request of the mix; returns the endpoint it hit and the reply. */
+async function step(base: URL, client: BenchClient, fx: Fixture, st: ClientState, capture?: string): Promise<{ endpoint: Endpoint; reply: Reply } | null> {
+  st.n += 1;
+  const weights = WEIGHTS[client.role].filter(([e]) => !(e in OPTIONAL) || fx.optional.has(e));
+  const total = weights.reduce((s, [, w]) => s + w, 0);
+  let r = Math.random() * total;
+  let endpoint = weights[0]![0];
+  for (const [e, w] of weights) {
+    if ((r -= w) < 0) {
+      endpoint = e;
+      break;
+    }
+  }
+  return request(base, client, fx, st, endpoint, capture);
+}
+
+async function request(base: URL, client: BenchClient, fx: Fixture, st: ClientState, endpoint: Endpoint, capture?: string): Promise<{ endpoint: Endpoint; reply: Reply } | null> {
+  const jobBase = `/api/jobs/${fx.jobId}`;
+  const h: Record<string, string> = { cookie: client.cookie, ...(capture ? { 'x-bench-capture': capture } : {}) };
+  const get = async (p: string) => ({ endpoint, reply: await send(base, client.agent, 'GET', p, h) });
+  const visible = client.role === 'subcontractor' ? (fx.companyFindings.get(client.companyId) ?? []) : fx.anyFindings;
+  const n = st.n + Math.floor(Math.random() * 1000);
+  switch (endpoint) {
+    case 'GET /api/jobs':
+      return get('/api/jobs');
+    case 'GET findings list':
+    case 'GET findings list (next page)': {
+      if (endpoint === 'GET findings list (next page)' && st.lastList?.cursor) {
+        const q = `${st.lastList.query}${st.lastList.query ? '&' : ''}cursor=${encodeURIComponent(st.lastList.cursor)}`;
+        const res = await get(`${jobBase}/findings?${q}`);
+        st.lastList = res.reply.status === 200 ? { query: st.lastList.query, cursor: (JSON.parse(res.reply.body) as { nextCursor: string | null }).nextCursor } : null;
+        return res;
+      }
+      const query = listVariants(client, fx, n);
+      const res = await get(`${jobBase}/findings${query ? `?${query}` : ''}`);
+      if (res.reply.status === 200) st.lastList = { query, cursor: (JSON.parse(res.reply.body) as { nextCursor: string | null }).nextCursor };
+      return { endpoint: 'GET findings list', reply: res.reply };
+    }
+    case 'GET finding detail':
+      return get(`${jobBase}/findings/${pick(visible, n)}`);
+    case 'GET units':
+      return get(`${jobBase}/units${n % 2 ? `?levelId=${pick(fx.levelIds, n)}` : ''}`);
+    case 'GET board':
+    case 'GET recurring':
+    case 'GET scorecards':
+      return get(`${jobBase}${OPTIONAL[endpoint]}`);
+    case 'GET readiness':
+      return get(`${jobBase}/readiness${n % 2 ? `?levelId=${pick(fx.levelIds, n)}` : ''}`);
+    case 'GET trend':
+      return get(`${jobBase}/trend`);
+    case 'POST comment': {
+      const body = JSON.stringify({ text: `Bench comment ${st.n}: checked on site, see the photo.` });
+      const reply = await send(base, client.agent, 'POST', `${jobBase}/findings/${pick(visible, n)}/comments`, {
+        ...h,
+        'content-type': 'application/json',
+        'x-csrf-token': client.csrf,
+        'idempotency-key': idempotencyKey(),
+      }, body);
+      return { endpoint, reply };
+    }
+    case 'POST fix (photo)': {
+      const id = fx.fixPool.get(client)?.pop();
+      if (!id) return request(base, client, fx, st, 'POST comment', capture);
+      const form = multipart({ note: 'Re-hung and levelled; photo attached.' }, [{ field: 'photos', name: 'fix.jpg', type: 'image/jpeg', bytes: fx.photo }]);
+      const reply = await send(base, client.agent, 'POST', `${jobBase}/findings/${id}/fixes`, {
+        ...h,
+        'content-type': form.contentType,
+        'x-csrf-token': client.csrf,
+        'idempotency-key': idempotencyKey(),
+      }, form.body);
+      return { endpoint, reply };
+    }
+    case 'POST re-inspection': {
+      const f = fx.reinspectPool.get(client)?.pop();
+      if (!f) return request(base, client, fx, st, 'POST comment', capture);
+      const verdict = n % 10 < 7 ? { verdict: 'accept' } : { verdict: 'return', reason: 'Still rubbing on the ceiling grid; re-hang it.' };
+      const reply = await send(base, client.agent, 'POST', `${jobBase}/findings/${f.id}/reinspections`, {
+        ...h,
+        'content-type': 'application/json',
+        'x-csrf-token': client.csrf,
+        'idempotency-key': idempotencyKey(),
+        'if-match': `"v${f.version}"`,
+      }, JSON.stringify(verdict));
+      return { endpoint, reply };
+    }
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Load phase
+// ---------------------------------------------------------------------------------------------
+
+interface EndpointLoad {
+  times: number[];
+  non2xx: number;
+  statuses: Record<string, number>;
+  sample?: string;
+}
+
+async function drive(base: URL, clients: BenchClient[], fx: Fixture, seconds: number): Promise<{ byEndpoint: Map<Endpoint, EndpointLoad>; elapsed: number; networkErrors: number }> {
+  const byEndpoint = new Map<Endpoint, EndpointLoad>();
+  let networkErrors = 0;
+  const entry = (e: Endpoint) => {
+    let x = byEndpoint.get(e);
+    if (!x) byEndpoint.set(e, (x = { times: [], non2xx: 0, statuses: {} }));
+    return x;
+  };
+  const started = Date.now();
+  const until = started + seconds * 1000;
+  await Promise.all(
+    clients.map(async (client) => {
+      const st: ClientState = { n: Math.floor(Math.random() * 1000), lastList: null };
+      while (Date.now() < until) {
+        try {
+          const res = await step(base, client, fx, st);
+          if (!res) continue;
+          const e = entry(res.endpoint);
+          e.times.push(res.reply.ms);
+          e.statuses[res.reply.status] = (e.statuses[res.reply.status] ?? 0) + 1;
+          if (res.reply.status < 200 || res.reply.status >= 300) {
+            e.non2xx += 1;
+            e.sample ??= `${res.reply.status} ${res.reply.body.slice(0, 200)}`;
+          }
+        } catch (err) {
+          // No answer at all (connection refused or reset, 30 s timeout): counted apart, then go on.
+          networkErrors += 1;
+          if (networkErrors <= 3 || process.env.BENCH_VERBOSE === '1') console.error(`request failed: ${err instanceof Error ? err.message : String(err)}`);
+        }
+      }
+    }),
+  );
+  return { byEndpoint, elapsed: (Date.now() - started) / 1000, networkErrors };
+}
+
+// ---------------------------------------------------------------------------------------------
+// The same SQL, directly
+// ---------------------------------------------------------------------------------------------
+
+/** Queries every API request pays before the route runs: session read / touch, the user, the membership. */
+function isPipelineQuery(q: CapturedQuery): boolean {
+  return (
+    /\bsessions\b/i.test(q.text) ||
+    /\/\* trimout:auth \*\//.test(q.text) ||
+    /FROM "users" AS "User"/.test(q.text) ||
+    (/FROM "job_members" AS "JobMember"/.test(q.text) && /LIMIT 1/.test(q.text))
+  );
+}
+
+async function replay(client: pg.Client, queries: CapturedQuery[], runs: number): Promise<Stats> {
   const times: number[] = [];
-  for (let i = 0; i < runs; i++) {
+  const until = Date.now() + COMPARE_BUDGET_MS;
+  for (let i = 0; i < runs && (i < 3 || Date.now() < until); i++) {
     const t = process.hrtime.bigint();
-    await client.query(sql, params);
+    for (const q of queries) await client.query(q.text, q.values as unknown[] | undefined);
     times.push(Number(process.hrtime.bigint() - t) / 1e6);
   }
-  times.sort((a, b) => a - b);
-  return { p50: percentile(times, 50), p95: percentile(times, 95) };
+  return stats(times);
 }
+
+interface ReadComparison {
+  endpoint: Endpoint;
+  path: string;
+  queries: number;
+  pipelineQueries: number;
+  serverDbMs: number;
+  api1: Stats;
+  sql: Stats;
+}
+
+async function compareReads(server: ServerProcess, clients: BenchClient[], fx: Fixture, db: pg.Client): Promise<ReadComparison[]> {
+  const gc = clients.find((c) => c.role === 'gc_manager')!;
+  const sub = clients.find((c) => c.role === 'subcontractor')!;
+  const out: ReadComparison[] = [];
+  const cases: { endpoint: Endpoint; client: BenchClient; path: string }[] = [];
+  const j = `/api/jobs/${fx.jobId}`;
+  cases.push({ endpoint: 'GET /api/jobs', client: gc, path: '/api/jobs' });
+  cases.push({ endpoint: 'GET findings list', client: gc, path: `${j}/findings` });
+  cases.push({ endpoint: 'GET findings list', client: gc, path: `${j}/findings?status=open,fix_submitted&levelId=${fx.levelIds[3]}` });
+  cases.push({ endpoint: 'GET findings list', client: sub, path: `${j}/findings?overdue=true` });
+  cases.push({ endpoint: 'GET finding detail', client: gc, path: `${j}/findings/${fx.anyFindings[7]}` });
+  cases.push({ endpoint: 'GET units', client: gc, path: `${j}/units` });
+  for (const e of ['GET board', 'GET readiness', 'GET recurring', 'GET scorecards', 'GET trend'] as Endpoint[]) {
+    if (fx.optional.has(e)) cases.push({ endpoint: e, client: gc, path: `${j}${OPTIONAL[e]}` });
+  }
+  if (fx.optional.has('GET board')) cases.push({ endpoint: 'GET board', client: sub, path: `${j}/board` });
+  for (const c of cases) {
+    const id = `cap-${Math.random().toString(36).slice(2)}`;
+    const captured = server.capture(id);
+    const res = await send(server.url, c.client.agent, 'GET', c.path, { cookie: c.client.cookie, 'x-bench-capture': id });
+    const cap = await captured;
+    if (res.status !== 200) {
+      say(`${c.path} answered ${res.status}; left out of the SQL comparison`);
+      continue;
+    }
+    const own = cap.queries.filter((q) => !isPipelineQuery(q));
+    const times: number[] = [];
+    const until = Date.now() + COMPARE_BUDGET_MS;
+    for (let i = 0; i < SERIAL_RUNS && (i < 3 || Date.now() < until); i++) times.push((await send(server.url, c.client.agent, 'GET', c.path, { cookie: c.client.cookie })).ms);
+    out.push({
+      endpoint: c.endpoint,
+      path: c.path.replace(fx.jobId, ':jobId').replace(/[0-9a-f-]{36}/g, ':id') + (c.client.role === 'subcontractor' ? ' (subcontractor)' : ''),
+      queries: cap.queries.length,
+      pipelineQueries: cap.queries.length - own.length,
+      serverDbMs: cap.queries.reduce((s, q) => s + q.ms, 0),
+      api1: stats(times),
+      sql: await replay(db, own, SQL_RUNS),
+    });
+    if (process.env.BENCH_SHOW_SQL === '1') {
+      console.log(`\n--- ${c.path}: ${cap.queries.length} queries`);
+      for (const q of cap.queries) console.log(`${isPipelineQuery(q) ? '[pipeline] ' : ''}${q.ms.toFixed(2)} ms  ${q.text.replace(/\s+/g, ' ').slice(0, 220)}`);
+    }
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Web
+// ---------------------------------------------------------------------------------------------
 
 function bundleSize() {
   const dir = path.join(root, 'dist', '_expo', 'static', 'js', 'web');
@@ -92,80 +528,179 @@ async function signInPageUsable(baseUrl: string): Promise<number> {
       await page.getByTestId('sign-in-submit').waitFor();
       runs.push(Date.now() - started);
     }
-    runs.sort((a, b) => a - b);
-    return percentile(runs, 50);
+    return stats(runs).p50;
   } finally {
     await context.close();
     fs.rmSync(userDataDir, { recursive: true, force: true });
   }
 }
 
+// ---------------------------------------------------------------------------------------------
+// Main
+// ---------------------------------------------------------------------------------------------
+
+async function fixture(db: pg.Client, job: BenchJob, clients: BenchClient[], server: ServerProcess): Promise<Fixture> {
+  const jobId = job.jobId;
+  const levels = await db.query<{ id: string }>(`SELECT id FROM levels WHERE job_id = $1 ORDER BY position`, [jobId]);
+  const companies = await db.query<{ company_id: string }>(`SELECT DISTINCT company_id FROM findings WHERE job_id = $1`, [jobId]);
+  const any = await db.query<{ id: string }>(`SELECT id FROM findings WHERE job_id = $1 ORDER BY md5(id::text) LIMIT 3000`, [jobId]);
+  const companyFindings = new Map<string, string[]>();
+  for (const c of new Set(clients.filter((c) => c.role === 'subcontractor').map((c) => c.companyId))) {
+    const rows = await db.query<{ id: string }>(`SELECT id FROM findings WHERE job_id = $1 AND company_id = $2 ORDER BY md5(id::text) LIMIT 1000`, [jobId, c]);
+    companyFindings.set(c, rows.rows.map((r) => r.id));
+  }
+  // Write pools: disjoint per client, so two clients never race for the same finding.
+  const fixPool = new Map<BenchClient, string[]>();
+  const subsByCompany = new Map<string, BenchClient[]>();
+  for (const c of clients.filter((x) => x.role === 'subcontractor')) subsByCompany.set(c.companyId, [...(subsByCompany.get(c.companyId) ?? []), c]);
+  for (const [companyId, subs] of subsByCompany) {
+    const rows = await db.query<{ id: string }>(
+      `SELECT id FROM findings WHERE job_id = $1 AND company_id = $2 AND status = 'open' ORDER BY md5(id::text) LIMIT $3`,
+      [jobId, companyId, 200 * subs.length],
+    );
+    subs.forEach((s, i) => fixPool.set(s, rows.rows.filter((_, k) => k % subs.length === i).map((r) => r.id)));
+  }
+  const reinspectors = clients.filter((c) => c.role !== 'subcontractor');
+  const fs2 = await db.query<{ id: string; version: number }>(
+    `SELECT id, version FROM findings WHERE job_id = $1 AND status = 'fix_submitted' ORDER BY md5(id::text) LIMIT $2`,
+    [jobId, 300 * reinspectors.length],
+  );
+  const reinspectPool = new Map<BenchClient, { id: string; version: number }[]>();
+  reinspectors.forEach((c, i) => reinspectPool.set(c, fs2.rows.filter((_, k) => k % reinspectors.length === i)));
+  const photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: { r: 120, g: 128, b: 136 } } })
+    .jpeg({ quality: 80 })
+    .toBuffer();
+  // Which board-family routes does this server have?
+  const optional = new Set<string>();
+  const gc = clients.find((c) => c.role === 'gc_manager')!;
+  for (const [endpoint, suffix] of Object.entries(OPTIONAL)) {
+    const res = await send(server.url, gc.agent, 'GET', `/api/jobs/${jobId}${suffix}`, { cookie: gc.cookie });
+    if (res.status === 200) optional.add(endpoint);
+    else say(`${endpoint} (${suffix}) answered ${res.status}: not in the mix`);
+  }
+  return {
+    jobId,
+    levelIds: levels.rows.map((r) => r.id),
+    companyIds: companies.rows.map((r) => r.company_id),
+    anyFindings: any.rows.map((r) => r.id),
+    companyFindings,
+    fixPool,
+    reinspectPool,
+    photo,
+    optional,
+  };
+}
+
+const f1 = (n: number) => (Number.isFinite(n) ? n.toFixed(1) : '-');
+const f2 = (n: number) => (Number.isFinite(n) ? n.toFixed(2) : '-');
+const ratio = (a: number, b: number) => (Number.isFinite(a / b) ? `${(a / b).toFixed(1)}x` : '-');
+
 async function main() {
   const dataDir = path.join(root, '.pgbench');
-  removeCluster(dataDir);
+  if (process.env.BENCH_RESEED === '1') removeCluster(dataDir);
   const cluster = await startCluster({ dataDir, port: Number(process.env.TRIMOUT_BENCH_PG_PORT ?? 54349), throwaway: true });
+  let server: ServerProcess | undefined;
   try {
     await ensureDatabase(cluster, 'trimout_bench');
     const url = cluster.url('trimout_bench');
-    const db = connect(url);
-    await migrate(db.sequelize);
-    await seedDemo(db);
-    await db.close();
-    await buildWebIfStale(path.join(root, 'dist'));
+    const seedDb = connect(url);
+    await migrate(seedDb.sequelize);
+    const job = await seedBenchJob(seedDb, undefined, say);
+    say(job.seeded ? 'bench job seeded.' : 'bench job already seeded: reused.');
+    await seedDb.close();
+    if (!SKIP_WEB) await buildWebIfStale(path.join(root, 'dist'));
 
-    const server = await startServer({ ...process.env, NODE_ENV: 'development', DATABASE_URL: url, PORT: '0', MAIL_PORT: '0', WEB_DIST: path.join(root, 'dist') });
-    try {
-      const account = DEMO_ACCOUNTS[0]!;
-      const anon = await fetch(`${server.url}/api/session`).then((r) => r.json() as Promise<{ csrfToken: string }>);
-      const signIn = await fetch(`${server.url}/api/session`, {
-        method: 'POST',
-        headers: { 'content-type': 'application/json', 'x-csrf-token': anon.csrfToken },
-        body: JSON.stringify({ email: account.email, password: DEMO_PASSWORD }),
-      });
-      const cookie = (signIn.headers.get('set-cookie') ?? '').split(';')[0]!;
-      const client = new pg.Client({ connectionString: url });
-      await client.connect();
-      const { rows } = await client.query('SELECT id FROM users WHERE email = $1', [account.email]);
-      const userId = rows[0].id as string;
-
-      const READS = [
-        {
-          name: 'GET /api/jobs',
-          path: '/api/jobs',
-          sql: `SELECT j.* FROM job_members m JOIN jobs j ON j.id = m.job_id WHERE m.user_id = $1 ORDER BY j.name`,
-          params: [userId],
-        },
-      ];
-      say(`measuring ${READS.length} read endpoint(s), ${CONNECTIONS} connections for ${DURATION} s each ...`);
-      const results = [];
-      for (const read of READS) {
-        const http = await httpLatency(`${server.url}${read.path}`, cookie);
-        const sql = await sqlLatency(client, read.sql, read.params);
-        results.push({ ...read, http, sql, ratioP50: http.p50 / sql.p50 });
-      }
-      await client.end();
-      const bundle = bundleSize();
-      const usableMs = await signInPageUsable(server.url);
-
-      console.log('\nTrimout benchmark (127.0.0.1, client and server share this machine\'s cores)');
-      console.log(`settings: ${CONNECTIONS} connections, pipelining 1, ${DURATION} s per endpoint; data: demo seed`);
-      console.log('\n| endpoint | req/s | p50 ms | p95 ms | p99 ms | errors | non-2xx | SQL p50 ms | SQL p95 ms | API/SQL p50 |');
-      console.log('|---|---|---|---|---|---|---|---|---|---|');
-      for (const r of results) {
-        console.log(
-          `| ${r.name} | ${r.http.rps.toFixed(0)} | ${r.http.p50.toFixed(1)} | ${r.http.p95.toFixed(1)} | ${r.http.p99.toFixed(1)} | ${r.http.errors + r.http.timeouts} | ${r.http.non2xx} | ${r.sql.p50.toFixed(2)} | ${r.sql.p95.toFixed(2)} | ${r.ratioP50.toFixed(1)}x |`,
-        );
-      }
-      console.log(`\nweb bundle: ${(bundle.raw / 1024).toFixed(0)} KiB raw, ${(bundle.gzip / 1024).toFixed(0)} KiB gzip`);
-      console.log(`sign-in page usable in headless chromium (median of 5): ${usableMs} ms`);
-      fs.mkdirSync(path.join(root, '.artifacts'), { recursive: true });
-      fs.writeFileSync(path.join(root, '.artifacts', 'bench.json'), JSON.stringify({ results, bundle, usableMs }, null, 2));
-    } finally {
-      await server.stop();
+    server = await startBenchServer(url);
+    say(`server on ${server.url.origin}; signing in ${CLIENTS} clients ...`);
+    const users = pickUsers(job.users, CLIENTS);
+    const clients: BenchClient[] = [];
+    for (let i = 0; i < users.length; i += 4) {
+      clients.push(...(await Promise.all(users.slice(i, i + 4).map((u, k) => signIn(server!.url, u, `client ${i + k + 1}`)))));
     }
+    const db = new pg.Client({ connectionString: url });
+    await db.connect();
+    const fx = await fixture(db, job, clients, server);
+
+    const counts = (role: string) => clients.filter((c) => c.role === role).length;
+    const companiesInMix = new Set(clients.filter((c) => c.role === 'subcontractor').map((c) => c.companyId)).size;
+    say(`clients: ${counts('gc_manager')} GC managers, ${counts('inspector')} inspectors, ${counts('subcontractor')} subcontractors of ${companiesInMix} companies`);
+    if (WARMUP > 0) {
+      say(`warming up for ${WARMUP} s ...`);
+      await drive(server.url, clients, fx, WARMUP);
+    }
+    say(`load: ${CLIENTS} clients for ${SECONDS} s ...`);
+    const load = await drive(server.url, clients, fx, SECONDS);
+    say('one client at a time, and the same SQL directly ...');
+    const reads = await compareReads(server, clients, fx, db);
+    await db.end();
+
+    let exportResult: unknown = null;
+    const exportLib = path.join(__dirname, 'lib', 'benchExport.ts');
+    if (fs.existsSync(exportLib)) {
+      say('export benchmark (scripts/lib/benchExport.ts) ...');
+      try {
+        const mod = (await import(exportLib)) as { benchExport?: (o: Record<string, unknown>) => Promise<unknown> };
+        const gc = clients.find((c) => c.role === 'gc_manager')!;
+        exportResult = await mod.benchExport?.({ baseUrl: server.url.origin, cookie: gc.cookie, csrfToken: gc.csrf, jobId: job.jobId, databaseUrl: url, userId: gc.userId });
+      } catch (err) {
+        say(`export benchmark failed: ${err instanceof Error ? err.message : String(err)}`);
+      }
+    }
+    const bundle = SKIP_WEB ? null : bundleSize();
+    const usableMs = SKIP_WEB ? null : await signInPageUsable(server.url.origin);
+
+    // ---- Report ----
+    const totalRequests = [...load.byEndpoint.values()].reduce((s, e) => s + e.times.length, 0);
+    const allReads = [...load.byEndpoint.entries()].filter(([e]) => READS.includes(e)).flatMap(([, x]) => x.times);
+    const allErrors = [...load.byEndpoint.values()].reduce((s, e) => s + e.non2xx, 0) + load.networkErrors;
+    console.log(`\nTrimout benchmark, ${new Date().toISOString()} (127.0.0.1; load generator, server and PostgreSQL share ${os.cpus().length} cores)`);
+    console.log(`data: ${job.users.length} people, 1 job with 100,000 findings on 2,000 units, 20 companies; ${clients.length} clients for ${load.elapsed.toFixed(0)} s, no think time`);
+    console.log(`\nLoad: ${totalRequests} requests, ${(totalRequests / load.elapsed).toFixed(0)} req/s, non-2xx: ${allErrors - load.networkErrors}, requests without an answer: ${load.networkErrors}`);
+    console.log('| endpoint | requests | req/s | p50 ms | p95 ms | p99 ms | non-2xx |');
+    console.log('|---|---|---|---|---|---|---|');
+    const loadRows: Record<string, unknown>[] = [];
+    for (const [e, x] of [...load.byEndpoint.entries()].sort((a, b) => b[1].times.length - a[1].times.length)) {
+      const s = stats(x.times);
+      loadRows.push({ endpoint: e, ...s, rps: x.times.length / load.elapsed, non2xx: x.non2xx, statuses: x.statuses });
+      console.log(`| ${e} | ${s.count} | ${(s.count / load.elapsed).toFixed(1)} | ${f1(s.p50)} | ${f1(s.p95)} | ${f1(s.p99)} | ${x.non2xx} |`);
+    }
+    const readStats = stats(allReads);
+    console.log(`| all reads | ${readStats.count} | ${(readStats.count / load.elapsed).toFixed(1)} | ${f1(readStats.p50)} | ${f1(readStats.p95)} | ${f1(readStats.p99)} | |`);
+    for (const [e, x] of load.byEndpoint) if (x.sample) console.log(`  first non-2xx of ${e}: ${x.sample}`);
+
+    console.log('\nReads: API next to the same SQL run directly (the route\'s own statements, replayed in order on one connection)');
+    console.log('| endpoint | queries (pipeline) | API p50 1 client | SQL p50 | SQL p95 | API/SQL p50, 1 client | API p50 / p95 under load | API/SQL p50 under load |');
+    console.log('|---|---|---|---|---|---|---|---|');
+    for (const r of reads) {
+      const l = stats(load.byEndpoint.get(r.endpoint)?.times ?? []);
+      console.log(
+        `| ${r.path} | ${r.queries} (${r.pipelineQueries}) | ${f1(r.api1.p50)} | ${f2(r.sql.p50)} | ${f2(r.sql.p95)} | ${ratio(r.api1.p50, r.sql.p50)} | ${f1(l.p50)} / ${f1(l.p95)} | ${ratio(l.p50, r.sql.p50)} |`,
+      );
+    }
+    const board = stats(load.byEndpoint.get('GET board')?.times ?? []);
+    const list = stats(load.byEndpoint.get('GET findings list')?.times ?? []);
+    console.log('\nTargets (issue 7 and 9) on this machine:');
+    console.log(`  reads p95 under ${TARGET.readP95} ms with ${clients.length} clients: ${f1(readStats.p95)} ms ${readStats.p95 < TARGET.readP95 ? 'met' : 'NOT met'}`);
+    console.log(`  findings list p50 / p95: ${f1(list.p50)} / ${f1(list.p95)} ms`);
+    console.log(`  board p50 / p95 under ${TARGET.boardP95} ms: ${fx.optional.has('GET board') ? `${f1(board.p50)} / ${f1(board.p95)} ms ${board.p95 < TARGET.boardP95 ? 'met' : 'NOT met'}` : 'no board route yet'}`);
+    console.log(`  errors: ${allErrors} ${allErrors === 0 ? 'met' : 'NOT met'}`);
+    const ex = exportResult as { api?: { rows: number; rowsPerSecond: number; megabytes: number }; copy?: { rowsPerSecond: number }; ratio?: number } | null;
+    if (ex?.api && ex.copy) {
+      console.log(
+        `\nExport GET findings.csv (whole job, GC manager): ${ex.api.rows} rows, ${ex.api.megabytes.toFixed(1)} MB, ${ex.api.rowsPerSecond.toFixed(0)} rows/s; ` +
+          `COPY of the same SELECT: ${ex.copy.rowsPerSecond.toFixed(0)} rows/s; API/COPY ${(ex.ratio ?? 0).toFixed(2)} (1.0 = as fast as the database alone)`,
+      );
+    } else if (exportResult) console.log(`\nExport: ${JSON.stringify(exportResult)}`);
+    if (bundle) console.log(`\nweb bundle: ${(bundle.raw / 1024).toFixed(0)} KiB raw, ${(bundle.gzip / 1024).toFixed(0)} KiB gzip`);
+    if (usableMs !== null) console.log(`sign-in page usable in headless chromium (median of 5): ${usableMs} ms`);
+    fs.mkdirSync(path.join(root, '.artifacts'), { recursive: true });
+    fs.writeFileSync(
+      path.join(root, '.artifacts', 'bench.json'),
+      JSON.stringify({ at: new Date().toISOString(), clients: clients.length, seconds: load.elapsed, networkErrors: load.networkErrors, load: loadRows, reads, exportResult, bundle, usableMs }, null, 2),
+    );
   } finally {
+    await server?.stop();
     cluster.stop();
-    removeCluster(cluster.dataDir);
   }
 }
 

@@ -1,11 +1,15 @@
 /**
  * passport + passport-local. The session holds only the user's id and session epoch; the user,
- * and every membership, are read from the database on each request, so removing a user or
+ * and every membership, are read from the database on each request (the user and the membership
+ * of the job in the path in one query), so removing a user or
  * changing a password (which raises the epoch) ends their other sessions at once.
  */
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
-import { Company, User } from '../models';
+import type { Request } from 'express';
+import { QueryTypes, type Sequelize } from 'sequelize';
+import type { Role } from '../../shared/words';
+import { Company, Job, User } from '../models';
 import { burnDummyVerify, verifyPassword } from './passwords';
 
 export interface AuthUser {
@@ -23,6 +27,57 @@ declare global {
     // eslint-disable-next-line @typescript-eslint/no-empty-object-type
     interface User extends AuthUser {}
   }
+}
+
+/** Set while deserializing the user when the API path is /jobs/:jobId/...: the caller's membership of that job. */
+export interface PreloadedMembership {
+  jobId: string;
+  /** null: not a member (or no such job). */
+  role: Role | null;
+  job: Job | null;
+}
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    interface Request {
+      preloadedMembership?: PreloadedMembership;
+    }
+  }
+}
+
+const JOB_PATH = /^\/jobs\/([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})(?:\/|$)/i;
+
+const AUTH_SQL = `SELECT /* trimout:auth */ u.id, u.email, u.name, u.company_id, u.session_epoch, u.disabled_at, c.name AS company_name,
+       m.role, CASE WHEN j.id IS NULL THEN NULL ELSE to_jsonb(j) END AS job
+  FROM users u
+  LEFT JOIN companies c ON c.id = u.company_id
+  LEFT JOIN job_members m ON m.user_id = u.id AND m.job_id = $2::uuid
+  LEFT JOIN jobs j ON j.id = m.job_id
+ WHERE u.id = $1::uuid`;
+
+interface AuthRow {
+  id: string;
+  email: string;
+  name: string;
+  company_id: string;
+  session_epoch: number;
+  disabled_at: Date | null;
+  company_name: string | null;
+  role: Role | null;
+  job: Record<string, unknown> | null;
+}
+
+/** A Job instance from to_jsonb(jobs row), as Sequelize would have built it from a SELECT. */
+function jobFromRow(json: Record<string, unknown>): Job {
+  const values: Record<string, unknown> = {};
+  for (const [name, def] of Object.entries(Job.getAttributes())) {
+    const field = def.field ?? name;
+    if (!(field in json)) continue;
+    const value = json[field];
+    values[name] = value !== null && (def.type as { key?: string }).key === 'DATE' ? new Date(value as string) : value;
+  }
+  return Job.build(values as never, { isNewRecord: false, raw: true });
 }
 
 interface SessionRef {
@@ -74,12 +129,23 @@ export function configurePassport(): passport.PassportStatic {
     }),
   );
   instance.serializeUser((user, done) => done(null, { id: user.id, epoch: user.sessionEpoch } satisfies SessionRef));
-  instance.deserializeUser((ref: SessionRef, done) => {
+  instance.deserializeUser((req: Request, ref: SessionRef, done: (err: unknown, user?: Express.User | false) => void) => {
     (async () => {
       if (!ref || typeof ref.id !== 'string') return done(null, false);
-      const user = await loadUser({ id: ref.id });
-      if (!user || user.disabledAt || user.sessionEpoch !== ref.epoch) return done(null, false);
-      return done(null, toAuthUser(user));
+      // One query for the user and, when the path names a job, the caller's membership of it
+      // (read fresh on every request all the same; policy.jobMember uses it: server/policies).
+      const jobId = JOB_PATH.exec(req.path)?.[1] ?? null;
+      const [row] = await (User.sequelize as Sequelize).query<AuthRow>(AUTH_SQL, { bind: [ref.id, jobId], type: QueryTypes.SELECT });
+      if (!row || row.disabled_at || row.session_epoch !== ref.epoch) return done(null, false);
+      if (jobId) req.preloadedMembership = { jobId, role: row.role, job: row.job ? jobFromRow(row.job) : null };
+      return done(null, {
+        id: row.id,
+        email: row.email,
+        name: row.name,
+        companyId: row.company_id,
+        companyName: row.company_name ?? '',
+        sessionEpoch: row.session_epoch,
+      });
     })().catch(done);
   });
   return instance;

@@ -5,7 +5,8 @@
  * - public:     no session needed
  * - signedIn:   any signed-in user
  * - jobMember:  a member of the job in :jobId with one of the given roles. Membership is read
- *               from the database on every request (never cached in the session). A job the user
+ *               from the database on every request (never cached in the session); usually in
+ *               the same query as the user (req.preloadedMembership, server/auth/passport.ts). A job the user
  *               is not a member of answers 404, so its existence is not leaked.
  */
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
@@ -47,15 +48,20 @@ export const policy = {
       if (!req.user) return next(unauthorized());
       const jobId = uuidSchema.safeParse(req.params.jobId);
       if (!jobId.success) return next(badRequest('jobId: Not a valid id.', { jobId: 'Not a valid id.' }));
-      const member = await JobMember.findOne({
-        where: { jobId: jobId.data, userId: req.user.id },
-        include: [{ model: Job, as: 'job', required: true }],
-      });
-      if (!member || !member.job) return next(notFound('Job not found.'));
-      if (!roles.includes(member.role)) {
-        return next(forbidden(`Your role on this job (${member.role.replace('_', ' ')}) cannot do that.`));
+      // Read with the user in this request (server/auth/passport.ts) when the path named this job.
+      const pre = req.preloadedMembership?.jobId === jobId.data ? req.preloadedMembership : undefined;
+      const member = pre
+        ? { role: pre.role, job: pre.job }
+        : await JobMember.findOne({
+            where: { jobId: jobId.data, userId: req.user.id },
+            include: [{ model: Job, as: 'job', required: true }],
+          });
+      if (!member || !member.role || !member.job) return next(notFound('Job not found.'));
+      const role = member.role;
+      if (!roles.includes(role)) {
+        return next(forbidden(`Your role on this job (${role.replace('_', ' ')}) cannot do that.`));
       }
-      req.membership = { job: member.job, role: member.role, companyId: req.user.companyId };
+      req.membership = { job: member.job, role, companyId: req.user.companyId };
       next();
     }),
 };
