@@ -12,6 +12,7 @@ import { envSchema } from '../server/env';
 import { startLocalObjectStore, type LocalObjectStore } from '../server/storage/local';
 import { ensureDatabase, startCluster } from './lib/postgres';
 import { say } from './lib/run';
+import { ensurePdfTools } from './lib/poppler';
 import { buildWebIfStale } from './lib/web';
 import { ROLE_LABELS } from '../shared/words';
 
@@ -41,6 +42,7 @@ async function main() {
     await db.close();
 
     await buildWebIfStale(path.join(root, 'dist'));
+    ensurePdfTools();
 
     const s3 = envSchema.pick({ S3_ENDPOINT: true, S3_PORT: true, S3_BUCKET: true }).parse(process.env);
     if (!s3.S3_ENDPOINT) {

@@ -8,6 +8,7 @@ import path from 'node:path';
 import { connect, migrate } from '../server/db';
 import { ensureDatabase, removeCluster, startCluster, type Cluster } from './lib/postgres';
 import { aptInstall, runInherit, say } from './lib/run';
+import { ensurePdfTools } from './lib/poppler';
 import { buildWebIfStale } from './lib/web';
 
 const root = path.resolve(__dirname, '..');
@@ -51,6 +52,7 @@ async function main(): Promise<number> {
     await db.close();
 
     if (!fs.existsSync(CHROMIUM)) aptInstall(['chromium']);
+    ensurePdfTools();
 
     say('typecheck ...');
     for (const project of ['tsconfig.json', 'server/tsconfig.json']) {

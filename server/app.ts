@@ -6,10 +6,10 @@ import fs from 'node:fs';
 import path from 'node:path';
 import express, { type Express } from 'express';
 import session from 'express-session';
-import connectPgSimple from 'connect-pg-simple';
 import helmet from 'helmet';
 import pg from 'pg';
 import { configurePassport } from './auth/passport';
+import { createSessionStore } from './auth/sessionStore';
 import type { Database } from './db';
 import type { Env } from './env';
 import { apiNotFound, errorHandler, unauthorized } from './errors';
@@ -34,6 +34,11 @@ import { checksRouter } from './routes/checks';
 import { findingsRouter } from './routes/findings';
 import { correctionRouter } from './routes/correction';
 import { walksRouter } from './routes/walks';
+import { plansRouter } from './routes/plans';
+import { preferencesRouter, unsubscribeRouter } from './routes/preferences';
+import { createDigestService } from './digests/service';
+import { boardRouter } from './routes/board';
+import { exportsRouter } from './routes/exports';
 import { createObjectStore, type ObjectStore } from './storage';
 
 declare module 'express-session' {
@@ -78,6 +83,9 @@ export function createApp(options: AppOptions): TrimoutApp {
 
   const app = express();
   app.set('sequelize', db.sequelize);
+  // Digests and event mails (server/digests): the finding routes reach it through req.app.get('digests').
+  const digests = createDigestService({ sequelize: db.sequelize, mail, env, log });
+  app.set('digests', digests);
   app.disable('x-powered-by');
   app.set('trust proxy', env.TRUST_PROXY);
   app.set('query parser', 'simple');
@@ -108,8 +116,8 @@ export function createApp(options: AppOptions): TrimoutApp {
 
   const sessionPool = new pg.Pool({ connectionString: env.DATABASE_URL, max: 5, connectionTimeoutMillis: 5_000 });
   sessionPool.on('error', (err) => log('session pool error', err));
-  const PgStore = connectPgSimple(session);
-  const store = new PgStore({ pool: sessionPool, tableName: 'sessions', createTableIfMissing: false, pruneSessionInterval: false });
+  // Rolling idle timeout with the expiry written at most once a minute, not on every request (server/auth/sessionStore.ts).
+  const store = createSessionStore(session, { pool: sessionPool, tableName: 'sessions', idleMs });
 
   const passport = configurePassport();
   const api = express.Router();
@@ -117,6 +125,9 @@ export function createApp(options: AppOptions): TrimoutApp {
     res.set('Cache-Control', 'no-store');
     next();
   });
+  // RFC 8058 one-click unsubscribe: public, token-authorised, form or JSON body, no session and no
+  // CSRF header (see server/routes/preferences.ts); so it comes before the JSON-only and CSRF checks.
+  api.use(unsubscribeRouter({ secrets: env.sessionSecrets }));
   api.use(requireJsonBody);
   // The unit import takes a schedule larger than 100 kB (JSON or text/csv); its parsers run first.
   api.use(unitImportBodyParsers());
@@ -159,6 +170,7 @@ export function createApp(options: AppOptions): TrimoutApp {
   api.use(accountsRouter({ mail, limits: signInLimits }));
   api.use(invitationsRouter({ mail, limits: signInLimits }));
   api.use(devMailRouter(mail));
+  api.use(preferencesRouter({ digests, mail }));
   api.use(jobsRouter());
   api.use(levelsRouter());
   api.use(spacesRouter());
@@ -173,6 +185,9 @@ export function createApp(options: AppOptions): TrimoutApp {
   const photoStore = options.objectStore ?? createObjectStore(env);
   api.use(findingsRouter({ store: photoStore, log }));
   api.use(correctionRouter({ store: photoStore, log }));
+  api.use(plansRouter({ store: photoStore, log }));
+  api.use(boardRouter());
+  api.use(exportsRouter({ publicUrl: env.PUBLIC_URL, log }));
   api.use(apiNotFound);
 
   app.use('/api', api);
