@@ -14,6 +14,7 @@ import { createHash } from 'node:crypto';
 import type { Request, Response } from 'express';
 import { QueryTypes, type Transaction } from 'sequelize';
 import { badRequest, unprocessable } from '../errors';
+import { faultPause } from '../testing/faultHooks';
 
 export const IDEMPOTENCY_RETENTION_DAYS = 7;
 const KEY_PATTERN = /^[A-Za-z0-9._:-]{8,100}$/;
@@ -64,6 +65,7 @@ export async function idempotentWrite(
       return { replay: true, status: stored.response_status, body: stored.response_body };
     }
     const outcome = await work(transaction);
+    await faultPause(req); // tests only: server/testing/faultHooks.ts (refused in production)
     await sequelize.query(`UPDATE idempotency_keys SET response_status = $1, response_body = $2 WHERE id = $3`, {
       bind: [outcome.status, JSON.stringify(outcome.body ?? null), claimed[0]!.id],
       transaction,
