@@ -6,6 +6,7 @@ import { createMailService } from './mail';
 import { startFakeSmtp, type FakeSmtp } from './mail/fakeSmtp';
 import type { DigestService } from './digests/service';
 import { startDigestScheduler, type DigestScheduler } from './digests/scheduler';
+import { pruneIdempotencyKeys } from './services/idempotency';
 
 export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   const env = loadEnv(envSource);
@@ -27,6 +28,11 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
       },
     );
   }
+  // Housekeeping: idempotency keys are kept IDEMPOTENCY_RETENTION_DAYS (7), pruned at start and every 6 h.
+  const prune = () => void pruneIdempotencyKeys(db.sequelize).catch((err: unknown) => log('pruning idempotency keys failed', err));
+  prune();
+  const pruneTimer = setInterval(prune, 6 * 60 * 60 * 1000);
+  pruneTimer.unref();
   const server = await new Promise<import('node:http').Server>((resolve, reject) => {
     const s = app.listen(env.PORT, env.HOST, () => resolve(s));
     s.on('error', reject);
@@ -38,6 +44,7 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
     /** Where caught mails are read, when the fake SMTP server is in use. */
     mailboxUrl: fake ? `http://${env.HOST}:${port}/mailbox` : undefined,
     async stop() {
+      clearInterval(pruneTimer);
       const closed = new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeIdleConnections();
       await closed;
