@@ -13,7 +13,7 @@
 import { createHash } from 'node:crypto';
 import type { Request, Response } from 'express';
 import { QueryTypes, type Transaction } from 'sequelize';
-import { badRequest, unprocessable } from '../errors';
+import { badRequest, conflict, unprocessable } from '../errors';
 import { faultPause } from '../testing/faultHooks';
 
 export const IDEMPOTENCY_RETENTION_DAYS = 7;
@@ -47,6 +47,15 @@ export async function idempotentWrite(
   const result = await sequelize.transaction(async (transaction) => {
     if (!key || !userId) return { replay: false, ...(await work(transaction)) };
     const print = fingerprint(req);
+    // The first request with a key holds this lock until its transaction ends; a replay that
+    // arrives meanwhile is told to retry (409) instead of waiting on the unique index.
+    const [lock] = await sequelize.query<{ locked: boolean }>(
+      `SELECT pg_try_advisory_xact_lock(hashtextextended($1, 0)) AS locked`,
+      { bind: [`idempotency:${userId}:${key}`], type: QueryTypes.SELECT, transaction },
+    );
+    if (!lock?.locked) {
+      throw conflict('A request with this Idempotency-Key is still being processed. Retry in a moment.', 'idempotency_in_flight');
+    }
     const claimed = await sequelize.query<{ id: string }>(
       `INSERT INTO idempotency_keys (user_id, key, fingerprint, response_status, created_at)
        VALUES ($1, $2, $3, 0, now())

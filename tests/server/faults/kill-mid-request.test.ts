@@ -362,4 +362,30 @@ describe('the server killed mid-request', () => {
     expect(await counts()).toEqual({ ...midway, events: midway.events + 1 });
     await expectConsistent();
   });
+
+  it('a replay while the first request is still in its transaction gets 409 and writes nothing (security.md: idempotency)', async () => {
+    const fid = (await insertFinding(w, { companyId: w.subA.companyId })).id;
+    await kill(); // a fresh server, so its stderr holds only this test's pauses
+    await startChild();
+    await signInOver(server!.url, w.subA.email);
+    const before = await counts();
+    const key = `in-flight-${randomUUID()}`;
+    const args = [
+      'POST',
+      `/api/jobs/${w.job.id}/findings/${fid}/fixes`,
+      multipart({ note: 'Re-hung the unit level.' }, [jpeg]),
+      { 'Content-Type': `multipart/form-data; boundary=${BOUNDARY}`, 'Idempotency-Key': key },
+    ] as const;
+    const first = rawRequest(args[0], args[1], args[2], { ...args[3], ...PAUSE });
+    first.done.catch(() => undefined);
+    const s3 = server!;
+    await waitFor(() => s3.stderr.join('').includes('/fixes'), 'the first fix to reach its transaction');
+    // Same key while the first is still inside its transaction: refused at once, not queued.
+    const second = await rawRequest(...args).done;
+    expect(second.status).toBe(409);
+    expect(JSON.parse(second.body).error.id).toBe('idempotency_in_flight');
+    await kill();
+    expect(await counts()).toEqual(before);
+    await expectConsistent();
+  });
 });
