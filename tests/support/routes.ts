@@ -32,3 +32,19 @@ export function listRoutes(router: Router): ApiRoute[] {
   walk((router as unknown as { stack: Layer[] }).stack);
   return routes;
 }
+
+/**
+ * "METHOD /api/path" for every route, read from a router built without a database (the router
+ * is all that is needed to list routes). `jest.requireActual` so a test file's mocks do not apply.
+ */
+export function routeKeysFromRouter(): string[] {
+  const { createApp } = jest.requireActual('../../server/app') as typeof import('../../server/app');
+  const { testEnv } = jest.requireActual('./app') as typeof import('./app');
+  const probe = createApp({
+    env: testEnv(),
+    db: { sequelize: null } as unknown as import('../../server/db').Database,
+    log: () => undefined,
+  });
+  void probe.close();
+  return listRoutes(probe.api).map((x) => `${x.method} ${x.path}`);
+}

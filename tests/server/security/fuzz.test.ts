@@ -18,7 +18,7 @@ import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
 import { buildTestApp } from '../../support/app';
 import { connectTestDb } from '../../support/db';
-import { listRoutes } from '../../support/routes';
+import { routeKeysFromRouter } from '../../support/routes';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
 import { buildCtx, CASES, freshAgent, ROLE_NAMES, type Ctx, type RoleName, type Spec } from './matrix-fixtures';
 
@@ -153,13 +153,7 @@ async function sendGenerated(method: string, path: string, g: Generated, who: { 
 
 const STACK = /\n\s+at |at [\w.<>]+ \(|\.ts:\d+|node_modules|\/work\/|Sequelize[A-Z]\w*Error|ECONNREFUSED/;
 
-const routeKeys: string[] = (() => {
-  const { createApp } = jest.requireActual('../../../server/app') as typeof import('../../../server/app');
-  const { testEnv } = jest.requireActual('../../support/app') as typeof import('../../support/app');
-  const probe = createApp({ env: testEnv(), db: { sequelize: null } as unknown as Database, log: () => undefined });
-  void probe.close();
-  return listRoutes(probe.api).map((x) => `${x.method} ${x.path}`);
-})();
+const routeKeys: string[] = routeKeysFromRouter();
 
 describe('fuzz: every route, every caller', () => {
   it.each(routeKeys)('%s', async (key) => {

@@ -24,7 +24,7 @@ import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
 import { buildTestApp } from '../../support/app';
 import { connectTestDb } from '../../support/db';
-import { listRoutes } from '../../support/routes';
+import { routeKeysFromRouter } from '../../support/routes';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
 import { buildCtx, CASES, freshAgent, objectParams, send, takesFinding, type Ctx, type RoleName, type Variant } from './matrix-fixtures';
 
@@ -186,13 +186,7 @@ function colOf(role: RoleName, variant: Variant): Col {
 const ok = (s: number) => s >= 200 && s < 300;
 
 // The router is read when the file loads (no database needed to list routes).
-const routeKeys: string[] = (() => {
-  const { createApp } = jest.requireActual('../../../server/app') as typeof import('../../../server/app');
-  const { testEnv } = jest.requireActual('../../support/app') as typeof import('../../support/app');
-  const probe = createApp({ env: testEnv(), db: { sequelize: null } as unknown as Database, log: () => undefined });
-  void probe.close();
-  return listRoutes(probe.api).map((x) => `${x.method} ${x.path}`);
-})();
+const routeKeys: string[] = routeKeysFromRouter();
 
 describe('permission matrix', () => {
   it('has an expectation and a request for every route of the router, and no stale entries', () => {
