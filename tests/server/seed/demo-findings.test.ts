@@ -48,7 +48,12 @@ describe('demo seed: findings', () => {
       const last = mine.filter((e) => e.to?.status).at(-1)!;
       expect({ id: f.id, status: last.to!.status }).toEqual({ id: f.id, status: f.status });
       expect(mine.filter((e) => e.kind === 'returned')).toHaveLength(f.returnCount);
-      expect(f.version).toBe(mine.filter((e) => e.kind !== 'logged' && e.kind !== 'comment').length + 1);
+      // Each change recorded as an event raised the version once. Placing a pin on the plan also
+      // raises it but records no event (server/routes/correction.ts), and other suites sharing this
+      // database (the plans browser test) pin demo findings: for a pinned finding, at least that.
+      const changes = mine.filter((e) => e.kind !== 'logged' && e.kind !== 'comment').length;
+      if (f.pinX === null) expect(f.version).toBe(changes + 1);
+      else expect(f.version).toBeGreaterThanOrEqual(changes + 1);
     }
     const [fixes] = await db.sequelize.query<{ n: number }>(`SELECT count(*)::int AS n FROM fixes WHERE job_id = $1`, { bind: [job.id], type: QueryTypes.SELECT });
     expect(fixes!.n).toBe(events.filter((e) => e.kind === 'fix_submitted').length);
