@@ -177,14 +177,18 @@ describe('at most once per period', () => {
       const first = await schedulers[0]!.boss.send(SEND_QUEUE, due, { singletonKey: key });
       const second = await schedulers[1]!.boss.send(SEND_QUEUE, due, { singletonKey: key });
       expect(first).toEqual(expect.any(String));
-      expect(second).toBeNull(); // policy "short": one queued job per key
+      // Policy "short" refuses a second job for the key while the first is still queued (null);
+      // once a worker has picked the first up, the second is queued too. Either way one mail:
+      // the digest_sends claim, not the queue, is what guarantees it.
+      const jobIds = [first, second].filter((id): id is string => typeof id === 'string').map((id) => `pg-boss:${id}`);
       await smtp.waitFor((m) => m.to.includes(user.email), 20_000);
       // Even a job that slips past the queue (another key, same period) finds the period claimed.
       await schedulers[1]!.boss.send(SEND_QUEUE, due, { singletonKey: `${key}:again` });
       await new Promise((r) => setTimeout(r, 2_500));
       expect(mailsTo(user.email)).toHaveLength(1);
       const rows = await db.sequelize.query<{ claimed_by: string }>(`SELECT claimed_by FROM digest_sends WHERE user_id = $1`, { bind: [user.id], type: QueryTypes.SELECT });
-      expect(rows.map((r) => r.claimed_by)).toEqual([`pg-boss:${first}`]);
+      expect(rows).toHaveLength(1);
+      expect(jobIds).toContain(rows[0]!.claimed_by);
     } finally {
       for (const s of schedulers) await s.stop();
     }
