@@ -288,8 +288,16 @@ describe('POST /findings/:findingId/fixes', () => {
     expect(Number(row!.n)).toBe(1);
     // Two at once with one key: still one fix.
     const g = await insertFinding(w);
+    // The second either waits out the first and replays it (201), or finds it still inside its
+    // transaction and is told to retry (409 idempotency_in_flight); a retry then replays it.
     const both = await Promise.all([postFix(subA, w, g, 'Same.', 'fix-race-00001'), postFix(subA, w, g, 'Same.', 'fix-race-00001')]);
-    expect(both.map((r) => r.status).sort()).toEqual([201, 201]);
+    const statuses = both.map((r) => r.status).sort();
+    expect([[201, 201], [201, 409]]).toContainEqual(statuses);
+    const created = both.find((r) => r.status === 201)!;
+    for (const r of both.filter((x) => x.status === 409)) expect(r.body.error.id).toBe('idempotency_in_flight');
+    const retried = await postFix(subA, w, g, 'Same.', 'fix-race-00001').expect(201);
+    expect(retried.headers['idempotent-replayed']).toBe('true');
+    expect(retried.body).toEqual(created.body);
     const [row2] = await db.sequelize.query<{ n: string }>(`SELECT count(*) AS n FROM fixes WHERE finding_id = $1`, { bind: [g.id], type: 'SELECT' as never });
     expect(Number(row2!.n)).toBe(1);
   });
