@@ -38,6 +38,7 @@ import {
 } from '../../shared/schemas/board';
 import type { UnitKindKey } from '../../shared/words';
 import { addDays, todayIn } from './findings';
+import { cachedStat } from './statCache';
 import type { FindingScope } from './findingQueries';
 
 /** Bound parameters of one statement; $1 is always the job. */
@@ -104,84 +105,127 @@ async function selectTuned<T extends object>(sequelize: Sequelize, sql: string, 
 
 const COUNT_KEYS = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'overdue', 'unitsTotal', 'unitsChecked'] as const;
 
-interface BoardRow {
+
+/**
+ * Overdue and ceiling-blocking counts of the job's unresolved findings per (level, company,
+ * severity), for every caller (a subcontractor's scope is applied by the callers), cached while no
+ * unresolved finding and no catalogue flag changed (topics unresolved, structure) on `today`.
+ * Index-only on the partial index findings_job_unresolved_level_company.
+ */
+export interface UnresolvedFigure {
+  levelId: string;
+  companyId: string;
+  severity: string;
+  unresolved: number;
+  overdue: number;
+  ceilingBlockers: number;
+}
+export async function loadUnresolvedFigures(sequelize: Sequelize, jobId: string, today: string): Promise<UnresolvedFigure[]> {
+  return cachedStat(sequelize, jobId, ['structure', 'unresolved'], `unresolved|${today}`, async () => {
+    const rows = await select<{ level_id: string; company_id: string; severity: string; unresolved: string; overdue: string; ceiling: string }>(
+      sequelize,
+      `SELECT f.level_id, f.company_id, f.severity, count(*) AS unresolved,
+              count(*) FILTER (WHERE f.due_on < $2::date) AS overdue,
+              count(*) FILTER (WHERE f.catalogue_item_id IN (
+                SELECT ci.id FROM catalogue_items ci WHERE ci.job_id = $1 AND ci.needs_ceiling_access)) AS ceiling
+         FROM findings f
+        WHERE f.job_id = $1 AND f.status IN ('open', 'fix_submitted')
+        GROUP BY f.level_id, f.company_id, f.severity`,
+      [jobId, today],
+    );
+    return rows.map((r) => ({
+      levelId: r.level_id,
+      companyId: r.company_id,
+      severity: r.severity,
+      unresolved: num(r.unresolved),
+      overdue: num(r.overdue),
+      ceilingBlockers: num(r.ceiling),
+    }));
+  });
+}
+
+/** The live tally rows (migration 20261202010100) of the job, or of one company. */
+export async function loadTallies(
+  sequelize: Sequelize,
+  jobId: string,
+  companyId: string | null,
+): Promise<{ level_id: string; company_id: string; status: string; severity: string; n: number }[]> {
+  const rows = await select<{ level_id: string; company_id: string; status: string; severity: string; n: number }>(
+    sequelize,
+    `SELECT level_id, company_id, status, severity, n FROM finding_tallies
+      WHERE job_id = $1 AND n <> 0${companyId ? ' AND company_id = $2::uuid' : ''}`,
+    companyId ? [jobId, companyId] : [jobId],
+  );
+  return rows.map((r) => ({ ...r, n: Number(r.n) }));
+}
+
+interface CoverageRow {
   level_id: string;
   name: string;
   position: number;
-  open: string;
-  open_critical: string;
-  open_major: string;
-  fix_submitted: string;
-  closed: string;
-  overdue: string;
-  ceiling_blockers: string;
-  units_total: string;
-  units_checked: string;
-  t_open: string;
-  t_open_critical: string;
-  t_open_major: string;
-  t_fix_submitted: string;
-  t_closed: string;
-  t_overdue: string;
-  t_units_total: string;
-  t_units_checked: string;
+  units_total: number;
+  units_checked: number;
 }
 
-/** The levels board: one row per level in building order, and the job's totals (window sums over the rows). */
+/** The job's levels in building order with their units and checked units (cached on topic structure). */
+async function loadCoverage(sequelize: Sequelize, jobId: string): Promise<CoverageRow[]> {
+  return cachedStat(sequelize, jobId, ['structure'], 'coverage', async () => {
+    const rows = await select<{ level_id: string; name: string; position: number; units_total: string | null; units_checked: string | null }>(
+      sequelize,
+      `WITH uc AS (
+        SELECT u.level_id, count(*) AS units_total, count(*) FILTER (WHERE lc.complete) AS units_checked
+          FROM units u
+          ${latestCheckJoin('u')}
+         WHERE u.job_id = $1
+         GROUP BY u.level_id
+      )
+      SELECT lv.id AS level_id, lv.name, lv.position, uc.units_total, uc.units_checked
+        FROM levels lv LEFT JOIN uc ON uc.level_id = lv.id
+       WHERE lv.job_id = $1
+       ORDER BY lv.position, lv.id`,
+      [jobId],
+    );
+    return rows.map((r) => ({ level_id: r.level_id, name: r.name, position: r.position, units_total: num(r.units_total), units_checked: num(r.units_checked) }));
+  });
+}
+
+/**
+ * The levels board: one row per level in building order, and the job's totals. Status and
+ * severity counts come from the live tallies; overdue and ceiling blockers from
+ * loadUnresolvedFigures; units and checked units from loadCoverage. The definitions are the
+ * findings list's (docs/api-board.md); tests/server/routes/board.test.ts checks every cell
+ * against counts made from the findings themselves.
+ */
 export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Promise<BoardResponse> {
   const today = todayIn(scope.timeZone);
-  const b = new Bind(scope.jobId);
-  const todayRef = `${b.add(today)}::date`;
-  const company = companyCond(b, scope);
-  const sql = `
-    WITH fc AS (
-      -- Index-only on findings_job_level_status (job_id, level_id, status, severity).
-      SELECT f.level_id,
-             count(*) FILTER (WHERE f.status = 'open') AS open,
-             count(*) FILTER (WHERE f.status = 'open' AND f.severity = 'critical') AS open_critical,
-             count(*) FILTER (WHERE f.status = 'open' AND f.severity = 'major') AS open_major,
-             count(*) FILTER (WHERE f.status = 'fix_submitted') AS fix_submitted,
-             count(*) FILTER (WHERE f.status = 'closed') AS closed
-        FROM findings f
-       WHERE f.job_id = $1 AND f.status <> 'voided'${company}
-       GROUP BY f.level_id
-    ), fu AS (
-      -- Unresolved findings only: index-only on the partial index findings_job_level_unresolved.
-      -- overdue = (status open or fix_submitted, from the WHERE) AND due_on < today, as in the findings list.
-      SELECT f.level_id,
-             count(*) FILTER (WHERE f.due_on < ${todayRef}) AS overdue,
-             count(*) FILTER (WHERE f.catalogue_item_id IN (
-               SELECT ci.id FROM catalogue_items ci WHERE ci.job_id = $1 AND ci.needs_ceiling_access)) AS ceiling_blockers
-        FROM findings f
-       WHERE f.job_id = $1 AND f.status IN ('open', 'fix_submitted')${company}
-       GROUP BY f.level_id
-    ), uc AS (
-      SELECT u.level_id, count(*) AS units_total, count(*) FILTER (WHERE lc.complete) AS units_checked
-        FROM units u
-        ${latestCheckJoin('u')}
-       WHERE u.job_id = $1
-       GROUP BY u.level_id
-    ), rows AS (
-      SELECT lv.id AS level_id, lv.name, lv.position,
-             coalesce(fc.open, 0) AS open, coalesce(fc.open_critical, 0) AS open_critical,
-             coalesce(fc.open_major, 0) AS open_major, coalesce(fc.fix_submitted, 0) AS fix_submitted,
-             coalesce(fc.closed, 0) AS closed, coalesce(fu.overdue, 0) AS overdue,
-             coalesce(fu.ceiling_blockers, 0) AS ceiling_blockers,
-             coalesce(uc.units_total, 0) AS units_total, coalesce(uc.units_checked, 0) AS units_checked
-        FROM levels lv
-        LEFT JOIN fc ON fc.level_id = lv.id
-        LEFT JOIN fu ON fu.level_id = lv.id
-        LEFT JOIN uc ON uc.level_id = lv.id
-       WHERE lv.job_id = $1
-    )
-    SELECT rows.*,
-           sum(open) OVER () AS t_open, sum(open_critical) OVER () AS t_open_critical,
-           sum(open_major) OVER () AS t_open_major, sum(fix_submitted) OVER () AS t_fix_submitted,
-           sum(closed) OVER () AS t_closed, sum(overdue) OVER () AS t_overdue,
-           sum(units_total) OVER () AS t_units_total, sum(units_checked) OVER () AS t_units_checked
-      FROM rows
-     ORDER BY position, level_id`;
-  const rows = await selectTuned<BoardRow>(sequelize, sql, b.values);
+  const [coverage, tallies, unresolved] = await Promise.all([
+    loadCoverage(sequelize, scope.jobId),
+    loadTallies(sequelize, scope.jobId, scope.companyId),
+    loadUnresolvedFigures(sequelize, scope.jobId, today),
+  ]);
+  const zero = () => ({ open: 0, open_critical: 0, open_major: 0, fix_submitted: 0, closed: 0, overdue: 0, ceiling_blockers: 0 });
+  const perLevel = new Map<string, ReturnType<typeof zero>>();
+  const at = (levelId: string) => {
+    let c = perLevel.get(levelId);
+    if (!c) perLevel.set(levelId, (c = zero()));
+    return c;
+  };
+  for (const t of tallies) {
+    const c = at(t.level_id);
+    if (t.status === 'open') {
+      c.open += t.n;
+      if (t.severity === 'critical') c.open_critical += t.n;
+      if (t.severity === 'major') c.open_major += t.n;
+    } else if (t.status === 'fix_submitted') c.fix_submitted += t.n;
+    else if (t.status === 'closed') c.closed += t.n;
+  }
+  for (const u of unresolved) {
+    if (scope.companyId && u.companyId !== scope.companyId) continue;
+    const c = at(u.levelId);
+    c.overdue += u.overdue;
+    c.ceiling_blockers += u.ceilingBlockers;
+  }
+  const rows = coverage.map((lv) => ({ ...lv, ...(perLevel.get(lv.level_id) ?? zero()) }));
   const levels: BoardLevelRow[] = rows.map((r) => ({
     levelId: r.level_id,
     name: r.name,
@@ -197,20 +241,8 @@ export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Prom
     ceilingBlockers: num(r.ceiling_blockers),
     ceilingReady: num(r.ceiling_blockers) === 0,
   }));
-  const first = rows[0];
   const totals = Object.fromEntries(COUNT_KEYS.map((k) => [k, 0])) as unknown as BoardCounts;
-  if (first) {
-    Object.assign(totals, {
-      open: num(first.t_open),
-      openCritical: num(first.t_open_critical),
-      openMajor: num(first.t_open_major),
-      fixSubmitted: num(first.t_fix_submitted),
-      closed: num(first.t_closed),
-      overdue: num(first.t_overdue),
-      unitsTotal: num(first.t_units_total),
-      unitsChecked: num(first.t_units_checked),
-    });
-  }
+  for (const l of levels) for (const k of COUNT_KEYS) totals[k] += l[k];
   return { levels, totals, today, companyScope: scope.companyId };
 }
 
@@ -415,9 +447,6 @@ interface ScorecardRow {
   company_id: string;
   name: string;
   trades: string[];
-  open: string;
-  overdue: string;
-  fixes_waiting: string;
   accepted: string;
   accepted_first_pass: string;
   median_days: string | number | null;
@@ -437,20 +466,55 @@ interface ScorecardRow {
  * Voided findings are left out.
  */
 export async function loadScorecards(sequelize: Sequelize, scope: FindingScope): Promise<ScorecardsResponse> {
+  const today = todayIn(scope.timeZone);
+  const [hist, tallies, unresolved] = await Promise.all([
+    cachedStat(sequelize, scope.jobId, ['structure', 'shape', 'history'], `scorecards|${scope.companyId ?? '*'}`, () => loadScorecardHistory(sequelize, scope)),
+    loadTallies(sequelize, scope.jobId, scope.companyId),
+    loadUnresolvedFigures(sequelize, scope.jobId, today),
+  ]);
+  const live = new Map<string, { open: number; overdue: number; fixesWaiting: number }>();
+  const at = (companyId: string) => {
+    let c = live.get(companyId);
+    if (!c) live.set(companyId, (c = { open: 0, overdue: 0, fixesWaiting: 0 }));
+    return c;
+  };
+  for (const t of tallies) {
+    if (t.status === 'open') at(t.company_id).open += t.n;
+    if (t.status === 'fix_submitted') at(t.company_id).fixesWaiting += t.n;
+  }
+  for (const u of unresolved) if (!scope.companyId || u.companyId === scope.companyId) at(u.companyId).overdue += u.overdue;
+  const companies: CompanyScorecard[] = hist.map((r) => {
+    const accepted = num(r.accepted);
+    const firstPass = num(r.accepted_first_pass);
+    const now = live.get(r.company_id);
+    return {
+      companyId: r.company_id,
+      name: r.name,
+      trade: r.trades[0] ?? null,
+      trades: r.trades,
+      open: now?.open ?? 0,
+      overdue: now?.overdue ?? 0,
+      fixesWaiting: now?.fixesWaiting ?? 0,
+      accepted,
+      acceptedFirstPass: firstPass,
+      firstPassRate: accepted === 0 ? null : firstPass / accepted,
+      medianDaysToAccept: r.median_days === null ? null : Math.round(Number(r.median_days) * 10) / 10,
+      returns: num(r.returns),
+    };
+  });
+  return { companies };
+}
+
+/**
+ * The history half of the scorecards (accepted fixes, first pass, median days, returns) and the
+ * job's companies, from the events: changes only with an accepted / returned / reassigned /
+ * reopened event or a finding's shape, so it is cached on those topics by loadScorecards.
+ */
+async function loadScorecardHistory(sequelize: Sequelize, scope: FindingScope): Promise<ScorecardRow[]> {
   const b = new Bind(scope.jobId);
-  const todayRef = `${b.add(todayIn(scope.timeZone))}::date`;
-  const companyF = companyCond(b, scope);
   const companyJc = companyCond(b, scope, 'jc');
   const sql = `
-    WITH cur AS (
-      SELECT f.company_id,
-             count(*) FILTER (WHERE f.status = 'open') AS open,
-             count(*) FILTER (WHERE ${overdueSql('f', todayRef)}) AS overdue,
-             count(*) FILTER (WHERE f.status = 'fix_submitted') AS fixes_waiting
-        FROM findings f
-       WHERE f.job_id = $1 AND f.status <> 'voided'${companyF}
-       GROUP BY f.company_id
-    ), special AS (
+    WITH special AS (
       -- Findings with a return, reassignment or reopening (few): only these need the windows below.
       SELECT DISTINCT e.finding_id
         FROM finding_events e
@@ -502,35 +566,14 @@ export async function loadScorecards(sequelize: Sequelize, scope: FindingScope):
        GROUP BY company_id
     )
     SELECT c.id AS company_id, c.name, jc.trades,
-           coalesce(cur.open, 0) AS open, coalesce(cur.overdue, 0) AS overdue, coalesce(cur.fixes_waiting, 0) AS fixes_waiting,
            coalesce(hist.accepted, 0) AS accepted, coalesce(hist.accepted_first_pass, 0) AS accepted_first_pass,
            hist.median_days, coalesce(hist.returns, 0) AS returns
       FROM job_companies jc
       JOIN companies c ON c.id = jc.company_id
-      LEFT JOIN cur ON cur.company_id = jc.company_id
       LEFT JOIN hist ON hist.company_id = jc.company_id
      WHERE jc.job_id = $1${companyJc}
      ORDER BY c.name, c.id`;
-  const rows = await selectTuned<ScorecardRow>(sequelize, sql, b.values);
-  const companies: CompanyScorecard[] = rows.map((r) => {
-    const accepted = num(r.accepted);
-    const firstPass = num(r.accepted_first_pass);
-    return {
-      companyId: r.company_id,
-      name: r.name,
-      trade: r.trades[0] ?? null,
-      trades: r.trades,
-      open: num(r.open),
-      overdue: num(r.overdue),
-      fixesWaiting: num(r.fixes_waiting),
-      accepted,
-      acceptedFirstPass: firstPass,
-      firstPassRate: accepted === 0 ? null : firstPass / accepted,
-      medianDaysToAccept: r.median_days === null ? null : Math.round(Number(r.median_days) * 10) / 10,
-      returns: num(r.returns),
-    };
-  });
-  return { companies };
+  return selectTuned<ScorecardRow>(sequelize, sql, b.values);
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -567,6 +610,12 @@ interface RecurringRow {
  * count to minUnits (each unit counted at its first finding of the type), given the share holds now.
  */
 export async function loadRecurring(sequelize: Sequelize, scope: FindingScope): Promise<RecurringResponse> {
+  // Depends on the findings' shape (type, unit, company, logged time, voided) and the structure
+  // (units, checks, thresholds, names), not on fixes or re-inspections.
+  return cachedStat(sequelize, scope.jobId, ['structure', 'shape'], `recurring|${scope.companyId ?? '*'}`, () => computeRecurring(sequelize, scope));
+}
+
+async function computeRecurring(sequelize: Sequelize, scope: FindingScope): Promise<RecurringResponse> {
   const [job] = await select<{ recurring_thresholds: Partial<RecurringThresholdsView> | null }>(
     sequelize,
     `SELECT recurring_thresholds FROM jobs WHERE id = $1`,
@@ -674,21 +723,68 @@ export async function loadTrend(sequelize: Sequelize, scope: FindingScope, query
   const days = query.days ?? TREND_DAYS_DEFAULT;
   const today = todayIn(scope.timeZone);
   const start = addDays(today, -(days - 1));
-  const b = new Bind(scope.jobId);
-  const tz = b.add(scope.timeZone);
-  const startRef = `${b.add(start)}::date`;
-  const todayRef = `${b.add(today)}::date`;
-  let levelCond = '';
+  const yesterday = addDays(today, -1);
   if (query.levelId) {
-    const levelRef = `${b.add(query.levelId)}::uuid`;
     const [ok] = await select<{ ok: boolean }>(sequelize, `SELECT EXISTS (SELECT 1 FROM levels WHERE job_id = $1 AND id = $2::uuid) AS ok`, [
       scope.jobId,
       query.levelId,
     ]);
     if (!ok?.ok) return null;
-    levelCond = ` AND f.level_id = ${levelRef}`;
   }
+  // The days before today only change with a back-dated event or a finding moved to another
+  // level or company (topics past, moved), so they are cached; today's moves are added live.
+  // Right after midnight an event dated just before it may still be committing: no cache then.
+  const pastStart = start < today ? start : yesterday;
+  const computePast = () => trendSeries(sequelize, scope, query.levelId, pastStart, yesterday);
+  const past =
+    minutesIntoDay(scope.timeZone) < 5
+      ? await computePast()
+      : await cachedStat(
+          sequelize,
+          scope.jobId,
+          ['structure', 'moved', 'past'],
+          `trend|${scope.companyId ?? '*'}|${query.levelId ?? '*'}|${scope.timeZone}|${pastStart}|${yesterday}`,
+          computePast,
+        );
+  const moves = await trendSeries(sequelize, scope, query.levelId, today, today, { onlyFrom: today });
+  const base = past.length ? past[past.length - 1]! : { open: 0, fixSubmitted: 0 };
+  const delta = moves[0] ?? { open: 0, fixSubmitted: 0 };
+  const points = past.filter((p) => p.date >= start).map((p) => ({ ...p }));
+  points.push({ date: today, open: base.open + delta.open, fixSubmitted: base.fixSubmitted + delta.fixSubmitted });
+  return { levelId: query.levelId ?? null, points, companyScope: scope.companyId };
+}
+
+/** Minutes since midnight now in `timeZone`. */
+function minutesIntoDay(timeZone: string): number {
+  const parts = new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).formatToParts(new Date());
+  const get = (type: string) => Number(parts.find((p) => p.type === type)?.value ?? 0);
+  return get('hour') * 60 + get('minute');
+}
+
+/**
+ * Counts of findings in status open and fix_submitted at the end of each day from `from` to `to`
+ * (job time zone), from the events: every event whose `to` has a status moves the finding from
+ * `from.status` (null for 'logged') to `to.status`, as every write path records them; the count
+ * at the end of a day is the running sum of those moves up to that day, and moves before `from`
+ * all land on `from`. With `onlyFrom`, only the moves dated on or after that day are summed (the
+ * change over those days, read from finding_events_job_at). The level and company are the
+ * finding's current ones.
+ */
+async function trendSeries(
+  sequelize: Sequelize,
+  scope: FindingScope,
+  levelId: string | undefined,
+  from: string,
+  to: string,
+  options: { onlyFrom?: string } = {},
+): Promise<{ date: string; open: number; fixSubmitted: number }[]> {
+  const b = new Bind(scope.jobId);
+  const tz = b.add(scope.timeZone);
+  const startRef = `${b.add(from)}::date`;
+  const todayRef = `${b.add(to)}::date`;
+  const levelCond = levelId ? ` AND f.level_id = ${b.add(levelId)}::uuid` : '';
   const company = companyCond(b, scope);
+  const since = options.onlyFrom ? ` AND e.at >= (${b.add(options.onlyFrom)}::date::timestamp AT TIME ZONE ${tz})` : '';
   // The finding's level and company are needed only to filter; the job-wide trend reads events alone.
   const join = levelCond || company ? `JOIN findings f ON f.id = e.finding_id AND f.job_id = $1${levelCond}${company}` : '';
   const sql = `
@@ -697,7 +793,7 @@ export async function loadTrend(sequelize: Sequelize, scope: FindingScope, query
              sum((e."to" ->> 'status' = 'open')::int - (coalesce(e."from" ->> 'status', '') = 'open')::int) AS d_open,
              sum((e."to" ->> 'status' = 'fix_submitted')::int - (coalesce(e."from" ->> 'status', '') = 'fix_submitted')::int) AS d_fix
         FROM finding_events e ${join}
-       WHERE e.job_id = $1 AND (e."to" ->> 'status') IS NOT NULL AND (e.at AT TIME ZONE ${tz})::date <= ${todayRef}
+       WHERE e.job_id = $1 AND (e."to" ->> 'status') IS NOT NULL AND (e.at AT TIME ZONE ${tz})::date <= ${todayRef}${since}
        GROUP BY 1
     ), days AS (
       SELECT d::date AS day FROM generate_series(${startRef}, ${todayRef}, interval '1 day') AS d
@@ -708,9 +804,5 @@ export async function loadTrend(sequelize: Sequelize, scope: FindingScope, query
       FROM days LEFT JOIN per_day ON per_day.day = days.day
      ORDER BY days.day`;
   const rows = await select<{ date: string; open: string; fix_submitted: string }>(sequelize, sql, b.values);
-  return {
-    levelId: query.levelId ?? null,
-    points: rows.map((r) => ({ date: r.date, open: num(r.open), fixSubmitted: num(r.fix_submitted) })),
-    companyScope: scope.companyId,
-  };
+  return rows.map((r) => ({ date: r.date, open: num(r.open), fixSubmitted: num(r.fix_submitted) }));
 }

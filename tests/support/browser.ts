@@ -34,7 +34,15 @@ export async function startBrowserHarness(appOptions: Partial<AppOptions> = {}):
   const dist = process.env.WEB_DIST ?? path.resolve(__dirname, '..', '..', 'dist');
   if (!fs.existsSync(path.join(dist, 'index.html'))) throw new Error(`No web build in ${dist}: run \`npm test\`, which builds it.`);
   const db = await connectTestDb();
-  const trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }), ...appOptions });
+  // Server errors are printed (with the request's failure in the page's `problems`), so a 500 in
+  // a browser test says what failed instead of only "status of 500" in the console.
+  const serverErrors: string[] = [];
+  const log = (message: string, err?: unknown) => {
+    const line = `server: ${message}${err ? `: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}` : ''}`;
+    serverErrors.push(line);
+    console.error(line);
+  };
+  const trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }), log, ...appOptions });
   const server: Server = await new Promise((resolve) => {
     const s = trimout.app.listen(0, '127.0.0.1', () => resolve(s));
   });
@@ -78,6 +86,9 @@ export async function startBrowserHarness(appOptions: Partial<AppOptions> = {}):
         }
       });
       page.on('pageerror', (err) => problems.push(`page error: ${err.message}`));
+      page.on('response', (res) => {
+        if (res.status() >= 500) problems.push(`HTTP ${res.status()} ${res.request().method()} ${new URL(res.url()).pathname}${serverErrors.length ? ` (${serverErrors.at(-1)})` : ''}`);
+      });
       return { page, context: ctx, problems };
     },
     async screenshot(page, name) {

@@ -1,0 +1,86 @@
+/**
+ * An exact in-process cache for the job's heavy figures (recurring defects, the history part of
+ * the company scorecards, the trend's past days). Each figure names the topics it depends on;
+ * triggers raise a topic's version in the same transaction as any change that can alter it
+ * (migration 20261202010100, table job_stat_versions). A figure is kept with the versions read
+ * BEFORE it was computed and served again only while they are the same, so it is never older
+ * than the versions say: a change committed before the read raised a version, and a change
+ * committed during the computation at worst makes the entry fresher than its versions.
+ *
+ * Works with several server processes (each has its own cache; the versions live in the
+ * database). Concurrent requests for the same figure and versions share one computation.
+ * Values are shared between requests: callers must not change them.
+ */
+import { AsyncLocalStorage } from 'node:async_hooks';
+import { QueryTypes, type Sequelize } from 'sequelize';
+
+export type StatTopic = 'structure' | 'shape' | 'moved' | 'unresolved' | 'history' | 'past';
+
+const MAX_ENTRIES = Number(process.env.STAT_CACHE_MAX_ENTRIES ?? 500);
+
+interface Entry {
+  stamp: string;
+  value: Promise<unknown>;
+}
+
+const entries = new Map<string, Entry>();
+let disabled = process.env.STAT_CACHE === 'off';
+
+const bypass = new AsyncLocalStorage<true>();
+
+/** Tests: run `fn` with every figure computed afresh (the cache is neither read nor written). */
+export function withoutStatCache<T>(fn: () => Promise<T>): Promise<T> {
+  return bypass.run(true, fn);
+}
+
+/** Tests: turn the cache off (every call computes) or on, and empty it. */
+export function setStatCacheEnabled(on: boolean): void {
+  disabled = !on;
+  entries.clear();
+}
+
+export function statCacheSize(): number {
+  return entries.size;
+}
+
+/** The job's versions of `topics`, as one string ("0" for a topic never raised). */
+export async function statStamp(sequelize: Sequelize, jobId: string, topics: readonly StatTopic[]): Promise<string> {
+  const rows = await sequelize.query<{ topic: string; version: string }>(
+    `SELECT topic, version FROM job_stat_versions WHERE job_id = $1 AND topic = ANY ($2::text[])`,
+    { bind: [jobId, topics], type: QueryTypes.SELECT },
+  );
+  const byTopic = new Map(rows.map((r) => [r.topic, String(r.version)]));
+  return topics.map((t) => `${t}:${byTopic.get(t) ?? '0'}`).join(',');
+}
+
+/**
+ * The figure `key` of the job: from the cache while the topics' versions are unchanged, else
+ * computed by `compute` (once for all requests waiting on the same versions).
+ */
+export async function cachedStat<T>(
+  sequelize: Sequelize,
+  jobId: string,
+  topics: readonly StatTopic[],
+  key: string,
+  compute: () => Promise<T>,
+): Promise<T> {
+  if (disabled || bypass.getStore()) return compute();
+  const stamp = await statStamp(sequelize, jobId, topics);
+  const id = `${jobId}|${key}`;
+  const hit = entries.get(id);
+  if (hit && hit.stamp === stamp) {
+    // Least recently used goes first: move the entry to the end.
+    entries.delete(id);
+    entries.set(id, hit);
+    return hit.value as Promise<T>;
+  }
+  const value = compute();
+  const entry: Entry = { stamp, value };
+  entries.delete(id);
+  entries.set(id, entry);
+  while (entries.size > MAX_ENTRIES) entries.delete(entries.keys().next().value as string);
+  value.catch(() => {
+    if (entries.get(id) === entry) entries.delete(id);
+  });
+  return value;
+}

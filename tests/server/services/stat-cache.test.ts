@@ -1,0 +1,191 @@
+/**
+ * The counts that keep a large job fast (migration 20261202010100, server/services/statCache.ts):
+ *
+ * 1. finding_tallies always equal a plain count(*) of the findings, after every kind of change
+ *    (insert, status moves both ways, reassignment, level move, severity, void, delete).
+ * 2. The cached figures (board, scorecards, recurring, trend) equal the same figures computed
+ *    afresh with the cache bypassed, after each change, for the GC and for a subcontractor; and
+ *    the cache is really used (a fix leaves the recurring list's cached object in place).
+ *
+ * The figures' own definitions are checked against independently computed numbers in
+ * tests/server/routes/board.test.ts; this file checks that caching never serves an old figure.
+ * The job is a small copy of the benchmark's generated job (scripts/lib/benchSeed.ts).
+ */
+import { QueryTypes } from 'sequelize';
+import type { Database } from '../../../server/db';
+import { loadBoard, loadRecurring, loadScorecards, loadTrend } from '../../../server/services/board';
+import type { FindingScope } from '../../../server/services/findingQueries';
+import { listFindings } from '../../../server/services/findingQueries';
+import { recordFindingEvent } from '../../../server/services/findings';
+import { withoutStatCache } from '../../../server/services/statCache';
+import { seedBenchJob, type BenchJob } from '../../../scripts/lib/benchSeed';
+import { connectTestDb } from '../../support/db';
+
+jest.setTimeout(300_000);
+
+let db: Database;
+let bench: BenchJob;
+let gcScope: FindingScope;
+let subScope: FindingScope;
+let actorId: string;
+
+const q = <T extends object>(sql: string, bind: unknown[] = []) => db.sequelize.query<T>(sql, { bind, type: QueryTypes.SELECT });
+
+beforeAll(async () => {
+  db = await connectTestDb();
+  bench = await seedBenchJob(db, { findings: 1500, levels: 4, unitsPerLevel: 15, spacesPerLevel: 3, systemsPerLevel: 1, companies: 4 });
+  const [company] = await q<{ company_id: string }>(
+    `SELECT company_id FROM findings WHERE job_id = $1 GROUP BY company_id ORDER BY count(*) DESC LIMIT 1`,
+    [bench.jobId],
+  );
+  gcScope = { jobId: bench.jobId, timeZone: bench.timeZone, companyId: null };
+  subScope = { ...gcScope, companyId: company!.company_id };
+  actorId = bench.users.find((u) => u.role === 'inspector')!.id;
+});
+afterAll(async () => {
+  await db.close();
+});
+
+async function expectTalliesExact() {
+  const tallies = await q<{ k: string; n: string }>(
+    `SELECT concat_ws('|', level_id, company_id, status, severity) AS k, n FROM finding_tallies WHERE job_id = $1 AND n <> 0 ORDER BY 1`,
+    [bench.jobId],
+  );
+  const counted = await q<{ k: string; n: string }>(
+    `SELECT concat_ws('|', level_id, company_id, status, severity) AS k, count(*) AS n FROM findings WHERE job_id = $1 GROUP BY 1 ORDER BY 1`,
+    [bench.jobId],
+  );
+  expect(tallies.map((r) => [r.k, Number(r.n)])).toEqual(counted.map((r) => [r.k, Number(r.n)]));
+}
+
+/** Every cached figure, for the GC and a subcontractor, next to the same figure computed afresh. */
+async function expectCacheExact() {
+  const figures = async () => {
+    const out: Record<string, unknown> = {};
+    for (const [who, scope] of [['gc', gcScope], ['sub', subScope]] as const) {
+      out[`${who} board`] = await loadBoard(db.sequelize, scope);
+      out[`${who} scorecards`] = await loadScorecards(db.sequelize, scope);
+      out[`${who} recurring`] = await loadRecurring(db.sequelize, scope);
+      out[`${who} trend`] = await loadTrend(db.sequelize, scope, { days: 30 });
+      out[`${who} list`] = (await listFindings(db.sequelize, scope, {}, '-number', { limit: 5, after: null })).counts;
+    }
+    return out;
+  };
+  const cached = await figures();
+  const fresh = await withoutStatCache(figures);
+  expect(cached).toEqual(fresh);
+}
+
+async function oneFinding(where: string): Promise<{ id: string; status: string; company_id: string; level_id: string }> {
+  const [row] = await q<{ id: string; status: string; company_id: string; level_id: string }>(
+    `SELECT id, status, company_id, level_id FROM findings WHERE job_id = $1 AND ${where} ORDER BY number LIMIT 1`,
+    [bench.jobId],
+  );
+  if (!row) throw new Error(`no finding where ${where}`);
+  return row;
+}
+
+async function event(findingId: string, kind: string, from: Record<string, unknown> | null, to: Record<string, unknown> | null, at?: Date) {
+  await db.sequelize.transaction((transaction) =>
+    recordFindingEvent({ findingId, jobId: bench.jobId, actorId, kind: kind as never, from, to, reason: 'stat cache test', at }, transaction),
+  );
+}
+
+describe('tallies and the stat cache', () => {
+  it('start: tallies match the findings; cached figures match fresh ones', async () => {
+    await expectTalliesExact();
+    await expectCacheExact();
+    await expectCacheExact(); // now from the cache
+  });
+
+  it('a fix (open -> fix_submitted) changes the live counts and leaves the recurring list cached', async () => {
+    const recurringBefore = await loadRecurring(db.sequelize, gcScope);
+    const f = await oneFinding(`status = 'open'`);
+    await db.sequelize.query(`UPDATE findings SET status = 'fix_submitted' WHERE id = $1`, { bind: [f.id] });
+    await event(f.id, 'fix_submitted', { status: 'open' }, { status: 'fix_submitted' });
+    expect(await loadRecurring(db.sequelize, gcScope)).toBe(recurringBefore);
+    await expectTalliesExact();
+    await expectCacheExact();
+  });
+
+  it('re-inspections: accepted (closed) and returned (open again)', async () => {
+    const a = await oneFinding(`status = 'fix_submitted'`);
+    await db.sequelize.query(`UPDATE findings SET status = 'closed' WHERE id = $1`, { bind: [a.id] });
+    await event(a.id, 'accepted', { status: 'fix_submitted' }, { status: 'closed' });
+    const r = await oneFinding(`status = 'fix_submitted'`);
+    await db.sequelize.query(`UPDATE findings SET status = 'open', return_count = return_count + 1 WHERE id = $1`, { bind: [r.id] });
+    await event(r.id, 'returned', { status: 'fix_submitted' }, { status: 'open' });
+    await expectTalliesExact();
+    await expectCacheExact();
+  });
+
+  it('a reassignment to the subcontractor, a level move and a severity change', async () => {
+    const f = await oneFinding(`status = 'open' AND company_id <> '${subScope.companyId}'`);
+    await db.sequelize.query(`UPDATE findings SET company_id = $2 WHERE id = $1`, { bind: [f.id, subScope.companyId] });
+    await event(f.id, 'reassigned', { companyId: f.company_id }, { companyId: subScope.companyId });
+    const g = await oneFinding(`status = 'fix_submitted' AND unit_id IS NULL AND space_id IS NULL`).catch(() => null);
+    if (g) {
+      const [other] = await q<{ id: string }>(`SELECT id FROM levels WHERE job_id = $1 AND id <> $2 LIMIT 1`, [bench.jobId, g.level_id]);
+      await db.sequelize.query(`UPDATE findings SET level_id = $2 WHERE id = $1`, { bind: [g.id, other!.id] });
+    }
+    const h = await oneFinding(`status = 'open' AND severity <> 'critical'`);
+    await db.sequelize.query(`UPDATE findings SET severity = 'critical' WHERE id = $1`, { bind: [h.id] });
+    await expectTalliesExact();
+    await expectCacheExact();
+  });
+
+  it('a void, a new finding, a due date moved into the past, and a back-dated event', async () => {
+    const v = await oneFinding(`status = 'open'`);
+    await db.sequelize.query(`UPDATE findings SET status = 'voided', voided_reason = 'duplicate' WHERE id = $1`, { bind: [v.id] });
+    await event(v.id, 'voided', { status: 'open' }, { status: 'voided' });
+    // A copy of an open finding with the next number, as logging one would make.
+    const src = await oneFinding(`status = 'open' AND unit_id IS NOT NULL`);
+    const [made] = await q<{ id: string }>(
+      `INSERT INTO findings (id, job_id, number, level_id, space_id, unit_id, catalogue_item_id, severity, status, company_id, due_on, note,
+                             logged_by, logged_at, return_count, version, created_at, updated_at)
+       SELECT gen_random_uuid(), job_id, (SELECT max(number) + 1 FROM findings WHERE job_id = $2), level_id, space_id, unit_id, catalogue_item_id,
+              severity, 'open', company_id, due_on, 'copy', logged_by, now(), 0, 1, now(), now()
+         FROM findings WHERE id = $1
+       RETURNING id`,
+      [src.id, bench.jobId],
+    );
+    await event(made!.id, 'logged', null, { status: 'open' });
+    const d = await oneFinding(`status = 'open' AND due_on >= current_date`).catch(() => null);
+    if (d) await db.sequelize.query(`UPDATE findings SET due_on = current_date - 3 WHERE id = $1`, { bind: [d.id] });
+    const old = await oneFinding(`status = 'fix_submitted'`);
+    await db.sequelize.query(`UPDATE findings SET status = 'closed' WHERE id = $1`, { bind: [old.id] });
+    await event(old.id, 'accepted', { status: 'fix_submitted' }, { status: 'closed' }, new Date(Date.now() - 3 * 24 * 3600 * 1000));
+    await expectTalliesExact();
+    await expectCacheExact();
+  });
+
+  it('structure: a catalogue flag, a company name, the recurring thresholds, a level name and a unit check', async () => {
+    await db.sequelize.query(`UPDATE catalogue_items SET needs_ceiling_access = NOT needs_ceiling_access WHERE id = (
+      SELECT catalogue_item_id FROM findings WHERE job_id = $1 AND status = 'open' GROUP BY 1 ORDER BY count(*) DESC LIMIT 1)`, { bind: [bench.jobId] });
+    await db.sequelize.query(`UPDATE companies SET name = name || ' (renamed)' WHERE id = $1`, { bind: [subScope.companyId] });
+    await db.sequelize.query(`UPDATE jobs SET recurring_thresholds = '{"minUnits": 2, "minShare": 0.01}' WHERE id = $1`, { bind: [bench.jobId] });
+    await db.sequelize.query(`UPDATE levels SET name = name || ' (renamed)' WHERE id = (SELECT id FROM levels WHERE job_id = $1 ORDER BY position LIMIT 1)`, {
+      bind: [bench.jobId],
+    });
+    await db.sequelize.query(
+      `INSERT INTO unit_checks (id, job_id, unit_id, walk_id, checked_by, checked_at, complete, created_at, updated_at)
+       SELECT gen_random_uuid(), job_id, unit_id, walk_id, checked_by, now(), NOT complete, now(), now()
+         FROM unit_checks WHERE job_id = $1 ORDER BY checked_at DESC LIMIT 1`,
+      { bind: [bench.jobId] },
+    );
+    await expectTalliesExact();
+    await expectCacheExact();
+  });
+
+  it('deleting findings (with their job) leaves no tally or version rows behind', async () => {
+    const f = await oneFinding(`true`);
+    await db.sequelize.query(`DELETE FROM findings WHERE id = $1`, { bind: [f.id] }).catch(() => undefined); // events may refuse it
+    await expectTalliesExact();
+    await db.sequelize.query(`DELETE FROM jobs WHERE id = $1`, { bind: [bench.jobId] });
+    const [left] = await q<{ t: string; v: string }>(
+      `SELECT (SELECT count(*) FROM finding_tallies WHERE job_id = $1) AS t, (SELECT count(*) FROM job_stat_versions WHERE job_id = $1) AS v`,
+      [bench.jobId],
+    );
+    expect({ t: Number(left!.t), v: Number(left!.v) }).toEqual({ t: 0, v: 0 });
+  });
+});
