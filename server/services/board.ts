@@ -38,7 +38,7 @@ import {
 } from '../../shared/schemas/board';
 import type { UnitKindKey } from '../../shared/words';
 import { addDays, todayIn } from './findings';
-import { cachedStat } from './statCache';
+import { cachedStat, readStatVersions, type StatVersions } from './statCache';
 import type { FindingScope } from './findingQueries';
 
 /** Bound parameters of one statement; $1 is always the job. */
@@ -120,7 +120,7 @@ export interface UnresolvedFigure {
   overdue: number;
   ceilingBlockers: number;
 }
-export async function loadUnresolvedFigures(sequelize: Sequelize, jobId: string, today: string): Promise<UnresolvedFigure[]> {
+export async function loadUnresolvedFigures(sequelize: Sequelize, jobId: string, today: string, versions?: StatVersions): Promise<UnresolvedFigure[]> {
   return cachedStat(sequelize, jobId, ['structure', 'unresolved'], `unresolved|${today}`, async () => {
     const rows = await select<{ level_id: string; company_id: string; severity: string; unresolved: string; overdue: string; ceiling: string }>(
       sequelize,
@@ -141,7 +141,7 @@ export async function loadUnresolvedFigures(sequelize: Sequelize, jobId: string,
       overdue: num(r.overdue),
       ceilingBlockers: num(r.ceiling),
     }));
-  });
+  }, versions);
 }
 
 /** The live tally rows (migration 20261202010100) of the job, or of one company. */
@@ -168,7 +168,7 @@ interface CoverageRow {
 }
 
 /** The job's levels in building order with their units and checked units (cached on topic structure). */
-async function loadCoverage(sequelize: Sequelize, jobId: string): Promise<CoverageRow[]> {
+async function loadCoverage(sequelize: Sequelize, jobId: string, versions?: StatVersions): Promise<CoverageRow[]> {
   return cachedStat(sequelize, jobId, ['structure'], 'coverage', async () => {
     const rows = await select<{ level_id: string; name: string; position: number; units_total: string | null; units_checked: string | null }>(
       sequelize,
@@ -186,7 +186,7 @@ async function loadCoverage(sequelize: Sequelize, jobId: string): Promise<Covera
       [jobId],
     );
     return rows.map((r) => ({ level_id: r.level_id, name: r.name, position: r.position, units_total: num(r.units_total), units_checked: num(r.units_checked) }));
-  });
+  }, versions);
 }
 
 /**
@@ -198,10 +198,11 @@ async function loadCoverage(sequelize: Sequelize, jobId: string): Promise<Covera
  */
 export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Promise<BoardResponse> {
   const today = todayIn(scope.timeZone);
+  const versions = await readStatVersions(sequelize, scope.jobId);
   const [coverage, tallies, unresolved] = await Promise.all([
-    loadCoverage(sequelize, scope.jobId),
+    loadCoverage(sequelize, scope.jobId, versions),
     loadTallies(sequelize, scope.jobId, scope.companyId),
-    loadUnresolvedFigures(sequelize, scope.jobId, today),
+    loadUnresolvedFigures(sequelize, scope.jobId, today, versions),
   ]);
   const zero = () => ({ open: 0, open_critical: 0, open_major: 0, fix_submitted: 0, closed: 0, overdue: 0, ceiling_blockers: 0 });
   const perLevel = new Map<string, ReturnType<typeof zero>>();
@@ -467,10 +468,11 @@ interface ScorecardRow {
  */
 export async function loadScorecards(sequelize: Sequelize, scope: FindingScope): Promise<ScorecardsResponse> {
   const today = todayIn(scope.timeZone);
+  const versions = await readStatVersions(sequelize, scope.jobId);
   const [hist, tallies, unresolved] = await Promise.all([
-    cachedStat(sequelize, scope.jobId, ['structure', 'shape', 'history'], `scorecards|${scope.companyId ?? '*'}`, () => loadScorecardHistory(sequelize, scope)),
+    cachedStat(sequelize, scope.jobId, ['structure', 'shape', 'history'], `scorecards|${scope.companyId ?? '*'}`, () => loadScorecardHistory(sequelize, scope), versions),
     loadTallies(sequelize, scope.jobId, scope.companyId),
-    loadUnresolvedFigures(sequelize, scope.jobId, today),
+    loadUnresolvedFigures(sequelize, scope.jobId, today, versions),
   ]);
   const live = new Map<string, { open: number; overdue: number; fixesWaiting: number }>();
   const at = (companyId: string) => {

@@ -43,19 +43,25 @@ export function statCacheSize(): number {
   return entries.size;
 }
 
-/** The job's versions of `topics`, as one string ("0" for a topic never raised). */
-export async function statStamp(sequelize: Sequelize, jobId: string, topics: readonly StatTopic[]): Promise<string> {
-  const rows = await sequelize.query<{ topic: string; version: string }>(
-    `SELECT topic, version FROM job_stat_versions WHERE job_id = $1 AND topic = ANY ($2::text[])`,
-    { bind: [jobId, topics], type: QueryTypes.SELECT },
-  );
-  const byTopic = new Map(rows.map((r) => [r.topic, String(r.version)]));
-  return topics.map((t) => `${t}:${byTopic.get(t) ?? '0'}`).join(',');
+/** All the job's topic versions (one query; pass them to several cachedStat calls of one request). */
+export async function readStatVersions(sequelize: Sequelize, jobId: string): Promise<StatVersions> {
+  const rows = await sequelize.query<{ topic: string; version: string }>(`SELECT topic, version FROM job_stat_versions WHERE job_id = $1`, {
+    bind: [jobId],
+    type: QueryTypes.SELECT,
+  });
+  return new Map(rows.map((r) => [r.topic, String(r.version)]));
+}
+export type StatVersions = Map<string, string>;
+
+/** The versions of `topics` as one string ("0" for a topic never raised). */
+function stampOf(versions: StatVersions, topics: readonly StatTopic[]): string {
+  return topics.map((t) => `${t}:${versions.get(t) ?? '0'}`).join(',');
 }
 
 /**
  * The figure `key` of the job: from the cache while the topics' versions are unchanged, else
- * computed by `compute` (once for all requests waiting on the same versions).
+ * computed by `compute` (once for all requests waiting on the same versions). `versions`, when
+ * given, must have been read (readStatVersions) before any of the request's figures.
  */
 export async function cachedStat<T>(
   sequelize: Sequelize,
@@ -63,9 +69,10 @@ export async function cachedStat<T>(
   topics: readonly StatTopic[],
   key: string,
   compute: () => Promise<T>,
+  versions?: StatVersions,
 ): Promise<T> {
   if (disabled || bypass.getStore()) return compute();
-  const stamp = await statStamp(sequelize, jobId, topics);
+  const stamp = stampOf(versions ?? (await readStatVersions(sequelize, jobId)), topics);
   const id = `${jobId}|${key}`;
   const hit = entries.get(id);
   if (hit && hit.stamp === stamp) {
