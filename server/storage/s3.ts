@@ -14,6 +14,7 @@ import {
   S3Client,
   S3ServiceException,
 } from '@aws-sdk/client-s3';
+import { serviceUnavailable } from '../errors';
 import { assertObjectKey, type ObjectStore, type StoredObject } from './types';
 
 export interface S3StoreConfig {
@@ -34,6 +35,17 @@ const DELETE_BATCH = 1000;
 function isMissing(err: unknown): boolean {
   if (!(err instanceof S3ServiceException)) return false;
   return err.name === 'NoSuchKey' || err.name === 'NotFound' || err.$metadata.httpStatusCode === 404;
+}
+
+/**
+ * The store gave no HTTP answer at all (refused, reset, timed out, name not found): an outage,
+ * answered 503. The SDK puts `$metadata` on every error of `send()`; a service error has an
+ * HTTP status in it, a network failure has none (after the SDK's own retries).
+ */
+export function isStoreUnreachable(err: unknown): boolean {
+  if (err instanceof S3ServiceException) return false;
+  const meta = (err as { $metadata?: { httpStatusCode?: number } } | null)?.$metadata;
+  return Boolean(meta) && meta!.httpStatusCode === undefined;
 }
 
 export class S3ObjectStore implements ObjectStore {
@@ -94,6 +106,7 @@ export class S3ObjectStore implements ObjectStore {
       };
     } catch (err) {
       if (isMissing(err)) return null;
+      if (isStoreUnreachable(err)) throw serviceUnavailable('Photo storage cannot be reached just now. Try again in a moment.');
       throw err;
     }
   }

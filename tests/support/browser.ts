@@ -13,6 +13,7 @@ import type { AppOptions, TrimoutApp } from '../../server/app';
 import type { Database } from '../../server/db';
 import { buildTestApp, testEnv } from './app';
 import { connectTestDb } from './db';
+import { startFakeS3 } from './storage';
 
 export const PHONE = { width: 390, height: 844 } as const;
 export const WIDE = { width: 1280, height: 800 } as const;
@@ -42,7 +43,10 @@ export async function startBrowserHarness(appOptions: Partial<AppOptions> = {}):
     serverErrors.push(line);
     console.error(line);
   };
-  const trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }), log, ...appOptions });
+  // Photos always have a store: the test's own, or a local S3 fake for this harness (a demo
+  // finding may carry a photo another test stored elsewhere: that answers 404, not an outage).
+  const ownS3 = appOptions.objectStore ? null : await startFakeS3();
+  const trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }), log, ...(ownS3 ? { objectStore: ownS3.store } : {}), ...appOptions });
   const server: Server = await new Promise((resolve) => {
     const s = trimout.app.listen(0, '127.0.0.1', () => resolve(s));
   });
@@ -104,6 +108,7 @@ export async function startBrowserHarness(appOptions: Partial<AppOptions> = {}):
       });
       await trimout.close();
       await db.close();
+      await ownS3?.close();
     },
   };
 }

@@ -4,6 +4,7 @@
  * server/services/photos.ts.
  */
 import fs from 'node:fs/promises';
+import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import type { Readable } from 'node:stream';
@@ -122,6 +123,19 @@ describe('the local S3 fake', () => {
 });
 
 describe('createObjectStore (from the environment)', () => {
+  it('a store that cannot be reached answers 503 (an outage), not a 500', async () => {
+    // A port nothing listens on: bind one, then close it.
+    const port = await new Promise<number>((resolve) => {
+      const srv = net.createServer().listen(0, '127.0.0.1', () => {
+        const p = (srv.address() as { port: number }).port;
+        srv.close(() => resolve(p));
+      });
+    });
+    const store = createObjectStore(loadEnv({ NODE_ENV: 'development', S3_PORT: String(port) })) as S3ObjectStore;
+    await expect(store.get('2f9c0a5e-7b1d-4c3e-9a8f-1d2e3f4a5b6c.jpg')).rejects.toMatchObject({ status: 503, id: 'unavailable' });
+    store.close();
+  });
+
   it('defaults to the local fake on S3_PORT outside production', () => {
     const store = createObjectStore(loadEnv({ NODE_ENV: 'development', S3_PORT: '4599' }));
     expect(store.location).toBe('s3://trimout-photos at http://127.0.0.1:4599');
