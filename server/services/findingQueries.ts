@@ -178,6 +178,24 @@ export const FROM_SQL = `
     JOIN companies c ON c.id = f.company_id
     JOIN users lb ON lb.id = f.logged_by`;
 
+/**
+ * The findings a statement shows, picked first from findings alone (with u and ci for the
+ * filters that need them; unused LEFT JOINs on primary keys are dropped), then joined to their
+ * names through PICKED_FROM_SQL. Planning the seven-table join of FROM_SQL over all the job's
+ * findings took 7-10 ms per request on the bench machine, ten times the query itself (every
+ * statement is planned afresh); over the picked rows it is about 1 ms. `tail` = ORDER BY / LIMIT.
+ */
+export function pickedSql(where: string, tail = ''): string {
+  return `WITH picked AS MATERIALIZED (
+      SELECT f.* FROM findings f
+        LEFT JOIN units u ON u.id = f.unit_id
+        LEFT JOIN catalogue_items ci ON ci.id = f.catalogue_item_id
+       WHERE ${where} ${tail}
+    )`;
+}
+
+export const PICKED_FROM_SQL = FROM_SQL.replace('FROM findings f', 'FROM picked f');
+
 /** FROM for counts: just the tables whereSql may refer to (u, ci); unused LEFT JOINs on primary keys are dropped by the planner. */
 const COUNT_FROM_SQL = `
     FROM findings f
@@ -201,7 +219,10 @@ export function whereSql(p: Params, scope: FindingScope, filters: FindingFilters
   }
   if (filters.unitId) conds.push(`f.unit_id = ${add(filters.unitId)}`);
   if (filters.kind) conds.push(`u.kind = ${add(filters.kind)}`);
-  if (filters.status && !skip.status) conds.push(`f.status = ANY (${add(filters.status)}::text[])`);
+  // One status as an equality: then (job_id, status, due_on, id) gives the dueOn order directly.
+  if (filters.status && !skip.status) {
+    conds.push(filters.status.length === 1 ? `f.status = ${add(filters.status[0])}` : `f.status = ANY (${add(filters.status)}::text[])`);
+  }
   if (filters.severity && !skip.severity) conds.push(`f.severity = ANY (${add(filters.severity)}::text[])`);
   if (filters.companyId) conds.push(`f.company_id = ${add(filters.companyId)}`);
   if (filters.catalogueItemId) conds.push(`f.catalogue_item_id = ${add(filters.catalogueItemId)}`);
@@ -274,7 +295,8 @@ export async function listFindings(
   }
   const select = selectSql(s.key, p.today());
   const limit = p.add(page.limit + 1);
-  const rows = await sequelize.query<FindingRow>(`${select} ${FROM_SQL} WHERE ${where} ORDER BY ${orderBySql(sort)} LIMIT ${limit}`, {
+  const order = orderBySql(sort);
+  const rows = await sequelize.query<FindingRow>(`${pickedSql(where, `ORDER BY ${order} LIMIT ${limit}`)} ${select} ${PICKED_FROM_SQL} ORDER BY ${order}`, {
     bind: p.bind,
     type: QueryTypes.SELECT,
   });
@@ -364,7 +386,7 @@ export async function findingDetail(
   const p = new Params(scope.jobId, todayIn(scope.timeZone));
   const where = whereSql(p, scope, {});
   const idParam = p.add(findingId);
-  const [row] = await sequelize.query<FindingRow>(`${selectSql('f.number', p.today())} ${FROM_SQL} WHERE ${where} AND f.id = ${idParam}`, {
+  const [row] = await sequelize.query<FindingRow>(`${pickedSql(`${where} AND f.id = ${idParam}`)} ${selectSql('f.number', p.today())} ${PICKED_FROM_SQL}`, {
     bind: p.bind,
     type: QueryTypes.SELECT,
     transaction,
@@ -456,7 +478,7 @@ export async function findingsByIds(
   const p = new Params(scope.jobId, todayIn(scope.timeZone));
   const where = whereSql(p, scope, {});
   const idsParam = p.add(ids);
-  const rows = await sequelize.query<FindingRow>(`${selectSql('f.number', p.today())} ${FROM_SQL} WHERE ${where} AND f.id = ANY (${idsParam}::uuid[])`, {
+  const rows = await sequelize.query<FindingRow>(`${pickedSql(`${where} AND f.id = ANY (${idsParam}::uuid[])`)} ${selectSql('f.number', p.today())} ${PICKED_FROM_SQL}`, {
     bind: p.bind,
     type: QueryTypes.SELECT,
     transaction,

@@ -21,8 +21,15 @@ import { FindingEvent, type CatalogueItem, type Job, type UnitModel } from '../m
 // Dates
 
 /** Today's date (YYYY-MM-DD) in a time zone. */
+/** One formatter per time zone: making an Intl.DateTimeFormat costs far more than using one. */
+const dayFormats = new Map<string, Intl.DateTimeFormat>();
 export function todayIn(timeZone: string, now: Date = new Date()): string {
-  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(now);
+  let format = dayFormats.get(timeZone);
+  if (!format) {
+    format = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
+    if (dayFormats.size < 1000) dayFormats.set(timeZone, format);
+  }
+  const parts = format.formatToParts(now);
   const get = (t: string) => parts.find((p) => p.type === t)?.value ?? '';
   return `${get('year')}-${get('month')}-${get('day')}`;
 }
