@@ -155,7 +155,8 @@ export class Params {
   }
 }
 
-export function selectSql(sortKey: string, today: string): string {
+/** The finding columns with their names; `catalogue` adds the defect type's texts (detail only). */
+export function selectSql(sortKey: string, today: string, catalogue = true): string {
   return `
   SELECT f.id, f.number, f.level_id, l.name AS level_name, f.space_id, s.name AS space_name,
          f.unit_id, u.tag AS unit_tag, u.kind AS unit_kind, f.catalogue_item_id, ci.code, ci.title,
@@ -165,8 +166,9 @@ export function selectSql(sortKey: string, today: string): string {
          f.logged_by, lb.name AS logged_by_name, f.logged_at, f.walk_id, f.pin_x, f.pin_y, f.voided_reason,
          (SELECT count(*) FROM photos p WHERE p.finding_id = f.id) AS photo_count,
          (SELECT p.id FROM photos p WHERE p.finding_id = f.id ORDER BY p.created_at, p.id LIMIT 1) AS first_photo_id,
-         f.version, ${sortKey} AS sort_key,
-         ci.description, ci.fix_guidance, ci.caution, ci.needs_ceiling_access, ci.measured_rule`;
+         f.version, ${sortKey} AS sort_key${
+           catalogue ? ',\n         ci.description, ci.fix_guidance, ci.caution, ci.needs_ceiling_access, ci.measured_rule' : ''
+         }`;
 }
 
 export const FROM_SQL = `
@@ -293,7 +295,7 @@ export async function listFindings(
     const op = s.desc ? '<' : '>';
     where += ` AND (${s.expr} ${op} ${v} OR (${s.expr} = ${v} AND f.id ${op} ${id}))`;
   }
-  const select = selectSql(s.key, p.today());
+  const select = selectSql(s.key, p.today(), false);
   const limit = p.add(page.limit + 1);
   const order = orderBySql(sort);
   const rows = await sequelize.query<FindingRow>(`${pickedSql(where, `ORDER BY ${order} LIMIT ${limit}`)} ${select} ${PICKED_FROM_SQL} ORDER BY ${order}`, {
