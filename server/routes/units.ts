@@ -34,7 +34,7 @@ import { destroyOrConflict, inTransaction, likeContains, lockForChange } from '.
 import { decodeCsv, importUnits } from '../services/unitImport';
 import { csvFileName, exportLimiter } from '../services/csvSafe';
 import { exportUnits } from '../services/unitExport';
-import { checkUnitRefs, duplicateTag, tagTaken, UNIT_INCLUDES } from '../services/units';
+import { checkUnitRefs, duplicateTag, tagTaken, UNIT_INCLUDES, UNIT_LIST_INCLUDES } from '../services/units';
 import { setEtag } from '../services/versioning';
 
 const IMPORT_BODY_LIMIT = '3mb';
@@ -91,9 +91,11 @@ export function unitsRouter(): Router {
         ...unitWhere(req.membership!.job.id, query),
         ...afterCursor('tag', page),
       },
-      include: UNIT_INCLUDES,
+      include: UNIT_LIST_INCLUDES,
       order: [['tag', 'ASC'], ['id', 'ASC']],
       limit: page.limit + 1,
+      raw: true,
+      nest: true,
     });
     const { rows: units, nextCursor } = finishPage(rows, page, (u) => u.tag);
     res.json({ items: units.map(presentUnit), nextCursor });

@@ -59,6 +59,8 @@ describe('units: read', () => {
       expect(one.status).toBe(200);
       expect(one.headers.etag).toBe('"v1"');
       expect(one.body).toMatchObject({ tag: 'IU-L1-01', levelName: 'Level 1', spaceName: 'Office 101', systemName: 'VRF-1' });
+      // The list's items (plain rows) are exactly what reading each unit gives.
+      for (const item of all.body.items as { id: string }[]) expect(item).toEqual((await who.get(jobPath(s.job.id, `/units/${item.id}`))).body);
     }
     const tags = async (q: string) => (await crew.insp.get(jobPath(s.job.id, `/units?${q}`))).body.items.map((u: { tag: string }) => u.tag);
     expect(await tags(`levelId=${s.l2.id}`)).toEqual(['IU-L2-01']);
