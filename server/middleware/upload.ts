@@ -16,7 +16,7 @@
  */
 import type { RequestHandler } from 'express';
 import multer from 'multer';
-import { HttpError } from '../errors';
+import { badRequest, HttpError } from '../errors';
 
 export const PHOTO_LIMITS = {
   /** Bytes per photo (security.md: 15 MB). */
@@ -105,4 +105,33 @@ export function uploadPhotos(options: UploadPhotosOptions = {}): RequestHandler 
 /** The photos read by uploadPhotos(), in the order sent. */
 export function uploadedFiles(req: Express.Request): Express.Multer.File[] {
   return Array.isArray(req.files) ? req.files : [];
+}
+
+/**
+ * A write with photos: multipart/form-data with `photos` files and one `data` field holding the
+ * JSON body, which becomes req.body. Any other form field is refused by name (400). `what` names
+ * the record in the messages ("finding", "fix"). A request that is not multipart goes on as it is
+ * (`otherwise: 'next'`, a JSON body without photos) or is refused with `otherwise` (400).
+ */
+export function photosWithJsonData(what: string, otherwise: 'next' | (() => HttpError)): RequestHandler {
+  return (req, res, next) => {
+    if (!req.is('multipart/form-data')) return next(otherwise === 'next' ? undefined : otherwise());
+    uploadPhotos({ field: 'photos' })(req, res, (err?: unknown) => {
+      if (err) return next(err);
+      const fields = (req.body ?? {}) as Record<string, unknown>;
+      const extra = Object.keys(fields).find((k) => k !== 'data');
+      if (extra !== undefined) {
+        return next(badRequest(`${extra}: Unknown form field; send the ${what} as JSON in "data".`, { [extra]: 'Unknown form field.' }));
+      }
+      if (typeof fields.data !== 'string') {
+        return next(badRequest(`data: Send the ${what} as JSON in the "data" field.`, { data: `Send the ${what} as JSON.` }));
+      }
+      try {
+        req.body = JSON.parse(fields.data) as unknown;
+      } catch {
+        return next(badRequest('data: The "data" field is not valid JSON.', { data: 'Not valid JSON.' }));
+      }
+      next();
+    });
+  };
 }

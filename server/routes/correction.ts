@@ -38,7 +38,7 @@ import {
 import { jobParamsSchema } from '../../shared/schemas/setup';
 import type { FindingStatus } from '../../shared/words';
 import { badRequest, forbidden, HttpError, notFound } from '../errors';
-import { uploadedFiles, uploadPhotos } from '../middleware/upload';
+import { photosWithJsonData, uploadedFiles } from '../middleware/upload';
 import { valid, validate, zodFieldErrors } from '../middleware/validate';
 import { Finding, Fix, Photo } from '../models';
 import { policy } from '../policies';
@@ -106,24 +106,10 @@ function eventDto(e: { id: string; kind: FindingEventKind; at: Date; from: Recor
 }
 
 /** multipart `data` (JSON) + `photos`; the parsed JSON becomes req.body. JSON bodies are refused: a fix needs photos. */
-const fixUpload: RequestHandler = (req, res, next) => {
-  if (!req.is('multipart/form-data')) {
-    return next(badRequest('photos: A fix needs at least one photo; send multipart/form-data with "data" and "photos".', { photos: 'Add at least one photo of the fix.' }));
-  }
-  uploadPhotos({ field: 'photos' })(req, res, (err?: unknown) => {
-    if (err) return next(err);
-    const fields = (req.body ?? {}) as Record<string, unknown>;
-    const extra = Object.keys(fields).filter((k) => k !== 'data');
-    if (extra.length > 0) return next(badRequest(`${extra[0]}: Unknown form field; send the fix as JSON in "data".`, { [extra[0]!]: 'Unknown form field.' }));
-    if (typeof fields.data !== 'string') return next(badRequest('data: Send the fix as JSON in the "data" field.', { data: 'Send the fix as JSON.' }));
-    try {
-      req.body = JSON.parse(fields.data) as unknown;
-    } catch {
-      return next(badRequest('data: The "data" field is not valid JSON.', { data: 'Not valid JSON.' }));
-    }
-    next();
-  });
-};
+const fixUpload = photosWithJsonData(
+  'fix',
+  () => badRequest('photos: A fix needs at least one photo; send multipart/form-data with "data" and "photos".', { photos: 'Add at least one photo of the fix.' }),
+);
 
 function validateFixBody(req: Request, _res: Response, next: NextFunction) {
   const result = submitFixSchema.safeParse(req.body ?? {});

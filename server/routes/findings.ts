@@ -26,7 +26,7 @@ import {
 } from '../../shared/schemas/findings';
 import type { Severity } from '../../shared/words';
 import { badRequest, notFound } from '../errors';
-import { uploadedFiles, uploadPhotos } from '../middleware/upload';
+import { photosWithJsonData, uploadedFiles } from '../middleware/upload';
 import { valid, validate, zodFieldErrors } from '../middleware/validate';
 import { CatalogueItem, Finding, Level, Photo, Space, Unit, UnitCheck, UnitModel } from '../models';
 import { policy } from '../policies';
@@ -53,27 +53,8 @@ function scopeOf(req: Request): FindingScope {
   return { jobId: job.id, timeZone: job.timeZone || 'UTC', companyId: role === 'subcontractor' ? companyId : null };
 }
 
-/** Multipart → upload middleware, then the `data` field parsed as the JSON body; JSON passes through. */
-const multipartOrJson: RequestHandler = (req, res, next) => {
-  if (!req.is('multipart/form-data')) return next();
-  uploadPhotos({ field: 'photos' })(req, res, (err?: unknown) => {
-    if (err) return next(err);
-    const fields = (req.body ?? {}) as Record<string, unknown>;
-    const extra = Object.keys(fields).filter((k) => k !== 'data');
-    if (extra.length > 0) {
-      return next(badRequest(`${extra[0]}: Unknown form field; send the finding as JSON in "data".`, { [extra[0]!]: 'Unknown form field.' }));
-    }
-    if (typeof fields.data !== 'string') {
-      return next(badRequest('data: Send the finding as JSON in the "data" field.', { data: 'Send the finding as JSON.' }));
-    }
-    try {
-      req.body = JSON.parse(fields.data) as unknown;
-    } catch {
-      return next(badRequest('data: The "data" field is not valid JSON.', { data: 'Not valid JSON.' }));
-    }
-    next();
-  });
-};
+/** Multipart: photos plus the finding as JSON in `data`; a JSON body (no photos) passes through. */
+const multipartOrJson = photosWithJsonData('finding', 'next');
 
 /** Validates the body after multipartOrJson and keeps the original for the idempotency fingerprint. */
 function validateFindingBody(req: Request, _res: Response, next: NextFunction) {
