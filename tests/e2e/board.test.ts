@@ -35,13 +35,7 @@ afterAll(async () => {
   await h?.close();
 });
 
-async function signIn(page: Page, email: string) {
-  await page.goto(`${h.baseUrl}/sign-in`);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByTestId('job-list').waitFor();
-}
+const signIn = (page: Page, email: string) => h.signIn(page, email, DEMO_PASSWORD);
 
 async function text(page: Page, testID: string): Promise<string> {
   return ((await page.getByTestId(testID).first().textContent()) ?? '').trim();

@@ -26,13 +26,7 @@ afterAll(async () => {
   await h?.close();
 });
 
-async function signIn(page: Page, email: string) {
-  await page.goto(`${h.baseUrl}/sign-in`);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByTestId('job-list').waitFor();
-}
+const signIn = (page: Page, email: string) => h.signIn(page, email, DEMO_PASSWORD);
 
 async function download(page: Page, testID: string): Promise<{ name: string; text: string }> {
   const [file] = await Promise.all([page.waitForEvent('download'), page.getByTestId(testID).click()]);

@@ -67,13 +67,7 @@ afterAll(async () => {
   await s3?.close();
 });
 
-async function signIn(page: Page, email: string) {
-  await page.goto(`${h.baseUrl}/sign-in`);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill(DEMO_PASSWORD);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByTestId('job-list').waitFor();
-}
+const signIn = (page: Page, email: string) => h.signIn(page, email, DEMO_PASSWORD);
 
 /** Taps the plan at fractions (fx, fy) of the visible viewport; returns where that is on the page. */
 async function tapPlan(page: Page, fx: number, fy: number) {

@@ -32,13 +32,7 @@ afterAll(async () => {
   await h?.close();
 });
 
-async function signIn(page: Page, email: string) {
-  await page.goto(`${h.baseUrl}/sign-in`);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill(TEST_PASSWORD);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByTestId('job-list-screen').waitFor();
-}
+const signIn = (page: Page, email: string) => h.signIn(page, email, TEST_PASSWORD, 'job-list-screen');
 
 /**
  * The screens scroll inside the app (not the document), so a full-page screenshot would stop at

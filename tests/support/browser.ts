@@ -27,6 +27,8 @@ export interface BrowserHarness {
   baseUrl: string;
   newPage(viewport: { width: number; height: number }): Promise<{ page: Page; context: BrowserContext; problems: string[] }>;
   screenshot(page: Page, name: string): Promise<void>;
+  /** Signs in through the sign-in form and waits for `landing` (a testID; the job list by default). */
+  signIn(page: Page, email: string, password: string, landing?: string): Promise<void>;
   close(): Promise<void>;
 }
 
@@ -94,6 +96,13 @@ export async function startBrowserHarness(appOptions: Partial<AppOptions> = {}):
         if (res.status() >= 500) problems.push(`HTTP ${res.status()} ${res.request().method()} ${new URL(res.url()).pathname}${serverErrors.length ? ` (${serverErrors.at(-1)})` : ''}`);
       });
       return { page, context: ctx, problems };
+    },
+    async signIn(page, email, password, landing = 'job-list') {
+      await page.goto(`${baseUrl}/sign-in`);
+      await page.getByTestId('sign-in-email').fill(email);
+      await page.getByTestId('sign-in-password').fill(password);
+      await page.getByTestId('sign-in-submit').click();
+      await page.getByTestId(landing).waitFor();
     },
     async screenshot(page, name) {
       await page.screenshot({ path: path.join(screenshotsDir, `${name}.png`), fullPage: true });
