@@ -10,7 +10,8 @@ import type { QueryInterface } from 'sequelize';
  *    order (by key), so a fix (open -> fix_submitted) and a return (fix_submitted -> open) in the
  *    same group at the same moment cannot deadlock.
  *
- * 2. `job_stat_versions`: a counter per (job, topic), raised once per transaction by any change
+ * 2. `job_stat_versions`: a counter per (job, topic), raised once per transaction (at its commit since
+ *    migration 20261202010300) by any change
  *    that can alter a cached figure (server/services/statCache.ts). A figure is cached with the
  *    versions read before computing it and served again only while they are unchanged, so the
  *    cache is exact: a committed change always raises the version in its own transaction.

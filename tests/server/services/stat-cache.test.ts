@@ -177,6 +177,38 @@ describe('tallies and the stat cache', () => {
     await expectCacheExact();
   });
 
+  it('a reassignment (event, then finding) and a re-inspection (finding, then event) at the same moment do not deadlock', async () => {
+    // The two write paths touch the versions in opposite orders. Raised mid-transaction, each
+    // would hold a version row the other waits for (PostgreSQL would abort one as a deadlock);
+    // raised at commit in one order (migration 20261202010300), both commit.
+    const a = await oneFinding(`status = 'open' AND company_id <> '${subScope.companyId}'`);
+    const b = await oneFinding(`status = 'fix_submitted'`);
+    const ta = await db.sequelize.transaction();
+    const tb = await db.sequelize.transaction();
+    try {
+      await recordFindingEvent(
+        { findingId: a.id, jobId: bench.jobId, actorId, kind: 'reassigned', from: { companyId: a.company_id }, to: { companyId: subScope.companyId }, reason: 'stat cache test' },
+        ta,
+      );
+      await db.sequelize.query(`UPDATE findings SET status = 'closed' WHERE id = $1`, { bind: [b.id], transaction: tb });
+      const moveA = db.sequelize.query(`UPDATE findings SET company_id = $2 WHERE id = $1`, { bind: [a.id, subScope.companyId], transaction: ta });
+      await new Promise((resolve) => setTimeout(resolve, 200));
+      await recordFindingEvent(
+        { findingId: b.id, jobId: bench.jobId, actorId, kind: 'accepted', from: { status: 'fix_submitted' }, to: { status: 'closed' }, reason: 'stat cache test' },
+        tb,
+      );
+      await tb.commit();
+      await moveA;
+      await ta.commit();
+    } catch (err) {
+      await ta.rollback().catch(() => undefined);
+      await tb.rollback().catch(() => undefined);
+      throw err;
+    }
+    await expectTalliesExact();
+    await expectCacheExact();
+  });
+
   it('deleting findings (with their job) leaves no tally or version rows behind', async () => {
     const f = await oneFinding(`true`);
     await db.sequelize.query(`DELETE FROM findings WHERE id = $1`, { bind: [f.id] }).catch(() => undefined); // events may refuse it
