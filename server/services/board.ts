@@ -1,8 +1,10 @@
 /**
  * The GC's view of a job (issue 7): levels board, readiness, company scorecards, recurring
  * defects and the open-findings trend. Every number is computed in PostgreSQL (GROUP BY,
- * FILTER (WHERE ...), window functions, percentile_cont); Node only shapes the rows into the
- * response types of shared/schemas/board.ts. Definitions: docs/api-board.md.
+ * FILTER (WHERE ...), window functions, percentile_cont), or read from the trigger-kept tallies;
+ * Node only adds up those few rows and shapes them into the response types of
+ * shared/schemas/board.ts. Heavy figures go through the exact cache of statCache.ts.
+ * Definitions: docs/api-board.md.
  *
  * Scope: `scope.companyId` (set for a subcontractor) is a condition in the SQL WHERE of every
  * finding read here, exactly as in findingQueries.ts, so a subcontractor's numbers cover only
@@ -57,8 +59,6 @@ function companyCond(b: Bind, scope: FindingScope, alias = 'f'): string {
   return scope.companyId ? ` AND ${alias}.company_id = ${b.add(scope.companyId)}::uuid` : '';
 }
 
-/** Unresolved and past due: the same expression as the findings list's overdue filter. */
-const overdueSql = (alias: string, today: string) => `(${alias}.due_on < ${today} AND ${alias}.status IN ('open', 'fix_submitted'))`;
 
 /** Each unit's latest check (walkUnits.ts: ORDER BY checked_at DESC, id DESC) on the job; $1 = job. */
 const LATEST_CHECK_CTE = `latest_check AS (

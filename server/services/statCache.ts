@@ -16,7 +16,8 @@ import { QueryTypes, type Sequelize } from 'sequelize';
 
 export type StatTopic = 'structure' | 'shape' | 'moved' | 'unresolved' | 'history' | 'past';
 
-const MAX_ENTRIES = Number(process.env.STAT_CACHE_MAX_ENTRIES ?? 500);
+/** Entries kept (least recently used go first): a few figures per job and scope. */
+const MAX_ENTRIES = 500;
 
 interface Entry {
   stamp: string;
@@ -24,23 +25,11 @@ interface Entry {
 }
 
 const entries = new Map<string, Entry>();
-let disabled = process.env.STAT_CACHE === 'off';
-
 const bypass = new AsyncLocalStorage<true>();
 
 /** Tests: run `fn` with every figure computed afresh (the cache is neither read nor written). */
 export function withoutStatCache<T>(fn: () => Promise<T>): Promise<T> {
   return bypass.run(true, fn);
-}
-
-/** Tests: turn the cache off (every call computes) or on, and empty it. */
-export function setStatCacheEnabled(on: boolean): void {
-  disabled = !on;
-  entries.clear();
-}
-
-export function statCacheSize(): number {
-  return entries.size;
 }
 
 /** All the job's topic versions (one query; pass them to several cachedStat calls of one request). */
@@ -71,7 +60,7 @@ export async function cachedStat<T>(
   compute: () => Promise<T>,
   versions?: StatVersions,
 ): Promise<T> {
-  if (disabled || bypass.getStore()) return compute();
+  if (bypass.getStore()) return compute();
   const stamp = stampOf(versions ?? (await readStatVersions(sequelize, jobId)), topics);
   const id = `${jobId}|${key}`;
   const hit = entries.get(id);
