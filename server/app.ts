@@ -14,6 +14,7 @@ import type { Database } from './db';
 import type { Env } from './env';
 import { apiNotFound, errorHandler, unauthorized } from './errors';
 import { csrfProtection } from './middleware/csrf';
+import { closeUnreadBodies, createUploadGuard, type UploadLimits } from './middleware/upload';
 import { requireJsonBody } from './middleware/json';
 import { createMailService, type MailService } from './mail';
 import { accountsRouter } from './routes/accounts';
@@ -62,6 +63,10 @@ export interface AppOptions {
   mail?: MailService;
   /** Photo storage (server/storage): made from env when not given; tests pass one on their S3 fake. */
   objectStore?: ObjectStore;
+  /** Per-user upload limits (server/middleware/upload.ts DEFAULT_UPLOAD_LIMITS when not given). */
+  uploadLimits?: Partial<UploadLimits>;
+  /** Where uploads' temporary folders are made (default: trimout-uploads in the OS temp folder). */
+  uploadTempRoot?: string;
 }
 
 export interface TrimoutApp {
@@ -125,6 +130,9 @@ export function createApp(options: AppOptions): TrimoutApp {
     res.set('Cache-Control', 'no-store');
     next();
   });
+  // A request refused before its body was read (an upload to a finding that is not yours):
+  // the rest is discarded as it arrives, and the connection closed if it keeps coming.
+  api.use(closeUnreadBodies());
   // RFC 8058 one-click unsubscribe: public, token-authorised, form or JSON body, no session and no
   // CSRF header (see server/routes/preferences.ts); so it comes before the JSON-only and CSRF checks.
   api.use(unsubscribeRouter({ secrets: env.sessionSecrets }));
@@ -183,9 +191,11 @@ export function createApp(options: AppOptions): TrimoutApp {
   api.use(walksRouter());
   api.use(checksRouter());
   const photoStore = options.objectStore ?? createObjectStore(env);
-  api.use(findingsRouter({ store: photoStore, log }));
-  api.use(correctionRouter({ store: photoStore, log }));
-  api.use(plansRouter({ store: photoStore, log }));
+  // One set of per-user upload limits for every upload route.
+  const uploads = createUploadGuard({ limits: options.uploadLimits, tempRoot: options.uploadTempRoot });
+  api.use(findingsRouter({ store: photoStore, uploads, log }));
+  api.use(correctionRouter({ store: photoStore, uploads, log }));
+  api.use(plansRouter({ store: photoStore, uploads, log }));
   api.use(boardRouter());
   api.use(exportsRouter({ publicUrl: env.PUBLIC_URL, log }));
   api.use(apiNotFound);

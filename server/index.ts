@@ -7,6 +7,8 @@ import { startFakeSmtp, type FakeSmtp } from './mail/fakeSmtp';
 import type { DigestService } from './digests/service';
 import { startDigestScheduler, type DigestScheduler } from './digests/scheduler';
 import { pruneIdempotencyKeys } from './services/idempotency';
+import { reapOrphanUploads, REAP_INTERVAL_MINUTES } from './services/pendingUploads';
+import { createObjectStore } from './storage';
 
 export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   const env = loadEnv(envSource);
@@ -17,7 +19,8 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   const log = (m: string, e?: unknown) => console.error(m, e);
   const mail = createMailService({ env, fake, log });
   const db = connect(env.DATABASE_URL);
-  const { app, close } = createApp({ env, db, mail, log });
+  const objectStore = createObjectStore(env);
+  const { app, close } = createApp({ env, db, mail, log, objectStore });
   // Digests: pg-boss keeps its state in PostgreSQL (schema pgboss); an hourly job sends what is due.
   let scheduler: DigestScheduler | undefined;
   if (env.DIGEST_SCHEDULER) {
@@ -33,6 +36,15 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   prune();
   const pruneTimer = setInterval(prune, 6 * 60 * 60 * 1000);
   pruneTimer.unref();
+  // Uploads stored by a write that never committed (a crash, a kill): reaped at start and every
+  // REAP_INTERVAL_MINUTES once their pending row is old enough (server/services/pendingUploads.ts).
+  const reap = () =>
+    void reapOrphanUploads(db.sequelize, objectStore)
+      .then((r) => r.deleted > 0 && log(`removed ${r.deleted} orphaned upload(s) of writes that never committed`))
+      .catch((err: unknown) => log('reaping orphaned uploads failed', err));
+  reap();
+  const reapTimer = setInterval(reap, REAP_INTERVAL_MINUTES * 60 * 1000);
+  reapTimer.unref();
   const server = await new Promise<import('node:http').Server>((resolve, reject) => {
     const s = app.listen(env.PORT, env.HOST, () => resolve(s));
     s.on('error', reject);
@@ -45,6 +57,7 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
     mailboxUrl: fake ? `http://${env.HOST}:${port}/mailbox` : undefined,
     async stop() {
       clearInterval(pruneTimer);
+      clearInterval(reapTimer);
       const closed = new Promise<void>((resolve) => server.close(() => resolve()));
       server.closeIdleConnections();
       await closed;

@@ -6,8 +6,10 @@
  * A backup is one folder, backups/<timestamp>/ by default (git-ignored):
  *   database.dump     pg_dump -Fc of DATABASE_URL
  *   objects/<key>     each stored object's bytes
- *   manifest.json     when, from where, table row counts, and per object its content type,
- *                     size and SHA-256 (restore checks them)
+ *   manifest.json     when, from where, table row counts, per object its content type, size
+ *                     and SHA-256 (restore checks them), and `uploads`: pending uploads (stored
+ *                     objects whose write has not committed; older ones are orphans the server's
+ *                     reaper removes) and objects no photo or plan references
  * Restore writes into a database that is empty (created when missing) and puts every object
  * back into the configured store; it refuses a database that already has Trimout's tables.
  */
@@ -20,6 +22,7 @@ import pg from 'pg';
 import { DiskObjectStore } from '../../server/storage/disk';
 import { S3ObjectStore } from '../../server/storage/s3';
 import type { ObjectStore } from '../../server/storage/types';
+import { PENDING_UPLOAD_MAX_AGE_MINUTES } from '../../server/services/pendingUploads';
 import { ensurePostgresInstalled } from './postgres';
 
 export interface ObjectEntry {
@@ -29,6 +32,16 @@ export interface ObjectEntry {
   sha256: string;
 }
 
+/** What the backup found of uploads that no committed row references (server/services/pendingUploads.ts). */
+export interface UploadsReport {
+  /** Rows in pending_uploads: objects stored by a write that has not committed (yet). */
+  pending: number;
+  /** Of those, rows older than the reaper's age: writes that never committed (orphans). */
+  pendingOrphans: number;
+  /** Objects in the store that no photo row and no level's plan references (pending or not). */
+  unreferencedObjects: number;
+}
+
 export interface Manifest {
   format: 'trimout-backup-1';
   createdAt: string;
@@ -36,6 +49,8 @@ export interface Manifest {
   store: string;
   tables: Record<string, number>;
   objects: ObjectEntry[];
+  /** Absent in backups made before pending uploads were recorded. */
+  uploads?: UploadsReport;
 }
 
 /** pg_dump / pg_restore of the installed server version (scripts/lib/postgres.ts finds it). */
@@ -110,6 +125,30 @@ export async function tableCounts(databaseUrl: string): Promise<Record<string, n
   }
 }
 
+/** Pending uploads, and which of `keys` no photo row or level plan references. */
+export async function uploadsReport(databaseUrl: string, keys: readonly string[]): Promise<UploadsReport> {
+  const client = new pg.Client({ connectionString: databaseUrl });
+  await client.connect();
+  try {
+    const pending = await client.query<{ pending: string; orphans: string }>(
+      `SELECT count(*) AS pending, count(*) FILTER (WHERE created_at < now() - make_interval(mins => $1)) AS orphans FROM pending_uploads`,
+      [PENDING_UPLOAD_MAX_AGE_MINUTES],
+    );
+    const referenced = await client.query<{ key: string }>(
+      `SELECT k AS key FROM unnest($1::text[]) AS k
+        WHERE EXISTS (SELECT 1 FROM photos WHERE storage_key = k OR thumb_key = k) OR EXISTS (SELECT 1 FROM levels WHERE plan_key = k)`,
+      [keys],
+    );
+    return {
+      pending: Number(pending.rows[0]!.pending),
+      pendingOrphans: Number(pending.rows[0]!.orphans),
+      unreferencedObjects: keys.length - referenced.rows.length,
+    };
+  } finally {
+    await client.end();
+  }
+}
+
 export function timestampFolder(now = new Date()): string {
   return now.toISOString().replace(/[:]/g, '-').replace(/\..+$/, 'Z');
 }
@@ -137,6 +176,7 @@ export async function backup(options: { databaseUrl: string; store: ObjectStore;
     fs.writeFileSync(file, body, { mode: 0o600 });
     objects.push({ key, contentType: found.contentType, bytes: body.length, sha256: createHash('sha256').update(body).digest('hex') });
   }
+  const uploads = await uploadsReport(options.databaseUrl, objects.map((o) => o.key));
   const manifest: Manifest = {
     format: 'trimout-backup-1',
     createdAt: new Date().toISOString(),
@@ -144,9 +184,13 @@ export async function backup(options: { databaseUrl: string; store: ObjectStore;
     store: options.store.location,
     tables,
     objects,
+    uploads,
   };
   fs.writeFileSync(path.join(outDir, 'manifest.json'), `${JSON.stringify(manifest, null, 2)}\n`, { mode: 0o600 });
   log(`Backup written to ${outDir}: ${Object.values(tables).reduce((a, b) => a + b, 0)} rows in ${Object.keys(tables).length} tables, ${objects.length} objects.`);
+  log(
+    `Uploads: ${uploads.pending} pending (${uploads.pendingOrphans} older than ${PENDING_UPLOAD_MAX_AGE_MINUTES} minutes: orphans the server's reaper removes), ${uploads.unreferencedObjects} objects referenced by no photo or plan.`,
+  );
   return manifest;
 }
 

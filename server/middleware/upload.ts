@@ -1,10 +1,19 @@
 /**
- * Multipart uploads of photos, for the upload routes ONLY (never mounted globally).
+ * Multipart uploads of photos and plans, for the upload routes ONLY (never mounted globally).
  *
- * multer with memory storage and explicit limits (its defaults are unlimited): at most
- * 15 MB per file, 10 files and 20 other fields per request, short field names and values.
- * Files stay in memory only until the handler has processed them (server/services/photos.ts);
- * nothing reaches a disk or the object store here, so a refused upload leaves nothing behind.
+ * Order on every upload route (security.md: authorise before reading the body):
+ *   policy (401/403/404) → `guard.rate` (429, per user) → the route's target check (the finding
+ *   or level exists and is the caller's: 404/403/409) → the multipart parser → processing.
+ * A request refused before the parser is answered at once; its body is never parsed, buffered or
+ * written anywhere. Node discards what the client still sends (so the client reads the answer
+ * instead of a reset connection), and `closeUnreadBodies` closes the connection if that takes
+ * longer than UNREAD_BODY_LINGER_MS.
+ *
+ * The parser is multer with explicit limits (its defaults are unlimited): at most 15 MB per file,
+ * 10 files and 20 other fields per request, short field names and values. Files are streamed to
+ * a private temporary folder made for the request (never memory) and hashed (SHA-256) on the
+ * way, for the idempotency fingerprint; the folder is removed when the response is done, in
+ * every outcome (answered, refused, failed, client gone). A refused upload leaves nothing behind.
  *
  * Every error raised while reading the body becomes a JSON error from server/errors.ts,
  * classified by multer's error code (never by message text):
@@ -13,10 +22,23 @@
  *   truncated multipart body → 400.
  * The request body is drained before the answer (multer does this), so the client gets the
  * JSON answer instead of a reset connection, and the server keeps serving.
+ *
+ * Per user (`createUploadGuard`, in memory per server node like the sign-in limits): at most
+ * `requestsPerWindow` upload requests and `pixelsPerWindow` decoded pixels per window; over
+ * either → 429 with Retry-After. The per-request pixel budget and the decode slots are in
+ * server/services/photos.ts.
  */
-import type { RequestHandler } from 'express';
+import { createHash, randomUUID } from 'node:crypto';
+import fs from 'node:fs';
+import { mkdir, mkdtemp, rm } from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
+import { Transform } from 'node:stream';
+import { pipeline } from 'node:stream/promises';
+import type { Request, RequestHandler } from 'express';
+import { rateLimit } from 'express-rate-limit';
 import multer from 'multer';
-import { badRequest, HttpError } from '../errors';
+import { badRequest, HttpError, tooManyRequests } from '../errors';
 
 export const PHOTO_LIMITS = {
   /** Bytes per photo (security.md: 15 MB). */
@@ -57,29 +79,93 @@ function mapMulterError(err: multer.MulterError): HttpError {
   }
 }
 
+// ---------------------------------------------------------------------------------------------
+// Temporary files
+
+/** Where request folders are made (each request gets its own, removed after the response). */
+export const UPLOAD_TEMP_ROOT = path.join(os.tmpdir(), 'trimout-uploads');
+
+/** An uploaded file as the routes see it: on disk, with its size and SHA-256. */
+export type UploadedFile = Express.Multer.File & { sha256: string };
+
+const requestFolders = new WeakMap<Request, Promise<string>>();
+
+/** The request's private folder, made on its first file; removed once the response is over. */
+function requestFolder(req: Request, root: string): Promise<string> {
+  let folder = requestFolders.get(req);
+  if (!folder) {
+    folder = mkdir(root, { recursive: true, mode: 0o700 }).then(() => mkdtemp(path.join(root, 'req-')));
+    requestFolders.set(req, folder);
+    const remove = () => void folder!.then((dir) => rm(dir, { recursive: true, force: true })).catch(() => undefined);
+    const res = req.res;
+    if (!res || res.writableFinished || res.destroyed) remove();
+    else res.once('close', remove);
+  }
+  return folder;
+}
+
+/**
+ * multer storage engine: streams each file into the request's folder under a random name
+ * (never the client's file name) and computes its SHA-256 while it passes.
+ */
+class TempFileStorage implements multer.StorageEngine {
+  constructor(private readonly root: string) {}
+
+  _handleFile(req: Request, file: Express.Multer.File, cb: (error?: unknown, info?: Partial<UploadedFile>) => void): void {
+    requestFolder(req, this.root)
+      .then(async (dir) => {
+        const target = path.join(dir, randomUUID());
+        const hash = createHash('sha256');
+        let size = 0;
+        const hasher = new Transform({
+          transform(chunk: Buffer, _enc, done) {
+            hash.update(chunk);
+            size += chunk.length;
+            done(null, chunk);
+          },
+        });
+        await pipeline(file.stream, hasher, fs.createWriteStream(target, { flags: 'wx', mode: 0o600 }));
+        cb(null, { path: target, size, sha256: hash.digest('hex') });
+      })
+      .catch((err: unknown) => cb(err));
+  }
+
+  _removeFile(_req: Request, file: Express.Multer.File, cb: (error: Error | null) => void): void {
+    if (!file.path) return cb(null);
+    fs.rm(file.path, { force: true }, () => cb(null));
+  }
+}
+
+/** A multer instance writing to temporary files under `root`. */
+export function tempFileMulter(root: string, limits: multer.Options['limits']): multer.Multer {
+  return multer({ storage: new TempFileStorage(root), limits });
+}
+
+// ---------------------------------------------------------------------------------------------
+// Photos
+
 export interface UploadPhotosOptions {
   /** The multipart field that carries the photos. */
   field?: string;
+  /** Where the request's temporary folder is made (default UPLOAD_TEMP_ROOT). */
+  tempRoot?: string;
 }
 
 /**
  * Reads `multipart/form-data` with up to 10 photos in `field` (default "photos") into
- * `req.files` (memory buffers) and the other fields into `req.body`. A request that is not
- * multipart is refused with 415. A request that declares a body larger than every limit
- * allows together is refused with 413 before reading it.
+ * `req.files` (temporary files, see UploadedFile) and the other fields into `req.body`. A
+ * request that is not multipart is refused with 415. A request that declares a body larger
+ * than every limit allows together is refused with 413 before reading it.
  */
 export function uploadPhotos(options: UploadPhotosOptions = {}): RequestHandler {
   const field = options.field ?? 'photos';
-  const parser = multer({
-    storage: multer.memoryStorage(),
-    limits: {
-      fileSize: PHOTO_LIMITS.fileSize,
-      files: PHOTO_LIMITS.files,
-      fields: PHOTO_LIMITS.fields,
-      fieldSize: PHOTO_LIMITS.fieldSize,
-      fieldNameSize: PHOTO_LIMITS.fieldNameSize,
-      parts: PHOTO_LIMITS.files + PHOTO_LIMITS.fields,
-    },
+  const parser = tempFileMulter(options.tempRoot ?? UPLOAD_TEMP_ROOT, {
+    fileSize: PHOTO_LIMITS.fileSize,
+    files: PHOTO_LIMITS.files,
+    fields: PHOTO_LIMITS.fields,
+    fieldSize: PHOTO_LIMITS.fieldSize,
+    fieldNameSize: PHOTO_LIMITS.fieldNameSize,
+    parts: PHOTO_LIMITS.files + PHOTO_LIMITS.fields,
   }).array(field, PHOTO_LIMITS.files);
 
   return (req, res, next) => {
@@ -103,8 +189,24 @@ export function uploadPhotos(options: UploadPhotosOptions = {}): RequestHandler 
 }
 
 /** The photos read by uploadPhotos(), in the order sent. */
-export function uploadedFiles(req: Express.Request): Express.Multer.File[] {
-  return Array.isArray(req.files) ? req.files : [];
+export function uploadedFiles(req: Express.Request): UploadedFile[] {
+  return (Array.isArray(req.files) ? req.files : []) as UploadedFile[];
+}
+
+/**
+ * What the idempotency fingerprint knows of a request's files: field, size and SHA-256 of each,
+ * in the order sent (empty without files). The same Idempotency-Key with another file is then
+ * "another request" (422), never a silent replay of the first answer.
+ */
+export function uploadDigests(req: Express.Request): Array<{ field: string; bytes: number; sha256: string }> {
+  const files: Express.Multer.File[] = Array.isArray(req.files)
+    ? req.files
+    : req.files
+      ? Object.values(req.files).flat()
+      : req.file
+        ? [req.file]
+        : [];
+  return files.map((f) => ({ field: f.fieldname, bytes: f.size, sha256: (f as Partial<UploadedFile>).sha256 ?? '' }));
 }
 
 /**
@@ -113,10 +215,11 @@ export function uploadedFiles(req: Express.Request): Express.Multer.File[] {
  * the record in the messages ("finding", "fix"). A request that is not multipart goes on as it is
  * (`otherwise: 'next'`, a JSON body without photos) or is refused with `otherwise` (400).
  */
-export function photosWithJsonData(what: string, otherwise: 'next' | (() => HttpError)): RequestHandler {
+export function photosWithJsonData(what: string, otherwise: 'next' | (() => HttpError), options: { tempRoot?: string } = {}): RequestHandler {
+  const parse = uploadPhotos({ field: 'photos', tempRoot: options.tempRoot });
   return (req, res, next) => {
     if (!req.is('multipart/form-data')) return next(otherwise === 'next' ? undefined : otherwise());
-    uploadPhotos({ field: 'photos' })(req, res, (err?: unknown) => {
+    parse(req, res, (err?: unknown) => {
       if (err) return next(err);
       const fields = (req.body ?? {}) as Record<string, unknown>;
       const extra = Object.keys(fields).find((k) => k !== 'data');
@@ -134,4 +237,118 @@ export function photosWithJsonData(what: string, otherwise: 'next' | (() => Http
       next();
     });
   };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Bodies refused before they were read
+
+/** How long a refused request may go on sending a body nobody reads before its connection is closed. */
+export const UNREAD_BODY_LINGER_MS = 30_000;
+
+/**
+ * For a request answered before its body was read (refused by the policy, the rate limit or the
+ * target check): Node discards the rest of the body as it arrives, without buffering it, so the
+ * client gets to read the answer; if the client is still sending after `lingerMs`, the
+ * connection is closed. Mounted once on /api.
+ */
+export function closeUnreadBodies(lingerMs = UNREAD_BODY_LINGER_MS): RequestHandler {
+  return (req, res, next) => {
+    res.once('finish', () => {
+      if (req.complete || req.destroyed) return;
+      const timer = setTimeout(() => req.socket?.destroy(), lingerMs);
+      timer.unref();
+      req.once('end', () => clearTimeout(timer));
+      req.once('close', () => clearTimeout(timer));
+    });
+    next();
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Per-user limits
+
+export interface UploadLimits {
+  /** Upload requests (multipart) per user per window. */
+  requestsPerWindow: number;
+  /** Pixels (width × height, summed over images) a user may have decoded per window. */
+  pixelsPerWindow: number;
+  windowMs: number;
+}
+
+/**
+ * 60 uploads and 1,000 megapixels per person per 10 minutes: about 80 phone photos (12 MP), far
+ * more than anyone photographs on a walk in that time, and a bound on the decoding work (about
+ * a second of CPU per 40 MP) one account can ask for.
+ */
+export const DEFAULT_UPLOAD_LIMITS: UploadLimits = {
+  requestsPerWindow: 60,
+  pixelsPerWindow: 1_000_000_000,
+  windowMs: 10 * 60 * 1000,
+};
+
+export interface UploadGuard {
+  readonly limits: UploadLimits;
+  /** Where request folders are made. */
+  readonly tempRoot: string;
+  /** Rate limit per signed-in user on multipart requests (429); place it right after the policy. */
+  rate: RequestHandler;
+  /** Adds `pixels` to the user's window before they are decoded; 429 when that goes over. */
+  chargePixels(userId: string, pixels: number): void;
+}
+
+const minutesText = (ms: number) => (Math.round(ms / 60_000) === 1 ? '1 minute' : `${Math.round(ms / 60_000)} minutes`);
+
+export function createUploadGuard(options: { limits?: Partial<UploadLimits>; tempRoot?: string } = {}): UploadGuard {
+  const limits: UploadLimits = { ...DEFAULT_UPLOAD_LIMITS, ...options.limits };
+  const retryAfter = Math.ceil(limits.windowMs / 1000);
+  const rate = rateLimit({
+    windowMs: limits.windowMs,
+    limit: limits.requestsPerWindow,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    // A finding sent as JSON (no photos) is not an upload.
+    skip: (req) => !req.is('multipart/form-data'),
+    keyGenerator: (req) => `upload:${req.user?.id ?? 'anonymous'}`,
+    handler: (_req, _res, next) =>
+      next(
+        tooManyRequests(
+          `Too many uploads: at most ${limits.requestsPerWindow} in ${minutesText(limits.windowMs)} per person. Wait a few minutes and send them again.`,
+          retryAfter,
+        ),
+      ),
+  });
+
+  // userId → [when, pixels] charged within the window, oldest first.
+  const spent = new Map<string, Array<{ at: number; pixels: number }>>();
+  let charges = 0;
+  function chargePixels(userId: string, pixels: number): void {
+    const now = Date.now();
+    const since = now - limits.windowMs;
+    if (++charges % 1000 === 0) {
+      for (const [id, list] of spent) if (list.every((e) => e.at <= since)) spent.delete(id);
+    }
+    const list = (spent.get(userId) ?? []).filter((e) => e.at > since);
+    const used = list.reduce((sum, e) => sum + e.pixels, 0);
+    if (used + pixels > limits.pixelsPerWindow) {
+      spent.set(userId, list);
+      // Wait until enough of the window has passed for this request to fit.
+      let freed = limits.pixelsPerWindow - used;
+      let wait = limits.windowMs;
+      for (const e of list) {
+        freed += e.pixels;
+        if (freed >= pixels) {
+          wait = e.at + limits.windowMs - now;
+          break;
+        }
+      }
+      throw tooManyRequests(
+        `Too many photo pixels: at most ${Math.round(limits.pixelsPerWindow / 1_000_000)} megapixels in ${minutesText(limits.windowMs)} per person. Send these again later.`,
+        Math.max(1, Math.ceil(wait / 1000)),
+      );
+    }
+    list.push({ at: now, pixels });
+    spent.set(userId, list);
+  }
+
+  return { limits, tempRoot: options.tempRoot ?? UPLOAD_TEMP_ROOT, rate, chargePixels };
 }

@@ -38,7 +38,7 @@ import {
 import { jobParamsSchema } from '../../shared/schemas/setup';
 import type { FindingStatus } from '../../shared/words';
 import { badRequest, forbidden, HttpError, notFound } from '../errors';
-import { photosWithJsonData, uploadedFiles } from '../middleware/upload';
+import { createUploadGuard, photosWithJsonData, uploadedFiles, type UploadGuard } from '../middleware/upload';
 import { valid, validate, zodFieldErrors } from '../middleware/validate';
 import { Finding, Fix, Photo } from '../models';
 import { policy } from '../policies';
@@ -48,7 +48,8 @@ import { companyOnJob, recordFindingEvent } from '../services/findings';
 import { assertAllowed, decide, refusalError } from '../services/findingStatus';
 import { notifyCriticalAssignment } from '../digests/events';
 import { idempotentWrite } from '../services/idempotency';
-import { keysOf, photoRowValues, processPhotos, removeStoredPhotos, withStoredPhotos, type ProcessedPhoto } from '../services/photos';
+import { pendingUploads } from '../services/pendingUploads';
+import { discardStoredPhotos, keysOf, photoRowValues, processPhotos, withStoredPhotos, type ProcessedPhoto } from '../services/photos';
 import { sequelizeOf } from '../services/records';
 import { checkIfMatch, etagOf, setEtag } from '../services/versioning';
 import type { ObjectStore } from '../storage/types';
@@ -59,6 +60,8 @@ const PIN_ROLES: readonly string[] = ['gc_manager', 'inspector'];
 
 export interface CorrectionRouterOptions {
   store: ObjectStore;
+  /** Per-user upload limits and temporary files, shared by every upload route of the app. */
+  uploads?: UploadGuard;
   log?: (message: string, err?: unknown) => void;
 }
 
@@ -106,10 +109,32 @@ function eventDto(e: { id: string; kind: FindingEventKind; at: Date; from: Recor
 }
 
 /** multipart `data` (JSON) + `photos`; the parsed JSON becomes req.body. JSON bodies are refused: a fix needs photos. */
-const fixUpload = photosWithJsonData(
-  'fix',
-  () => badRequest('photos: A fix needs at least one photo; send multipart/form-data with "data" and "photos".', { photos: 'Add at least one photo of the fix.' }),
-);
+const fixUpload = (tempRoot: string) =>
+  photosWithJsonData(
+    'fix',
+    () => badRequest('photos: A fix needs at least one photo; send multipart/form-data with "data" and "photos".', { photos: 'Add at least one photo of the fix.' }),
+    { tempRoot },
+  );
+
+/**
+ * Before the body is read: the finding must be one the caller sees (404) and may submit a fix
+ * for now (403/409). The transaction checks both again under its lock. A retry under a key this
+ * user already holds an answer for goes on to be replayed (or refused with 422) as before: its
+ * finding has moved on since the first answer.
+ */
+async function fixTarget(req: Request, _res: Response, next: NextFunction) {
+  if (await alreadyAnswered(req)) return next();
+  const { findingId } = valid<{ findingId: string }>(req.valid.params);
+  const { job, role } = req.membership!;
+  const scope = scopeOf(req);
+  const visible = await Finding.findOne({
+    where: { id: findingId, jobId: job.id, ...(scope.companyId ? { companyId: scope.companyId } : {}) },
+    attributes: ['id', 'status', 'loggedBy'],
+  });
+  if (!visible) return next(notFound('Finding not found.'));
+  assertAllowed(visible.status, 'submit_fix', role, visible.loggedBy === req.user!.id);
+  next();
+}
 
 function validateFixBody(req: Request, _res: Response, next: NextFunction) {
   const result = submitFixSchema.safeParse(req.body ?? {});
@@ -137,14 +162,15 @@ async function alreadyAnswered(req: Request): Promise<boolean> {
 export function correctionRouter(options: CorrectionRouterOptions): Router {
   const { store } = options;
   const log = options.log ?? ((m: string, e?: unknown) => console.error(m, e));
+  const uploads = options.uploads ?? createUploadGuard();
   const router = Router();
   const base = '/jobs/:jobId/findings/:findingId';
 
   // ---- Fixes -------------------------------------------------------------------------------
-  router.post(`${base}/fixes`, policy.jobMember(['subcontractor', 'gc_manager']), validate({ params: findingParamsSchema }), fixUpload, validateFixBody, async (req, res) => {
+  router.post(`${base}/fixes`, policy.jobMember(['subcontractor', 'gc_manager']), validate({ params: findingParamsSchema }), uploads.rate, fixTarget, fixUpload(uploads.tempRoot), validateFixBody, async (req, res) => {
     const { findingId } = valid<{ findingId: string }>(req.valid.params);
     const body = valid<SubmitFixInput>(req.valid.body);
-    const { job, role } = req.membership!;
+    const { job } = req.membership!;
     const user = req.user!;
     const sequelize = sequelizeOf(req);
 
@@ -154,22 +180,19 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
       });
       return;
     }
-    // Refuse before storing anything: visible (404), role (403), status (409).
-    const scope = scopeOf(req);
-    const visible = await Finding.findOne({ where: { id: findingId, jobId: job.id, ...(scope.companyId ? { companyId: scope.companyId } : {}) } });
-    if (!visible) throw notFound('Finding not found.');
-    assertAllowed(visible.status, 'submit_fix', role, visible.loggedBy === user.id);
-
-    const processed: ProcessedPhoto[] = await processPhotos(uploadedFiles(req));
+    // Visible (404), role (403) and status (409) were checked before the body was read (fixTarget).
+    const processed: ProcessedPhoto[] = await processPhotos(uploadedFiles(req), { charge: (pixels) => uploads.chargePixels(user.id, pixels) });
+    const pending = pendingUploads(sequelize);
     await withStoredPhotos(
       store,
       processed,
-      async (stored) => {
+      async (stored, claim) => {
         await idempotentWrite(req, res, async (transaction) => {
           const finding = await lockFinding(req, findingId, transaction);
           const to = await authorise(req, finding, 'submit_fix', transaction, false);
           const at = new Date();
           const fix = await Fix.create({ jobId: job.id, findingId: finding.id, submittedBy: user.id, note: body.note.trim(), submittedAt: at }, { transaction });
+          await claim(transaction);
           await Photo.bulkCreate(
             photoRowValues(stored, { jobId: job.id, uploadedBy: user.id, fixId: fix.id }).map((row, i) => ({ ...row, createdAt: new Date(at.getTime() + i) })),
             { transaction },
@@ -197,10 +220,10 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
           return { status: 201, body: { fix: fixBody, finding: detail } };
         });
         if (res.get('Idempotent-Replayed') === 'true') {
-          await removeStoredPhotos(store, keysOf(stored)).catch((err: unknown) => log('could not remove photos of a replayed fix', err));
+          await discardStoredPhotos(store, keysOf(stored), { pending, log }, 'of a replayed fix');
         }
       },
-      log,
+      { pending, log },
     );
   });
 

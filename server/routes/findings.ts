@@ -11,6 +11,8 @@
  * (any bad file refuses the request before anything is stored), then stored, then the finding,
  * its photo rows and its "logged" event are written in ONE transaction; if that fails, the
  * stored objects are deleted again (server/services/photos.ts withStoredPhotos).
+ * Uploads: the policy and the per-user upload rate run before the body is read; the photos go
+ * to temporary files, never memory (server/middleware/upload.ts).
  */
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import { Router } from 'express';
@@ -26,7 +28,7 @@ import {
 } from '../../shared/schemas/findings';
 import type { Severity } from '../../shared/words';
 import { badRequest, notFound } from '../errors';
-import { photosWithJsonData, uploadedFiles } from '../middleware/upload';
+import { createUploadGuard, photosWithJsonData, uploadedFiles, type UploadGuard } from '../middleware/upload';
 import { valid, validate, zodFieldErrors } from '../middleware/validate';
 import { CatalogueItem, Finding, Level, Photo, Space, Unit, UnitCheck, UnitModel } from '../models';
 import { policy } from '../policies';
@@ -35,7 +37,8 @@ import { findingDetail, findingFiltersOf, listFindings, visiblePhoto, type Findi
 import { notifyCriticalAssignment } from '../digests/events';
 import { idempotentWrite } from '../services/idempotency';
 import { pageRequest } from '../services/paging';
-import { keysOf, photoRowValues, processPhotos, removeStoredPhotos, sendPhoto, withStoredPhotos, type ProcessedPhoto } from '../services/photos';
+import { pendingUploads } from '../services/pendingUploads';
+import { discardStoredPhotos, keysOf, photoRowValues, processPhotos, sendPhoto, withStoredPhotos, type ProcessedPhoto } from '../services/photos';
 import { sequelizeOf } from '../services/records';
 import { setEtag } from '../services/versioning';
 import type { ObjectStore } from '../storage/types';
@@ -45,6 +48,8 @@ const WRITE_ROLES = ['gc_manager', 'inspector'] as const;
 export interface FindingsRouterOptions {
   /** Photo storage (server/storage). */
   store: ObjectStore;
+  /** Per-user upload limits and temporary files, shared by every upload route of the app. */
+  uploads?: UploadGuard;
   log?: (message: string, err?: unknown) => void;
 }
 
@@ -52,9 +57,6 @@ function scopeOf(req: Request): FindingScope {
   const { job, role, companyId } = req.membership!;
   return { jobId: job.id, timeZone: job.timeZone || 'UTC', companyId: role === 'subcontractor' ? companyId : null };
 }
-
-/** Multipart: photos plus the finding as JSON in `data`; a JSON body (no photos) passes through. */
-const multipartOrJson = photosWithJsonData('finding', 'next');
 
 /** Validates the body after multipartOrJson and keeps the original for the idempotency fingerprint. */
 function validateFindingBody(req: Request, _res: Response, next: NextFunction) {
@@ -113,6 +115,9 @@ async function alreadyAnswered(req: Request): Promise<boolean> {
 export function findingsRouter(options: FindingsRouterOptions): Router {
   const { store } = options;
   const log = options.log ?? ((m: string, e?: unknown) => console.error(m, e));
+  const uploads = options.uploads ?? createUploadGuard();
+  /** Multipart: photos plus the finding as JSON in `data`; a JSON body (no photos) passes through. */
+  const multipartOrJson = photosWithJsonData('finding', 'next', { tempRoot: uploads.tempRoot });
   const router = Router();
 
   router.get(
@@ -133,7 +138,7 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
     },
   );
 
-  router.post('/jobs/:jobId/findings', policy.jobMember(WRITE_ROLES), multipartOrJson, validateFindingBody, async (req, res) => {
+  router.post('/jobs/:jobId/findings', policy.jobMember(WRITE_ROLES), uploads.rate, multipartOrJson, validateFindingBody, async (req, res) => {
     const body = valid<CreateFindingParsed>(req.valid.body);
     const { job } = req.membership!;
     const user = req.user!;
@@ -180,11 +185,13 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
     const severity: Severity = body.severity ?? item.defaultSeverity;
     const dueOn = body.dueOn ?? dueOnFor(job, severity);
 
-    const processed: ProcessedPhoto[] = files.length > 0 ? await processPhotos(files) : [];
+    const processed: ProcessedPhoto[] =
+      files.length > 0 ? await processPhotos(files, { charge: (pixels) => uploads.chargePixels(user.id, pixels) }) : [];
+    const pending = pendingUploads(sequelize);
     await withStoredPhotos(
       store,
       processed,
-      async (stored) => {
+      async (stored, claim) => {
         await idempotentWrite(req, res, async (transaction) => {
           const number = await nextFindingNumber(sequelize, job.id, transaction);
           const finding = await Finding.create(
@@ -212,6 +219,7 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
             { transaction },
           );
           if (stored.length > 0) {
+            await claim(transaction);
             // Photos keep the order they were sent in: created_at one millisecond apart (the list orders by it).
             const base = finding.loggedAt.getTime();
             await Photo.bulkCreate(
@@ -250,10 +258,10 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
         // Lost a race with an identical retry: the first request's answer was replayed, so
         // the photos stored by this one are referenced by nothing.
         if (res.get('Idempotent-Replayed') === 'true' && stored.length > 0) {
-          await removeStoredPhotos(store, keysOf(stored)).catch((err: unknown) => log('could not remove photos of a replayed request', err));
+          await discardStoredPhotos(store, keysOf(stored), { pending, log }, 'of a replayed request');
         }
       },
-      log,
+      { pending, log },
     );
   });
 

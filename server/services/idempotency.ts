@@ -5,7 +5,7 @@
  * the key (user, key) with INSERT ... ON CONFLICT DO NOTHING, runs the write, and stores the
  * response; so either the record and its stored response both exist, or neither does.
  * - the same key again with the same request → the stored response is replayed (same status);
- * - the same key with another request body or path → 422;
+ * - the same key with another request body, path or file (uploads: each file's SHA-256) → 422;
  * - a replay while the first is still running waits on the unique index, then replays.
  * Keys are kept 7 days (see security.md), longer than a phone's outbox keeps a request.
  * Without the header the write simply runs once (scripts, tests that do not care).
@@ -14,6 +14,7 @@ import { createHash } from 'node:crypto';
 import type { Request, Response } from 'express';
 import { QueryTypes, type Transaction } from 'sequelize';
 import { badRequest, conflict, unprocessable } from '../errors';
+import { uploadDigests } from '../middleware/upload';
 import { faultPause } from '../testing/faultHooks';
 
 export const IDEMPOTENCY_RETENTION_DAYS = 7;
@@ -24,11 +25,14 @@ export interface WriteResult {
   body: unknown;
 }
 
+/** Method, path, body and, for an upload, every file's field, size and SHA-256 (in order). */
 function fingerprint(req: Request): string {
-  return createHash('sha256')
+  const hash = createHash('sha256')
     .update(`${req.method} ${req.baseUrl}${req.path}\n`)
-    .update(JSON.stringify(req.body ?? null))
-    .digest('hex');
+    .update(JSON.stringify(req.body ?? null));
+  const files = uploadDigests(req);
+  if (files.length > 0) hash.update(`\nfiles ${JSON.stringify(files)}`);
+  return hash.digest('hex');
 }
 
 export async function idempotentWrite(

@@ -2,16 +2,24 @@
  * Photos: read from the bytes, re-encoded, stored, served.
  *
  * THE CONTRACT FOR CALLERS (a finding or a fix with photos is saved all or nothing):
- *   1. `processPhotos(files)` first. It refuses the whole request (400/413/415 with a clear
- *      message) before anything is stored, if any one file is not an acceptable photo.
- *   2. `withStoredPhotos(store, processed, work)`: stores every photo (full + thumbnail) under
- *      fresh server-made keys, then runs `work(stored)`, which writes the finding and its
- *      `photos` rows in ONE database transaction. If storing fails, what was stored is deleted;
- *      if `work` throws (the transaction rolled back), every stored object is deleted again.
- *   So a failed upload never leaves a finding pointing at a missing photo, and a failed
- *   finding never leaves orphan photos referenced. (Deleting the objects of a row that is
- *   later removed is the caller's job: `removeStoredPhotos` after its transaction commits.)
- *   `storePhotos` and `removeStoredPhotos` are the two halves, for callers that need them apart.
+ *   1. `processPhotos(files, { charge })` first. It reads every file's type and dimensions
+ *      from its first bytes and header, refuses the whole request (400/413/415 with a clear
+ *      message) if any one file is not an acceptable photo or all of them together exceed
+ *      PHOTO_REQUEST_PIXEL_BUDGET, charges the total to the caller (`charge`, the per-user
+ *      window: 429), and only then decodes them, one at a time, each in one of the process's
+ *      DECODE_CONCURRENCY decode slots. Nothing is stored before it returns.
+ *   2. `withStoredPhotos(store, processed, work, { pending })`: records the keys it is about to
+ *      write as pending uploads (server/services/pendingUploads.ts, committed first), stores
+ *      every photo (full + thumbnail) under those fresh server-made keys, then runs
+ *      `work(stored, claim)`, which writes the finding and its `photos` rows in ONE database
+ *      transaction and calls `claim(transaction)` in it (the pending rows go with the commit).
+ *      If storing fails, or `work` throws (the transaction rolled back), every stored object is
+ *      deleted again and then its pending rows. A crash in between leaves the pending rows, and
+ *      the reaper deletes those objects later.
+ *   So a failed upload never leaves a finding pointing at a missing photo, and no photo is left
+ *   in the store that nothing names. (Deleting the objects of a row that is later removed is the
+ *   caller's job: `removeStoredPhotos` after its transaction commits.) `storePhotos` and
+ *   `removeStoredPhotos` are the two halves, for callers that need them apart.
  *
  * Processing (`processPhoto`):
  * - The type is decided from the bytes (magic numbers), never from the name or the declared
@@ -19,7 +27,9 @@
  *   files and everything else are refused.
  * - Dimensions are read from the header and anything over PHOTO_PIXEL_LIMIT (40 MP, well under
  *   sharp's default of 268 MP) is refused before it is decoded (a pixel flood); sharp's
- *   `limitInputPixels` is set to the same value as a second guard.
+ *   `limitInputPixels` is set to the same value as a second guard. A request's images together
+ *   may have at most PHOTO_REQUEST_PIXEL_BUDGET (100 MP): a small, flat PNG declaring 40 MP
+ *   costs little to send and a lot to decode, and ten of them must not be decoded at all.
  * - JPEG, PNG and WebP are decoded by sharp with `failOn: 'truncated'` (a cut-off file is
  *   refused). HEIC is decoded by `heic-decode` (libheif compiled to WebAssembly, no download):
  *   sharp's prebuilt libvips reads HEIF containers but has no HEVC decoder.
@@ -28,14 +38,27 @@
  *   metadata at all (no EXIF, no GPS, no XMP, no ICC), plus a THUMB_EDGE thumbnail.
  */
 import { createHash, randomUUID } from 'node:crypto';
+import { open, readFile } from 'node:fs/promises';
 import { pipeline } from 'node:stream/promises';
 import type { Response } from 'express';
+import type { Transaction } from 'sequelize';
 import sharp from 'sharp';
 import { HttpError, notFound } from '../errors';
 import type { ObjectStore } from '../storage/types';
+import type { PendingUploads } from './pendingUploads';
+import { createSlots } from './slots';
 
 /** Largest accepted photo in pixels (width × height): 40 MP, above any phone camera's 12–24 MP default. */
 export const PHOTO_PIXEL_LIMIT = 40_000_000;
+/** Pixels of all the images of one request together: 100 MP, eight 12 MP phone photos, two at 40 MP. */
+export const PHOTO_REQUEST_PIXEL_BUDGET = 100_000_000;
+/**
+ * Images decoded at once in this process (photos and plans). Decoding a 40 MP image takes about
+ * a second of CPU and well over 100 MB; more requests wait their turn instead of adding to that.
+ */
+export const DECODE_CONCURRENCY = 2;
+/** The process's decode slots (server/services/slots.ts). */
+export const decodeSlots = createSlots(DECODE_CONCURRENCY);
 /** Long edge of the stored full-size photo, in pixels (a 12 MP phone photo, 4032 px, is kept as is). */
 export const FULL_MAX_EDGE = 4096;
 /** Long edge of the thumbnail, in pixels. */
@@ -257,20 +280,108 @@ export async function processPhoto(buffer: Buffer): Promise<ProcessedPhoto> {
   return { ...out, detectedType: detected.type, sha256: createHash('sha256').update(out.full).digest('hex') };
 }
 
+/** An upload to process: bytes in memory, or a temporary file (server/middleware/upload.ts). */
+export type PhotoInput = { buffer: Buffer } | { path: string };
+
+const HEAD_BYTES = 4096;
+
+async function headOf(input: PhotoInput): Promise<Buffer> {
+  if ('buffer' in input) return input.buffer.subarray(0, HEAD_BYTES);
+  const handle = await open(input.path, 'r');
+  try {
+    const buf = Buffer.alloc(HEAD_BYTES);
+    const { bytesRead } = await handle.read(buf, 0, HEAD_BYTES, 0);
+    return buf.subarray(0, bytesRead);
+  } finally {
+    await handle.close();
+  }
+}
+
+const bytesOf = (input: PhotoInput): Promise<Buffer> => ('buffer' in input ? Promise.resolve(input.buffer) : readFile(input.path));
+
+/** Width × height from the header only (nothing decoded), or an HttpError as processPhoto would give. */
+async function headerPixels(input: PhotoInput): Promise<number> {
+  const head = await headOf(input);
+  if (head.length === 0) throw new HttpError(400, 'empty_photo', 'The photo is empty (0 bytes). Take or pick it again.');
+  const detected = detectPhotoType(head);
+  if ('refused' in detected) throw refusedType(detected.refused);
+  let meta: sharp.Metadata | undefined;
+  try {
+    meta = await sharp('buffer' in input ? input.buffer : input.path, { limitInputPixels: false }).metadata();
+  } catch {
+    // libvips could not read the header: the decoder says so (HEIC goes through heic-decode).
+    if (detected.type !== 'image/heic') throw unreadable();
+  }
+  if (detected.type === 'image/heic' && (!meta?.width || !meta?.height)) {
+    // Read the container (no pixels decoded) when libvips cannot.
+    let images: Awaited<ReturnType<HeicDecodeAll>>;
+    try {
+      images = await loadHeicDecoder()({ buffer: await bytesOf(input) });
+    } catch {
+      throw unreadable();
+    }
+    try {
+      const primary = images[0];
+      if (!primary) throw unreadable();
+      assertPixels(primary.width, primary.height);
+      return primary.width * primary.height;
+    } finally {
+      images.dispose();
+    }
+  }
+  const width = meta?.width ?? 0;
+  const height = meta?.height ?? 0;
+  assertPixels(width, height);
+  return width * height;
+}
+
+/** Names the photo in a refusal when the request has several. */
+function labelled(err: unknown, i: number, n: number): unknown {
+  if (err instanceof HttpError && n > 1) {
+    return new HttpError(err.status, err.id, `Photo ${i + 1} of ${n}: ${err.message}`, err.fields, err.headers);
+  }
+  return err;
+}
+
+export interface ProcessPhotosOptions {
+  /**
+   * Called with the request's total pixels after every header was checked and before anything
+   * is decoded: the per-user window (server/middleware/upload.ts UploadGuard.chargePixels),
+   * which throws 429 when it is spent.
+   */
+  charge?: (pixels: number) => void;
+}
+
 /**
- * Processes every upload of a request, one at a time (bounded memory), before anything is
- * stored. The first refusal refuses the request; with several files its message names which.
+ * Processes every upload of a request before anything is stored. First every file's type and
+ * dimensions are read from its first bytes and header (nothing decoded): one bad file, one
+ * image over PHOTO_PIXEL_LIMIT or a total over PHOTO_REQUEST_PIXEL_BUDGET refuses the request.
+ * Then the files are decoded one at a time, each in a decode slot (bounded memory and CPU
+ * across the process). With several files a refusal's message names which.
  */
-export async function processPhotos(files: readonly { buffer: Buffer }[]): Promise<ProcessedPhoto[]> {
+export async function processPhotos(files: readonly PhotoInput[], options: ProcessPhotosOptions = {}): Promise<ProcessedPhoto[]> {
+  let total = 0;
+  for (const [i, file] of files.entries()) {
+    try {
+      total += await headerPixels(file);
+    } catch (err) {
+      throw labelled(err, i, files.length);
+    }
+  }
+  if (total > PHOTO_REQUEST_PIXEL_BUDGET) {
+    throw new HttpError(
+      413,
+      'pixel_budget_exceeded',
+      `These ${files.length} photos have ${Math.round(total / 1_000_000)} megapixels together; at most ${PHOTO_REQUEST_PIXEL_BUDGET / 1_000_000} megapixels are accepted in one request. Send fewer photos at a time.`,
+    );
+  }
+  options.charge?.(total);
   const out: ProcessedPhoto[] = [];
   for (const [i, file] of files.entries()) {
     try {
-      out.push(await processPhoto(file.buffer));
+      out.push(await decodeSlots.run(async () => processPhoto(await bytesOf(file))));
     } catch (err) {
-      if (err instanceof HttpError && files.length > 1) {
-        throw new HttpError(err.status, err.id, `Photo ${i + 1} of ${files.length}: ${err.message}`, err.fields, err.headers);
-      }
-      throw err;
+      throw labelled(err, i, files.length);
     }
   }
   return out;
@@ -290,15 +401,20 @@ export function keysOf(photos: readonly { key: string; thumbKey: string }[]): st
 }
 
 /**
- * Stores each processed photo (full and thumbnail) under a fresh UUID. All or nothing: if any
- * write fails, whatever this call wrote is deleted before the error is rethrown.
+ * Stores each processed photo (full and thumbnail) under a fresh UUID (or the ids given, one per
+ * photo). All or nothing: if any write fails, whatever this call wrote is deleted before the
+ * error is rethrown.
  */
-export async function storePhotos(store: ObjectStore, processed: readonly ProcessedPhoto[]): Promise<StoredPhoto[]> {
+export async function storePhotos(
+  store: ObjectStore,
+  processed: readonly ProcessedPhoto[],
+  ids: readonly string[] = processed.map(() => randomUUID()),
+): Promise<StoredPhoto[]> {
   const written: string[] = [];
   const stored: StoredPhoto[] = [];
   try {
-    for (const photo of processed) {
-      const id = randomUUID();
+    for (const [i, photo] of processed.entries()) {
+      const id = ids[i]!;
       const { key, thumbKey } = photoKeys(id);
       written.push(key);
       await store.put(key, photo.full, PHOTO_CONTENT_TYPE);
@@ -354,27 +470,61 @@ export async function removeStoredPhotos(store: ObjectStore, keys: readonly stri
   await store.delete(keys);
 }
 
+export interface StoredPhotosOptions {
+  /** The pending-uploads record (server/services/pendingUploads.ts). */
+  pending: PendingUploads;
+  log?: (message: string, err?: unknown) => void;
+}
+
 /**
- * Stores the photos, runs `work` (the caller's database transaction that writes the rows that
- * reference them), and deletes the stored objects again if `work` throws. Returns what `work`
- * returns. A cleanup failure is passed to `log` (those objects are then unreferenced, never
- * referenced-but-missing) and the original error is rethrown.
+ * Deletes objects whose write failed or was not needed, then their pending rows. When the store
+ * refuses, the rows stay (the reaper tries again later) and the failure is logged, not thrown.
+ */
+export async function discardStoredPhotos(
+  store: ObjectStore,
+  keys: readonly string[],
+  options: StoredPhotosOptions,
+  why: string,
+): Promise<void> {
+  const log = options.log ?? ((m: string, e?: unknown) => console.error(m, e));
+  try {
+    await removeStoredPhotos(store, keys);
+  } catch (err) {
+    log(`could not remove ${keys.length} stored object(s) ${why} (left for the reaper): ${keys.join(', ')}`, err);
+    return;
+  }
+  await options.pending.release(keys).catch((err: unknown) => log(`could not release pending uploads ${why}`, err));
+}
+
+/**
+ * Records the keys as pending, stores the photos, runs `work` (the caller's database transaction
+ * that writes the rows that reference them; it must call `claim(transaction)` in it), and deletes
+ * the stored objects and their pending rows again if storing or `work` throws. Returns what
+ * `work` returns. A cleanup failure is logged (the pending rows then stay and the reaper deletes
+ * those objects later: they are unreferenced, never referenced-but-missing) and the original
+ * error is rethrown.
  */
 export async function withStoredPhotos<T>(
   store: ObjectStore,
   processed: readonly ProcessedPhoto[],
-  work: (stored: StoredPhoto[]) => Promise<T>,
-  log: (message: string, err?: unknown) => void = (m, e) => console.error(m, e),
+  work: (stored: StoredPhoto[], claim: (transaction: Transaction) => Promise<void>) => Promise<T>,
+  options: StoredPhotosOptions,
 ): Promise<T> {
-  const stored = await storePhotos(store, processed);
+  const ids = processed.map(() => randomUUID());
+  const keys = keysOf(ids.map(photoKeys));
+  // Committed before the first byte is stored: a crash from here on leaves a row naming each key.
+  await options.pending.record(keys);
+  let stored: StoredPhoto[];
   try {
-    return await work(stored);
+    stored = await storePhotos(store, processed, ids);
   } catch (err) {
-    try {
-      await removeStoredPhotos(store, keysOf(stored));
-    } catch (cleanupError) {
-      log(`could not remove ${stored.length} stored photo(s) after a failed write: ${keysOf(stored).join(', ')}`, cleanupError);
-    }
+    await discardStoredPhotos(store, keys, options, 'after a failed store');
+    throw err;
+  }
+  try {
+    return await work(stored, (transaction) => options.pending.claim(keys, transaction));
+  } catch (err) {
+    await discardStoredPhotos(store, keys, options, 'after a failed write');
     throw err;
   }
 }

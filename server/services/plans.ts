@@ -17,8 +17,12 @@
  *   sRGB and re-encoded with no metadata at all. PNG stays PNG (line drawings stay crisp and
  *   small), JPEG stays JPEG, a PDF page becomes PNG.
  * - Stored under `plans/<level id>/<uuid>.png|jpg` (server-made; the file name never reaches a
- *   key). A new upload is stored before the database write and removed again if it fails; the
- *   replaced object is removed after the write commits.
+ *   key). A new upload's key is recorded as a pending upload first (server/services/pendingUploads.ts),
+ *   then it is stored before the database write, which claims the pending row; it is removed
+ *   again if the write fails (or by the reaper after a crash). The replaced object is removed
+ *   after the write commits.
+ * - Decoding runs in the process's decode slots (server/services/photos.ts decodeSlots), shared
+ *   with photos.
  */
 import { execFile } from 'node:child_process';
 import { createHash, randomUUID } from 'node:crypto';
@@ -29,9 +33,12 @@ import { pipeline } from 'node:stream/promises';
 import type { Response } from 'express';
 import sharp from 'sharp';
 import { HttpError, notFound } from '../errors';
+import type { Transaction } from 'sequelize';
 import { PHOTO_LIMITS } from '../middleware/upload';
 import type { ObjectStore } from '../storage/types';
-import { detectPhotoType, PHOTO_PIXEL_LIMIT } from './photos';
+import type { PendingUploads } from './pendingUploads';
+import { decodeSlots, detectPhotoType, PHOTO_PIXEL_LIMIT } from './photos';
+import { createSlots } from './slots';
 
 /** Bytes per plan upload: the same limit as one photo (security.md: 15 MB). */
 export const PLAN_MAX_BYTES = PHOTO_LIMITS.fileSize;
@@ -86,18 +93,8 @@ export function detectPlanType(buf: Buffer): { type: PlanSourceType } | { refuse
 // ---------------------------------------------------------------------------------------------
 // PDF → PNG (first page)
 
-let running = 0;
-const waiting: Array<() => void> = [];
-async function withConversionSlot<T>(work: () => Promise<T>): Promise<T> {
-  if (running >= PDF_CONCURRENCY) await new Promise<void>((resolve) => waiting.push(resolve));
-  running += 1;
-  try {
-    return await work();
-  } finally {
-    running -= 1;
-    waiting.shift()?.();
-  }
-}
+const conversionSlots = createSlots(PDF_CONCURRENCY);
+const withConversionSlot = <T>(work: () => Promise<T>): Promise<T> => conversionSlots.run(work);
 
 interface ToolError extends Error {
   code?: string | number;
@@ -230,7 +227,7 @@ export async function processPlan(buffer: Buffer): Promise<ProcessedPlan> {
   const sourceType = detected.type;
   const contentType: PlanContentType = sourceType === 'application/pdf' ? 'image/png' : sourceType;
   const image = sourceType === 'application/pdf' ? await rasterisePdfFirstPage(buffer) : buffer;
-  const out = await normaliseImage(image, contentType);
+  const out = await decodeSlots.run(() => normaliseImage(image, contentType));
   return { ...out, contentType, sourceType, sha256: createHash('sha256').update(out.data).digest('hex') };
 }
 
@@ -243,22 +240,35 @@ export function planKey(levelId: string, contentType: PlanContentType): string {
 }
 
 /**
- * Stores the plan, runs `work` (the caller's database transaction that points the level at
- * it), and deletes the stored object again if `work` throws. Returns what `work` returns.
+ * Records the key as a pending upload, stores the plan, runs `work` (the caller's database
+ * transaction that points the level at it and calls `claim(transaction)` in it), and deletes the
+ * stored object and its pending row again if storing or `work` throws. Returns what `work`
+ * returns. If the object cannot be deleted, the pending row stays for the reaper.
  */
 export async function withStoredPlan<T>(
   store: ObjectStore,
   levelId: string,
   plan: ProcessedPlan,
-  work: (key: string) => Promise<T>,
-  log: (message: string, err?: unknown) => void,
+  work: (key: string, claim: (transaction: Transaction) => Promise<void>) => Promise<T>,
+  options: { pending: PendingUploads; log: (message: string, err?: unknown) => void },
 ): Promise<T> {
+  const { pending, log } = options;
   const key = planKey(levelId, plan.contentType);
-  await store.put(key, plan.data, plan.contentType);
+  const discard = async () => {
+    try {
+      await store.delete([key]);
+    } catch (cleanupError) {
+      log(`could not remove the stored plan ${key} after a failed write (left for the reaper)`, cleanupError);
+      return;
+    }
+    await pending.release([key]).catch((e: unknown) => log(`could not release the pending plan ${key}`, e));
+  };
+  await pending.record([key]);
   try {
-    return await work(key);
+    await store.put(key, plan.data, plan.contentType);
+    return await work(key, (transaction) => pending.claim([key], transaction));
   } catch (err) {
-    await store.delete([key]).catch((cleanupError) => log(`could not remove the stored plan ${key} after a failed write`, cleanupError));
+    await discard();
     throw err;
   }
 }

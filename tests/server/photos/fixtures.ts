@@ -4,6 +4,7 @@
  */
 import { deflateSync } from 'node:zlib';
 import sharp from 'sharp';
+import type { PendingUploads } from '../../../server/services/pendingUploads';
 
 export const RED = { r: 220, g: 30, b: 30 };
 export const BLUE = { r: 30, g: 30, b: 220 };
@@ -109,3 +110,14 @@ export const SAMPLE_HEIC = Buffer.from(
 
 export const SVG = Buffer.from('<?xml version="1.0"?>\n<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"><script>alert(1)</script></svg>');
 export const TEXT_AS_JPEG = Buffer.from('This is a plain text file that someone renamed to photo.jpg\n');
+
+/** The pending-uploads record in memory, for tests of the photo services without a database. */
+export function memoryPending(): PendingUploads & { keys: Set<string> } {
+  const keys = new Set<string>();
+  return {
+    keys,
+    record: async (ks) => void ks.forEach((k) => keys.add(k)),
+    claim: async (ks) => void ks.forEach((k) => keys.delete(k)),
+    release: async (ks) => void ks.forEach((k) => keys.delete(k)),
+  };
+}

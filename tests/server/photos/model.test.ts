@@ -6,6 +6,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Database } from '../../../server/db';
 import { Photo } from '../../../server/models';
+import { pendingUploads } from '../../../server/services/pendingUploads';
 import { keysOf, photoRowValues, processPhoto, withStoredPhotos, type ProcessedPhoto } from '../../../server/services/photos';
 import { connectTestDb } from '../../support/db';
 import { buildJob, buildUser } from '../../support/factories';
@@ -36,8 +37,15 @@ describe('photos rows with their stored objects', () => {
   it('writes the rows in the transaction after the objects are stored', async () => {
     const who = await owner();
     // No owner yet: finding_id / fix_id reference tables made by later migrations.
-    const rows = await withStoredPhotos(fake.store, [photo, photo], (stored) =>
-      db.sequelize.transaction((transaction) => Photo.bulkCreate(photoRowValues(stored, who), { transaction })),
+    const rows = await withStoredPhotos(
+      fake.store,
+      [photo, photo],
+      (stored, claim) =>
+        db.sequelize.transaction(async (transaction) => {
+          await claim(transaction);
+          return Photo.bulkCreate(photoRowValues(stored, who), { transaction });
+        }),
+      { pending: pendingUploads(db.sequelize) },
     );
     const saved = await Photo.findAll({ where: { jobId: who.jobId }, order: [['createdAt', 'ASC']] });
     expect(saved).toHaveLength(2);
@@ -68,14 +76,20 @@ describe('photos rows with their stored objects', () => {
     const before = await fake.keys();
     let tried: string[] = [];
     await expect(
-      withStoredPhotos(fake.store, [photo, photo], (stored) => {
-        tried = keysOf(stored);
-        return db.sequelize.transaction(async (transaction) => {
-          await Photo.bulkCreate(photoRowValues(stored, who), { transaction });
-          // The finding's own insert fails after the photo rows were written.
-          await db.sequelize.query('SELECT 1/0', { transaction });
-        });
-      }),
+      withStoredPhotos(
+        fake.store,
+        [photo, photo],
+        (stored, claim) => {
+          tried = keysOf(stored);
+          return db.sequelize.transaction(async (transaction) => {
+            await claim(transaction);
+            await Photo.bulkCreate(photoRowValues(stored, who), { transaction });
+            // The finding's own insert fails after the photo rows were written.
+            await db.sequelize.query('SELECT 1/0', { transaction });
+          });
+        },
+        { pending: pendingUploads(db.sequelize) },
+      ),
     ).rejects.toThrow(/division by zero/);
     expect(tried).toHaveLength(4);
     expect(await Photo.count({ where: { jobId: who.jobId } })).toBe(0);

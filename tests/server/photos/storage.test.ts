@@ -20,7 +20,7 @@ import {
 import { createObjectStore, DiskObjectStore, InvalidObjectKeyError, S3ObjectStore, startLocalObjectStore } from '../../../server/storage';
 import type { ObjectStore } from '../../../server/storage';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
-import { halvesImage } from './fixtures';
+import { halvesImage, memoryPending } from './fixtures';
 
 async function readAll(body: Readable): Promise<Buffer> {
   const chunks: Buffer[] = [];
@@ -203,23 +203,62 @@ describe('storing photos: all or nothing', () => {
     expect(await fake.keys()).toEqual(before);
   });
 
-  it('withStoredPhotos deletes the stored objects when the database work fails', async () => {
+  it('withStoredPhotos records the keys as pending before storing, and deletes objects and records when the database work fails', async () => {
     const before = await fake.keys();
+    const pending = memoryPending();
     let seen: string[] = [];
     await expect(
-      withStoredPhotos(fake.store, [photo], async (stored) => {
-        seen = keysOf(stored);
-        for (const key of seen) expect(await fake.store.exists(key)).toBe(true);
-        throw new Error('the transaction rolled back');
-      }),
+      withStoredPhotos(
+        fake.store,
+        [photo],
+        async (stored) => {
+          seen = keysOf(stored);
+          expect([...pending.keys].sort()).toEqual([...seen].sort());
+          for (const key of seen) expect(await fake.store.exists(key)).toBe(true);
+          throw new Error('the transaction rolled back');
+        },
+        { pending },
+      ),
     ).rejects.toThrow('the transaction rolled back');
     expect(seen).toHaveLength(2);
     expect(await fake.keys()).toEqual(before);
+    expect(pending.keys.size).toBe(0);
+  });
+
+  it('withStoredPhotos keeps the pending records when the objects cannot be deleted (the reaper removes them later)', async () => {
+    const pending = memoryPending();
+    const logged: string[] = [];
+    const undeletable: ObjectStore = {
+      location: 'undeletable',
+      put: (key, body, type) => fake.store.put(key, body, type),
+      get: (key) => fake.store.get(key),
+      exists: (key) => fake.store.exists(key),
+      delete: async () => {
+        throw new Error('the store refused');
+      },
+    };
+    const failing = async (): Promise<never> => {
+      throw new Error('the transaction rolled back');
+    };
+    await expect(withStoredPhotos(undeletable, [photo], failing, { pending, log: (m) => logged.push(m) })).rejects.toThrow('the transaction rolled back');
+    expect(pending.keys.size).toBe(2);
+    expect(logged.join('\n')).toMatch(/left for the reaper/);
+    await removeStoredPhotos(fake.store, [...pending.keys]);
   });
 
   it('withStoredPhotos keeps the objects and returns the result when the work succeeds', async () => {
-    const result = await withStoredPhotos(fake.store, [photo], async (stored) => stored.map((s) => s.id));
+    const pending = memoryPending();
+    const result = await withStoredPhotos(
+      fake.store,
+      [photo],
+      async (stored, claim) => {
+        await claim({} as never);
+        return stored.map((s) => s.id);
+      },
+      { pending },
+    );
     expect(await fake.store.exists(`photos/${result[0]}.jpg`)).toBe(true);
+    expect(pending.keys.size).toBe(0);
     await removeStoredPhotos(fake.store, [`photos/${result[0]}.jpg`, `photos/${result[0]}-thumb.jpg`]);
   });
 });
