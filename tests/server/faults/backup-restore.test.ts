@@ -3,7 +3,8 @@
  * photos are made through the API, the database and the photo store are backed up, restored
  * into a NEW database and an empty photo store, and then every app table's rows (count and
  * md5 of all rows) and every photo's bytes are compared. The restored copy also serves a photo
- * through the real app. Restoring into a database that has tables is refused.
+ * through the real app. Restoring into a database that has tables is refused. The manifest counts
+ * pending and orphaned uploads (a photo stored by a write that never committed).
  */
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
@@ -83,13 +84,23 @@ it('backs up the database and the photos and restores both into a new database a
     photoIds.push(...res.body.photos.map((p: { id: string }) => p.id));
   }
   await trimout.close();
+  // A crash between storing and committing: an object with an old pending row and no photo row.
+  const orphan = `photos/${randomUUID()}.jpg`;
+  await sourceStore.put(orphan, jpeg, 'image/jpeg');
+  await db.sequelize.query(`INSERT INTO pending_uploads (key, created_at) VALUES ($1, now() - interval '2 hours')`, { bind: [orphan] });
   const sourceKeys = await listObjectKeys(sourceStore);
-  expect(sourceKeys).toHaveLength(8); // 4 photos × (full + thumbnail)
+  expect(sourceKeys).toHaveLength(9); // 4 photos × (full + thumbnail), and the orphan
+  const [pendingNow] = await db.sequelize.query<{ pending: string; old: string }>(
+    `SELECT count(*) AS pending, count(*) FILTER (WHERE created_at < now() - interval '30 minutes') AS old FROM pending_uploads`,
+    { type: 'SELECT' as never },
+  );
 
   const before = await tableSums(testDatabaseUrl());
   const outDir = path.join(tmp, 'backups', '2026-12-01T00-00-00Z');
   const manifest: Manifest = await backup({ databaseUrl: testDatabaseUrl(), store: sourceStore, outDir });
   expect(manifest.objects.map((o) => o.key)).toEqual(sourceKeys);
+  expect(manifest.uploads).toEqual({ pending: Number(pendingNow!.pending), pendingOrphans: Number(pendingNow!.old), unreferencedObjects: 1 });
+  expect(manifest.uploads!.pendingOrphans).toBeGreaterThanOrEqual(1);
   expect(fs.existsSync(path.join(outDir, 'database.dump'))).toBe(true);
   // Nothing was written by the backup itself.
   expect(await tableSums(testDatabaseUrl())).toEqual(before);
@@ -120,6 +131,7 @@ it('backs up the database and the photos and restores both into a new database a
   const full = await tableSums(targetUrl);
   await expect(restore({ backupDir: outDir, databaseUrl: targetUrl, store: targetStore })).rejects.toThrow(/not empty/);
   expect(await tableSums(targetUrl)).toEqual(full);
+  await db.sequelize.query(`DELETE FROM pending_uploads WHERE key = $1`, { bind: [orphan] });
 });
 
 it('backs up and restores an S3 bucket (the production store) through the S3 API', async () => {

@@ -10,7 +10,8 @@
  *  3. the same inside a fix submission (status open → fix submitted, with a photo);
  *  4. the same inside a re-inspection (fix submitted → closed).
  * After each restart: no half-saved finding or fix, every photo row's objects exist, no
- * finding points to a missing photo, every finding's status is the one its last status event
+ * finding points to a missing photo, every object no row references is named by a pending
+ * upload (so the reaper removes it: shown once, for the finding killed in its transaction), every finding's status is the one its last status event
  * says (no event without its status change, no change without its event), and a retry with the
  * same Idempotency-Key succeeds exactly once (a second retry is a replay).
  */
@@ -22,6 +23,8 @@ import path from 'node:path';
 import { randomUUID } from 'node:crypto';
 import { QueryTypes } from 'sequelize';
 import type { Database } from '../../../server/db';
+import { PENDING_UPLOAD_MAX_AGE_MINUTES, reapOrphanUploads } from '../../../server/services/pendingUploads';
+import { DiskObjectStore } from '../../../server/storage/disk';
 import { connectTestDb, testDatabaseUrl } from '../../support/db';
 import { buildWalkJob, insertFinding, type WalkJob } from '../../support/findings';
 import { TEST_PASSWORD } from '../../support/factories';
@@ -193,7 +196,7 @@ async function counts() {
 const objectPath = (key: string) => path.join(storeDir, 'objects', ...key.split('/'));
 
 /** The invariants that must hold after any crash. */
-async function expectConsistent(): Promise<{ unreferencedObjects: number }> {
+async function expectConsistent(): Promise<{ unreferencedObjects: number; unreferenced: string[] }> {
   const photos = await q<{ id: string; storage_key: string; thumb_key: string; finding_id: string | null; fix_id: string | null }>(
     `SELECT id, storage_key, thumb_key, finding_id, fix_id FROM photos WHERE job_id = $1`,
     [w.job.id],
@@ -228,7 +231,11 @@ async function expectConsistent(): Promise<{ unreferencedObjects: number }> {
       ? fs.readdirSync(dir, { withFileTypes: true }).flatMap((e) => (e.isDirectory() ? walk(path.join(dir, e.name), `${prefix}${e.name}/`) : [`${prefix}${e.name}`]))
       : [];
   const stored = walk(path.join(storeDir, 'objects')).filter((k) => !k.endsWith('.tmp'));
-  return { unreferencedObjects: stored.filter((k) => !referenced.has(k)).length };
+  const unreferenced = stored.filter((k) => !referenced.has(k)).sort();
+  // Nothing is left that nothing names: every unreferenced object has its pending upload row.
+  const pending = await q<{ key: string }>(`SELECT key FROM pending_uploads WHERE key = ANY($1::text[]) ORDER BY key`, [unreferenced]);
+  expect(pending.map((p) => p.key)).toEqual(unreferenced);
+  return { unreferencedObjects: unreferenced.length, unreferenced };
 }
 
 beforeAll(async () => {
@@ -281,11 +288,18 @@ describe('the server killed mid-request', () => {
     await waitFor(() => s.stderr.join('').includes('fault-pause POST /api/jobs/'), 'the write to reach its transaction');
     await kill();
     expect(await counts()).toEqual(before);
-    const { unreferencedObjects } = await expectConsistent();
+    const { unreferencedObjects, unreferenced } = await expectConsistent();
     // The photos were stored before the transaction: the crash leaves their objects (2 photos ×
     // full + thumbnail) unreferenced: invisible (random keys, no row names them, downloads go
-    // through the rows) and never a row without its object. Nothing sweeps them yet.
+    // through the rows) and never a row without its object. Their pending rows name them; once
+    // those are older than the reaper's age (moved back here instead of waiting), the reaper the
+    // server runs at start and every few minutes deletes objects and rows.
     expect(unreferencedObjects).toBe(4);
+    await db.sequelize.query(`UPDATE pending_uploads SET created_at = now() - make_interval(mins => $2) WHERE key = ANY($1::text[])`, {
+      bind: [unreferenced, PENDING_UPLOAD_MAX_AGE_MINUTES + 1],
+    });
+    await reapOrphanUploads(db.sequelize, new DiskObjectStore(storeDir));
+    expect((await expectConsistent()).unreferencedObjects).toBe(0);
 
     await startChild();
     const retry = await rawRequest(method, p, body, headers).done;

@@ -8,6 +8,7 @@ import { HttpError } from '../../../server/errors';
 import {
   FULL_MAX_EDGE,
   PHOTO_PIXEL_LIMIT,
+  PHOTO_REQUEST_PIXEL_BUDGET,
   THUMB_EDGE,
   detectPhotoType,
   processPhoto,
@@ -162,6 +163,33 @@ describe('processPhoto: refusals', () => {
     const ok = await halvesImage(40, 20).jpeg().toBuffer();
     const err = await refusal(processPhotos([{ buffer: ok }, { buffer: TEXT_AS_JPEG }]));
     expect(err.message).toBe('Photo 2 of 2: This file is not an image. Photos must be JPEG, PNG, WebP or HEIC images.');
+  });
+
+  it('refuses photos that together exceed the per-request pixel budget from their headers, before charging or decoding any', async () => {
+    // Three headers of 6000 x 6000 (36 MP each, each under the per-photo limit): 108 MP together.
+    const flood = pixelFloodPng(6000, 6000);
+    const charged: number[] = [];
+    const started = Date.now();
+    const err = await refusal(processPhotos([{ buffer: flood }, { buffer: flood }, { buffer: flood }], { charge: (px) => charged.push(px) }));
+    expect([err.status, err.id]).toEqual([413, 'pixel_budget_exceeded']);
+    expect(err.message).toBe(
+      `These 3 photos have 108 megapixels together; at most ${PHOTO_REQUEST_PIXEL_BUDGET / 1_000_000} megapixels are accepted in one request. Send fewer photos at a time.`,
+    );
+    expect(charged).toEqual([]);
+    expect(Date.now() - started).toBeLessThan(1000);
+  });
+
+  it("charges the request's pixels before decoding, and decodes nothing when the charge is refused", async () => {
+    const ok = await halvesImage(40, 20).jpeg().toBuffer();
+    const charged: number[] = [];
+    await processPhotos([{ buffer: ok }, { buffer: ok }], { charge: (px) => charged.push(px) });
+    expect(charged).toEqual([1600]);
+    const spent = new HttpError(429, 'too_many_requests', 'spent');
+    // A truncated second photo would be refused (400) when decoded: the 429 comes first.
+    const refuse = () => {
+      throw spent;
+    };
+    await expect(processPhotos([{ buffer: ok }, { buffer: ok.subarray(0, ok.length - 40) }], { charge: refuse })).rejects.toBe(spent);
   });
 });
 

@@ -301,6 +301,27 @@ describe('POST /findings/:findingId/fixes', () => {
     const [row2] = await db.sequelize.query<{ n: string }>(`SELECT count(*) AS n FROM fixes WHERE finding_id = $1`, { bind: [g.id], type: 'SELECT' as never });
     expect(Number(row2!.n)).toBe(1);
   });
+
+  it('the same Idempotency-Key with another photo (same note) → 422, never the first answer replayed; nothing stored', async () => {
+    const w = await buildWalkJob(people);
+    const f = await insertFinding(w);
+    await postFix(subA, w, f, 'Replaced the trap.', 'fix-photo-00001').expect(201);
+    const before = { rows: await countRows(w.job.id), keys: await s3.keys() };
+    const other = await sharp({ create: { width: 120, height: 90, channels: 3, background: { r: 200, g: 200, b: 40 } } }).jpeg().toBuffer();
+    const swapped = await subA.agent
+      .post(path(w, f, '/fixes'))
+      .set('X-CSRF-Token', subA.csrf)
+      .set('Idempotency-Key', 'fix-photo-00001')
+      .field('data', JSON.stringify({ note: 'Replaced the trap.' }))
+      .attach('photos', other, { filename: 'fix-0.jpg', contentType: 'image/jpeg' })
+      .expect(422);
+    expect(swapped.headers['idempotent-replayed']).toBeUndefined();
+    expect(swapped.body.error).toEqual({ id: 'unprocessable', message: 'This Idempotency-Key was already used for a different request.' });
+    expect({ rows: await countRows(w.job.id), keys: await s3.keys() }).toEqual(before);
+    // The very same request still replays.
+    const again = await postFix(subA, w, f, 'Replaced the trap.', 'fix-photo-00001').expect(201);
+    expect(again.headers['idempotent-replayed']).toBe('true');
+  });
 });
 
 // ---------------------------------------------------------------------------------------------

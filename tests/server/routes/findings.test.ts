@@ -348,6 +348,23 @@ describe('POST /api/jobs/:jobId/findings', () => {
     expect(changed.body.error.message).toBe('This Idempotency-Key was already used for a different request.');
     expect((await countRows(w.job.id)).findings).toBe(before.rows.findings + 2);
   });
+
+  it('the same Idempotency-Key with another photo (same data) → 422, never the first answer replayed; nothing stored', async () => {
+    const w = await buildWalkJob(people);
+    const data = { ...dr03(w), note: 'One photo, then another under the same key.' };
+    const other = await sharp({ create: { width: 160, height: 120, channels: 3, background: { r: 40, g: 40, b: 200 } } }).jpeg().toBuffer();
+    await postMultipart(inspector, w, data, [{ buffer: jpeg, name: 'a.jpg' }], 'finding-photo-0001').expect(201);
+    const after = await snapshot(w);
+    const swapped = await postMultipart(inspector, w, data, [{ buffer: other, name: 'a.jpg' }], 'finding-photo-0001').expect(422);
+    expect(swapped.headers['idempotent-replayed']).toBeUndefined();
+    expect(swapped.body.error).toEqual({ id: 'unprocessable', message: 'This Idempotency-Key was already used for a different request.' });
+    const added = await postMultipart(inspector, w, data, [{ buffer: jpeg, name: 'a.jpg' }, { buffer: jpeg, name: 'b.jpg' }], 'finding-photo-0001').expect(422);
+    expect(added.body.error.id).toBe('unprocessable');
+    expect(await snapshot(w)).toEqual(after);
+    // The very same request still replays.
+    const again = await postMultipart(inspector, w, data, [{ buffer: jpeg, name: 'renamed.jpg' }], 'finding-photo-0001').expect(201);
+    expect(again.headers['idempotent-replayed']).toBe('true');
+  });
 });
 
 describe('GET /api/jobs/:jobId/findings', () => {
