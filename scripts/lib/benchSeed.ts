@@ -67,7 +67,7 @@ async function existing(sequelize: Sequelize): Promise<BenchJob | null> {
   });
   if (!job) return null;
   const users = await sequelize.query<{ id: string; email: string; role: Role; company_id: string }>(
-    `SELECT u.id, u.email, m.role, u.company_id FROM job_members m JOIN users u ON u.id = m.user_id WHERE m.job_id = $1 ORDER BY u.email`,
+    `SELECT u.id, u.email, m.role, m.company_id FROM job_members m JOIN users u ON u.id = m.user_id WHERE m.job_id = $1 ORDER BY u.email`,
     { bind: [job.id], type: QueryTypes.SELECT },
   );
   return { jobId: job.id, timeZone: job.time_zone, users: users.map((u) => ({ id: u.id, email: u.email, role: u.role, companyId: u.company_id })), seeded: false };
@@ -131,7 +131,11 @@ export async function seedBenchJob(db: Database, size: BenchSize = BENCH_SIZE, l
        SELECT gen_random_uuid(), $1, id, ARRAY[CASE WHEN trade = 'inspection' THEN 'general' ELSE trade END]::varchar(20)[], now(), now() FROM b_companies`,
       [jobId],
     );
-    await q(`INSERT INTO job_members (id, job_id, user_id, role, created_at, updated_at) SELECT gen_random_uuid(), $1, id, role, now(), now() FROM b_users`, [jobId]);
+    await q(
+      `INSERT INTO job_members (id, job_id, user_id, role, company_id, created_at, updated_at)
+       SELECT gen_random_uuid(), $1, u.id, u.role, c.id, now(), now() FROM b_users u JOIN b_companies c ON c.k = u.company_k`,
+      [jobId],
+    );
     await copyBuiltinCatalogue(jobId, transaction);
     log(`bench seed: job, ${size.companies} companies, people and catalogue (${Date.now() - started} ms)`);
 

@@ -39,6 +39,7 @@ export function initModels(sequelize: Sequelize) {
   Job.belongsTo(Company, { as: 'ownerCompany', foreignKey: 'ownerCompanyId' });
   JobMember.belongsTo(Job, { as: 'job', foreignKey: 'jobId' });
   JobMember.belongsTo(User, { as: 'user', foreignKey: 'userId' });
+  JobMember.belongsTo(Company, { as: 'company', foreignKey: 'companyId' });
   Job.hasMany(JobMember, { as: 'members', foreignKey: 'jobId' });
   User.hasMany(JobMember, { as: 'memberships', foreignKey: 'userId' });
   AuthToken.belongsTo(Job, { as: 'job', foreignKey: 'jobId' });

@@ -268,9 +268,11 @@ export function invitationsRouter(options: InvitationRouteOptions): Router {
           );
           userId = user.id;
         }
+        // The membership carries the company the invitation was for, which may not be the
+        // person's home company: it decides what a subcontractor sees on this job.
         const [member] = await JobMember.findOrCreate({
           where: { jobId: row.jobId!, userId },
-          defaults: { jobId: row.jobId!, userId, role: row.role! },
+          defaults: { jobId: row.jobId!, userId, role: row.role!, companyId: row.companyId! },
           transaction,
         });
         await row.update({ userId }, { transaction });

@@ -41,7 +41,8 @@ export function jobsRouter(): Router {
         },
         { transaction },
       );
-      await JobMember.create({ jobId: job.id, userId: user.id, role: 'gc_manager' }, { transaction });
+      // The creator acts for their own company, the job's GC.
+      await JobMember.create({ jobId: job.id, userId: user.id, role: 'gc_manager', companyId: user.companyId }, { transaction });
       await JobCompany.create({ jobId: job.id, companyId: user.companyId, trades: ['general'] }, { transaction });
       await copyBuiltinCatalogue(job.id, transaction);
       setEtag(res, job.version);

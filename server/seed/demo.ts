@@ -113,14 +113,14 @@ async function seedAccountsAndJobs(db: Database): Promise<void> {
       const [company] = await Company.findOrCreate({ where: { name }, defaults: { name }, transaction });
       companies[key] = company.id;
     }
-    const users: Record<string, { id: string; role: Role }> = {};
+    const users: Record<string, { id: string; role: Role; companyId: string }> = {};
     for (const account of DEMO_ACCOUNTS) {
       const [user] = await User.findOrCreate({
         where: { email: account.email },
         defaults: { email: account.email, name: account.name, companyId: companies[account.company], passwordHash },
         transaction,
       });
-      users[account.email.split('@')[0]!] = { id: user.id, role: account.role };
+      users[account.email.split('@')[0]!] = { id: user.id, role: account.role, companyId: user.companyId };
     }
     for (const spec of DEMO_JOBS) {
       const [job] = await Job.findOrCreate({
@@ -140,7 +140,7 @@ async function seedAccountsAndJobs(db: Database): Promise<void> {
         const user = users[member]!;
         await JobMember.findOrCreate({
           where: { jobId: job.id, userId: user.id },
-          defaults: { jobId: job.id, userId: user.id, role: user.role },
+          defaults: { jobId: job.id, userId: user.id, role: user.role, companyId: user.companyId },
           transaction,
         });
       }

@@ -37,8 +37,10 @@ export async function buildJob(overrides: Partial<{ name: string; ownerCompanyId
   return Job.create({ name: overrides.name ?? `Job ${unique()}`, number: overrides.number ?? null, ownerCompanyId });
 }
 
-export async function addMember(jobId: string, userId: string, role: Role) {
-  return JobMember.create({ jobId, userId, role });
+/** A membership for `companyId`, by default the person's home company (an invitation may name another). */
+export async function addMember(jobId: string, userId: string, role: Role, companyId?: string) {
+  const company = companyId ?? (await User.findByPk(userId, { attributes: ['companyId'], rejectOnEmpty: true })).companyId;
+  return JobMember.create({ jobId, userId, role, companyId: company });
 }
 
 /**

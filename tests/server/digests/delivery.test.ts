@@ -129,7 +129,7 @@ describe('when a digest is due', () => {
 describe('at most once per period', () => {
   it('two workers racing for the same user and period: one claim, exactly one mail', async () => {
     const user = await buildUser({ companyId: w.subA.companyId });
-    await db.sequelize.query(`INSERT INTO job_members (id, job_id, user_id, role, created_at, updated_at) VALUES (gen_random_uuid(), $1, $2, 'subcontractor', now(), now())`, { bind: [w.job.id, user.id] });
+    await db.sequelize.query(`INSERT INTO job_members (id, job_id, user_id, role, company_id, created_at, updated_at) SELECT gen_random_uuid(), $1, u.id, 'subcontractor', u.company_id, now(), now() FROM users u WHERE u.id = $2`, { bind: [w.job.id, user.id] });
     await db.sequelize.transaction(async (t) => {
       await lockPreferencesRow(db.sequelize, user.id, t);
       await updatePreferences(db.sequelize, user.id, { digestHour: 0, timeZone: 'UTC' }, t);
@@ -155,7 +155,7 @@ describe('at most once per period', () => {
 
   it('a claim left by a worker that died mid-send is not sent again (at most once)', async () => {
     const user = await buildUser({ companyId: w.subA.companyId });
-    await db.sequelize.query(`INSERT INTO job_members (id, job_id, user_id, role, created_at, updated_at) VALUES (gen_random_uuid(), $1, $2, 'subcontractor', now(), now())`, { bind: [w.job.id, user.id] });
+    await db.sequelize.query(`INSERT INTO job_members (id, job_id, user_id, role, company_id, created_at, updated_at) SELECT gen_random_uuid(), $1, u.id, 'subcontractor', u.company_id, now(), now() FROM users u WHERE u.id = $2`, { bind: [w.job.id, user.id] });
     await db.sequelize.query(`INSERT INTO digest_sends (id, user_id, period_key, claimed_at, claimed_by) VALUES (gen_random_uuid(), $1, 'daily:2026-12-01', now(), 'died')`, { bind: [user.id] });
     const r = await digests.sendScheduled({ userId: user.id, period: 'daily', periodKey: 'daily:2026-12-01' }, 'restarted');
     expect(r.claimed).toBe(false);
@@ -165,7 +165,7 @@ describe('at most once per period', () => {
 
   it('through pg-boss: the same job sent twice (singletonKey) and two workers polling give one mail', async () => {
     const user = await buildUser({ companyId: w.subB.companyId });
-    await db.sequelize.query(`INSERT INTO job_members (id, job_id, user_id, role, created_at, updated_at) VALUES (gen_random_uuid(), $1, $2, 'subcontractor', now(), now())`, { bind: [w.job.id, user.id] });
+    await db.sequelize.query(`INSERT INTO job_members (id, job_id, user_id, role, company_id, created_at, updated_at) SELECT gen_random_uuid(), $1, u.id, 'subcontractor', u.company_id, now(), now() FROM users u WHERE u.id = $2`, { bind: [w.job.id, user.id] });
     const schedulers: DigestScheduler[] = [];
     try {
       // Two "servers": two pg-boss instances on the same database, each with its workers.

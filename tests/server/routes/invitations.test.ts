@@ -153,7 +153,7 @@ describe('POST /api/jobs/:jobId/invitations', () => {
     const gcCompany = await buildCompany();
     const job = await buildJob({ ownerCompanyId: gcCompany.id, name: 'Tower\r\nBcc: victim@evil.example' });
     const manager = await buildUser({ companyId: gcCompany.id, name: 'Ann <script>alert(1)</script>\nX-Evil: 1' });
-    await JobMember.create({ jobId: job.id, userId: manager.id, role: 'gc_manager' });
+    await JobMember.create({ jobId: job.id, userId: manager.id, role: 'gc_manager', companyId: gcCompany.id });
     const gc = await signIn(trimout.app, manager.email);
     const email = `inj-${uniq()}@test.trimout.example`;
     expect((await invite(gc, job.id, { email, name: 'Bo\r\nCc: other@evil.example', role: 'inspector' })).status).toBe(201);
