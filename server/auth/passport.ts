@@ -34,6 +34,8 @@ export interface PreloadedMembership {
   jobId: string;
   /** null: not a member (or no such job). */
   role: Role | null;
+  /** The company the caller acts for on this job (the membership's, not their home company). */
+  companyId: string | null;
   job: Job | null;
 }
 
@@ -49,7 +51,7 @@ declare global {
 const JOB_PATH = /^\/jobs\/([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})(?:\/|$)/i;
 
 const AUTH_SQL = `SELECT /* trimout:auth */ u.id, u.email, u.name, u.company_id, u.session_epoch, u.disabled_at, c.name AS company_name,
-       m.role, CASE WHEN j.id IS NULL THEN NULL ELSE to_jsonb(j) END AS job
+       m.role, m.company_id AS member_company_id, CASE WHEN j.id IS NULL THEN NULL ELSE to_jsonb(j) END AS job
   FROM users u
   LEFT JOIN companies c ON c.id = u.company_id
   LEFT JOIN job_members m ON m.user_id = u.id AND m.job_id = $2::uuid
@@ -65,6 +67,7 @@ interface AuthRow {
   disabled_at: Date | null;
   company_name: string | null;
   role: Role | null;
+  member_company_id: string | null;
   job: Record<string, unknown> | null;
 }
 
@@ -137,7 +140,7 @@ export function configurePassport(): passport.PassportStatic {
       const jobId = JOB_PATH.exec(req.path)?.[1] ?? null;
       const [row] = await (User.sequelize as Sequelize).query<AuthRow>(AUTH_SQL, { bind: [ref.id, jobId], type: QueryTypes.SELECT });
       if (!row || row.disabled_at || row.session_epoch !== ref.epoch) return done(null, false);
-      if (jobId) req.preloadedMembership = { jobId, role: row.role, job: row.job ? jobFromRow(row.job) : null };
+      if (jobId) req.preloadedMembership = { jobId, role: row.role, companyId: row.member_company_id, job: row.job ? jobFromRow(row.job) : null };
       return done(null, {
         id: row.id,
         email: row.email,

@@ -1,8 +1,9 @@
 /**
  * What a digest says, read from the database (raw SQL, bound parameters only).
  *
- * Subcontractor: per job where they are a subcontractor member, their company's unresolved
- * findings (open or fix submitted), each in one section: overdue (past due in the job's time zone),
+ * Subcontractor: per job where they are a subcontractor member, the unresolved findings (open or
+ * fix submitted) of the company that membership is for (job_members.company_id, which may differ
+ * from job to job and from the person's home company), each in one section: overdue (past due in the job's time zone),
  * returned (open again after a re-inspection returned it, with the latest return reason), new
  * (logged, or reassigned to the company, since the period began), then the rest.
  * The company scope is in the SQL WHERE, as for every other read of findings.
@@ -44,6 +45,8 @@ export interface DigestFinding {
 export interface SubcontractorJobDigest {
   jobId: string;
   jobName: string;
+  /** The company the membership is for: whose findings these are. */
+  company: { id: string; name: string };
   today: string;
   unresolved: number;
   overdue: DigestFinding[];
@@ -85,6 +88,8 @@ interface JobRow {
   name: string;
   time_zone: string;
   role: string;
+  company_id: string;
+  company_name: string;
 }
 
 interface FindingSqlRow {
@@ -239,8 +244,8 @@ export async function buildDigestContent(
   if (!user) return null;
   const since = new Date(now.getTime() - PERIOD_MS[period]);
   const jobs = await sequelize.query<JobRow>(
-    `SELECT j.id AS job_id, j.name, j.time_zone, m.role
-       FROM job_members m JOIN jobs j ON j.id = m.job_id
+    `SELECT j.id AS job_id, j.name, j.time_zone, m.role, m.company_id, c.name AS company_name
+       FROM job_members m JOIN jobs j ON j.id = m.job_id JOIN companies c ON c.id = m.company_id
       WHERE m.user_id = $1 AND m.role IN ('gc_manager', 'subcontractor')
       ORDER BY j.name, j.id`,
     { bind: [userId], type: QueryTypes.SELECT },
@@ -250,8 +255,15 @@ export async function buildDigestContent(
   for (const job of jobs) {
     const timeZone = job.time_zone || 'UTC';
     if (job.role === 'subcontractor') {
-      const { today, items } = await companyFindings(sequelize, { id: job.job_id, timeZone }, user.company_id, since, now);
-      subcontractorJobs.push({ jobId: job.job_id, jobName: job.name, today, unresolved: items.length, ...sections(items) });
+      const { today, items } = await companyFindings(sequelize, { id: job.job_id, timeZone }, job.company_id, since, now);
+      subcontractorJobs.push({
+        jobId: job.job_id,
+        jobName: job.name,
+        company: { id: job.company_id, name: job.company_name },
+        today,
+        unresolved: items.length,
+        ...sections(items),
+      });
     } else {
       const today = todayIn(timeZone, now);
       const levels = await levelCounts(sequelize, job.job_id, since, now);

@@ -74,8 +74,9 @@ function textSection(title: string, items: DigestFinding[], origin: string, list
 
 function textSubJob(job: SubcontractorJobDigest, origin: string): string[] {
   const list = `/jobs/${encodeURIComponent(job.jobId)}/findings`;
-  const lines = [`== ${job.jobName} ==`, `${job.unresolved} unresolved, ${job.overdue.length} overdue (today is ${job.today}).`, ''];
-  if (job.unresolved === 0) lines.push('Nothing waiting on your company. Well done.', '');
+  // The company is named: on different jobs one person may work for different companies.
+  const lines = [`== ${job.jobName} ==`, `For ${job.company.name}: ${job.unresolved} unresolved, ${job.overdue.length} overdue (today is ${job.today}).`, ''];
+  if (job.unresolved === 0) lines.push(`Nothing waiting on ${job.company.name}. Well done.`, '');
   lines.push(
     ...textSection('Overdue', job.overdue, origin, list),
     ...textSection('Returned after re-inspection', job.returned, origin, list),
@@ -135,9 +136,9 @@ function htmlSection(title: string, items: DigestFinding[], origin: string, list
 
 function htmlSubJob(job: SubcontractorJobDigest, origin: string): string {
   const list = `/jobs/${encodeURIComponent(job.jobId)}/findings`;
-  const empty = job.unresolved === 0 ? `<p style="margin:8px 0;color:${COLORS.ok}">Nothing waiting on your company. Well done.</p>` : '';
+  const empty = job.unresolved === 0 ? `<p style="margin:8px 0;color:${COLORS.ok}">Nothing waiting on ${e(job.company.name)}. Well done.</p>` : '';
   return `<h2 style="margin:24px 0 4px;font-size:19px;color:${COLORS.ink}">${e(job.jobName)}</h2>
-<p style="margin:0 0 8px;font-size:14px;color:${COLORS.muted}">${job.unresolved} unresolved · <span style="color:${job.overdue.length ? COLORS.late : COLORS.muted}">${job.overdue.length} overdue</span> · today is ${e(job.today)}</p>
+<p style="margin:0 0 8px;font-size:14px;color:${COLORS.muted}">For ${e(job.company.name)}: ${job.unresolved} unresolved · <span style="color:${job.overdue.length ? COLORS.late : COLORS.muted}">${job.overdue.length} overdue</span> · today is ${e(job.today)}</p>
 ${empty}${htmlSection('Overdue', job.overdue, origin, list)}
 ${htmlSection('Returned after re-inspection', job.returned, origin, list)}
 ${htmlSection('New since the last digest', job.fresh, origin, list)}

@@ -184,7 +184,7 @@ export function createDigestService(options: DigestServiceOptions): DigestServic
     const recipients = await sequelize.query<{ user_id: string }>(
       `SELECT u.id AS user_id
          FROM job_members m JOIN users u ON u.id = m.user_id
-        WHERE m.job_id = $1 AND m.role = 'subcontractor' AND u.company_id = $2 AND u.id <> $3
+        WHERE m.job_id = $1 AND m.role = 'subcontractor' AND m.company_id = $2 AND u.id <> $3
           AND u.disabled_at IS NULL AND u.email_confirmed_at IS NOT NULL
         ORDER BY u.id`,
       { bind: [input.jobId, input.companyId, input.actorId], type: QueryTypes.SELECT, transaction },

@@ -7,7 +7,10 @@
  * - jobMember:  a member of the job in :jobId with one of the given roles. Membership is read
  *               from the database on every request (never cached in the session); usually in
  *               the same query as the user (req.preloadedMembership, server/auth/passport.ts). A job the user
- *               is not a member of answers 404, so its existence is not leaked.
+ *               is not a member of answers 404, so its existence is not leaked. It also sets the
+ *               caller's scope (req.scope), once: a subcontractor sees the findings of the company
+ *               their membership is for (the company they were invited for), never those of their
+ *               home company unless that is the membership's company.
  */
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import { z } from 'zod';
@@ -15,6 +18,7 @@ import type { Role } from '../../shared/words';
 import { ROLES } from '../../shared/words';
 import { badRequest, forbidden, notFound, unauthorized } from '../errors';
 import { Job, JobMember } from '../models';
+import type { FindingScope } from '../services/findingQueries';
 
 export type PolicyHandler = RequestHandler & { policy: string };
 
@@ -22,8 +26,14 @@ declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
   namespace Express {
     interface Request {
-      /** Set by policy.jobMember: the job and the caller's role on it. */
+      /** Set by policy.jobMember: the job, the caller's role on it and the company the membership is for. */
       membership?: { job: Job; role: Role; companyId: string };
+      /**
+       * Set by policy.jobMember: what the caller may see of the job's findings. `companyId` is the
+       * membership's company for a subcontractor, null for a GC manager or an inspector (all).
+       * Every finding read (list, detail, photos, board, exports) takes this value.
+       */
+      scope?: FindingScope;
     }
   }
 }
@@ -51,17 +61,18 @@ export const policy = {
       // Read with the user in this request (server/auth/passport.ts) when the path named this job.
       const pre = req.preloadedMembership?.jobId === jobId.data ? req.preloadedMembership : undefined;
       const member = pre
-        ? { role: pre.role, job: pre.job }
+        ? { role: pre.role, companyId: pre.companyId, job: pre.job }
         : await JobMember.findOne({
             where: { jobId: jobId.data, userId: req.user.id },
             include: [{ model: Job, as: 'job', required: true }],
           });
-      if (!member || !member.role || !member.job) return next(notFound('Job not found.'));
+      if (!member || !member.role || !member.companyId || !member.job) return next(notFound('Job not found.'));
       const role = member.role;
       if (!roles.includes(role)) {
         return next(forbidden(`Your role on this job (${role.replace('_', ' ')}) cannot do that.`));
       }
-      req.membership = { job: member.job, role, companyId: req.user.companyId };
+      req.membership = { job: member.job, role, companyId: member.companyId };
+      req.scope = { jobId: member.job.id, timeZone: member.job.timeZone || 'UTC', companyId: role === 'subcontractor' ? member.companyId : null };
       next();
     }),
 };

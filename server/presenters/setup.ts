@@ -140,14 +140,15 @@ export function presentJobCompany(link: JobCompany, company: Company, extra: { i
   };
 }
 
-export function presentMember(member: JobMember, user: User & { company?: Company }, showEmail: boolean): MemberDto {
+/** A member under the company their membership is for (member.company loaded), not their home company. */
+export function presentMember(member: JobMember, user: User, showEmail: boolean): MemberDto {
   return {
     id: member.id,
     userId: user.id,
     name: user.name,
     role: member.role,
-    companyId: user.companyId,
-    companyName: user.company?.name ?? '',
+    companyId: member.companyId,
+    companyName: member.company?.name ?? '',
     email: showEmail ? user.email : null,
   };
 }

@@ -6,7 +6,6 @@
  * GET /jobs/:jobId/recurring     every role (subcontractor: their company's findings only)
  * GET /jobs/:jobId/trend         every role (subcontractor: their company's findings only); ?levelId&days
  */
-import type { Request } from 'express';
 import { Router } from 'express';
 import { readinessQuerySchema, trendQuerySchema, type ReadinessQuery, type TrendQuery } from '../../shared/schemas/board';
 import { jobParamsSchema } from '../../shared/schemas/setup';
@@ -14,41 +13,35 @@ import { notFound } from '../errors';
 import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
 import { loadBoard, loadReadiness, loadRecurring, loadScorecards, loadTrend } from '../services/board';
-import type { FindingScope } from '../services/findingQueries';
 import { sequelizeOf } from '../services/records';
 
 const SCORECARD_ROLES = ['gc_manager', 'inspector'] as const;
-
-function scopeOf(req: Request): FindingScope {
-  const { job, role, companyId } = req.membership!;
-  return { jobId: job.id, timeZone: job.timeZone || 'UTC', companyId: role === 'subcontractor' ? companyId : null };
-}
 
 export function boardRouter(): Router {
   const router = Router();
 
   router.get('/jobs/:jobId/board', policy.jobMember(), validate({ params: jobParamsSchema }), async (req, res) => {
-    res.json(await loadBoard(sequelizeOf(req), scopeOf(req)));
+    res.json(await loadBoard(sequelizeOf(req), req.scope!));
   });
 
   router.get('/jobs/:jobId/readiness', policy.jobMember(), validate({ params: jobParamsSchema, query: readinessQuerySchema }), async (req, res) => {
     const query = valid<ReadinessQuery>(req.valid.query);
-    const body = await loadReadiness(sequelizeOf(req), scopeOf(req), query);
+    const body = await loadReadiness(sequelizeOf(req), req.scope!, query);
     if (!body) throw notFound('Level or system not found on this job.');
     res.json(body);
   });
 
   router.get('/jobs/:jobId/scorecards', policy.jobMember(SCORECARD_ROLES), validate({ params: jobParamsSchema }), async (req, res) => {
-    res.json(await loadScorecards(sequelizeOf(req), scopeOf(req)));
+    res.json(await loadScorecards(sequelizeOf(req), req.scope!));
   });
 
   router.get('/jobs/:jobId/recurring', policy.jobMember(), validate({ params: jobParamsSchema }), async (req, res) => {
-    res.json(await loadRecurring(sequelizeOf(req), scopeOf(req)));
+    res.json(await loadRecurring(sequelizeOf(req), req.scope!));
   });
 
   router.get('/jobs/:jobId/trend', policy.jobMember(), validate({ params: jobParamsSchema, query: trendQuerySchema }), async (req, res) => {
     const query = valid<TrendQuery>(req.valid.query);
-    const body = await loadTrend(sequelizeOf(req), scopeOf(req), query);
+    const body = await loadTrend(sequelizeOf(req), req.scope!, query);
     if (!body) throw notFound('Level not found.');
     res.json(body);
   });

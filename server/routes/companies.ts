@@ -29,11 +29,12 @@ import { encodeCursor, pageRequest } from '../services/paging';
 import { destroyOrConflict, inTransaction, lockForChange, refuseIfReferenced, sequelizeOf } from '../services/records';
 import { setEtag } from '../services/versioning';
 
+/** Members of the job acting for each company (the membership's company, not the person's home company). */
 async function memberCounts(jobId: string, companyIds: string[], transaction?: Transaction): Promise<Map<string, number>> {
   if (companyIds.length === 0) return new Map();
   const rows = await JobCompany.sequelize!.query<{ company_id: string; n: string }>(
-    `SELECT u.company_id, count(*) AS n FROM job_members m JOIN users u ON u.id = m.user_id
-      WHERE m.job_id = $1 AND u.company_id = ANY($2::uuid[]) GROUP BY u.company_id`,
+    `SELECT m.company_id, count(*) AS n FROM job_members m
+      WHERE m.job_id = $1 AND m.company_id = ANY($2::uuid[]) GROUP BY m.company_id`,
     { bind: [jobId, companyIds], type: QueryTypes.SELECT, transaction },
   );
   return new Map(rows.map((r) => [r.company_id, Number(r.n)]));

@@ -43,7 +43,7 @@ import { valid, validate, zodFieldErrors } from '../middleware/validate';
 import { Finding, Fix, Photo } from '../models';
 import { policy } from '../policies';
 import { inbox, fixDto, reinspectionQueue } from '../services/correction';
-import { findingDetail, findingsByIds, type FindingScope } from '../services/findingQueries';
+import { findingDetail, findingsByIds } from '../services/findingQueries';
 import { companyOnJob, recordFindingEvent } from '../services/findings';
 import { assertAllowed, decide, refusalError } from '../services/findingStatus';
 import { notifyCriticalAssignment } from '../digests/events';
@@ -65,14 +65,9 @@ export interface CorrectionRouterOptions {
   log?: (message: string, err?: unknown) => void;
 }
 
-function scopeOf(req: Request): FindingScope {
-  const { job, role, companyId } = req.membership!;
-  return { jobId: job.id, timeZone: job.timeZone || 'UTC', companyId: role === 'subcontractor' ? companyId : null };
-}
-
 /** The finding in the caller's scope, locked for the rest of the transaction; 404 when it is not theirs to see. */
 async function lockFinding(req: Request, findingId: string, transaction: Transaction): Promise<Finding> {
-  const scope = scopeOf(req);
+  const scope = req.scope!;
   const where: WhereOptions<Finding> = { id: findingId, jobId: scope.jobId };
   if (scope.companyId) Object.assign(where, { companyId: scope.companyId });
   const finding = await Finding.findOne({ where, transaction, lock: transaction.LOCK.UPDATE });
@@ -84,7 +79,7 @@ async function lockFinding(req: Request, findingId: string, transaction: Transac
 async function requireIfMatch(req: Request, finding: Finding, transaction: Transaction): Promise<void> {
   const header = req.get('if-match');
   const fresh = !header || header.split(',').some((t) => ['*', etagOf(finding.version)].includes(t.trim()));
-  const current = fresh ? undefined : await findingDetail(sequelizeOf(req), scopeOf(req), finding.id, transaction);
+  const current = fresh ? undefined : await findingDetail(sequelizeOf(req), req.scope!, finding.id, transaction);
   checkIfMatch(req, finding.version, current);
 }
 
@@ -99,7 +94,7 @@ async function authorise(req: Request, finding: Finding, action: FindingAction, 
 }
 
 async function answerWithFinding(req: Request, res: Response, finding: Finding, transaction: Transaction, status = 200) {
-  const detail = await findingDetail(sequelizeOf(req), scopeOf(req), finding.id, transaction);
+  const detail = await findingDetail(sequelizeOf(req), req.scope!, finding.id, transaction);
   setEtag(res, finding.version);
   return { status, body: detail };
 }
@@ -126,7 +121,7 @@ async function fixTarget(req: Request, _res: Response, next: NextFunction) {
   if (await alreadyAnswered(req)) return next();
   const { findingId } = valid<{ findingId: string }>(req.valid.params);
   const { job, role } = req.membership!;
-  const scope = scopeOf(req);
+  const scope = req.scope!;
   const visible = await Finding.findOne({
     where: { id: findingId, jobId: job.id, ...(scope.companyId ? { companyId: scope.companyId } : {}) },
     attributes: ['id', 'status', 'loggedBy'],
@@ -214,7 +209,7 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
             },
             transaction,
           );
-          const detail = await findingDetail(sequelize, scopeOf(req), finding.id, transaction);
+          const detail = await findingDetail(sequelize, req.scope!, finding.id, transaction);
           const fixBody = await fixDto(sequelize, job.id, fix.id, transaction);
           setEtag(res, finding.version);
           return { status: 201, body: { fix: fixBody, finding: detail } };
@@ -318,7 +313,7 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
   // ---- Timeline and comments -----------------------------------------------------------------
   const timeline = async (req: Request, kinds: 'all' | 'comments') => {
     const { findingId } = valid<{ findingId: string }>(req.valid.params);
-    const detail = await findingDetail(sequelizeOf(req), scopeOf(req), findingId);
+    const detail = await findingDetail(sequelizeOf(req), req.scope!, findingId);
     if (!detail) throw notFound('Finding not found.');
     return { items: kinds === 'all' ? detail.events : detail.events.filter((e) => e.kind === 'comment') };
   };
@@ -384,14 +379,14 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
           await notifyCriticalAssignment(req, transaction, { jobId: job.id, findingId: finding.id, companyId: company.id, severity: finding.severity, how: 'reassigned' });
         }
       }
-      const items = await findingsByIds(sequelize, scopeOf(req), body.findingIds, transaction);
+      const items = await findingsByIds(sequelize, req.scope!, body.findingIds, transaction);
       return { status: 200, body: { items } };
     });
   });
 
   // ---- Re-inspection queue -------------------------------------------------------------------
   router.get('/jobs/:jobId/reinspections/queue', policy.jobMember(REINSPECT_ROLES), validate({ params: jobParamsSchema }), async (req, res) => {
-    res.json(await reinspectionQueue(sequelizeOf(req), scopeOf(req)));
+    res.json(await reinspectionQueue(sequelizeOf(req), req.scope!));
   });
 
   // ---- Inbox ---------------------------------------------------------------------------------
@@ -403,7 +398,7 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
       type: QueryTypes.SELECT,
     });
     if (!membership) throw forbidden('The inbox lists a subcontractor company\'s findings; use the findings table of a job instead.');
-    res.json(await inbox(sequelizeOf(req), { id: user.id, companyId: user.companyId }, { jobId: q.jobId, statuses: q.status ?? ['open', 'fix_submitted'], groupBy: q.groupBy ?? 'none' }));
+    res.json(await inbox(sequelizeOf(req), user.id, { jobId: q.jobId, statuses: q.status ?? ['open', 'fix_submitted'], groupBy: q.groupBy ?? 'none' }));
   });
 
   return router;

@@ -19,18 +19,13 @@ import { loadScorecards } from '../services/board';
 import { findingsCsvQuery } from '../services/csvFindings';
 import { csvFileName, exportLimiter } from '../services/csvSafe';
 import { sendRecordsAsCsv, streamQueryAsCsv } from '../services/csvStream';
-import { findingFiltersOf, type FindingScope } from '../services/findingQueries';
+import { findingFiltersOf } from '../services/findingQueries';
 import { sequelizeOf } from '../services/records';
 
 export interface ExportsRouterOptions {
   /** Links in the files are built on this origin (env PUBLIC_URL); without it, on the request's own. */
   publicUrl?: string;
   log?: (message: string, err?: unknown) => void;
-}
-
-function scopeOf(req: Request): FindingScope {
-  const { job, role, companyId } = req.membership!;
-  return { jobId: job.id, timeZone: job.timeZone || 'UTC', companyId: role === 'subcontractor' ? companyId : null };
 }
 
 export function exportsRouter(options: ExportsRouterOptions = {}): Router {
@@ -50,7 +45,7 @@ export function exportsRouter(options: ExportsRouterOptions = {}): Router {
       const { job } = req.membership!;
       const query = findingsCsvQuery(
         { jobId: job.id, unitSystem: job.unitSystem, origin: originOf(req) },
-        scopeOf(req),
+        req.scope!,
         findingFiltersOf(q),
         q.sort ?? '-number',
         csvFileName('findings', job.name),
@@ -67,7 +62,7 @@ export function exportsRouter(options: ExportsRouterOptions = {}): Router {
     validate({ params: jobParamsSchema, query: noExportQuerySchema }),
     async (req, res) => {
       const { job } = req.membership!;
-      const { companies } = await loadScorecards(sequelizeOf(req), scopeOf(req));
+      const { companies } = await loadScorecards(sequelizeOf(req), req.scope!);
       await sendRecordsAsCsv(res, csvFileName('scorecards', job.name), [
         [...SCORECARDS_CSV_HEADER],
         ...companies.map((c) => [

@@ -33,7 +33,7 @@ import { valid, validate, zodFieldErrors } from '../middleware/validate';
 import { CatalogueItem, Finding, Level, Photo, Space, Unit, UnitCheck, UnitModel } from '../models';
 import { policy } from '../policies';
 import { companyOnJob, dueOnFor, limitResolverFor, measure, nextFindingNumber, recordFindingEvent, suggestCompany } from '../services/findings';
-import { findingDetail, findingFiltersOf, listFindings, visiblePhoto, type FindingScope } from '../services/findingQueries';
+import { findingDetail, findingFiltersOf, listFindings, visiblePhoto } from '../services/findingQueries';
 import { notifyCriticalAssignment } from '../digests/events';
 import { idempotentWrite } from '../services/idempotency';
 import { pageRequest } from '../services/paging';
@@ -51,11 +51,6 @@ export interface FindingsRouterOptions {
   /** Per-user upload limits and temporary files, shared by every upload route of the app. */
   uploads?: UploadGuard;
   log?: (message: string, err?: unknown) => void;
-}
-
-function scopeOf(req: Request): FindingScope {
-  const { job, role, companyId } = req.membership!;
-  return { jobId: job.id, timeZone: job.timeZone || 'UTC', companyId: role === 'subcontractor' ? companyId : null };
 }
 
 /** Validates the body after multipartOrJson and keeps the original for the idempotency fingerprint. */
@@ -129,7 +124,7 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
       const page = pageRequest({ limit: q.limit ?? FINDINGS_LIST_LIMIT_DEFAULT, cursor: q.cursor });
       const body = await listFindings(
         sequelizeOf(req),
-        scopeOf(req),
+        req.scope!,
         findingFiltersOf(q),
         q.sort ?? '-number',
         page,
@@ -251,7 +246,7 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
             transaction,
           );
           await notifyCriticalAssignment(req, transaction, { jobId: job.id, findingId: finding.id, companyId: company.id, severity, how: 'logged' });
-          const detail = await findingDetail(sequelize, scopeOf(req), finding.id, transaction);
+          const detail = await findingDetail(sequelize, req.scope!, finding.id, transaction);
           setEtag(res, finding.version);
           return { status: 201, body: detail };
         });
@@ -267,7 +262,7 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
 
   router.get('/jobs/:jobId/findings/:findingId', policy.jobMember(), validate({ params: findingParamsSchema }), async (req, res) => {
     const { findingId } = valid<{ findingId: string }>(req.valid.params);
-    const detail = await findingDetail(sequelizeOf(req), scopeOf(req), findingId);
+    const detail = await findingDetail(sequelizeOf(req), req.scope!, findingId);
     if (!detail) throw notFound('Finding not found.');
     setEtag(res, detail.version);
     res.json(detail);
@@ -275,7 +270,7 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
 
   const servePhoto = (variant: 'full' | 'thumb'): RequestHandler => async (req, res) => {
     const { photoId } = valid<{ photoId: string }>(req.valid.params);
-    const photo = await visiblePhoto(sequelizeOf(req), scopeOf(req), photoId);
+    const photo = await visiblePhoto(sequelizeOf(req), req.scope!, photoId);
     if (!photo) throw notFound('Photo not found.');
     await sendPhoto(store, res, photo, variant);
   };

@@ -17,7 +17,11 @@ import { presentMember } from '../presenters/setup';
 import { encodeCursor, pageRequest } from '../services/paging';
 import { inTransaction, lockRow, lockJob } from '../services/records';
 
-const MEMBER_INCLUDE = [{ model: User, as: 'user', required: true, include: [{ model: Company, as: 'company' }] }];
+/** The person, and the company the membership is for (which may differ from the person's home company). */
+const MEMBER_INCLUDE = [
+  { model: User, as: 'user', required: true },
+  { model: Company, as: 'company', required: true },
+];
 
 async function refuseLastManager(jobId: string, member: JobMember, transaction: Transaction, doing: string): Promise<void> {
   if (member.role !== 'gc_manager') return;
@@ -41,7 +45,7 @@ export function membersRouter(): Router {
       where: {
         jobId: job.id,
         ...(query.role ? { role: query.role } : {}),
-        ...(query.companyId ? { '$user.company_id$': query.companyId } : {}),
+        ...(query.companyId ? { companyId: query.companyId } : {}),
         ...after,
       },
       include: MEMBER_INCLUDE,
@@ -53,7 +57,7 @@ export function membersRouter(): Router {
     const last = members[members.length - 1];
     const showEmail = role === 'gc_manager';
     res.json({
-      items: members.map((m) => presentMember(m, m.user as User & { company?: Company }, showEmail)),
+      items: members.map((m) => presentMember(m, m.user!, showEmail)),
       nextCursor: more && last ? encodeCursor(last.user!.name, last.id) : null,
     });
   });
@@ -74,7 +78,7 @@ export function membersRouter(): Router {
         await member.save({ transaction });
         return JobMember.findOne({ where: { id: member.id }, include: MEMBER_INCLUDE, transaction });
       });
-      res.json(presentMember(member!, member!.user as User & { company?: Company }, true));
+      res.json(presentMember(member!, member!.user!, true));
     },
   );
 

@@ -91,16 +91,17 @@ export async function fixDto(sequelize: Sequelize, jobId: string, fixId: string,
 type InboxRow = FindingRow & { job_id: string; job_name: string; last_return_reason: string | null; level_position: number };
 
 /**
- * The inbox of a subcontractor: their company's open / fix-submitted findings on every job
- * where they are a subcontractor member. Overdue (in each job's time zone) first, then due
+ * The inbox of a subcontractor: on every job where they are a subcontractor member, the open /
+ * fix-submitted findings of the company that membership is for (which may differ from job to
+ * job, and from the person's home company). Overdue (in each job's time zone) first, then due
  * date, then job name and number.
  */
 export async function inbox(
   sequelize: Sequelize,
-  user: { id: string; companyId: string },
+  userId: string,
   options: { jobId?: string; statuses: readonly string[]; groupBy: 'none' | 'area' },
 ): Promise<InboxResponse> {
-  const bind: unknown[] = [user.id, user.companyId, options.statuses];
+  const bind: unknown[] = [userId, options.statuses];
   const today = `(now() AT TIME ZONE COALESCE(NULLIF(j.time_zone, ''), 'UTC'))::date`;
   const jobFilter = options.jobId ? ` AND f.job_id = $${bind.push(options.jobId)}` : '';
   const rows = await sequelize.query<InboxRow>(
@@ -109,8 +110,8 @@ export async function inbox(
               ORDER BY e.at DESC, e.id DESC LIMIT 1) AS last_return_reason
        ${FROM_SQL}
        JOIN jobs j ON j.id = f.job_id
-       JOIN job_members m ON m.job_id = f.job_id AND m.user_id = $1 AND m.role = 'subcontractor'
-      WHERE f.company_id = $2 AND f.status = ANY ($3::text[])${jobFilter}
+       JOIN job_members m ON m.job_id = f.job_id AND m.user_id = $1 AND m.role = 'subcontractor' AND m.company_id = f.company_id
+      WHERE f.status = ANY ($2::text[])${jobFilter}
       ORDER BY overdue DESC, f.due_on ASC, j.name ASC, f.number ASC
       LIMIT ${INBOX_MAX}`,
     { bind, type: QueryTypes.SELECT },

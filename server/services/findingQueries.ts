@@ -28,7 +28,7 @@ import { SEVERITY_RANK_SQL, todayIn } from './findings';
 export interface FindingScope {
   jobId: string;
   timeZone: string;
-  /** Set for subcontractors: only this company's findings exist for them. */
+  /** Set for subcontractors: the company their membership of the job is for (policy.jobMember); only its findings exist for them. */
   companyId: string | null;
 }
 

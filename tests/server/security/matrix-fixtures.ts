@@ -3,14 +3,15 @@
  * path parameter can name (level, space, system, unit model, units, catalogue, findings of
  * company A and of company B with photos, a walk, a unit check, a comment, an invitation), the
  * five callers (anonymous, GC manager, inspector, subcontractor of company A and of company B,
- * members of the OWN job only), and per route a function that makes a minimal VALID request
- * against fresh rows, so authorisation, not validation, decides the answer.
+ * members of the OWN job only; B's person has company A as home company), and per route a
+ * function that makes a minimal VALID request against fresh rows, so authorisation, not
+ * validation, decides the answer.
  */
 import { randomUUID } from 'node:crypto';
 import request, { type Response } from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
 import type { TrimoutApp } from '../../../server/app';
-import { CatalogueItem, Level } from '../../../server/models';
+import { CatalogueItem, Level, User } from '../../../server/models';
 import { signUnsubscribeToken } from '../../../server/digests/unsubscribeToken';
 import { issueToken } from '../../../server/services/tokens';
 import { caller, type Caller } from '../../support/api';
@@ -74,6 +75,10 @@ export interface Ctx {
 export async function buildCtx(app: TrimoutApp['app']): Promise<Ctx> {
   const own = await buildWorld(app);
   const other = await buildWorld(app); // its own crew: none of the callers below is a member
+  // Subcontractor B's home company is company A: on the own job they act for company B only
+  // through their membership (as if invited for B), so every row also checks that scoping reads
+  // the membership's company, never the person's home company.
+  await User.update({ companyId: own.subA.companyId }, { where: { id: own.subB.id } });
   const anon = request.agent(app);
   const agents: Record<RoleName, SignedIn> = {
     anon: { agent: anon, csrf: await csrfFor(anon) },
