@@ -9,6 +9,7 @@ import { startDigestScheduler, type DigestScheduler } from './digests/scheduler'
 import { pruneIdempotencyKeys } from './services/idempotency';
 import { reapOrphanUploads, REAP_INTERVAL_MINUTES } from './services/pendingUploads';
 import { createObjectStore } from './storage';
+import { sweepUploadFolders } from './middleware/upload';
 
 export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   const env = loadEnv(envSource);
@@ -38,10 +39,13 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   pruneTimer.unref();
   // Uploads stored by a write that never committed (a crash, a kill): reaped at start and every
   // REAP_INTERVAL_MINUTES once their pending row is old enough (server/services/pendingUploads.ts).
-  const reap = () =>
+  // Temporary folders of requests the process died in are swept with them.
+  const reap = () => {
     void reapOrphanUploads(db.sequelize, objectStore)
       .then((r) => r.deleted > 0 && log(`removed ${r.deleted} orphaned upload(s) of writes that never committed`))
       .catch((err: unknown) => log('reaping orphaned uploads failed', err));
+    void sweepUploadFolders().catch((err: unknown) => log('sweeping temporary upload folders failed', err));
+  };
   reap();
   const reapTimer = setInterval(reap, REAP_INTERVAL_MINUTES * 60 * 1000);
   reapTimer.unref();

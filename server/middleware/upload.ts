@@ -30,7 +30,7 @@
  */
 import { createHash, randomUUID } from 'node:crypto';
 import fs from 'node:fs';
-import { mkdir, mkdtemp, rm } from 'node:fs/promises';
+import { lstat, mkdir, mkdtemp, readdir, rm } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import { Transform } from 'node:stream';
@@ -90,11 +90,24 @@ export type UploadedFile = Express.Multer.File & { sha256: string };
 
 const requestFolders = new WeakMap<Request, Promise<string>>();
 
+/**
+ * Makes the root (owner-only) and refuses one that someone else owns or can write to: in a
+ * shared temporary folder another account could have made it first, to read or swap uploads.
+ */
+async function ensureRoot(root: string): Promise<void> {
+  await mkdir(root, { recursive: true, mode: 0o700 });
+  const stat = await lstat(root);
+  const ours = typeof process.getuid !== 'function' || stat.uid === process.getuid();
+  if (!stat.isDirectory() || !ours || (stat.mode & 0o022) !== 0) {
+    throw new Error(`The upload folder ${root} is not a private folder of this server's account.`);
+  }
+}
+
 /** The request's private folder, made on its first file; removed once the response is over. */
 function requestFolder(req: Request, root: string): Promise<string> {
   let folder = requestFolders.get(req);
   if (!folder) {
-    folder = mkdir(root, { recursive: true, mode: 0o700 }).then(() => mkdtemp(path.join(root, 'req-')));
+    folder = ensureRoot(root).then(() => mkdtemp(path.join(root, 'req-')));
     requestFolders.set(req, folder);
     const remove = () => void folder!.then((dir) => rm(dir, { recursive: true, force: true })).catch(() => undefined);
     const res = req.res;
@@ -102,6 +115,14 @@ function requestFolder(req: Request, root: string): Promise<string> {
     else res.once('close', remove);
   }
   return folder;
+}
+
+/** The request's temporary folder could not be made: the server's fault (500), not the upload's. */
+export class UploadFolderError extends Error {
+  constructor(cause: unknown) {
+    super('The temporary folder for an upload could not be made.', { cause });
+    this.name = 'UploadFolderError';
+  }
 }
 
 /**
@@ -113,6 +134,9 @@ class TempFileStorage implements multer.StorageEngine {
 
   _handleFile(req: Request, file: Express.Multer.File, cb: (error?: unknown, info?: Partial<UploadedFile>) => void): void {
     requestFolder(req, this.root)
+      .catch((err: unknown) => {
+        throw new UploadFolderError(err);
+      })
       .then(async (dir) => {
         const target = path.join(dir, randomUUID());
         const hash = createHash('sha256');
@@ -134,6 +158,26 @@ class TempFileStorage implements multer.StorageEngine {
     if (!file.path) return cb(null);
     fs.rm(file.path, { force: true }, () => cb(null));
   }
+}
+
+/**
+ * Removes request folders older than `maxAgeMs` under `root`: left behind only when the process
+ * died mid-request (the folder of a finished request is removed with its response). Run at
+ * server start and with the upload reaper.
+ */
+export async function sweepUploadFolders(root: string = UPLOAD_TEMP_ROOT, maxAgeMs = 60 * 60 * 1000): Promise<number> {
+  const entries = await readdir(root, { withFileTypes: true }).catch(() => []);
+  let removed = 0;
+  for (const e of entries) {
+    if (!e.isDirectory() || !e.name.startsWith('req-')) continue;
+    const dir = path.join(root, e.name);
+    const stat = await lstat(dir).catch(() => null);
+    if (stat && Date.now() - stat.mtimeMs > maxAgeMs) {
+      await rm(dir, { recursive: true, force: true });
+      removed += 1;
+    }
+  }
+  return removed;
 }
 
 /** A multer instance writing to temporary files under `root`. */
@@ -180,6 +224,7 @@ export function uploadPhotos(options: UploadPhotosOptions = {}): RequestHandler 
     }
     parser(req, res, (err?: unknown) => {
       if (!err) return next();
+      if (err instanceof UploadFolderError) return next(err);
       if (err instanceof multer.MulterError) return next(mapMulterError(err));
       // Anything else raised while parsing comes from busboy reading the body (a truncated or
       // malformed multipart body, a missing boundary) or from the client going away.

@@ -25,7 +25,7 @@ import { QueryTypes, type Transaction } from 'sequelize';
 import { planImageQuerySchema, type PlanImageQuery } from '../../shared/schemas/board';
 import { levelParamsSchema } from '../../shared/schemas/setup';
 import { badRequest, HttpError, notFound } from '../errors';
-import { createUploadGuard, tempFileMulter, type UploadedFile, type UploadGuard } from '../middleware/upload';
+import { createUploadGuard, tempFileMulter, UploadFolderError, type UploadedFile, type UploadGuard } from '../middleware/upload';
 import { valid, validate } from '../middleware/validate';
 import { Level } from '../models';
 import { policy } from '../policies';
@@ -63,6 +63,7 @@ const uploadPlan = (tempRoot: string): RequestHandler => {
     }
     parser(req, res, (err?: unknown) => {
       if (!err) return next();
+      if (err instanceof UploadFolderError) return next(err);
       if (err instanceof multer.MulterError) {
         switch (err.code) {
           case 'LIMIT_FILE_SIZE':

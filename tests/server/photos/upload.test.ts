@@ -3,13 +3,17 @@
  * in a small test-only Express app: status codes and messages for every refusal, nothing
  * stored on refusal, the server still serving afterwards, and the headers of a served photo.
  */
+import { createHash } from 'node:crypto';
+import fs from 'node:fs';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
 import express from 'express';
 import request from 'supertest';
 import sharp from 'sharp';
 import { errorHandler, notFound } from '../../../server/errors';
-import { MAX_UPLOAD_BODY_BYTES, PHOTO_LIMITS, uploadPhotos, uploadedFiles } from '../../../server/middleware/upload';
+import { MAX_UPLOAD_BODY_BYTES, PHOTO_LIMITS, sweepUploadFolders, uploadPhotos, uploadedFiles } from '../../../server/middleware/upload';
 import { PHOTO_MAX_AGE_SECONDS, processPhotos, sendPhoto, storePhotos, type StoredPhoto } from '../../../server/services/photos';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
 import { SAMPLE_HEIC, SVG, TEXT_AS_JPEG, halvesImage, phoneJpeg, pixelFloodPng } from './fixtures';
@@ -53,6 +57,59 @@ async function expectNothingStoredAndStillServing(before: string[]) {
 function multipart(boundary: string, parts: string[], close = true): string {
   return parts.map((p) => `--${boundary}\r\n${p}\r\n`).join('') + (close ? `--${boundary}--\r\n` : '');
 }
+
+describe('temporary files', () => {
+  it('writes each request into its own private folder and removes it once the response is done', async () => {
+    const root = fs.mkdtempSync(path.join(os.tmpdir(), 'trimout-upload-root-'));
+    const seen: string[] = [];
+    const probe = express();
+    probe.post('/upload', uploadPhotos({ tempRoot: root }), (req, res) => {
+      for (const f of uploadedFiles(req)) {
+        seen.push(f.path);
+        expect(fs.statSync(f.path).mode & 0o777).toBe(0o600);
+        expect(path.dirname(f.path).startsWith(path.join(root, 'req-'))).toBe(true);
+        expect(f.sha256).toBe(createHash('sha256').update(jpeg).digest('hex'));
+      }
+      res.status(201).json({ n: seen.length });
+    });
+    probe.use(errorHandler(() => undefined));
+    await request(probe).post('/upload').attach('photos', jpeg, 'a.jpg').attach('photos', jpeg, 'b.jpg').expect(201);
+    expect(seen).toHaveLength(2);
+    await waitUntil(() => fs.readdirSync(root).length === 0);
+    // Refused mid-body (an 11th file): nothing left either.
+    let req = request(probe).post('/upload');
+    for (let i = 0; i < 11; i++) req = req.attach('photos', jpeg, `p${i}.jpg`);
+    await req.expect(413);
+    await waitUntil(() => fs.readdirSync(root).length === 0);
+    fs.rmSync(root, { recursive: true, force: true });
+  });
+
+  it('refuses a root folder that other accounts can write to (500, nothing written there)', async () => {
+    const root = fs.mkdtempSync(path.join(os.tmpdir(), 'trimout-upload-open-'));
+    fs.chmodSync(root, 0o777);
+    const probe = express();
+    probe.post('/upload', uploadPhotos({ tempRoot: root }), (_req, res) => {
+      res.status(201).end();
+    });
+    probe.use(errorHandler(() => undefined));
+    const res = await request(probe).post('/upload').attach('photos', jpeg, 'a.jpg').expect(500);
+    expect(res.body.error.id).toBe('internal');
+    expect(fs.readdirSync(root)).toEqual([]);
+    fs.rmSync(root, { recursive: true, force: true });
+  });
+
+  it('sweeps request folders a dead process left behind, and only old ones', async () => {
+    const root = fs.mkdtempSync(path.join(os.tmpdir(), 'trimout-upload-sweep-'));
+    const old = fs.mkdtempSync(path.join(root, 'req-'));
+    fs.writeFileSync(path.join(old, 'x'), 'left by a crash');
+    const past = new Date(Date.now() - 2 * 60 * 60 * 1000);
+    fs.utimesSync(old, past, past);
+    const fresh = fs.mkdtempSync(path.join(root, 'req-'));
+    expect(await sweepUploadFolders(root)).toBe(1);
+    expect(fs.readdirSync(root)).toEqual([path.basename(fresh)]);
+    fs.rmSync(root, { recursive: true, force: true });
+  });
+});
 
 describe('uploads that are accepted', () => {
   it('stores each photo under a new UUID key (never the file name) and serves it back', async () => {
@@ -234,6 +291,14 @@ describe('uploads that are refused, with nothing stored and the server still ser
     await expectNothingStoredAndStillServing(before);
   });
 });
+
+async function waitUntil(check: () => boolean, ms = 10_000): Promise<void> {
+  const until = Date.now() + ms;
+  while (!check()) {
+    if (Date.now() > until) throw new Error('timed out');
+    await new Promise((r) => setTimeout(r, 20));
+  }
+}
 
 /** supertest parser that keeps a binary body as a Buffer. */
 function binary(res: request.Response, done: (err: Error | null, body: Buffer) => void) {
