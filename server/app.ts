@@ -41,6 +41,7 @@ import { createDigestService } from './digests/service';
 import { boardRouter } from './routes/board';
 import { exportsRouter } from './routes/exports';
 import { createObjectStore, type ObjectStore } from './storage';
+import { CURSOR_SECRETS_SETTING } from './services/paging';
 
 declare module 'express-session' {
   interface SessionData {
@@ -91,6 +92,8 @@ export function createApp(options: AppOptions): TrimoutApp {
   // Digests and event mails (server/digests): the finding routes reach it through req.app.get('digests').
   const digests = createDigestService({ sequelize: db.sequelize, mail, env, log });
   app.set('digests', digests);
+  // List cursors are signed with the session secrets (server/services/paging.ts).
+  app.set(CURSOR_SECRETS_SETTING, env.sessionSecrets);
   app.disable('x-powered-by');
   app.set('trust proxy', env.TRUST_PROXY);
   app.set('query parser', 'simple');

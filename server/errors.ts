@@ -21,6 +21,11 @@ export class HttpError extends Error {
 
 export const badRequest = (message: string, fields?: FieldErrors) =>
   new HttpError(400, 'bad_request', message, fields);
+/** A list position (cursor) the list did not issue for this very request: its sort, filters and path. */
+export const invalidCursor = () => {
+  const message = 'This list position is not valid any more; start again from the first page.';
+  return new HttpError(400, 'invalid_cursor', message, { cursor: message });
+};
 export const unauthorized = (message = 'Sign in to continue.') => new HttpError(401, 'unauthorized', message);
 export const forbidden = (message = 'You are not allowed to do that.', id = 'forbidden') => new HttpError(403, id, message);
 export const notFound = (message = 'Not found.') => new HttpError(404, 'not_found', message);

@@ -26,8 +26,9 @@ export function zodFieldErrors(error: z.ZodError, prefix?: string): FieldErrors 
   return fields;
 }
 
-export function validate(schemas: Schemas): RequestHandler {
-  return (req, _res, next) => {
+/** The middleware carries its schemas, so tests that walk the router can see what a route accepts. */
+export function validate(schemas: Schemas): RequestHandler & { schemas: Schemas } {
+  const handler: RequestHandler = (req, _res, next) => {
     req.valid ??= {};
     const fields: FieldErrors = {};
     for (const part of ['params', 'query', 'body'] as const) {
@@ -42,6 +43,7 @@ export function validate(schemas: Schemas): RequestHandler {
     if (first) return next(badRequest(`${first[0]}: ${first[1]}`, fields));
     next();
   };
+  return Object.assign(handler, { schemas });
 }
 
 /** Typed access to what validate() parsed. */

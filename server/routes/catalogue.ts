@@ -41,7 +41,7 @@ export function catalogueRouter(): Router {
     const query = valid<{ unitKind?: UnitKindKey; group?: CatalogueGroup; includeRetired?: boolean; limit?: number; cursor?: string }>(
       req.valid.query,
     );
-    const page = pageRequest(query);
+    const page = pageRequest(req, { sort: 'position', value: 'int' });
     const rows = await CatalogueItem.findAll({
       where: {
         jobId: req.membership!.job.id,

@@ -271,12 +271,11 @@ export function checksRouter(): Router {
     validate({ params: checkUnitParamsSchema, query: checkListQuerySchema }),
     async (req, res) => {
       const { unitId } = valid<{ unitId: string }>(req.valid.params);
-      const query = valid<{ limit?: number; cursor?: string }>(req.valid.query);
       const { job } = req.membership!;
       const sequelize = sequelizeOf(req);
       const unit = await Unit.findOne({ where: { id: unitId, jobId: job.id } });
       if (!unit) throw notFound('Unit not found.');
-      const page = pageRequest(query);
+      const page = pageRequest(req, { sort: '-checkedAt', value: 'timestamp' });
       const bind: unknown[] = [job.id, unit.id];
       let after = '';
       if (page.after) {

@@ -25,7 +25,7 @@ import { Company, Job, JobCompany } from '../models';
 import { policy } from '../policies';
 import { presentJobCompany } from '../presenters/setup';
 import { idempotentWrite } from '../services/idempotency';
-import { encodeCursor, pageRequest } from '../services/paging';
+import { pageRequest } from '../services/paging';
 import { destroyOrConflict, inTransaction, lockForChange, refuseIfReferenced, sequelizeOf } from '../services/records';
 import { setEtag } from '../services/versioning';
 
@@ -76,7 +76,7 @@ export function companiesRouter(): Router {
 
   router.get('/jobs/:jobId/companies', policy.jobMember(), validate({ query: companyListQuerySchema }), async (req, res) => {
     const query = valid<{ trade?: TradeKey; limit?: number; cursor?: string }>(req.valid.query);
-    const page = pageRequest(query);
+    const page = pageRequest(req, { sort: 'name', value: 'text' });
     const job = req.membership!.job;
     const after = page.after
       ? { [Op.or]: [{ '$company.name$': { [Op.gt]: page.after.value } }, { '$company.name$': page.after.value, companyId: { [Op.gt]: page.after.id } }] }
@@ -90,7 +90,7 @@ export function companiesRouter(): Router {
     const more = rows.length > page.limit;
     const links = more ? rows.slice(0, page.limit) : rows;
     const last = links[links.length - 1];
-    const nextCursor = more && last ? encodeCursor(last.company!.name, last.companyId) : null;
+    const nextCursor = more && last ? page.cursorAfter(last.company!.name, last.companyId) : null;
     res.json({ items: await presentLinks(job, links), nextCursor });
   });
 

@@ -33,7 +33,7 @@ import { valid, validate, zodFieldErrors } from '../middleware/validate';
 import { CatalogueItem, Finding, Level, Photo, Space, Unit, UnitCheck, UnitModel } from '../models';
 import { policy } from '../policies';
 import { companyOnJob, dueOnFor, limitResolverFor, measure, nextFindingNumber, recordFindingEvent, suggestCompany } from '../services/findings';
-import { findingDetail, findingFiltersOf, listFindings, visiblePhoto } from '../services/findingQueries';
+import { findingDetail, findingFiltersOf, findingListOrder, listFindings, visiblePhoto } from '../services/findingQueries';
 import { notifyCriticalAssignment } from '../digests/events';
 import { idempotentWrite } from '../services/idempotency';
 import { pageRequest } from '../services/paging';
@@ -121,14 +121,9 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
     validate({ query: findingListQuerySchema }),
     async (req, res) => {
       const q = valid<FindingListQueryParsed>(req.valid.query);
-      const page = pageRequest({ limit: q.limit ?? FINDINGS_LIST_LIMIT_DEFAULT, cursor: q.cursor });
-      const body = await listFindings(
-        sequelizeOf(req),
-        req.scope!,
-        findingFiltersOf(q),
-        q.sort ?? '-number',
-        page,
-      );
+      const sort = q.sort ?? '-number';
+      const page = pageRequest(req, findingListOrder(sort), FINDINGS_LIST_LIMIT_DEFAULT);
+      const body = await listFindings(sequelizeOf(req), req.scope!, findingFiltersOf(q), sort, page);
       res.json(body);
     },
   );

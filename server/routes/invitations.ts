@@ -34,6 +34,7 @@ import { validate, valid, zodFieldErrors } from '../middleware/validate';
 import { AuthToken, Company, Job, JobCompany, JobMember, User } from '../models';
 import { policy, uuidSchema } from '../policies';
 import { idempotentWrite } from '../services/idempotency';
+import { finishPage, pageRequest } from '../services/paging';
 import { consumeToken, hashToken, inspectToken, issueToken } from '../services/tokens';
 
 export interface InvitationRouteOptions {
@@ -56,18 +57,6 @@ function presentInvitation(row: AuthToken): Invitation {
     expiresAt: row.expiresAt.toISOString(),
   };
 }
-
-const cursorSchema = z.tuple([z.string().datetime(), uuidSchema]);
-function decodeCursor(cursor: string): [string, string] {
-  try {
-    const parsed = cursorSchema.safeParse(JSON.parse(Buffer.from(cursor, 'base64url').toString('utf8')));
-    if (parsed.success) return parsed.data;
-  } catch {
-    // fall through
-  }
-  throw badRequest('cursor: Not a valid cursor.', { cursor: 'Not a valid cursor.' });
-}
-const encodeCursor = (row: AuthToken) => Buffer.from(JSON.stringify([row.createdAt.toISOString(), row.id])).toString('base64url');
 
 /** A company is on the job when it owns the job or the job's company list holds it. */
 async function companyIsOnJob(job: Job, companyId: string, transaction: Transaction): Promise<boolean> {
@@ -145,7 +134,7 @@ export function invitationsRouter(options: InvitationRouteOptions): Router {
     policy.jobMember(['gc_manager']),
     validate({ params: jobParamsSchema, query: invitationListQuerySchema }),
     async (req, res) => {
-      const { limit, cursor } = valid<z.infer<typeof invitationListQuerySchema>>(req.valid.query);
+      const page = pageRequest(req, { sort: '-createdAt', value: 'timestamp' });
       const where: WhereOptions<AuthToken> = {
         purpose: 'invitation',
         jobId: req.membership!.job.id,
@@ -153,11 +142,9 @@ export function invitationsRouter(options: InvitationRouteOptions): Router {
         revokedAt: null,
         expiresAt: { [Op.gt]: fn('now') },
       };
-      if (cursor) {
-        const [at, id] = decodeCursor(cursor);
-        Object.assign(where, {
-          [Op.or]: [{ createdAt: { [Op.lt]: new Date(at) } }, { createdAt: new Date(at), id: { [Op.lt]: id } }],
-        });
+      if (page.after) {
+        const at = new Date(page.after.value);
+        Object.assign(where, { [Op.or]: [{ createdAt: { [Op.lt]: at } }, { createdAt: at, id: { [Op.lt]: page.after.id } }] });
       }
       const rows = await AuthToken.findAll({
         where,
@@ -169,10 +156,10 @@ export function invitationsRouter(options: InvitationRouteOptions): Router {
           ['createdAt', 'DESC'],
           ['id', 'DESC'],
         ],
-        limit: limit + 1,
+        limit: page.limit + 1,
       });
-      const page = rows.slice(0, limit);
-      res.json({ items: page.map(presentInvitation), nextCursor: rows.length > limit ? encodeCursor(page[page.length - 1]!) : null } satisfies InvitationList);
+      const { rows: kept, nextCursor } = finishPage(rows, page, (row) => row.createdAt.toISOString());
+      res.json({ items: kept.map(presentInvitation), nextCursor } satisfies InvitationList);
     },
   );
 

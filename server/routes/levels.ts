@@ -60,8 +60,7 @@ export function levelsRouter(): Router {
   const router = Router();
 
   router.get('/jobs/:jobId/levels', policy.jobMember(), validate({ query: levelListQuerySchema }), async (req, res) => {
-    const query = valid<{ limit?: number; cursor?: string }>(req.valid.query);
-    const page = pageRequest(query);
+    const page = pageRequest(req, { sort: 'position', value: 'int' });
     const jobId = req.membership!.job.id;
     const rows = await Level.findAll({
       where: { jobId, ...afterCursor('position', page) },

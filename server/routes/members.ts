@@ -14,7 +14,7 @@ import { valid, validate } from '../middleware/validate';
 import { Company, JobMember, User } from '../models';
 import { policy } from '../policies';
 import { presentMember } from '../presenters/setup';
-import { encodeCursor, pageRequest } from '../services/paging';
+import { pageRequest } from '../services/paging';
 import { inTransaction, lockRow, lockJob } from '../services/records';
 
 /** The person, and the company the membership is for (which may differ from the person's home company). */
@@ -36,7 +36,7 @@ export function membersRouter(): Router {
 
   router.get('/jobs/:jobId/members', policy.jobMember(), validate({ query: memberListQuerySchema }), async (req, res) => {
     const query = valid<{ role?: Role; companyId?: string; limit?: number; cursor?: string }>(req.valid.query);
-    const page = pageRequest(query);
+    const page = pageRequest(req, { sort: 'name', value: 'text' });
     const { job, role } = req.membership!;
     const after = page.after
       ? { [Op.or]: [{ '$user.name$': { [Op.gt]: page.after.value } }, { '$user.name$': page.after.value, id: { [Op.gt]: page.after.id } }] }
@@ -58,7 +58,7 @@ export function membersRouter(): Router {
     const showEmail = role === 'gc_manager';
     res.json({
       items: members.map((m) => presentMember(m, m.user!, showEmail)),
-      nextCursor: more && last ? encodeCursor(last.user!.name, last.id) : null,
+      nextCursor: more && last ? page.cursorAfter(last.user!.name, last.id) : null,
     });
   });
 

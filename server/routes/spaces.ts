@@ -91,7 +91,7 @@ export function spacesRouter(): Router {
 
   router.get('/jobs/:jobId/spaces', policy.jobMember(), validate({ query: spaceListQuerySchema }), async (req, res) => {
     const query = valid<{ levelId?: string; limit?: number; cursor?: string }>(req.valid.query);
-    const page = pageRequest(query);
+    const page = pageRequest(req, { sort: 'name', value: 'text' });
     const rows = await Space.findAll({
       where: { jobId: req.membership!.job.id, ...(query.levelId ? { levelId: query.levelId } : {}), ...afterCursor('name', page) },
       order: [['name', 'ASC'], ['id', 'ASC']],

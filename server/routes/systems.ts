@@ -43,7 +43,7 @@ export function systemsRouter(): Router {
   const router = Router();
 
   router.get('/jobs/:jobId/systems', policy.jobMember(), validate({ query: systemListQuerySchema }), async (req, res) => {
-    const page = pageRequest(valid<{ limit?: number; cursor?: string }>(req.valid.query));
+    const page = pageRequest(req, { sort: 'name', value: 'text' });
     const rows = await System.findAll({
       where: { jobId: req.membership!.job.id, ...afterCursor('name', page) },
       order: [['name', 'ASC'], ['id', 'ASC']],

@@ -64,7 +64,7 @@ export function unitModelsRouter(): Router {
 
   router.get('/jobs/:jobId/models', policy.jobMember(), validate({ query: modelListQuerySchema }), async (req, res) => {
     const query = valid<{ unitKind?: UnitKindKey; limit?: number; cursor?: string }>(req.valid.query);
-    const page = pageRequest(query);
+    const page = pageRequest(req, { sort: 'name', value: 'text' });
     const rows = await UnitModel.findAll({
       where: { jobId: req.membership!.job.id, ...(query.unitKind ? { unitKind: query.unitKind } : {}), ...afterCursor('name', page) },
       order: [['name', 'ASC'], ['id', 'ASC']],

@@ -85,7 +85,7 @@ export function unitsRouter(): Router {
 
   router.get('/jobs/:jobId/units', policy.jobMember(), validate({ query: unitListQuerySchema }), async (req, res) => {
     const query = valid<UnitListFilters & { limit?: number; cursor?: string }>(req.valid.query);
-    const page = pageRequest(query);
+    const page = pageRequest(req, { sort: 'tag', value: 'text' });
     const rows = await Unit.findAll({
       where: {
         ...unitWhere(req.membership!.job.id, query),

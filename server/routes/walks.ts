@@ -118,7 +118,7 @@ export function walksRouter(): Router {
     async (req, res) => {
       const query = valid<WalkListQueryParsed>(req.valid.query);
       const { job } = req.membership!;
-      const page = pageRequest(query);
+      const page = pageRequest(req, { sort: '-startedAt', value: 'timestamp' });
       const bind: unknown[] = [job.id];
       const conds = ['w.job_id = $1'];
       if (query.levelId) conds.push(`w.level_id = $${bind.push(query.levelId)}`);
@@ -183,7 +183,7 @@ export function walksRouter(): Router {
       const sequelize = sequelizeOf(req);
       const level = await Level.findOne({ where: { id: levelId, jobId: job.id } });
       if (!level) throw notFound('Level not found.');
-      const page = pageRequest(query);
+      const page = pageRequest(req, { sort: 'tag', value: 'text' });
       const filters = { spaceId: query.spaceId, systemId: query.systemId, kind: query.kind, q: query.q || undefined, state: query.state };
       const items = await walkUnitsPage(sequelize, job.id, level.id, filters, page);
       const { rows, nextCursor } = finishPage(items, page, (u) => u.tag);

@@ -19,8 +19,7 @@ import {
 } from '../../shared/schemas/findings';
 import { FINDING_STATUSES, SEVERITIES, type FindingStatus, type Severity, type UnitKindKey } from '../../shared/words';
 import type { MeasuredRule } from '../../shared/catalogue/types';
-import type { PageRequest } from './paging';
-import { encodeCursor } from './paging';
+import type { CursorValueKind, ListOrder, PageRequest } from './paging';
 import { likeContains } from './records';
 import { SEVERITY_RANK_SQL, todayIn } from './findings';
 
@@ -92,26 +91,34 @@ export function photoUrls(jobId: string, photoId: string): { url: string; thumbU
   return { url, thumbUrl: `${url}/thumb` };
 }
 
-const SORTS: Record<FindingSort, { expr: string; key: string; desc: boolean; cast: string }> = {
-  number: { expr: 'f.number', key: 'f.number', desc: false, cast: 'int' },
-  '-number': { expr: 'f.number', key: 'f.number', desc: true, cast: 'int' },
-  dueOn: { expr: 'f.due_on', key: `to_char(f.due_on, 'YYYY-MM-DD')`, desc: false, cast: 'date' },
-  '-dueOn': { expr: 'f.due_on', key: `to_char(f.due_on, 'YYYY-MM-DD')`, desc: true, cast: 'date' },
+/** `value`: what the sort key is, so paging checks a cursor's value before the `cast` sees it. */
+const SORTS: Record<FindingSort, { expr: string; key: string; desc: boolean; cast: string; value: CursorValueKind }> = {
+  number: { expr: 'f.number', key: 'f.number', desc: false, cast: 'int', value: 'int' },
+  '-number': { expr: 'f.number', key: 'f.number', desc: true, cast: 'int', value: 'int' },
+  dueOn: { expr: 'f.due_on', key: `to_char(f.due_on, 'YYYY-MM-DD')`, desc: false, cast: 'date', value: 'date' },
+  '-dueOn': { expr: 'f.due_on', key: `to_char(f.due_on, 'YYYY-MM-DD')`, desc: true, cast: 'date', value: 'date' },
   loggedAt: {
     expr: 'f.logged_at',
     key: `to_char(f.logged_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"')`,
     desc: false,
     cast: 'timestamptz',
+    value: 'timestamp',
   },
   '-loggedAt': {
     expr: 'f.logged_at',
     key: `to_char(f.logged_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"')`,
     desc: true,
     cast: 'timestamptz',
+    value: 'timestamp',
   },
-  severity: { expr: SEVERITY_RANK_SQL('f.severity'), key: SEVERITY_RANK_SQL('f.severity'), desc: false, cast: 'int' },
-  '-severity': { expr: SEVERITY_RANK_SQL('f.severity'), key: SEVERITY_RANK_SQL('f.severity'), desc: true, cast: 'int' },
+  severity: { expr: SEVERITY_RANK_SQL('f.severity'), key: SEVERITY_RANK_SQL('f.severity'), desc: false, cast: 'int', value: 'int' },
+  '-severity': { expr: SEVERITY_RANK_SQL('f.severity'), key: SEVERITY_RANK_SQL('f.severity'), desc: true, cast: 'int', value: 'int' },
 };
+
+/** The list's order for paging (server/services/paging.ts): its sort and the type of its cursor value. */
+export function findingListOrder(sort: FindingSort): ListOrder {
+  return { sort, value: SORTS[sort].value };
+}
 
 /** ORDER BY for a list sort (the list's keyset order; the CSV export uses the same). */
 export function orderBySql(sort: FindingSort): string {
@@ -306,7 +313,7 @@ export async function listFindings(
   if (rows.length > page.limit) {
     rows.length = page.limit;
     const last = rows[rows.length - 1]!;
-    nextCursor = encodeCursor(typeof last.sort_key === 'string' ? last.sort_key : Number(last.sort_key), last.id);
+    nextCursor = page.cursorAfter(typeof last.sort_key === 'string' ? last.sort_key : Number(last.sort_key), last.id);
   }
 
   // Counts in ONE pass, grouped by (status, severity) with the status and severity filters left

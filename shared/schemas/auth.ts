@@ -61,7 +61,8 @@ export const invitationParamsSchema = z
 export const invitationListQuerySchema = z
   .object({
     limit: z.coerce.number().int('Use a whole number.').min(1, 'At least 1.').max(200, 'At most 200.').default(50),
-    cursor: z.string().max(200).optional(),
+    /** Opaque; the server checks it whole (length, signature, types) and answers 400 invalid_cursor. */
+    cursor: z.string().optional(),
   })
   .strict();
 

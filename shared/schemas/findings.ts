@@ -43,7 +43,8 @@ const pageQuery = {
     .min(1, `A whole number from 1 to ${FINDINGS_LIST_LIMIT_MAX}.`)
     .max(FINDINGS_LIST_LIMIT_MAX, `At most ${FINDINGS_LIST_LIMIT_MAX}.`)
     .optional(),
-  cursor: z.string().max(500, 'Not a valid cursor.').optional(),
+  /** Opaque; the server checks it whole (length, signature, types) and answers 400 invalid_cursor. */
+  cursor: z.string().optional(),
 };
 
 const booleanQuery = z.enum(['true', 'false'], { error: 'Use true or false.' }).transform((v) => v === 'true');

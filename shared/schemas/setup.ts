@@ -116,7 +116,8 @@ const pageQuery = {
     .min(1, 'limit: a whole number from 1 to 200.')
     .max(LIST_LIMIT_MAX, `limit: at most ${LIST_LIMIT_MAX}.`)
     .optional(),
-  cursor: z.string().max(500, 'Not a valid cursor.').optional(),
+  /** Opaque; the server checks it whole (length, signature, types) and answers 400 invalid_cursor. */
+  cursor: z.string().optional(),
 };
 const booleanQuery = z.enum(['true', 'false'], { error: 'Use true or false.' }).transform((v) => v === 'true');
 

@@ -231,7 +231,7 @@ describe('GET /api/jobs/:jobId/units/:unitId/checks', () => {
     const w = await buildWalkJob(people);
     const other = await buildWalkJob(people);
     const badCursor = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks?cursor=nonsense`).expect(400);
-    expect(badCursor.body.error.message).toBe('cursor: Not a valid cursor. Start again from the first page.');
+    expect(badCursor.body.error).toEqual({ id: 'invalid_cursor', message: 'This list position is not valid any more; start again from the first page.', fields: { cursor: 'This list position is not valid any more; start again from the first page.' } });
     const badLimit = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks?limit=0`).expect(400);
     expect(badLimit.body.error.message).toBe('query.limit: A whole number from 1 to 200.');
     await subA.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(403);

@@ -476,7 +476,7 @@ describe('GET /api/jobs/:jobId/findings', () => {
     expect(await bad('limit=201')).toBe('query.limit: At most 200.');
     expect(await bad('levelId=3')).toBe('query.levelId: Not a valid level id.');
     expect(await bad('order=number')).toMatch(/order|Unrecognized/);
-    expect(await bad('cursor=abc')).toBe('cursor: Not a valid cursor. Start again from the first page.');
+    expect(await bad('cursor=abc')).toBe('This list position is not valid any more; start again from the first page.');
     await outsider.agent.get(`/api/jobs/${w.job.id}/findings`).expect(404);
     await request(trimout.app).get(`/api/jobs/${w.job.id}/findings`).expect(401);
   });

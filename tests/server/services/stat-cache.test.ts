@@ -67,7 +67,7 @@ async function expectCacheExact() {
       out[`${who} scorecards`] = await loadScorecards(db.sequelize, scope);
       out[`${who} recurring`] = await loadRecurring(db.sequelize, scope);
       out[`${who} trend`] = await loadTrend(db.sequelize, scope, { days: 30 });
-      out[`${who} list`] = (await listFindings(db.sequelize, scope, {}, '-number', { limit: 5, after: null })).counts;
+      out[`${who} list`] = (await listFindings(db.sequelize, scope, {}, '-number', { limit: 5, after: null, cursorAfter: () => 'next' })).counts;
     }
     return out;
   };
