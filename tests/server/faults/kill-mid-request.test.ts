@@ -62,6 +62,9 @@ async function startChild(): Promise<NonNullable<typeof server>> {
       WEB_DIST: 'dist-not-built',
       DIGEST_SCHEDULER: 'false',
       TRIMOUT_FAULT_PAUSE_MS: '60000',
+      // Uploads' temporary folders: a killed server leaves its request's folder behind (the next
+      // start sweeps those older than an hour); here they go with the test's folder.
+      TMPDIR: path.join(storeDir, 'tmp'),
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
