@@ -7,9 +7,9 @@
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
 import type { Request } from 'express';
-import { QueryTypes, type Sequelize } from 'sequelize';
+import { Op, QueryTypes, type Sequelize } from 'sequelize';
 import type { Role } from '../../shared/words';
-import { Company, Job, User } from '../models';
+import { AuthToken, Company, Job, User } from '../models';
 import { burnDummyVerify, verifyPassword } from './passwords';
 
 export interface AuthUser {
@@ -94,6 +94,15 @@ async function loadUser(where: { id: string } | { email: string }): Promise<(Use
   >;
 }
 
+async function pendingSignUpHash(userId: string): Promise<string | null> {
+  const token = await AuthToken.findOne({
+    where: { userId, purpose: 'email_confirmation', usedAt: null, revokedAt: null, expiresAt: { [Op.gt]: new Date() } },
+    order: [['createdAt', 'DESC']],
+    attributes: ['passwordHash'],
+  });
+  return token?.passwordHash ?? null;
+}
+
 /** passport info.message code for a right password on an address not yet confirmed. */
 export const UNCONFIRMED = 'email_unconfirmed';
 
@@ -120,11 +129,14 @@ export function configurePassport(): passport.PassportStatic {
     new LocalStrategy({ usernameField: 'email', passwordField: 'password', session: true }, (email, password, done) => {
       (async () => {
         const user = await loadUser({ email: email.trim().toLowerCase() });
-        if (!user || !user.passwordHash || user.disabledAt) {
+        // An unconfirmed account has no password of its own yet: the newest sign-up's choice waits
+        // on its confirmation token, and is checked only to say "confirm your address first".
+        const hash = !user || user.disabledAt ? null : user.emailConfirmedAt ? user.passwordHash : await pendingSignUpHash(user.id);
+        if (!user || !hash) {
           await burnDummyVerify(password);
           return done(null, false);
         }
-        if (!(await verifyPassword(password, user.passwordHash))) return done(null, false);
+        if (!(await verifyPassword(password, hash))) return done(null, false);
         // Only now, with the password right, may the answer say the address is unconfirmed.
         if (!user.emailConfirmedAt) return done(null, false, { message: UNCONFIRMED });
         return done(null, toAuthUser(user));

@@ -46,10 +46,17 @@ function message(to: MailMessage['to'], subject: string, block: Block): MailMess
   return { to, subject: headerSafe(subject), text: textPart(block), html: htmlPart(block) };
 }
 
-export function confirmationMail(to: { name: string; address: string }, link: string): MailMessage {
+/**
+ * To an address nobody has confirmed yet: whoever signed up may not be its owner, so the mail
+ * carries no word they chose (no name, no company), only our own text and the link.
+ */
+export function confirmationMail(to: { address: string }, link: string): MailMessage {
   return message(to, 'Confirm your e-mail address for Trimout', {
-    heading: `Welcome, ${to.name}`,
-    paragraphs: ['Confirm that this e-mail address is yours to finish setting up your Trimout account.'],
+    heading: 'Confirm your e-mail address',
+    paragraphs: [
+      'Someone (perhaps you) signed up to Trimout with this e-mail address. Confirm that it is yours to finish setting up the account.',
+      'Confirming sets the password chosen with this sign-up and signs out any other session of the account.',
+    ],
     action: { label: 'Confirm my e-mail address', url: link },
     after: ['The link works once, for 24 hours. If you did not sign up for Trimout, ignore this mail: nothing happens.'],
   });
@@ -86,7 +93,7 @@ export function invitationMail(
   });
 }
 
-export function passwordResetMail(to: { name: string; address: string }, link: string): MailMessage {
+export function passwordResetMail(to: { name?: string; address: string }, link: string): MailMessage {
   return message(to, 'Reset your Trimout password', {
     heading: 'Choose a new password',
     paragraphs: ['Someone (perhaps you) asked to reset the password of your Trimout account.'],

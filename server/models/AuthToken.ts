@@ -19,6 +19,10 @@ export class AuthToken extends Model<InferAttributes<AuthToken>, InferCreationAt
   declare role: CreationOptional<Role | null>;
   declare companyId: CreationOptional<ForeignKey<Company['id']> | null>;
   declare invitedBy: CreationOptional<ForeignKey<User['id']> | null>;
+  /** E-mail confirmation: the password chosen with that sign-up (hashed), applied on confirming. */
+  declare passwordHash: CreationOptional<string | null>;
+  /** E-mail confirmation: the company name typed with that sign-up. */
+  declare companyName: CreationOptional<string | null>;
   declare expiresAt: Date;
   declare usedAt: CreationOptional<Date | null>;
   declare revokedAt: CreationOptional<Date | null>;
@@ -41,6 +45,8 @@ export class AuthToken extends Model<InferAttributes<AuthToken>, InferCreationAt
         role: { type: DataTypes.STRING(20), allowNull: true },
         companyId: { type: DataTypes.UUID, allowNull: true },
         invitedBy: { type: DataTypes.UUID, allowNull: true },
+        passwordHash: { type: DataTypes.STRING(300), allowNull: true },
+        companyName: { type: DataTypes.STRING(120), allowNull: true },
         expiresAt: { type: DataTypes.DATE, allowNull: false },
         usedAt: { type: DataTypes.DATE, allowNull: true },
         revokedAt: { type: DataTypes.DATE, allowNull: true },

@@ -27,15 +27,18 @@ import { signInAs } from '../auth/establish';
 import { hashPassword } from '../auth/passwords';
 import { tooManyRequests } from '../errors';
 import type { MailService } from '../mail';
-import { confirmationMail, passwordResetMail, signUpExistsMail } from '../mail/messages';
 import { validate, valid } from '../middleware/validate';
-import { AuthToken, Company, User } from '../models';
+import { AuthToken, User } from '../models';
 import { policy } from '../policies';
-import { consumeToken, hashToken, inspectToken, issueToken } from '../services/tokens';
+import { confirmEmail } from '../commands/confirmEmail';
+import { sendPasswordReset } from '../commands/sendPasswordReset';
+import { signUp } from '../commands/signUp';
+import { consumeToken, hashToken, inspectToken } from '../services/tokens';
 import { idempotentWrite } from '../services/idempotency';
 
 export interface AccountRouteOptions {
   mail: MailService;
+  log: (message: string, err?: unknown) => void;
   /** The sign-in limits: the same per-address budget; per-account for mails to one address. */
   limits: { perAccount: number; perAddress: number; windowMs: number };
 }
@@ -76,33 +79,11 @@ export function accountsRouter(options: AccountRouteOptions): Router {
 
   router.post('/signup', policy.public(), perAddress, validate({ body: signUpSchema }), perEmail, async (req, res) => {
     const input = valid<SignUpInput>(req.valid.body);
-    const email = input.email.toLowerCase();
-    // Hash first, whatever happens next: both answers take as long (no enumeration by timing).
+    // Hash first, whatever happens next: every answer takes as long (no enumeration by timing).
     const passwordHash = await hashPassword(input.password);
     try {
       await idempotentWrite(req, res, async (transaction) => {
-        const existing = await User.findOne({ where: { email }, transaction });
-        if (existing && !existing.disabledAt) {
-          if (!existing.emailConfirmedAt) {
-            // Signed up before and never confirmed: a fresh confirmation link; the password stays.
-            const { token } = await issueToken('email_confirmation', { userId: existing.id }, transaction);
-            mail.outbox.sendAfterCommit(transaction, confirmationMail({ name: existing.name, address: existing.email }, mail.link(req, `/confirm/${token}`)));
-          } else {
-            mail.outbox.sendAfterCommit(
-              transaction,
-              signUpExistsMail({ name: existing.name, address: existing.email }, mail.link(req, '/sign-in'), mail.link(req, '/forgot-password')),
-            );
-          }
-          return { status: 202, body: SIGN_UP_ACCEPTED };
-        }
-        if (existing) return { status: 202, body: SIGN_UP_ACCEPTED };
-        const company = await Company.create({ name: input.companyName }, { transaction });
-        const user = await User.create(
-          { companyId: company.id, email, name: input.name, passwordHash, emailConfirmedAt: null },
-          { transaction },
-        );
-        const { token } = await issueToken('email_confirmation', { userId: user.id }, transaction);
-        mail.outbox.sendAfterCommit(transaction, confirmationMail({ name: user.name, address: user.email }, mail.link(req, `/confirm/${token}`)));
+        await signUp({ transaction, mail }, input, passwordHash);
         return { status: 202, body: SIGN_UP_ACCEPTED };
       });
     } catch (err) {
@@ -118,25 +99,17 @@ export function accountsRouter(options: AccountRouteOptions): Router {
   router.post('/email-confirmations/:token', policy.public(), perAddress, validate({ params: tokenParamsSchema }), perToken, async (req, res) => {
     const { token } = valid<Token>(req.valid.params);
     const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
-    const userId = await sequelize.transaction(async (transaction) => {
-      const row = await consumeToken(token, 'email_confirmation', transaction);
-      await User.update({ emailConfirmedAt: fn('coalesce', literal('email_confirmed_at'), fn('now')) as unknown as Date }, { where: { id: row.userId! }, transaction });
-      return row.userId!;
-    });
+    const userId = await sequelize.transaction((transaction) => confirmEmail({ transaction }, token));
     res.status(200).json(await signInAs(req, userId));
   });
 
   router.post('/password-resets', policy.public(), perAddress, validate({ body: passwordResetRequestSchema }), perEmail, async (req, res) => {
     const { email } = valid<PasswordResetRequestInput>(req.valid.body);
-    const user = await User.findOne({ where: { email: email.toLowerCase() } });
-    if (user && !user.disabledAt) {
-      const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
-      await sequelize.transaction(async (transaction) => {
-        const { token } = await issueToken('password_reset', { userId: user.id }, transaction);
-        mail.outbox.sendAfterCommit(transaction, passwordResetMail({ name: user.name, address: user.email }, mail.link(req, `/reset/${token}`)));
-      });
-    }
+    // Answer first, then do the work: the answer's time cannot tell a known address from an unknown one.
     res.status(202).json(RESET_ACCEPTED);
+    await sendPasswordReset({ sequelize: req.app.get('sequelize') as import('sequelize').Sequelize, mail }, email).catch((err: unknown) =>
+      options.log('password reset mail could not be prepared', err),
+    );
   });
 
   router.get('/password-resets/:token', policy.public(), perAddress, validate({ params: tokenParamsSchema }), async (req, res) => {
@@ -169,10 +142,14 @@ export function accountsRouter(options: AccountRouteOptions): Router {
           },
           { where: { id: row.userId! }, transaction },
         );
-        // Other reset links of this user die with this one.
+        // Other reset links of this user die with this one, and so do pending confirmation links
+        // (they carry passwords chosen by whoever signed up with this address).
         await AuthToken.update(
           { revokedAt: fn('now') as unknown as Date },
-          { where: { userId: row.userId!, purpose: 'password_reset', usedAt: null, revokedAt: null, id: { [Op.ne]: row.id } }, transaction },
+          {
+            where: { userId: row.userId!, purpose: ['password_reset', 'email_confirmation'], usedAt: null, revokedAt: null, id: { [Op.ne]: row.id } },
+            transaction,
+          },
         );
         return row.userId!;
       });

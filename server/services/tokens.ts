@@ -27,7 +27,7 @@ export function newToken(): { token: string; tokenHash: string } {
   return { token, tokenHash: hashToken(token) };
 }
 
-type Payload = Partial<Pick<AuthToken, 'userId' | 'email' | 'name' | 'jobId' | 'role' | 'companyId' | 'invitedBy'>>;
+type Payload = Partial<Pick<AuthToken, 'userId' | 'email' | 'name' | 'jobId' | 'role' | 'companyId' | 'invitedBy' | 'passwordHash' | 'companyName'>>;
 
 /** Stores a new token of this purpose and returns the token itself (to put in a mail, once). */
 export async function issueToken(purpose: TokenPurpose, payload: Payload, transaction: Transaction): Promise<{ token: string; row: AuthToken }> {
@@ -42,13 +42,19 @@ export async function issueToken(purpose: TokenPurpose, payload: Payload, transa
 export const LINK_NOT_VALID = 'This link is not valid. Check that you copied the whole link from the mail.';
 export const LINK_EXPIRED = 'This link has expired. Ask for a new one.';
 export const LINK_USED = 'This link was already used. Ask for a new one if you still need it.';
-export const LINK_REVOKED = 'This invitation was withdrawn. Ask the GC manager for a new one.';
+/** A link that died before use, said for what it was. */
+export const LINK_REVOKED: Record<TokenPurpose, string> = {
+  invitation: 'This invitation was withdrawn. Ask the GC manager for a new one.',
+  password_reset: 'This password reset link was replaced by a newer one, or the password was changed since. Ask for a new link if you still need one.',
+  email_confirmation:
+    'This confirmation link was replaced: the address was confirmed through another link, or its password was reset. Sign in, or use "Forgot your password?".',
+};
 
 /** Why a token cannot be used: unknown or another purpose → 404; used, withdrawn or expired → 410. */
 function refusal(row: AuthToken | null): HttpError {
   if (!row) return notFound(LINK_NOT_VALID);
   if (row.usedAt) return new HttpError(410, 'link_used', LINK_USED);
-  if (row.revokedAt) return new HttpError(410, 'link_revoked', LINK_REVOKED);
+  if (row.revokedAt) return new HttpError(410, 'link_revoked', LINK_REVOKED[row.purpose]);
   return new HttpError(410, 'link_expired', LINK_EXPIRED);
 }
 

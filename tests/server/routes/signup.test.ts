@@ -6,7 +6,8 @@ import request from 'supertest';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
 import { AuthToken, Company, User } from '../../../server/models';
-import { hashToken } from '../../../server/services/tokens';
+import { hashPassword } from '../../../server/auth/passwords';
+import { hashToken, issueToken } from '../../../server/services/tokens';
 import { buildTestApp, csrfFor, signIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser, TEST_PASSWORD } from '../../support/factories';
@@ -54,7 +55,13 @@ describe('POST /api/signup', () => {
     expect((await Company.findByPk(user!.companyId))!.name).toBe('Larchmont Builders');
     const mail = await smtp.waitFor((m) => m.to.includes(email));
     expect(mail.subject).toBe('Confirm your e-mail address for Trimout');
-    expect(mail.text).toContain('Rhea Sandoval');
+    // the address is not confirmed yet: no word the sign-up chose goes into the mail
+    expect(mail.text).not.toContain('Rhea Sandoval');
+    expect(mail.text).not.toContain('Larchmont');
+    expect(mail.html).not.toContain('Rhea Sandoval');
+    expect(mail.html).not.toContain('Larchmont');
+    // and the account holds no password before confirmation
+    expect(user!.passwordHash).toBeNull();
     const token = tokenOf(mail, '/confirm/');
     // only the hash is stored
     const stored = await AuthToken.findOne({ where: { userId: user!.id, purpose: 'email_confirmation' } });
@@ -109,7 +116,7 @@ describe('POST /api/signup', () => {
     await signIn(trimout.app, existing.email, TEST_PASSWORD);
   });
 
-  it('sends a fresh confirmation link (password unchanged) when an unconfirmed address signs up again', async () => {
+  it('sends a fresh confirmation link carrying the new sign-up\'s password; confirming it leaves only that password', async () => {
     const email = `twice-${uniq()}@test.trimout.example`;
     await signUp({ companyName: 'Twice Co', name: 'Ora Twice', email, password: PASSWORD }, 202);
     await signUp({ companyName: 'Twice Co', name: 'Ora Twice', email, password: 'another password here' }, 202);
@@ -118,7 +125,59 @@ describe('POST /api/signup', () => {
     expect(mails.map((m) => m.subject)).toEqual(['Confirm your e-mail address for Trimout', 'Confirm your e-mail address for Trimout']);
     const { agent, csrf } = await anonymous();
     await agent.post(`/api/email-confirmations/${tokenOf(mails[1]!, '/confirm/')}`).set('X-CSRF-Token', csrf).expect(200);
-    await signIn(trimout.app, email, PASSWORD);
+    await signIn(trimout.app, email, 'another password here');
+    const other = await anonymous();
+    const old = await other.agent.post('/api/session').set('X-CSRF-Token', other.csrf).send({ email, password: PASSWORD });
+    expect(old.status).toBe(401);
+    // the first link died with the confirmation
+    const first = await other.agent.post(`/api/email-confirmations/${tokenOf(mails[0]!, '/confirm/')}`).set('X-CSRF-Token', other.csrf);
+    expect(first.status).toBe(410);
+  });
+
+  it('a stranger who signs up first with the owner\'s address cannot keep a way in once the owner confirms', async () => {
+    const email = `owner-${uniq()}@test.trimout.example`;
+    const STRANGER = 'the stranger chose this one';
+    const OWNER = 'the owner chose this password';
+    // 1. the stranger signs up with the owner's address (their mail goes to the owner's inbox)
+    await signUp({ companyName: 'Stranger Holdings', name: 'Not The Owner', email, password: STRANGER }, 202);
+    await smtp.waitFor((m) => m.to.includes(email));
+    // the stranger's password does not sign in (and says no more than "confirm first" to whoever knows it)
+    const { agent: strangerAgent, csrf: strangerCsrf } = await anonymous();
+    const early = await strangerAgent.post('/api/session').set('X-CSRF-Token', strangerCsrf).send({ email, password: STRANGER });
+    expect(early.status).toBe(403);
+    // 2. the owner signs up with their own address and password, and confirms from their inbox
+    await signUp({ companyName: 'Owner Mechanical', name: 'Real Owner', email, password: OWNER }, 202);
+    await smtp.waitFor((m) => m.to.includes(email) && smtp.messages().filter((x) => x.to.includes(email)).length === 2);
+    const mails = smtp.messages().filter((m) => m.to.includes(email));
+    const before = await User.findOne({ where: { email } });
+    const { agent, csrf } = await anonymous();
+    const confirmed = await agent.post(`/api/email-confirmations/${tokenOf(mails[1]!, '/confirm/')}`).set('X-CSRF-Token', csrf).expect(200);
+    // the account is the owner's: their name and company, and only their password
+    expect(confirmed.body.user).toMatchObject({ email, name: 'Real Owner', company: { name: 'Owner Mechanical' } });
+    const after = await User.findOne({ where: { email } });
+    expect(after!.sessionEpoch).toBe(before!.sessionEpoch + 1);
+    await signIn(trimout.app, email, OWNER);
+    const late = await strangerAgent.post('/api/session').set('X-CSRF-Token', strangerCsrf).send({ email, password: STRANGER });
+    expect(late.status).toBe(401);
+    expect(late.body.error.message).toMatch(/do not match/);
+    // the stranger's link (in the owner's inbox) is dead too
+    const stale = await strangerAgent.post(`/api/email-confirmations/${tokenOf(mails[0]!, '/confirm/')}`).set('X-CSRF-Token', strangerCsrf);
+    expect(stale.status).toBe(410);
+    // and the owner's session stays (it was made after the epoch rose)
+    await agent.get('/api/session').expect(200).then((r) => expect(r.body.user.email).toBe(email));
+  });
+
+  it('confirming ends every other session of the account (the epoch rises)', async () => {
+    // an account confirmed once already (e.g. through a reset link) with a live session
+    const user = await buildUser();
+    const live = await signIn(trimout.app, user.email, TEST_PASSWORD);
+    const token = await db.sequelize.transaction(async (transaction) =>
+      (await issueToken('email_confirmation', { userId: user.id, passwordHash: await hashPassword(PASSWORD) }, transaction)).token,
+    );
+    const { agent, csrf } = await anonymous();
+    await agent.post(`/api/email-confirmations/${token}`).set('X-CSRF-Token', csrf).expect(200);
+    const me = await live.agent.get('/api/session').expect(200);
+    expect(me.body.user).toBeNull();
   });
 
   it.each([
