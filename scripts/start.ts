@@ -4,6 +4,8 @@
  * the local S3 fake for photos (s3rver on 127.0.0.1:S3_PORT, data in .data/s3) unless S3_ENDPOINT
  * is set, then the server. Ctrl-C stops the server, the S3 fake and the database cleanly.
  */
+import { randomBytes } from 'node:crypto';
+import fs from 'node:fs';
 import path from 'node:path';
 import { connect, migrate } from '../server/db';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../server/seed/demo';
@@ -17,6 +19,21 @@ import { buildWebIfStale } from './lib/web';
 import { ROLE_LABELS } from '../shared/words';
 
 const root = path.resolve(__dirname, '..');
+
+/**
+ * A local try-out is development, said explicitly (the server alone defaults to production and
+ * then refuses to start without PUBLIC_URL and a real secret). The development secret is random,
+ * made once and kept in the git-ignored .data folder, so sessions survive a restart and nobody
+ * can read it in the source to forge session cookies or unsubscribe links.
+ */
+function developmentSecret(): string {
+  const file = path.join(root, '.data', 'session-secret');
+  if (!fs.existsSync(file)) {
+    fs.mkdirSync(path.dirname(file), { recursive: true });
+    fs.writeFileSync(file, randomBytes(32).toString('base64url'), { mode: 0o600 });
+  }
+  return fs.readFileSync(file, 'utf8').trim();
+}
 
 async function main() {
   const pgPort = Number(process.env.TRIMOUT_PG_PORT ?? 54329);
@@ -56,6 +73,8 @@ async function main() {
     say(`photos are stored in ${photoStorage ? `${photoStorage.store.location} (data in ${path.relative(root, photoStorage.directory)})` : `s3://${s3.S3_BUCKET} at ${s3.S3_ENDPOINT}`}.`);
 
     const server = await startServer({
+      NODE_ENV: 'development',
+      SESSION_SECRET: process.env.SESSION_SECRET ?? developmentSecret(),
       ...process.env,
       ...photoStorage?.env,
       DATABASE_URL: databaseUrl,

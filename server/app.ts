@@ -178,7 +178,7 @@ export function createApp(options: AppOptions): TrimoutApp {
       signInLimits,
     }),
   );
-  api.use(accountsRouter({ mail, limits: signInLimits }));
+  api.use(accountsRouter({ mail, log, limits: signInLimits }));
   api.use(invitationsRouter({ mail, limits: signInLimits }));
   api.use(devMailRouter(mail));
   api.use(preferencesRouter({ digests, mail }));
@@ -200,7 +200,7 @@ export function createApp(options: AppOptions): TrimoutApp {
   api.use(correctionRouter({ store: photoStore, uploads, log }));
   api.use(plansRouter({ store: photoStore, uploads, log }));
   api.use(boardRouter());
-  api.use(exportsRouter({ publicUrl: env.PUBLIC_URL, log }));
+  api.use(exportsRouter({ publicOrigin: env.publicOrigin, log }));
   api.use(apiNotFound);
 
   app.use('/api', api);

@@ -2,6 +2,7 @@
  * Environment, parsed once at boot with zod: a wrong value stops the server with a clear message.
  * Nothing here connects to anything.
  */
+import { randomBytes } from 'node:crypto';
 import { z } from 'zod';
 
 const bool = z
@@ -9,13 +10,17 @@ const bool = z
   .transform((v) => v === 'true' || v === '1' || v === 'yes');
 
 export const envSchema = z.object({
-  NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+  /** Unset means production: development (set by `npm start`) and test are explicit choices. */
+  NODE_ENV: z.enum(['development', 'test', 'production']).default('production'),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
   HOST: z.string().min(1).default('127.0.0.1'),
   DATABASE_URL: z.string().url().default('postgres://trimout@127.0.0.1:54329/trimout'),
   /** One or more secrets, comma-separated; the first signs, all verify (rotation). */
   SESSION_SECRET: z.string().optional(),
-  /** The public origin the app is served from, e.g. https://punch.example.org. */
+  /**
+   * The public origin the app is served from, e.g. https://punch.example.org. Links in mails and
+   * exports are built on it, never on a request's Host header. Required outside development and test.
+   */
   PUBLIC_URL: z.string().url().optional(),
   /** Secure cookies (served over TLS). Defaults to true when PUBLIC_URL is https. */
   COOKIE_SECURE: bool.optional(),
@@ -48,7 +53,12 @@ export const envSchema = z.object({
   STORAGE_DISK_DIR: z.string().min(1).optional(),
 });
 
-export type Env = z.infer<typeof envSchema> & { sessionSecrets: string[]; cookieSecure: boolean };
+export type Env = z.infer<typeof envSchema> & {
+  sessionSecrets: string[];
+  cookieSecure: boolean;
+  /** Origin every link in a mail or a file is built on: PUBLIC_URL's, or (development and test only) http://HOST:PORT. */
+  publicOrigin: string;
+};
 
 export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
   const parsed = envSchema.safeParse(source);
@@ -60,16 +70,27 @@ export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
   if (env.NODE_ENV === 'production' && source.TRIMOUT_FAULT_PAUSE_MS) {
     throw new Error('Trimout cannot start: TRIMOUT_FAULT_PAUSE_MS is a test-only fault hook and is refused in production.');
   }
+  const explicitDev = env.NODE_ENV === 'development' || env.NODE_ENV === 'test';
   const secrets = (env.SESSION_SECRET ?? '').split(',').map((s) => s.trim()).filter(Boolean);
   if (secrets.length === 0) {
-    if (env.NODE_ENV === 'production') {
-      throw new Error('Trimout cannot start: SESSION_SECRET is required in production (32 random bytes or more).');
+    if (!explicitDev) {
+      throw new Error(
+        'Trimout cannot start: SESSION_SECRET is required in production (32 random bytes or more). For a local try-out, run `npm start`, which sets NODE_ENV=development.',
+      );
     }
-    secrets.push('development-only-session-secret-not-for-production-use');
+    // Development or test without a secret: a random one for this process, never a constant
+    // that anyone could read here and use to forge sessions or unsubscribe links.
+    secrets.push(randomBytes(32).toString('base64url'));
   }
-  if (env.NODE_ENV === 'production' && secrets.some((s) => s.length < 32)) {
+  if (!explicitDev && secrets.some((s) => s.length < 32)) {
     throw new Error('Trimout cannot start: every SESSION_SECRET must be at least 32 characters.');
   }
+  if (!env.PUBLIC_URL && !explicitDev) {
+    throw new Error(
+      'Trimout cannot start: PUBLIC_URL is required in production (links in mails are built on it, e.g. https://punch.example.org).',
+    );
+  }
+  const publicOrigin = env.PUBLIC_URL ? new URL(env.PUBLIC_URL).origin : `http://${env.HOST}:${env.PORT}`;
   const cookieSecure = env.COOKIE_SECURE ?? (env.PUBLIC_URL ?? '').startsWith('https:');
-  return { ...env, sessionSecrets: secrets, cookieSecure };
+  return { ...env, sessionSecrets: secrets, cookieSecure, publicOrigin };
 }

@@ -82,8 +82,8 @@ export interface DigestService {
   /** Mails each subcontractor of the company on the job (preference on) after the transaction commits. */
   notifyCriticalAssignment(input: CriticalAssignmentInput, transaction: Transaction, req?: Request): Promise<void>;
   unsubscribeToken(userId: string, list: 'digest' | 'critical'): string;
-  /** Public origin for links: PUBLIC_URL, else (development and tests) the request's, else HOST:PORT. */
-  origin(req?: Request): string;
+  /** Public origin for links (env.publicOrigin): never the request's Host header. */
+  origin(): string;
 }
 
 export interface CriticalAssignmentInput {
@@ -107,10 +107,8 @@ export function createDigestService(options: DigestServiceOptions): DigestServic
   const { sequelize, mail, env, log } = options;
 
   const service: DigestService = {
-    origin(req) {
-      if (env.PUBLIC_URL) return new URL(env.PUBLIC_URL).origin;
-      if (req) return mail.link(req, '');
-      return `http://${env.HOST}:${env.PORT}`;
+    origin() {
+      return env.publicOrigin;
     },
 
     unsubscribeToken(userId, list) {
@@ -195,7 +193,7 @@ export function createDigestService(options: DigestServiceOptions): DigestServic
       { bind: [input.jobId, input.companyId], type: QueryTypes.SELECT, transaction },
     );
     if (!job) return [];
-    const origin = service.origin(req);
+    const origin = service.origin();
     const now = new Date();
     const since = new Date(now.getTime() - 24 * 60 * 60 * 1000);
     const { items } = await companyFindings(sequelize, { id: input.jobId, timeZone: job.time_zone }, input.companyId, since, now, transaction, input.findingId);
@@ -219,7 +217,7 @@ export function createDigestService(options: DigestServiceOptions): DigestServic
     const content: DigestContent | null = await buildDigestContent(sequelize, prefs.userId, period, now);
     if (!content) return null;
     const message = renderDigest(content, {
-      origin: service.origin(req),
+      origin: service.origin(),
       timeZone: prefs.timeZone,
       unsubscribeToken: service.unsubscribeToken(prefs.userId, 'digest'),
       trigger,

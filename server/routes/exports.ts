@@ -7,7 +7,6 @@
  * Each is rate limited per user (csvSafe.ts exportLimiter), answers `Cache-Control: no-store`,
  * a server-made file name, UTF-8 with a byte-order mark, and cells made safe by csvSafe.ts.
  */
-import type { Request } from 'express';
 import { Router } from 'express';
 import { noExportQuerySchema } from '../../shared/schemas/exports';
 import { findingListQuerySchema, type FindingListQueryParsed } from '../../shared/schemas/findings';
@@ -23,17 +22,14 @@ import { findingFiltersOf } from '../services/findingQueries';
 import { sequelizeOf } from '../services/records';
 
 export interface ExportsRouterOptions {
-  /** Links in the files are built on this origin (env PUBLIC_URL); without it, on the request's own. */
-  publicUrl?: string;
+  /** Links in the files are built on this origin (env.publicOrigin), never on the request's Host header. */
+  publicOrigin: string;
   log?: (message: string, err?: unknown) => void;
 }
 
-export function exportsRouter(options: ExportsRouterOptions = {}): Router {
+export function exportsRouter(options: ExportsRouterOptions): Router {
   const router = Router();
-  const publicOrigin = options.publicUrl ? new URL(options.publicUrl).origin : undefined;
   const log = options.log ?? ((m: string, e?: unknown) => console.error(m, e));
-  // Development and tests only: production refuses to start without PUBLIC_URL (server/mail).
-  const originOf = (req: Request) => publicOrigin ?? `${req.protocol}://${req.get('host')}`;
 
   router.get(
     '/jobs/:jobId/findings.csv',
@@ -44,7 +40,7 @@ export function exportsRouter(options: ExportsRouterOptions = {}): Router {
       const q = valid<FindingListQueryParsed>(req.valid.query);
       const { job } = req.membership!;
       const query = findingsCsvQuery(
-        { jobId: job.id, unitSystem: job.unitSystem, origin: originOf(req) },
+        { jobId: job.id, unitSystem: job.unitSystem, origin: options.publicOrigin },
         req.scope!,
         findingFiltersOf(q),
         q.sort ?? '-number',

@@ -119,7 +119,7 @@ export function invitationsRouter(options: InvitationRouteOptions): Router {
           invitationMail(
             { name: input.name || existing?.name, address: email },
             { jobName: job.name, role: input.role, companyName: company.name, inviterName: inviter.name, existingAccount: Boolean(existing?.passwordHash) },
-            mail.link(req, `/invite/${token}`),
+            mail.link(`/invite/${token}`),
           ),
         );
         row.company = company;

@@ -9,7 +9,7 @@ import { QueryTypes } from 'sequelize';
 import { Job, User } from '../../server/models';
 import { DEMO_PASSWORD, seedDemo } from '../../server/seed/demo';
 import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
-import { linkTo, startFakeSmtp, testMailService, type FakeSmtp } from '../support/mail';
+import { linkTo, startFakeSmtp, type FakeSmtp } from '../support/mail';
 
 jest.setTimeout(240_000);
 
@@ -19,7 +19,7 @@ const EMAIL = 'mechanical@demo.trimout.example';
 
 beforeAll(async () => {
   smtp = await startFakeSmtp();
-  h = await startBrowserHarness({ mail: testMailService(smtp) });
+  h = await startBrowserHarness({ smtp });
   await seedDemo(h.db);
   // A re-run starts from the defaults (an earlier run unsubscribed).
   const user = (await User.findOne({ where: { email: EMAIL } }))!;

@@ -10,7 +10,7 @@
 import { JobCompany } from '../../server/models';
 import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { addMember, buildCompany, buildJob, buildUser } from '../support/factories';
-import { linkTo, startFakeSmtp, testMailService, type FakeSmtp } from '../support/mail';
+import { linkTo, startFakeSmtp, type FakeSmtp } from '../support/mail';
 
 jest.setTimeout(120_000);
 
@@ -19,7 +19,7 @@ let smtp: FakeSmtp;
 
 beforeAll(async () => {
   smtp = await startFakeSmtp();
-  h = await startBrowserHarness({ mail: testMailService(smtp) });
+  h = await startBrowserHarness({ smtp });
 });
 afterAll(async () => {
   await h?.close();

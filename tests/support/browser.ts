@@ -4,7 +4,7 @@
  * (git-ignored) to be looked at.
  */
 import fs from 'node:fs';
-import type { Server } from 'node:http';
+import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
@@ -13,6 +13,7 @@ import type { AppOptions, TrimoutApp } from '../../server/app';
 import type { Database } from '../../server/db';
 import { buildTestApp, testEnv } from './app';
 import { connectTestDb } from './db';
+import { testMailService, type FakeSmtp } from './mail';
 import { startFakeS3 } from './storage';
 
 export const PHONE = { width: 390, height: 844 } as const;
@@ -32,8 +33,12 @@ export interface BrowserHarness {
   close(): Promise<void>;
 }
 
-/** `appOptions` go to the test app (e.g. `mail` on a test's own fake SMTP server). */
-export async function startBrowserHarness(appOptions: Partial<AppOptions> = {}): Promise<BrowserHarness> {
+/**
+ * `appOptions` go to the test app; `smtp`: a test's own fake SMTP server, which the app's mail
+ * goes to (its links are built on this harness's address, as PUBLIC_URL would in production).
+ */
+export async function startBrowserHarness(options: Partial<AppOptions> & { smtp?: FakeSmtp } = {}): Promise<BrowserHarness> {
+  const { smtp, ...appOptions } = options;
   const dist = process.env.WEB_DIST ?? path.resolve(__dirname, '..', '..', 'dist');
   if (!fs.existsSync(path.join(dist, 'index.html'))) throw new Error(`No web build in ${dist}: run \`npm test\`, which builds it.`);
   const db = await connectTestDb();
@@ -48,11 +53,20 @@ export async function startBrowserHarness(appOptions: Partial<AppOptions> = {}):
   // Photos always have a store: the test's own, or a local S3 fake for this harness (a demo
   // finding may carry a photo another test stored elsewhere: that answers 404, not an outage).
   const ownS3 = appOptions.objectStore ? null : await startFakeS3();
-  const trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }), log, ...(ownS3 ? { objectStore: ownS3.store } : {}), ...appOptions });
+  // Listen first: the app's public URL (links in mails) is this server's address.
   const server: Server = await new Promise((resolve) => {
-    const s = trimout.app.listen(0, '127.0.0.1', () => resolve(s));
+    const s = createServer().listen(0, '127.0.0.1', () => resolve(s));
   });
   const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  const env = testEnv({ WEB_DIST: dist, PUBLIC_URL: baseUrl });
+  const trimout = buildTestApp(db, {
+    env,
+    log,
+    ...(ownS3 ? { objectStore: ownS3.store } : {}),
+    ...(smtp ? { mail: testMailService(smtp, { env }) } : {}),
+    ...appOptions,
+  });
+  server.on('request', trimout.app);
   const userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'trimout-chromium-'));
   const context = await chromium.launchPersistentContext(userDataDir, {
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',

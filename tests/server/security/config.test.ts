@@ -30,12 +30,29 @@ describe('environment', () => {
   });
 
   it('takes several comma-separated secrets for rotation', () => {
-    const env = loadEnv({ SESSION_SECRET: 'a'.repeat(32) + ',' + 'b'.repeat(32) });
+    const env = loadEnv({ SESSION_SECRET: 'a'.repeat(32) + ',' + 'b'.repeat(32), PUBLIC_URL: 'https://punch.example.org' });
     expect(env.sessionSecrets).toHaveLength(2);
   });
 
   it('reports a bad value with its name', () => {
-    expect(() => loadEnv({ PORT: 'eighty' })).toThrow(/PORT/);
+    expect(() => loadEnv({ NODE_ENV: 'development', PORT: 'eighty' })).toThrow(/PORT/);
+  });
+
+  it('is production unless development or test is said: then it refuses to start without PUBLIC_URL and a real secret', () => {
+    expect(() => loadEnv({})).toThrow(/SESSION_SECRET is required/);
+    expect(() => loadEnv({ SESSION_SECRET: 'x'.repeat(40) })).toThrow(/PUBLIC_URL is required/);
+    expect(loadEnv({ SESSION_SECRET: 'x'.repeat(40), PUBLIC_URL: 'https://punch.example.org/app' })).toMatchObject({
+      NODE_ENV: 'production',
+      publicOrigin: 'https://punch.example.org',
+    });
+  });
+
+  it('in development without a secret, makes a random one per process (no constant anyone could read and forge with)', () => {
+    const a = loadEnv({ NODE_ENV: 'development' });
+    const b = loadEnv({ NODE_ENV: 'development' });
+    expect(a.sessionSecrets[0]).toHaveLength(43);
+    expect(a.sessionSecrets[0]).not.toBe(b.sessionSecrets[0]);
+    expect(a.publicOrigin).toBe('http://127.0.0.1:3000');
   });
 });
 
