@@ -13,7 +13,7 @@ import { hashToken } from '../../../server/services/tokens';
 import { buildTestApp, csrfFor, signIn, testEnv } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser, TEST_PASSWORD } from '../../support/factories';
-import { startFakeSmtp, testMailService, tokenOf, type FakeSmtp } from '../../support/mail';
+import { linkTo, startFakeSmtp, testMailService, tokenOf, type FakeSmtp } from '../../support/mail';
 
 // Several scrypt hashes per test (N=2^17): generous on a busy shared machine.
 jest.setTimeout(60_000);
@@ -69,6 +69,38 @@ describe('POST /api/password-resets', () => {
     expect((row!.expiresAt.getTime() - row!.createdAt.getTime()) / 60_000).toBeCloseTo(60, 0);
     await new Promise((r) => setTimeout(r, 200));
     expect(smtp.messages().some((m) => m.to.includes(unknown))).toBe(false);
+  });
+
+  it('answers before looking the address up, so its time cannot tell a known address from an unknown one', async () => {
+    const user = await buildUser();
+    const unknown = `nobody-${Date.now()}@test.trimout.example`;
+    // Hold every read of the users table: an answer that waited on the lookup could not arrive.
+    const hold = await db.sequelize.transaction();
+    let released = false;
+    try {
+      await db.sequelize.query('LOCK TABLE users IN ACCESS EXCLUSIVE MODE', { transaction: hold });
+      const [a, b] = await Promise.all([requestReset(user.email), requestReset(unknown)]);
+      expect([a.status, b.status]).toEqual([202, 202]);
+      expect(a.body).toEqual(b.body);
+      expect(smtp.messages().some((m) => m.to.includes(user.email))).toBe(false);
+      await hold.commit();
+      released = true;
+    } finally {
+      if (!released) await hold.rollback();
+    }
+    // the work happens after the answer: the mail still goes out
+    const mail = await smtp.waitFor((m) => m.to.includes(user.email));
+    expect(mail.subject).toBe('Reset your Trimout password');
+  });
+
+  it('builds the mailed link on the public URL, never on the Host header the request came with', async () => {
+    const user = await buildUser();
+    const { agent, csrf } = await anonymous();
+    await agent.post('/api/password-resets').set('Host', 'attacker.example').set('X-CSRF-Token', csrf).send({ email: user.email }).expect(202);
+    const mail = await smtp.waitFor((m) => m.to.includes(user.email));
+    const link = linkTo(mail, '/reset/');
+    expect(new URL(link).origin).toBe(testEnv().publicOrigin);
+    expect(mail.text).not.toContain('attacker.example');
   });
 
   it('refuses a malformed body with 400 and no CSRF token with 403', async () => {
@@ -131,7 +163,11 @@ describe('POST /api/password-resets/:token', () => {
     const second = await resetToken(user.email);
     const { agent, csrf } = await anonymous();
     await agent.post(`/api/password-resets/${second}`).set('X-CSRF-Token', csrf).send({ password: NEW_PASSWORD }).expect(200);
-    await request(trimout.app).get(`/api/password-resets/${first}`).expect(410);
+    const dead = await request(trimout.app).get(`/api/password-resets/${first}`).expect(410);
+    // said for what it is: a reset link, not an invitation
+    expect(dead.body.error.id).toBe('link_revoked');
+    expect(dead.body.error.message).toMatch(/password reset link was replaced/);
+    expect(dead.body.error.message).not.toMatch(/invitation/i);
   });
 
   it('confirms an unconfirmed address (the link came to it)', async () => {
@@ -178,6 +214,10 @@ describe('mail never fails a write', () => {
       const agent = request.agent(broken.app);
       const csrf = await csrfFor(agent);
       await agent.post('/api/password-resets').set('X-CSRF-Token', csrf).send({ email: user.email }).expect(202);
+      // the link is made after the answer: wait for its row, then for the outbox
+      for (let i = 0; i < 200 && (await AuthToken.count({ where: { userId: user.id, purpose: 'password_reset' } })) === 0; i += 1) {
+        await new Promise((r) => setTimeout(r, 25));
+      }
       await mail.outbox.idle();
       expect(logged.join('\n')).toMatch(/not sent after 4 attempts/);
       // the token row was still written
