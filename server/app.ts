@@ -15,6 +15,7 @@ import type { Env } from './env';
 import { apiNotFound, errorHandler, unauthorized } from './errors';
 import { csrfProtection } from './middleware/csrf';
 import { closeUnreadBodies, createUploadGuard, type UploadLimits } from './middleware/upload';
+import { refuseNul } from './middleware/nul';
 import { requireJsonBody } from './middleware/json';
 import { createMailService, type MailService } from './mail';
 import { accountsRouter } from './routes/accounts';
@@ -138,11 +139,14 @@ export function createApp(options: AppOptions): TrimoutApp {
   api.use(closeUnreadBodies());
   // RFC 8058 one-click unsubscribe: public, token-authorised, form or JSON body, no session and no
   // CSRF header (see server/routes/preferences.ts); so it comes before the JSON-only and CSRF checks.
+  // NUL in the path or query is refused before any router (bodies again once parsed, below).
+  api.use(refuseNul);
   api.use(unsubscribeRouter({ secrets: env.sessionSecrets }));
   api.use(requireJsonBody);
   // The unit import takes a schedule larger than 100 kB (JSON or text/csv); its parsers run first.
   api.use(unitImportBodyParsers());
   api.use(express.json({ limit: '100kb', strict: true }));
+  api.use(refuseNul);
   api.use(
     session({
       name: cookieName,

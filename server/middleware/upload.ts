@@ -28,6 +28,7 @@
  * either → 429 with Retry-After. The per-request pixel budget and the decode slots are in
  * server/services/photos.ts.
  */
+import { nulField, nulRefusal } from './nul';
 import { createHash, randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import { lstat, mkdir, mkdtemp, readdir, rm } from 'node:fs/promises';
@@ -279,6 +280,8 @@ export function photosWithJsonData(what: string, otherwise: 'next' | (() => Http
       } catch {
         return next(badRequest('data: The "data" field is not valid JSON.', { data: 'Not valid JSON.' }));
       }
+      const nul = nulField(req.body);
+      if (nul) return next(nulRefusal(nul));
       next();
     });
   };

@@ -26,6 +26,7 @@ import {
   type UnsubscribeResult,
 } from '../../shared/schemas/preferences';
 import { HttpError, notFound, tooManyRequests } from '../errors';
+import { refuseNul } from '../middleware/nul';
 import type { MailService } from '../mail';
 import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
@@ -125,7 +126,8 @@ export interface UnsubscribeRouterOptions {
 /** Public, token-authorised; mounted before the JSON and CSRF checks (see the top of this file). */
 export function unsubscribeRouter(options: UnsubscribeRouterOptions): Router {
   const router = Router();
-  const bodies = [express.urlencoded({ extended: false, limit: '1kb', parameterLimit: 5 }), express.json({ limit: '1kb', strict: true })];
+  // This router sits before the API's own body parsers, so it runs the NUL check on its own bodies.
+  const bodies = [express.urlencoded({ extended: false, limit: '1kb', parameterLimit: 5 }), express.json({ limit: '1kb', strict: true }), refuseNul];
 
   async function resolve(req: Request) {
     const { token } = valid<{ token: string }>(req.valid.params);
