@@ -9,7 +9,9 @@ import express, { type Express } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
 import pg from 'pg';
+import { deviceCookies } from './auth/deviceCookie';
 import { configurePassport } from './auth/passport';
+import { postgresRateLimitStores, type AccountLimits } from './services/rateLimitStore';
 import { createSessionStore } from './auth/sessionStore';
 import type { Database } from './db';
 import type { Env } from './env';
@@ -70,6 +72,11 @@ export interface AppOptions {
   uploadLimits?: Partial<UploadLimits>;
   /** Where uploads' temporary folders are made (default: trimout-uploads in the OS temp folder). */
   uploadTempRoot?: string;
+  /**
+   * Prefix of this app's rate-limit keys in the shared table. Nodes of one deployment share the
+   * default (''); tests give each app its own, so one test's counts do not reach another's.
+   */
+  rateLimitNamespace?: string;
 }
 
 export interface TrimoutApp {
@@ -87,7 +94,12 @@ export function createApp(options: AppOptions): TrimoutApp {
   const absoluteMs = options.sessionAbsoluteMs ?? 12 * HOUR;
   const cookieName = env.cookieSecure ? '__Host-trimout.sid' : 'trimout.sid';
   const mail = options.mail ?? createMailService({ env, log });
-  const signInLimits = options.signInLimits ?? { perAccount: 10, perAddress: 100, windowMs: 15 * 60 * 1000 };
+  // Sign-in and account-mail limits are counted in PostgreSQL, shared by every server node.
+  const signInLimits: AccountLimits = {
+    ...(options.signInLimits ?? { perAccount: 10, perAddress: 100, windowMs: 15 * 60 * 1000 }),
+    store: postgresRateLimitStores(db.sequelize, options.rateLimitNamespace),
+  };
+  const devices = deviceCookies({ secrets: env.sessionSecrets, secure: env.cookieSecure });
 
   const app = express();
   app.set('sequelize', db.sequelize);
@@ -181,6 +193,7 @@ export function createApp(options: AppOptions): TrimoutApp {
       csrfSecret: env.sessionSecrets[0]!,
       cookieName,
       signInLimits,
+      devices,
     }),
   );
   api.use(accountsRouter({ mail, log, limits: signInLimits }));

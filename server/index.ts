@@ -7,6 +7,7 @@ import { startFakeSmtp, type FakeSmtp } from './mail/fakeSmtp';
 import type { DigestService } from './digests/service';
 import { startDigestScheduler, type DigestScheduler } from './digests/scheduler';
 import { pruneIdempotencyKeys } from './services/idempotency';
+import { pruneRateLimitHits } from './services/rateLimitStore';
 import { reapOrphanUploads, REAP_INTERVAL_MINUTES } from './services/pendingUploads';
 import { createObjectStore } from './storage';
 import { sweepUploadFolders } from './middleware/upload';
@@ -33,7 +34,10 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
     );
   }
   // Housekeeping: idempotency keys are kept IDEMPOTENCY_RETENTION_DAYS (7), pruned at start and every 6 h.
-  const prune = () => void pruneIdempotencyKeys(db.sequelize).catch((err: unknown) => log('pruning idempotency keys failed', err));
+  const prune = () => {
+    void pruneIdempotencyKeys(db.sequelize).catch((err: unknown) => log('pruning idempotency keys failed', err));
+    void pruneRateLimitHits(db.sequelize).catch((err: unknown) => log('pruning rate-limit counts failed', err));
+  };
   prune();
   const pruneTimer = setInterval(prune, 6 * 60 * 60 * 1000);
   pruneTimer.unref();

@@ -30,6 +30,7 @@ import type { MailService } from '../mail';
 import { validate, valid } from '../middleware/validate';
 import { AuthToken, User } from '../models';
 import { policy } from '../policies';
+import type { AccountLimits } from '../services/rateLimitStore';
 import { confirmEmail } from '../commands/confirmEmail';
 import { sendPasswordReset } from '../commands/sendPasswordReset';
 import { signUp } from '../commands/signUp';
@@ -40,7 +41,7 @@ export interface AccountRouteOptions {
   mail: MailService;
   log: (message: string, err?: unknown) => void;
   /** The sign-in limits: the same per-address budget; per-account for mails to one address. */
-  limits: { perAccount: number; perAddress: number; windowMs: number };
+  limits: AccountLimits;
 }
 
 export const SIGN_UP_ACCEPTED: AcceptedResponse = {
@@ -58,7 +59,14 @@ export function accountsRouter(options: AccountRouteOptions): Router {
   const { windowMs } = options.limits;
   const tooMany = (_req: Request, _res: Response, next: NextFunction) =>
     next(tooManyRequests('Too many attempts. Wait a few minutes and try again.', Math.ceil(windowMs / 1000)));
-  const perAddress = rateLimit({ windowMs, limit: options.limits.perAddress, standardHeaders: 'draft-8', legacyHeaders: false, handler: tooMany });
+  const perAddress = rateLimit({
+    windowMs,
+    limit: options.limits.perAddress,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    handler: tooMany,
+    store: options.limits.store?.('account-address'),
+  });
   // Mails to one address: the same budget as failed sign-ins, so nobody can flood an inbox.
   const perEmail = rateLimit({
     windowMs,
@@ -67,6 +75,7 @@ export function accountsRouter(options: AccountRouteOptions): Router {
     legacyHeaders: false,
     keyGenerator: (req) => `mail:${String(req.body?.email ?? '').trim().toLowerCase()}`,
     handler: tooMany,
+    store: options.limits.store?.('account-mail'),
   });
   const perToken = rateLimit({
     windowMs,
@@ -75,6 +84,7 @@ export function accountsRouter(options: AccountRouteOptions): Router {
     legacyHeaders: false,
     keyGenerator: (req) => `token:${hashToken(String(req.params.token ?? ''))}`, // never keep the token itself
     handler: tooMany,
+    store: options.limits.store?.('account-token'),
   });
 
   router.post('/signup', policy.public(), perAddress, validate({ body: signUpSchema }), perEmail, async (req, res) => {

@@ -35,11 +35,12 @@ import { AuthToken, Company, Job, JobCompany, JobMember, User } from '../models'
 import { policy, uuidSchema } from '../policies';
 import { idempotentWrite } from '../services/idempotency';
 import { finishPage, pageRequest } from '../services/paging';
+import type { AccountLimits } from '../services/rateLimitStore';
 import { consumeToken, hashToken, inspectToken, issueToken } from '../services/tokens';
 
 export interface InvitationRouteOptions {
   mail: MailService;
-  limits: { perAccount: number; perAddress: number; windowMs: number };
+  limits: AccountLimits;
 }
 
 const jobParamsSchema = z.object({ jobId: uuidSchema }).strict();
@@ -70,7 +71,7 @@ export function invitationsRouter(options: InvitationRouteOptions): Router {
   const { windowMs } = options.limits;
   const tooMany = (_req: Request, _res: Response, next: NextFunction) =>
     next(tooManyRequests('Too many attempts. Wait a few minutes and try again.', Math.ceil(windowMs / 1000)));
-  const perAddress = rateLimit({ windowMs, limit: options.limits.perAddress, standardHeaders: 'draft-8', legacyHeaders: false, handler: tooMany });
+  const perAddress = rateLimit({ windowMs, limit: options.limits.perAddress, standardHeaders: 'draft-8', legacyHeaders: false, handler: tooMany, store: options.limits.store?.('invitation-address') });
   // Accepting with an existing account checks its password: throttled per link like sign-in per account.
   const perToken = rateLimit({
     windowMs,
@@ -80,6 +81,7 @@ export function invitationsRouter(options: InvitationRouteOptions): Router {
     skipSuccessfulRequests: true,
     keyGenerator: (req) => `invitation:${hashToken(String(req.params.token ?? ''))}`, // never keep the token itself
     handler: tooMany,
+    store: options.limits.store?.('invitation-token'),
   });
 
   router.post(
@@ -243,11 +245,21 @@ export function invitationsRouter(options: InvitationRouteOptions): Router {
           userId = existing.id;
           await User.update(
             {
-              ...(newAccount ? { passwordHash: newAccount.passwordHash, name: newAccount.name } : {}),
+              // An account without a password (a sign-up never confirmed) is made here as a new one
+              // would be: the name, password and company are the invitee's, nothing the sign-up chose.
+              ...(newAccount ? { passwordHash: newAccount.passwordHash, name: newAccount.name, companyId: row.companyId! } : {}),
               emailConfirmedAt: fn('coalesce', literal('email_confirmed_at'), fn('now')) as unknown as Date,
             },
             { where: { id: userId }, transaction },
           );
+          // The invitation proved the mailbox and set the password: pending sign-up confirmations
+          // (which carry passwords chosen by whoever signed up with this address) die here.
+          if (newAccount) {
+            await AuthToken.update(
+              { revokedAt: fn('now') as unknown as Date },
+              { where: { userId, purpose: 'email_confirmation', usedAt: null, revokedAt: null }, transaction },
+            );
+          }
         } else {
           const user = await User.create(
             { email: row.email!, name: newAccount!.name, companyId: row.companyId!, passwordHash: newAccount!.passwordHash, emailConfirmedAt: new Date() },

@@ -11,6 +11,8 @@ import { forbidden, tooManyRequests, unauthorized } from '../errors';
 import { expectedCsrfToken, newCsrfToken } from '../middleware/csrf';
 import { validate } from '../middleware/validate';
 import { policy } from '../policies';
+import type { AccountLimits } from '../services/rateLimitStore';
+import type { DeviceCookies } from '../auth/deviceCookie';
 import { presentUser } from '../presenters/session';
 import { jobsOf } from '../services/memberships';
 import { UNCONFIRMED, type AuthUser } from '../auth/passport';
@@ -19,8 +21,9 @@ export interface SessionRouteOptions {
   passport: passport.PassportStatic;
   csrfSecret: string;
   cookieName: string;
-  /** Failed sign-ins per account per 15 minutes; per address, all sign-in attempts. */
-  signInLimits: { perAccount: number; perAddress: number; windowMs: number };
+  /** Failed sign-ins per account (or per known device) per 15 minutes; per address, all sign-in attempts. */
+  signInLimits: AccountLimits;
+  devices: DeviceCookies;
 }
 
 const WRONG = 'That e-mail and password do not match an account. Check both and try again.';
@@ -40,15 +43,23 @@ export function sessionRouter(options: SessionRouteOptions): Router {
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     handler: (req, res, next, opts) => limitHandler(req, res, next, opts),
+    store: options.signInLimits.store?.('sign-in-address'),
   });
+  // Failed sign-ins per account, except from a device that signed in to that account before: its
+  // failures count against its own budget, so guessing from elsewhere cannot lock the owner out.
   const perAccount = rateLimit({
     windowMs,
     limit: options.signInLimits.perAccount,
     standardHeaders: false,
     legacyHeaders: false,
     skipSuccessfulRequests: true,
-    keyGenerator: (req) => `account:${String(req.body?.email ?? '').trim().toLowerCase()}`,
+    keyGenerator: (req) => {
+      const email = String(req.body?.email ?? '').trim().toLowerCase();
+      const device = options.devices.deviceFor(req, email);
+      return device ? `device:${device}` : `account:${email}`;
+    },
     handler: (req, res, next, opts) => limitHandler(req, res, next, opts),
+    store: options.signInLimits.store?.('sign-in-account'),
   });
 
   async function payload(req: Request): Promise<SessionResponse> {
@@ -69,6 +80,7 @@ export function sessionRouter(options: SessionRouteOptions): Router {
       // passport >= 0.6 regenerates the session here: the old id dies, nothing of it is kept.
       req.login(user, (loginErr) => {
         if (loginErr) return next(loginErr);
+        if (!options.devices.deviceFor(req, user.email)) options.devices.remember(res, user.email);
         req.session.signedInAt = Date.now();
         req.session.csrfToken = newCsrfToken();
         payload(req)

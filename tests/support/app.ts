@@ -2,6 +2,7 @@
  * Builds the real Express app against the test database, and signs users in through the
  * real POST /api/session, returning a supertest agent that carries the cookie and CSRF token.
  */
+import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
 import { createApp, type AppOptions, type TrimoutApp } from '../../server/app';
@@ -26,6 +27,8 @@ export function buildTestApp(db: Database, options: Partial<AppOptions> = {}): T
     db,
     log: () => undefined,
     signInLimits: { perAccount: 1000, perAddress: 10_000, windowMs: 60_000 },
+    // Each test app counts its limits apart in the shared table (the nodes of one deployment share theirs).
+    rateLimitNamespace: `test-${randomUUID()}:`,
     // Suites upload far more per user than a person would; the upload-attack test sets its own.
     uploadLimits: { requestsPerWindow: 10_000, pixelsPerWindow: 1e12, windowMs: 60_000 },
     ...options,

@@ -71,11 +71,16 @@ describe('cookies under TLS', () => {
         .set('X-CSRF-Token', csrf)
         .send({ email: user.email, password: TEST_PASSWORD })
         .expect(200);
-      const cookie = String(res.headers['set-cookie']);
-      expect(cookie).toMatch(/^__Host-trimout\.sid=/);
-      expect(cookie).toMatch(/Secure/);
-      expect(cookie).toMatch(/Path=\//);
-      expect(cookie).not.toMatch(/Domain=/i);
+      const cookies = res.headers['set-cookie'] as unknown as string[];
+      // the session cookie and the device cookie (sign-in limits) alike
+      for (const name of ['__Host-trimout.sid=', '__Host-trimout.device=']) {
+        const cookie = cookies.find((c) => c.startsWith(name));
+        expect(cookie).toBeDefined();
+        expect(cookie).toMatch(/; Secure/);
+        expect(cookie).toMatch(/; HttpOnly/);
+        expect(cookie).toMatch(/Path=\//);
+        expect(cookie).not.toMatch(/Domain=/i);
+      }
       expect(res.headers['strict-transport-security']).toBeDefined();
     } finally {
       await trimout.close();
