@@ -266,6 +266,26 @@ describe('accepting an invitation', () => {
     await request(trimout.app).get(`/api/invitations/${inv.token}`).expect(410);
   });
 
+  it('an address someone signed up with but never confirmed: accepting sets the password, and the pending sign-up link dies', async () => {
+    const email = `pending-${uniq()}@test.trimout.example`;
+    const stranger = await anonymous();
+    await stranger.agent
+      .post('/api/signup')
+      .set('X-CSRF-Token', stranger.csrf)
+      .send({ companyName: 'Stranger Holdings', name: 'Not The Owner', email, password: 'the stranger chose this one' })
+      .expect(202);
+    const signUpMail = await smtp.waitFor((m) => m.to.includes(email) && m.subject.startsWith('Confirm'));
+    const inv = await invited('subcontractor', email);
+    const { agent, csrf } = await anonymous();
+    const accepted = await agent.post(`/api/invitations/${inv.token}`).set('X-CSRF-Token', csrf).send({ name: 'Pell Anders', password: NEW_PASSWORD }).expect(200);
+    expect(accepted.body.user).toMatchObject({ name: 'Pell Anders', company: { id: inv.mech.id } });
+    await signIn(trimout.app, email, NEW_PASSWORD);
+    const late = await anonymous();
+    const dead = await late.agent.post(`/api/email-confirmations/${tokenOf(signUpMail, '/confirm/')}`).set('X-CSRF-Token', late.csrf);
+    expect(dead.status).toBe(410);
+    await signIn(trimout.app, email, NEW_PASSWORD);
+  });
+
   it('an existing account must give its current password; the invitation never changes it', async () => {
     const existing = await buildUser();
     const inv = await invited('inspector', existing.email);
