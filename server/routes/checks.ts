@@ -27,7 +27,7 @@ import { idempotentWrite } from '../services/idempotency';
 import { finishPage, pageRequest } from '../services/paging';
 import { sequelizeOf } from '../services/records';
 import { walkUnitState } from '../services/walkUnits';
-import { usableWalk } from './walks';
+import { usableWalk } from '../services/walks';
 
 const CHECK_ROLES = ['gc_manager', 'inspector'] as const;
 
