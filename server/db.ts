@@ -40,7 +40,9 @@ export function migrator(sequelize: Sequelize) {
         return {
           name: bare,
           // require, not import(): the server runs as CommonJS under tsx and under jest alike.
+          // eslint-disable-next-line @typescript-eslint/no-require-imports
           up: async () => (require(file!) as MigrationModule).up({ context }),
+          // eslint-disable-next-line @typescript-eslint/no-require-imports
           down: async () => (require(file!) as MigrationModule).down({ context }),
         };
       },

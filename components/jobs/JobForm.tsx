@@ -59,7 +59,7 @@ export function JobForm({
   testID?: string;
 }) {
   const wide = useWide();
-  const zones = useMemo(timeZoneOptions, []);
+  const zones = useMemo(() => timeZoneOptions(), []);
   const { control, handleSubmit, formState, setError } = useForm({
     resolver: zodResolver(createJobSchema),
     defaultValues: initial,

@@ -75,7 +75,7 @@ function toForm(p: PreferencesDto): FormInput {
 
 function PreferencesEditor({ prefs, saved, onSaved }: { prefs: PreferencesDto; saved: boolean; onSaved: (version: number) => void }) {
   const save = useSavePreferencesMutation();
-  const zones = useMemo(timeZoneOptions, []);
+  const zones = useMemo(() => timeZoneOptions(), []);
   const { control, handleSubmit, setError, formState } = useForm<FormInput, unknown, PreferencesForm>({
     resolver: zodResolver(preferencesFormSchema),
     defaultValues: toForm(prefs),

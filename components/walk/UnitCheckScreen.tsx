@@ -108,9 +108,11 @@ function UnitCheckBody({
   const [saving, setSaving] = useState(false);
   /** Codes of defects saved without a finding after a warning: the second tap saves. */
   const [warnedUnlogged, setWarnedUnlogged] = useState<string>('');
+  // Named apart: a dependency spelled `x.current` reads to the hook linter as a ref.
+  const currentCheck = checks.current;
   const previousMarks = useMemo(
-    () => Object.fromEntries((checks.current?.items ?? []).map((i) => [i.catalogueItemId, i.mark])),
-    [checks.current],
+    () => Object.fromEntries((currentCheck?.items ?? []).map((i) => [i.catalogueItemId, i.mark])),
+    [currentCheck],
   );
 
   const markedCount = items.filter((i) => marks[i.id]).length;

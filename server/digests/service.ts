@@ -163,13 +163,13 @@ export function createDigestService(options: DigestServiceOptions): DigestServic
       return build(prefs, 'daily', 'now', req, now);
     },
 
-    async notifyCriticalAssignment(input, transaction, req) {
+    async notifyCriticalAssignment(input, transaction) {
       if (input.severity !== 'critical') return;
       // The reads run in a savepoint of the write's transaction (they see the finding as it will
       // be committed); if one fails, only the savepoint rolls back: a mail never fails the write.
       let messages: MailMessage[] = [];
       try {
-        messages = await sequelize.transaction({ transaction }, (savepoint) => criticalAssignmentMails(input, savepoint, req));
+        messages = await sequelize.transaction({ transaction }, (savepoint) => criticalAssignmentMails(input, savepoint));
       } catch (err) {
         log(`critical-assignment mail for finding ${input.findingId} not prepared`, err);
         return;
@@ -178,7 +178,7 @@ export function createDigestService(options: DigestServiceOptions): DigestServic
     },
   };
 
-  async function criticalAssignmentMails(input: CriticalAssignmentInput, transaction: Transaction, req?: Request): Promise<MailMessage[]> {
+  async function criticalAssignmentMails(input: CriticalAssignmentInput, transaction: Transaction): Promise<MailMessage[]> {
     const recipients = await sequelize.query<{ user_id: string }>(
       `SELECT u.id AS user_id
          FROM job_members m JOIN users u ON u.id = m.user_id

@@ -16,7 +16,7 @@
  * writes its event in the same transaction, and raises the version (comments do not: they
  * are not a change of the finding).
  */
-import type { NextFunction, Request, RequestHandler, Response } from 'express';
+import type { NextFunction, Request, Response } from 'express';
 import { Router } from 'express';
 import { QueryTypes, type Transaction, type WhereOptions } from 'sequelize';
 import {

@@ -6,7 +6,7 @@
  * messages beside their fields, and the read-only view other roles get.
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { fireEvent, render, screen, waitFor, within } from '@testing-library/react-native';
+import { fireEvent, render, screen, within } from '@testing-library/react-native';
 import type { ReactElement } from 'react';
 import { JobSettingsScreen } from '../../components/setup/JobSettingsScreen';
 import { percentToShare, shareToPercent } from '../../components/setup/jobSettingsForm';
