@@ -1,7 +1,7 @@
 /**
  * `npm test`: a throwaway PostgreSQL cluster (fsync off) built by the migrations, the
- * typecheck, every jest project (shared, server, components, e2e in a real chromium),
- * then one plain line of totals: `N passed, N failed`. Exits non-zero on any failure.
+ * typecheck, the lint (eslint), every jest project (shared, server, components, e2e in a
+ * real chromium), then one plain line of totals: `N passed, N failed`. Exits non-zero on any failure.
  */
 import fs from 'node:fs';
 import path from 'node:path';
@@ -62,6 +62,14 @@ async function main(): Promise<number> {
         failed += 1;
         console.error(`typecheck of ${project} failed`);
       }
+    }
+
+    say('lint ...');
+    const lint = await runInherit(path.join(root, 'node_modules', '.bin', 'eslint'), ['.'], { cwd: root });
+    if (lint === 0) passed += 1;
+    else {
+      failed += 1;
+      console.error('lint failed');
     }
 
     // Without a web build the browser tests cannot run; every other project still does.
