@@ -1,25 +1,13 @@
 import { AtkinsonHyperlegible_400Regular } from '@expo-google-fonts/atkinson-hyperlegible/400Regular';
 import { AtkinsonHyperlegible_700Bold } from '@expo-google-fonts/atkinson-hyperlegible/700Bold';
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { QueryClientProvider } from '@tanstack/react-query';
 import { useFonts } from 'expo-font';
 import { Slot } from 'expo-router';
 import { StatusBar } from 'expo-status-bar';
 import { useState } from 'react';
 import { View } from 'react-native';
-import { ApiError } from '../components/api/client';
+import { makeQueryClient } from '../components/queries/queryClient';
 import { colors } from '../components/theme';
-
-function makeQueryClient() {
-  return new QueryClient({
-    defaultOptions: {
-      queries: {
-        // A 4xx will not get better by asking again; network trouble might.
-        retry: (count, error) => !(error instanceof ApiError && error.status >= 400 && error.status < 500) && count < 2,
-        refetchOnWindowFocus: true,
-      },
-    },
-  });
-}
 
 export default function RootLayout() {
   const [queryClient] = useState(makeQueryClient);
