@@ -1,6 +1,7 @@
 // Lint for the whole repository: `npm run lint`, also one item of `npm test`.
 // Syntax-only typescript-eslint (no type information) so a run takes seconds, the React
 // hooks rules on the client, and import boundaries between the layers.
+import { defineConfig } from 'eslint/config';
 import tseslint from 'typescript-eslint';
 import reactHooks from 'eslint-plugin-react-hooks';
 
@@ -9,7 +10,7 @@ const serverImport = {
   message: 'The client and shared code run in the browser: they must not import server code.',
 };
 
-export default tseslint.config(
+export default defineConfig(
   {
     ignores: [
       'dist/**',
