@@ -77,7 +77,7 @@ export interface DigestService {
   dueDigests(now?: Date): Promise<DueDigest[]>;
   /** Claims (user, period) and sends if this caller's claim made the row; otherwise sends nothing. */
   sendScheduled(due: DueDigest, claimedBy: string, now?: Date): Promise<DigestSendResult>;
-  /** "Send me a digest now": a daily digest for the last 24 hours, built now (no claim); the caller sends it. */
+  /** "Send me a digest now": a digest of the chosen period (weekly, else daily), built now (no claim); the caller sends it. */
   prepareNow(userId: string, req?: Request, now?: Date): Promise<{ message: MailMessage; findings: number } | null>;
   /** Mails each subcontractor of the company on the job (preference on) after the transaction commits. */
   notifyCriticalAssignment(input: CriticalAssignmentInput, transaction: Transaction, req?: Request): Promise<void>;
@@ -160,7 +160,8 @@ export function createDigestService(options: DigestServiceOptions): DigestServic
     async prepareNow(userId, req, now = new Date()) {
       const prefs = await loadPreferences(sequelize, userId);
       if (!prefs) return null;
-      return build(prefs, 'daily', 'now', req, now);
+      // The period the person chose (weekly covers the last seven days); daily when digests are off.
+      return build(prefs, prefs.digestFrequency === 'weekly' ? 'weekly' : 'daily', 'now', req, now);
     },
 
     async notifyCriticalAssignment(input, transaction) {

@@ -195,6 +195,28 @@ describe('at most once per period', () => {
   });
 });
 
+describe('"Send me a digest now"', () => {
+  it('follows the chosen frequency: right after choosing weekly, the subject, title and period say weekly', async () => {
+    const current = await gc.get('/api/me/preferences');
+    const version = Number(/"v(\d+)"/.exec(String(current.headers.etag))![1]);
+    const saved = await gc.patch('/api/me/preferences', { digestFrequency: 'weekly', digestWeekday: 1 }, ifMatch(version));
+    expect(saved.status).toBe(200);
+    try {
+      smtp.clear();
+      const res = await gc.post('/api/me/digest', {}, { 'Idempotency-Key': `weekly-now-${Math.random().toString(36).slice(2)}` });
+      expect(res.status).toBe(202);
+      expect(res.body.subject).toMatch(/^Weekly Trimout digest/);
+      const caught = await smtp.waitFor((m) => m.to.includes(w.gcManager.email));
+      expect(caught.subject).toMatch(/^Weekly Trimout digest/);
+      expect(caught.text).toMatch(/^Weekly digest for /);
+      expect(caught.text).not.toMatch(/\bDaily\b/);
+    } finally {
+      const now = Number(/"v(\d+)"/.exec(String(saved.headers.etag))![1]);
+      await gc.patch('/api/me/preferences', { digestFrequency: 'daily' }, ifMatch(now));
+    }
+  });
+});
+
 describe('unsubscribe links', () => {
   async function digestToken(signed: SignedIn, address: string): Promise<string> {
     smtp.clear();
