@@ -56,7 +56,7 @@ export function PreferencesScreen() {
         <>
           {/* Re-mount on a new version so a reload after 412 shows the current preferences. */}
           <PreferencesEditor key={prefs.data.version} prefs={prefs.data} saved={savedVersion === prefs.data.version} onSaved={setSavedVersion} />
-          <DigestNow mailboxPath={prefs.data.mailboxPath} />
+          <DigestNow mailboxPath={prefs.data.mailboxPath} weekly={prefs.data.digestFrequency === 'weekly'} />
         </>
       )}
     </Screen>
@@ -160,7 +160,7 @@ function PreferencesEditor({ prefs, saved, onSaved }: { prefs: PreferencesDto; s
   );
 }
 
-function DigestNow({ mailboxPath }: { mailboxPath: string | null }) {
+function DigestNow({ mailboxPath, weekly }: { mailboxPath: string | null; weekly: boolean }) {
   const send = useDigestNowMutation();
   // One write per press: a retry of the same press reuses its Idempotency-Key.
   const write = useRef<Write | null>(null);
@@ -180,7 +180,11 @@ function DigestNow({ mailboxPath }: { mailboxPath: string | null }) {
   return (
     <Card testID="digest-now">
       <AppText variant="title">Try it</AppText>
-      <AppText muted>Sends you today's digest now (the last 24 hours), whatever the settings above say.</AppText>
+      <AppText muted testID="digest-now-period">
+        {weekly
+          ? "Sends you this week's digest now (the last 7 days), as your saved settings choose, whatever the day and hour."
+          : "Sends you today's digest now (the last 24 hours), whatever the day and hour set above."}
+      </AppText>
       <Button testID="digest-now-send" label="Send me a digest now" tone="secondary" onPress={onPress} busy={send.isPending} />
       {error ? (
         <Notice tone="error" testID="digest-now-error">

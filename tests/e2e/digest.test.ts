@@ -129,6 +129,15 @@ it('send me a digest now → caught mail → finding link → unsubscribe link �
   // The time zone stays "the first job's" (NULL) because it was not changed.
   expect(row).toEqual({ digest_frequency: 'weekly', digest_weekday: 5, digest_hour: 6, time_zone: null });
 
+  // Right after choosing weekly, "Send me a digest now" says and sends a weekly digest.
+  await wide.page.getByText("Sends you this week's digest now (the last 7 days)", { exact: false }).waitFor();
+  smtp.clear();
+  await wide.page.getByTestId('digest-now-send').click();
+  await wide.page.getByTestId('digest-now-sent').waitFor();
+  const weekly = await smtp.waitFor((m) => m.to.includes(EMAIL) && /digest/i.test(m.subject));
+  expect(weekly.subject).toMatch(/^Weekly Trimout digest: /);
+  await h.screenshot(wide.page, 'digest-now-weekly-wide');
+
   expect(problems).toEqual([]);
   expect(anon.problems).toEqual([]);
   expect(wide.problems).toEqual([]);
