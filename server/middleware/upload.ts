@@ -39,20 +39,11 @@ import { pipeline } from 'node:stream/promises';
 import type { Request, RequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import multer from 'multer';
+import { PHOTO_LIMITS } from '../../shared/rules/photos';
 import { badRequest, HttpError, tooManyRequests } from '../errors';
 
-export const PHOTO_LIMITS = {
-  /** Bytes per photo (security.md: 15 MB). */
-  fileSize: 15 * 1024 * 1024,
-  /** Photos per request. */
-  files: 10,
-  /** Non-file fields per request. */
-  fields: 20,
-  /** Bytes per non-file field value (a finding's note fits easily). */
-  fieldSize: 64 * 1024,
-  /** Bytes per field name. */
-  fieldNameSize: 100,
-} as const;
+/** The limits live in shared/rules/photos.ts: the photo pickers show the same numbers. */
+export { PHOTO_LIMITS };
 
 /** Largest body worth reading: every file at its limit, every field at its limit, and headers. */
 export const MAX_UPLOAD_BODY_BYTES =

@@ -15,7 +15,8 @@
 import { createHmac, timingSafeEqual } from 'node:crypto';
 import type { Request } from 'express';
 import { Op, type WhereOptions } from 'sequelize';
-import { LIST_LIMIT_DEFAULT, LIST_LIMIT_MAX } from '../../shared/schemas/setup';
+import { listLimit } from '../../shared/rules/limits';
+import { LIST_LIMIT_DEFAULT } from '../../shared/schemas/setup';
 import { invalidCursor } from '../errors';
 
 export type SortValue = string | number;
@@ -147,7 +148,7 @@ function decode(cursor: string, keys: Buffer[], binding: string, order: ListOrde
  */
 export function pageRequest(req: Request, order: ListOrder, limitDefault = LIST_LIMIT_DEFAULT): PageRequest {
   const query = (req.valid?.query ?? {}) as { limit?: number; cursor?: unknown };
-  const limit = Math.min(query.limit ?? limitDefault, LIST_LIMIT_MAX);
+  const limit = listLimit({ requested: query.limit, fallback: limitDefault });
   const keys = keysOf(req);
   const binding = bindingOf(req, order);
   const cursorAfter = (value: SortValue, id: string) => {

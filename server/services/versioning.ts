@@ -4,11 +4,10 @@
  * Missing → 428, stale → 412 with the current record so the screen can show it.
  */
 import type { Request, Response } from 'express';
+import { etagOf } from '../../shared/rules/etag';
 import { HttpError, preconditionRequired } from '../errors';
 
-export function etagOf(version: number): string {
-  return `"v${version}"`;
-}
+export { etagOf };
 
 export function setEtag(res: Response, version: number): void {
   res.set('ETag', etagOf(version));
