@@ -2,7 +2,8 @@
 import type { Request } from 'express';
 import { col, fn, ForeignKeyConstraintError, Op, where, type Model, type ModelStatic, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import { conflict, notFound } from '../errors';
-import { checkIfMatch, etagOf } from './versioning';
+import { Job } from '../models';
+import { checkVersion, versionMatches } from './versioning';
 
 export function sequelizeOf(req: Request): Sequelize {
   return req.app.get('sequelize') as Sequelize;
@@ -25,6 +26,21 @@ export async function lockRow<M extends Model>(
 }
 
 /**
+ * What a set-up write needs, without the request: the transaction, the job, and the client's
+ * If-Match (PATCH and DELETE of versioned records).
+ */
+export interface SetupWrite {
+  transaction: Transaction;
+  jobId: string;
+  ifMatch?: string;
+}
+
+/** The If-Match and the job of a request, for the services that take a SetupWrite. */
+export function setupWrite(req: Request, transaction: Transaction): SetupWrite {
+  return { transaction, jobId: req.membership!.job.id, ifMatch: req.get('if-match') };
+}
+
+/**
  * Locks a versioned row, checks the client's If-Match against it (428 / 412 with the current
  * record, presented), and returns it.
  */
@@ -36,11 +52,21 @@ export async function lockForChange<M extends Model & { version: number }>(
   message: string,
   present: (row: M) => Promise<unknown> | unknown,
 ): Promise<M> {
+  return lockVersioned(model, where, transaction, message, req.get('if-match'), present);
+}
+
+/** lockForChange for a service or command that holds the If-Match value, not the request. */
+export async function lockVersioned<M extends Model & { version: number }>(
+  model: ModelStatic<M>,
+  where: WhereOptions,
+  transaction: Transaction,
+  message: string,
+  ifMatch: string | undefined,
+  present: (row: M) => Promise<unknown> | unknown,
+): Promise<M> {
   const row = await lockRow(model, where, transaction, message);
-  const header = req.get('if-match');
-  if (!header) checkIfMatch(req, row.version); // 428
-  const tags = (header ?? '').split(',').map((t) => t.trim());
-  if (!tags.includes('*') && !tags.includes(etagOf(row.version))) checkIfMatch(req, row.version, await present(row)); // 412
+  if (!ifMatch) checkVersion(ifMatch, row.version); // 428
+  else if (!versionMatches(ifMatch, row.version)) checkVersion(ifMatch, row.version, await present(row)); // 412
   return row;
 }
 
@@ -63,8 +89,8 @@ export function lowerEquals(column: string, value: string): WhereOptions {
 }
 
 /** Serialises set-up writes of one job that must see each other (positions, name checks). */
-export async function lockJob(req: Request, jobId: string, transaction: Transaction): Promise<void> {
-  await sequelizeOf(req).query(`SELECT id FROM jobs WHERE id = $1 FOR UPDATE`, { bind: [jobId], transaction });
+export async function lockJob(jobId: string, transaction: Transaction): Promise<void> {
+  await Job.sequelize!.query(`SELECT id FROM jobs WHERE id = $1 FOR UPDATE`, { bind: [jobId], transaction });
 }
 
 /**

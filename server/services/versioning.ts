@@ -15,12 +15,21 @@ export function setEtag(res: Response, version: number): void {
 
 /** Compares the client's If-Match with the version just read (inside the write's transaction, FOR UPDATE). */
 export function checkIfMatch(req: Request, currentVersion: number, current?: unknown): void {
-  const header = req.get('if-match');
-  if (!header) throw preconditionRequired('Send If-Match with the ETag of the version you are changing.');
-  const tags = header.split(',').map((t) => t.trim());
-  if (tags.includes('*') || tags.includes(etagOf(currentVersion))) return;
+  checkVersion(req.get('if-match'), currentVersion, current);
+}
+
+/** checkIfMatch for code that holds the header's value, not the request (services, commands). */
+export function checkVersion(ifMatch: string | undefined, currentVersion: number, current?: unknown): void {
+  if (!ifMatch) throw preconditionRequired('Send If-Match with the ETag of the version you are changing.');
+  if (versionMatches(ifMatch, currentVersion)) return;
   throw Object.assign(
     new HttpError(412, 'stale', 'Someone else changed this since you loaded it. Review the current version and try again.'),
     { current },
   );
+}
+
+/** True when an If-Match value names this version (or is `*`). */
+export function versionMatches(ifMatch: string, currentVersion: number): boolean {
+  const tags = ifMatch.split(',').map((t) => t.trim());
+  return tags.includes('*') || tags.includes(etagOf(currentVersion));
 }
