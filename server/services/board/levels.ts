@@ -1,0 +1,100 @@
+/**
+ * The levels board: per level in building order, open / critical / major / fix submitted / closed /
+ * overdue counts, units checked and ceiling blockers, and the job's totals (docs/api-board.md).
+ */
+import type { Sequelize } from 'sequelize';
+import type { BoardCounts, BoardLevelRow, BoardResponse } from '../../../shared/schemas/board';
+import { todayIn } from '../findings';
+import { cachedStat, readStatVersions, type StatVersions } from '../statCache';
+import type { FindingScope } from '../findingQueries';
+import { latestCheckJoin, loadTallies, loadUnresolvedFigures, num, select } from './common';
+
+const COUNT_KEYS = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'overdue', 'unitsTotal', 'unitsChecked'] as const;
+
+interface CoverageRow {
+  level_id: string;
+  name: string;
+  position: number;
+  units_total: number;
+  units_checked: number;
+}
+
+/** The job's levels in building order with their units and checked units (cached on topic structure). */
+async function loadCoverage(sequelize: Sequelize, jobId: string, versions?: StatVersions): Promise<CoverageRow[]> {
+  return cachedStat(sequelize, jobId, ['structure'], 'coverage', async () => {
+    const rows = await select<{ level_id: string; name: string; position: number; units_total: string | null; units_checked: string | null }>(
+      sequelize,
+      `WITH uc AS (
+        SELECT u.level_id, count(*) AS units_total, count(*) FILTER (WHERE lc.complete) AS units_checked
+          FROM units u
+          ${latestCheckJoin('u')}
+         WHERE u.job_id = $1
+         GROUP BY u.level_id
+      )
+      SELECT lv.id AS level_id, lv.name, lv.position, uc.units_total, uc.units_checked
+        FROM levels lv LEFT JOIN uc ON uc.level_id = lv.id
+       WHERE lv.job_id = $1
+       ORDER BY lv.position, lv.id`,
+      [jobId],
+    );
+    return rows.map((r) => ({ level_id: r.level_id, name: r.name, position: r.position, units_total: num(r.units_total), units_checked: num(r.units_checked) }));
+  }, versions);
+}
+
+/**
+ * The levels board: one row per level in building order, and the job's totals. Status and
+ * severity counts come from the live tallies; overdue and ceiling blockers from
+ * loadUnresolvedFigures; units and checked units from loadCoverage. The definitions are the
+ * findings list's (docs/api-board.md); tests/server/routes/board.test.ts checks every cell
+ * against counts made from the findings themselves.
+ */
+export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Promise<BoardResponse> {
+  const today = todayIn(scope.timeZone);
+  const versions = await readStatVersions(sequelize, scope.jobId);
+  const [coverage, tallies, unresolved] = await Promise.all([
+    loadCoverage(sequelize, scope.jobId, versions),
+    loadTallies(sequelize, scope.jobId, scope.companyId),
+    loadUnresolvedFigures(sequelize, scope.jobId, today, versions),
+  ]);
+  const zero = () => ({ open: 0, open_critical: 0, open_major: 0, fix_submitted: 0, closed: 0, overdue: 0, ceiling_blockers: 0 });
+  const perLevel = new Map<string, ReturnType<typeof zero>>();
+  const at = (levelId: string) => {
+    let c = perLevel.get(levelId);
+    if (!c) perLevel.set(levelId, (c = zero()));
+    return c;
+  };
+  for (const t of tallies) {
+    const c = at(t.level_id);
+    if (t.status === 'open') {
+      c.open += t.n;
+      if (t.severity === 'critical') c.open_critical += t.n;
+      if (t.severity === 'major') c.open_major += t.n;
+    } else if (t.status === 'fix_submitted') c.fix_submitted += t.n;
+    else if (t.status === 'closed') c.closed += t.n;
+  }
+  for (const u of unresolved) {
+    if (scope.companyId && u.companyId !== scope.companyId) continue;
+    const c = at(u.levelId);
+    c.overdue += u.overdue;
+    c.ceiling_blockers += u.ceilingBlockers;
+  }
+  const rows = coverage.map((lv) => ({ ...lv, ...(perLevel.get(lv.level_id) ?? zero()) }));
+  const levels: BoardLevelRow[] = rows.map((r) => ({
+    levelId: r.level_id,
+    name: r.name,
+    position: r.position,
+    open: num(r.open),
+    openCritical: num(r.open_critical),
+    openMajor: num(r.open_major),
+    fixSubmitted: num(r.fix_submitted),
+    closed: num(r.closed),
+    overdue: num(r.overdue),
+    unitsTotal: num(r.units_total),
+    unitsChecked: num(r.units_checked),
+    ceilingBlockers: num(r.ceiling_blockers),
+    ceilingReady: num(r.ceiling_blockers) === 0,
+  }));
+  const totals = Object.fromEntries(COUNT_KEYS.map((k) => [k, 0])) as unknown as BoardCounts;
+  for (const l of levels) for (const k of COUNT_KEYS) totals[k] += l[k];
+  return { levels, totals, today, companyScope: scope.companyId };
+}

@@ -1,0 +1,139 @@
+/**
+ * Recurring defects: defect types found on many of the looked-at units (docs/api-board.md).
+ */
+import type { Sequelize } from 'sequelize';
+import {
+  DEFAULT_RECURRING_THRESHOLDS,
+  type RecurringDefect,
+  type RecurringResponse,
+  type RecurringThresholdsView,
+} from '../../../shared/schemas/board';
+import { cachedStat } from '../statCache';
+import type { FindingScope } from '../findingQueries';
+import { Bind, companyCond, LATEST_CHECK_CTE, num, select, selectTuned } from './common';
+
+/** The job's thresholds, defaults filled in. */
+export function recurringThresholdsOf(stored: Partial<RecurringThresholdsView> | null | undefined): RecurringThresholdsView {
+  return {
+    minUnits: typeof stored?.minUnits === 'number' ? stored.minUnits : DEFAULT_RECURRING_THRESHOLDS.minUnits,
+    minShare: typeof stored?.minShare === 'number' ? stored.minShare : DEFAULT_RECURRING_THRESHOLDS.minShare,
+  };
+}
+
+interface RecurringRow {
+  catalogue_item_id: string;
+  code: string;
+  title: string;
+  unit_count: string;
+  checked_units: string;
+  share: number;
+  recurring_since: Date;
+  by_level: { levelId: string; name: string; count: number }[];
+  by_company: { companyId: string; name: string; count: number }[];
+}
+
+/**
+ * Defect types found on at least minUnits distinct units AND on at least minShare of the looked-at
+ * units of the kinds the type applies to: share = unitCount / checkedUnits, where checkedUnits =
+ * units of those kinds whose latest check is complete, plus the units the type was found on that
+ * are not among them (a unit a finding was logged on was looked at), so the share never exceeds 1. Findings without a unit and voided findings are left out. For a
+ * subcontractor every count covers their company's findings only (the denominator stays the
+ * job's checked units). recurringSince = logged_at of the finding that brought the distinct-unit
+ * count to minUnits (each unit counted at its first finding of the type), given the share holds now.
+ */
+export async function loadRecurring(sequelize: Sequelize, scope: FindingScope): Promise<RecurringResponse> {
+  // Depends on the findings' shape (type, unit, company, logged time, voided) and the structure
+  // (units, checks, thresholds, names), not on fixes or re-inspections.
+  return cachedStat(sequelize, scope.jobId, ['structure', 'shape'], `recurring|${scope.companyId ?? '*'}`, () => computeRecurring(sequelize, scope));
+}
+
+async function computeRecurring(sequelize: Sequelize, scope: FindingScope): Promise<RecurringResponse> {
+  const [job] = await select<{ recurring_thresholds: Partial<RecurringThresholdsView> | null }>(
+    sequelize,
+    `SELECT recurring_thresholds FROM jobs WHERE id = $1`,
+    [scope.jobId],
+  );
+  const thresholds = recurringThresholdsOf(job?.recurring_thresholds);
+  const b = new Bind(scope.jobId);
+  const company = companyCond(b, scope);
+  const minUnits = b.add(thresholds.minUnits);
+  const minShare = b.add(String(thresholds.minShare));
+  const sql = `
+    WITH ${LATEST_CHECK_CTE}, checked_by_kind AS MATERIALIZED (
+      SELECT u.kind, count(*) AS n
+        FROM units u JOIN latest_check lc ON lc.unit_id = u.id AND lc.complete
+       WHERE u.job_id = $1
+       GROUP BY u.kind
+    ), per_unit_company AS MATERIALIZED (
+      SELECT f.catalogue_item_id, f.unit_id, f.company_id, min(f.logged_at) AS first_at
+        FROM findings f
+       WHERE f.job_id = $1 AND f.status <> 'voided' AND f.unit_id IS NOT NULL${company}
+       GROUP BY f.catalogue_item_id, f.unit_id, f.company_id
+    ), first_per_unit AS MATERIALIZED (
+      SELECT catalogue_item_id, unit_id, min(first_at) AS first_at
+        FROM per_unit_company
+       GROUP BY catalogue_item_id, unit_id
+    ), ranked AS (
+      SELECT catalogue_item_id, first_at,
+             row_number() OVER (PARTITION BY catalogue_item_id ORDER BY first_at, unit_id) AS nth,
+             count(*) OVER (PARTITION BY catalogue_item_id) AS unit_count
+        FROM first_per_unit
+    ), looked_at AS (
+      -- Per type, in one pass: the units it was found on that are not checked units of its kinds.
+      SELECT fu2.catalogue_item_id, count(*) AS n
+        FROM first_per_unit fu2
+        JOIN units u2 ON u2.id = fu2.unit_id
+        JOIN catalogue_items ci2 ON ci2.id = fu2.catalogue_item_id
+        LEFT JOIN latest_check lc2 ON lc2.unit_id = u2.id
+       WHERE NOT (coalesce(lc2.complete, false) AND u2.kind = ANY (ci2.unit_kinds))
+       GROUP BY fu2.catalogue_item_id
+    ), shares AS (
+      SELECT r.catalogue_item_id, r.unit_count, r.first_at AS recurring_since, ci.code, ci.title,
+             coalesce((SELECT sum(k.n) FROM checked_by_kind k WHERE k.kind = ANY (ci.unit_kinds)), 0)
+             + coalesce(la.n, 0) AS checked_units
+        FROM ranked r
+        JOIN catalogue_items ci ON ci.id = r.catalogue_item_id
+        LEFT JOIN looked_at la ON la.catalogue_item_id = r.catalogue_item_id
+       WHERE r.nth = ${minUnits}::int
+    ), recurring AS MATERIALIZED (
+      SELECT s.*, s.unit_count::numeric / greatest(s.checked_units, 1) AS share
+        FROM shares s
+    ), by_level AS (
+      SELECT x.catalogue_item_id, json_agg(json_build_object('levelId', x.level_id, 'name', x.name, 'count', x.n) ORDER BY x.position, x.level_id) AS list
+        FROM (SELECT fu.catalogue_item_id, u.level_id, lv.name, lv.position, count(*) AS n
+                FROM first_per_unit fu
+                JOIN recurring r ON r.catalogue_item_id = fu.catalogue_item_id AND r.share >= ${minShare}::numeric
+                JOIN units u ON u.id = fu.unit_id
+                JOIN levels lv ON lv.id = u.level_id
+               GROUP BY fu.catalogue_item_id, u.level_id, lv.name, lv.position) x
+       GROUP BY x.catalogue_item_id
+    ), by_company AS (
+      SELECT y.catalogue_item_id, json_agg(json_build_object('companyId', y.company_id, 'name', y.name, 'count', y.n) ORDER BY y.name, y.company_id) AS list
+        FROM (SELECT pc.catalogue_item_id, pc.company_id, c.name, count(*) AS n
+                FROM per_unit_company pc
+                JOIN recurring r ON r.catalogue_item_id = pc.catalogue_item_id AND r.share >= ${minShare}::numeric
+                JOIN companies c ON c.id = pc.company_id
+               GROUP BY pc.catalogue_item_id, pc.company_id, c.name) y
+       GROUP BY y.catalogue_item_id
+    )
+    SELECT r.catalogue_item_id, r.code, r.title, r.unit_count, r.checked_units, r.share::float8 AS share, r.recurring_since,
+           bl.list AS by_level, bc.list AS by_company
+      FROM recurring r
+      LEFT JOIN by_level bl ON bl.catalogue_item_id = r.catalogue_item_id
+      LEFT JOIN by_company bc ON bc.catalogue_item_id = r.catalogue_item_id
+     WHERE r.share >= ${minShare}::numeric
+     ORDER BY r.unit_count DESC, r.code, r.catalogue_item_id`;
+  const rows = await selectTuned<RecurringRow>(sequelize, sql, b.values);
+  const items: RecurringDefect[] = rows.map((r) => ({
+    catalogueItemId: r.catalogue_item_id,
+    code: r.code,
+    title: r.title,
+    unitCount: num(r.unit_count),
+    checkedUnits: num(r.checked_units),
+    share: Number(r.share),
+    recurringSince: new Date(r.recurring_since).toISOString(),
+    byLevel: (r.by_level ?? []).map((x) => ({ ...x, count: Number(x.count) })),
+    byCompany: (r.by_company ?? []).map((x) => ({ ...x, count: Number(x.count) })),
+  }));
+  return { thresholds, items, companyScope: scope.companyId };
+}
