@@ -1,0 +1,105 @@
+/**
+ * Unit checks: record one, and a unit's check history.
+ */
+import { z } from 'zod';
+import type { QuantityKind } from '../../catalogue/types';
+import type { RuleResult, RuleStatus } from '../../calc/rules';
+import { CHECK_MARKS, type CheckMark, type Severity } from '../../words';
+import { CHECK_ITEMS_MAX, type PersonRef } from './common';
+import { id, pageQuery, measuredText } from './fields';
+import type { WalkUnitDto } from './walkUnits';
+
+export const checkItemInputSchema = z
+  .object({
+    catalogueItemId: id('catalogue item'),
+    mark: z.enum(CHECK_MARKS, { error: `One of ${CHECK_MARKS.join(', ')}.` }),
+    /** Only for items with a measured rule: "34 in", "4' 10-1/2\"", "1486 mm", or yes / no. */
+    measuredText: measuredText.nullable().optional(),
+  })
+  .strict();
+export type CheckItemInput = z.input<typeof checkItemInputSchema>;
+
+/**
+ * POST /units/:unitId/checks (inspector, GC manager) → 201 UnitCheckDto. Idempotency-Key honoured.
+ * Items must apply to the unit's kind and not be retired; each item at most once. A measured
+ * item whose value fails its rule is recorded as a defect, whatever mark was sent.
+ */
+export const recordCheckSchema = z
+  .object({
+    walkId: id('walk').nullable().optional(),
+    items: z
+      .array(checkItemInputSchema, { error: 'Send items: the catalogue items checked, each with a mark.' })
+      .min(1, 'Mark at least one item.')
+      .max(CHECK_ITEMS_MAX, `At most ${CHECK_ITEMS_MAX} items in one check.`)
+      .refine((items) => new Set(items.map((i) => i.catalogueItemId)).size === items.length, 'A catalogue item appears twice.'),
+    /** true when every item that applies has been marked (the screen's "finish unit"). */
+    complete: z.boolean({ error: 'Send complete: true or false.' }),
+  })
+  .strict();
+export type RecordCheckInput = z.input<typeof recordCheckSchema>;
+
+/** A failed measurement's suggested finding: the finding form's prefill. */
+export interface ProposedFinding {
+  unitId: string;
+  levelId: string;
+  spaceId: string | null;
+  catalogueItemId: string;
+  code: string;
+  title: string;
+  severity: Severity;
+  /** The job company whose trades include the item's trade (the first by name), or null. */
+  companyId: string | null;
+  companyName: string | null;
+  /** YYYY-MM-DD, from the job's per-severity policy, counted in the job's time zone. */
+  dueOn: string;
+  measuredText: string | null;
+  /** Base units. */
+  measuredValue: number | null;
+  limit: number | null;
+  upper: number | null;
+  limitSource: string;
+  message: string;
+  walkId: string | null;
+  unitCheckId: string;
+}
+
+export interface CheckItemDto {
+  catalogueItemId: string;
+  code: string;
+  title: string;
+  mark: CheckMark;
+  measuredText: string | null;
+  /** Base units; null when not measured or a yes/no answer. */
+  measuredValue: number | null;
+  quantity: QuantityKind | null;
+  /** The measured rule's evaluation (shared/calc evaluateRule), or null for an item without one. */
+  result: RuleResult | null;
+  pass: boolean | null;
+  status: RuleStatus | null;
+  margin: number | null;
+  limitSource: string | null;
+  message: string | null;
+  /** Present for a measured item that failed. */
+  proposedFinding: ProposedFinding | null;
+}
+
+export interface UnitCheckDto {
+  id: string;
+  unitId: string;
+  walkId: string | null;
+  checkedBy: PersonRef;
+  checkedAt: string;
+  complete: boolean;
+  items: CheckItemDto[];
+  counts: { ok: number; defect: number; notApplicable: number; failedMeasurements: number };
+}
+
+/** GET /units/:unitId/checks: the unit's state and its check history, newest first. */
+export const checkListQuerySchema = z.object({ ...pageQuery }).strict();
+export interface UnitChecksResponse {
+  unit: WalkUnitDto;
+  /** The latest check (the unit's current check), or null. */
+  current: UnitCheckDto | null;
+  items: UnitCheckDto[];
+  nextCursor: string | null;
+}

@@ -1,0 +1,18 @@
+/**
+ * Limits and the person reference shared by the walk, check and finding schemas.
+ */
+
+export const FINDINGS_LIST_LIMIT_MAX = 200;
+export const FINDINGS_LIST_LIMIT_DEFAULT = 50;
+/** Items in one unit check (the catalogue holds far fewer per unit kind). */
+export const CHECK_ITEMS_MAX = 200;
+export const NOTE_MAX = 2000;
+export const MEASURED_TEXT_MAX = 60;
+
+export const REASON_MAX = 1000;
+
+/** A person as shown beside a record. */
+export interface PersonRef {
+  id: string;
+  name: string;
+}

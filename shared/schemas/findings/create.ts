@@ -1,0 +1,41 @@
+/**
+ * Logging a finding (POST /findings).
+ */
+import { z } from 'zod';
+import { SEVERITIES } from '../../words';
+import { id, dateOnly, measuredText, note, pin } from './fields';
+
+/**
+ * POST /findings → 201 FindingDetail. Idempotency-Key honoured (a retry returns the first answer).
+ * Either JSON (no photos) or multipart/form-data with a `data` field holding this JSON and
+ * up to 10 files in `photos` (each ≤ 15 MB; JPEG, PNG, WebP or HEIC, decided from the bytes).
+ * Attach to a unit, or a space, or a level: the finding's level is derived from the unit or
+ * space; a levelId sent beside a unit or space must match it.
+ * Omitted severity → the catalogue item's default; omitted companyId → the suggested company
+ * (400 when none fits); omitted dueOn → today (job time zone) + the job's days for the severity.
+ */
+export const createFindingSchema = z
+  .object({
+    catalogueItemId: id('defect type'),
+    unitId: id('unit').nullable().optional(),
+    spaceId: id('space').nullable().optional(),
+    levelId: id('level').nullable().optional(),
+    severity: z.enum(SEVERITIES, { error: `One of ${SEVERITIES.join(', ')}.` }).optional(),
+    companyId: id('responsible company').optional(),
+    dueOn: dateOnly.optional(),
+    note: note.optional(),
+    /** For a defect type with a measured rule: the value as typed. */
+    measuredText: measuredText.nullable().optional(),
+    walkId: id('walk').nullable().optional(),
+    unitCheckId: id('unit check').nullable().optional(),
+    pinX: pin().nullable().optional(),
+    pinY: pin().nullable().optional(),
+  })
+  .strict()
+  .refine((f) => Boolean(f.unitId || f.spaceId || f.levelId), {
+    message: 'Attach the finding to a unit, a space or a level.',
+    path: ['unitId'],
+  })
+  .refine((f) => (f.pinX == null) === (f.pinY == null), { message: 'Send both pinX and pinY, or neither.', path: ['pinX'] });
+export type CreateFindingInput = z.input<typeof createFindingSchema>;
+export type CreateFindingParsed = z.output<typeof createFindingSchema>;

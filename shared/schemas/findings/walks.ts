@@ -1,0 +1,55 @@
+/**
+ * Walks: start, finish, list (docs/api-findings.md).
+ */
+import { z } from 'zod';
+import type { PersonRef } from './common';
+import { id, pageQuery, booleanQuery } from './fields';
+
+/** POST /walks (inspector, GC manager) → 201 WalkDetail. Idempotency-Key honoured. */
+export const createWalkSchema = z.object({ levelId: id('level') }).strict();
+export type CreateWalkInput = z.input<typeof createWalkSchema>;
+
+/** POST /walks/:walkId/finish (the walk's inspector or a GC manager), no body → 200 WalkDetail. */
+export const finishWalkSchema = z.object({}).strict();
+
+/** GET /walks → ListResponse<WalkDto>, newest first. */
+export const walkListQuerySchema = z
+  .object({
+    levelId: id('level id').optional(),
+    inspectorId: id('inspector id').optional(),
+    /** true: only walks not finished yet; false: only finished ones. */
+    open: booleanQuery.optional(),
+    ...pageQuery,
+  })
+  .strict();
+export type WalkListQuery = z.input<typeof walkListQuerySchema>;
+export type WalkListQueryParsed = z.output<typeof walkListQuerySchema>;
+
+export interface WalkDto {
+  id: string;
+  levelId: string;
+  levelName: string;
+  inspector: PersonRef;
+  /** ISO 8601 */
+  startedAt: string;
+  finishedAt: string | null;
+  /** Unit checks recorded within this walk. */
+  checkCount: number;
+}
+
+/** Units on the level whose current (latest) unit check is complete, of all units on the level. */
+export interface Coverage {
+  checked: number;
+  total: number;
+  /** Units on the level with at least one open or fix-submitted finding. */
+  withOpenFindings: number;
+  /** Units with a current check that is not complete yet. */
+  inProgress: number;
+}
+
+/** GET /walks/:walkId, POST /walks (201), POST /walks/:walkId/finish. */
+export interface WalkDetail extends WalkDto {
+  /** The level's coverage now (all walks), and the units checked within this walk. */
+  coverage: Coverage;
+  checkedInWalk: number;
+}
