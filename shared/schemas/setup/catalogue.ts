@@ -1,0 +1,118 @@
+/**
+ * The defect catalogue of a job.
+ */
+import { z } from 'zod';
+import { CATALOGUE_GROUPS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type CatalogueGroup, type Comparison, type JobSettingKey, type ModelLimitKey } from '../../catalogue/types';
+import { CODE_LIMIT_VARIANTS } from '../../calc/limits';
+import { SEVERITIES, TRADE_KEYS, UNIT_KIND_KEYS, type Severity, type TradeKey, type UnitKindKey } from '../../words';
+import { text, optionalText, pageQuery, booleanQuery } from './fields';
+
+const limitRefSchema = z.discriminatedUnion('from', [
+  z.object({ from: z.literal('model'), key: z.enum(MODEL_LIMITS.map((m) => m.key) as [ModelLimitKey, ...ModelLimitKey[]]) }).strict(),
+  z
+    .object({
+      from: z.literal('code'),
+      key: z.string().refine((k) => k in CODE_LIMIT_VARIANTS, 'Not a code limit Trimout holds.'),
+    })
+    .strict(),
+  z.object({ from: z.literal('job'), key: z.enum(JOB_SETTINGS.map((s) => s.key) as [JobSettingKey, ...JobSettingKey[]]) }).strict(),
+]);
+
+/** shared/catalogue MeasuredRule as a schema (stored as JSONB). */
+export const measuredRuleSchema = z
+  .object({
+    measure: text('what is measured', 200),
+    quantity: z.enum(QUANTITY_KINDS),
+    comparison: z.enum(COMPARISONS),
+    limit: limitRefSchema.optional(),
+    upper: limitRefSchema.optional(),
+    tolerance: z.number().nonnegative().optional(),
+    expected: z.boolean().optional(),
+  })
+  .strict()
+  .superRefine((r, ctx) => {
+    const need = (cond: boolean, path: string, message: string) => {
+      if (!cond) ctx.addIssue({ code: 'custom', path: [path], message });
+    };
+    const c: Comparison = r.comparison;
+    if (c === 'yes_no') {
+      need(r.quantity === 'boolean', 'quantity', 'A yes/no rule measures a boolean.');
+      need(r.expected !== undefined, 'expected', 'A yes/no rule needs the answer that passes.');
+    } else {
+      need(r.quantity !== 'boolean', 'quantity', 'Only yes/no rules measure a boolean.');
+      need(r.limit !== undefined, 'limit', 'Say where the limit comes from.');
+      if (c === 'between') need(r.upper !== undefined, 'upper', 'A range needs an upper limit.');
+      if (c === 'equal_within') need(r.tolerance !== undefined, 'tolerance', 'Give the allowed deviation.');
+    }
+  });
+
+export const CATALOGUE_GROUP_KEYS = CATALOGUE_GROUPS.map((g) => g.key) as unknown as readonly [CatalogueGroup, ...CatalogueGroup[]];
+export const CATALOGUE_CODE_PATTERN = /^[A-Z]{2}-\d{2,3}$/;
+
+const catalogueFields = {
+  code: z
+    .string({ error: 'Enter a code.' })
+    .trim()
+    .transform((s) => s.toUpperCase())
+    .pipe(z.string().regex(CATALOGUE_CODE_PATTERN, 'A code is two letters, a dash and two or three digits (e.g. DR-41).')),
+  group: z.enum(CATALOGUE_GROUP_KEYS, { error: 'Choose a group.' }),
+  title: text('a title', 160),
+  description: text('a description', 2000),
+  unitKinds: z
+    .array(z.enum(UNIT_KIND_KEYS, { error: 'Not a unit kind.' }))
+    .min(1, 'Choose at least one unit kind.')
+    .refine((k) => new Set(k).size === k.length, 'A unit kind appears twice.'),
+  defaultSeverity: z.enum(SEVERITIES, { error: 'Choose a severity.' }),
+  trade: z.enum(TRADE_KEYS, { error: 'Choose the usual trade.' }),
+  measuredRule: measuredRuleSchema.nullable().optional(),
+  fixGuidance: text('fix guidance', 2000),
+  caution: optionalText('Caution', 1000),
+  needsCeilingAccess: z.boolean({ error: 'needsCeilingAccess: true or false.' }),
+};
+/** POST /catalogue: a job-specific defect type. */
+export const createCatalogueItemSchema = z.object(catalogueFields).strict();
+export type CreateCatalogueItemInput = z.input<typeof createCatalogueItemSchema>;
+/** PATCH /catalogue/:itemId (If-Match). `retired: false` brings a retired item back. The code never changes. */
+export const updateCatalogueItemSchema = z
+  .object({
+    group: catalogueFields.group.optional(),
+    title: catalogueFields.title.optional(),
+    description: catalogueFields.description.optional(),
+    unitKinds: catalogueFields.unitKinds.optional(),
+    defaultSeverity: catalogueFields.defaultSeverity.optional(),
+    trade: catalogueFields.trade.optional(),
+    measuredRule: catalogueFields.measuredRule,
+    fixGuidance: catalogueFields.fixGuidance.optional(),
+    caution: catalogueFields.caution,
+    needsCeilingAccess: catalogueFields.needsCeilingAccess.optional(),
+    retired: z.boolean().optional(),
+  })
+  .strict();
+export type UpdateCatalogueItemInput = z.input<typeof updateCatalogueItemSchema>;
+export const catalogueListQuerySchema = z
+  .object({
+    unitKind: z.enum(UNIT_KIND_KEYS, { error: 'Not a unit kind.' }).optional(),
+    group: z.enum(CATALOGUE_GROUP_KEYS, { error: 'Not a catalogue group.' }).optional(),
+    includeRetired: booleanQuery.optional(),
+    ...pageQuery,
+  })
+  .strict();
+
+export interface CatalogueItemDto {
+  id: string;
+  code: string;
+  group: CatalogueGroup;
+  title: string;
+  description: string;
+  unitKinds: UnitKindKey[];
+  defaultSeverity: Severity;
+  trade: TradeKey;
+  measuredRule: z.infer<typeof measuredRuleSchema> | null;
+  fixGuidance: string;
+  caution: string | null;
+  needsCeilingAccess: boolean;
+  /** True when copied from Trimout's built-in catalogue. */
+  builtin: boolean;
+  retiredAt: string | null;
+  version: number;
+}

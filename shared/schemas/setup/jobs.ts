@@ -1,0 +1,119 @@
+/**
+ * Jobs and their settings: code editions, days to fix per severity, recurring thresholds, limits.
+ */
+import { z } from 'zod';
+import { CODE_DOCUMENTS, UNIT_SYSTEMS, type CodeDocument, type JobSettingKey, type UnitSystem } from '../../catalogue/types';
+import { CODE_LIMIT_VARIANTS, DEFAULT_EDITIONS } from '../../calc/limits';
+import { CONCENTRATION_LIMITS } from '../../calc/refrigerant';
+import type { Role, Severity } from '../../words';
+import { timeZoneSchema } from './common';
+import { text, optionalText, dateOnly } from './fields';
+import { type StatedLimitDto, jobSettingsInputSchema } from './limits';
+
+/** Editions Trimout holds values for, per code document (a job can only choose one of these). */
+export const KNOWN_EDITIONS: Readonly<Record<CodeDocument, readonly string[]>> = (() => {
+  const out = Object.fromEntries(CODE_DOCUMENTS.map((d) => [d, new Set<string>([DEFAULT_EDITIONS[d]])])) as Record<CodeDocument, Set<string>>;
+  for (const variants of Object.values(CODE_LIMIT_VARIANTS)) for (const v of variants) for (const e of v.editions) out[v.document].add(e);
+  for (const l of CONCENTRATION_LIMITS) for (const e of l.editions) out[l.document].add(e);
+  return Object.fromEntries(CODE_DOCUMENTS.map((d) => [d, [...out[d]].sort()])) as Record<CodeDocument, string[]>;
+})();
+
+export const codeEditionsSchema = z
+  .object(
+    Object.fromEntries(
+      CODE_DOCUMENTS.map((d) => [
+        d,
+        z
+          .string()
+          .refine((e) => KNOWN_EDITIONS[d].includes(e), `${d}: choose one of ${KNOWN_EDITIONS[d].join(', ')}.`)
+          .optional(),
+      ]),
+    ) as Record<CodeDocument, z.ZodOptional<z.ZodString>>,
+  )
+  .strict();
+export type CodeEditions = Partial<Record<CodeDocument, string>>;
+
+const dueDays = (s: string) =>
+  z
+    .number({ error: `${s}: days to fix, a whole number.` })
+    .int(`${s}: days to fix, a whole number.`)
+    .min(0, `${s}: 0 days or more.`)
+    .max(365, `${s}: at most 365 days.`);
+
+export const severityDueDaysSchema = z
+  .object({ critical: dueDays('Critical'), major: dueDays('Major'), minor: dueDays('Minor') })
+  .strict()
+  .refine((d) => d.critical <= d.major && d.major <= d.minor, 'Due days must not shrink with severity: critical ≤ major ≤ minor.');
+export type SeverityDueDays = Record<Severity, number>;
+export const DEFAULT_SEVERITY_DUE_DAYS: SeverityDueDays = { critical: 2, major: 7, minor: 14 };
+
+/**
+ * A defect type is flagged "recurring" on a job when it is found on at least `minUnits` units
+ * and on at least `minShare` (0..1) of the checked units of the kinds it applies to (see
+ * docs/api-board.md). Default 3 units and 10 %. `minShare` may be left out (the default applies);
+ * `windowDays` was the earlier rule's window: still accepted from older clients, never used.
+ */
+export const recurringThresholdsSchema = z
+  .object({
+    minUnits: z.number().int('minUnits: a whole number.').min(2, 'minUnits: at least 2.').max(1000, 'minUnits: at most 1000.'),
+    minShare: z.number('minShare: a number from 0 to 1.').min(0, 'minShare: at least 0.').max(1, 'minShare: at most 1 (100 %).').optional(),
+    windowDays: z.number().int('windowDays: a whole number.').min(1, 'windowDays: at least 1.').max(365, 'windowDays: at most 365.').optional(),
+  })
+  .strict();
+export type RecurringThresholdsInput = z.infer<typeof recurringThresholdsSchema>;
+/** Stored and answered thresholds: `minShare` always filled in (the default when never set). */
+export type RecurringThresholds = RecurringThresholdsInput & { minShare: number };
+export const DEFAULT_RECURRING_THRESHOLDS: RecurringThresholds = { minUnits: 3, minShare: 0.1 };
+
+const jobFields = {
+  name: text('a job name', 160),
+  number: optionalText('Job number', 40),
+  address: optionalText('Address', 300),
+  startsOn: dateOnly.nullable().optional(),
+  endsOn: dateOnly.nullable().optional(),
+  timeZone: timeZoneSchema.optional(),
+  unitSystem: z.enum(UNIT_SYSTEMS, { error: 'Choose imperial or metric.' }).optional(),
+};
+
+const datesInOrder = (j: { startsOn?: string | null; endsOn?: string | null }) =>
+  !j.startsOn || !j.endsOn || j.startsOn <= j.endsOn;
+
+/** POST /api/jobs */
+export const createJobSchema = z
+  .object(jobFields)
+  .strict()
+  .refine(datesInOrder, { message: 'The end date is before the start date.', path: ['endsOn'] });
+export type CreateJobInput = z.input<typeof createJobSchema>;
+
+/** PATCH /api/jobs/:jobId (If-Match) */
+export const updateJobSchema = z
+  .object({
+    ...jobFields,
+    name: jobFields.name.optional(),
+    codeEditions: codeEditionsSchema.optional(),
+    severityDueDays: severityDueDaysSchema.optional(),
+    recurringThresholds: recurringThresholdsSchema.optional(),
+    settings: jobSettingsInputSchema.optional(),
+  })
+  .strict()
+  .refine(datesInOrder, { message: 'The end date is before the start date.', path: ['endsOn'] });
+export type UpdateJobInput = z.input<typeof updateJobSchema>;
+
+/** GET /api/jobs/:jobId, POST /api/jobs (201), PATCH (200). ETag: "v<version>". */
+export interface JobDetail {
+  id: string;
+  name: string;
+  number: string | null;
+  address: string | null;
+  role: Role;
+  startsOn: string | null;
+  endsOn: string | null;
+  timeZone: string;
+  unitSystem: UnitSystem;
+  /** Every document, with the job's choice or the default edition filled in. */
+  codeEditions: Record<CodeDocument, string>;
+  severityDueDays: SeverityDueDays;
+  recurringThresholds: RecurringThresholds;
+  settings: Partial<Record<JobSettingKey, StatedLimitDto>>;
+  version: number;
+}

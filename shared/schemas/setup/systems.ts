@@ -1,0 +1,68 @@
+/**
+ * Systems (refrigerant circuits) and their refrigerant checks.
+ */
+import { z } from 'zod';
+import type { A2lAreaResult, ConcentrationResult, MountPosition } from '../../calc/refrigerant';
+import { REFRIGERANTS, type Refrigerant } from '../../words';
+import { quantityText } from './common';
+import { text, optionalText, pageQuery } from './fields';
+
+export const CONCENTRATION_LIMIT_UNITS = ['lb/Mcf', 'g/m³', 'kg/m³'] as const;
+
+export const concentrationOverrideSchema = z
+  .object({
+    value: z.number({ error: 'Limit: a number.' }).positive('Limit: more than zero.').max(10_000, 'Limit: too large.'),
+    unit: z.enum(CONCENTRATION_LIMIT_UNITS, { error: 'Limit unit: lb/Mcf, g/m³ or kg/m³.' }),
+    source: text('the limit’s source (document, edition, table)', 300),
+  })
+  .strict();
+export type ConcentrationOverride = z.infer<typeof concentrationOverrideSchema>;
+
+const systemFields = {
+  name: text('a system name', 80),
+  outdoorModel: optionalText('Outdoor unit model', 120),
+  refrigerant: z.enum(REFRIGERANTS, { error: `Choose a refrigerant: ${REFRIGERANTS.join(', ')}.` }),
+  /** As typed: "38 lb", "12 lb 6 oz", "17.2 kg". */
+  factoryCharge: quantityText('mass', 'Factory charge').nullable().optional(),
+  fieldCharge: quantityText('mass', 'Field-added charge').nullable().optional(),
+  /** A job-entered concentration limit, for refrigerants without a stored one (R-454B). */
+  concentrationLimitOverride: concentrationOverrideSchema.nullable().optional(),
+};
+export const createSystemSchema = z.object(systemFields).strict();
+export type CreateSystemInput = z.input<typeof createSystemSchema>;
+export const updateSystemSchema = z
+  .object({ ...systemFields, name: systemFields.name.optional(), refrigerant: systemFields.refrigerant.optional() })
+  .strict();
+export type UpdateSystemInput = z.input<typeof updateSystemSchema>;
+export const systemListQuerySchema = z.object({ ...pageQuery }).strict();
+
+export interface SystemDto {
+  id: string;
+  name: string;
+  outdoorModel: string | null;
+  refrigerant: Refrigerant;
+  /** kg */
+  factoryCharge: number | null;
+  /** kg */
+  fieldCharge: number | null;
+  /** kg, factory + field (missing counts as 0) */
+  totalCharge: number;
+  concentrationLimitOverride: ConcentrationOverride | null;
+  unitCount: number;
+  version: number;
+}
+
+/** GET /systems/:systemId: the system with its refrigerant checks. */
+export interface SystemDetail extends SystemDto {
+  /** shared/calc checkRefrigerantConcentration over the spaces its units serve (and their links). */
+  concentration: ConcentrationResult;
+  /** A2L (R-32) only: IEC 60335-2-40 Annex GG minimum floor area per unit's space; empty otherwise. */
+  a2lFloorArea: Array<{
+    unitId: string;
+    tag: string;
+    spaceId: string | null;
+    spaceName: string | null;
+    mount: MountPosition;
+    result: A2lAreaResult;
+  }>;
+}

@@ -1,0 +1,135 @@
+/**
+ * Units, and their CSV import.
+ */
+import { z } from 'zod';
+import { UNIT_KIND_KEYS, type UnitKindKey } from '../../words';
+import { IMPORT_MAX_BYTES, quantityText } from './common';
+import { id, text, pageQuery, booleanQuery } from './fields';
+
+export const TAG_PATTERN = /^[A-Za-z0-9][A-Za-z0-9 ._/#-]*$/;
+const tagSchema = text('a tag', 40).regex(TAG_PATTERN, 'A tag uses letters, digits, spaces and . _ / # - (e.g. IU-L3-07).');
+
+const unitFields = {
+  tag: tagSchema,
+  kind: z.enum(UNIT_KIND_KEYS, { error: 'Choose a unit kind.' }),
+  modelId: id('model').nullable().optional(),
+  /** As typed: "3 tons", "36000 Btu/h", "10.5 kW". */
+  capacity: quantityText('capacity', 'Capacity').nullable().optional(),
+  levelId: id('level'),
+  spaceId: id('space').nullable().optional(),
+  systemId: id('system').nullable().optional(),
+};
+export const createUnitSchema = z.object(unitFields).strict();
+export type CreateUnitInput = z.input<typeof createUnitSchema>;
+/** A unit's pin on its level's plan: a fraction of the plan image's width / height, 0..1 (null clears it). */
+const unitPin = (axis: 'pinX' | 'pinY') =>
+  z.number({ error: `${axis}: a number from 0 to 1.` }).min(0, `${axis}: from 0 to 1.`).max(1, `${axis}: from 0 to 1.`);
+export const updateUnitSchema = z
+  .object({
+    ...unitFields,
+    tag: unitFields.tag.optional(),
+    kind: unitFields.kind.optional(),
+    levelId: unitFields.levelId.optional(),
+    pinX: unitPin('pinX').nullable().optional(),
+    pinY: unitPin('pinY').nullable().optional(),
+  })
+  .strict()
+  .refine((u) => (u.pinX === undefined) === (u.pinY === undefined) && (u.pinX === null) === (u.pinY === null), {
+    message: 'Send both pinX and pinY (numbers, or both null to remove the pin), or neither.',
+    path: ['pinX'],
+  });
+export type UpdateUnitInput = z.input<typeof updateUnitSchema>;
+
+export const unitListQuerySchema = z
+  .object({
+    levelId: id('level id').optional(),
+    spaceId: id('space id').optional(),
+    systemId: id('system id').optional(),
+    kind: z.enum(UNIT_KIND_KEYS, { error: 'Not a unit kind.' }).optional(),
+    /** Tag contains (case-insensitive). */
+    q: z.string().trim().max(40, 'q: at most 40 characters.').optional(),
+    ...pageQuery,
+  })
+  .strict();
+export type UnitListQuery = z.input<typeof unitListQuerySchema>;
+
+export interface UnitDto {
+  id: string;
+  tag: string;
+  kind: UnitKindKey;
+  modelId: string | null;
+  modelName: string | null;
+  /** W */
+  capacity: number | null;
+  levelId: string;
+  levelName: string;
+  spaceId: string | null;
+  spaceName: string | null;
+  systemId: string | null;
+  systemName: string | null;
+  /** Pin on the level's plan (fractions 0..1 of its width / height); both null when not placed. */
+  pinX: number | null;
+  pinY: number | null;
+  version: number;
+}
+
+/** Fields a CSV column can map to. Level, space, system and model are matched by name. */
+export const UNIT_IMPORT_FIELDS = ['tag', 'kind', 'model', 'capacity', 'level', 'space', 'system'] as const;
+export type UnitImportField = (typeof UNIT_IMPORT_FIELDS)[number];
+/** Columns every import needs (mapped or found by header name). */
+export const UNIT_IMPORT_REQUIRED: readonly UnitImportField[] = ['tag', 'kind', 'level'];
+
+/**
+ * POST /units/import as JSON. (Or send the file itself as text/csv; then dryRun comes from
+ * the query string `?dryRun=true` and headers are matched by name.) Mapping: CSV header →
+ * field; headers not mapped are matched by name ("Tag", "Unit kind", "Level" ...), others ignored.
+ */
+export const unitImportSchema = z
+  .object({
+    csv: z.string({ error: 'Send the CSV text as csv.' }).min(1, 'The CSV is empty.').max(IMPORT_MAX_BYTES, 'The CSV is larger than 2 MB.'),
+    mapping: z
+      .record(z.string().max(200), z.enum(UNIT_IMPORT_FIELDS, { error: `Map each column to one of ${UNIT_IMPORT_FIELDS.join(', ')}.` }))
+      .optional(),
+    dryRun: z.boolean().optional(),
+  })
+  .strict();
+export type UnitImportInput = z.input<typeof unitImportSchema>;
+export const unitImportQuerySchema = z.object({ dryRun: booleanQuery.optional() }).strict();
+
+export interface UnitImportRowError {
+  /** Line number in the file (the header is line 1). */
+  line: number;
+  field: UnitImportField | null;
+  reason: string;
+}
+
+export interface UnitImportPreviewRow {
+  line: number;
+  tag: string;
+  kind: UnitKindKey;
+  modelName: string | null;
+  /** W */
+  capacity: number | null;
+  levelName: string;
+  spaceName: string | null;
+  systemName: string | null;
+}
+
+/**
+ * Answer of POST /units/import: 200 for a dry run or a refused commit (committed false, with
+ * every bad row), 201 when committed. 400 only for a file that cannot be read at all
+ * (not UTF-8, not CSV, missing columns, too many rows).
+ */
+export interface UnitImportReport {
+  dryRun: boolean;
+  committed: boolean;
+  /** Column header → field, as applied. */
+  mapping: Record<string, UnitImportField>;
+  totalRows: number;
+  goodRows: number;
+  badRows: number;
+  errors: UnitImportRowError[];
+  /** Good rows (first 500) as they would be imported. */
+  preview: UnitImportPreviewRow[];
+  created: number;
+}
