@@ -1,12 +1,15 @@
-import { useMemo, useState } from 'react';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useEffect, useMemo, useRef } from 'react';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { LimitResolver } from '../../shared/calc/rules';
 import { CATALOGUE_GROUPS } from '../../shared/catalogue/types';
-import { createFindingSchema, type CreateFindingInput, type FindingDetail } from '../../shared/schemas/findings';
+import { createFindingSchema, type CreateFindingInput, type CreateFindingParsed, type FindingDetail } from '../../shared/schemas/findings';
 import type { CatalogueItemDto, JobDetail } from '../../shared/schemas/setup';
 import { SEVERITY_LABELS, TRADES, type Severity, type UnitKindKey } from '../../shared/words';
 import { ApiError } from '../api/client';
 import type { Write } from '../api/mutations';
+import { applyApiError } from '../auth/formErrors';
 import { useCatalogueQuery } from '../queries/catalogue';
 import { useJobCompaniesQuery } from '../queries/companies';
 import { createFindingWrite, useCreateFindingMutation } from '../queries/findings';
@@ -14,18 +17,12 @@ import { space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
+import { FormMeasured, FormPhotos, FormSelect, FormSeverity, FormText, withFormOnly } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
-import { Select } from '../ui/Select';
 import { ErrorState, LoadingState } from '../ui/States';
-import { TextField } from '../ui/TextField';
 import { ItemCaution } from '../walk/ItemCaution';
-import { MeasuredField } from '../walk/MeasuredField';
-import { CameraCapture } from './CameraCapture';
 import { addDays, formatDay, suggestCompany, todayIn } from './due';
-import { PhotoPicker } from './PhotoPicker';
 import type { PickedPhoto } from './PhotoPicker.types';
-import { PhotoStrip } from './PhotoStrip';
-import { SeverityPicker } from './SeverityPicker';
 
 /** At most this many photos per finding (the server's limit). */
 export const MAX_PHOTOS = 10;
@@ -72,6 +69,17 @@ export function FindingForm(props: FindingFormProps) {
   return <FindingFormBody {...props} items={item ? [item] : (catalogue.data ?? [])} companies={companies.data} />;
 }
 
+type FindingFormValues = CreateFindingInput & { photos: PickedPhoto[] };
+type FindingFormParsed = CreateFindingParsed & { photos: PickedPhoto[] };
+
+/** The request's fields shown on the form (server field errors land on these). */
+const FIELDS = ['catalogueItemId', 'severity', 'companyId', 'dueOn', 'measuredText', 'note'] as const;
+
+const resolver = withFormOnly<CreateFindingInput, unknown, CreateFindingParsed, { photos: PickedPhoto[] }>(zodResolver(createFindingSchema), {
+  // Photos are optional on a finding; the field itself refuses more than MAX_PHOTOS.
+  photos: () => undefined,
+});
+
 function FindingFormBody({
   job,
   target,
@@ -86,23 +94,44 @@ function FindingFormBody({
   companies,
   testID = 'finding-form',
 }: FindingFormProps & { items: readonly CatalogueItemDto[]; companies: NonNullable<ReturnType<typeof useJobCompaniesQuery>['data']> }) {
-  const [itemId, setItemId] = useState(fixedItem?.id ?? '');
-  const item = fixedItem ?? items.find((i) => i.id === itemId);
-  const [severity, setSeverity] = useState<Severity>(fixedItem?.defaultSeverity ?? 'major');
-  const suggested = suggestCompany(companies, item?.trade);
-  const [companyId, setCompanyId] = useState<string>(suggested?.id ?? '');
-  const [dueEdited, setDueEdited] = useState<string | null>(null);
-  const [note, setNote] = useState('');
-  const [measured, setMeasured] = useState(initialMeasured ?? '');
-  const [photos, setPhotos] = useState<PickedPhoto[]>([]);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [formError, setFormError] = useState<string | null>(null);
-  const [write, setWrite] = useState<Write | null>(null);
-  const create = useCreateFindingMutation(job.id);
-
   const today = todayIn(job.timeZone);
+  const policyDue = (s: Severity) => addDays(today, job.severityDueDays[s]);
+  const initialSeverity: Severity = fixedItem?.defaultSeverity ?? 'major';
+  const { control, handleSubmit, setError, setValue, watch, formState } = useForm<FindingFormValues, unknown, FindingFormParsed>({
+    resolver,
+    defaultValues: {
+      catalogueItemId: fixedItem?.id,
+      unitId: target.unitId ?? undefined,
+      spaceId: target.unitId ? undefined : (target.spaceId ?? undefined),
+      levelId: target.unitId || target.spaceId ? undefined : (target.levelId ?? undefined),
+      severity: initialSeverity,
+      companyId: suggestCompany(companies, fixedItem?.trade)?.id,
+      dueOn: policyDue(initialSeverity),
+      note: '',
+      measuredText: initialMeasured?.trim() ? initialMeasured : null,
+      walkId: walkId ?? undefined,
+      unitCheckId: unitCheckId ?? undefined,
+      photos: [],
+    },
+  });
+  const create = useCreateFindingMutation(job.id);
+  // One write per press; a retry after a failure re-sends the same write (same Idempotency-Key).
+  const write = useRef<Write | null>(null);
+  // Any change after a failed send makes a new write (the old key belongs to other content).
+  useEffect(() => {
+    const sub = watch(() => {
+      write.current = null;
+    });
+    return () => sub.unsubscribe();
+  }, [watch]);
+
+  const [itemId, severity, dueOn, photoCount] = [watch('catalogueItemId'), watch('severity') ?? 'major', watch('dueOn') ?? '', watch('photos').length];
+  const item = fixedItem ?? items.find((i) => i.id === itemId);
+  const suggested = suggestCompany(companies, item?.trade);
   const policyDays = job.severityDueDays[severity];
-  const dueOn = dueEdited ?? addDays(today, policyDays);
+  // The due date follows the job's policy for the severity until someone types another one.
+  const followsPolicy = dueOn === policyDue(severity);
+  const revalidate = { shouldValidate: formState.isSubmitted };
 
   const groupLabel = useMemo(() => Object.fromEntries(CATALOGUE_GROUPS.map((g) => [g.key, g.label])), []);
   const itemOptions = useMemo(
@@ -113,75 +142,44 @@ function FindingFormBody({
     [items, groupLabel],
   );
 
-  function chooseItem(id: string) {
-    setItemId(id);
+  function severityChosen(next: Severity) {
+    if (followsPolicy) setValue('dueOn', policyDue(next), revalidate);
+  }
+
+  function itemChosen(id: string) {
     const next = items.find((i) => i.id === id);
-    if (next) {
-      setSeverity(next.defaultSeverity);
-      const s = suggestCompany(companies, next.trade);
-      if (s) setCompanyId(s.id);
-    }
+    if (!next) return;
+    setValue('severity', next.defaultSeverity, revalidate);
+    severityChosen(next.defaultSeverity);
+    const s = suggestCompany(companies, next.trade);
+    if (s) setValue('companyId', s.id, revalidate);
+    if (!next.measuredRule) setValue('measuredText', null, revalidate);
   }
 
-  function addPhotos(more: PickedPhoto[]) {
-    setPhotos((now) => {
-      const room = MAX_PHOTOS - now.length;
-      if (more.length > room) setFormError(`At most ${MAX_PHOTOS} photos per finding.`);
-      return [...now, ...more.slice(0, Math.max(room, 0))];
-    });
-  }
-
-  function submit() {
-    setFormError(null);
-    const input: CreateFindingInput = {
-      catalogueItemId: item?.id ?? '',
-      unitId: target.unitId ?? undefined,
-      spaceId: target.unitId ? undefined : (target.spaceId ?? undefined),
-      levelId: target.unitId || target.spaceId ? undefined : (target.levelId ?? undefined),
-      severity,
-      companyId: companyId || undefined,
-      dueOn,
-      note: note.trim() || undefined,
-      measuredText: item?.measuredRule && measured.trim() ? measured.trim() : undefined,
-      walkId: walkId ?? undefined,
-      unitCheckId: unitCheckId ?? undefined,
-    };
-    const parsed = createFindingSchema.safeParse(input);
-    if (!parsed.success) {
-      const next: Record<string, string> = {};
-      for (const issue of parsed.error.issues) {
-        const key = String(issue.path[0] ?? 'form');
-        if (!next[key]) next[key] = issue.message;
-      }
-      setErrors(next);
-      setFormError('Check the fields marked below.');
-      return;
-    }
-    setErrors({});
-    // One write per press; a retry after a failure re-sends the same write (same Idempotency-Key).
-    const w = write ?? createFindingWrite(job.id, input, photos);
-    setWrite(w);
-    create.mutate(w, {
-      onSuccess: (finding) => {
-        setWrite(null);
-        onLogged(finding);
-      },
-      onError: (err) => {
-        if (err instanceof ApiError) {
-          setErrors(err.fields);
-          setFormError(err.message);
+  const submit = handleSubmit(
+    ({ photos, ...values }) => {
+      const input: CreateFindingInput = {
+        ...values,
+        note: values.note || undefined,
+        measuredText: item?.measuredRule ? (values.measuredText ?? undefined) : undefined,
+      };
+      const w = write.current ?? createFindingWrite(job.id, input, photos);
+      write.current = w;
+      create.mutate(w, {
+        onSuccess: (finding) => {
+          write.current = null;
+          onLogged(finding);
+        },
+        onError: (err) => {
+          applyApiError(err, setError, FIELDS, 'That did not save. Try again.');
           // A refusal (4xx) will not change on retry: the next press builds a fresh write.
-          if (err.status >= 400 && err.status < 500) setWrite(null);
-        } else setFormError('That did not save. Try again.');
-      },
-    });
-  }
-
-  // Any change after a failed send makes a new write (the old key belongs to other content).
-  const edit = <T,>(set: (v: T) => void) => (v: T) => {
-    setWrite(null);
-    set(v);
-  };
+          if (err instanceof ApiError && err.status >= 400 && err.status < 500) write.current = null;
+        },
+      });
+    },
+    () => setError('root', { message: 'Check the fields marked below.' }),
+  );
+  const formError = formState.errors.root?.message;
 
   return (
     <View style={styles.form} testID={testID}>
@@ -194,14 +192,14 @@ function FindingFormBody({
             {fixedItem.code} · {fixedItem.title}
           </AppText>
         ) : (
-          <Select
+          <FormSelect
+            control={control}
+            name="catalogueItemId"
             label="Defect type"
             testID={`${testID}-item`}
-            value={itemId}
             placeholder="Choose the defect type"
             options={itemOptions}
-            onChange={edit(chooseItem)}
-            error={errors.catalogueItemId}
+            onChosen={itemChosen}
             compact
           />
         )}
@@ -213,19 +211,17 @@ function FindingFormBody({
       </Card>
       {item?.caution ? <ItemCaution text={item.caution} initiallyOpen testID={`${testID}-caution`} /> : null}
 
-      <SeverityPicker value={severity} onChange={edit(setSeverity)} testID={`${testID}-severity`} />
-      {errors.severity ? <AppText style={styles.error}>{errors.severity}</AppText> : null}
+      <FormSeverity control={control} name="severity" testID={`${testID}-severity`} onChosen={severityChosen} />
 
-      <Select
+      <FormSelect
+        control={control}
+        name="companyId"
         label="Responsible company"
         testID={`${testID}-company`}
-        value={companyId}
         placeholder="Choose a company"
         options={[...companies]
           .sort((a, b) => a.name.localeCompare(b.name))
           .map((c) => ({ value: c.id, label: c.id === suggested?.id ? `${c.name} (suggested)` : c.name }))}
-        onChange={edit(setCompanyId)}
-        error={errors.companyId}
         hint={
           item
             ? suggested
@@ -236,35 +232,25 @@ function FindingFormBody({
         compact
       />
 
-      <TextField
+      <FormText
+        control={control}
+        name="dueOn"
         label="Due date"
         testID={`${testID}-due`}
-        value={dueOn}
-        onChangeText={edit((t: string) => setDueEdited(t))}
-        error={errors.dueOn}
         hint={`${formatDay(/^\d{4}-\d{2}-\d{2}$/.test(dueOn) ? dueOn : today)} · job policy: ${SEVERITY_LABELS[severity].toLowerCase()} findings are due in ${policyDays} day${policyDays === 1 ? '' : 's'}.`}
         inputMode="numeric"
         compact
       />
 
       {item?.measuredRule && resolve ? (
-        <MeasuredField
-          rule={item.measuredRule}
-          text={measured}
-          onChangeText={edit((t: string) => setMeasured(t))}
-          resolve={resolve}
-          system={job.unitSystem}
-          testID={`${testID}-measured`}
-        />
+        <FormMeasured control={control} name="measuredText" testID={`${testID}-measured`} rule={item.measuredRule} resolve={resolve} system={job.unitSystem} />
       ) : null}
-      {errors.measuredText ? <AppText style={styles.error}>{errors.measuredText}</AppText> : null}
 
-      <TextField
+      <FormText
+        control={control}
+        name="note"
         label="Note (optional)"
         testID={`${testID}-note`}
-        value={note}
-        onChangeText={edit(setNote)}
-        error={errors.note}
         placeholder="Where exactly, what you saw"
         multiline
         numberOfLines={3}
@@ -272,44 +258,14 @@ function FindingFormBody({
         compact
       />
 
-      <View style={styles.photos}>
-        <AppText variant="label">
-          Photos ({photos.length} of at most {MAX_PHOTOS})
-        </AppText>
-        <PhotoStrip
-          testID={`${testID}-photos`}
-          photos={photos.map((p, i) => ({ key: p.key, thumbUri: p.uri, fullUri: p.uri, label: `Photo ${i + 1}` }))}
-          onRemove={(key) => {
-            setWrite(null);
-            setPhotos((now) => now.filter((p) => p.key !== key));
-          }}
-        />
-        <PhotoPicker
-          label="Add photos from files"
-          testID={`${testID}-files`}
-          disabled={photos.length >= MAX_PHOTOS}
-          onPick={(p) => {
-            setWrite(null);
-            addPhotos(p);
-          }}
-          onError={setFormError}
-        />
-        <CameraCapture
-          testID={`${testID}-camera`}
-          disabled={photos.length >= MAX_PHOTOS}
-          onPhoto={(p) => {
-            setWrite(null);
-            addPhotos([p]);
-          }}
-        />
-      </View>
+      <FormPhotos control={control} name="photos" label="Photos" testID={testID} max={MAX_PHOTOS} tooMany={`At most ${MAX_PHOTOS} photos per finding.`} />
 
       {formError ? (
         <Notice tone="error" testID={`${testID}-error`}>
           {formError}
         </Notice>
       ) : null}
-      <Button label={photos.length ? `Log finding with ${photos.length} photo${photos.length === 1 ? '' : 's'}` : 'Log finding'} testID={`${testID}-submit`} busy={create.isPending} onPress={submit} />
+      <Button label={photoCount ? `Log finding with ${photoCount} photo${photoCount === 1 ? '' : 's'}` : 'Log finding'} testID={`${testID}-submit`} busy={create.isPending} onPress={submit} />
       {onCancel ? <Button label="Cancel" tone="quiet" testID={`${testID}-cancel`} onPress={onCancel} /> : null}
     </View>
   );
@@ -317,7 +273,5 @@ function FindingFormBody({
 
 const styles = StyleSheet.create({
   form: { gap: space.lg },
-  photos: { gap: space.sm },
   note: { minHeight: 88, paddingTop: space.sm, textAlignVertical: 'top' },
-  error: { color: '#A4341F' },
 });

@@ -1,11 +1,31 @@
 /**
- * Form fields bound to react-hook-form: a labelled text box, a choice list and a quantity
- * typed with its unit. Each shows its own error (schema or server) under the field.
+ * Form fields bound to react-hook-form: a labelled text box, a choice list, a short choice shown
+ * at once, a quantity typed with its unit, a severity, a measured value and a photo list. Each
+ * shows its own error (schema or server) under the field.
  */
 import { useState, type Ref } from 'react';
-import { Controller, type Control, type FieldValues, type Path } from 'react-hook-form';
+import {
+  Controller,
+  type Control,
+  type FieldError,
+  type FieldErrors,
+  type FieldValues,
+  type Path,
+  type Resolver,
+  type ResolverOptions,
+} from 'react-hook-form';
 import { StyleSheet, View, type TextInput, type TextInputProps } from 'react-native';
-import { space } from '../theme';
+import type { LimitResolver } from '../../shared/calc/rules';
+import type { MeasuredRule, UnitSystem } from '../../shared/catalogue/types';
+import type { Severity } from '../../shared/words';
+import { CameraCapture } from '../findings/CameraCapture';
+import { PhotoPicker } from '../findings/PhotoPicker';
+import type { PickedPhoto } from '../findings/PhotoPicker.types';
+import { PhotoStrip } from '../findings/PhotoStrip';
+import { SeverityPicker } from '../findings/SeverityPicker';
+import { colors, space } from '../theme';
+import { MeasuredField } from '../walk/MeasuredField';
+import { AppText } from './AppText';
 import { Segmented } from './Segmented';
 import { Select, type SelectOption } from './Select';
 import { TextField } from './TextField';
@@ -28,7 +48,7 @@ export function FormText<T extends FieldValues>({
   nullable,
   inputRef,
   ...input
-}: Base<T> & { nullable?: boolean; inputRef?: Ref<TextInput> } & Omit<TextInputProps, 'value' | 'onChangeText' | 'testID'>) {
+}: Base<T> & { nullable?: boolean; inputRef?: Ref<TextInput>; compact?: boolean } & Omit<TextInputProps, 'value' | 'onChangeText' | 'testID'>) {
   return (
     <Controller
       control={control}
@@ -59,7 +79,16 @@ export function FormSelect<T extends FieldValues>({
   options,
   placeholder,
   nullable,
-}: Base<T> & { options: readonly SelectOption[]; placeholder?: string; nullable?: boolean }) {
+  compact,
+  onChosen,
+}: Base<T> & {
+  options: readonly SelectOption[];
+  placeholder?: string;
+  nullable?: boolean;
+  compact?: boolean;
+  /** Called after the user picks a value (to fill in what follows from it). */
+  onChosen?: (value: string) => void;
+}) {
   return (
     <Controller
       control={control}
@@ -72,8 +101,12 @@ export function FormSelect<T extends FieldValues>({
           value={typeof field.value === 'string' ? field.value : ''}
           options={options}
           placeholder={placeholder}
-          onChange={(v) => field.onChange(v === '' ? (nullable ? null : undefined) : v)}
+          onChange={(v) => {
+            field.onChange(v === '' ? (nullable ? null : undefined) : v);
+            onChosen?.(v);
+          }}
           error={fieldState.error?.message}
+          compact={compact}
         />
       )}
     />
@@ -146,7 +179,192 @@ export function FormQuantity<T extends FieldValues>({
   );
 }
 
+/** A short choice shown all at once (Segmented), with its error under it. */
+export function FormSegmented<T extends FieldValues, V extends string>({
+  control,
+  name,
+  label,
+  testID,
+  options,
+  onChosen,
+}: Base<T> & { options: readonly { value: V; label: string }[]; onChosen?: (value: V) => void }) {
+  return (
+    <Controller
+      control={control}
+      name={name}
+      render={({ field, fieldState }) => (
+        <View>
+          <Segmented<V>
+            label={label}
+            testID={testID}
+            value={field.value as V}
+            options={options}
+            onChange={(v) => {
+              field.onChange(v);
+              onChosen?.(v);
+            }}
+          />
+          <FieldMessage error={fieldState.error} testID={`${testID}-error`} />
+        </View>
+      )}
+    />
+  );
+}
+
+/** The three severities as big choices (shape, word and colour). */
+export function FormSeverity<T extends FieldValues>({
+  control,
+  name,
+  testID,
+  onChosen,
+}: Omit<Base<T>, 'label'> & { onChosen?: (value: Severity) => void }) {
+  return (
+    <Controller
+      control={control}
+      name={name}
+      render={({ field, fieldState }) => (
+        <View>
+          <SeverityPicker
+            testID={testID}
+            value={field.value as Severity}
+            onChange={(s) => {
+              field.onChange(s);
+              onChosen?.(s);
+            }}
+          />
+          <FieldMessage error={fieldState.error} testID={`${testID}-error`} />
+        </View>
+      )}
+    />
+  );
+}
+
+/**
+ * A measured value typed the way the trade writes it, with its verdict against the unit's
+ * limits at once (MeasuredField). An empty value is held as null (nothing measured).
+ */
+export function FormMeasured<T extends FieldValues>({
+  control,
+  name,
+  testID,
+  rule,
+  resolve,
+  system,
+}: Omit<Base<T>, 'label'> & { rule: MeasuredRule; resolve: LimitResolver; system: UnitSystem }) {
+  return (
+    <Controller
+      control={control}
+      name={name}
+      render={({ field, fieldState }) => (
+        <View>
+          <MeasuredField
+            rule={rule}
+            text={typeof field.value === 'string' ? field.value : ''}
+            onChangeText={(t) => field.onChange(t.trim() === '' ? null : t)}
+            resolve={resolve}
+            system={system}
+            testID={testID}
+          />
+          <FieldMessage error={fieldState.error} testID={`${testID}-error`} />
+        </View>
+      )}
+    />
+  );
+}
+
+/**
+ * Photos the form sends as files beside its JSON: thumbnails (tap to enlarge, remove), a file
+ * picker and the camera. More than `max` are not taken (the `tooMany` message says so).
+ * Test ids: `<testID>-photos`, `-files`, `-camera`, `-photos-error`.
+ */
+export function FormPhotos<T extends FieldValues>({
+  control,
+  name,
+  label,
+  testID,
+  max,
+  tooMany,
+  photoLabel = 'Photo',
+}: Base<T> & { max: number; tooMany: string; photoLabel?: string }) {
+  const [problem, setProblem] = useState<string | null>(null);
+  return (
+    <Controller
+      control={control}
+      name={name}
+      render={({ field, fieldState }) => {
+        const photos: PickedPhoto[] = Array.isArray(field.value) ? (field.value as PickedPhoto[]) : [];
+        const add = (more: PickedPhoto[]) => {
+          const room = Math.max(max - photos.length, 0);
+          setProblem(more.length > room ? tooMany : null);
+          field.onChange([...photos, ...more.slice(0, room)]);
+        };
+        const message = fieldState.error?.message ?? problem;
+        return (
+          <View style={styles.photos}>
+            <AppText variant="label">
+              {label} ({photos.length} of at most {max})
+            </AppText>
+            <PhotoStrip
+              testID={`${testID}-photos`}
+              photos={photos.map((p, i) => ({ key: p.key, thumbUri: p.uri, fullUri: p.uri, label: `${photoLabel} ${i + 1}` }))}
+              onRemove={(key) => {
+                setProblem(null);
+                field.onChange(photos.filter((p) => p.key !== key));
+              }}
+            />
+            <PhotoPicker label="Add photos from files" testID={`${testID}-files`} disabled={photos.length >= max} onPick={add} onError={setProblem} />
+            <CameraCapture testID={`${testID}-camera`} disabled={photos.length >= max} onPhoto={(p) => add([p])} />
+            {message ? (
+              <AppText variant="small" role="alert" style={styles.error} testID={`${testID}-photos-error`}>
+                {message}
+              </AppText>
+            ) : null}
+          </View>
+        );
+      }}
+    />
+  );
+}
+
+function FieldMessage({ error, testID }: { error: FieldError | undefined; testID: string }) {
+  if (!error?.message) return null;
+  return (
+    <AppText variant="small" role="alert" style={styles.error} testID={testID}>
+      {error.message}
+    </AppText>
+  );
+}
+
+/**
+ * The resolver of a request schema for a form that also holds what the request does not carry
+ * in its JSON (photos go as files beside it). Those keys are set aside while the schema checks
+ * the rest (request schemas are strict), each checked by its own function, and handed back with
+ * the parsed values.
+ */
+export function withFormOnly<I extends FieldValues, C, O extends FieldValues, X extends FieldValues>(
+  resolver: Resolver<I, C, O>,
+  checks: { [K in keyof X]: (value: X[K]) => string | undefined },
+): Resolver<I & X, C, O & X> {
+  return async (values, context, options) => {
+    const rest: Record<string, unknown> = { ...values };
+    const extra: Record<string, unknown> = {};
+    const extraErrors: Record<string, FieldError> = {};
+    for (const key of Object.keys(checks) as (keyof X & string)[]) {
+      extra[key] = rest[key];
+      delete rest[key];
+      const message = checks[key](extra[key] as X[typeof key]);
+      if (message) extraErrors[key] = { type: 'custom', message };
+    }
+    const result = await resolver(rest as I, context, options as unknown as ResolverOptions<I>);
+    const errors = { ...result.errors, ...extraErrors } as FieldErrors<I & X>;
+    if (Object.keys(errors).length > 0) return { values: {}, errors };
+    return { values: { ...(result.values as O), ...extra } as O & X, errors: {} };
+  };
+}
+
 const styles = StyleSheet.create({
+  photos: { gap: space.sm },
+  error: { color: colors.danger },
   quantity: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md, alignItems: 'flex-start' },
   grow: { flexGrow: 1, flexBasis: 200 },
 });
