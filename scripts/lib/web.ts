@@ -1,14 +1,26 @@
 /**
  * Builds the web app (`expo export --platform web`) into dist/ when its sources changed since
- * the last build: a hash of the client's sources is kept in dist/.build-hash.
+ * the last build, then adds the manifest, icons and service worker (scripts/lib/pwa.ts): a hash
+ * of the client's sources and of those steps' inputs is kept in dist/.build-hash.
  */
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
+import { addOfflineShell, PWA_SOURCES } from './pwa';
 import { runInherit, say } from './run';
 
 const root = path.resolve(__dirname, '..', '..');
-const SOURCES = ['app', 'components', 'shared', 'assets', 'app.json', 'babel.config.js', 'metro.config.js', 'package-lock.json'];
+const SOURCES = [
+  'app',
+  'components',
+  'shared',
+  'assets',
+  'app.json',
+  'babel.config.js',
+  'metro.config.js',
+  'package-lock.json',
+  ...PWA_SOURCES,
+];
 
 function* files(target: string): Generator<string> {
   if (!fs.existsSync(target)) return;
@@ -48,6 +60,8 @@ export async function buildWebIfStale(distDir = path.join(root, 'dist')): Promis
     { cwd: root, env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1', NODE_ENV: 'production' } },
   );
   if (code !== 0) throw new Error(`expo export failed with exit code ${code}.`);
+  const shell = await addOfflineShell(distDir);
+  say(`service worker precaches ${shell.count} files (${Math.round(shell.size / 1024)} KB).`);
   fs.writeFileSync(stampFile, hash + '\n');
   say(`web app built in ${Math.round((Date.now() - started) / 1000)} s.`);
 }
