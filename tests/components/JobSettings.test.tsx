@@ -8,6 +8,7 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { fireEvent, render, screen, within } from '@testing-library/react-native';
 import type { ReactElement } from 'react';
+import { setCsrfToken } from '../../components/api/client';
 import { JobSettingsScreen } from '../../components/setup/JobSettingsScreen';
 import { percentToShare, shareToPercent } from '../../components/setup/jobSettingsForm';
 import type { JobDetail } from '../../shared/schemas/setup';
@@ -149,6 +150,8 @@ describe('JobSettingsScreen (GC manager)', () => {
   it('sends the typed percent as a fraction, with If-Match of the version loaded and only what changed', async () => {
     const saved = job({ recurringThresholds: { minUnits: 4, minShare: 0.125 }, severityDueDays: { critical: 1, major: 7, minor: 14 }, version: 4 });
     const api = fakeApi([job(), saved], [{ status: 200, body: saved }]);
+    // The token GET /api/session handed out (the session query keeps it): the one the server accepts.
+    setCsrfToken('csrf-token-of-this-session');
     renderScreen();
     await screen.findByTestId('settings-form');
     fireEvent.changeText(screen.getByTestId('settings-recurring-units'), '4');
@@ -159,7 +162,7 @@ describe('JobSettingsScreen (GC manager)', () => {
     const [patch] = api.patches();
     expect(patch!.path).toBe(`/api/jobs/${JOB}`);
     expect(patch!.headers['If-Match']).toBe('"v3"');
-    expect(patch!.headers['X-CSRF-Token']).toBeDefined();
+    expect(patch!.headers['X-CSRF-Token']).toBe('csrf-token-of-this-session');
     expect(patch!.body).toEqual({
       severityDueDays: { critical: 1, major: 7, minor: 14 },
       recurringThresholds: { minUnits: 4, minShare: 0.125 },

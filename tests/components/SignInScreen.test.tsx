@@ -1,5 +1,6 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
+import { getCsrfToken, setCsrfToken } from '../../components/api/client';
 import { SignInScreen } from '../../components/auth/SignInScreen';
 
 function renderScreen() {
@@ -16,7 +17,7 @@ function renderScreen() {
 
 /** jsdom has no fetch: each test installs its own fake answering like the API. */
 function fakeFetch(status: number, body: unknown) {
-  const fn = jest.fn(async () => ({ ok: status >= 200 && status < 300, status, json: async () => body }));
+  const fn = jest.fn(async () => ({ ok: status >= 200 && status < 300, status, json: async () => body, headers: { get: () => null } }));
   (globalThis as { fetch: unknown }).fetch = fn;
   return fn as unknown as jest.Mock<Promise<unknown>, [string, RequestInit | undefined]>;
 }
@@ -44,7 +45,10 @@ describe('SignInScreen', () => {
   });
 
   it('sends the CSRF token header and JSON body through the one write path', async () => {
-    const fetchSpy = fakeFetch(200, { user: null, jobs: [], csrfToken: 't' });
+    // Signed out, GET /api/session hands out the pre-sign-in token (the session query keeps it);
+    // the sign-in answer carries the signed-in one, which the next write must send.
+    setCsrfToken('pre-sign-in-token');
+    const fetchSpy = fakeFetch(200, { user: null, jobs: [], csrfToken: 'signed-in-token' });
     renderScreen();
     fireEvent.changeText(screen.getByTestId('sign-in-email'), 'someone@site.example');
     fireEvent.changeText(screen.getByTestId('sign-in-password'), 'a long password');
@@ -53,8 +57,9 @@ describe('SignInScreen', () => {
     const [url, init] = fetchSpy.mock.calls[0]!;
     expect(url).toBe('/api/session');
     expect(init?.method).toBe('POST');
-    expect((init?.headers as Record<string, string>)['X-CSRF-Token']).toBeDefined();
+    expect((init?.headers as Record<string, string>)['X-CSRF-Token']).toBe('pre-sign-in-token');
     expect((init?.headers as Record<string, string>)['Idempotency-Key']).toMatch(/^[0-9a-f-]{36}$/);
     expect(JSON.parse(String(init?.body))).toEqual({ email: 'someone@site.example', password: 'a long password' });
+    await waitFor(() => expect(getCsrfToken()).toBe('signed-in-token'));
   });
 });
