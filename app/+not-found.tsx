@@ -3,12 +3,13 @@ import { Screen } from '../components/ui/Screen';
 import { EmptyState } from '../components/ui/States';
 import { AppText } from '../components/ui/AppText';
 import { colors } from '../components/theme';
+import { links } from '../components/links';
 
 export default function NotFound() {
   return (
     <Screen testID="not-found-screen">
       <EmptyState title="Nothing here" body="This page does not exist." />
-      <Link href="/" style={{ alignSelf: 'center' }}>
+      <Link href={links.home()} style={{ alignSelf: 'center' }}>
         <AppText variant="label" style={{ color: colors.spruce }}>
           Go to your jobs
         </AppText>

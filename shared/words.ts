@@ -59,6 +59,11 @@ export const UNIT_KIND_KEYS = UNIT_KINDS.map((k) => k.key) as unknown as readonl
   UnitKindKey,
   ...UnitKindKey[],
 ];
+export const UNIT_KIND_LABELS = Object.fromEntries(UNIT_KINDS.map((k) => [k.key, k.label])) as Record<UnitKindKey, string>;
+/** A unit kind in words; a key this build does not know (sent by a newer server) shows as it is. */
+export function unitKindLabel(key: string): string {
+  return (UNIT_KIND_LABELS as Record<string, string | undefined>)[key] ?? key;
+}
 
 /** Trades a company can cover on a job. */
 export const TRADES = [
@@ -74,6 +79,11 @@ export const TRADES = [
 ] as const;
 export type TradeKey = (typeof TRADES)[number]['key'];
 export const TRADE_KEYS = TRADES.map((t) => t.key) as unknown as readonly [TradeKey, ...TradeKey[]];
+export const TRADE_LABELS = Object.fromEntries(TRADES.map((t) => [t.key, t.label])) as Record<TradeKey, string>;
+/** A trade in words; an unknown key shows as it is. */
+export function tradeLabel(key: string): string {
+  return (TRADE_LABELS as Record<string, string | undefined>)[key] ?? key;
+}
 
 export const REFRIGERANTS = ['R-410A', 'R-32', 'R-454B'] as const;
 export type Refrigerant = (typeof REFRIGERANTS)[number];

@@ -1,14 +1,15 @@
 /**
- * Addresses of the CSV exports for the screens. findings.csv takes the findings list's own
- * filters (the list's state, so "Export" gives the rows on screen, every page of them).
+ * Addresses of the CSV exports. They are API paths (same origin, the session cookie goes along),
+ * so they are built here beside jobPath, not in components/links.ts with the in-app routes. Each
+ * takes its screen's own filters, so "Export" gives the rows on screen, every page of them.
  */
-import { jobPath, queryString } from '../api/lists';
 import type { FindingFilters } from '../queries/findings';
+import type { UnitFilters } from '../queries/units';
+import { jobPath, queryString } from './lists';
 
-export function findingsCsvHref(jobId: string, filters: FindingFilters): string {
-  return `${jobPath(jobId, 'findings.csv')}${queryString({ ...filters })}`;
-}
-
-export function scorecardsCsvHref(jobId: string): string {
-  return jobPath(jobId, 'scorecards.csv');
-}
+export const exportUrls = {
+  findingsCsv: (jobId: string, filters: FindingFilters): string => `${jobPath(jobId, 'findings.csv')}${queryString({ ...filters })}`,
+  scorecardsCsv: (jobId: string): string => jobPath(jobId, 'scorecards.csv'),
+  /** The unit register, with the register screen's filters. */
+  unitsCsv: (jobId: string, filters: UnitFilters = {}): string => `${jobPath(jobId, 'units.csv')}${queryString({ ...filters })}`,
+} as const;

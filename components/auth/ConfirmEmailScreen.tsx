@@ -6,6 +6,7 @@ import { Button } from '../ui/Button';
 import { Notice } from '../ui/Notice';
 import { LoadingState } from '../ui/States';
 import { AuthFrame, AuthLink } from './AuthFrame';
+import { links } from '../links';
 
 /** /confirm/<token>: confirms the address once, then the person is signed in on their job list. */
 export function ConfirmEmailScreen({ token }: { token: string }) {
@@ -16,7 +17,7 @@ export function ConfirmEmailScreen({ token }: { token: string }) {
   useEffect(() => {
     if (started.current || !token) return;
     started.current = true;
-    confirm.mutate(token, { onSuccess: () => router.replace('/') });
+    confirm.mutate(token, { onSuccess: () => router.replace(links.home()) });
   }, [token, confirm, router]);
 
   if (confirm.isError) {
@@ -25,7 +26,7 @@ export function ConfirmEmailScreen({ token }: { token: string }) {
       <AuthFrame
         testID="confirm-screen"
         title="We could not confirm your e-mail"
-        footer={<AuthLink href="/sign-in" label="Go to sign in" testID="confirm-to-sign-in" />}
+        footer={<AuthLink href={links.signIn()} label="Go to sign in" testID="confirm-to-sign-in" />}
       >
         <Notice tone="error" testID="confirm-error">
           {confirm.error.message}
@@ -36,7 +37,7 @@ export function ConfirmEmailScreen({ token }: { token: string }) {
             password?&quot; on the sign-in page: both send a new link.
           </Notice>
         ) : (
-          <Button testID="confirm-retry" label="Try again" tone="secondary" onPress={() => confirm.mutate(token, { onSuccess: () => router.replace('/') })} />
+          <Button testID="confirm-retry" label="Try again" tone="secondary" onPress={() => confirm.mutate(token, { onSuccess: () => router.replace(links.home()) })} />
         )}
       </AuthFrame>
     );

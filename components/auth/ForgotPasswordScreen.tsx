@@ -7,6 +7,7 @@ import { Notice } from '../ui/Notice';
 import { FormText } from '../ui/FormFields';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
+import { links } from '../links';
 
 /** /forgot-password: ask for a reset link. The answer is the same whether the address has an account. */
 export function ForgotPasswordScreen() {
@@ -22,7 +23,7 @@ export function ForgotPasswordScreen() {
       applyApiError(err, setError, ['email'], 'That did not work. Try again.');
     }
   });
-  const footer = <AuthLink href="/sign-in" label="Back to sign in" testID="forgot-to-sign-in" />;
+  const footer = <AuthLink href={links.signIn()} label="Back to sign in" testID="forgot-to-sign-in" />;
   if (requestReset.isSuccess) {
     return (
       <AuthFrame testID="forgot-screen" title="Check your e-mail" footer={footer}>

@@ -17,11 +17,12 @@ import { FormText } from '../ui/FormFields';
 import { TextField } from '../ui/TextField';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
+import { links } from '../links';
 
 /** /invite/<token>: see the job and role, choose a password (or sign in), and land on the job. */
 export function InvitationScreen({ token }: { token: string }) {
   const preview = useInvitationPreviewQuery(token);
-  const footer = <AuthLink href="/sign-in" label="Go to sign in" testID="invite-to-sign-in" />;
+  const footer = <AuthLink href={links.signIn()} label="Go to sign in" testID="invite-to-sign-in" />;
 
   if (preview.isPending) {
     return (
@@ -74,7 +75,7 @@ function InvitationSummary({ invite }: { invite: InvitationPreview }) {
 
 function useLandOnJob() {
   const router = useRouter();
-  return (jobId: string) => router.replace({ pathname: '/jobs/[jobId]', params: { jobId } });
+  return (jobId: string) => router.replace(links.job(jobId));
 }
 
 function NewAccountForm({ token, invite }: { token: string; invite: InvitationPreview }) {
@@ -176,7 +177,7 @@ function ExistingAccountForm({ token, invite }: { token: string; invite: Invitat
         onSubmitEditing={onSubmit}
       />
       <Button testID="invite-submit" label="Sign in and join" onPress={onSubmit} busy={accept.isPending} />
-      <AuthLink href="/forgot-password" label="Forgot your password?" testID="invite-forgot" />
+      <AuthLink href={links.forgotPassword()} label="Forgot your password?" testID="invite-forgot" />
     </>
   );
 }

@@ -11,6 +11,7 @@ import { LoadingState } from '../ui/States';
 import { FormText } from '../ui/FormFields';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
+import { links } from '../links';
 
 /** /reset/<token>: choose a new password; every other session ends and this one is signed in. */
 export function ResetPasswordScreen({ token }: { token: string }) {
@@ -24,12 +25,12 @@ export function ResetPasswordScreen({ token }: { token: string }) {
   const onSubmit = handleSubmit(async (values) => {
     try {
       await reset.mutateAsync(values);
-      router.replace('/');
+      router.replace(links.home());
     } catch (err) {
       applyApiError(err, setError, ['password'], 'That did not work. Try again.');
     }
   });
-  const footer = <AuthLink href="/sign-in" label="Back to sign in" testID="reset-to-sign-in" />;
+  const footer = <AuthLink href={links.signIn()} label="Back to sign in" testID="reset-to-sign-in" />;
 
   if (preview.isPending) {
     return (
@@ -46,7 +47,7 @@ export function ResetPasswordScreen({ token }: { token: string }) {
           {preview.error.message}
         </Notice>
         {gone ? (
-          <AuthLink href="/forgot-password" label="Ask for a new link" testID="reset-new-link" />
+          <AuthLink href={links.forgotPassword()} label="Ask for a new link" testID="reset-new-link" />
         ) : (
           <Button label="Try again" tone="secondary" onPress={() => preview.refetch()} testID="reset-retry" />
         )}

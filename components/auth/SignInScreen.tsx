@@ -13,6 +13,7 @@ import { Card } from '../ui/Card';
 import { Screen } from '../ui/Screen';
 import { FormText } from '../ui/FormFields';
 import { Wordmark } from '../ui/Wordmark';
+import { links } from '../links';
 
 export function SignInScreen() {
   const signIn = useSignInMutation();
@@ -77,13 +78,13 @@ export function SignInScreen() {
           onSubmitEditing={onSubmit}
         />
         <Button testID="sign-in-submit" label="Sign in" onPress={onSubmit} busy={signIn.isPending} />
-        <Link href="/forgot-password" testID="sign-in-forgot" style={styles.link}>
+        <Link href={links.forgotPassword()} testID="sign-in-forgot" style={styles.link}>
           Forgot your password?
         </Link>
       </Card>
       <View style={styles.signUp}>
         <AppText muted>New to Trimout?</AppText>
-        <Link href="/sign-up" testID="sign-in-sign-up" style={styles.link}>
+        <Link href={links.signUp()} testID="sign-in-sign-up" style={styles.link}>
           Create an account
         </Link>
       </View>

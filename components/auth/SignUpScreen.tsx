@@ -10,6 +10,7 @@ import { Notice } from '../ui/Notice';
 import { FormText } from '../ui/FormFields';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
+import { links } from '../links';
 
 /** A GC new to Trimout: their company and first account; the address is confirmed by mail. */
 export function SignUpScreen() {
@@ -28,7 +29,7 @@ export function SignUpScreen() {
       applyApiError(err, setError, ['companyName', 'name', 'email', 'password'], 'Sign-up failed. Try again.');
     }
   });
-  const footer = <AuthLink href="/sign-in" label="Already have an account? Sign in" testID="sign-up-to-sign-in" />;
+  const footer = <AuthLink href={links.signIn()} label="Already have an account? Sign in" testID="sign-up-to-sign-in" />;
 
   if (signUp.isSuccess) {
     return (

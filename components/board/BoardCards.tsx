@@ -4,7 +4,8 @@ import type { BoardCounts, BoardLevelRow, BoardResponse } from '../../shared/sch
 import { colors, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
-import { COUNT_LABELS, levelHref, type BoardCountKey } from './links';
+import { links } from '../links';
+import { COUNT_LABELS, type BoardCountKey } from './counts';
 import { CeilingBadge, CountLink, CoverageBar } from './parts';
 
 const TILES: BoardCountKey[] = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'overdue'];
@@ -29,7 +30,7 @@ function LevelCard({ jobId, row }: { jobId: string; row: BoardCounts | BoardLeve
     <Card testID={`board-card-${id}`} style={level ? null : styles.totals}>
       <View style={styles.top}>
         {level ? (
-          <Link href={levelHref(jobId, level.levelId)} testID={`board-level-${level.levelId}`}>
+          <Link href={links.level(jobId, level.levelId)} testID={`board-level-${level.levelId}`}>
             <AppText variant="title" style={styles.levelName}>
               {level.name} →
             </AppText>

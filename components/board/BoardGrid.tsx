@@ -4,7 +4,8 @@ import type { BoardCounts, BoardLevelRow, BoardResponse } from '../../shared/sch
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { SeverityShape } from '../walk/SeverityMark';
-import { levelHref, type BoardCountKey } from './links';
+import { links } from '../links';
+import type { BoardCountKey } from './counts';
 import { CeilingBadge, CountLink, CoverageBar } from './parts';
 
 interface Col {
@@ -71,7 +72,7 @@ function Row({ jobId, row, zebra, totals }: { jobId: string; row: BoardCounts | 
         let content: React.ReactNode = null;
         if (c.key === 'level') {
           content = level ? (
-            <Link href={levelHref(jobId, level.levelId)} testID={`board-level-${level.levelId}`}>
+            <Link href={links.level(jobId, level.levelId)} testID={`board-level-${level.levelId}`}>
               <AppText variant="heading" style={styles.levelName}>
                 {level.name}
               </AppText>
@@ -85,7 +86,7 @@ function Row({ jobId, row, zebra, totals }: { jobId: string; row: BoardCounts | 
           content = <CoverageBar checked={row.unitsChecked} total={row.unitsTotal} testID={`board-coverage-${id}`} />;
         } else if (c.key === 'ceilings') {
           content = level ? (
-            <Link href={levelHref(jobId, level.levelId)} testID={`board-ceiling-${id}`}>
+            <Link href={links.level(jobId, level.levelId)} testID={`board-ceiling-${id}`}>
               <CeilingBadge ready={level.ceilingReady} blockers={level.ceilingBlockers} short />
             </Link>
           ) : null;

@@ -3,13 +3,13 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import type { Role } from '../../shared/words';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
-import { boardHref } from './links';
+import { links } from '../links';
 
 /** The way into the levels board from the job's overview: the GC manager's first thing, a plainer link for others. */
 export function BoardLink({ jobId, role }: { jobId: string; role: Role }) {
   const gc = role === 'gc_manager';
   return (
-    <Link href={boardHref(jobId)} asChild>
+    <Link href={links.board(jobId)} asChild>
       <Pressable style={StyleSheet.flatten([styles.box, gc ? styles.gc : styles.plain])} testID="job-board" accessibilityRole="link">
         <View style={styles.text}>
           <AppText variant="title" style={{ color: gc ? colors.paper : colors.spruce }}>

@@ -1,4 +1,3 @@
-import type { Href } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '../api/client';
 import { formatDay } from '../findings/due';
@@ -13,7 +12,7 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
 import { BoardCards } from './BoardCards';
 import { BoardGrid } from './BoardGrid';
-import { jobBase } from './links';
+import { links } from '../links';
 import { BackLink, BoardTabs } from './parts';
 import { RecurringList } from './RecurringList';
 import { TrendChart } from './TrendChart';
@@ -32,7 +31,7 @@ export function BoardScreen({ jobId }: { jobId: string }) {
 
   return (
     <Screen testID="board-screen" maxWidth={wide ? 1200 : 720}>
-      <BackLink href={jobBase(jobId) as Href} label={job.data?.name ?? 'The job'} testID="board-back" />
+      <BackLink href={links.job(jobId)} label={job.data?.name ?? 'The job'} testID="board-back" />
       <View style={styles.head}>
         <AppText variant="display" role="heading">
           Levels board

@@ -1,4 +1,4 @@
-import { Link, type Href } from 'expo-router';
+import { Link } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '../api/client';
 import { useBoardQuery, useReadinessQuery, useTrendQuery } from '../queries/board';
@@ -10,7 +10,8 @@ import { Card } from '../ui/Card';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
-import { boardHref, COUNT_LABELS, findingsHref, jobBase, levelHref, type BoardCountKey } from './links';
+import { links } from '../links';
+import { COUNT_LABELS, type BoardCountKey } from './counts';
 import { BackLink, CountLink, CoverageBar } from './parts';
 import { LevelReadinessCard, UnitsNotReady } from './Readiness';
 import { TrendChart } from './TrendChart';
@@ -34,7 +35,7 @@ export function LevelDetailScreen({ jobId, levelId }: { jobId: string; levelId: 
 
   return (
     <Screen testID="level-screen" maxWidth={wide ? 1100 : 720}>
-      <BackLink href={boardHref(jobId)} label="Levels board" testID="level-back" />
+      <BackLink href={links.board(jobId)} label="Levels board" testID="level-back" />
       {board.isPending ? (
         <LoadingState label="Loading the level…" />
       ) : board.isError ? (
@@ -57,14 +58,14 @@ export function LevelDetailScreen({ jobId, levelId }: { jobId: string; levelId: 
           </View>
           <View style={styles.actions}>
             {role && role !== 'subcontractor' ? (
-              <Link href={levelHref(jobId, levelId, '/walk')} asChild>
+              <Link href={links.levelWalk(jobId, levelId)} asChild>
                 <Button label="Walk this level" testID="level-walk" style={styles.grow} />
               </Link>
             ) : null}
-            <Link href={levelHref(jobId, levelId, '/plan')} asChild>
+            <Link href={links.plan(jobId, levelId)} asChild>
               <Button label="Plan" tone="secondary" testID="level-plan" style={styles.grow} />
             </Link>
-            <Link href={findingsHref(jobId, { levelId })} asChild>
+            <Link href={links.findings(jobId, { levelId })} asChild>
               <Button label="Findings on this level" tone="secondary" testID="level-findings" style={styles.grow} />
             </Link>
           </View>
@@ -108,7 +109,7 @@ export function LevelDetailScreen({ jobId, levelId }: { jobId: string; levelId: 
               <TrendChart points={trend.data.points} title={`Open findings on ${row.name} over time`} />
             )}
           </Card>
-          <Link href={`${jobBase(jobId)}/readiness` as Href} testID="level-readiness-link">
+          <Link href={links.readiness(jobId)} testID="level-readiness-link">
             <AppText variant="label" style={styles.more}>
               Systems ready for startup →
             </AppText>

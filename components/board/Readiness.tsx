@@ -1,15 +1,14 @@
-import { Link, type Href } from 'expo-router';
+import { Link } from 'expo-router';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { LevelReadiness, ReadinessBlocker, SystemReadiness, UnitReadiness } from '../../shared/schemas/board';
 import { FINDING_STATUS_LABELS } from '../../shared/words';
-import { findingHref } from '../findings/FindingCard';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
 import { SeverityMark } from '../walk/SeverityMark';
-import { jobBase, levelHref } from './links';
+import { links } from '../links';
 import { CeilingBadge, StartupBadge } from './parts';
 
 const SHOWN = 6;
@@ -18,7 +17,7 @@ const SHOWN = 6;
 export function BlockerRow({ jobId, blocker, testID }: { jobId: string; blocker: ReadinessBlocker; testID?: string }) {
   const b = blocker;
   return (
-    <Link href={findingHref(jobId, b.findingId)} asChild>
+    <Link href={links.finding(jobId, b.findingId)} asChild>
       <Pressable style={styles.blocker} testID={testID ?? `blocker-${b.number}`} accessibilityRole="link" accessibilityLabel={`Finding #${b.number}: ${b.title}`}>
         <SeverityMark severity={b.severity} />
         <View style={styles.blockerText}>
@@ -93,7 +92,7 @@ export function SystemReadinessCard({ jobId, system }: { jobId: string; system: 
   return (
     <Card testID={`system-readiness-${s.systemId}`}>
       <View style={styles.top}>
-        <Link href={`${jobBase(jobId)}/readiness?systemId=${encodeURIComponent(s.systemId)}` as Href} testID={`system-link-${s.systemId}`}>
+        <Link href={links.readiness(jobId, s.systemId)} testID={`system-link-${s.systemId}`}>
           <AppText variant="title" style={styles.link}>
             {s.name}
           </AppText>
@@ -122,7 +121,7 @@ export function LevelReadinessCard({ jobId, level, linkName = true, title }: { j
     <Card testID={`level-readiness-${l.levelId}`}>
       <View style={styles.top}>
         {linkName ? (
-          <Link href={levelHref(jobId, l.levelId)} testID={`level-link-${l.levelId}`}>
+          <Link href={links.level(jobId, l.levelId)} testID={`level-link-${l.levelId}`}>
             {name}
           </Link>
         ) : (

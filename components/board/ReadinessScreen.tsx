@@ -1,4 +1,3 @@
-import type { Href } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '../api/client';
 import { useReadinessQuery } from '../queries/board';
@@ -9,7 +8,7 @@ import { Notice } from '../ui/Notice';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
-import { jobBase } from './links';
+import { links } from '../links';
 import { BackLink, BoardTabs } from './parts';
 import { LevelReadinessCard, LooseUnitsCard, SystemReadinessCard } from './Readiness';
 
@@ -29,9 +28,9 @@ export function ReadinessScreen({ jobId, systemId }: { jobId: string; systemId?:
   return (
     <Screen testID="readiness-screen" maxWidth={wide ? 1200 : 720}>
       {systemId ? (
-        <BackLink href={`${jobBase(jobId)}/readiness` as Href} label="All systems and levels" testID="readiness-back" />
+        <BackLink href={links.readiness(jobId)} label="All systems and levels" testID="readiness-back" />
       ) : (
-        <BackLink href={jobBase(jobId) as Href} label={job.data?.name ?? 'The job'} testID="readiness-back" />
+        <BackLink href={links.job(jobId)} label={job.data?.name ?? 'The job'} testID="readiness-back" />
       )}
       <View style={styles.head}>
         <AppText variant="display" role="heading">

@@ -5,7 +5,8 @@ import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
 import { Table, type Column } from '../ui/Table';
-import { findingsHref, percent } from './links';
+import { links } from '../links';
+import { percent } from './counts';
 
 /**
  * Defect types found on many units of the job (a crew habit to correct before the next floor):
@@ -37,7 +38,7 @@ export function RecurringList({ jobId, data, wide }: { jobId: string; data: Recu
               <AppText variant="small" muted>
                 {r.code}
               </AppText>
-              <Link href={findingsHref(jobId, { catalogueItemId: r.catalogueItemId })} testID={`recurring-link-${r.code}`}>
+              <Link href={links.findings(jobId, { catalogueItemId: r.catalogueItemId })} testID={`recurring-link-${r.code}`}>
                 <AppText variant="heading" style={styles.link}>
                   {r.title}
                 </AppText>
@@ -87,7 +88,7 @@ function columns(jobId: string): Column<RecurringDefect>[] {
       title: 'Defect type',
       flex: 2.4,
       render: (r) => (
-        <Link href={findingsHref(jobId, { catalogueItemId: r.catalogueItemId })} testID={`recurring-link-${r.code}`}>
+        <Link href={links.findings(jobId, { catalogueItemId: r.catalogueItemId })} testID={`recurring-link-${r.code}`}>
           <AppText variant="label" style={styles.link}>
             <AppText variant="small" muted>
               {r.code}

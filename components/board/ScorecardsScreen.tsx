@@ -5,7 +5,7 @@ import type { CompanyScorecard } from '../../shared/schemas/board';
 import { TRADES } from '../../shared/words';
 import { ApiError } from '../api/client';
 import { ExportLink } from '../exports/ExportLink';
-import { scorecardsCsvHref } from '../exports/hrefs';
+import { exportUrls } from '../api/exports';
 import { useScorecardsQuery } from '../queries/board';
 import { useJobQuery } from '../queries/jobs';
 import { colors, radius, space } from '../theme';
@@ -15,7 +15,8 @@ import { Notice } from '../ui/Notice';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
-import { findingsHref, jobBase, percent } from './links';
+import { links } from '../links';
+import { percent } from './counts';
 import { BackLink, BoardTabs, maySeeScorecards } from './parts';
 import { DEFAULT_SCORECARD_SORT, nextSort, sortScorecards, type ScorecardKey, type ScorecardSort } from './scorecardSort';
 
@@ -79,7 +80,7 @@ export function ScorecardsScreen({ jobId }: { jobId: string }) {
 
   return (
     <Screen testID="scorecards-screen" maxWidth={wide ? 1200 : 720}>
-      <BackLink href={jobBase(jobId) as Href} label={job.data?.name ?? 'The job'} testID="scorecards-back" />
+      <BackLink href={links.job(jobId)} label={job.data?.name ?? 'The job'} testID="scorecards-back" />
       <View style={styles.head}>
         <AppText variant="display" role="heading">
           Company scorecards
@@ -108,7 +109,7 @@ export function ScorecardsScreen({ jobId }: { jobId: string }) {
         <ScorecardCards jobId={jobId} rows={sortScorecards(cards.data.companies, sort)} />
       )}
       {allowed && cards.data && cards.data.companies.length > 0 ? (
-        <ExportLink href={scorecardsCsvHref(jobId)} label="Export scorecards as CSV" testID="scorecards-export" />
+        <ExportLink href={exportUrls.scorecardsCsv(jobId)} label="Export scorecards as CSV" testID="scorecards-export" />
       ) : null}
     </Screen>
   );
@@ -168,7 +169,7 @@ export function ScorecardsTable({
 
 /** Open and overdue open the company's findings. */
 function CompanyCount({ jobId, row, which }: { jobId: string; row: CompanyScorecard; which: 'open' | 'overdue' }) {
-  const href = findingsHref(jobId, which === 'open' ? { companyId: row.companyId, status: 'open' } : { companyId: row.companyId, overdue: true });
+  const href = links.findings(jobId, which === 'open' ? { companyId: row.companyId, status: 'open' } : { companyId: row.companyId, overdue: true });
   return (
     <LinkText href={href} label={`${row[which]}`} a11y={`${which === 'open' ? 'Open' : 'Overdue'} findings of ${row.name}: ${row[which]}`} />
   );

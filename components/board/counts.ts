@@ -1,20 +1,12 @@
-import type { Href } from 'expo-router';
+/**
+ * The board's counts: their names, the findings list filters behind each, and coverage. The
+ * addresses themselves come from components/links.ts.
+ */
 import type { BoardCounts } from '../../shared/schemas/board';
-import type { FindingStatus, Severity } from '../../shared/words';
+import type { FindingLinkFilters } from '../links';
 
 /** The board's count columns that open the findings list (coverage is a fraction, not a list). */
 export type BoardCountKey = 'open' | 'openCritical' | 'openMajor' | 'fixSubmitted' | 'closed' | 'overdue';
-
-/** The findings list's address filters (read by app/(app)/jobs/[jobId]/findings/index.tsx). */
-export interface FindingLinkFilters {
-  levelId?: string;
-  unitId?: string;
-  companyId?: string;
-  catalogueItemId?: string;
-  status?: FindingStatus | string;
-  severity?: Severity | string;
-  overdue?: boolean;
-}
 
 /**
  * Which findings stand behind each board count, as the findings list filters them. The same
@@ -30,30 +22,9 @@ export const BOARD_CELL_FILTERS: Record<BoardCountKey, FindingLinkFilters> = {
   overdue: { overdue: true },
 };
 
-export function jobBase(jobId: string): string {
-  return `/jobs/${encodeURIComponent(jobId)}`;
-}
-
-/** The findings list, already filtered. Keys in a fixed order so a link reads the same each time. */
-export function findingsHref(jobId: string, filters: FindingLinkFilters): Href {
-  const order: (keyof FindingLinkFilters)[] = ['levelId', 'unitId', 'companyId', 'catalogueItemId', 'status', 'severity', 'overdue'];
-  const parts = order
-    .filter((k) => filters[k] !== undefined && filters[k] !== '' && filters[k] !== false)
-    .map((k) => `${k}=${encodeURIComponent(String(filters[k]))}`);
-  return `${jobBase(jobId)}/findings${parts.length ? `?${parts.join('&')}` : ''}` as Href;
-}
-
-/** The link behind one cell of the board: a level's row (levelId) or the totals (none). */
-export function boardCellHref(jobId: string, key: BoardCountKey, levelId?: string): Href {
-  return findingsHref(jobId, { levelId, ...BOARD_CELL_FILTERS[key] });
-}
-
-export function levelHref(jobId: string, levelId: string, rest = ''): Href {
-  return `${jobBase(jobId)}/levels/${encodeURIComponent(levelId)}${rest}` as Href;
-}
-
-export function boardHref(jobId: string, rest = ''): Href {
-  return `${jobBase(jobId)}/board${rest}` as Href;
+/** The findings list filters behind one cell of the board: a level's row (levelId) or the totals (none). */
+export function boardCellFilters(key: BoardCountKey, levelId?: string): FindingLinkFilters {
+  return { levelId, ...BOARD_CELL_FILTERS[key] };
 }
 
 /** The numbers a cell shows, for words and links. */

@@ -6,7 +6,8 @@ import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
 import { Tabs, type TabItem } from '../ui/Tabs';
 import { SeverityShape } from '../walk/SeverityMark';
-import { COUNT_LABELS, boardCellHref, coverage, jobBase, percent, type BoardCountKey } from './links';
+import { links } from '../links';
+import { COUNT_LABELS, boardCellFilters, coverage, percent, type BoardCountKey } from './counts';
 
 /** Who sees company scorecards (the server answers 403 to anyone else). */
 export function maySeeScorecards(role: Role | undefined): boolean {
@@ -15,12 +16,11 @@ export function maySeeScorecards(role: Role | undefined): boolean {
 
 /** The GC's view in three sections, as tabs at the top of each. */
 export function BoardTabs({ jobId, role, current }: { jobId: string; role: Role | undefined; current: 'board' | 'readiness' | 'scorecards' }) {
-  const base = jobBase(jobId);
   const items: TabItem[] = [
-    { key: 'board', label: 'Levels board', href: `${base}/board` as Href },
-    { key: 'readiness', label: 'Readiness', href: `${base}/readiness` as Href },
+    { key: 'board', label: 'Levels board', href: links.board(jobId) },
+    { key: 'readiness', label: 'Readiness', href: links.readiness(jobId) },
   ];
-  if (maySeeScorecards(role)) items.push({ key: 'scorecards', label: 'Company scorecards', href: `${base}/scorecards` as Href });
+  if (maySeeScorecards(role)) items.push({ key: 'scorecards', label: 'Company scorecards', href: links.scorecards(jobId) });
   return <Tabs items={items} current={current} testID="board-tabs" />;
 }
 
@@ -59,7 +59,7 @@ export function CountLink({
 }) {
   const alarm = value > 0 && (countKey === 'openCritical' || countKey === 'overdue');
   return (
-    <Link href={boardCellHref(jobId, countKey, levelId)} asChild>
+    <Link href={links.findings(jobId, boardCellFilters(countKey, levelId))} asChild>
       <Pressable
         accessibilityRole="link"
         accessibilityLabel={`${COUNT_LABELS[countKey]} on ${place}: ${value}. Show these findings.`}

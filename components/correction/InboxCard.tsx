@@ -2,10 +2,11 @@ import { Link } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { InboxItem } from '../../shared/schemas/findings';
 import { formatDay } from '../findings/due';
-import { StatusBadge, findingHref, findingPlace } from '../findings/FindingCard';
+import { StatusBadge, findingPlace } from '../findings/FindingCard';
 import { colors, radius, space, touchTarget } from '../theme';
 import { AppText } from '../ui/AppText';
 import { SeverityMark } from '../walk/SeverityMark';
+import { links } from '../links';
 
 /**
  * One finding in a subcontractor's inbox: where (tag, space, level), the defect, severity (shape
@@ -15,7 +16,7 @@ export function InboxCard({ item, showJob, showPlace = true }: { item: InboxItem
   const f = item;
   const returned = f.status === 'open' && f.returnCount > 0;
   return (
-    <Link href={findingHref(f.jobId, f.id)} asChild>
+    <Link href={links.finding(f.jobId, f.id)} asChild>
       <Pressable
         style={StyleSheet.flatten([styles.card, f.overdue ? styles.overdueCard : null])}
         testID={`inbox-card-${f.number}`}

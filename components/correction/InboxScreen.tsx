@@ -10,6 +10,7 @@ import { Screen } from '../ui/Screen';
 import { Segmented } from '../ui/Segmented';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { InboxCard } from './InboxCard';
+import { links } from '../links';
 
 /**
  * The subcontractor's inbox, phone first: their company's findings on all their jobs, overdue
@@ -21,7 +22,7 @@ export function InboxScreen({ initialGrouping = 'none' }: { initialGrouping?: In
   const inbox = useInboxQuery(groupBy);
   return (
     <Screen testID="inbox-screen" maxWidth={760}>
-      <Link href="/" style={styles.back} testID="inbox-back">
+      <Link href={links.home()} style={styles.back} testID="inbox-back">
         <AppText variant="label" style={{ color: colors.spruce }}>
           ← Your jobs
         </AppText>

@@ -1,10 +1,10 @@
-import { Link, type Href } from 'expo-router';
+import { Link } from 'expo-router';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { ReinspectionQueueItem, ReinspectionVerdict } from '../../shared/schemas/findings';
 import { ApiError } from '../api/client';
 import { formatDay, formatWhen } from '../findings/due';
-import { findingHref, findingPlace } from '../findings/FindingCard';
+import { findingPlace } from '../findings/FindingCard';
 import { useReinspectionQueueQuery } from '../queries/correction';
 import { useJobQuery } from '../queries/jobs';
 import { colors, radius, space } from '../theme';
@@ -15,6 +15,7 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { SeverityMark } from '../walk/SeverityMark';
 import { BeforeAfter } from './BeforeAfter';
 import { ReinspectControls } from './ReinspectControls';
+import { links } from '../links';
 
 /**
  * The inspector's re-inspection queue: fixes waiting, grouped by level so one walk clears them;
@@ -27,7 +28,7 @@ export function ReinspectionQueueScreen({ jobId }: { jobId: string }) {
   const failed = queue.isError ? queue.error : job.isError ? job.error : null;
   return (
     <Screen testID="reinspections-screen" maxWidth={900}>
-      <Link href={`/jobs/${encodeURIComponent(jobId)}` as Href} style={styles.back} testID="reinspections-back">
+      <Link href={links.job(jobId)} style={styles.back} testID="reinspections-back">
         <AppText variant="label" style={{ color: colors.spruce }}>
           ← {job.data?.name ?? 'The job'}
         </AppText>
@@ -104,7 +105,7 @@ function QueueCard({
   const fix = item.latestFix;
   return (
     <View style={styles.card} testID={`reinspection-${f.number}`}>
-      <Link href={findingHref(jobId, f.id)}>
+      <Link href={links.finding(jobId, f.id)}>
         <AppText variant="label" style={styles.link}>
           {f.label} · {f.code} →
         </AppText>

@@ -2,15 +2,21 @@
  * What the screens offer, by role and status: the same status machine the server runs
  * (shared/findingStatus.ts). The server stays the authority: a refusal shows its message.
  */
-import { decide } from '../../shared/findingStatus';
+import { decide, decidePin } from '../../shared/findingStatus';
 import type { FindingAction } from '../../shared/schemas/findings';
 import type { FindingStatus, Role } from '../../shared/words';
 import { ApiError } from '../api/client';
 import type { Write } from '../api/mutations';
+import { writeErrorMessage as writeError } from '../api/writeErrors';
 
 /** True when this role may take this action on a finding in this status. */
 export function mayDo(action: FindingAction, status: FindingStatus, role: Role, isLogger: boolean): boolean {
   return decide(status, action, role, isLogger).allowed;
+}
+
+/** True when this role may place, move or remove this finding's pin on the plan (the server's rule). */
+export function mayPin(status: FindingStatus, role: Role): boolean {
+  return decidePin(status, role).allowed;
 }
 
 /** GC managers and inspectors change many findings at once from the table. */
@@ -20,13 +26,16 @@ export function mayBulkChange(role: Role | undefined): boolean {
 
 export const STALE_MESSAGE = 'Someone changed this finding while you were looking at it. It is shown as it is now: check it and try again.';
 
-/** A write's refusal in words: 412 → someone changed it (the screen reloads), 409 → the server's message. */
+/** The words for a refused write on a finding: components/api/writeErrors.ts, with the finding's own 412 sentence. */
+export const FINDING_WRITE_WORDS = { stale: STALE_MESSAGE } as const;
+
+/**
+ * Kept for the correction parts still importing it from here (comments, actions, fix form,
+ * re-inspection controls); it goes once they call writeErrorMessage(err, FINDING_WRITE_WORDS)
+ * from components/api/writeErrors.ts.
+ */
 export function writeErrorMessage(err: unknown): string {
-  if (err instanceof ApiError) {
-    if (err.status === 412) return STALE_MESSAGE;
-    return err.message;
-  }
-  return err instanceof Error ? err.message : 'That did not work. Try again.';
+  return writeError(err, FINDING_WRITE_WORDS);
 }
 
 /** True when the screen should reload the finding (someone else changed it first). */

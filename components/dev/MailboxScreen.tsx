@@ -9,6 +9,7 @@ import { Card } from '../ui/Card';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { Wordmark } from '../ui/Wordmark';
+import { links } from '../links';
 
 /**
  * /mailbox (development only): the mails Trimout sent to its local fake SMTP server, newest
@@ -19,7 +20,7 @@ export function MailboxScreen() {
   return (
     <Screen testID="mailbox-screen">
       <View style={styles.head}>
-        <Link href="/" accessibilityLabel="Trimout">
+        <Link href={links.home()} accessibilityLabel="Trimout">
           <Wordmark compact />
         </Link>
         <AppText variant="display" role="heading">

@@ -1,5 +1,5 @@
 export interface ExportLinkProps {
-  /** Same-origin API path of a CSV export (components/exports/hrefs.ts). */
+  /** Same-origin API path of a CSV export (components/api/exports.ts). */
   href: string;
   label: string;
   testID?: string;

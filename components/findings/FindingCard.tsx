@@ -1,4 +1,4 @@
-import { Link, type Href } from 'expo-router';
+import { Link } from 'expo-router';
 import { Image, Pressable, StyleSheet, View } from 'react-native';
 import type { FindingDto } from '../../shared/schemas/findings';
 import { FINDING_STATUS_LABELS, type FindingStatus } from '../../shared/words';
@@ -7,10 +7,7 @@ import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
 import { SeverityMark } from '../walk/SeverityMark';
 import { formatDay } from './due';
-
-export function findingHref(jobId: string, findingId: string): Href {
-  return `/jobs/${encodeURIComponent(jobId)}/findings/${encodeURIComponent(findingId)}` as Href;
-}
+import { links } from '../links';
 
 const STATUS_TONE: Record<FindingStatus, 'bad' | 'warn' | 'good' | 'neutral'> = {
   open: 'bad',
@@ -34,7 +31,7 @@ export function findingPlace(f: Pick<FindingDto, 'unitTag' | 'spaceName' | 'leve
 export function FindingCard({ jobId, finding }: { jobId: string; finding: FindingDto }) {
   const f = finding;
   return (
-    <Link href={findingHref(jobId, f.id)} asChild>
+    <Link href={links.finding(jobId, f.id)} asChild>
       <Pressable style={styles.card} testID={`finding-card-${f.number}`} accessibilityRole="link" accessibilityLabel={`Finding ${f.label}: ${f.title}`}>
         <View style={styles.main}>
           <View style={styles.top}>

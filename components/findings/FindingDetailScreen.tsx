@@ -1,4 +1,4 @@
-import { Link, type Href } from 'expo-router';
+import { Link } from 'expo-router';
 import type { ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
@@ -23,11 +23,11 @@ import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { ItemCaution } from '../walk/ItemCaution';
 import { SeverityMark } from '../walk/SeverityMark';
-import { unitCheckHref } from '../walk/LevelWalkScreen';
 import { formatDay, formatWhen } from './due';
 import { StatusBadge } from './FindingCard';
 import { PhotoStrip } from './PhotoStrip';
 import { PlanPinLink } from '../plans/PlanPinLink';
+import { links } from '../links';
 
 export function FindingDetailScreen({ jobId, findingId }: { jobId: string; findingId: string }) {
   const job = useJobQuery(jobId);
@@ -37,7 +37,7 @@ export function FindingDetailScreen({ jobId, findingId }: { jobId: string; findi
   const failed = job.isError ? job.error : finding.isError ? finding.error : null;
   return (
     <Screen testID="finding-detail-screen" maxWidth={720}>
-      <Link href={(sub ? '/inbox' : `/jobs/${encodeURIComponent(jobId)}/findings`) as Href} style={styles.back} testID="finding-back">
+      <Link href={sub ? links.inbox() : links.findings(jobId)} style={styles.back} testID="finding-back">
         <AppText variant="label" style={{ color: colors.spruce }}>
           {sub ? '← Your findings to fix' : '← All findings'}
         </AppText>
@@ -128,7 +128,7 @@ function FindingBody({
         <Row label="Where" testID="finding-where">
           <View>
             {f.unitId && f.unitTag ? (
-              <Link href={unitCheckHref(jobId, f.unitId)}>
+              <Link href={links.unitCheck(jobId, f.unitId)}>
                 <AppText style={styles.link}>Unit {f.unitTag}</AppText>
               </Link>
             ) : null}

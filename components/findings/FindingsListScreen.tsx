@@ -1,11 +1,11 @@
-import { Link, type Href } from 'expo-router';
+import { Link } from 'expo-router';
 import { useState } from 'react';
 import { StyleSheet, useWindowDimensions, View } from 'react-native';
 import type { FindingSort } from '../../shared/schemas/findings';
 import { ApiError } from '../api/client';
 import { BulkBar } from '../correction/BulkBar';
 import { ExportLink } from '../exports/ExportLink';
-import { findingsCsvHref } from '../exports/hrefs';
+import { exportUrls } from '../api/exports';
 import { mayBulkChange } from '../correction/rules';
 import { useCatalogueQuery } from '../queries/catalogue';
 import { useJobCompaniesQuery } from '../queries/companies';
@@ -22,6 +22,7 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { FindingCard } from './FindingCard';
 import { FindingsFilters } from './FindingsFilters';
 import { FindingsTable, type TableSelection } from './FindingsTable';
+import { links } from '../links';
 
 /** The table takes over from cards at this width. */
 export const TABLE_BREAKPOINT = 1024;
@@ -56,7 +57,7 @@ export function FindingsListScreen({ jobId, initial }: { jobId: string; initial:
 
   return (
     <Screen testID="findings-screen" maxWidth={wide ? 1200 : 720}>
-      <Link href={`/jobs/${encodeURIComponent(jobId)}` as Href} style={styles.back} testID="findings-back">
+      <Link href={links.job(jobId)} style={styles.back} testID="findings-back">
         <AppText variant="label" style={{ color: colors.spruce }}>
           ← {job.data?.name ?? 'The job'}
         </AppText>
@@ -73,13 +74,13 @@ export function FindingsListScreen({ jobId, initial }: { jobId: string; initial:
         ) : null}
       </View>
       {job.data && job.data.role !== 'subcontractor' ? (
-        <Link href={`/jobs/${encodeURIComponent(jobId)}/walk` as Href} asChild>
+        <Link href={links.walk(jobId)} asChild>
           <Button label="Walk a level" tone="secondary" testID="findings-walk" />
         </Link>
       ) : null}
       {first && first.total > 0 ? (
         <ExportLink
-          href={findingsCsvHref(jobId, filters)}
+          href={exportUrls.findingsCsv(jobId, filters)}
           label={filtered ? `Export these ${first.total} as CSV` : 'Export all as CSV'}
           testID="findings-export"
         />

@@ -6,7 +6,8 @@ import { colors, radius, space, touchTarget } from '../theme';
 import { AppText } from '../ui/AppText';
 import { SeverityMark } from '../walk/SeverityMark';
 import { formatDay } from './due';
-import { StatusBadge, findingHref, findingPlace } from './FindingCard';
+import { StatusBadge, findingPlace } from './FindingCard';
+import { links } from '../links';
 
 type SortKey = 'number' | 'dueOn' | 'loggedAt' | 'severity';
 
@@ -125,7 +126,7 @@ export function FindingsTable({
       </View>
       {rows.map((f, i) => {
         const link = (
-          <Link key={f.id} href={findingHref(jobId, f.id)} asChild>
+          <Link key={f.id} href={links.finding(jobId, f.id)} asChild>
             {/* One style object: a style array does not survive Link's asChild on the web. */}
             <Pressable
               style={StyleSheet.flatten([styles.row, selection ? styles.inner : null, i % 2 === 1 ? styles.zebra : null])}

@@ -1,4 +1,4 @@
-import { Link, useRouter, type Href } from 'expo-router';
+import { Link, useRouter } from 'expo-router';
 import { useMemo } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '../api/client';
@@ -12,8 +12,8 @@ import { AppText } from '../ui/AppText';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { limitResolverFor } from '../walk/measure';
-import { findingHref } from './FindingCard';
 import { FindingForm, type FindingTarget } from './FindingForm';
+import { links } from '../links';
 
 export interface NewFindingParams {
   unitId?: string;
@@ -54,7 +54,7 @@ export function NewFindingScreen({ jobId, params }: { jobId: string; params: New
   const item = params.catalogueItemId ? catalogue.data?.find((i) => i.id === params.catalogueItemId) : undefined;
   const failed = [job, levels, spaces, catalogue, ...(params.unitId ? [unit] : [])].find((q) => q.isError);
   const pending = [job, levels, spaces, catalogue, ...(params.unitId ? [unit] : []), ...(unit.data?.modelId ? [model] : [])].some((q) => q.isPending);
-  const back = (level ? `/jobs/${encodeURIComponent(jobId)}/levels/${encodeURIComponent(level.id)}/walk` : `/jobs/${encodeURIComponent(jobId)}/findings`) as Href;
+  const back = level ? links.levelWalk(jobId, level.id) : links.findings(jobId);
 
   return (
     <Screen testID="new-finding-screen" maxWidth={640}>
@@ -93,7 +93,7 @@ export function NewFindingScreen({ jobId, params }: { jobId: string; params: New
           measuredText={params.measuredText}
           walkId={params.walkId ?? null}
           resolve={resolve}
-          onLogged={(f) => router.replace(findingHref(jobId, f.id))}
+          onLogged={(f) => router.replace(links.finding(jobId, f.id))}
           onCancel={() => router.replace(back)}
         />
       )}

@@ -1,4 +1,4 @@
-import { Link, useRouter, type Href } from 'expo-router';
+import { Link, useRouter } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { SessionJob } from '../../shared/schemas/session';
 import { useJobsQuery } from '../queries/jobs';
@@ -9,13 +9,14 @@ import { Button } from '../ui/Button';
 import { RoleBadge } from '../ui/RoleBadge';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { links } from '../links';
 
 export function JobListScreen() {
   const session = useSessionQuery();
   const jobs = useJobsQuery();
   const router = useRouter();
   const firstName = session.data?.user?.name.split(' ')[0];
-  const newJob = () => router.push('/jobs/new');
+  const newJob = () => router.push(links.newJob());
   // Subcontractors on any job get their inbox: their company's findings across their jobs.
   const subcontractor = (session.data?.jobs ?? []).some((j) => j.role === 'subcontractor');
 
@@ -31,7 +32,7 @@ export function JobListScreen() {
         {jobs.data && jobs.data.length > 0 ? <Button testID="new-job" label="New job" tone="secondary" onPress={newJob} /> : null}
       </View>
       {subcontractor ? (
-        <Link href={'/inbox' as Href} asChild>
+        <Link href={links.inbox()} asChild>
           <Pressable style={styles.inbox} testID="home-inbox" accessibilityRole="link">
             <AppText variant="title" style={{ color: colors.paper }}>
               Findings to fix →
@@ -63,7 +64,7 @@ export function JobListScreen() {
 
 function JobCard({ job }: { job: SessionJob }) {
   return (
-    <Link href={{ pathname: '/jobs/[jobId]', params: { jobId: job.id } }} asChild>
+    <Link href={links.job(job.id)} asChild>
       <Pressable style={styles.card} testID={`job-card-${job.id}`} accessibilityRole="link">
         <View style={styles.cardTop}>
           <AppText variant="small" muted>

@@ -4,7 +4,7 @@ import { ROLE_LABELS } from '../../shared/words';
 import { ApiError } from '../api/client';
 import { BoardLink } from '../board/BoardLink';
 import { useJobQuery } from '../queries/jobs';
-import { READ_ONLY_SECTIONS, SETUP_SECTIONS, canEditSetup, setupHref } from '../setup/SetupFrame';
+import { READ_ONLY_SECTIONS, SETUP_SECTIONS, canEditSetup } from '../setup/SetupFrame';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
@@ -12,6 +12,7 @@ import { RoleBadge } from '../ui/RoleBadge';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { JobWalkLinks } from '../walk/JobWalkLinks';
+import { links } from '../links';
 
 function formatDate(iso: string | null): string {
   if (!iso) return 'not set';
@@ -23,7 +24,7 @@ export function JobOverviewScreen({ jobId }: { jobId: string }) {
   const job = useJobQuery(jobId);
   return (
     <Screen testID="job-overview-screen">
-      <Link href="/" style={styles.back}>
+      <Link href={links.home()} style={styles.back}>
         <AppText variant="label" style={{ color: colors.spruce }}>
           ← Your jobs
         </AppText>
@@ -99,9 +100,9 @@ function SetupLinks({ jobId, editor }: { jobId: string; editor: boolean }) {
         </AppText>
       </View>
       <View style={styles.grid}>
-        {editor ? <SectionLink href={setupHref(jobId, 'job')} label="Job details" blurb="Name, number, address, dates, time zone and units." testID="setup-link-job" cell={cell} /> : null}
+        {editor ? <SectionLink href={links.setup(jobId, 'job')} label="Job details" blurb="Name, number, address, dates, time zone and units." testID="setup-link-job" cell={cell} /> : null}
         {sections.map((s) => (
-          <SectionLink key={s.key} href={setupHref(jobId, s.key)} label={s.label} blurb={s.blurb} testID={`setup-link-${s.key}`} cell={cell} />
+          <SectionLink key={s.key} href={links.setup(jobId, s.key)} label={s.label} blurb={s.blurb} testID={`setup-link-${s.key}`} cell={cell} />
         ))}
       </View>
     </View>

@@ -1,4 +1,4 @@
-import { Link, useRouter, type Href } from 'expo-router';
+import { Link, useRouter } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 import { useCreateJobMutation } from '../queries/jobs';
 import { useSessionQuery } from '../queries/session';
@@ -8,6 +8,7 @@ import { Card } from '../ui/Card';
 import { Screen } from '../ui/Screen';
 import { LoadingState } from '../ui/States';
 import { JobForm, browserTimeZone } from './JobForm';
+import { links } from '../links';
 
 /** A GC manager describes a new job; they become its GC manager and go on to its levels. */
 export function NewJobScreen() {
@@ -16,7 +17,7 @@ export function NewJobScreen() {
   const router = useRouter();
   return (
     <Screen testID="new-job-screen" maxWidth={760}>
-      <Link href="/" style={styles.back}>
+      <Link href={links.home()} style={styles.back}>
         <AppText variant="label" style={{ color: colors.spruce }}>
           ← Your jobs
         </AppText>
@@ -40,7 +41,7 @@ export function NewJobScreen() {
             initial={{ name: '', number: null, address: null, startsOn: null, endsOn: null, timeZone: browserTimeZone(), unitSystem: 'imperial' }}
             onSubmit={async (values) => {
               const job = await create.mutateAsync(values);
-              router.replace(`/jobs/${encodeURIComponent(job.id)}/setup/levels` as Href);
+              router.replace(links.setup(job.id, 'levels'));
             }}
           />
         </Card>

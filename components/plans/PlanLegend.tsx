@@ -1,9 +1,8 @@
 import { StyleSheet, View } from 'react-native';
-import { SEVERITIES } from '../../shared/words';
+import { FINDING_STATUS_LABELS, SEVERITIES, SEVERITY_LABELS } from '../../shared/words';
 import { space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { FindingPinMark, UnitPinMark } from './PinMark';
-import { SEVERITY_LABEL, STATUS_PIN } from './pinStyle';
 
 const STATUSES = ['open', 'fix_submitted', 'closed'] as const;
 
@@ -18,7 +17,7 @@ export function PlanLegend() {
         {STATUSES.map((s) => (
           <View key={s} style={styles.item}>
             <FindingPinMark status={s} severity="minor" size={22} />
-            <AppText variant="small">{STATUS_PIN[s].label}</AppText>
+            <AppText variant="small">{FINDING_STATUS_LABELS[s]}</AppText>
           </View>
         ))}
       </View>
@@ -29,7 +28,7 @@ export function PlanLegend() {
         {SEVERITIES.map((s) => (
           <View key={s} style={styles.item}>
             <FindingPinMark status="open" severity={s} size={22} />
-            <AppText variant="small">{SEVERITY_LABEL[s]}</AppText>
+            <AppText variant="small">{SEVERITY_LABELS[s]}</AppText>
           </View>
         ))}
       </View>

@@ -2,7 +2,7 @@ import { Link } from 'expo-router';
 import { StyleSheet } from 'react-native';
 import { colors, space } from '../theme';
 import { AppText } from '../ui/AppText';
-import { planHref, type PlaceKind } from './PlanScreen';
+import { links, type PlaceKind } from '../links';
 
 /**
  * The way from a finding or a unit to its level's plan: "Place on plan" / "Move on plan" for
@@ -28,7 +28,7 @@ export function PlanPinLink({
   if (!canPlace && !pinned) return null;
   const label = canPlace ? (pinned ? 'Move on the plan' : 'Place on the plan') : 'Show on the plan';
   return (
-    <Link href={planHref(jobId, levelId, canPlace ? { kind, id } : undefined)} style={styles.link} testID={testID}>
+    <Link href={links.plan(jobId, levelId, canPlace ? { kind, id } : undefined)} style={styles.link} testID={testID}>
       <AppText variant="label" style={{ color: colors.spruce }}>
         {`${label} →`}
       </AppText>
@@ -39,7 +39,7 @@ export function PlanPinLink({
 /** "Plan of Level 3" from a level's screens. */
 export function LevelPlanLink({ jobId, levelId, levelName, testID }: { jobId: string; levelId: string; levelName: string; testID?: string }) {
   return (
-    <Link href={planHref(jobId, levelId)} style={styles.link} testID={testID}>
+    <Link href={links.plan(jobId, levelId)} style={styles.link} testID={testID}>
       <AppText variant="label" style={{ color: colors.spruce }}>
         {`Plan of ${levelName} →`}
       </AppText>

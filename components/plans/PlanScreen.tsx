@@ -1,4 +1,4 @@
-import { Link, useRouter, type Href } from 'expo-router';
+import { Link, useRouter } from 'expo-router';
 import { useEffect, useMemo, useState } from 'react';
 import { StyleSheet, useWindowDimensions, View } from 'react-native';
 import type { FindingDto } from '../../shared/schemas/findings';
@@ -23,22 +23,15 @@ import { Notice } from '../ui/Notice';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
-import { unitCheckHref } from '../walk/LevelWalkScreen';
 import { FindingPinMark, UnitPinMark } from './PinMark';
 import { PlanFilePicker } from './PlanFilePicker';
 import { PlanLegend } from './PlanLegend';
 import { PlanViewer } from './PlanViewer';
 import type { PlanFindingPin, PlanUnitPin } from './PlanViewer.types';
+import { links, type PlaceKind } from '../links';
 
-export type PlaceKind = 'finding' | 'unit';
 
-/** /jobs/:jobId/levels/:levelId/plan, optionally placing a finding's or a unit's pin. */
-export function planHref(jobId: string, levelId: string, place?: { kind: PlaceKind; id: string }): Href {
-  const base = `/jobs/${encodeURIComponent(jobId)}/levels/${encodeURIComponent(levelId)}/plan`;
-  return (place ? `${base}?place=${place.kind}&id=${encodeURIComponent(place.id)}` : base) as Href;
-}
 
-const findingHref = (jobId: string, id: string) => `/jobs/${encodeURIComponent(jobId)}/findings/${encodeURIComponent(id)}` as Href;
 
 /** A level's plan with the pins of its findings and units; upload, zoom, and place pins by tapping. */
 export function PlanScreen({ jobId, levelId, place }: { jobId: string; levelId: string; place?: { kind: PlaceKind; id: string } }) {
@@ -48,7 +41,7 @@ export function PlanScreen({ jobId, levelId, place }: { jobId: string; levelId: 
   const failed = job.isError ? job.error : levels.isError ? levels.error : null;
   return (
     <Screen testID="plan-screen" maxWidth={1200}>
-      <Link href={`/jobs/${encodeURIComponent(jobId)}` as Href} style={styles.back} testID="plan-back">
+      <Link href={links.job(jobId)} style={styles.back} testID="plan-back">
         <AppText variant="label" style={{ color: colors.spruce }}>
           ← Job overview
         </AppText>
@@ -210,7 +203,7 @@ function PlanBody({ job, level, place }: { job: JobDetail; level: LevelDto; plac
             </Notice>
           ) : null}
           {placed?.kind === 'finding' ? (
-            <Link href={findingHref(job.id, placed.id)} style={styles.inlineLink} testID="plan-placed-open">
+            <Link href={links.finding(job.id, placed.id)} style={styles.inlineLink} testID="plan-placed-open">
               <AppText variant="label" style={{ color: colors.spruce }}>
                 Open {placed.name} →
               </AppText>
@@ -231,8 +224,8 @@ function PlanBody({ job, level, place }: { job: JobDetail; level: LevelDto; plac
             units={unitPins}
             placing={Boolean(target)}
             onPlace={doPlace}
-            onOpenFinding={(id) => router.push(findingHref(job.id, id))}
-            onOpenUnit={(id) => router.push(unitCheckHref(job.id, id))}
+            onOpenFinding={(id) => router.push(links.finding(job.id, id))}
+            onOpenUnit={(id) => router.push(links.unitCheck(job.id, id))}
             selectedId={placing?.id ?? placed?.id}
             wide={wide}
             windowHeight={windowHeight}

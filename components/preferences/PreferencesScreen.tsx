@@ -17,7 +17,8 @@ import {
 import type { Write } from '../api/mutations';
 import { timeZoneOptions } from '../jobs/JobForm';
 import { newDigestNowWrite, useDigestNowMutation, usePreferencesQuery, useSavePreferencesMutation } from '../queries/preferences';
-import { showServerErrors, writeErrorMessage } from '../setup/formErrors';
+import { writeErrorMessage } from '../api/writeErrors';
+import { showServerErrors } from '../setup/formErrors';
 import { colors, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';

@@ -7,6 +7,7 @@ import { Button } from '../ui/Button';
 import { Notice } from '../ui/Notice';
 import { LoadingState } from '../ui/States';
 import { AuthFrame, AuthLink } from '../auth/AuthFrame';
+import { links } from '../links';
 
 /**
  * /unsubscribe/<token> (from a digest or an event mail): says what the link turns off, and turns
@@ -16,7 +17,7 @@ import { AuthFrame, AuthLink } from '../auth/AuthFrame';
 export function UnsubscribeScreen({ token }: { token: string }) {
   const preview = useUnsubscribePreviewQuery(token);
   const confirm = useUnsubscribeMutation(token);
-  const footer = <AuthLink href="/preferences" label="All mail preferences (sign in)" testID="unsubscribe-preferences" />;
+  const footer = <AuthLink href={links.preferences()} label="All mail preferences (sign in)" testID="unsubscribe-preferences" />;
 
   if (preview.isPending) {
     return (

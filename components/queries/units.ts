@@ -41,11 +41,6 @@ export function useUnitsQuery(jobId: string, filters: UnitFilters, pageSize = UN
   });
 }
 
-/** Where the register downloads as CSV (same filters as the screen). */
-export function unitsCsvHref(jobId: string, filters: UnitFilters = {}): string {
-  return `${jobPath(jobId, 'units.csv')}${queryString({ ...filters })}`;
-}
-
 export function useCreateUnitMutation(jobId: string) {
   return useSetupWrite(jobId, (input: CreateUnitInput) =>
     sendWrite<UnitDto>(newWrite({ method: 'POST', path: jobPath(jobId, 'units'), body: input })),

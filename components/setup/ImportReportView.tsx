@@ -2,7 +2,7 @@ import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
 import type { UnitSystem } from '../../shared/catalogue/types';
 import type { UnitImportReport, UnitImportRowError } from '../../shared/schemas/setup';
-import { UNIT_KINDS } from '../../shared/words';
+import { unitKindLabel } from '../../shared/words';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
@@ -17,8 +17,6 @@ const FIELD_LABEL: Record<string, string> = {
   space: 'Space',
   system: 'System',
 };
-
-const KIND_LABEL: Record<string, string> = Object.fromEntries(UNIT_KINDS.map((k) => [k.key, k.label]));
 
 /** "Level: Unknown level …", without saying the field twice when the reason already names it. */
 export function reasonText(e: UnitImportRowError): string {
@@ -80,7 +78,7 @@ export function ImportReportView({ report, unitSystem }: { report: UnitImportRep
                 Line {r.line}
               </AppText>
               <AppText variant="small" style={styles.reason}>
-                <AppText variant="label">{r.tag}</AppText> · {KIND_LABEL[r.kind] ?? r.kind}
+                <AppText variant="label">{r.tag}</AppText> · {unitKindLabel(r.kind)}
                 {r.modelName ? ` · ${r.modelName}` : ''}
                 {r.capacity !== null ? ` · ${formatQuantity(r.capacity, 'capacity', unitSystem)}` : ''} · {r.levelName}
                 {r.spaceName ? ` · ${r.spaceName}` : ''}

@@ -11,10 +11,11 @@ import { FilePicker } from '../ui/FilePicker';
 import { Notice } from '../ui/Notice';
 import { Select } from '../ui/Select';
 import { TextField } from '../ui/TextField';
-import { writeErrorMessage } from './formErrors';
+import { writeErrorMessage } from '../api/writeErrors';
 import { guessMapping, readHeader } from './csvHeader';
 import { ImportReportView } from './ImportReportView';
-import { SetupFrame, canEditSetup, setupHref } from './SetupFrame';
+import { links } from '../links';
+import { SetupFrame, canEditSetup } from './SetupFrame';
 
 const FIELD_LABEL: Record<UnitImportField, string> = {
   tag: 'Tag',
@@ -182,7 +183,7 @@ function ImportBody({ job }: { job: JobDetail }) {
             />
           ) : null}
           {done ? (
-            <Link href={setupHref(job.id, 'units')} style={styles.link} testID="import-see-units">
+            <Link href={links.setup(job.id, 'units')} style={styles.link} testID="import-see-units">
               <AppText variant="label" style={{ color: colors.spruce }}>
                 See the units register →
               </AppText>

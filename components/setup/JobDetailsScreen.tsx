@@ -6,7 +6,8 @@ import { useUpdateJobMutation } from '../queries/jobs';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
-import { isConflict, writeErrorMessage } from './formErrors';
+import { writeErrorMessage } from '../api/writeErrors';
+import { isConflict } from '../api/client';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 
 export function JobDetailsScreen({ jobId }: { jobId: string }) {

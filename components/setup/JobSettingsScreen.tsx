@@ -13,6 +13,7 @@ import { useForm, type FieldPath, type Resolver, type UseFormSetError } from 're
 import { StyleSheet, View } from 'react-native';
 import { CODE_DOCUMENTS, JOB_SETTINGS, type CodeDocument } from '../../shared/catalogue/types';
 import { KNOWN_EDITIONS, type JobDetail } from '../../shared/schemas/setup';
+import { SEVERITIES, SEVERITY_LABELS } from '../../shared/words';
 import { ApiError } from '../api/client';
 import { jobKeys, useUpdateJobMutation } from '../queries/jobs';
 import { colors, space } from '../theme';
@@ -34,7 +35,8 @@ import {
   type SettingsFormOutput,
   type SettingsFormValues,
 } from './jobSettingsForm';
-import { SetupFrame, canEditSetup, setupHref } from './SetupFrame';
+import { links } from '../links';
+import { SetupFrame, canEditSetup } from './SetupFrame';
 
 /** What each code document is, in a few words. */
 export const CODE_DOCUMENT_WORDS: Record<CodeDocument, string> = {
@@ -71,7 +73,7 @@ function ClockLine({ job, editor }: { job: JobDetail; editor: boolean }) {
         Due dates count whole days on this clock, and digests go out by it.
       </AppText>
       {editor ? (
-        <Link href={setupHref(job.id, 'job')} style={styles.link} testID="settings-job-details-link">
+        <Link href={links.setup(job.id, 'job')} style={styles.link} testID="settings-job-details-link">
           <AppText variant="label" style={{ color: colors.spruce }}>
             Change it under Job details →
           </AppText>
@@ -168,12 +170,12 @@ function SettingsForm({ job }: { job: JobDetail }) {
           A new finding is due this many days after the day it is logged, on the job's clock; critical ≤ major ≤ minor.
         </AppText>
         <View style={styles.days}>
-          {(['critical', 'major', 'minor'] as const).map((s) => (
+          {SEVERITIES.map((s) => (
             <View key={s} style={styles.day}>
               <FormText
                 control={control}
                 name={`severityDueDays.${s}`}
-                label={s === 'critical' ? 'Critical' : s === 'major' ? 'Major' : 'Minor'}
+                label={SEVERITY_LABELS[s]}
                 testID={`settings-due-${s}`}
                 keyboardType="number-pad"
                 inputMode="numeric"

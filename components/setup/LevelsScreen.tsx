@@ -19,7 +19,8 @@ import { Notice } from '../ui/Notice';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
 import { FormText } from '../ui/FormFields';
-import { showServerErrors, writeErrorMessage } from './formErrors';
+import { writeErrorMessage } from '../api/writeErrors';
+import { showServerErrors } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 
 export function LevelsScreen({ jobId }: { jobId: string }) {

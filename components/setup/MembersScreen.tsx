@@ -11,7 +11,7 @@ import { Button } from '../ui/Button';
 import { RoleBadge } from '../ui/RoleBadge';
 import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
-import { writeErrorMessage } from './formErrors';
+import { writeErrorMessage } from '../api/writeErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 
 export function MembersScreen({ jobId }: { jobId: string }) {

@@ -1,7 +1,8 @@
-import { Link, type Href } from 'expo-router';
+import { Link } from 'expo-router';
 import type { ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '../api/client';
+import { links, type SetupSection } from '../links';
 import { useJobQuery, type JobDetail } from '../queries/jobs';
 import { colors, space } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -21,15 +22,11 @@ export const SETUP_SECTIONS = [
   { key: 'members', label: 'Members', blurb: 'Who is on the job and with which role.' },
   { key: 'catalogue', label: 'Defect catalogue', blurb: 'The defect types this job checks.' },
   { key: 'settings', label: 'Job settings', blurb: 'Code editions, days to fix by severity, when a defect counts as recurring, job limits.' },
-] as const;
-export type SetupSectionKey = (typeof SETUP_SECTIONS)[number]['key'] | 'job';
+] as const satisfies readonly { key: SetupSection; label: string; blurb: string }[];
+export type SetupSectionKey = SetupSection;
 
 /** Sections everybody on the job may read; the rest (import) are GC-manager only. */
 export const READ_ONLY_SECTIONS: readonly SetupSectionKey[] = ['levels', 'spaces', 'systems', 'models', 'units', 'companies', 'members', 'catalogue', 'settings'];
-
-export function setupHref(jobId: string, section: SetupSectionKey): Href {
-  return `/jobs/${encodeURIComponent(jobId)}/setup/${section}` as Href;
-}
 
 export function canEditSetup(job: Pick<JobDetail, 'role'> | undefined): boolean {
   return job?.role === 'gc_manager';
@@ -59,7 +56,7 @@ export function SetupFrame({
   const tabs: TabItem[] = SETUP_SECTIONS.filter((s) => editor || READ_ONLY_SECTIONS.includes(s.key)).map((s) => ({
     key: s.key,
     label: s.label,
-    href: setupHref(jobId, s.key),
+    href: links.setup(jobId, s.key),
   }));
   return (
     <Screen testID={testID}>
@@ -74,7 +71,7 @@ export function SetupFrame({
       ) : (
         <>
           <View style={styles.head}>
-            <Link href={`/jobs/${encodeURIComponent(jobId)}` as Href} style={styles.back} testID="setup-back">
+            <Link href={links.job(jobId)} style={styles.back} testID="setup-back">
               <AppText variant="label" style={{ color: colors.spruce }} numberOfLines={1}>
                 ← {job.data.name}
               </AppText>

@@ -19,8 +19,10 @@ import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
 import { FormQuantity, FormSelect, FormText } from '../ui/FormFields';
-import { showServerErrors, writeErrorMessage } from './formErrors';
-import { SetupFrame, canEditSetup, setupHref } from './SetupFrame';
+import { writeErrorMessage } from '../api/writeErrors';
+import { showServerErrors } from './formErrors';
+import { links } from '../links';
+import { SetupFrame, canEditSetup } from './SetupFrame';
 
 export function SpacesScreen({ jobId }: { jobId: string }) {
   return (
@@ -51,7 +53,7 @@ function SpacesBody({ job }: { job: JobDetail }) {
         body="Spaces belong to a level. Add the job's levels, then come back to add spaces on each."
         testID="spaces-no-levels"
         action={
-          <Link href={setupHref(job.id, 'levels')} style={styles.link}>
+          <Link href={links.setup(job.id, 'levels')} style={styles.link}>
             <AppText variant="label" style={{ color: colors.spruce }}>
               Go to levels →
             </AppText>

@@ -5,14 +5,14 @@ import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
 import { createUnitSchema, type JobDetail, type UnitDto } from '../../shared/schemas/setup';
-import { UNIT_KINDS, type UnitKindKey } from '../../shared/words';
+import { UNIT_KINDS, UNIT_KIND_LABELS, type UnitKindKey } from '../../shared/words';
+import { exportUrls } from '../api/exports';
 import { ExportLink } from '../exports/ExportLink';
 import { useLevelsQuery } from '../queries/levels';
 import { useModelsQuery } from '../queries/models';
 import { useSpacesQuery } from '../queries/spaces';
 import { useSystemsQuery } from '../queries/systems';
 import {
-  unitsCsvHref,
   useCreateUnitMutation,
   useDeleteUnitMutation,
   useUnitsQuery,
@@ -28,11 +28,14 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { Table, type Column } from '../ui/Table';
 import { useWide } from '../ui/useWide';
 import { FormQuantity, FormSelect, FormText } from '../ui/FormFields';
-import { showServerErrors, writeErrorMessage } from './formErrors';
-import { SetupFrame, canEditSetup, setupHref } from './SetupFrame';
+import { writeErrorMessage } from '../api/writeErrors';
+import { showServerErrors } from './formErrors';
+import { links } from '../links';
+import { SetupFrame, canEditSetup } from './SetupFrame';
 import { UnitFiltersBar } from './UnitFiltersBar';
 
-export const KIND_LABEL: Record<UnitKindKey, string> = Object.fromEntries(UNIT_KINDS.map((k) => [k.key, k.label])) as Record<UnitKindKey, string>;
+/** Kept for the catalogue and models screens still importing it from here; it goes once they use UNIT_KIND_LABELS from shared/words. */
+export const KIND_LABEL = UNIT_KIND_LABELS;
 
 export function UnitsScreen({ jobId }: { jobId: string }) {
   return (
@@ -65,11 +68,11 @@ function UnitsBody({ job }: { job: JobDetail }) {
       <View style={styles.toolbar}>
         {editor ? <Button testID="unit-add" label="Add a unit" onPress={() => setForm({})} /> : null}
         {editor ? (
-          <Link href={setupHref(job.id, 'import')} asChild>
+          <Link href={links.setup(job.id, 'import')} asChild>
             <Button testID="unit-import-link" label="Import from CSV" tone="secondary" />
           </Link>
         ) : null}
-        <ExportLink testID="unit-export" label={filtered ? 'Download these as CSV' : 'Download CSV'} href={unitsCsvHref(job.id, filters)} />
+        <ExportLink testID="unit-export" label={filtered ? 'Download these as CSV' : 'Download CSV'} href={exportUrls.unitsCsv(job.id, filters)} />
       </View>
       {form && editor && levels.data ? (
         <UnitForm
@@ -128,7 +131,7 @@ function capacityText(unit: UnitDto, job: JobDetail): string {
 function UnitTable({ job, rows, editor, onEdit }: { job: JobDetail; rows: UnitDto[]; editor: boolean; onEdit: (u: UnitDto) => void }) {
   const columns: Column<UnitDto>[] = [
     { key: 'tag', title: 'Tag', flex: 1.1, render: (u) => <AppText variant="label">{u.tag}</AppText> },
-    { key: 'kind', title: 'Kind', flex: 1.6, render: (u) => KIND_LABEL[u.kind] },
+    { key: 'kind', title: 'Kind', flex: 1.6, render: (u) => UNIT_KIND_LABELS[u.kind] },
     { key: 'model', title: 'Model', flex: 1.2, render: (u) => u.modelName ?? '—' },
     { key: 'capacity', title: 'Capacity', flex: 1.1, render: (u) => capacityText(u, job) },
     { key: 'where', title: 'Level · space', flex: 1.6, render: (u) => `${u.levelName}${u.spaceName ? ` · ${u.spaceName}` : ''}` },
@@ -153,7 +156,7 @@ function UnitCard({ job, unit, editor, onEdit }: { job: JobDetail; unit: UnitDto
         {editor ? <Button label="Edit" tone="quiet" testID={`unit-edit-${unit.tag}`} onPress={onEdit} /> : null}
       </View>
       <AppText variant="small">
-        {KIND_LABEL[unit.kind]}
+        {UNIT_KIND_LABELS[unit.kind]}
         {unit.modelName ? ` · ${unit.modelName}` : ''} · {capacityText(unit, job)}
       </AppText>
       <AppText variant="small" muted>

@@ -5,6 +5,7 @@ import { colors, contentMaxWidth, space } from '../theme';
 import { AppText } from './AppText';
 import { Button } from './Button';
 import { Wordmark } from './Wordmark';
+import { links } from '../links';
 
 export function AppHeader() {
   const session = useSessionQuery();
@@ -13,7 +14,7 @@ export function AppHeader() {
   return (
     <View style={styles.bar} testID="app-header">
       <View style={styles.inner}>
-        <Link href="/" accessibilityLabel="Your jobs">
+        <Link href={links.home()} accessibilityLabel="Your jobs">
           <Wordmark compact />
         </Link>
         <View style={styles.right}>
@@ -28,7 +29,7 @@ export function AppHeader() {
             </View>
           ) : null}
           {user ? (
-            <Link href="/preferences" accessibilityLabel="Mail preferences" testID="header-preferences" style={styles.prefs}>
+            <Link href={links.preferences()} accessibilityLabel="Mail preferences" testID="header-preferences" style={styles.prefs}>
               <AppText variant="label" style={styles.prefsText}>
                 Mail
               </AppText>

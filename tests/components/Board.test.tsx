@@ -13,7 +13,8 @@ import { ReadinessScreen } from '../../components/board/ReadinessScreen';
 import { ScorecardsScreen } from '../../components/board/ScorecardsScreen';
 import { nextSort, sortScorecards } from '../../components/board/scorecardSort';
 import { niceTicks, trendSummary } from '../../components/board/TrendChart';
-import { boardCellHref } from '../../components/board/links';
+import { boardCellFilters } from '../../components/board/counts';
+import { links } from '../../components/links';
 import { findingFiltersFromParams } from '../../components/findings/filterParams';
 import type { BoardResponse, CompanyScorecard, ReadinessResponse, RecurringResponse, TrendResponse } from '../../shared/schemas/board';
 import type { Role } from '../../shared/words';
@@ -213,9 +214,9 @@ describe('the levels board', () => {
 
   it('the findings list reads those links back as the same filters', () => {
     const read = (href: string) => findingFiltersFromParams(Object.fromEntries(new URLSearchParams(href.split('?')[1] ?? '')));
-    expect(read(String(boardCellHref(JOB, 'openCritical', L2)))).toEqual({ levelId: L2, status: 'open', severity: 'critical' });
-    expect(read(String(boardCellHref(JOB, 'overdue', L2)))).toEqual({ levelId: L2, overdue: 'true' });
-    expect(read(String(boardCellHref(JOB, 'fixSubmitted')))).toEqual({ status: 'fix_submitted' });
+    expect(read(String(links.findings(JOB, boardCellFilters('openCritical', L2))))).toEqual({ levelId: L2, status: 'open', severity: 'critical' });
+    expect(read(String(links.findings(JOB, boardCellFilters('overdue', L2))))).toEqual({ levelId: L2, overdue: 'true' });
+    expect(read(String(links.findings(JOB, boardCellFilters('fixSubmitted'))))).toEqual({ status: 'fix_submitted' });
     // Junk in the address is left out rather than sent to the API.
     expect(findingFiltersFromParams({ levelId: 'nope', status: 'open,bogus', severity: 'huge', overdue: 'yes', sort: 'dueOn' })).toEqual({ status: 'open', sort: 'dueOn' });
   });

@@ -1,5 +1,6 @@
 import { useLocalSearchParams } from 'expo-router';
-import { PlanScreen, type PlaceKind } from '../../../../../../components/plans/PlanScreen';
+import type { PlaceKind } from '../../../../../../components/links';
+import { PlanScreen } from '../../../../../../components/plans/PlanScreen';
 
 export default function LevelPlanRoute() {
   const { jobId, levelId, place, id } = useLocalSearchParams<{ jobId: string; levelId: string; place?: string; id?: string }>();

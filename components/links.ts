@@ -1,0 +1,92 @@
+/**
+ * Every in-app address, built in one place: a screen writes `links.finding(jobId, findingId)`,
+ * never a '/jobs/…' string of its own, so a route that moves changes here only. Each piece taken
+ * from data is URI-encoded; query keys come out in a fixed order, so a link reads the same each
+ * time. API addresses (the fetches and the CSV downloads) are not here: they are built in
+ * components/api (jobPath, components/api/exports.ts).
+ *
+ * This module imports no screen, so any screen may import it without making an import loop.
+ */
+import type { Href } from 'expo-router';
+import type { FindingStatus, Severity } from '../shared/words';
+
+const e = encodeURIComponent;
+
+/** `?a=1&b=2` from the given keys, in the given order; undefined, empty and false values are left out. */
+function query<T extends object>(params: T, order: readonly (keyof T)[]): string {
+  const parts = order
+    .filter((k) => params[k] !== undefined && params[k] !== null && params[k] !== '' && params[k] !== false)
+    .map((k) => `${e(String(k))}=${e(String(params[k]))}`);
+  return parts.length ? `?${parts.join('&')}` : '';
+}
+
+/** The findings list's address filters (read back by components/findings/filterParams.ts). */
+export interface FindingLinkFilters {
+  levelId?: string;
+  unitId?: string;
+  companyId?: string;
+  catalogueItemId?: string;
+  status?: FindingStatus | string;
+  severity?: Severity | string;
+  overdue?: boolean;
+}
+const FINDING_FILTER_ORDER: readonly (keyof FindingLinkFilters)[] = ['levelId', 'unitId', 'companyId', 'catalogueItemId', 'status', 'severity', 'overdue'];
+
+/** What the new-finding screen may be opened with (read by app/(app)/jobs/[jobId]/findings/new.tsx). */
+export interface NewFindingParams {
+  unitId?: string;
+  spaceId?: string;
+  levelId?: string;
+  catalogueItemId?: string;
+  measuredText?: string;
+  walkId?: string;
+}
+const NEW_FINDING_ORDER: readonly (keyof NewFindingParams)[] = ['unitId', 'spaceId', 'levelId', 'catalogueItemId', 'measuredText', 'walkId'];
+
+/** The set-up sections, one route each under /jobs/:jobId/setup/. */
+export type SetupSection = 'job' | 'levels' | 'spaces' | 'systems' | 'models' | 'units' | 'import' | 'companies' | 'members' | 'catalogue' | 'settings';
+
+/** What a plan is opened to place: a finding's pin or a unit's. */
+export type PlaceKind = 'finding' | 'unit';
+
+const job = (jobId: string) => `/jobs/${e(jobId)}`;
+const level = (jobId: string, levelId: string) => `${job(jobId)}/levels/${e(levelId)}`;
+const href = (path: string) => path as Href;
+
+export const links = {
+  /** The job list (also where signed-in people land). */
+  home: (): Href => href('/'),
+  signIn: (): Href => href('/sign-in'),
+  signUp: (): Href => href('/sign-up'),
+  forgotPassword: (): Href => href('/forgot-password'),
+  preferences: (): Href => href('/preferences'),
+  /** A subcontractor's findings to fix, across jobs. */
+  inbox: (): Href => href('/inbox'),
+  newJob: (): Href => href('/jobs/new'),
+
+  /** The job's overview. */
+  job: (jobId: string): Href => href(job(jobId)),
+  setup: (jobId: string, section: SetupSection): Href => href(`${job(jobId)}/setup/${section}`),
+
+  /** Pick a level to walk. */
+  walk: (jobId: string): Href => href(`${job(jobId)}/walk`),
+  /** One level's walk; `saved` names the unit whose check was just saved. */
+  levelWalk: (jobId: string, levelId: string, saved?: string): Href => href(`${level(jobId, levelId)}/walk${query({ saved }, ['saved'])}`),
+  unitCheck: (jobId: string, unitId: string): Href => href(`${job(jobId)}/units/${e(unitId)}/check`),
+  /** A level's plan, optionally opened to place a finding's or a unit's pin. */
+  plan: (jobId: string, levelId: string, place?: { kind: PlaceKind; id: string }): Href =>
+    href(`${level(jobId, levelId)}/plan${place ? query({ place: place.kind, id: place.id }, ['place', 'id']) : ''}`),
+
+  /** The findings list, already filtered. */
+  findings: (jobId: string, filters: FindingLinkFilters = {}): Href => href(`${job(jobId)}/findings${query(filters, FINDING_FILTER_ORDER)}`),
+  newFinding: (jobId: string, params: NewFindingParams = {}): Href => href(`${job(jobId)}/findings/new${query(params, NEW_FINDING_ORDER)}`),
+  finding: (jobId: string, findingId: string): Href => href(`${job(jobId)}/findings/${e(findingId)}`),
+  reinspections: (jobId: string): Href => href(`${job(jobId)}/reinspections`),
+
+  board: (jobId: string): Href => href(`${job(jobId)}/board`),
+  /** A level's page on the board. */
+  level: (jobId: string, levelId: string): Href => href(level(jobId, levelId)),
+  /** Readiness of the job, or of one system. */
+  readiness: (jobId: string, systemId?: string): Href => href(`${job(jobId)}/readiness${query({ systemId }, ['systemId'])}`),
+  scorecards: (jobId: string): Href => href(`${job(jobId)}/scorecards`),
+} as const;
