@@ -56,6 +56,9 @@ declare module 'express-session' {
 
 export const HOUR = 60 * 60 * 1000;
 
+/** The service worker and the web app manifest (written by scripts/lib/pwa.ts): never taken from an HTTP cache unchecked. */
+const OFFLINE_SHELL_FILES = new Set(['sw.js', 'manifest.webmanifest']);
+
 export interface AppOptions {
   env: Env;
   db: Database;
@@ -128,6 +131,9 @@ export function createApp(options: AppOptions): TrimoutApp {
           'font-src': ["'self'", 'data:'],
           'media-src': ["'self'", 'blob:'],
           'connect-src': ["'self'"],
+          // The service worker (/sw.js) and the web app manifest come from this origin only.
+          'worker-src': ["'self'"],
+          'manifest-src': ["'self'"],
           'form-action': ["'self'"],
           'upgrade-insecure-requests': env.cookieSecure ? [] : null,
         },
@@ -236,6 +242,10 @@ export function createApp(options: AppOptions): TrimoutApp {
         setHeaders: (res, file) => {
           if (file.includes(`${path.sep}_expo${path.sep}static${path.sep}`)) {
             res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+          } else if (OFFLINE_SHELL_FILES.has(path.relative(dist, file))) {
+            // Checked on every load, so a deploy reaches installed apps at their next start.
+            res.setHeader('Cache-Control', 'no-cache');
+            if (file.endsWith('.webmanifest')) res.setHeader('Content-Type', 'application/manifest+json; charset=utf-8');
           }
         },
       }),

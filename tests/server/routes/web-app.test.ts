@@ -2,23 +2,34 @@
  * Serving the exported web app: compressed on the wire (brotli, else gzip, as the browser says it
  * accepts), hashed bundles cached for a year, client routes answered with index.html. A cold start
  * on a slow phone connection is mostly the bundle's bytes.
+ *
+ * Installable and offline: the build's own step (scripts/lib/pwa.ts) runs over the fixture export,
+ * and its manifest, icons and service worker are read back through the server.
  */
+import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import zlib from 'node:zlib';
+import sharp from 'sharp';
 import request from 'supertest';
+import { colors } from '../../../components/theme';
+import { addOfflineShell, APPLE_TOUCH_ICON } from '../../../scripts/lib/pwa';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
 import { buildTestApp, testEnv } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 
+// The build's own service worker step bundles workbox (rollup + terser): seconds, not milliseconds.
+jest.setTimeout(120_000);
+
 let db: Database;
 let trimout: TrimoutApp;
 let dist: string;
 const BUNDLE = '/_expo/static/js/web/entry-0123456789abcdef.js';
+const FONT = '/assets/node_modules/@expo-google-fonts/x/Font_400Regular.59f0f5543754fa6b68a563036eafaaab.ttf';
 // Text shaped like a bundle: repetitive identifiers, as minified JavaScript is.
 const js = Array.from({ length: 4000 }, (_, i) => `function c${i}(a,b){return a.map(function(x){return x+b*${i % 97}})};`).join('\n');
 
@@ -27,6 +38,11 @@ beforeAll(async () => {
   fs.mkdirSync(path.join(dist, path.dirname(BUNDLE)), { recursive: true });
   fs.writeFileSync(path.join(dist, BUNDLE), js);
   fs.writeFileSync(path.join(dist, 'index.html'), `<!doctype html><html><body><div id="root"></div><script src="${BUNDLE}" defer></script></body></html>`);
+  // The rest of what `expo export` writes: a font (hashed name) and the favicon.
+  fs.mkdirSync(path.join(dist, path.dirname(FONT)), { recursive: true });
+  fs.writeFileSync(path.join(dist, FONT), 'font bytes');
+  fs.writeFileSync(path.join(dist, 'favicon.ico'), 'icon bytes');
+  await addOfflineShell(dist);
   db = await connectTestDb();
   trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }) });
 });
@@ -82,4 +98,76 @@ it('answers client routes with index.html (not cached), and leaves API answers u
   expect(page.text).toContain('<div id="root">');
   const api = await request(trimout.app).get('/api/session').set('Accept-Encoding', 'br, gzip').expect(200);
   expect(api.headers['content-encoding']).toBeUndefined();
+});
+
+describe('installable, opens offline', () => {
+  interface ManifestIcon {
+    src: string;
+    sizes: string;
+    type: string;
+    purpose: string;
+  }
+
+  it('serves the web app manifest as application/manifest+json, checked on every load, with our name, colours and scope', async () => {
+    const res = await request(trimout.app).get('/manifest.webmanifest').expect(200);
+    expect(res.headers['content-type']).toMatch(/^application\/manifest\+json/);
+    expect(res.headers['cache-control']).toBe('no-cache');
+    const manifest = JSON.parse(res.text) as Record<string, unknown> & { icons: ManifestIcon[] };
+    expect(manifest).toMatchObject({
+      name: 'Trimout',
+      short_name: 'Trimout',
+      start_url: '/',
+      scope: '/',
+      display: 'standalone',
+      theme_color: colors.spruce,
+      background_color: colors.paper,
+    });
+    expect(manifest.icons.map((i) => `${i.sizes} ${i.purpose}`)).toEqual(['192x192 any', '512x512 any', '512x512 maskable']);
+  });
+
+  it('serves every icon the manifest lists, and the apple-touch-icon, as PNG of the stated size', async () => {
+    const manifest = (await request(trimout.app).get('/manifest.webmanifest').expect(200)).body as { icons: ManifestIcon[] };
+    const icons = [...manifest.icons, { src: `/${APPLE_TOUCH_ICON.file}`, sizes: '180x180', type: 'image/png', purpose: 'apple' }];
+    for (const icon of icons) {
+      const res = await request(trimout.app).get(icon.src).buffer(true).parse((r, done) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => done(null, Buffer.concat(chunks)));
+      });
+      expect(res.status).toBe(200);
+      expect(res.headers['content-type']).toBe('image/png');
+      const image = sharp(res.body as Buffer);
+      const meta = await image.metadata();
+      expect({ src: icon.src, format: meta.format, size: `${meta.width}x${meta.height}` }).toEqual({ src: icon.src, format: 'png', size: icon.sizes });
+      // A launcher's mask and iOS's rounding cut into the ground colour, never into transparency.
+      if (icon.purpose !== 'any') expect((await image.stats()).isOpaque).toBe(true);
+    }
+  });
+
+  it('serves sw.js as JavaScript, never from an HTTP cache unchecked, precaching the shell with revisions', async () => {
+    const res = await request(trimout.app).get('/sw.js').expect(200);
+    expect(res.headers['content-type']).toMatch(/^(application|text)\/javascript/);
+    expect(res.headers['cache-control']).toBe('no-cache');
+    const index = fs.readFileSync(path.join(dist, 'index.html'));
+    const md5 = (b: Buffer) => createHash('md5').update(b).digest('hex');
+    // index.html by its content; the hashed bundle is its own revision
+    expect(res.text).toContain(`url:"index.html",revision:"${md5(index)}"`);
+    expect(res.text).toContain(`url:"${BUNDLE.slice(1)}",revision:null`);
+    expect(res.text).toContain(`url:"${FONT.slice(1)}",revision:null`);
+    expect(res.text).toContain(`url:"manifest.webmanifest",revision:"${md5(fs.readFileSync(path.join(dist, 'manifest.webmanifest')))}"`);
+    for (const icon of ['icons/icon-192.png', 'icons/icon-512.png', 'icons/maskable-512.png', 'apple-touch-icon.png']) {
+      expect(res.text).toContain(`url:"${icon}",revision:"`);
+    }
+    // navigations fall back to the cached app, except the API and the development mailbox
+    expect(res.text).toContain('denylist:[/^\\/api(\\/|$)/,/^\\/mailbox(\\/|$)/]');
+    // no runtime caching: nothing of the API is ever answered from a cache
+    expect(res.text).not.toMatch(/NetworkFirst|StaleWhileRevalidate|CacheFirst/);
+  });
+
+  it("the content security policy lets this origin's worker and manifest load, and no other", async () => {
+    const res = await request(trimout.app).get('/jobs/some-job').expect(200);
+    const csp = String(res.headers['content-security-policy']);
+    expect(csp).toMatch(/(^|;)worker-src 'self'(;|$)/);
+    expect(csp).toMatch(/(^|;)manifest-src 'self'(;|$)/);
+  });
 });
