@@ -6,6 +6,7 @@ import { Slot } from 'expo-router';
 import { StatusBar } from 'expo-status-bar';
 import { useState } from 'react';
 import { View } from 'react-native';
+import { UpdatePrompt } from '../components/pwa/UpdatePrompt';
 import { makeQueryClient } from '../components/queries/queryClient';
 import { colors } from '../components/theme';
 
@@ -18,6 +19,7 @@ export default function RootLayout() {
       <StatusBar style="dark" />
       <View style={{ flex: 1, backgroundColor: colors.paper }}>
         <Slot />
+        <UpdatePrompt />
       </View>
     </QueryClientProvider>
   );
