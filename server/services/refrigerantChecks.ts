@@ -11,7 +11,7 @@ import { checkA2lFloorArea, checkRefrigerantConcentration, LFL, type MountPositi
 import type { SystemDetail } from '../../shared/schemas/setup';
 import type { UnitKindKey } from '../../shared/words';
 import { Job, Space, SpaceLink, System, Unit } from '../models';
-import { presentSystem } from '../presenters/setup';
+import { presentSystem } from '../presenters/system';
 
 /** Mounting position of a unit kind, for the A2L release height. */
 export function mountOf(kind: UnitKindKey): MountPosition {
