@@ -7,7 +7,7 @@ import type { FindingAction } from '../../shared/schemas/findings';
 import type { FindingStatus, Role } from '../../shared/words';
 import { ApiError } from '../api/client';
 import type { Write } from '../api/mutations';
-import { writeErrorMessage as writeError } from '../api/writeErrors';
+import { writeErrorMessage as writeError, type WriteErrorWords } from '../api/writeErrors';
 
 /** True when this role may take this action on a finding in this status. */
 export function mayDo(action: FindingAction, status: FindingStatus, role: Role, isLogger: boolean): boolean {
@@ -26,8 +26,12 @@ export function mayBulkChange(role: Role | undefined): boolean {
 
 export const STALE_MESSAGE = 'Someone changed this finding while you were looking at it. It is shown as it is now: check it and try again.';
 
-/** The words for a refused write on a finding: components/api/writeErrors.ts, with the finding's own 412 sentence. */
-export const FINDING_WRITE_WORDS = { stale: STALE_MESSAGE } as const;
+/**
+ * The words for a refused write on a finding (components/api/writeErrors.ts): the finding's own
+ * 412 sentence, and a 409 as the server says it ("This finding is closed; it cannot be accepted."
+ * already names the state the screen reloads to).
+ */
+export const FINDING_WRITE_WORDS: WriteErrorWords = { stale: STALE_MESSAGE, afterConflict: '' };
 
 /**
  * Kept for the correction parts still importing it from here (comments, actions, fix form,
