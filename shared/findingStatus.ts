@@ -15,6 +15,9 @@
  * only ever sees their own company's findings) or a GC manager; accept / return → inspector,
  * GC manager; close → inspector; void → GC manager, the inspector who logged it; reopen → GC
  * manager; reassign / severity / due date → GC manager, inspector.
+ *
+ * The plan pin (where a finding is drawn on its level's plan) is no status change: GC managers and
+ * inspectors place, move or remove it in any status but voided (a voided finding is not drawn).
  */
 import { FINDING_ACTION_WORDS, type FindingAction } from './schemas/findings';
 import type { FindingStatus, Role } from './words';
@@ -74,4 +77,14 @@ export function decide(status: FindingStatus, action: FindingAction, role: Role,
     return { allowed: false, code: 409, message: `This finding is ${STATUS_WORDS[status]}; it cannot be ${FINDING_ACTION_WORDS[action]}.` };
   }
   return { allowed: true, to };
+}
+
+/** Who may place, move or remove a finding's pin on the level's plan. */
+export const PIN_ROLES: readonly Role[] = ['gc_manager', 'inspector'];
+
+/** The pin rule: the status stays as it is; a voided finding is no longer drawn, so it takes no pin. */
+export function decidePin(status: FindingStatus, role: Role): Decision {
+  if (!PIN_ROLES.includes(role)) return { allowed: false, code: 403, message: 'Only the GC manager and inspectors place findings on the plan.' };
+  if (status === 'voided') return { allowed: false, code: 409, message: 'This finding is voided; it cannot be placed on the plan.' };
+  return { allowed: true, to: status };
 }
