@@ -15,7 +15,7 @@
  */
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { FindingStatus, Severity } from '../../shared/words';
-import { todayIn } from '../services/findings';
+import { todayIn } from '../../shared/rules/dates';
 import { newRecurring, type NewRecurring } from './recurring';
 
 export type DigestPeriod = 'daily' | 'weekly';

@@ -11,7 +11,8 @@ import type { FindingEventKind } from '../../shared/schemas/findings';
 import type { FindingStatus, Severity, TradeKey, UnitKindKey } from '../../shared/words';
 import type { Database } from '../db';
 import { Finding, Fix, Job, UnitCheck, Walk } from '../models';
-import { addDays, nextFindingNumber, recordFindingEvent, todayIn } from '../services/findings';
+import { addDays, todayIn } from '../../shared/rules/dates';
+import { nextFindingNumber, recordFindingEvent } from '../services/findings';
 
 export const DEMO_FINDING_COUNT = 60;
 

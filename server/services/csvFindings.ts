@@ -17,7 +17,7 @@ import { FINDING_STATUS_LABELS, SEVERITY_LABELS, UNIT_KINDS, type FindingStatus,
 import type { CsvCell } from './csvSafe';
 import type { CsvQuery } from './csvStream';
 import { FROM_SQL, orderBySql, Params, whereSql, type FindingFilters, type FindingScope } from './findingQueries';
-import { todayIn } from './findings';
+import { todayIn } from '../../shared/rules/dates';
 
 export const FINDINGS_CSV_HEADER = [
   'Finding',

@@ -1,7 +1,7 @@
 /**
- * Walks, unit checks and findings: the logic the routes share.
- * - due dates from the job's per-severity policy, counted in the job's time zone;
- * - the responsible company suggested from the defect type's trade and the job's companies;
+ * Walks, unit checks and findings: the logic the commands and routes share.
+ * - the responsible company suggested from the defect type's trade and the job's companies
+ *   (the rule itself: shared/rules/suggestedCompany.ts; due dates: shared/rules/due.ts);
  * - measured values parsed (shared/calc parseQuantity) and evaluated against the unit's model
  *   limits, the job's settings and the job's code editions (evaluateRule + makeLimitResolver);
  * - per-job finding numbers (#1, #2 ...) handed out under a row lock;
@@ -12,43 +12,18 @@ import type { JobSettingKey, ModelLimitKey, StatedLimit } from '../../shared/cat
 import { parseQuantity } from '../../shared/calc/quantity';
 import { evaluateRule, makeLimitResolver, type LimitResolver, type RuleResult } from '../../shared/calc/rules';
 import type { FindingEventKind } from '../../shared/schemas/findings';
-import { DEFAULT_SEVERITY_DUE_DAYS, type StatedLimitDto } from '../../shared/schemas/setup';
+import type { StatedLimitDto } from '../../shared/schemas/setup';
+import { suggestedCompany } from '../../shared/rules/suggestedCompany';
 import type { Severity } from '../../shared/words';
 import { badRequest } from '../errors';
 import { FindingEvent, type CatalogueItem, type Job, type UnitModel } from '../models';
 
 // ---------------------------------------------------------------------------------------------
-// Dates
+// Dates: the rules live in shared/rules (the screens apply the same ones). Re-exported for the
+// server files that still import them from here (the levels board).
 
-/** Today's date (YYYY-MM-DD) in a time zone. */
-/** One formatter per time zone: making an Intl.DateTimeFormat costs far more than using one. */
-const dayFormats = new Map<string, Intl.DateTimeFormat>();
-export function todayIn(timeZone: string, now: Date = new Date()): string {
-  let format = dayFormats.get(timeZone);
-  if (!format) {
-    format = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
-    if (dayFormats.size < 1000) dayFormats.set(timeZone, format);
-  }
-  const parts = format.formatToParts(now);
-  const get = (t: string) => parts.find((p) => p.type === t)?.value ?? '';
-  return `${get('year')}-${get('month')}-${get('day')}`;
-}
-
-/** YYYY-MM-DD plus whole days (calendar arithmetic in UTC, no daylight-saving effects). */
-export function addDays(date: string, days: number): string {
-  const d = new Date(`${date}T00:00:00Z`);
-  d.setUTCDate(d.getUTCDate() + days);
-  return d.toISOString().slice(0, 10);
-}
-
-/**
- * Due date of a finding logged now: today in the job's time zone plus the job's days for the
- * severity (default critical 2, major 7, minor 14 days: common practice, set per job).
- */
-export function dueOnFor(job: Pick<Job, 'timeZone' | 'severityDueDays'>, severity: Severity, now: Date = new Date()): string {
-  const policy = { ...DEFAULT_SEVERITY_DUE_DAYS, ...(job.severityDueDays ?? {}) };
-  return addDays(todayIn(job.timeZone || 'UTC', now), policy[severity]);
-}
+export { addDays, todayIn } from '../../shared/rules/dates';
+export { dueOnFor } from '../../shared/rules/due';
 
 // ---------------------------------------------------------------------------------------------
 // Companies
@@ -58,20 +33,20 @@ export interface CompanyRef {
   name: string;
 }
 
-/** The job's company whose trades include `trade` (first by name), or null. */
+/** The job's company suggested for `trade` (shared/rules/suggestedCompany.ts, the form's rule too), or null. */
 export async function suggestCompany(
   sequelize: Sequelize,
   jobId: string,
   trade: string,
   transaction?: Transaction,
 ): Promise<CompanyRef | null> {
-  const rows = await sequelize.query<CompanyRef>(
-    `SELECT c.id, c.name FROM job_companies jc JOIN companies c ON c.id = jc.company_id
-      WHERE jc.job_id = $1 AND $2 = ANY (jc.trades)
-      ORDER BY c.name, c.id LIMIT 1`,
+  const rows = await sequelize.query<CompanyRef & { trades: string[] }>(
+    `SELECT c.id, c.name, jc.trades FROM job_companies jc JOIN companies c ON c.id = jc.company_id
+      WHERE jc.job_id = $1 AND $2 = ANY (jc.trades)`,
     { bind: [jobId, trade], type: QueryTypes.SELECT, transaction },
   );
-  return rows[0] ?? null;
+  const company = suggestedCompany(rows, trade);
+  return company ? { id: company.id, name: company.name } : null;
 }
 
 /** The company if it is on the job, else null. */

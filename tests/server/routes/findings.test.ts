@@ -9,7 +9,7 @@ import request from 'supertest';
 import sharp from 'sharp';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
-import { addDays, todayIn } from '../../../server/services/findings';
+import { addDays, todayIn } from '../../../shared/rules/dates';
 import { buildTestApp, csrfFor, signIn, type SignedIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser } from '../../support/factories';
