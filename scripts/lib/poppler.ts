@@ -1,5 +1,5 @@
 /**
- * PDF plans (issue 7) are drawn by poppler's pdftoppm and sized with pdfinfo (Debian package
+ * PDF plans are drawn by poppler's pdftoppm and sized with pdfinfo (Debian package
  * poppler-utils). Installed the same way as PostgreSQL and chromium when missing.
  */
 import { aptInstall, tryRun } from './run';

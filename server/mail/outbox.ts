@@ -2,8 +2,9 @@
  * The seam every mail goes through. `sendMail(msg)` never throws: it tries the SMTP transport,
  * retries 3 times with growing waits (in this process), and logs a failure that remains.
  * Callers send only after their transaction committed (`sendAfterCommit`), so a mail can never
- * make an API write fail or roll it back. Issue 8 replaces the in-process retries with a queue
- * kept in PostgreSQL behind this same function.
+ * make an API write fail or roll it back. The retries live in this process: a graceful stop waits
+ * for them (server/index.ts), a killed process loses them; a queue kept in PostgreSQL could take
+ * their place behind this same function without changing a caller.
  */
 import type { Transaction } from 'sequelize';
 import type { Transporter } from 'nodemailer';

@@ -1,7 +1,7 @@
 import type { QueryInterface } from 'sequelize';
 
 /**
- * Recurring-defect thresholds become { minUnits, minShare } (issue 7): a defect type is recurring
+ * Recurring-defect thresholds become { minUnits, minShare }: a defect type is recurring
  * when found on at least minUnits units and at least minShare of the checked units of the kinds
  * it applies to. Default 3 units and 10 %. Jobs still on the old default { minUnits: 5,
  * windowDays: 14 } take the new default; jobs with their own minUnits keep it and get

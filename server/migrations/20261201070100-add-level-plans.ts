@@ -1,7 +1,7 @@
 import { DataTypes, type QueryInterface } from 'sequelize';
 
 /**
- * A level's plan image (issue 7): at most one per level, stored in the object store under a
+ * A level's plan image: at most one per level, stored in the object store under a
  * server-made key (`plans/<level id>/<uuid>.png|jpg`), never the uploaded file name.
  * `plan_version` counts uploads (0 = never had one) and is the cache key of the image URL;
  * the level's own `version` is raised too, since the plan is part of the level record.

@@ -1,7 +1,7 @@
 import { DataTypes, type QueryInterface } from 'sequelize';
 
 /**
- * A unit's pin on its level's plan (issue 7), like findings.pin_x / pin_y: fractions of the
+ * A unit's pin on its level's plan, like findings.pin_x / pin_y: fractions of the
  * plan image's width and height (0..1), both set or both null.
  */
 export async function up({ context: qi }: { context: QueryInterface }) {

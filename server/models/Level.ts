@@ -7,7 +7,7 @@ export class Level extends Model<InferAttributes<Level>, InferCreationAttributes
   declare jobId: ForeignKey<Job['id']>;
   declare name: string;
   declare position: number;
-  /** The plan image (issue 7): all set, or all null when the level has no plan. */
+  /** The plan image: all set, or all null when the level has no plan. */
   declare planKey: CreationOptional<string | null>;
   declare planContentType: CreationOptional<'image/png' | 'image/jpeg' | null>;
   declare planSourceType: CreationOptional<'image/png' | 'image/jpeg' | 'application/pdf' | null>;

@@ -50,13 +50,13 @@ export function initModels(sequelize: Sequelize) {
   Photo.belongsTo(Job, { as: 'job', foreignKey: 'jobId' });
   Photo.belongsTo(User, { as: 'uploader', foreignKey: 'uploadedBy' });
 
-  // Walks, unit checks and findings (issue 4); queried mostly in SQL by server/services/findings.ts.
+  // Walks, unit checks and findings; queried mostly in SQL by server/services/findings.ts.
   Walk.initModel(sequelize);
   UnitCheck.initModel(sequelize);
   UnitCheckItem.initModel(sequelize);
   Finding.initModel(sequelize);
   FindingEvent.initModel(sequelize);
-  // Correction loop (issue 5).
+  // Correction loop: fixes and the re-inspections that accept or return them.
   Fix.initModel(sequelize);
 
   return { Company, User, Job, JobMember, AuthToken, Level, Space, SpaceLink, System, UnitModel, Unit, JobCompany, CatalogueItem, Photo };

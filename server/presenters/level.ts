@@ -15,7 +15,7 @@ export function presentLevel(level: Level, counts: { spaces: number; units: numb
   };
 }
 
-/** The level's plan metadata (issue 7), or null when it has none. */
+/** The level's plan metadata, or null when it has none. */
 export function presentLevelPlan(level: Level): LevelPlanDto | null {
   if (!level.planKey || !level.planContentType || !level.planWidth || !level.planHeight || !level.planUploadedAt) return null;
   return {

@@ -80,7 +80,7 @@ export async function seedDemo(db: Database): Promise<{ created: boolean }> {
     }
     const others = DEMO_JOBS.filter((j) => j.key !== 'main').map((j) => ids[j.key]!);
     const setupCreated = await seedDemoSetup(db, { main: ids.main!, others }, companies, transaction);
-    // Walks, unit checks and findings in every status with their histories (issue 5); only when the job has none.
+    // Walks, unit checks and findings in every status with their histories; only when the job has none.
     const userIds: Record<string, string> = {};
     for (const account of DEMO_ACCOUNTS) {
       const user = await User.findOne({ where: { email: account.email }, transaction });

@@ -1,5 +1,5 @@
 /**
- * Level plans (issue 7): one plan image per level, read from the bytes, normalised, stored,
+ * Level plans: one plan image per level, read from the bytes, normalised, stored,
  * served. The route is server/routes/plans.ts; the metadata lives on the `levels` row.
  *
  * Processing (`processPlan`):

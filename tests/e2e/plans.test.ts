@@ -1,5 +1,5 @@
 /**
- * Plans and pins in the browser (issue 7), at phone size (390 × 844) and on a wide screen
+ * Plans and pins in the browser, at phone size (390 × 844) and on a wide screen
  * (1280 × 800): the GC manager uploads a plan on a level of the demo job, opens a finding and
  * places it on the plan by tapping, reloads and still sees the pin (checked in the database
  * too, against where the tap landed), zooms with the buttons and the mouse wheel, and opens the

@@ -13,7 +13,7 @@ import { Bind, companyCond, num, select } from './common';
  * Daily counts of findings in status open and fix_submitted at the end of each day (job time
  * zone), for `days` days ending today. Rebuilt from finding_events: every event whose `to` has a
  * status moves the finding from `from.status` (null for 'logged') to `to.status`, as every write
- * path records them (routes/correction.ts, routes/findings.ts, the demo seed); the count at the
+ * path records them (the demo seed included); the count at the
  * end of a day is the running sum (window function) of those moves up to that day, and moves
  * before the first day all land on the first day.
  * The level and company are the finding's current ones. Null when `levelId` is not on the job.

@@ -30,6 +30,6 @@ export interface LevelDto {
   spaceCount: number;
   unitCount: number;
   version: number;
-  /** The level's plan image (issue 7; GET/POST/DELETE /levels/:levelId/plan), null when none. */
+  /** The level's plan image (GET/POST/DELETE /levels/:levelId/plan), null when none. */
   plan: LevelPlanDto | null;
 }

@@ -1,5 +1,5 @@
 /**
- * The GC's view (issue 7): GET /board, /readiness, /scorecards, /recurring, /trend.
+ * The GC's view: GET /board, /readiness, /scorecards, /recurring, /trend.
  *
  * 1. The seeded demo job: every cell of the board, every scorecard value, readiness, the
  *    recurring list and the trend are compared with numbers computed HERE, in plain JS, from rows

@@ -1,5 +1,5 @@
 /**
- * Level plans and pins (issue 7): upload PNG / JPEG / PDF (first page drawn by poppler's
+ * Level plans and pins: upload PNG / JPEG / PDF (first page drawn by poppler's
  * pdftoppm), refusals (wrong type 415, too large 413, not multipart 415, no file 400), roles
  * (403, other job 404), the served image's headers, replacement and deletion (objects removed),
  * and pins set and cleared on units and findings with If-Match.

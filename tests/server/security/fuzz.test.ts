@@ -1,5 +1,5 @@
 /**
- * Bad input (issue 9): generated bodies, queries and path ids sent to EVERY route (read from
+ * Bad input: generated bodies, queries and path ids sent to EVERY route (read from
  * the router) as every caller. For each answer: no 5xx, no stack trace or server path in the
  * body, and every 4xx is the JSON error envelope { error: { id, message } }. A snapshot of the
  * database (row count + a sum of 64-bit hashes of every row of each app table, sessions and idempotency keys left
