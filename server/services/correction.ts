@@ -5,76 +5,33 @@
  * parameters.
  */
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import type {
-  FixDto,
-  InboxGroup,
-  InboxItem,
-  InboxResponse,
-  PhotoDto,
-  ReinspectionQueueItem,
-  ReinspectionQueueResponse,
-} from '../../shared/schemas/findings';
-import { FROM_SQL, photoUrls, presentRow, selectSql, type FindingRow, type FindingScope } from './findingQueries';
-import { todayIn } from './findings';
+import type { FixDto, InboxGroup, InboxItem, InboxResponse, ReinspectionQueueItem, ReinspectionQueueResponse } from '../../shared/schemas/findings';
+import { todayIn } from '../../shared/rules/dates';
+import { presentFinding, type FindingRow } from '../presenters/finding';
+import { presentFix, type FixRow } from '../presenters/fix';
+import { presentPhoto, type PhotoRow } from '../presenters/photo';
+import { FROM_SQL, selectSql, type FindingScope } from './findingQueries';
 
 /** At most this many findings in one inbox answer (a company's active findings). */
 export const INBOX_MAX = 1000;
-
-interface PhotoRow {
-  id: string;
-  finding_id: string | null;
-  fix_id: string | null;
-  content_type: string;
-  width: number | null;
-  height: number | null;
-  byte_size: number | null;
-  uploaded_by: string | null;
-  uploader_name: string | null;
-  created_at: Date;
-}
-
-function presentPhoto(jobId: string, p: PhotoRow): PhotoDto {
-  return {
-    id: p.id,
-    ...photoUrls(jobId, p.id),
-    contentType: p.content_type,
-    width: p.width,
-    height: p.height,
-    bytes: p.byte_size,
-    fixId: p.fix_id,
-    uploadedBy: p.uploaded_by ? { id: p.uploaded_by, name: p.uploader_name ?? '' } : null,
-    createdAt: new Date(p.created_at).toISOString(),
-  };
-}
 
 const PHOTO_SELECT = `SELECT p.id, p.finding_id, p.fix_id, p.content_type, p.width, p.height, p.byte_size, p.uploaded_by,
          u.name AS uploader_name, p.created_at
     FROM photos p LEFT JOIN users u ON u.id = p.uploaded_by`;
 
-interface FixRow {
-  id: string;
-  finding_id: string;
-  note: string;
-  submitted_by: string;
-  submitter_name: string;
-  submitted_at: Date;
-}
-
 async function fixesWithPhotos(sequelize: Sequelize, jobId: string, rows: FixRow[], transaction?: Transaction): Promise<FixDto[]> {
   if (rows.length === 0) return [];
-  const photos = await sequelize.query<PhotoRow>(`${PHOTO_SELECT} WHERE p.job_id = $1 AND p.fix_id = ANY ($2::uuid[]) ORDER BY p.created_at, p.id`, {
+  const photos = await sequelize.query<PhotoRow & { finding_id: string | null }>(`${PHOTO_SELECT} WHERE p.job_id = $1 AND p.fix_id = ANY ($2::uuid[]) ORDER BY p.created_at, p.id`, {
     bind: [jobId, rows.map((r) => r.id)],
     type: QueryTypes.SELECT,
     transaction,
   });
-  return rows.map((r) => ({
-    id: r.id,
-    findingId: r.finding_id,
-    note: r.note,
-    submittedBy: { id: r.submitted_by, name: r.submitter_name },
-    submittedAt: new Date(r.submitted_at).toISOString(),
-    photos: photos.filter((p) => p.fix_id === r.id).map((p) => presentPhoto(jobId, p)),
-  }));
+  return rows.map((r) =>
+    presentFix(
+      r,
+      photos.filter((p) => p.fix_id === r.id).map((p) => presentPhoto(jobId, p)),
+    ),
+  );
 }
 
 /** One fix with its photos (the caller has already checked the finding is visible). */
@@ -86,6 +43,15 @@ export async function fixDto(sequelize: Sequelize, jobId: string, fixId: string,
   );
   const [fix] = await fixesWithPhotos(sequelize, jobId, rows, transaction);
   return fix ?? null;
+}
+
+/** True when the person is a subcontractor member of at least one job (the inbox is theirs). */
+export async function isSubcontractorAnywhere(sequelize: Sequelize, userId: string): Promise<boolean> {
+  const rows = await sequelize.query<{ n: number }>(`SELECT 1 AS n FROM job_members WHERE user_id = $1 AND role = 'subcontractor' LIMIT 1`, {
+    bind: [userId],
+    type: QueryTypes.SELECT,
+  });
+  return rows.length > 0;
 }
 
 type InboxRow = FindingRow & { job_id: string; job_name: string; last_return_reason: string | null; level_position: number };
@@ -117,7 +83,7 @@ export async function inbox(
     { bind, type: QueryTypes.SELECT },
   );
   const items: InboxItem[] = rows.map((r) => ({
-    ...presentRow(r.job_id, r),
+    ...presentFinding(r.job_id, r),
     jobId: r.job_id,
     jobName: r.job_name,
     lastReturnReason: r.return_count > 0 ? r.last_return_reason : null,
@@ -190,7 +156,7 @@ export async function reinspectionQueue(sequelize: Sequelize, scope: FindingScop
   const originals =
     ids.length === 0
       ? []
-      : await sequelize.query<PhotoRow>(`${PHOTO_SELECT} WHERE p.job_id = $1 AND p.finding_id = ANY ($2::uuid[]) ORDER BY p.created_at, p.id`, {
+      : await sequelize.query<PhotoRow & { finding_id: string | null }>(`${PHOTO_SELECT} WHERE p.job_id = $1 AND p.finding_id = ANY ($2::uuid[]) ORDER BY p.created_at, p.id`, {
           bind: [scope.jobId, ids],
           type: QueryTypes.SELECT,
         });
@@ -202,7 +168,7 @@ export async function reinspectionQueue(sequelize: Sequelize, scope: FindingScop
       levels.push(level);
     }
     const item: ReinspectionQueueItem = {
-      finding: presentRow(scope.jobId, r),
+      finding: presentFinding(scope.jobId, r),
       latestFix: fixes.find((x) => x.findingId === r.id) ?? null,
       originalPhotos: originals.filter((p) => p.finding_id === r.id).map((p) => presentPhoto(scope.jobId, p)),
     };

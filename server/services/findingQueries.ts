@@ -5,23 +5,24 @@
  * finding is simply not found. Request values only ever arrive as bound parameters.
  */
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import type { RuleResult } from '../../shared/calc/rules';
-import {
-  findingLabel,
-  type FindingDetail,
-  type FindingDto,
-  type FindingEventDto,
-  type FindingEventKind,
-  type FindingListQueryParsed,
-  type FindingListResponse,
-  type FindingSort,
-  type PhotoDto,
+import type {
+  FindingDetail,
+  FindingDto,
+  FindingEventKind,
+  FindingListQueryParsed,
+  FindingListResponse,
+  FindingSort,
 } from '../../shared/schemas/findings';
+import { todayIn } from '../../shared/rules/dates';
 import { FINDING_STATUSES, SEVERITIES, type FindingStatus, type Severity, type UnitKindKey } from '../../shared/words';
-import type { MeasuredRule } from '../../shared/catalogue/types';
+import { presentEvent } from '../presenters/event';
+import { presentFinding, presentFindingDetail, type FindingRow } from '../presenters/finding';
+import { presentPhoto, type PhotoRow } from '../presenters/photo';
 import type { CursorValueKind, ListOrder, PageRequest } from './paging';
 import { likeContains } from './records';
-import { SEVERITY_RANK_SQL, todayIn } from './findings';
+import { SEVERITY_RANK_SQL } from './findings';
+
+export type { FindingRow };
 
 /** Who is asking: the job, its time zone (for "overdue"), and for a subcontractor their company. */
 export interface FindingScope {
@@ -44,52 +45,7 @@ export interface FindingFilters {
   q?: string;
 }
 
-export interface FindingRow {
-  id: string;
-  number: number;
-  level_id: string;
-  level_name: string;
-  space_id: string | null;
-  space_name: string | null;
-  unit_id: string | null;
-  unit_tag: string | null;
-  unit_kind: UnitKindKey | null;
-  catalogue_item_id: string;
-  code: string;
-  title: string;
-  severity: Severity;
-  status: FindingStatus;
-  company_id: string;
-  company_name: string;
-  due_on: string;
-  overdue: boolean;
-  note: string;
-  measured_text: string | null;
-  measured_value: number | null;
-  rule_result: RuleResult | null;
-  return_count: number;
-  logged_by: string;
-  logged_by_name: string;
-  logged_at: Date;
-  walk_id: string | null;
-  pin_x: number | null;
-  pin_y: number | null;
-  voided_reason: string | null;
-  photo_count: string | number;
-  first_photo_id: string | null;
-  version: number;
-  sort_key: string | number;
-  description: string;
-  fix_guidance: string;
-  caution: string | null;
-  needs_ceiling_access: boolean;
-  measured_rule: MeasuredRule | null;
-}
 
-export function photoUrls(jobId: string, photoId: string): { url: string; thumbUrl: string } {
-  const url = `/api/jobs/${jobId}/photos/${photoId}`;
-  return { url, thumbUrl: `${url}/thumb` };
-}
 
 /** `value`: what the sort key is, so paging checks a cursor's value before the `cast` sees it. */
 const SORTS: Record<FindingSort, { expr: string; key: string; desc: boolean; cast: string; value: CursorValueKind }> = {
@@ -247,43 +203,6 @@ export function whereSql(p: Params, scope: FindingScope, filters: FindingFilters
   return conds.join(' AND ');
 }
 
-export function presentRow(jobId: string, row: FindingRow): FindingDto {
-  return {
-    id: row.id,
-    number: row.number,
-    label: findingLabel(row.number),
-    levelId: row.level_id,
-    levelName: row.level_name,
-    spaceId: row.space_id,
-    spaceName: row.space_name,
-    unitId: row.unit_id,
-    unitTag: row.unit_tag,
-    unitKind: row.unit_kind,
-    catalogueItemId: row.catalogue_item_id,
-    code: row.code,
-    title: row.title,
-    severity: row.severity,
-    status: row.status,
-    companyId: row.company_id,
-    companyName: row.company_name,
-    dueOn: row.due_on,
-    overdue: Boolean(row.overdue),
-    note: row.note,
-    measuredText: row.measured_text,
-    measuredValue: row.measured_value,
-    ruleResult: row.rule_result,
-    returnCount: row.return_count,
-    loggedBy: { id: row.logged_by, name: row.logged_by_name },
-    loggedAt: new Date(row.logged_at).toISOString(),
-    walkId: row.walk_id,
-    pinX: row.pin_x,
-    pinY: row.pin_y,
-    voidedReason: row.voided_reason,
-    photoCount: Number(row.photo_count),
-    thumbUrl: row.first_photo_id ? photoUrls(jobId, row.first_photo_id).thumbUrl : null,
-    version: row.version,
-  };
-}
 
 export async function listFindings(
   sequelize: Sequelize,
@@ -354,24 +273,13 @@ export async function listFindings(
   }
 
   return {
-    items: rows.map((r) => presentRow(scope.jobId, r)),
+    items: rows.map((r) => presentFinding(scope.jobId, r)),
     nextCursor,
     total: totalCount,
     counts: { byStatus, bySeverity },
   };
 }
 
-interface PhotoRow {
-  id: string;
-  content_type: string;
-  width: number | null;
-  height: number | null;
-  byte_size: number | null;
-  fix_id: string | null;
-  uploaded_by: string | null;
-  uploader_name: string | null;
-  created_at: Date;
-}
 
 interface EventRow {
   id: string;
@@ -415,40 +323,12 @@ export async function findingDetail(
       ORDER BY e.at, e.id`,
     { bind: [scope.jobId, row.id], type: QueryTypes.SELECT, transaction },
   );
-  const photoDtos: PhotoDto[] = photos.map((p) => ({
-    id: p.id,
-    ...photoUrls(scope.jobId, p.id),
-    contentType: p.content_type,
-    width: p.width,
-    height: p.height,
-    bytes: p.byte_size,
-    fixId: p.fix_id,
-    uploadedBy: p.uploaded_by ? { id: p.uploaded_by, name: p.uploader_name ?? '' } : null,
-    createdAt: new Date(p.created_at).toISOString(),
-  }));
-  const eventDtos: FindingEventDto[] = events.map((e) => ({
-    id: e.id,
-    kind: e.kind,
-    actor: { id: e.actor_id, name: e.actor_name },
-    at: new Date(e.at).toISOString(),
-    from: e.from,
-    to: e.to,
-    reason: e.reason,
-    photoIds: e.photo_ids ?? [],
-  }));
-  return {
-    ...presentRow(scope.jobId, row),
-    photos: photoDtos,
-    events: eventDtos,
-    catalogue: {
-      description: row.description,
-      fixGuidance: row.fix_guidance,
-      caution: row.caution,
-      needsCeilingAccess: row.needs_ceiling_access,
-      quantity: row.measured_rule?.quantity ?? null,
-      measure: row.measured_rule?.measure ?? null,
-    },
-  };
+  return presentFindingDetail(
+    scope.jobId,
+    row,
+    photos.map((p) => presentPhoto(scope.jobId, p)),
+    events.map((e) => presentEvent({ ...e, photoIds: e.photo_ids }, { id: e.actor_id, name: e.actor_name })),
+  );
 }
 
 export interface VisiblePhoto {
@@ -492,6 +372,6 @@ export async function findingsByIds(
     type: QueryTypes.SELECT,
     transaction,
   });
-  const byId = new Map(rows.map((r) => [r.id, presentRow(scope.jobId, r)]));
+  const byId = new Map(rows.map((r) => [r.id, presentFinding(scope.jobId, r)]));
   return ids.flatMap((id) => byId.get(id) ?? []);
 }
