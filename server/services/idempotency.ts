@@ -16,6 +16,8 @@ import { QueryTypes, type Transaction } from 'sequelize';
 import { badRequest, conflict, unprocessable } from '../errors';
 import { uploadDigests } from '../middleware/upload';
 import { faultPause } from '../testing/faultHooks';
+import { pendingUploads } from './pendingUploads';
+import { discardStoredPhotos, keysOf, withStoredPhotos, type ProcessedPhoto, type StoredPhoto } from './photos';
 
 export const IDEMPOTENCY_RETENTION_DAYS = 7;
 const KEY_PATTERN = /^[A-Za-z0-9._:-]{8,100}$/;
@@ -88,6 +90,97 @@ export async function idempotentWrite(
   if (result.replay) res.set('Idempotent-Replayed', 'true');
   if (result.body === undefined || result.body === null) res.status(result.status).end();
   else res.status(result.status).json(result.body);
+}
+
+/**
+ * True when this user already holds a finished answer under the request's Idempotency-Key.
+ * Upload routes ask before reading the body: a retry of an answered upload goes straight to its
+ * replay instead of being refused by a check that the first request's own write now fails.
+ */
+export async function alreadyAnswered(req: Request): Promise<boolean> {
+  const key = req.get('idempotency-key');
+  if (!key || !req.user || !KEY_PATTERN.test(key)) return false;
+  const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
+  const rows = await sequelize.query<{ n: number }>(
+    `SELECT 1 AS n FROM idempotency_keys WHERE user_id = $1 AND key = $2 AND response_status <> 0`,
+    { bind: [req.user.id, key], type: QueryTypes.SELECT },
+  );
+  return rows.length > 0;
+}
+
+/**
+ * Replays the stored answer of an already answered request (same checks as idempotentWrite: a
+ * different body or file under the key is a 422) and returns true; false when there is none,
+ * so the caller goes on to do the work (process, store) only for a request not yet answered.
+ */
+export async function replayIfAnswered(req: Request, res: Response): Promise<boolean> {
+  if (!(await alreadyAnswered(req))) return false;
+  await idempotentWrite(req, res, async () => {
+    throw badRequest('This request was already answered.');
+  });
+  return true;
+}
+
+/** True when this user already holds a finished answer under the request's Idempotency-Key. */
+export async function hasStoredAnswer(req: Request): Promise<boolean> {
+  const key = req.get('idempotency-key');
+  if (!key || !req.user) return false;
+  const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
+  const rows = await sequelize.query<{ n: number }>(`SELECT 1 AS n FROM idempotency_keys WHERE user_id = $1 AND key = $2 AND response_status <> 0`, {
+    bind: [req.user.id, key],
+    type: QueryTypes.SELECT,
+  });
+  return rows.length > 0;
+}
+
+/**
+ * A retry of a request that already succeeded: replays its answer (or 422 when the key was used
+ * for another request) before anything is checked, read or stored again, and returns true. An
+ * upload route calls it first: the retry's finding has moved on since the first answer, and its
+ * photos must not be stored twice.
+ */
+export async function replayStoredAnswer(req: Request, res: Response): Promise<boolean> {
+  if (!(await hasStoredAnswer(req))) return false;
+  await idempotentWrite(req, res, async () => {
+    throw badRequest('This request was already answered.');
+  });
+  return true;
+}
+
+export interface PhotoWriteOptions {
+  store: import('../storage/types').ObjectStore;
+  /** The request's photos, read and re-encoded (services/photos.ts processPhotos). */
+  processed: readonly ProcessedPhoto[];
+  log?: (message: string, err?: unknown) => void;
+  /** For the log: whose photos a replay discarded ("of a replayed fix"). */
+  what: string;
+}
+
+/**
+ * idempotentWrite for a write with photos: the photos are stored first (withStoredPhotos: deleted
+ * again if the write fails), then `work` runs in the write's transaction and must claim them. When
+ * the write lost a race with an identical retry, the first request's answer was replayed and the
+ * photos stored by this one are referenced by nothing: they are deleted.
+ */
+export async function idempotentPhotoWrite(
+  req: Request,
+  res: Response,
+  options: PhotoWriteOptions,
+  work: (transaction: Transaction, photos: { stored: StoredPhoto[]; claim: (transaction: Transaction) => Promise<void> }) => Promise<WriteResult>,
+): Promise<void> {
+  const { store, processed, log, what } = options;
+  const pending = pendingUploads(req.app.get('sequelize') as import('sequelize').Sequelize);
+  await withStoredPhotos(
+    store,
+    processed,
+    async (stored, claim) => {
+      await idempotentWrite(req, res, (transaction) => work(transaction, { stored, claim }));
+      if (res.get('Idempotent-Replayed') === 'true' && stored.length > 0) {
+        await discardStoredPhotos(store, keysOf(stored), { pending, log }, what);
+      }
+    },
+    { pending, log },
+  );
 }
 
 /** Deletes keys past their retention; run by the scheduler. */
