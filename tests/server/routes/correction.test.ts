@@ -432,6 +432,25 @@ describe('PATCH /findings/:findingId', () => {
     const r3 = await patch(gc, w, f, { void: { reason: 'Duplicate of another finding.' } }, v(3)).expect(200);
     expect(r3.body).toMatchObject({ status: 'voided', voidedReason: 'Duplicate of another finding.', version: 4 });
   });
+
+  it('a pin is placed in any status but voided: a voided finding answers 409 and keeps its pin and version', async () => {
+    const w = await buildWalkJob(people);
+    for (const status of ['open', 'fix_submitted', 'closed'] as const) {
+      const f = await insertFinding(w, { status });
+      const res = await patch(inspector, w, f, { pin: { x: 0.25, y: 0.75 } }).expect(200);
+      expect(res.body).toMatchObject({ status, pinX: 0.25, pinY: 0.75, version: 2 });
+    }
+    const voided = await insertFinding(w, { status: 'voided' });
+    for (const who of [gc, inspector]) {
+      const refused = await patch(who, w, voided, { pin: { x: 0.5, y: 0.5 } }).expect(409);
+      expect(refused.body.error).toMatchObject({ id: 'invalid_transition', message: 'This finding is voided; it cannot be placed on the plan.' });
+    }
+    // Role first (403), then If-Match (412), then the status (409), as for every change.
+    await patch(subA, w, voided, { pin: null }).expect(403);
+    await patch(gc, w, voided, { pin: null }, v(7)).expect(412);
+    const row = await Finding.findByPk(voided.id);
+    expect([row!.pinX, row!.pinY, row!.version]).toEqual([null, null, 1]);
+  });
 });
 
 // ---------------------------------------------------------------------------------------------
@@ -528,6 +547,21 @@ describe('POST /findings/bulk', () => {
     expect(await countRows(w.job.id)).toEqual(before);
     expect((await Finding.findByPk(a.id))!.dueOn).toBe('2026-12-08');
     expect((await Finding.findByPk(elsewhere.id))!.version).toBe(1);
+  });
+
+  it('runs the single-finding steps: a due date each with its event; a finding already as asked is left as it is', async () => {
+    const w = await buildWalkJob(people);
+    const same = await insertFinding(w, { dueOn: '2027-03-01' });
+    const moved = await insertFinding(w, { dueOn: '2027-01-15' });
+    const res = await bulk(gc, w, { findingIds: [same.id, moved.id], change: { dueOn: { to: '2027-03-01', reason: 'Ceiling closes later.' } } }).expect(200);
+    expect(res.body.items.map((i: { id: string; dueOn: string; version: number }) => [i.id, i.dueOn, i.version])).toEqual([
+      [same.id, '2027-03-01', 1],
+      [moved.id, '2027-03-01', 2],
+    ]);
+    const events = await patch(gc, w, moved, { pin: null }, v(2)).expect(200);
+    expect(events.body.events.at(-1)).toMatchObject({ kind: 'due_changed', from: { dueOn: '2027-01-15' }, to: { dueOn: '2027-03-01' }, reason: 'Ceiling closes later.' });
+    const [rows] = await db.sequelize.query(`SELECT count(*)::int AS n FROM finding_events WHERE finding_id = '${same.id}' AND kind = 'due_changed'`);
+    expect((rows as Array<{ n: number }>)[0]!.n).toBe(0);
   });
 });
 
