@@ -4,7 +4,7 @@
  * imported in one transaction only when no row is bad: never half an import.
  */
 import { parse } from 'csv-parse/sync';
-import type { Transaction } from 'sequelize';
+import { UniqueConstraintError, type Transaction } from 'sequelize';
 import { parseQuantity, unitKind } from '../../shared/calc/quantity';
 import {
   IMPORT_MAX_ROWS,
@@ -15,9 +15,12 @@ import {
   type UnitImportPreviewRow,
   type UnitImportReport,
   type UnitImportRowError,
+  unitImportQuerySchema,
+  unitImportSchema,
 } from '../../shared/schemas/setup';
 import { UNIT_KINDS, type UnitKindKey } from '../../shared/words';
 import { badRequest, payloadTooLarge } from '../errors';
+import { zodFieldErrors } from '../middleware/validate';
 import { Level, Space, System, Unit, UnitModel } from '../models';
 import { kindLabel } from './units';
 
@@ -81,6 +84,40 @@ export interface ImportOptions {
   text: string;
   mapping?: Record<string, UnitImportField>;
   dryRun: boolean;
+}
+
+/**
+ * The import's request in either form: text/csv bytes (options in the query) or JSON
+ * { csv, mapping, dryRun }. Both are checked with their shared schema; the first issue is the 400.
+ */
+export function importRequestOf(body: unknown, query: unknown): ImportOptions {
+  if (Buffer.isBuffer(body)) {
+    const parsed = unitImportQuerySchema.safeParse(query);
+    if (!parsed.success) throw firstIssue(zodFieldErrors(parsed.error, 'query'));
+    return { text: decodeCsv(body), mapping: undefined, dryRun: parsed.data.dryRun ?? false };
+  }
+  const parsed = unitImportSchema.safeParse(body ?? {});
+  if (!parsed.success) throw firstIssue(zodFieldErrors(parsed.error));
+  return { text: parsed.data.csv, mapping: parsed.data.mapping, dryRun: parsed.data.dryRun ?? false };
+}
+
+function firstIssue(fields: Record<string, string>) {
+  const first = Object.entries(fields)[0]!;
+  return badRequest(`${first[0]}: ${first[1]}`, fields);
+}
+
+/** importUnits, where a tag taken meanwhile (another import, a unit added) is a 400 and nothing is imported. */
+export async function importUnitsOrRefuse(jobId: string, options: ImportOptions, transaction: Transaction): Promise<UnitImportReport> {
+  try {
+    return await importUnits(jobId, options, transaction);
+  } catch (err) {
+    if (err instanceof UniqueConstraintError) {
+      throw badRequest('A tag in the file was taken while importing; nothing was imported. Run the import again to see which.', {
+        csv: 'Tag taken meanwhile.',
+      });
+    }
+    throw err;
+  }
 }
 
 export async function importUnits(jobId: string, options: ImportOptions, transaction: Transaction): Promise<UnitImportReport> {

@@ -1,8 +1,16 @@
-/** Checks that a unit's level, space, system and model belong to the job and fit together. */
-import type { Transaction } from 'sequelize';
+/**
+ * Units of a job: the register's reads and the writes of routes/units.ts, and the checks that a
+ * unit's level, space, system and model belong to the job and fit together.
+ */
+import { Op, UniqueConstraintError, type Transaction } from 'sequelize';
+import type { CreateUnitInput, UnitDto, UpdateUnitInput } from '../../shared/schemas/setup';
 import { UNIT_KINDS, type UnitKindKey } from '../../shared/words';
-import { badRequest, conflict } from '../errors';
+import { badRequest, conflict, notFound } from '../errors';
 import { Level, Space, System, Unit, UnitModel } from '../models';
+import { presentUnit } from '../presenters/unit';
+import { afterCursor, finishPage, type PageRequest } from './paging';
+import { optionalQuantity } from './quantities';
+import { destroyOrConflict, likeContains, lockVersioned, type SetupWrite } from './records';
 
 export const UNIT_INCLUDES = [
   { model: Level, as: 'level' },
@@ -60,4 +68,115 @@ export async function checkUnitRefs(
 export async function tagTaken(jobId: string, tag: string, exceptId: string | null, transaction: Transaction): Promise<boolean> {
   const other = await Unit.findOne({ where: { jobId, tag }, attributes: ['id'], transaction });
   return other !== null && other.id !== exceptId;
+}
+
+/** A unit of the job with its level, space, system and model, or 404. */
+export async function loadUnit(jobId: string, unitId: string, transaction?: Transaction): Promise<Unit> {
+  const unit = await Unit.findOne({ where: { id: unitId, jobId }, include: UNIT_INCLUDES, transaction });
+  if (!unit) throw notFound('Unit not found.');
+  return unit;
+}
+
+export interface UnitListFilters {
+  levelId?: string;
+  spaceId?: string;
+  systemId?: string;
+  kind?: UnitKindKey;
+  q?: string;
+}
+
+/** The register's filters as a where: one for the list and for units.csv. */
+function unitWhere(jobId: string, query: UnitListFilters) {
+  return {
+    jobId,
+    ...(query.levelId ? { levelId: query.levelId } : {}),
+    ...(query.spaceId ? { spaceId: query.spaceId } : {}),
+    ...(query.systemId ? { systemId: query.systemId } : {}),
+    ...(query.kind ? { kind: query.kind } : {}),
+    ...(query.q ? { tag: { [Op.iLike]: likeContains(query.q) } } : {}),
+  };
+}
+
+export async function listUnits(jobId: string, filters: UnitListFilters, page: PageRequest): Promise<{ items: UnitDto[]; nextCursor: string | null }> {
+  const rows = await Unit.findAll({
+    where: { ...unitWhere(jobId, filters), ...afterCursor('tag', page) },
+    include: UNIT_LIST_INCLUDES,
+    order: [['tag', 'ASC'], ['id', 'ASC']],
+    limit: page.limit + 1,
+    raw: true,
+    nest: true,
+  });
+  const { rows: units, nextCursor } = finishPage(rows, page, (u) => u.tag);
+  return { items: units.map(presentUnit), nextCursor };
+}
+
+/** Every unit the register's filters match (units.csv), with its names loaded. */
+export async function unitsForExport(jobId: string, filters: UnitListFilters): Promise<Unit[]> {
+  return Unit.findAll({ where: unitWhere(jobId, filters), include: UNIT_INCLUDES, order: [['tag', 'ASC'], ['id', 'ASC']] });
+}
+
+export async function createUnit({ transaction, jobId }: SetupWrite, input: CreateUnitInput): Promise<Unit> {
+  const capacity = optionalQuantity(input.capacity, 'capacity', 'capacity') ?? null;
+  const refs = {
+    kind: input.kind,
+    levelId: input.levelId,
+    spaceId: input.spaceId ?? null,
+    systemId: input.systemId ?? null,
+    modelId: input.modelId ?? null,
+  };
+  try {
+    await checkUnitRefs(jobId, refs, transaction);
+    if (await tagTaken(jobId, input.tag, null, transaction)) throw duplicateTag(input.tag);
+    const created = await Unit.create({ jobId, tag: input.tag, capacity, ...refs }, { transaction });
+    return await loadUnit(jobId, created.id, transaction);
+  } catch (err) {
+    if (err instanceof UniqueConstraintError) throw duplicateTag(input.tag);
+    throw err;
+  }
+}
+
+/** Changes a unit (If-Match); moving it to another level clears its plan pin. */
+export async function changeUnit({ transaction, jobId, ifMatch }: SetupWrite, unitId: string, input: UpdateUnitInput): Promise<Unit> {
+  const capacity = optionalQuantity(input.capacity, 'capacity', 'capacity');
+  try {
+    const present = async (u: Unit) => presentUnit(await loadUnit(jobId, u.id, transaction));
+    const unit = await lockVersioned(Unit, { id: unitId, jobId }, transaction, 'Unit not found.', ifMatch, present);
+    if (input.tag !== undefined && input.tag !== unit.tag) {
+      if (await tagTaken(jobId, input.tag, unit.id, transaction)) throw duplicateTag(input.tag);
+      unit.tag = input.tag;
+    }
+    if (input.kind !== undefined) unit.kind = input.kind;
+    if (input.levelId !== undefined && input.levelId !== unit.levelId) {
+      unit.levelId = input.levelId;
+      // The pin was on the old level's plan: it means nothing on another level's.
+      unit.pinX = null;
+      unit.pinY = null;
+    }
+    if (input.pinX !== undefined && input.pinY !== undefined) {
+      unit.pinX = input.pinX;
+      unit.pinY = input.pinY;
+    }
+    if (input.spaceId !== undefined) unit.spaceId = input.spaceId;
+    if (input.systemId !== undefined) unit.systemId = input.systemId;
+    if (input.modelId !== undefined) unit.modelId = input.modelId;
+    if (capacity !== undefined) unit.capacity = capacity;
+    await checkUnitRefs(
+      jobId,
+      { kind: unit.kind, levelId: unit.levelId, spaceId: unit.spaceId, systemId: unit.systemId, modelId: unit.modelId },
+      transaction,
+    );
+    unit.version += 1;
+    await unit.save({ transaction });
+    return await loadUnit(jobId, unit.id, transaction);
+  } catch (err) {
+    if (err instanceof UniqueConstraintError && input.tag) throw duplicateTag(input.tag);
+    throw err;
+  }
+}
+
+export async function deleteUnit({ transaction, jobId, ifMatch }: SetupWrite, unitId: string): Promise<void> {
+  const unit = await lockVersioned(Unit, { id: unitId, jobId }, transaction, 'Unit not found.', ifMatch, async (u) =>
+    presentUnit(await loadUnit(jobId, u.id, transaction)),
+  );
+  await destroyOrConflict(unit, transaction, `Unit ${unit.tag}`);
 }
