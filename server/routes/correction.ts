@@ -44,7 +44,7 @@ import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
 import { inbox, isSubcontractorAnywhere, reinspectionQueue } from '../services/correction';
 import { findingDetail } from '../services/findingQueries';
-import { hasStoredAnswer, idempotentPhotoWrite, idempotentWrite, replayStoredAnswer } from '../services/idempotency';
+import { alreadyAnswered, idempotentPhotoWrite, idempotentWrite, replayIfAnswered } from '../services/idempotency';
 import { processPhotos } from '../services/photos';
 import { sequelizeOf } from '../services/records';
 import { setEtag } from '../services/versioning';
@@ -81,7 +81,7 @@ const fixUpload = (tempRoot: string) =>
  * replayed (or refused with 422) as before: its finding has moved on since the first answer.
  */
 async function fixTarget(req: Request, _res: Response, next: NextFunction) {
-  if (await hasStoredAnswer(req)) return next();
+  if (await alreadyAnswered(req)) return next();
   await checkFixTarget(contextOf(req), valid<FindingParams>(req.valid.params).findingId);
   next();
 }
@@ -111,7 +111,7 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
     async (req, res) => {
       const { findingId } = valid<FindingParams>(req.valid.params);
       const body = valid<SubmitFixBody>(req.valid.body);
-      if (await replayStoredAnswer(req, res)) return;
+      if (await replayIfAnswered(req, res)) return;
       const ctx = contextOf(req);
       // Visible (404), role (403) and status (409) were checked before the body was read (fixTarget).
       const processed = await processPhotos(uploadedFiles(req), { charge: (pixels) => uploads.chargePixels(ctx.actor.id, pixels) });

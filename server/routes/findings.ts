@@ -32,7 +32,7 @@ import { createUploadGuard, photosWithJsonData, uploadedFiles, type UploadGuard 
 import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
 import { findingDetail, findingFiltersOf, findingListOrder, listFindings, visiblePhoto } from '../services/findingQueries';
-import { idempotentPhotoWrite, replayStoredAnswer } from '../services/idempotency';
+import { idempotentPhotoWrite, replayIfAnswered } from '../services/idempotency';
 import { pageRequest } from '../services/paging';
 import { processPhotos, sendPhoto } from '../services/photos';
 import { sequelizeOf } from '../services/records';
@@ -72,7 +72,7 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
   router.post('/jobs/:jobId/findings', policy.jobMember(WRITE_ROLES), uploads.rate, multipartOrJson, validate({ body: createFindingSchema }), async (req, res) => {
     const body = valid<CreateFindingBody>(req.valid.body);
     // A retry of a request that already succeeded: replay its answer, store nothing.
-    if (await replayStoredAnswer(req, res)) return;
+    if (await replayIfAnswered(req, res)) return;
     const ctx = contextOf(req);
     // Everything that can be refused is refused before any photo is stored.
     const checked = await checkNewFinding(ctx, req.membership!.job, body);

@@ -121,32 +121,6 @@ export async function replayIfAnswered(req: Request, res: Response): Promise<boo
   return true;
 }
 
-/** True when this user already holds a finished answer under the request's Idempotency-Key. */
-export async function hasStoredAnswer(req: Request): Promise<boolean> {
-  const key = req.get('idempotency-key');
-  if (!key || !req.user) return false;
-  const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
-  const rows = await sequelize.query<{ n: number }>(`SELECT 1 AS n FROM idempotency_keys WHERE user_id = $1 AND key = $2 AND response_status <> 0`, {
-    bind: [req.user.id, key],
-    type: QueryTypes.SELECT,
-  });
-  return rows.length > 0;
-}
-
-/**
- * A retry of a request that already succeeded: replays its answer (or 422 when the key was used
- * for another request) before anything is checked, read or stored again, and returns true. An
- * upload route calls it first: the retry's finding has moved on since the first answer, and its
- * photos must not be stored twice.
- */
-export async function replayStoredAnswer(req: Request, res: Response): Promise<boolean> {
-  if (!(await hasStoredAnswer(req))) return false;
-  await idempotentWrite(req, res, async () => {
-    throw badRequest('This request was already answered.');
-  });
-  return true;
-}
-
 export interface PhotoWriteOptions {
   store: import('../storage/types').ObjectStore;
   /** The request's photos, read and re-encoded (services/photos.ts processPhotos). */
