@@ -1,19 +1,39 @@
-import { useEffect, useState } from 'react';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useEffect, useRef, useState } from 'react';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { REASON_MAX, bulkChangeSchema, type BulkChangeInput, type FindingDto } from '../../shared/schemas/findings';
+import { REASON_MAX, bulkChangeSchema, type BulkChangeInput, type BulkChangeParsed, type FindingDto } from '../../shared/schemas/findings';
 import type { JobCompanyDto } from '../../shared/schemas/setup';
 import { ApiError } from '../api/client';
 import { bulkChangeWrite, useBulkChangeMutation } from '../queries/correction';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
+import { FormSelect, FormText, setServerFieldErrors } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
 import { Segmented } from '../ui/Segmented';
-import { Select } from '../ui/Select';
-import { TextField } from '../ui/TextField';
 import { ActionWrite } from './rules';
 
 type Kind = 'reassign' | 'due';
+
+interface Typed {
+  companyId?: string;
+  dueOn: string;
+  reason: string;
+}
+
+/** The change for all, filled with what was typed (kept while switching between the two). */
+function changeFor(kind: Kind, t: Typed): BulkChangeInput['change'] {
+  return kind === 'reassign' ? { reassign: { companyId: t.companyId as string, reason: t.reason } } : { dueOn: { to: t.dueOn, reason: t.reason } };
+}
+
+function typedFrom(change: BulkChangeInput['change'], before: Typed): Typed {
+  return {
+    companyId: change.reassign ? change.reassign.companyId : before.companyId,
+    dueOn: change.dueOn?.to ?? before.dueOn,
+    reason: change.reassign?.reason ?? change.dueOn?.reason ?? before.reason,
+  };
+}
 
 /** The ids a refusal names (fields.findingIds, comma-separated). */
 export function refusedIds(err: unknown): string[] {
@@ -45,54 +65,64 @@ export function BulkBar({
   const bulk = useBulkChangeMutation(jobId);
   const [slot] = useState(() => new ActionWrite());
   const [kind, setKind] = useState<Kind>('reassign');
-  const [companyId, setCompanyId] = useState('');
-  const [dueOn, setDueOn] = useState('');
-  const [reason, setReason] = useState('');
-  const [errors, setErrors] = useState<Record<string, string>>({});
   const [refusal, setRefusal] = useState<{ message: string; labels: string[] } | null>(null);
   const [done, setDone] = useState<string | null>(null);
+  const typed = useRef<Typed>({ dueOn: '', reason: '' });
+  const { control, handleSubmit, setValue, getValues, setError, reset, watch } = useForm<BulkChangeInput, unknown, BulkChangeParsed>({
+    resolver: zodResolver(bulkChangeSchema),
+    defaultValues: { findingIds: [...selected], change: changeFor('reassign', typed.current) },
+  });
+  // Any change of the content (another selection included) makes a new write.
+  useEffect(() => {
+    const sub = watch(() => slot.settled());
+    return () => sub.unsubscribe();
+  }, [watch, slot]);
   const byId = new Map(rows.map((r) => [r.id, r]));
   const anySelected = selected.length > 0;
+  const selection = selected.join(',');
   // A new selection starts a new change: the last result no longer applies.
   useEffect(() => {
     if (anySelected) setDone(null);
     else setRefusal(null);
   }, [anySelected]);
+  useEffect(() => {
+    if (getValues('findingIds').join(',') !== selection) setValue('findingIds', selection ? selection.split(',') : []);
+  }, [selection, getValues, setValue]);
 
-  function apply() {
+  function choose(next: Kind) {
+    typed.current = typedFrom(getValues('change'), typed.current);
+    setKind(next);
+    reset({ findingIds: getValues('findingIds'), change: changeFor(next, typed.current) });
+  }
+
+  const apply = handleSubmit(({ findingIds, change }) => {
+      const t = typedFrom(change, typed.current);
+      const input: BulkChangeInput = {
+        findingIds,
+        change: kind === 'reassign' ? { reassign: { companyId: t.companyId as string, reason: t.reason } } : { dueOn: { to: t.dueOn, reason: t.reason || undefined } },
+      };
+      const w = slot.take(() => bulkChangeWrite(jobId, input));
+      bulk.mutate(w, {
+        onSuccess: (res) => {
+          slot.settled();
+          setDone(`${res.items.length} finding${res.items.length === 1 ? '' : 's'} ${kind === 'reassign' ? 'reassigned' : 'given the new due date'}.`);
+          typed.current = { ...t, reason: '' };
+          reset({ findingIds: getValues('findingIds'), change: changeFor(kind, typed.current) });
+          onClear();
+        },
+        onError: (err) => {
+          slot.settled(err);
+          setServerFieldErrors(err, setError, ['change.reassign.companyId', 'change.reassign.reason', 'change.dueOn.to', 'change.dueOn.reason']);
+          const labels = refusedIds(err).map((id) => byId.get(id)?.label ?? id);
+          setRefusal({ message: err.message, labels });
+        },
+      });
+  });
+  const press = () => {
     setRefusal(null);
     setDone(null);
-    const r = reason.trim();
-    const input: BulkChangeInput = {
-      findingIds: [...selected],
-      change: kind === 'reassign' ? { reassign: { companyId, reason: r } } : { dueOn: { to: dueOn.trim(), reason: r || undefined } },
-    };
-    const parsed = bulkChangeSchema.safeParse(input);
-    if (!parsed.success) {
-      const next: Record<string, string> = {};
-      for (const i of parsed.error.issues) {
-        const key = String(i.path[i.path.length - 1] ?? 'form');
-        if (!next[key]) next[key] = i.message;
-      }
-      setErrors(next);
-      return;
-    }
-    setErrors({});
-    const w = slot.take(() => bulkChangeWrite(jobId, input));
-    bulk.mutate(w, {
-      onSuccess: (res) => {
-        slot.settled();
-        setDone(`${res.items.length} finding${res.items.length === 1 ? '' : 's'} ${kind === 'reassign' ? 'reassigned' : 'given the new due date'}.`);
-        setReason('');
-        onClear();
-      },
-      onError: (err) => {
-        slot.settled(err);
-        const labels = refusedIds(err).map((id) => byId.get(id)?.label ?? id);
-        setRefusal({ message: err.message, labels });
-      },
-    });
-  }
+    void apply();
+  };
 
   if (selected.length === 0) {
     return (
@@ -125,52 +155,31 @@ export function BulkBar({
               { value: 'reassign', label: 'Reassign' },
               { value: 'due', label: 'Due date' },
             ]}
-            onChange={(k) => {
-              slot.settled();
-              setKind(k);
-              setErrors({});
-            }}
+            onChange={choose}
             testID={`${testID}-kind`}
           />
         </View>
         <View style={styles.field}>
           {kind === 'reassign' ? (
-            <Select
+            <FormSelect
+              control={control}
+              name="change.reassign.companyId"
               label="To company"
-              value={companyId}
               placeholder="Choose a company"
               options={companies.map((c) => ({ value: c.id, label: c.name }))}
-              onChange={(v) => {
-                slot.settled();
-                setCompanyId(v);
-              }}
-              error={errors.companyId}
               testID={`${testID}-company`}
             />
           ) : (
-            <TextField
-              label="Due on (YYYY-MM-DD)"
-              value={dueOn}
-              onChangeText={(t) => {
-                slot.settled();
-                setDueOn(t);
-              }}
-              autoCapitalize="none"
-              error={errors.to}
-              testID={`${testID}-due`}
-            />
+            <FormText control={control} name="change.dueOn.to" label="Due on (YYYY-MM-DD)" autoCapitalize="none" testID={`${testID}-due`} />
           )}
         </View>
         <View style={styles.field}>
-          <TextField
+          <FormText
+            key={kind}
+            control={control}
+            name={kind === 'reassign' ? 'change.reassign.reason' : 'change.dueOn.reason'}
             label={kind === 'reassign' ? 'Reason' : 'Reason (optional)'}
-            value={reason}
-            onChangeText={(t) => {
-              slot.settled();
-              setReason(t);
-            }}
             maxLength={REASON_MAX}
-            error={errors.reason}
             testID={`${testID}-reason`}
           />
         </View>
@@ -189,7 +198,7 @@ export function BulkBar({
         label={`Apply to ${selected.length} finding${selected.length === 1 ? '' : 's'}`}
         busy={bulk.isPending}
         disabled={selected.length === 0}
-        onPress={apply}
+        onPress={press}
         testID={`${testID}-apply`}
       />
     </View>

@@ -1,35 +1,36 @@
-import { useState } from 'react';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { COMMENT_MAX, commentSchema } from '../../shared/schemas/findings';
+import { writeErrorMessage } from '../api/writeErrors';
 import { formatWhen } from '../findings/due';
 import { commentWrite, useAddCommentMutation, useCommentsQuery } from '../queries/correction';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Notice } from '../ui/Notice';
+import { FormText, setServerFieldErrors } from '../ui/FormFields';
 import { ErrorState, LoadingState } from '../ui/States';
-import { TextField } from '../ui/TextField';
-import { writeErrorMessage } from './rules';
+import { FINDING_WRITE_WORDS } from './rules';
 
 /** Comments on a finding: everyone who can see it reads them and adds one. */
 export function Comments({ jobId, findingId, timeZone }: { jobId: string; findingId: string; timeZone: string }) {
   const comments = useCommentsQuery(jobId, findingId);
   const add = useAddCommentMutation(jobId, findingId);
-  const [text, setText] = useState('');
-  const [error, setError] = useState<string | null>(null);
+  const { control, handleSubmit, reset, setError, formState } = useForm({
+    resolver: zodResolver(commentSchema),
+    defaultValues: { text: '' },
+  });
 
-  function send() {
-    const parsed = commentSchema.safeParse({ text });
-    if (!parsed.success) {
-      setError(parsed.error.issues[0]?.message ?? 'Write a comment.');
-      return;
-    }
-    setError(null);
-    add.mutate(commentWrite(jobId, findingId, parsed.data), {
-      onSuccess: () => setText(''),
-      onError: (e) => setError(writeErrorMessage(e)),
+  const send = handleSubmit((values) => {
+    add.mutate(commentWrite(jobId, findingId, values), {
+      onSuccess: () => reset({ text: '' }),
+      onError: (e) => {
+        setServerFieldErrors(e, setError, ['text']);
+        setError('root', { message: writeErrorMessage(e, FINDING_WRITE_WORDS) });
+      },
     });
-  }
+  });
 
   return (
     <View style={styles.section} testID="finding-comments">
@@ -54,18 +55,21 @@ export function Comments({ jobId, findingId, timeZone }: { jobId: string; findin
           </View>
         ))
       )}
-      <TextField
+      <FormText
+        control={control}
+        name="text"
         label="Add a comment"
-        value={text}
-        onChangeText={setText}
         multiline
         style={multilineStyle}
         maxLength={COMMENT_MAX}
         testID="finding-comment-text"
-        error={error ?? undefined}
         compact
       />
-      {add.isError && !error ? <Notice tone="error">{writeErrorMessage(add.error)}</Notice> : null}
+      {formState.errors.root?.message ? (
+        <Notice tone="error" testID="finding-comment-send-error">
+          {formState.errors.root.message}
+        </Notice>
+      ) : null}
       <Button label="Add comment" tone="secondary" busy={add.isPending} onPress={send} testID="finding-comment-send" />
     </View>
   );

@@ -1,4 +1,6 @@
-import { useState } from 'react';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useEffect, useRef, useState } from 'react';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import {
   NOTE_MAX,
@@ -6,23 +8,22 @@ import {
   findingChangeSchema,
   type FindingAction,
   type FindingChangeInput,
+  type FindingChangeParsed,
   type FindingDetail,
 } from '../../shared/schemas/findings';
-import { ApiError } from '../api/client';
 import { SEVERITY_LABELS, type Role, type Severity } from '../../shared/words';
-import { SeverityPicker } from '../findings/SeverityPicker';
+import { writeErrorMessage } from '../api/writeErrors';
 import { findingChangeWrite, useFindingWriteMutation } from '../queries/correction';
 import { useJobCompaniesQuery } from '../queries/companies';
 import { space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
+import { FormSelect, FormSeverity, FormText, setServerFieldErrors } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
 import { Segmented } from '../ui/Segmented';
-import { Select } from '../ui/Select';
-import { TextField } from '../ui/TextField';
 import { ReinspectControls } from './ReinspectControls';
-import { isStale, mayDo, writeErrorMessage } from './rules';
+import { FINDING_WRITE_WORDS, isStale, mayDo } from './rules';
 
 type Change = 'reassign' | 'severity' | 'due' | 'void' | 'reopen';
 const CHANGES: { key: Change; action: FindingAction; label: string }[] = [
@@ -32,16 +33,6 @@ const CHANGES: { key: Change; action: FindingAction; label: string }[] = [
   { key: 'void', action: 'void', label: 'Void' },
   { key: 'reopen', action: 'reopen', label: 'Reopen' },
 ];
-
-/** The first message of a failed parse, by field (the PATCH body nests it: reassign.companyId → companyId). */
-function firstErrors(issues: readonly { path: readonly PropertyKey[]; message: string }[]): Record<string, string> {
-  const out: Record<string, string> = {};
-  for (const i of issues) {
-    const key = String(i.path[i.path.length - 1] ?? 'form');
-    if (!out[key]) out[key] = i.message;
-  }
-  return out;
-}
 
 /**
  * What an inspector or GC manager may do to a finding now, and nothing else: re-inspect a fix,
@@ -87,23 +78,26 @@ export function FindingActions({
 
 function CloseOnWalk({ jobId, finding, onStale }: { jobId: string; finding: FindingDetail; onStale: () => void }) {
   const write = useFindingWriteMutation(jobId);
-  const [note, setNote] = useState('');
-  const [error, setError] = useState<string | null>(null);
-  function send() {
-    setError(null);
-    const body: FindingChangeInput = { close: { note: note.trim() || undefined } };
+  const { control, handleSubmit, setError, reset, formState } = useForm<FindingChangeInput, unknown, FindingChangeParsed>({
+    resolver: zodResolver(findingChangeSchema),
+    defaultValues: { close: { note: '' } },
+  });
+  const send = handleSubmit((values) => {
+    const body: FindingChangeInput = { close: { note: values.close?.note || undefined } };
     write.mutate(findingChangeWrite(jobId, finding.id, finding.version, body), {
-      onSuccess: () => setNote(''),
+      onSuccess: () => reset({ close: { note: '' } }),
       onError: (err) => {
-        setError(writeErrorMessage(err));
+        setServerFieldErrors(err, setError, ['close.note']);
+        setError('root', { message: writeErrorMessage(err, FINDING_WRITE_WORDS) });
         if (isStale(err)) onStale();
       },
     });
-  }
+  });
+  const error = formState.errors.root?.message;
   return (
     <Card testID="finding-close">
       <AppText variant="heading">Found fixed on this walk?</AppText>
-      <TextField label="Note (optional)" value={note} onChangeText={setNote} maxLength={NOTE_MAX} testID="finding-close-note" compact />
+      <FormText control={control} name="close.note" label="Note (optional)" maxLength={NOTE_MAX} testID="finding-close-note" compact />
       {error ? (
         <Notice tone="error" testID="finding-close-error">
           {error}
@@ -112,6 +106,42 @@ function CloseOnWalk({ jobId, finding, onStale }: { jobId: string; finding: Find
       <Button label="Close (fixed on walk)" tone="secondary" busy={write.isPending} onPress={send} testID="finding-close-submit" />
     </Card>
   );
+}
+
+/** What was typed for each kind of change, kept while switching between them. */
+interface Typed {
+  companyId?: string;
+  severity: Severity;
+  dueOn: string;
+  reason: string;
+}
+
+/** The PATCH body for one kind of change, filled with what was typed. */
+function changeFor(kind: Change, t: Typed): FindingChangeInput {
+  switch (kind) {
+    case 'reassign':
+      return { reassign: { companyId: t.companyId as string, reason: t.reason } };
+    case 'severity':
+      return { severity: { to: t.severity, reason: t.reason } };
+    case 'due':
+      return { dueOn: { to: t.dueOn, reason: t.reason } };
+    case 'void':
+      return { void: { reason: t.reason } };
+    case 'reopen':
+      return { reopen: { reason: t.reason } };
+  }
+}
+
+/** Where each kind of change sits in the PATCH body (its fields are named under it). */
+const BODY_KEY = { reassign: 'reassign', severity: 'severity', due: 'dueOn', void: 'void', reopen: 'reopen' } as const;
+
+function typedFrom(values: FindingChangeInput, before: Typed): Typed {
+  return {
+    companyId: values.reassign ? values.reassign.companyId : before.companyId,
+    severity: values.severity?.to ?? before.severity,
+    dueOn: values.dueOn?.to ?? before.dueOn,
+    reason: values.reassign?.reason ?? values.severity?.reason ?? values.dueOn?.reason ?? values.void?.reason ?? values.reopen?.reason ?? before.reason,
+  };
 }
 
 function ChangePanel({
@@ -129,52 +159,53 @@ function ChangePanel({
   const companies = useJobCompaniesQuery(jobId);
   const [which, setWhich] = useState<Change>(changes[0]!.key);
   const current = changes.some((c) => c.key === which) ? which : changes[0]!.key;
-  const [companyId, setCompanyId] = useState('');
-  const [severity, setSeverity] = useState<Severity>(finding.severity);
-  const [dueOn, setDueOn] = useState(finding.dueOn);
-  const [reason, setReason] = useState('');
-  const [errors, setErrors] = useState<Record<string, string>>({});
   const [saved, setSaved] = useState<string | null>(null);
+  const typed = useRef<Typed>({ companyId: undefined, severity: finding.severity, dueOn: finding.dueOn, reason: '' });
+  const { control, handleSubmit, setError, reset, getValues, formState } = useForm<FindingChangeInput, unknown, FindingChangeParsed>({
+    resolver: zodResolver(findingChangeSchema),
+    defaultValues: changeFor(current, typed.current),
+  });
+  // The form holds the body of the change shown; a finding whose status no longer allows the
+  // chosen change shows the first one it allows.
+  const key = BODY_KEY[current];
+  useEffect(() => {
+    if (getValues(key) === undefined) reset(changeFor(current, typedFrom(getValues(), typed.current)));
+  }, [key, current, getValues, reset]);
 
-  function body(): FindingChangeInput {
-    const r = reason.trim();
-    switch (current) {
-      case 'reassign':
-        return { reassign: { companyId, reason: r } };
-      case 'severity':
-        return { severity: { to: severity, reason: r || undefined } };
-      case 'due':
-        return { dueOn: { to: dueOn.trim(), reason: r || undefined } };
-      case 'void':
-        return { void: { reason: r } };
-      case 'reopen':
-        return { reopen: { reason: r } };
-    }
+  function choose(next: Change) {
+    typed.current = typedFrom(getValues(), typed.current);
+    setWhich(next);
+    setSaved(null);
+    reset(changeFor(next, typed.current));
   }
 
-  function send() {
+  const send = handleSubmit((values) => {
     setSaved(null);
-    const input = body();
-    const parsed = findingChangeSchema.safeParse(input);
-    if (!parsed.success) {
-      setErrors(firstErrors(parsed.error.issues));
-      return;
-    }
-    setErrors({});
+    const t = typedFrom(values, typed.current);
+    const r = t.reason;
+    const input: FindingChangeInput =
+      current === 'severity'
+        ? { severity: { to: t.severity, reason: r || undefined } }
+        : current === 'due'
+          ? { dueOn: { to: t.dueOn, reason: r || undefined } }
+          : changeFor(current, t);
     write.mutate(findingChangeWrite(jobId, finding.id, finding.version, input), {
       onSuccess: () => {
-        setReason('');
+        typed.current = { ...t, reason: '' };
+        reset(changeFor(current, typed.current));
         setSaved(current === 'void' ? 'Voided.' : current === 'reopen' ? 'Reopened.' : 'Saved.');
       },
       onError: (err) => {
-        setErrors({ ...(err instanceof ApiError ? err.fields : {}), form: writeErrorMessage(err) });
+        setServerFieldErrors(err, setError, [`${key}.reason`, 'reassign.companyId', 'severity.to', 'dueOn.to']);
+        setError('root', { message: writeErrorMessage(err, FINDING_WRITE_WORDS) });
         if (isStale(err)) onStale();
       },
     });
-  }
+  });
 
   const reasonRequired = current === 'reassign' || current === 'void' || current === 'reopen';
   const others = (companies.data ?? []).filter((c) => c.id !== finding.companyId);
+  const formError = formState.errors.root?.message;
   return (
     <Card testID="finding-change">
       <AppText variant="title" role="heading">
@@ -184,21 +215,16 @@ function ChangePanel({
         label="What to change"
         value={current}
         options={changes.map((c) => ({ value: c.key, label: c.label }))}
-        onChange={(v) => {
-          setWhich(v);
-          setErrors({});
-          setSaved(null);
-        }}
+        onChange={choose}
         testID="finding-change-kind"
       />
       {current === 'reassign' ? (
-        <Select
+        <FormSelect
+          control={control}
+          name="reassign.companyId"
           label={`Responsible company (now ${finding.companyName})`}
-          value={companyId}
           placeholder={companies.isPending ? 'Loading the companies…' : 'Choose a company'}
           options={others.map((c) => ({ value: c.id, label: c.name }))}
-          onChange={setCompanyId}
-          error={errors.companyId}
           testID="finding-change-company"
         />
       ) : current === 'severity' ? (
@@ -206,34 +232,24 @@ function ChangePanel({
           <AppText variant="small" muted>
             Now {SEVERITY_LABELS[finding.severity]}.
           </AppText>
-          <SeverityPicker value={severity} onChange={setSeverity} testID="finding-change-severity" />
+          <FormSeverity control={control} name="severity.to" testID="finding-change-severity" />
         </View>
       ) : current === 'due' ? (
-        <TextField
-          label="Due on (YYYY-MM-DD)"
-          value={dueOn}
-          onChangeText={setDueOn}
-          error={errors.to}
-          testID="finding-change-due"
-          autoCapitalize="none"
-          compact
-        />
+        <FormText control={control} name="dueOn.to" label="Due on (YYYY-MM-DD)" testID="finding-change-due" autoCapitalize="none" compact />
       ) : null}
-      <TextField
+      <FormText
+        key={key}
+        control={control}
+        name={`${key}.reason`}
         label={reasonRequired ? 'Reason' : 'Reason (optional)'}
-        value={reason}
-        onChangeText={setReason}
         maxLength={REASON_MAX}
-        error={errors.reason}
         testID="finding-change-reason"
         compact
       />
-      {errors.form ? (
+      {formError ? (
         <Notice tone="error" testID="finding-change-error">
-          {errors.form}
+          {formError}
         </Notice>
-      ) : errors.change ? (
-        <Notice tone="error">{errors.change}</Notice>
       ) : null}
       {saved ? (
         <Notice tone="success" testID="finding-change-saved">

@@ -1,19 +1,25 @@
-import { useState } from 'react';
-import { StyleSheet, View } from 'react-native';
-import { NOTE_MAX, submitFixSchema, type FindingDetail } from '../../shared/schemas/findings';
-import { CameraCapture } from '../findings/CameraCapture';
+import { zodResolver } from '@hookform/resolvers/zod';
+import type { z } from 'zod';
+import { useEffect, useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { NOTE_MAX, submitFixSchema, type FindingDetail, type SubmitFixInput } from '../../shared/schemas/findings';
+import { writeErrorMessage } from '../api/writeErrors';
 import { MAX_PHOTOS } from '../findings/FindingForm';
-import { PhotoPicker } from '../findings/PhotoPicker';
 import type { PickedPhoto } from '../findings/PhotoPicker.types';
-import { PhotoStrip } from '../findings/PhotoStrip';
 import { submitFixWrite, useSubmitFixMutation } from '../queries/correction';
-import { colors, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
+import { FormPhotos, FormText, setServerFieldErrors, withFormOnly } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
-import { TextField } from '../ui/TextField';
-import { ActionWrite, isStale, writeErrorMessage } from './rules';
+import { ActionWrite, FINDING_WRITE_WORDS, isStale } from './rules';
+
+type FixFormValues = SubmitFixInput & { photos: PickedPhoto[] };
+type FixFormParsed = z.output<typeof submitFixSchema> & { photos: PickedPhoto[] };
+
+const resolver = withFormOnly<SubmitFixInput, unknown, z.output<typeof submitFixSchema>, { photos: PickedPhoto[] }>(zodResolver(submitFixSchema), {
+  photos: (photos) => (photos.length === 0 ? 'Add at least one photo of the fixed work.' : undefined),
+});
 
 /**
  * The subcontractor's "Submit fix": what was done and one or more photos of the work, sent as one
@@ -34,43 +40,35 @@ export function FixForm({
 }) {
   const submit = useSubmitFixMutation(jobId, finding.id);
   const [slot] = useState(() => new ActionWrite());
-  const [note, setNote] = useState('');
-  const [photos, setPhotos] = useState<PickedPhoto[]>([]);
-  const [errors, setErrors] = useState<{ note?: string; photos?: string; form?: string }>({});
   const [done, setDone] = useState(false);
+  const { control, handleSubmit, setError, reset, watch, formState } = useForm<FixFormValues, unknown, FixFormParsed>({
+    resolver,
+    defaultValues: { note: '', photos: [] },
+  });
+  // Any change after a failed send makes a new write (the old key belongs to other content).
+  useEffect(() => {
+    const sub = watch(() => slot.settled());
+    return () => sub.unsubscribe();
+  }, [watch, slot]);
+  const photoCount = watch('photos').length;
 
-  function addPhotos(more: PickedPhoto[]) {
-    slot.settled();
-    setErrors((e) => ({ ...e, photos: undefined }));
-    setPhotos((now) => {
-      const room = MAX_PHOTOS - now.length;
-      if (more.length > room) setErrors((e) => ({ ...e, photos: `At most ${MAX_PHOTOS} photos with a fix.` }));
-      return [...now, ...more.slice(0, Math.max(room, 0))];
-    });
-  }
-
-  function send() {
-    const parsed = submitFixSchema.safeParse({ note });
-    const next: typeof errors = {};
-    if (!parsed.success) next.note = parsed.error.issues[0]?.message ?? 'Say what was fixed.';
-    if (photos.length === 0) next.photos = 'Add at least one photo of the fixed work.';
-    setErrors(next);
-    if (!parsed.success || photos.length === 0) return;
-    const write = slot.take(() => submitFixWrite(jobId, finding.id, parsed.data, photos));
+  const send = handleSubmit(({ photos, ...values }) => {
+    const write = slot.take(() => submitFixWrite(jobId, finding.id, values, photos));
     submit.mutate(write, {
       onSuccess: () => {
         slot.settled();
         setDone(true);
-        setNote('');
-        setPhotos([]);
+        reset({ note: '', photos: [] });
       },
       onError: (err) => {
         slot.settled(err);
-        setErrors({ form: writeErrorMessage(err) });
+        setServerFieldErrors(err, setError, ['note']);
+        setError('root', { message: writeErrorMessage(err, FINDING_WRITE_WORDS) });
         if (isStale(err)) onStale();
       },
     });
-  }
+  });
+  const formError = formState.errors.root?.message;
 
   if (done && finding.status === 'fix_submitted') {
     return (
@@ -90,54 +88,33 @@ export function FixForm({
           This finding came back {finding.returnCount} time{finding.returnCount === 1 ? '' : 's'}: read why in the history below before fixing again.
         </AppText>
       ) : null}
-      <TextField
+      <FormText
+        control={control}
+        name="note"
         label="What was fixed"
-        value={note}
-        onChangeText={(t) => {
-          slot.settled();
-          setNote(t);
-        }}
         multiline
         style={multilineStyle}
         maxLength={NOTE_MAX}
         placeholder="e.g. Replaced the chain with threaded rod, nuts and washers above and below."
-        error={errors.note}
         testID={`${testID}-note`}
         compact
       />
-      <View style={styles.photos}>
-        <AppText variant="label">
-          Photos of the fixed work ({photos.length} of at most {MAX_PHOTOS})
-        </AppText>
-        <PhotoStrip
-          testID={`${testID}-photos`}
-          photos={photos.map((p, i) => ({ key: p.key, thumbUri: p.uri, fullUri: p.uri, label: `Fix photo ${i + 1}` }))}
-          onRemove={(key) => {
-            slot.settled();
-            setPhotos((now) => now.filter((p) => p.key !== key));
-          }}
-        />
-        <PhotoPicker
-          label="Add photos from files"
-          testID={`${testID}-files`}
-          disabled={photos.length >= MAX_PHOTOS}
-          onPick={addPhotos}
-          onError={(m) => setErrors((e) => ({ ...e, photos: m }))}
-        />
-        <CameraCapture testID={`${testID}-camera`} disabled={photos.length >= MAX_PHOTOS} onPhoto={(p) => addPhotos([p])} />
-        {errors.photos ? (
-          <AppText variant="small" role="alert" style={styles.error} testID={`${testID}-photos-error`}>
-            {errors.photos}
-          </AppText>
-        ) : null}
-      </View>
-      {errors.form ? (
+      <FormPhotos
+        control={control}
+        name="photos"
+        label="Photos of the fixed work"
+        photoLabel="Fix photo"
+        testID={testID}
+        max={MAX_PHOTOS}
+        tooMany={`At most ${MAX_PHOTOS} photos with a fix.`}
+      />
+      {formError ? (
         <Notice tone="error" testID={`${testID}-error`}>
-          {errors.form}
+          {formError}
         </Notice>
       ) : null}
       <Button
-        label={photos.length ? `Submit fix with ${photos.length} photo${photos.length === 1 ? '' : 's'}` : 'Submit fix'}
+        label={photoCount ? `Submit fix with ${photoCount} photo${photoCount === 1 ? '' : 's'}` : 'Submit fix'}
         busy={submit.isPending}
         onPress={send}
         testID={`${testID}-submit`}
@@ -149,7 +126,3 @@ export function FixForm({
 /** Room for a few lines, text from the top. */
 const multilineStyle = { minHeight: 96, paddingVertical: 10, textAlignVertical: 'top' as const };
 
-const styles = StyleSheet.create({
-  photos: { gap: space.sm },
-  error: { color: colors.danger },
-});

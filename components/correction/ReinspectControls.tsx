@@ -1,12 +1,15 @@
-import { useState } from 'react';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useEffect, useState } from 'react';
+import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { REASON_MAX, reinspectionSchema, type ReinspectionVerdict } from '../../shared/schemas/findings';
+import { writeErrorMessage } from '../api/writeErrors';
 import { reinspectionWrite, useFindingWriteMutation } from '../queries/correction';
 import { space } from '../theme';
 import { Button } from '../ui/Button';
+import { FormText, setServerFieldErrors } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
-import { TextField } from '../ui/TextField';
-import { ActionWrite, isStale, writeErrorMessage } from './rules';
+import { ActionWrite, FINDING_WRITE_WORDS, isStale } from './rules';
 
 /**
  * The inspector's verdict on a fix in one tap: Accept, or Return with the reason typed above it.
@@ -27,49 +30,48 @@ export function ReinspectControls({
 }) {
   const write = useFindingWriteMutation(jobId);
   const [slot] = useState(() => new ActionWrite());
-  const [reason, setReason] = useState('');
-  const [reasonError, setReasonError] = useState<string | undefined>();
-  const [error, setError] = useState<string | null>(null);
   const [pending, setPending] = useState<ReinspectionVerdict | null>(null);
+  const { control, handleSubmit, setValue, getValues, setError, reset, watch, formState } = useForm({
+    resolver: zodResolver(reinspectionSchema),
+    defaultValues: { verdict: 'accept' as ReinspectionVerdict, reason: '' },
+  });
+  // Another verdict or reason is other content: the next press makes a new write.
+  useEffect(() => {
+    const sub = watch(() => slot.settled());
+    return () => sub.unsubscribe();
+  }, [watch, slot]);
 
   function send(verdict: ReinspectionVerdict) {
-    setError(null);
-    const parsed = reinspectionSchema.safeParse({ verdict, reason: reason.trim() || undefined });
-    if (!parsed.success) {
-      setReasonError(parsed.error.issues[0]?.message ?? 'Say why the fix is returned.');
-      return;
-    }
-    setReasonError(undefined);
-    setPending(verdict);
-    const w = slot.take(() => reinspectionWrite(jobId, finding.id, finding.version, parsed.data));
-    write.mutate(w, {
-      onSuccess: () => {
-        slot.settled();
-        setReason('');
-        onDone?.(verdict);
-      },
-      onError: (err) => {
-        slot.settled(err);
-        setError(writeErrorMessage(err));
-        if (isStale(err)) onStale();
-      },
-      onSettled: () => setPending(null),
-    });
+    if (getValues('verdict') !== verdict) setValue('verdict', verdict);
+    void handleSubmit(({ reason }) => {
+      setPending(verdict);
+      const w = slot.take(() => reinspectionWrite(jobId, finding.id, finding.version, { verdict, reason: reason || undefined }));
+      write.mutate(w, {
+        onSuccess: () => {
+          slot.settled();
+          reset({ verdict, reason: '' });
+          onDone?.(verdict);
+        },
+        onError: (err) => {
+          slot.settled(err);
+          setServerFieldErrors(err, setError, ['reason']);
+          setError('root', { message: writeErrorMessage(err, FINDING_WRITE_WORDS) });
+          if (isStale(err)) onStale();
+        },
+        onSettled: () => setPending(null),
+      });
+    })();
   }
+  const error = formState.errors.root?.message;
 
   return (
     <View style={styles.wrap} testID={testID}>
-      <TextField
+      <FormText
+        control={control}
+        name="reason"
         label={`Reason (needed to return ${finding.label})`}
-        value={reason}
-        onChangeText={(t) => {
-          slot.settled();
-          setReason(t);
-          setReasonError(undefined);
-        }}
         maxLength={REASON_MAX}
         placeholder="e.g. Drain still falls back toward the unit."
-        error={reasonError}
         testID={`${testID}-reason`}
         compact
       />

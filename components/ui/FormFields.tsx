@@ -13,11 +13,13 @@ import {
   type Path,
   type Resolver,
   type ResolverOptions,
+  type UseFormSetError,
 } from 'react-hook-form';
 import { StyleSheet, View, type TextInput, type TextInputProps } from 'react-native';
 import type { LimitResolver } from '../../shared/calc/rules';
 import type { MeasuredRule, UnitSystem } from '../../shared/catalogue/types';
 import type { Severity } from '../../shared/words';
+import { ApiError } from '../api/client';
 import { CameraCapture } from '../findings/CameraCapture';
 import { PhotoPicker } from '../findings/PhotoPicker';
 import type { PickedPhoto } from '../findings/PhotoPicker.types';
@@ -360,6 +362,23 @@ export function withFormOnly<I extends FieldValues, C, O extends FieldValues, X 
     if (Object.keys(errors).length > 0) return { values: {}, errors };
     return { values: { ...(result.values as O), ...extra } as O & X, errors: {} };
   };
+}
+
+/**
+ * Puts a refused write's field messages (ApiError.fields, keyed by the body's path, e.g.
+ * `reassign.reason`) on the form's fields of those names. True when any landed, so the message
+ * above the form can point at them.
+ */
+export function setServerFieldErrors<T extends FieldValues>(err: unknown, setError: UseFormSetError<T>, names: readonly Path<T>[]): boolean {
+  if (!(err instanceof ApiError)) return false;
+  let placed = false;
+  for (const [field, message] of Object.entries(err.fields)) {
+    if ((names as readonly string[]).includes(field)) {
+      setError(field as Path<T>, { message });
+      placed = true;
+    }
+  }
+  return placed;
 }
 
 const styles = StyleSheet.create({
