@@ -42,10 +42,42 @@ afterAll(async () => {
 
 /** Waits until a service worker controls the page (it has installed, precached the shell and claimed it). */
 async function controlled(page: Page): Promise<string> {
-  await page.evaluate(() => navigator.serviceWorker.ready.then(() => undefined));
-  await page.waitForFunction(() => navigator.serviceWorker.controller !== null);
-  return page.evaluate(() => navigator.serviceWorker.controller!.scriptURL);
+  await page.evaluate('navigator.serviceWorker.ready.then(() => undefined)');
+  await page.waitForFunction('navigator.serviceWorker.controller !== null');
+  return page.evaluate<string>('navigator.serviceWorker.controller.scriptURL');
 }
+
+/** Whether a new worker has installed and waits to take over. */
+const UPDATE_WAITING = 'navigator.serviceWorker.getRegistration().then((r) => Boolean(r && r.waiting))';
+
+// Browser-side code is written as strings: the test code is compiled without the DOM library.
+const STORE_ON_DEVICE = `(async () => {
+  localStorage.setItem('trimout-test-draft', 'kept');
+  await new Promise((resolve, reject) => {
+    const open = indexedDB.open('trimout-test', 1);
+    open.onupgradeneeded = () => open.result.createObjectStore('queue');
+    open.onerror = () => reject(open.error);
+    open.onsuccess = () => {
+      const tx = open.result.transaction('queue', 'readwrite');
+      tx.objectStore('queue').put({ kind: 'finding' }, 'item-1');
+      tx.oncomplete = () => { open.result.close(); resolve(); };
+      tx.onerror = () => reject(tx.error);
+    };
+  });
+})()`;
+const READ_FROM_DEVICE = `(async () => {
+  const draft = localStorage.getItem('trimout-test-draft');
+  const item = await new Promise((resolve, reject) => {
+    const open = indexedDB.open('trimout-test', 1);
+    open.onerror = () => reject(open.error);
+    open.onsuccess = () => {
+      const get = open.result.transaction('queue').objectStore('queue').get('item-1');
+      get.onsuccess = () => { open.result.close(); resolve(get.result); };
+      get.onerror = () => reject(get.error);
+    };
+  });
+  return { draft, item };
+})()`;
 
 async function openJob(page: Page): Promise<string> {
   await page.getByText('Cinder Lane Commons').click();
@@ -91,7 +123,7 @@ it('opens with no network once opened online; API requests fail instead of comin
   expect(apiFailures).toContain('/api/session');
   expect(apiResponses).toEqual([]);
   // the fonts came from the cache too: the text is set in the app's own typeface
-  await page.waitForFunction(() => [...document.fonts].some((f) => f.family.includes('AtkinsonHyperlegible_400Regular') && f.status === 'loaded'));
+  await page.waitForFunction(`[...document.fonts].some((f) => f.family.includes('AtkinsonHyperlegible_400Regular') && f.status === 'loaded')`);
   await h.screenshot(page, 'offline-shell-reloaded-phone');
 
   // An API address opened as a page is not answered with the app either: it fails like any request.
@@ -110,31 +142,15 @@ it('a new deploy waits behind "A new version is ready — Reload", and reloading
   await openJob(page);
   await controlled(page);
   // What later work keeps on the device: a draft in localStorage, a queued item in IndexedDB.
-  await page.evaluate(async () => {
-    localStorage.setItem('trimout-test-draft', 'kept');
-    await new Promise<void>((resolve, reject) => {
-      const open = indexedDB.open('trimout-test', 1);
-      open.onupgradeneeded = () => open.result.createObjectStore('queue');
-      open.onerror = () => reject(open.error);
-      open.onsuccess = () => {
-        const tx = open.result.transaction('queue', 'readwrite');
-        tx.objectStore('queue').put({ kind: 'finding' }, 'item-1');
-        tx.oncomplete = () => {
-          open.result.close();
-          resolve();
-        };
-        tx.onerror = () => reject(tx.error);
-      };
-    });
-  });
+  await page.evaluate(STORE_ON_DEVICE);
 
   // A deploy: the worker script changes on the server; the app looks for it when it comes back to the front.
   fs.appendFileSync(path.join(dist, 'sw.js'), `\n// deploy ${Date.now()}\n`);
-  await page.evaluate(() => document.dispatchEvent(new Event('visibilitychange')));
+  await page.evaluate(`document.dispatchEvent(new Event('visibilitychange'))`);
   const prompt = page.getByTestId('update-prompt');
   await prompt.waitFor();
   await expect(prompt.textContent()).resolves.toContain('A new version is ready.');
-  expect(await page.evaluate(async () => Boolean((await navigator.serviceWorker.getRegistration())?.waiting))).toBe(true);
+  await expect(page.evaluate(UPDATE_WAITING)).resolves.toBe(true);
   await h.screenshot(page, 'offline-shell-update-prompt-phone');
 
   // Reload: the waiting worker takes over and the page loads once under it.
@@ -143,25 +159,10 @@ it('a new deploy waits behind "A new version is ready — Reload", and reloading
   await reloaded;
   await page.getByTestId('job-name').waitFor();
   await expect(page.getByTestId('update-prompt').count()).resolves.toBe(0);
-  expect(await page.evaluate(async () => Boolean((await navigator.serviceWorker.getRegistration())?.waiting))).toBe(false);
+  await expect(page.evaluate(UPDATE_WAITING)).resolves.toBe(false);
 
   // Nothing the app kept on the device was cleared by the update.
-  const kept = await page.evaluate(async () => {
-    const draft = localStorage.getItem('trimout-test-draft');
-    const item = await new Promise<unknown>((resolve, reject) => {
-      const open = indexedDB.open('trimout-test', 1);
-      open.onerror = () => reject(open.error);
-      open.onsuccess = () => {
-        const get = open.result.transaction('queue').objectStore('queue').get('item-1');
-        get.onsuccess = () => {
-          open.result.close();
-          resolve(get.result);
-        };
-        get.onerror = () => reject(get.error);
-      };
-    });
-    return { draft, item };
-  });
+  const kept = await page.evaluate(READ_FROM_DEVICE);
   expect(kept).toEqual({ draft: 'kept', item: { kind: 'finding' } });
   expect(problems).toEqual([]);
   await page.close();
