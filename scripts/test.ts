@@ -14,6 +14,8 @@ import { buildWebIfStale } from './lib/web';
 const root = path.resolve(__dirname, '..');
 const artifacts = path.join(root, '.artifacts');
 export const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+/** Whether an import cycle found by madge fails the lint item (false: printed, not counted). */
+const CYCLES_FAIL_LINT = false;
 
 interface JestReport {
   numPassedTests: number;
@@ -66,7 +68,15 @@ async function main(): Promise<number> {
 
     say('lint ...');
     const lint = await runInherit(path.join(root, 'node_modules', '.bin', 'eslint'), ['.'], { cwd: root });
-    if (lint === 0) passed += 1;
+    // Import cycles (madge, `npm run cycles`) are part of the lint. Reported only while
+    // CYCLES_FAIL_LINT is false; set it to true to make a cycle fail the lint item.
+    const cycles = await runInherit('npm', ['run', '--silent', 'cycles'], { cwd: root });
+    if (cycles !== 0) {
+      console.error(
+        CYCLES_FAIL_LINT ? 'import cycles found (npm run cycles)' : 'import cycles found (npm run cycles): reported, not counted as a failure yet',
+      );
+    }
+    if (lint === 0 && (cycles === 0 || !CYCLES_FAIL_LINT)) passed += 1;
     else {
       failed += 1;
       console.error('lint failed');
