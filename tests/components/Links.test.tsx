@@ -4,8 +4,6 @@
  * of app/ and components/ for addresses or requests built anywhere else, and the one sentence for
  * a refused write (components/api/writeErrors.ts) with both screens' needs.
  */
-import { readdirSync, readFileSync, statSync } from 'node:fs';
-import { join, relative } from 'node:path';
 import { ApiError } from '../../components/api/client';
 import { FIELDS_MARKED, NOT_SAVED, writeErrorMessage } from '../../components/api/writeErrors';
 import { boardCellFilters } from '../../components/board/counts';
@@ -15,7 +13,14 @@ import { links } from '../../components/links';
 
 const JOB = '00000000-0000-4000-8000-0000000000a1';
 const LEVEL = '00000000-0000-4000-8000-0000000000b1';
-const ROOT = join(__dirname, '..', '..');
+// The client's TypeScript program has no Node types; the scan below needs only these three calls.
+declare const __dirname: string;
+const fs = jest.requireActual<{
+  readdirSync(path: string): string[];
+  readFileSync(path: string, encoding: 'utf8'): string;
+  statSync(path: string): { isDirectory(): boolean };
+}>('fs');
+const ROOT = `${__dirname}/../..`;
 
 /** The query of an address as a plain object. */
 function queryOf(href: unknown): Record<string, string> {
@@ -62,13 +67,13 @@ describe('links', () => {
 function sources(folder: string): [string, string][] {
   const out: [string, string][] = [];
   const walk = (dir: string) => {
-    for (const name of readdirSync(dir)) {
-      const p = join(dir, name);
-      if (statSync(p).isDirectory()) walk(p);
-      else if (/\.tsx?$/.test(name)) out.push([relative(ROOT, p).split('\\').join('/'), readFileSync(p, 'utf8')]);
+    for (const name of fs.readdirSync(`${ROOT}/${dir}`)) {
+      const p = `${dir}/${name}`;
+      if (fs.statSync(`${ROOT}/${p}`).isDirectory()) walk(p);
+      else if (/\.tsx?$/.test(name)) out.push([p, fs.readFileSync(`${ROOT}/${p}`, 'utf8')]);
     }
   };
-  walk(join(ROOT, folder));
+  walk(folder);
   return out;
 }
 
