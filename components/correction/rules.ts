@@ -7,7 +7,7 @@ import type { FindingAction } from '../../shared/schemas/findings';
 import type { FindingStatus, Role } from '../../shared/words';
 import { ApiError } from '../api/client';
 import type { Write } from '../api/mutations';
-import { writeErrorMessage as writeError, type WriteErrorWords } from '../api/writeErrors';
+import type { WriteErrorWords } from '../api/writeErrors';
 
 /** True when this role may take this action on a finding in this status. */
 export function mayDo(action: FindingAction, status: FindingStatus, role: Role, isLogger: boolean): boolean {
@@ -32,15 +32,6 @@ export const STALE_MESSAGE = 'Someone changed this finding while you were lookin
  * already names the state the screen reloads to).
  */
 export const FINDING_WRITE_WORDS: WriteErrorWords = { stale: STALE_MESSAGE, afterConflict: '' };
-
-/**
- * Kept for the correction parts still importing it from here (comments, actions, fix form,
- * re-inspection controls); it goes once they call writeErrorMessage(err, FINDING_WRITE_WORDS)
- * from components/api/writeErrors.ts.
- */
-export function writeErrorMessage(err: unknown): string {
-  return writeError(err, FINDING_WRITE_WORDS);
-}
 
 /** True when the screen should reload the finding (someone else changed it first). */
 export function isStale(err: unknown): boolean {

@@ -7,7 +7,7 @@
 import { ApiError } from '../../components/api/client';
 import { FIELDS_MARKED, NOT_SAVED, writeErrorMessage } from '../../components/api/writeErrors';
 import { boardCellFilters } from '../../components/board/counts';
-import { STALE_MESSAGE, writeErrorMessage as findingWriteErrorMessage } from '../../components/correction/rules';
+import { FINDING_WRITE_WORDS, STALE_MESSAGE } from '../../components/correction/rules';
 import { findingFiltersFromParams } from '../../components/findings/filterParams';
 import { links } from '../../components/links';
 
@@ -126,13 +126,13 @@ describe('writeErrorMessage', () => {
 
   it('says a screen’s own sentence for a 412 when given one (a finding reloaded in place)', () => {
     expect(writeErrorMessage(err(412), { stale: STALE_MESSAGE })).toBe(STALE_MESSAGE);
-    expect(findingWriteErrorMessage(err(412))).toBe(STALE_MESSAGE);
-    expect(findingWriteErrorMessage(err(409, 'This finding is closed; it cannot be accepted.'))).toBe('This finding is closed; it cannot be accepted.');
-    expect(findingWriteErrorMessage(err(400, 'Say why.'))).toBe('Say why.');
+    expect(writeErrorMessage(err(412), FINDING_WRITE_WORDS)).toBe(STALE_MESSAGE);
+    expect(writeErrorMessage(err(409, 'This finding is closed; it cannot be accepted.'), FINDING_WRITE_WORDS)).toBe('This finding is closed; it cannot be accepted.');
+    expect(writeErrorMessage(err(400, 'Say why.'), FINDING_WRITE_WORDS)).toBe('Say why.');
   });
 
   it('shows no JavaScript message for something that is not an API answer', () => {
     expect(writeErrorMessage(new SyntaxError('Unexpected token < in JSON'))).toBe(NOT_SAVED);
-    expect(findingWriteErrorMessage(new TypeError('x is undefined'))).toBe(NOT_SAVED);
+    expect(writeErrorMessage(new TypeError('x is undefined'), FINDING_WRITE_WORDS)).toBe(NOT_SAVED);
   });
 });
