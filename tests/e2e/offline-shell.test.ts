@@ -96,6 +96,14 @@ it('opens with no network once opened online; API requests fail instead of comin
   await h.signIn(page, inspector.email, DEMO_PASSWORD);
   const jobUrl = await openJob(page);
   expect(await controlled(page)).toBe(`${h.baseUrl}/sw.js`);
+  // chromium's own verdict: the manifest parses and the app can be installed
+  const cdp = await context.newCDPSession(page);
+  const { errors: manifestErrors } = await cdp.send('Page.getAppManifest');
+  expect(manifestErrors).toEqual([]);
+  const { installabilityErrors } = await cdp.send('Page.getInstallabilityErrors');
+  // A headless test profile counts as off the record; that is the browser's, not the app's.
+  expect(installabilityErrors.filter((e) => e.errorId !== 'in-incognito')).toEqual([]);
+  await cdp.detach();
   expect(problems).toEqual([]);
 
   // Offline. Every /api answer the page gets from here on is recorded with where it came from.
