@@ -46,6 +46,11 @@ function takeSlot(): Promise<boolean> {
   });
 }
 
+/** Exports waiting for a slot now (tests wait on it instead of sleeping). */
+export function exportsWaiting(): number {
+  return waiting.length;
+}
+
 function giveSlot(): void {
   const next = waiting.shift();
   if (next) next(); // handed straight to the next export: `running` stays the same

@@ -18,6 +18,7 @@ import { connectTestDb, testDatabaseUrl } from '../../support/db';
 import { buildUser } from '../../support/factories';
 import { buildWalkJob, type WalkJob } from '../../support/findings';
 import { startFakeSmtp, testMailService, type FakeSmtp } from '../../support/mail';
+import { waitFor } from '../../support/wait';
 
 jest.setTimeout(120_000);
 
@@ -53,10 +54,12 @@ afterAll(async () => {
 });
 
 const mailsTo = (address: string) => smtp.messages().filter((m) => m.to.includes(address));
-/** Every mail handed to the outbox so far has reached the fake SMTP server (or failed). */
+/**
+ * Every mail handed to the outbox so far has reached the fake SMTP server (or failed): the fake
+ * acknowledges a message only after it has recorded it, and the outbox is idle only after that.
+ */
 async function settle() {
   await mail.outbox.idle();
-  await new Promise((r) => setTimeout(r, 200));
 }
 
 describe('GET/PATCH /api/me/preferences', () => {
@@ -183,8 +186,17 @@ describe('at most once per period', () => {
       const jobIds = [first, second].filter((id): id is string => typeof id === 'string').map((id) => `pg-boss:${id}`);
       await smtp.waitFor((m) => m.to.includes(user.email), 20_000);
       // Even a job that slips past the queue (another key, same period) finds the period claimed.
-      await schedulers[1]!.boss.send(SEND_QUEUE, due, { singletonKey: `${key}:again` });
-      await new Promise((r) => setTimeout(r, 2_500));
+      const slipped = await schedulers[1]!.boss.send(SEND_QUEUE, due, { singletonKey: `${key}:again` });
+      expect(slipped).toEqual(expect.any(String));
+      const done = await waitFor(
+        async () => {
+          const job = await schedulers[1]!.boss.getJobById(SEND_QUEUE, slipped!);
+          return job && ['completed', 'failed', 'cancelled'].includes(job.state) ? job : null;
+        },
+        { what: 'a worker to finish the job that slipped past the queue', timeout: 20_000, interval: 100 },
+      );
+      expect(done.state).toBe('completed');
+      await settle();
       expect(mailsTo(user.email)).toHaveLength(1);
       const rows = await db.sequelize.query<{ claimed_by: string }>(`SELECT claimed_by FROM digest_sends WHERE user_id = $1`, { bind: [user.id], type: QueryTypes.SELECT });
       expect(rows).toHaveLength(1);

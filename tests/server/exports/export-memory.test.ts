@@ -1,8 +1,9 @@
 /**
  * findings.csv streams: 100,000 findings go out through a real HTTP server while the process's
- * memory is sampled; RSS and heap growth stay under 50 MB (issue 8) and every row arrives. A
- * client that goes away mid-download leaves no query running and the pool still answers; a
- * burst of exports beyond the cap is refused with 429 instead of taking every connection.
+ * memory is sampled; RSS and heap growth stay under 50 MB (the file is never held whole) and
+ * every row arrives. A client that goes away mid-download leaves no query running and the pool
+ * still answers; a burst of exports beyond the cap is refused with 429 instead of taking every
+ * connection.
  *
  * The rows are made in one INSERT ... SELECT over generate_series (no per-row round trips): the
  * findings table has no insert trigger (the only triggers guard finding_events, which this test
@@ -16,11 +17,12 @@ import vm from 'node:vm';
 import { QueryTypes } from 'sequelize';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
-import { EXPORT_SLOT_WAIT_MS, MAX_CONCURRENT_EXPORTS } from '../../../server/services/csvStream';
+import { EXPORT_SLOT_WAIT_MS, exportsWaiting, MAX_CONCURRENT_EXPORTS } from '../../../server/services/csvStream';
 import { buildTestApp } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { TEST_PASSWORD } from '../../support/factories';
 import { buildWalkJob, type WalkJob } from '../../support/findings';
+import { waitFor } from '../../support/wait';
 
 jest.setTimeout(180_000);
 
@@ -187,8 +189,7 @@ describe('findings.csv streaming', () => {
       );
       return Number(row!.n);
     };
-    const deadline = Date.now() + 10_000;
-    while ((await running()) > 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 100));
+    await waitFor(async () => (await running()) === 0, { what: "the export's query to stop", timeout: 10_000, interval: 100 });
     expect(await running()).toBe(0);
     // And the server still answers exports (the pool was not left short).
     const again = await get(`/api/jobs/${w.job.id}/findings.csv?q=%2312`);
@@ -213,7 +214,7 @@ describe('findings.csv streaming', () => {
     expect(JSON.parse(body).error.message).toBe('Several exports are running. Try again in a few seconds.');
     // A waiting export gets the slot a finished (here: cancelled) download gives back.
     const waiter = get(`/api/jobs/${w.job.id}/findings.csv?q=%237`);
-    await new Promise((r) => setTimeout(r, 300));
+    await waitFor(() => exportsWaiting() === 1, { what: 'the fourth export to wait for a slot' });
     held[0]!.destroy();
     const served = await waiter;
     expect(served.statusCode).toBe(200);

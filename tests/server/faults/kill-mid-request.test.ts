@@ -1,5 +1,5 @@
 /**
- * Killing the server in the middle of a write (issue 9, Faults): the real server runs as a
+ * Killing the server in the middle of a write: the real server runs as a
  * child process (server/index.ts, photos on a disk store in a temporary folder) and is killed
  * with SIGKILL
  *  1. while a multipart finding upload is still arriving (headers and half a photo sent);
@@ -28,6 +28,7 @@ import { DiskObjectStore } from '../../../server/storage/disk';
 import { connectTestDb, testDatabaseUrl } from '../../support/db';
 import { buildWalkJob, insertFinding, type WalkJob } from '../../support/findings';
 import { TEST_PASSWORD } from '../../support/factories';
+import { waitFor } from '../../support/wait';
 import { phoneJpeg } from '../photos/fixtures';
 
 jest.setTimeout(300_000);
@@ -107,12 +108,20 @@ async function kill(): Promise<void> {
   await exited;
 }
 
-async function waitFor(check: () => boolean, what: string, ms = 90_000): Promise<void> {
-  const until = Date.now() + ms;
-  while (!check()) {
-    if (Date.now() > until) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 20));
+/** Bytes of every file under the child's temporary folder (where uploads are written as they arrive). */
+function uploadedBytes(): number {
+  const dir = path.join(storeDir, 'tmp');
+  if (!fs.existsSync(dir)) return 0;
+  let total = 0;
+  for (const entry of fs.readdirSync(dir, { recursive: true, withFileTypes: true })) {
+    if (!entry.isFile()) continue;
+    try {
+      total += fs.statSync(path.join(entry.parentPath, entry.name)).size;
+    } catch {
+      // removed between the listing and the stat: nothing to count
+    }
   }
+  return total;
 }
 
 /** The signed-in session (cookie + CSRF token), kept in PostgreSQL across restarts. */
@@ -261,10 +270,12 @@ describe('the server killed mid-request', () => {
     const before = await counts();
     const key = `kill-upload-${randomUUID()}`;
     const [method, p, body, headers] = findingUpload(key, [jpeg, jpeg]);
+    const bytesBefore = uploadedBytes();
     const slow = rawRequest(method, p, body, headers, Math.floor(body.length * 0.6));
     slow.done.catch(() => undefined); // the connection dies with the server
     await slow.sent;
-    await new Promise((r) => setTimeout(r, 300));
+    // Killed while the photos are being written: the first bytes have reached the temporary folder.
+    await waitFor(() => uploadedBytes() > bytesBefore, { what: 'the upload to reach the server', timeout: 30_000 });
     await kill();
     expect(await counts()).toEqual(before);
     await expectConsistent();
@@ -288,7 +299,7 @@ describe('the server killed mid-request', () => {
     const req = rawRequest(method, p, body, { ...headers, ...PAUSE });
     req.done.catch(() => undefined);
     const s = server!;
-    await waitFor(() => s.stderr.join('').includes('fault-pause POST /api/jobs/'), 'the write to reach its transaction');
+    await waitFor(() => s.stderr.join('').includes('fault-pause POST /api/jobs/'), { what: 'the write to reach its transaction', timeout: 90_000 });
     await kill();
     expect(await counts()).toEqual(before);
     const { unreferencedObjects, unreferenced } = await expectConsistent();
@@ -331,7 +342,7 @@ describe('the server killed mid-request', () => {
     const fix = rawRequest(fixArgs[0], fixArgs[1], fixArgs[2], { ...fixArgs[3], ...PAUSE });
     fix.done.catch(() => undefined);
     const s = server!;
-    await waitFor(() => s.stderr.join('').includes('/fixes'), 'the fix to reach its transaction');
+    await waitFor(() => s.stderr.join('').includes('/fixes'), { what: 'the fix to reach its transaction', timeout: 90_000 });
     await kill();
     expect(await counts()).toEqual(before);
     const [{ status }] = await q<{ status: string }>(`SELECT status FROM findings WHERE id = $1`, [findingId]);
@@ -362,7 +373,7 @@ describe('the server killed mid-request', () => {
     const re = rawRequest(reArgs[0], reArgs[1], reArgs[2], { ...reArgs[3], ...PAUSE });
     re.done.catch(() => undefined);
     const s2 = server!;
-    await waitFor(() => s2.stderr.join('').includes('/reinspections'), 'the re-inspection to reach its transaction');
+    await waitFor(() => s2.stderr.join('').includes('/reinspections'), { what: 'the re-inspection to reach its transaction', timeout: 90_000 });
     await kill();
     expect(await counts()).toEqual(midway);
     const [after] = await q<{ status: string; version: number }>(`SELECT status, version FROM findings WHERE id = $1`, [findingId]);
@@ -396,7 +407,7 @@ describe('the server killed mid-request', () => {
     const first = rawRequest(args[0], args[1], args[2], { ...args[3], ...PAUSE });
     first.done.catch(() => undefined);
     const s3 = server!;
-    await waitFor(() => s3.stderr.join('').includes('/fixes'), 'the first fix to reach its transaction');
+    await waitFor(() => s3.stderr.join('').includes('/fixes'), { what: 'the first fix to reach its transaction', timeout: 90_000 });
     // Same key while the first is still inside its transaction: refused at once, not queued.
     const second = await rawRequest(...args).done;
     expect(second.status).toBe(409);

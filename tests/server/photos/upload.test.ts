@@ -16,6 +16,7 @@ import { errorHandler, notFound } from '../../../server/errors';
 import { MAX_UPLOAD_BODY_BYTES, PHOTO_LIMITS, sweepUploadFolders, uploadPhotos, uploadedFiles } from '../../../server/middleware/upload';
 import { PHOTO_MAX_AGE_SECONDS, processPhotos, sendPhoto, storePhotos, type StoredPhoto } from '../../../server/services/photos';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
+import { waitFor } from '../../support/wait';
 import { SAMPLE_HEIC, SVG, TEXT_AS_JPEG, halvesImage, phoneJpeg, pixelFloodPng } from './fixtures';
 
 let fake: FakeS3;
@@ -75,12 +76,12 @@ describe('temporary files', () => {
     probe.use(errorHandler(() => undefined));
     await request(probe).post('/upload').attach('photos', jpeg, 'a.jpg').attach('photos', jpeg, 'b.jpg').expect(201);
     expect(seen).toHaveLength(2);
-    await waitUntil(() => fs.readdirSync(root).length === 0);
+    await waitFor(() => fs.readdirSync(root).length === 0, { what: 'the temporary folder to be emptied' });
     // Refused mid-body (an 11th file): nothing left either.
     let req = request(probe).post('/upload');
     for (let i = 0; i < 11; i++) req = req.attach('photos', jpeg, `p${i}.jpg`);
     await req.expect(413);
-    await waitUntil(() => fs.readdirSync(root).length === 0);
+    await waitFor(() => fs.readdirSync(root).length === 0, { what: 'the temporary folder to be emptied' });
     fs.rmSync(root, { recursive: true, force: true });
   });
 
@@ -291,14 +292,6 @@ describe('uploads that are refused, with nothing stored and the server still ser
     await expectNothingStoredAndStillServing(before);
   });
 });
-
-async function waitUntil(check: () => boolean, ms = 10_000): Promise<void> {
-  const until = Date.now() + ms;
-  while (!check()) {
-    if (Date.now() > until) throw new Error('timed out');
-    await new Promise((r) => setTimeout(r, 20));
-  }
-}
 
 /** supertest parser that keeps a binary body as a Buffer. */
 function binary(res: request.Response, done: (err: Error | null, body: Buffer) => void) {

@@ -6,6 +6,7 @@
 import request from 'supertest';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
+import type { MailService } from '../../../server/mail';
 import { AuthToken, JobCompany, JobMember, User } from '../../../server/models';
 import { hashToken } from '../../../server/services/tokens';
 import { buildTestApp, csrfFor, signIn } from '../../support/app';
@@ -19,11 +20,13 @@ jest.setTimeout(60_000);
 let db: Database;
 let trimout: TrimoutApp;
 let smtp: FakeSmtp;
+let mailer: MailService;
 
 beforeAll(async () => {
   db = await connectTestDb();
   smtp = await startFakeSmtp();
-  trimout = buildTestApp(db, { mail: testMailService(smtp) });
+  mailer = testMailService(smtp);
+  trimout = buildTestApp(db, { mail: mailer });
 });
 afterAll(async () => {
   await trimout.close();
@@ -97,7 +100,8 @@ describe('POST /api/jobs/:jobId/invitations', () => {
     expect(second.headers['idempotent-replayed']).toBe('true');
     expect(second.body.id).toBe(first.body.id);
     await smtp.waitFor((m) => m.to.includes(email));
-    await new Promise((r) => setTimeout(r, 200));
+    // Both writes have answered; a mail either of them sent has been handed over once the outbox is idle.
+    await mailer.outbox.idle();
     expect(smtp.messages().filter((m) => m.to.includes(email))).toHaveLength(1);
   });
 

@@ -6,7 +6,7 @@
 import request from 'supertest';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
-import { createMailService } from '../../../server/mail';
+import { createMailService, type MailService } from '../../../server/mail';
 import { createOutbox } from '../../../server/mail/outbox';
 import { AuthToken, User } from '../../../server/models';
 import { hashToken } from '../../../server/services/tokens';
@@ -14,6 +14,7 @@ import { buildTestApp, csrfFor, signIn, testEnv } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser, TEST_PASSWORD } from '../../support/factories';
 import { linkTo, startFakeSmtp, testMailService, tokenOf, type FakeSmtp } from '../../support/mail';
+import { waitFor } from '../../support/wait';
 
 // Several scrypt hashes per test (N=2^17): generous on a busy shared machine.
 jest.setTimeout(60_000);
@@ -21,11 +22,13 @@ jest.setTimeout(60_000);
 let db: Database;
 let trimout: TrimoutApp;
 let smtp: FakeSmtp;
+let mailer: MailService;
 
 beforeAll(async () => {
   db = await connectTestDb();
   smtp = await startFakeSmtp();
-  trimout = buildTestApp(db, { mail: testMailService(smtp) });
+  mailer = testMailService(smtp);
+  trimout = buildTestApp(db, { mail: mailer });
 });
 afterAll(async () => {
   await trimout.close();
@@ -56,6 +59,11 @@ describe('POST /api/password-resets', () => {
   it('answers the same 202 for a known and an unknown address; only the known one gets a mail', async () => {
     const user = await buildUser();
     const unknown = `nobody-${Date.now()}@test.trimout.example`;
+    // The answer comes before the lookup: note when the server has looked each address up.
+    const lookedUp: unknown[] = [];
+    User.addHook('afterFind', 'reset-lookups', (_found, options) => {
+      lookedUp.push((options.where as { email?: unknown } | undefined)?.email);
+    });
     const a = await requestReset(user.email);
     const b = await requestReset(unknown);
     expect(a.status).toBe(202);
@@ -67,7 +75,13 @@ describe('POST /api/password-resets', () => {
     const row = await AuthToken.findOne({ where: { userId: user.id, purpose: 'password_reset' } });
     expect(row!.tokenHash).toBe(hashToken(tokenOf(mail, '/reset/')));
     expect((row!.expiresAt.getTime() - row!.createdAt.getTime()) / 60_000).toBeCloseTo(60, 0);
-    await new Promise((r) => setTimeout(r, 200));
+    // An unknown address ends its work at the lookup: once looked up, no mail can follow.
+    try {
+      await waitFor(() => lookedUp.includes(unknown.toLowerCase()), { what: 'the unknown address to be looked up' });
+    } finally {
+      User.removeHook('afterFind', 'reset-lookups');
+    }
+    await mailer.outbox.idle();
     expect(smtp.messages().some((m) => m.to.includes(unknown))).toBe(false);
   });
 
@@ -215,9 +229,11 @@ describe('mail never fails a write', () => {
       const csrf = await csrfFor(agent);
       await agent.post('/api/password-resets').set('X-CSRF-Token', csrf).send({ email: user.email }).expect(202);
       // the link is made after the answer: wait for its row, then for the outbox
-      for (let i = 0; i < 200 && (await AuthToken.count({ where: { userId: user.id, purpose: 'password_reset' } })) === 0; i += 1) {
-        await new Promise((r) => setTimeout(r, 25));
-      }
+      await waitFor(async () => (await AuthToken.count({ where: { userId: user.id, purpose: 'password_reset' } })) > 0, {
+        what: 'the reset link to be made',
+        timeout: 5_000,
+        interval: 25,
+      });
       await mail.outbox.idle();
       expect(logged.join('\n')).toMatch(/not sent after 4 attempts/);
       // the token row was still written

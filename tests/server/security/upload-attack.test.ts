@@ -33,6 +33,7 @@ import { connectTestDb } from '../../support/db';
 import { buildUser, TEST_PASSWORD } from '../../support/factories';
 import { buildWalkJob, insertFinding, type WalkJob } from '../../support/findings';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
+import { waitFor } from '../../support/wait';
 
 jest.setTimeout(300_000);
 
@@ -192,14 +193,6 @@ function tempEntries(): string[] {
   return fs.existsSync(tempRoot) ? fs.readdirSync(tempRoot) : [];
 }
 
-async function waitFor(check: () => boolean, what: string, ms = 10_000): Promise<void> {
-  const until = Date.now() + ms;
-  while (!check()) {
-    if (Date.now() > until) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 20));
-  }
-}
-
 beforeAll(async () => {
   db = await connectTestDb();
   s3 = await startFakeS3();
@@ -252,7 +245,7 @@ describe('under a measured memory ceiling', () => {
     expect(decoding).toBe(0);
     expect(growth).toBeLessThan(MEMORY_CEILING);
     expect(await stored(w.job.id)).toEqual(before);
-    await waitFor(() => tempEntries().length === 0, 'the temporary files to be removed');
+    await waitFor(() => tempEntries().length === 0, { what: 'the temporary files to be removed' });
   });
 
   it('80 MB bodies to targets the caller may not write to → 404 after the first megabytes, no temporary file, nothing stored', async () => {
@@ -310,7 +303,7 @@ describe('decoding and temporary files', () => {
     expect(answers.map((a) => a.status)).toEqual([201, 201, 201, 201]);
     expect(decoding).toBeGreaterThan(0);
     expect(decoding).toBeLessThanOrEqual(DECODE_CONCURRENCY);
-    await waitFor(() => tempEntries().length === 0, 'the request folders to be removed');
+    await waitFor(() => tempEntries().length === 0, { what: 'the request folders to be removed' });
   });
 });
 

@@ -20,6 +20,7 @@ import { recordFindingEvent } from '../../../server/services/findings';
 import { withoutStatCache } from '../../../server/services/statCache';
 import { seedBenchJob, type BenchJob } from '../../../scripts/lib/benchSeed';
 import { connectTestDb } from '../../support/db';
+import { waitFor } from '../../support/wait';
 
 jest.setTimeout(300_000);
 
@@ -191,8 +192,24 @@ describe('tallies and the stat cache', () => {
         ta,
       );
       await db.sequelize.query(`UPDATE findings SET status = 'closed' WHERE id = $1`, { bind: [b.id], transaction: tb });
-      const moveA = db.sequelize.query(`UPDATE findings SET company_id = $2 WHERE id = $1`, { bind: [a.id, subScope.companyId], transaction: ta });
-      await new Promise((resolve) => setTimeout(resolve, 200));
+      const [{ pid: pidA }] = await db.sequelize.query<{ pid: number }>(`SELECT pg_backend_pid() AS pid`, { type: QueryTypes.SELECT, transaction: ta });
+      let moved = false;
+      const moveA = db.sequelize
+        .query(`UPDATE findings SET company_id = $2 WHERE id = $1`, { bind: [a.id, subScope.companyId], transaction: ta })
+        .finally(() => (moved = true));
+      // B's event goes in only once A's move has run, or is stuck waiting on a lock B holds (the
+      // order that deadlocked when versions were raised mid-transaction).
+      await waitFor(
+        async () =>
+          moved ||
+          (
+            await db.sequelize.query<{ waiting: boolean }>(`SELECT wait_event_type = 'Lock' AS waiting FROM pg_stat_activity WHERE pid = $1`, {
+              bind: [pidA],
+              type: QueryTypes.SELECT,
+            })
+          )[0]?.waiting,
+        { what: "A's move to run or wait on B's lock" },
+      );
       await recordFindingEvent(
         { findingId: b.id, jobId: bench.jobId, actorId, kind: 'accepted', from: { status: 'fix_submitted' }, to: { status: 'closed' }, reason: 'stat cache test' },
         tb,
