@@ -10,7 +10,7 @@ import { BeforeAfter, latestFixPhotos } from '../correction/BeforeAfter';
 import { Comments } from '../correction/Comments';
 import { FindingActions } from '../correction/FindingActions';
 import { FixForm } from '../correction/FixForm';
-import { mayDo } from '../correction/rules';
+import { mayDo, mayPin } from '../correction/rules';
 import { Timeline } from '../correction/Timeline';
 import { useFindingQuery } from '../queries/findings';
 import { useJobQuery } from '../queries/jobs';
@@ -133,7 +133,7 @@ function FindingBody({
               </Link>
             ) : null}
             <AppText>{[f.spaceName, f.levelName].filter(Boolean).join(' · ')}</AppText>
-            <PlanPinLink jobId={jobId} levelId={f.levelId} kind="finding" id={f.id} pinned={f.pinX !== null} canPlace={!sub && f.status !== 'voided'} testID="finding-plan-link" />
+            <PlanPinLink jobId={jobId} levelId={f.levelId} kind="finding" id={f.id} pinned={f.pinX !== null} canPlace={mayPin(f.status, role)} testID="finding-plan-link" />
           </View>
         </Row>
         <Row label="Company" testID="finding-company">

@@ -15,7 +15,7 @@ import type { FindingEventDto } from './finding';
  *   { void: { reason } }                          GC manager, the inspector who logged it; open or fix-submitted
  *   { reopen: { reason } }                        GC manager; closed
  *   { close: { note? } }                          inspector ("closed on walk"); open
- *   { pin: { x, y } | null }                      GC manager, inspector; any status (place, move or remove the plan pin;
+ *   { pin: { x, y } | null }                      GC manager, inspector; any status but voided (place, move or remove the plan pin;
  *                                                 no event: a pin is where the item is drawn, not part of its history)
  * A subcontractor gets 403 for every change (nothing written).
  */
