@@ -11,30 +11,29 @@
  */
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import { UniqueConstraintError, fn, literal, Op } from 'sequelize';
+import { UniqueConstraintError } from 'sequelize';
+import type { z } from 'zod';
 import {
   passwordResetRequestSchema,
   passwordResetSchema,
   signUpSchema,
   tokenParamsSchema,
   type AcceptedResponse,
-  type PasswordResetInput,
   type PasswordResetPreview,
-  type PasswordResetRequestInput,
-  type SignUpInput,
 } from '../../shared/schemas/auth';
 import { signInAs } from '../auth/establish';
 import { hashPassword } from '../auth/passwords';
 import { tooManyRequests } from '../errors';
 import type { MailService } from '../mail';
 import { validate, valid } from '../middleware/validate';
-import { AuthToken, User } from '../models';
 import { policy } from '../policies';
 import type { AccountLimits } from '../services/rateLimitStore';
 import { confirmEmail } from '../commands/confirmEmail';
 import { sendPasswordReset } from '../commands/sendPasswordReset';
+import { resetPassword } from '../commands/resetPassword';
 import { signUp } from '../commands/signUp';
-import { consumeToken, hashToken, inspectToken } from '../services/tokens';
+import { hashToken, inspectToken } from '../services/tokens';
+import { inTransaction, sequelizeOf } from '../services/records';
 import { idempotentWrite } from '../services/idempotency';
 
 export interface AccountRouteOptions {
@@ -51,7 +50,7 @@ export const RESET_ACCEPTED: AcceptedResponse = {
   message: 'If that address has a Trimout account, we sent it a link to choose a new password. It works for 1 hour.',
 };
 
-type Token = { token: string };
+type Token = z.infer<typeof tokenParamsSchema>;
 
 export function accountsRouter(options: AccountRouteOptions): Router {
   const router = Router();
@@ -88,7 +87,7 @@ export function accountsRouter(options: AccountRouteOptions): Router {
   });
 
   router.post('/signup', policy.public(), perAddress, validate({ body: signUpSchema }), perEmail, async (req, res) => {
-    const input = valid<SignUpInput>(req.valid.body);
+    const input = valid<z.infer<typeof signUpSchema>>(req.valid.body);
     // Hash first, whatever happens next: every answer takes as long (no enumeration by timing).
     const passwordHash = await hashPassword(input.password);
     try {
@@ -108,16 +107,15 @@ export function accountsRouter(options: AccountRouteOptions): Router {
 
   router.post('/email-confirmations/:token', policy.public(), perAddress, validate({ params: tokenParamsSchema }), perToken, async (req, res) => {
     const { token } = valid<Token>(req.valid.params);
-    const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
-    const userId = await sequelize.transaction((transaction) => confirmEmail({ transaction }, token));
+    const userId = await inTransaction(req, (transaction) => confirmEmail({ transaction }, token));
     res.status(200).json(await signInAs(req, userId));
   });
 
   router.post('/password-resets', policy.public(), perAddress, validate({ body: passwordResetRequestSchema }), perEmail, async (req, res) => {
-    const { email } = valid<PasswordResetRequestInput>(req.valid.body);
+    const { email } = valid<z.infer<typeof passwordResetRequestSchema>>(req.valid.body);
     // Answer first, then do the work: the answer's time cannot tell a known address from an unknown one.
     res.status(202).json(RESET_ACCEPTED);
-    await sendPasswordReset({ sequelize: req.app.get('sequelize') as import('sequelize').Sequelize, mail }, email).catch((err: unknown) =>
+    await sendPasswordReset({ sequelize: sequelizeOf(req), mail }, email).catch((err: unknown) =>
       options.log('password reset mail could not be prepared', err),
     );
   });
@@ -136,33 +134,10 @@ export function accountsRouter(options: AccountRouteOptions): Router {
     perToken,
     async (req, res) => {
       const { token } = valid<Token>(req.valid.params);
-      const { password } = valid<PasswordResetInput>(req.valid.body);
+      const { password } = valid<z.infer<typeof passwordResetSchema>>(req.valid.body);
       await inspectToken(token, 'password_reset'); // a dead link fails before the slow hash
       const passwordHash = await hashPassword(password);
-      const sequelize = req.app.get('sequelize') as import('sequelize').Sequelize;
-      const userId = await sequelize.transaction(async (transaction) => {
-        const row = await consumeToken(token, 'password_reset', transaction);
-        await User.update(
-          {
-            passwordHash,
-            // Ends every session of this user (the session keeps the epoch it was made with).
-            sessionEpoch: literal('session_epoch + 1') as unknown as number,
-            // The link came to this address: it is confirmed now.
-            emailConfirmedAt: fn('coalesce', literal('email_confirmed_at'), fn('now')) as unknown as Date,
-          },
-          { where: { id: row.userId! }, transaction },
-        );
-        // Other reset links of this user die with this one, and so do pending confirmation links
-        // (they carry passwords chosen by whoever signed up with this address).
-        await AuthToken.update(
-          { revokedAt: fn('now') as unknown as Date },
-          {
-            where: { userId: row.userId!, purpose: ['password_reset', 'email_confirmation'], usedAt: null, revokedAt: null, id: { [Op.ne]: row.id } },
-            transaction,
-          },
-        );
-        return row.userId!;
-      });
+      const userId = await inTransaction(req, (transaction) => resetPassword({ transaction }, token, passwordHash));
       res.status(200).json(await signInAs(req, userId));
     },
   );
