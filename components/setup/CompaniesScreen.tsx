@@ -1,20 +1,19 @@
+import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
+import { useForm, type Resolver } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { addJobCompanySchema, type JobCompanyDto, type JobDetail } from '../../shared/schemas/setup';
+import { addJobCompanySchema, updateJobCompanySchema, type AddJobCompanyInput, type JobCompanyDto, type JobDetail } from '../../shared/schemas/setup';
 import { TRADES, type TradeKey } from '../../shared/words';
-import { ApiError } from '../api/client';
 import { useAddCompanyMutation, useJobCompaniesQuery, useKnownCompaniesQuery, useRemoveCompanyMutation, useUpdateCompanyMutation } from '../queries/companies';
 import { space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
-import { Chips } from '../ui/Chips';
+import { FormChips, FormSelect, FormText } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
-import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
-import { TextField } from '../ui/TextField';
-import { writeErrorMessage } from './formErrors';
+import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 
 export const TRADE_LABEL: Record<TradeKey, string> = Object.fromEntries(TRADES.map((t) => [t.key, t.label])) as Record<TradeKey, string>;
@@ -66,10 +65,23 @@ function CompaniesBody({ job }: { job: JobDetail }) {
 
 function CompanyCard({ job, company, editor }: { job: JobDetail; company: JobCompanyDto; editor: boolean }) {
   const [editing, setEditing] = useState(false);
-  const [trades, setTrades] = useState<TradeKey[]>(company.trades);
-  const [error, setError] = useState<string | null>(null);
+  const [error, setRowError] = useState<string | null>(null);
   const update = useUpdateCompanyMutation(job.id);
   const remove = useRemoveCompanyMutation(job.id);
+  const { control, handleSubmit, setError, reset, formState } = useForm({
+    resolver: zodResolver(updateJobCompanySchema),
+    defaultValues: { trades: company.trades },
+  });
+  const save = handleSubmit(async (input) => {
+    setRowError(null);
+    try {
+      await update.mutateAsync({ company, input });
+      setEditing(false);
+    } catch (err) {
+      showServerErrors(err, setError, ['trades']);
+    }
+  });
+  const shown = error ?? (editing ? formState.errors.root?.message : undefined);
   return (
     <Card testID={`company-card-${company.name}`}>
       <View style={styles.head}>
@@ -89,7 +101,7 @@ function CompanyCard({ job, company, editor }: { job: JobDetail; company: JobCom
               tone="quiet"
               testID={`company-edit-${company.name}`}
               onPress={() => {
-                setTrades(company.trades);
+                reset({ trades: company.trades });
                 setEditing(true);
               }}
             />
@@ -99,27 +111,20 @@ function CompanyCard({ job, company, editor }: { job: JobDetail; company: JobCom
                 tone="quiet"
                 busy={remove.isPending}
                 onPress={() => {
-                  setError(null);
-                  remove.mutate(company, { onError: (err) => setError(writeErrorMessage(err)) });
+                  setRowError(null);
+                  remove.mutate(company, { onError: (err) => setRowError(writeErrorMessage(err)) });
                 }}
               />
             ) : null}
           </View>
         ) : null}
       </View>
-      {error ? <Notice tone="error">{error}</Notice> : null}
+      {shown ? <Notice tone="error">{shown}</Notice> : null}
       {editing ? (
         <>
-          <Chips label="Trades" values={trades} options={TRADE_OPTIONS} onChange={setTrades} testID={`company-trades-${company.name}`} />
+          <FormChips control={control} name="trades" label="Trades" options={TRADE_OPTIONS} testID={`company-trades-${company.name}`} />
           <View style={styles.actions}>
-            <Button
-              label="Save trades"
-              busy={update.isPending}
-              onPress={() => {
-                setError(null);
-                update.mutate({ company, input: { trades } }, { onSuccess: () => setEditing(false), onError: (err) => setError(writeErrorMessage(err)) });
-              }}
-            />
+            <Button label="Save trades" busy={update.isPending} onPress={save} />
             <Button label="Cancel" tone="quiet" onPress={() => setEditing(false)} />
           </View>
         </>
@@ -138,53 +143,63 @@ function CompanyCard({ job, company, editor }: { job: JobDetail; company: JobCom
   );
 }
 
+interface AddCompanyValues {
+  /** A company the caller's company already works with; unset for a new one. */
+  companyId?: string;
+  name: string;
+  trades: TradeKey[];
+}
+
+const [linkCompanySchema, newCompanySchema] = addJobCompanySchema.options;
+const linkCompany = zodResolver(linkCompanySchema);
+const newCompany = zodResolver(newCompanySchema);
+
+/**
+ * The request takes either a known company (companyId) or a new one (name): the form is checked
+ * against the branch of the shared schema it stands for, so each message lands on its own field.
+ */
+const addCompanyResolver: Resolver<AddCompanyValues, unknown, AddJobCompanyInput> = async (values, context, options) => {
+  if (values.companyId) return linkCompany({ companyId: values.companyId, trades: values.trades }, context, options as never);
+  const result = await newCompany({ name: values.name, trades: values.trades }, context, options as never);
+  if (values.name.trim() === '') {
+    return { values: {}, errors: { ...result.errors, name: { type: 'required', message: 'Enter a company name, or choose one you already work with.' } } };
+  }
+  return result as Awaited<ReturnType<Resolver<AddCompanyValues, unknown, AddJobCompanyInput>>>;
+};
+
 function AddCompany({ job, onDone, existing }: { job: JobDetail; onDone: () => void; existing: JobCompanyDto[] }) {
   const add = useAddCompanyMutation(job.id);
   const known = useKnownCompaniesQuery(true);
-  const [companyId, setCompanyId] = useState('');
-  const [name, setName] = useState('');
-  const [trades, setTrades] = useState<TradeKey[]>([]);
-  const [errors, setErrors] = useState<Record<string, string>>({});
+  const { control, handleSubmit, setError, watch, formState } = useForm<AddCompanyValues, unknown, AddJobCompanyInput>({
+    resolver: addCompanyResolver,
+    defaultValues: { companyId: undefined, name: '', trades: [] },
+  });
+  const companyId = watch('companyId');
   const onJob = new Set(existing.map((c) => c.id));
   const knownOptions = (known.data ?? []).filter((c) => !onJob.has(c.id)).map((c) => ({ value: c.id, label: c.name }));
 
-  const submit = () => {
-    const input = companyId ? { companyId, trades } : { name, trades };
-    const parsed = addJobCompanySchema.safeParse(input);
-    if (!parsed.success) {
-      const next: Record<string, string> = {};
-      for (const issue of parsed.error.issues) next[String(issue.path[0] ?? 'root')] ??= issue.message;
-      if (!companyId && name.trim() === '') next.name = 'Enter a company name, or choose one you already work with.';
-      setErrors(next);
-      return;
+  const submit = handleSubmit(async (input) => {
+    try {
+      await add.mutateAsync(input);
+      onDone();
+    } catch (err) {
+      showServerErrors(err, setError, ['companyId', 'name', 'trades']);
     }
-    setErrors({});
-    add.mutate(parsed.data, {
-      onSuccess: onDone,
-      onError: (err) => setErrors({ ...(err instanceof ApiError ? err.fields : {}), root: writeErrorMessage(err) }),
-    });
-  };
+  });
 
   return (
     <Card testID="company-form">
       <AppText variant="heading">Add a company</AppText>
-      {errors.root ? (
+      {formState.errors.root?.message ? (
         <Notice tone="error" testID="company-form-error">
-          {errors.root}
+          {formState.errors.root.message}
         </Notice>
       ) : null}
       {knownOptions.length > 0 ? (
-        <Select
-          label="A company you already work with"
-          testID="company-known-input"
-          value={companyId}
-          placeholder="— a new company —"
-          options={knownOptions}
-          onChange={setCompanyId}
-        />
+        <FormSelect control={control} name="companyId" label="A company you already work with" testID="company-known-input" placeholder="— a new company —" options={knownOptions} />
       ) : null}
-      {!companyId ? <TextField label="Company name" testID="company-name-input" value={name} onChangeText={setName} error={errors.name} /> : null}
-      <Chips label="Trades it covers on this job" values={trades} options={TRADE_OPTIONS} onChange={setTrades} error={errors.trades} testID="company-trades-input" />
+      {!companyId ? <FormText control={control} name="name" label="Company name" testID="company-name-input" /> : null}
+      <FormChips control={control} name="trades" label="Trades it covers on this job" options={TRADE_OPTIONS} testID="company-trades-input" />
       <View style={styles.actions}>
         <Button testID="company-submit" label="Add company" onPress={submit} busy={add.isPending} />
         <Button label="Cancel" tone="quiet" onPress={onDone} />

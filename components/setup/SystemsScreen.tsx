@@ -1,14 +1,15 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
+import type { z } from 'zod';
 import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
 import { pickConcentrationLimit } from '../../shared/calc/refrigerant';
 import {
   CONCENTRATION_LIMIT_UNITS,
-  concentrationOverrideSchema,
   createSystemSchema,
   type ConcentrationOverride,
+  type CreateSystemInput,
   type JobDetail,
   type SystemDto,
 } from '../../shared/schemas/setup';
@@ -20,12 +21,10 @@ import { Badge } from '../ui/Badge';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
-import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
-import { TextField } from '../ui/TextField';
 import { useWide } from '../ui/useWide';
 import { CONCENTRATION_STATUS, ConcentrationResultView } from './ConcentrationResult';
-import { FormQuantity, FormSelect, FormText } from '../ui/FormFields';
+import { FormQuantity, FormSelect, FormText, preparedFor } from '../ui/FormFields';
 import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 
@@ -137,7 +136,33 @@ function SystemCard({ job, system, editor }: { job: JobDetail; system: SystemDto
   );
 }
 
-const FIELDS = ['name', 'outdoorModel', 'refrigerant', 'factoryCharge', 'fieldCharge', 'concentrationLimitOverride'] as const;
+const FIELDS = [
+  'name',
+  'outdoorModel',
+  'refrigerant',
+  'factoryCharge',
+  'fieldCharge',
+  'concentrationLimitOverride.value',
+  'concentrationLimitOverride.unit',
+  'concentrationLimitOverride.source',
+] as const;
+
+/** The limit as typed: value as text; value and source both empty mean no override (null). */
+interface OverrideDraft {
+  value: string;
+  unit: ConcentrationOverride['unit'];
+  source: string;
+}
+type CreateSystemParsed = z.output<typeof createSystemSchema>;
+type SystemFormValues = Omit<CreateSystemInput, 'concentrationLimitOverride'> & { concentrationLimitOverride: OverrideDraft };
+
+const systemResolver = preparedFor<SystemFormValues, CreateSystemInput, unknown, CreateSystemParsed>(
+  zodResolver(createSystemSchema),
+  ({ concentrationLimitOverride: o, ...values }) => ({
+    ...values,
+    concentrationLimitOverride: o.value.trim() === '' && o.source.trim() === '' ? null : { value: Number(o.value), unit: o.unit, source: o.source },
+  }),
+);
 
 function massText(kg: number | null, job: JobDetail): string | null {
   return kg === null ? null : formatQuantity(kg, 'mass', job.unitSystem);
@@ -148,38 +173,26 @@ function SystemForm({ job, existing, onDone }: { job: JobDetail; existing?: Syst
   const create = useCreateSystemMutation(job.id);
   const update = useUpdateSystemMutation(job.id);
   const metric = job.unitSystem === 'metric';
-  const { control, handleSubmit, setError, formState, watch } = useForm({
-    resolver: zodResolver(createSystemSchema),
+  const { control, handleSubmit, setError, formState, watch } = useForm<SystemFormValues, unknown, CreateSystemParsed>({
+    resolver: systemResolver,
     defaultValues: {
       name: existing?.name ?? '',
       outdoorModel: existing?.outdoorModel ?? null,
       refrigerant: existing?.refrigerant ?? 'R-410A',
       factoryCharge: existing ? massText(existing.factoryCharge, job) : null,
       fieldCharge: existing ? massText(existing.fieldCharge, job) : null,
+      concentrationLimitOverride: {
+        value: existing?.concentrationLimitOverride ? String(existing.concentrationLimitOverride.value) : '',
+        unit: existing?.concentrationLimitOverride?.unit ?? (metric ? 'g/m³' : 'lb/Mcf'),
+        source: existing?.concentrationLimitOverride?.source ?? '',
+      },
     },
   });
   const refrigerant = watch('refrigerant') as Refrigerant;
   const stored = pickConcentrationLimit(refrigerant, job.codeEditions);
-  const [override, setOverride] = useState({
-    value: existing?.concentrationLimitOverride ? String(existing.concentrationLimitOverride.value) : '',
-    unit: existing?.concentrationLimitOverride?.unit ?? (metric ? 'g/m³' : 'lb/Mcf'),
-    source: existing?.concentrationLimitOverride?.source ?? '',
-  });
-  const [overrideError, setOverrideError] = useState<string | null>(null);
 
-  const submit = handleSubmit(async (values) => {
-    setOverrideError(null);
-    let concentrationLimitOverride: ConcentrationOverride | null = null;
-    if (override.value.trim() !== '' || override.source.trim() !== '') {
-      const parsed = concentrationOverrideSchema.safeParse({ value: Number(override.value), unit: override.unit, source: override.source });
-      if (!parsed.success) {
-        setOverrideError(parsed.error.issues[0]?.message ?? 'Check the entered limit.');
-        return;
-      }
-      concentrationLimitOverride = parsed.data;
-    }
+  const submit = handleSubmit(async (input) => {
     try {
-      const input = { ...values, concentrationLimitOverride };
       if (existing) await update.mutateAsync({ system: existing, input });
       else await create.mutateAsync(input);
       onDone();
@@ -244,31 +257,19 @@ function SystemForm({ job, existing, onDone }: { job: JobDetail; existing?: Syst
         </AppText>
         <View style={wide ? styles.pair : null}>
           <View style={styles.cell}>
-            <TextField
-              label="Limit (optional)"
-              testID="system-limit-value"
-              inputMode="decimal"
-              value={override.value}
-              onChangeText={(value) => setOverride((o) => ({ ...o, value }))}
-            />
+            <FormText control={control} name="concentrationLimitOverride.value" label="Limit (optional)" testID="system-limit-value" inputMode="decimal" />
           </View>
           <View style={styles.cell}>
-            <Select
+            <FormSelect
+              control={control}
+              name="concentrationLimitOverride.unit"
               label="Limit unit"
               testID="system-limit-unit"
-              value={override.unit}
               options={CONCENTRATION_LIMIT_UNITS.map((u) => ({ value: u, label: u }))}
-              onChange={(unit) => setOverride((o) => ({ ...o, unit: unit as ConcentrationOverride['unit'] }))}
             />
           </View>
         </View>
-        <TextField
-          label="Limit source (document, edition, table)"
-          testID="system-limit-source"
-          value={override.source}
-          onChangeText={(source) => setOverride((o) => ({ ...o, source }))}
-          error={overrideError ?? undefined}
-        />
+        <FormText control={control} name="concentrationLimitOverride.source" label="Limit source (document, edition, table)" testID="system-limit-source" />
       </View>
       <View style={styles.actions}>
         <Button testID="system-submit" label={existing ? 'Save system' : 'Add system'} onPress={submit} busy={create.isPending || update.isPending} />

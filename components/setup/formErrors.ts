@@ -20,7 +20,8 @@ export function showServerErrors<T extends FieldValues>(
   }
   let placed = false;
   for (const [field, message] of Object.entries(err.fields)) {
-    const top = field.split('.')[0]!;
+    // A nested field of the form (`concentrationLimitOverride.value`) takes its own message; else the top field.
+    const top = fieldNames.includes(field) ? field : field.split('.')[0]!;
     if (fieldNames.includes(top)) {
       setError(top as Path<T>, { message });
       placed = true;

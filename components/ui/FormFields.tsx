@@ -28,12 +28,15 @@ import { SeverityPicker } from '../findings/SeverityPicker';
 import { colors, space } from '../theme';
 import { MeasuredField } from '../walk/MeasuredField';
 import { AppText } from './AppText';
+import { Chips } from './Chips';
 import { Segmented } from './Segmented';
 import { Select, type SelectOption } from './Select';
 import { TextField } from './TextField';
 
 interface Base<T extends FieldValues> {
-  control: Control<T>;
+  // A field reads and sets the form's values, never its parsed output, so any output type will do.
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any
+  control: Control<T, any, any>;
   name: Path<T>;
   label: string;
   testID: string;
@@ -213,6 +216,32 @@ export function FormSegmented<T extends FieldValues, V extends string>({
   );
 }
 
+/** Several choices at once (trades, unit kinds), held as a list of the chosen values. */
+export function FormChips<T extends FieldValues, V extends string>({
+  control,
+  name,
+  label,
+  testID,
+  options,
+}: Base<T> & { options: readonly { value: V; label: string }[] }) {
+  return (
+    <Controller
+      control={control}
+      name={name}
+      render={({ field, fieldState }) => (
+        <Chips<V>
+          label={label}
+          testID={testID}
+          values={Array.isArray(field.value) ? (field.value as V[]) : []}
+          options={options}
+          onChange={field.onChange}
+          error={fieldState.error?.message}
+        />
+      )}
+    />
+  );
+}
+
 /** The three severities as big choices (shape, word and colour). */
 export function FormSeverity<T extends FieldValues>({
   control,
@@ -361,6 +390,22 @@ export function withFormOnly<I extends FieldValues, C, O extends FieldValues, X 
     const errors = { ...result.errors, ...extraErrors } as FieldErrors<I & X>;
     if (Object.keys(errors).length > 0) return { values: {}, errors };
     return { values: { ...(result.values as O), ...extra } as O & X, errors: {} };
+  };
+}
+
+/**
+ * The resolver of a request schema for a form that holds some of its values the way they are
+ * typed (a number as text, an optional group of fields left empty): `prepare` turns the form's
+ * values into the request, which the schema then checks. Field paths stay the same, so each
+ * message lands on the field it names.
+ */
+export function preparedFor<F extends FieldValues, I extends FieldValues, C, O extends FieldValues>(
+  resolver: Resolver<I, C, O>,
+  prepare: (values: F) => I,
+): Resolver<F, C, O> {
+  return async (values, context, options) => {
+    const result = await resolver(prepare(values), context, options as unknown as ResolverOptions<I>);
+    return result as unknown as Awaited<ReturnType<Resolver<F, C, O>>>;
   };
 }
 

@@ -1,0 +1,119 @@
+/**
+ * Set-up forms checked by the shared schemas: a company added by name or picked from the known
+ * ones (each branch's messages on its own fields), and a system's concentration limit typed as
+ * text (value and source both empty mean no override; a nested server message lands under the
+ * field it names).
+ */
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { fireEvent, render, screen, waitFor, within } from '@testing-library/react-native';
+import type { ReactElement } from 'react';
+import { CompaniesScreen } from '../../components/setup/CompaniesScreen';
+import { SystemsScreen } from '../../components/setup/SystemsScreen';
+import type { JobDetail } from '../../shared/schemas/setup';
+
+jest.setTimeout(30_000);
+
+jest.mock('../../components/ui/useWide', () => ({ useWide: () => true, WIDE_BREAKPOINT: 760 }));
+jest.mock('expo-router', () => {
+  const React = jest.requireActual<typeof import('react')>('react');
+  const { Text } = jest.requireActual<typeof import('react-native')>('react-native');
+  return {
+    Link: ({ href, asChild, children, ...rest }: { href: string; asChild?: boolean; children: ReactElement }) =>
+      asChild ? React.cloneElement(React.Children.only(children), { href } as object) : React.createElement(Text, { ...rest, href } as object, children),
+  };
+});
+
+const JOB = '00000000-0000-4000-8000-0000000000a1';
+const job: JobDetail = {
+  id: JOB,
+  name: 'Cinder Lane Commons',
+  number: null,
+  address: null,
+  role: 'gc_manager',
+  startsOn: null,
+  endsOn: null,
+  timeZone: 'UTC',
+  unitSystem: 'imperial',
+  codeEditions: { IMC: '2018', IRC: '2018', 'NFPA 70': '2023', 'ASHRAE 34': '2019', 'IEC 60335-2-40': '2018' },
+  severityDueDays: { critical: 2, major: 7, minor: 14 },
+  recurringThresholds: { minUnits: 3, minShare: 0.1 },
+  settings: {},
+  version: 3,
+} as unknown as JobDetail;
+
+type Answer = { status: number; body: unknown };
+
+/** jsdom has no fetch: the job and empty lists for reads; each write takes the next answer given. */
+function fakeApi(writes: Answer[]) {
+  const sent: { method: string; path: string; body: unknown }[] = [];
+  (globalThis as { fetch: unknown }).fetch = jest.fn(async (path: string, init?: RequestInit) => {
+    const method = init?.method ?? 'GET';
+    let answer: Answer;
+    if (method === 'GET') answer = { status: 200, body: path.split('?')[0] === `/api/jobs/${JOB}` ? job : { items: [], nextCursor: null } };
+    else {
+      sent.push({ method, path, body: JSON.parse(String(init!.body)) });
+      answer = writes.shift() ?? { status: 500, body: { error: { id: 'x', message: 'unexpected write' } } };
+    }
+    return { ok: answer.status < 300, status: answer.status, json: async () => answer.body, headers: { get: () => null } };
+  });
+  return sent;
+}
+
+function renderWith(ui: ReactElement) {
+  const client = new QueryClient({ defaultOptions: { queries: { retry: false, gcTime: Infinity }, mutations: { retry: false, gcTime: Infinity } } });
+  render(<QueryClientProvider client={client}>{ui}</QueryClientProvider>);
+}
+
+const refused = (fields: Record<string, string>) => ({
+  status: 400,
+  body: { error: { id: 'validation', message: `${Object.keys(fields)[0]}: ${Object.values(fields)[0]}`, fields } },
+});
+
+describe('adding a company', () => {
+  it('asks for a name, then puts the server’s message on the trades', async () => {
+    const sent = fakeApi([refused({ trades: 'Choose at least one trade.' })]);
+    renderWith(<CompaniesScreen jobId={JOB} />);
+    fireEvent.press(await screen.findByTestId('company-add'));
+    fireEvent.press(screen.getByTestId('company-submit'));
+    expect(within(await screen.findByTestId('company-name-input-error')).getByText('Enter a company name, or choose one you already work with.')).toBeTruthy();
+    expect(sent).toEqual([]);
+
+    fireEvent.changeText(screen.getByTestId('company-name-input'), 'Quarry Mechanical');
+    fireEvent.press(screen.getByTestId('company-trades-input-mechanical'));
+    fireEvent.press(screen.getByTestId('company-submit'));
+    expect(await screen.findByText('Choose at least one trade.')).toBeTruthy();
+    expect(within(screen.getByTestId('company-form-error')).getByText('Check the fields marked below.')).toBeTruthy();
+    expect(sent[0]!.body).toEqual({ name: 'Quarry Mechanical', trades: ['mechanical'] });
+  });
+});
+
+describe('a system’s concentration limit', () => {
+  async function openForm() {
+    fireEvent.press(await screen.findByTestId('system-add'));
+    fireEvent.changeText(screen.getByTestId('system-name-input'), 'VRF-3 (north)');
+  }
+
+  it('sends no override while value and source are empty', async () => {
+    const sent = fakeApi([{ status: 201, body: {} }]);
+    renderWith(<SystemsScreen jobId={JOB} />);
+    await openForm();
+    fireEvent.press(screen.getByTestId('system-submit'));
+    await waitFor(() => expect(sent).toHaveLength(1));
+    expect(sent[0]!.body).toMatchObject({ name: 'VRF-3 (north)', refrigerant: 'R-410A', concentrationLimitOverride: null });
+  });
+
+  it('checks a typed limit against the shared schema and sends it as a number', async () => {
+    const sent = fakeApi([refused({ 'concentrationLimitOverride.source': 'The limit’s source is at most 300 characters.' })]);
+    renderWith(<SystemsScreen jobId={JOB} />);
+    await openForm();
+    fireEvent.changeText(screen.getByTestId('system-limit-source'), 'ASHRAE 15-2019 Table 7-1');
+    fireEvent.press(screen.getByTestId('system-submit'));
+    expect(within(await screen.findByTestId('system-limit-value-error')).getByText('Limit: more than zero.')).toBeTruthy();
+    expect(sent).toEqual([]);
+
+    fireEvent.changeText(screen.getByTestId('system-limit-value'), '26');
+    fireEvent.press(screen.getByTestId('system-submit'));
+    expect(within(await screen.findByTestId('system-limit-source-error')).getByText('The limit’s source is at most 300 characters.')).toBeTruthy();
+    expect(sent[0]!.body).toMatchObject({ concentrationLimitOverride: { value: 26, unit: 'lb/Mcf', source: 'ASHRAE 15-2019 Table 7-1' } });
+  });
+});
