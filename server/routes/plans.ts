@@ -21,20 +21,19 @@
 import { readFile } from 'node:fs/promises';
 import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import multer from 'multer';
-import { QueryTypes, type Transaction } from 'sequelize';
-import { planImageQuerySchema, type PlanImageQuery } from '../../shared/schemas/board';
+import type { z } from 'zod';
+import { planImageQuerySchema } from '../../shared/schemas/board';
 import { levelParamsSchema } from '../../shared/schemas/setup';
 import { badRequest, HttpError, notFound } from '../errors';
 import { createUploadGuard, tempFileMulter, UploadFolderError, type UploadedFile, type UploadGuard } from '../middleware/upload';
 import { valid, validate } from '../middleware/validate';
-import { Level } from '../models';
 import { policy } from '../policies';
-import { presentLevel } from '../presenters/setup';
-import { idempotentWrite } from '../services/idempotency';
+import { alreadyAnswered, idempotentWrite, replayIfAnswered } from '../services/idempotency';
+import { levelDto } from '../services/levels';
 import { pendingUploads } from '../services/pendingUploads';
-import { PLAN_MAX_BYTES, processPlan, removePlanObject, sendPlan, withStoredPlan } from '../services/plans';
-import { inTransaction, lockForChange, sequelizeOf } from '../services/records';
-import { checkIfMatch, setEtag } from '../services/versioning';
+import { attachPlan, detachPlan, levelIsOnJob, PLAN_MAX_BYTES, processPlan, removePlanObject, sendPlan, storedPlanOf, withStoredPlan } from '../services/plans';
+import { inTransaction, sequelizeOf } from '../services/records';
+import { setEtag } from '../services/versioning';
 import type { ObjectStore } from '../storage/types';
 
 export interface PlansRouterOptions {
@@ -86,18 +85,9 @@ const uploadPlan = (tempRoot: string): RequestHandler => {
 /** Before the body is read: the level must be on the job (404). A retry of an answered key goes on to its replay. */
 async function levelTarget(req: Request, _res: Response, next: NextFunction) {
   if (await alreadyAnswered(req)) return next();
-  const { levelId } = valid<{ levelId: string }>(req.valid.params);
-  const exists = await Level.findOne({ where: { id: levelId, jobId: req.membership!.job.id }, attributes: ['id'] });
-  if (!exists) return next(notFound('Level not found.'));
+  const { levelId } = valid<z.infer<typeof levelParamsSchema>>(req.valid.params);
+  if (!(await levelIsOnJob(req.membership!.job.id, levelId))) return next(notFound('Level not found.'));
   next();
-}
-
-async function countsFor(levelId: string, transaction?: Transaction): Promise<{ spaces: number; units: number }> {
-  const [row] = await Level.sequelize!.query<{ spaces: string; units: string }>(
-    `SELECT (SELECT count(*) FROM spaces WHERE level_id = $1) AS spaces, (SELECT count(*) FROM units WHERE level_id = $1) AS units`,
-    { bind: [levelId], type: QueryTypes.SELECT, transaction },
-  );
-  return { spaces: Number(row?.spaces ?? 0), units: Number(row?.units ?? 0) };
 }
 
 export function plansRouter(options: PlansRouterOptions): Router {
@@ -107,27 +97,21 @@ export function plansRouter(options: PlansRouterOptions): Router {
   const router = Router();
 
   router.get(PATH, policy.jobMember(), validate({ params: levelParamsSchema, query: planImageQuerySchema }), async (req, res) => {
-    const { levelId } = valid<{ levelId: string }>(req.valid.params);
-    const { v } = valid<PlanImageQuery>(req.valid.query);
-    const level = await Level.findOne({ where: { id: levelId, jobId: req.membership!.job.id } });
-    if (!level || !level.planKey || !level.planContentType) throw notFound('This level has no plan.');
-    await sendPlan(store, res, { levelId: level.id, key: level.planKey, contentType: level.planContentType, version: level.planVersion }, v, req.get('if-none-match'));
+    const { levelId } = valid<z.infer<typeof levelParamsSchema>>(req.valid.params);
+    const { v } = valid<z.infer<typeof planImageQuerySchema>>(req.valid.query);
+    const plan = await storedPlanOf(req.membership!.job.id, levelId);
+    await sendPlan(store, res, plan, v, req.get('if-none-match'));
   });
 
   router.post(PATH, policy.jobMember(['gc_manager', 'inspector']), validate({ params: levelParamsSchema }), uploads.rate, levelTarget, uploadPlan(uploads.tempRoot), async (req, res) => {
-    const { levelId } = valid<{ levelId: string }>(req.valid.params);
+    const { levelId } = valid<z.infer<typeof levelParamsSchema>>(req.valid.params);
     const jobId = req.membership!.job.id;
     const file = req.file as UploadedFile | undefined;
     if (!file) throw badRequest('file: Choose the plan file (PNG, JPEG or PDF).', { file: 'Choose the plan file.' });
     // The idempotency fingerprint covers the file's SHA-256 (uploadDigests): the same key with another file is refused (422).
 
     // A retry of a request that already succeeded: replay its answer, convert and store nothing.
-    if (await alreadyAnswered(req)) {
-      await idempotentWrite(req, res, async () => {
-        throw badRequest('This request was already answered.');
-      });
-      return;
-    }
+    if (await replayIfAnswered(req, res)) return;
     // The level was found before the body was read (levelTarget); it is locked and checked again below.
     const plan = await processPlan(await readFile(file.path));
     let replacedKey: string | null = null;
@@ -137,24 +121,11 @@ export function plansRouter(options: PlansRouterOptions): Router {
       plan,
       async (key, claim) => {
         await idempotentWrite(req, res, async (transaction) => {
-          const level = await Level.findOne({ where: { id: levelId, jobId }, transaction, lock: transaction.LOCK.UPDATE });
-          if (!level) throw notFound('Level not found.');
-          if (req.get('if-match')) checkIfMatch(req, level.version, presentLevel(level, await countsFor(level.id, transaction)));
-          await claim(transaction);
-          replacedKey = level.planKey;
-          level.planKey = key;
-          level.planContentType = plan.contentType;
-          level.planSourceType = plan.sourceType;
-          level.planWidth = plan.width;
-          level.planHeight = plan.height;
-          level.planByteSize = plan.data.length;
-          level.planUploadedAt = new Date();
-          level.planUploadedBy = req.user!.id;
-          level.planVersion += 1;
-          level.version += 1;
-          await level.save({ transaction });
-          setEtag(res, level.version);
-          return { status: 201, body: presentLevel(level, await countsFor(level.id, transaction)) };
+          const write = { transaction, jobId, ifMatch: req.get('if-match') };
+          const done = await attachPlan(write, { levelId, key, plan, uploadedBy: req.user!.id, at: new Date(), claim });
+          replacedKey = done.replacedKey;
+          setEtag(res, done.level.version);
+          return { status: 201, body: await levelDto(done.level, transaction) };
         });
       },
       { pending: pendingUploads(sequelizeOf(req)), log },
@@ -163,26 +134,9 @@ export function plansRouter(options: PlansRouterOptions): Router {
   });
 
   router.delete(PATH, policy.jobMember(['gc_manager']), validate({ params: levelParamsSchema }), async (req, res) => {
-    const { levelId } = valid<{ levelId: string }>(req.valid.params);
+    const { levelId } = valid<z.infer<typeof levelParamsSchema>>(req.valid.params);
     const jobId = req.membership!.job.id;
-    const removedKey = await inTransaction(req, async (transaction) => {
-      const level = await lockForChange(req, Level, { id: levelId, jobId }, transaction, 'Level not found.', async (l) =>
-        presentLevel(l, await countsFor(l.id, transaction)),
-      );
-      if (!level.planKey) throw notFound('This level has no plan.');
-      const key = level.planKey;
-      level.planKey = null;
-      level.planContentType = null;
-      level.planSourceType = null;
-      level.planWidth = null;
-      level.planHeight = null;
-      level.planByteSize = null;
-      level.planUploadedAt = null;
-      level.planUploadedBy = null;
-      level.version += 1;
-      await level.save({ transaction });
-      return key;
-    });
+    const removedKey = await inTransaction(req, (transaction) => detachPlan({ transaction, jobId, ifMatch: req.get('if-match') }, levelId));
     await removePlanObject(store, removedKey, log);
     res.status(204).end();
   });
@@ -190,13 +144,3 @@ export function plansRouter(options: PlansRouterOptions): Router {
   return router;
 }
 
-/** True when this user already holds a finished answer under the request's Idempotency-Key. */
-async function alreadyAnswered(req: Parameters<RequestHandler>[0]): Promise<boolean> {
-  const key = req.get('idempotency-key');
-  if (!key || !req.user) return false;
-  const rows = await sequelizeOf(req).query<{ n: number }>(
-    `SELECT 1 AS n FROM idempotency_keys WHERE user_id = $1 AND key = $2 AND response_status <> 0`,
-    { bind: [req.user.id, key], type: QueryTypes.SELECT },
-  );
-  return rows.length > 0;
-}

@@ -34,11 +34,15 @@ import type { Response } from 'express';
 import sharp from 'sharp';
 import { HttpError, notFound } from '../errors';
 import type { Transaction } from 'sequelize';
-import { PHOTO_LIMITS } from '../middleware/upload';
+import { PHOTO_LIMITS } from '../../shared/rules/photos';
+import { Level } from '../models';
 import type { ObjectStore } from '../storage/types';
 import type { PendingUploads } from './pendingUploads';
 import { decodeSlots, detectPhotoType, PHOTO_PIXEL_LIMIT } from './photos';
+import { levelDto } from './levels';
+import { lockVersioned } from './records';
 import { createSlots } from './slots';
+import { checkVersion } from './versioning';
 
 /** Bytes per plan upload: the same limit as one photo (security.md: 15 MB). */
 export const PLAN_MAX_BYTES = PHOTO_LIMITS.fileSize;
@@ -332,4 +336,73 @@ export async function sendPlan(
     if ((err as NodeJS.ErrnoException).code === 'ERR_STREAM_PREMATURE_CLOSE' && res.destroyed) return;
     throw err;
   }
+}
+
+// ------------------------------------------------------------------------------------------------
+// The level's plan fields (routes/plans.ts)
+// ------------------------------------------------------------------------------------------------
+
+/** True when the level is on the job (checked before an upload's body is read). */
+export async function levelIsOnJob(jobId: string, levelId: string): Promise<boolean> {
+  return (await Level.findOne({ where: { id: levelId, jobId }, attributes: ['id'] })) !== null;
+}
+
+/** The level's plan as stored, or 404 when the level has none (or is not on this job). */
+export async function storedPlanOf(jobId: string, levelId: string): Promise<ServablePlan> {
+  const level = await Level.findOne({ where: { id: levelId, jobId } });
+  if (!level || !level.planKey || !level.planContentType) throw notFound('This level has no plan.');
+  return { levelId: level.id, key: level.planKey, contentType: level.planContentType, version: level.planVersion };
+}
+
+export interface PlanWrite {
+  transaction: Transaction;
+  jobId: string;
+  /** Optional on upload (refuses replacing a newer plan), required on delete. */
+  ifMatch?: string;
+}
+
+/**
+ * Points the level at a stored plan object (claimed in this transaction); returns the level and
+ * the key of the plan it replaced, to remove after the commit.
+ */
+export async function attachPlan(
+  { transaction, jobId, ifMatch }: PlanWrite,
+  upload: { levelId: string; key: string; plan: ProcessedPlan; uploadedBy: string; at: Date; claim: (transaction: Transaction) => Promise<void> },
+): Promise<{ level: Level; replacedKey: string | null }> {
+  const level = await Level.findOne({ where: { id: upload.levelId, jobId }, transaction, lock: transaction.LOCK.UPDATE });
+  if (!level) throw notFound('Level not found.');
+  if (ifMatch) checkVersion(ifMatch, level.version, await levelDto(level, transaction));
+  await upload.claim(transaction);
+  const replacedKey = level.planKey;
+  const { plan } = upload;
+  level.planKey = upload.key;
+  level.planContentType = plan.contentType;
+  level.planSourceType = plan.sourceType;
+  level.planWidth = plan.width;
+  level.planHeight = plan.height;
+  level.planByteSize = plan.data.length;
+  level.planUploadedAt = upload.at;
+  level.planUploadedBy = upload.uploadedBy;
+  level.planVersion += 1;
+  level.version += 1;
+  await level.save({ transaction });
+  return { level, replacedKey };
+}
+
+/** Clears the level's plan (If-Match); returns the removed object's key, to delete after the commit. */
+export async function detachPlan({ transaction, jobId, ifMatch }: PlanWrite, levelId: string): Promise<string> {
+  const level = await lockVersioned(Level, { id: levelId, jobId }, transaction, 'Level not found.', ifMatch, (l) => levelDto(l, transaction));
+  if (!level.planKey) throw notFound('This level has no plan.');
+  const key = level.planKey;
+  level.planKey = null;
+  level.planContentType = null;
+  level.planSourceType = null;
+  level.planWidth = null;
+  level.planHeight = null;
+  level.planByteSize = null;
+  level.planUploadedAt = null;
+  level.planUploadedBy = null;
+  level.version += 1;
+  await level.save({ transaction });
+  return key;
 }
