@@ -1,4 +1,5 @@
 import { limitResolverFor as clientResolver } from '../../../components/walk/measure';
+import { DEFAULT_EDITIONS } from '../../../shared/calc/limits';
 import { listLimit, unitLimitResolver } from '../../../shared/rules/limits';
 import { LIST_LIMIT_DEFAULT, LIST_LIMIT_MAX, type StatedLimitDto } from '../../../shared/schemas/setup';
 
@@ -19,7 +20,7 @@ describe('listLimit', () => {
 
 describe('unitLimitResolver', () => {
   const model = { name: 'Cassette 24k', limits: { max_pump_lift: inches(20, 'Cassette manual p. 12') } };
-  const job = { settings: { max_hanger_rod_spacing: inches(48, 'Job specification') }, codeEditions: {} };
+  const job = { settings: { max_hanger_rod_spacing: inches(48, 'Job specification') }, codeEditions: { ...DEFAULT_EDITIONS } };
 
   it("takes the model's limit in base units, named by its source", () => {
     const found = unitLimitResolver({ model, job })({ from: 'model', key: 'max_pump_lift' });
