@@ -19,10 +19,8 @@ import { badRequest } from '../errors';
 import { FindingEvent, type CatalogueItem, type Job, type UnitModel } from '../models';
 
 // ---------------------------------------------------------------------------------------------
-// Dates: the rules live in shared/rules (the screens apply the same ones). Re-exported for the
-// server files that still import them from here (the levels board).
+// Due dates: the rule lives in shared/rules (the screens apply the same one).
 
-export { addDays, todayIn } from '../../shared/rules/dates';
 export { dueOnFor } from '../../shared/rules/due';
 
 // ---------------------------------------------------------------------------------------------

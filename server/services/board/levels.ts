@@ -4,7 +4,7 @@
  */
 import type { Sequelize } from 'sequelize';
 import type { BoardCounts, BoardLevelRow, BoardResponse } from '../../../shared/schemas/board';
-import { todayIn } from '../findings';
+import { todayIn } from '../../../shared/rules/dates';
 import { cachedStat, readStatVersions, type StatVersions } from '../statCache';
 import type { FindingScope } from '../findingQueries';
 import { latestCheckJoin, loadTallies, loadUnresolvedFigures, num, select } from './common';

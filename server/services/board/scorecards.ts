@@ -4,7 +4,7 @@
  */
 import type { Sequelize } from 'sequelize';
 import type { CompanyScorecard, ScorecardsResponse } from '../../../shared/schemas/board';
-import { todayIn } from '../findings';
+import { todayIn } from '../../../shared/rules/dates';
 import { cachedStat, readStatVersions } from '../statCache';
 import type { FindingScope } from '../findingQueries';
 import { Bind, companyCond, loadTallies, loadUnresolvedFigures, num, selectTuned } from './common';

@@ -4,7 +4,7 @@
  */
 import type { Sequelize } from 'sequelize';
 import { TREND_DAYS_DEFAULT, type TrendQuery, type TrendResponse } from '../../../shared/schemas/board';
-import { addDays, todayIn } from '../findings';
+import { addDays, minutesIntoDay, todayIn } from '../../../shared/rules/dates';
 import { cachedStat } from '../statCache';
 import type { FindingScope } from '../findingQueries';
 import { Bind, companyCond, num, select } from './common';
@@ -51,13 +51,6 @@ export async function loadTrend(sequelize: Sequelize, scope: FindingScope, query
   const points = past.filter((p) => p.date >= start).map((p) => ({ ...p }));
   points.push({ date: today, open: base.open + delta.open, fixSubmitted: base.fixSubmitted + delta.fixSubmitted });
   return { levelId: query.levelId ?? null, points, companyScope: scope.companyId };
-}
-
-/** Minutes since midnight now in `timeZone`. */
-function minutesIntoDay(timeZone: string): number {
-  const parts = new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).formatToParts(new Date());
-  const get = (type: string) => Number(parts.find((p) => p.type === type)?.value ?? 0);
-  return get('hour') * 60 + get('minute');
 }
 
 /**

@@ -7,7 +7,7 @@ import request from 'supertest';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
 import { CatalogueItem } from '../../../server/models';
-import { addDays, todayIn } from '../../../server/services/findings';
+import { addDays, todayIn } from '../../../shared/rules/dates';
 import { buildTestApp, csrfFor, signIn, type SignedIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser } from '../../support/factories';

@@ -8,7 +8,7 @@ import type { Database } from '../../../server/db';
 import { Finding, Job } from '../../../server/models';
 import { seedDemo } from '../../../server/seed/demo';
 import { DEMO_FINDING_COUNT } from '../../../server/seed/demoFindings';
-import { todayIn } from '../../../server/services/findings';
+import { todayIn } from '../../../shared/rules/dates';
 import { connectTestDb } from '../../support/db';
 
 jest.setTimeout(120_000);

@@ -4,7 +4,7 @@
  * either side of a local midnight and of a daylight-saving change, and the Gregorian calendar's
  * leap-year rule.
  */
-import { addDays, todayIn } from '../../../shared/rules/dates';
+import { addDays, minutesIntoDay, todayIn } from '../../../shared/rules/dates';
 
 describe('todayIn', () => {
   it.each([
@@ -49,5 +49,19 @@ describe('addDays', () => {
     ['2026-03-09', -14, '2026-02-23'],
   ])('%s %+d days is %s', (date, days, expected) => {
     expect(addDays(date, days)).toBe(expected);
+  });
+});
+
+describe('minutesIntoDay', () => {
+  it.each([
+    // US rule since 2007 (Energy Policy Act of 2005, IANA tz "northamerica"): EDT (UTC−4) from 8 March 2026, 02:00 local.
+    ['America/New_York', '2026-03-08T06:59:00Z', 1 * 60 + 59], // 01:59 EST, one minute before the change
+    ['America/New_York', '2026-03-08T07:30:00Z', 3 * 60 + 30], // 03:30 EDT: the hour 02:00–03:00 does not exist
+    // India Standard Time, UTC+5:30 all year (IANA tz "asia").
+    ['Asia/Kolkata', '2026-01-01T00:00:00Z', 5 * 60 + 30],
+    ['UTC', '2026-12-02T23:59:00Z', 23 * 60 + 59],
+    ['Mars/Olympus_Mons', '2026-12-02T10:15:00Z', 10 * 60 + 15], // unknown zone: UTC, as todayIn
+  ])('%s at %s is minute %i of the day', (zone, instant, expected) => {
+    expect(minutesIntoDay(zone, new Date(instant))).toBe(expected);
   });
 });
