@@ -679,7 +679,7 @@ async function main() {
     }
     const board = stats(load.byEndpoint.get('GET board')?.times ?? []);
     const list = stats(load.byEndpoint.get('GET findings list')?.times ?? []);
-    console.log('\nTargets (issue 7 and 9) on this machine:');
+    console.log('\nTargets on this machine:');
     console.log(`  reads p95 under ${TARGET.readP95} ms with ${clients.length} clients: ${f1(readStats.p95)} ms ${readStats.p95 < TARGET.readP95 ? 'met' : 'NOT met'}`);
     console.log(`  findings list p50 / p95: ${f1(list.p50)} / ${f1(list.p95)} ms`);
     console.log(`  board p50 / p95 under ${TARGET.boardP95} ms: ${fx.optional.has('GET board') ? `${f1(board.p50)} / ${f1(board.p95)} ms ${board.p95 < TARGET.boardP95 ? 'met' : 'NOT met'}` : 'no board route yet'}`);

@@ -1,7 +1,8 @@
 /**
  * The single path for every client write. Each write gets the CSRF token and, for POST, an
  * Idempotency-Key made once per logical action: a retry of the same action reuses the key, so
- * the server never creates a second record. The offline outbox will queue these same objects.
+ * the server never creates a second record. A write is a plain object, so it can be kept and sent
+ * again later; its Idempotency-Key makes a resend safe.
  */
 import { getCsrfToken, request } from './client';
 

@@ -1,5 +1,5 @@
 /**
- * Level plans and pins (issue 7): the plan's metadata comes with the level (LevelDto.plan); the
+ * Level plans and pins: the plan's metadata comes with the level (LevelDto.plan); the
  * image is GET /levels/:levelId/plan?v=<version>; pins are fields of findings and units.
  * Writes: upload (POST multipart, Idempotency-Key), delete (If-Match), and pin changes
  * (finding PATCH {pin} and unit PATCH {pinX, pinY}, both with If-Match).

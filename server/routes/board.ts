@@ -1,5 +1,5 @@
 /**
- * The GC's view of a job (issue 7). Definitions of every number: docs/api-board.md.
+ * The GC's view of a job. Definitions of every number: docs/api-board.md.
  * GET /jobs/:jobId/board         every role (subcontractor: their company's findings only)
  * GET /jobs/:jobId/readiness     every role (subcontractor: blockers from their company only); ?levelId&systemId
  * GET /jobs/:jobId/scorecards    GC manager, inspector

@@ -1,5 +1,5 @@
 /**
- * The correction loop (issue 5). Paths under /api/jobs/:jobId/findings/:findingId unless said.
+ * The correction loop: fixes, re-inspections, changes, comments, bulk, inbox, queue. Paths under /api/jobs/:jobId/findings/:findingId unless said.
  * POST  /fixes              subcontractor (their company's finding), GC manager; multipart: `data` {note} + 1–10
  *                           `photos`; Idempotency-Key → 201 FixDetail (finding ETag)
  * POST  /reinspections      inspector, GC manager; {verdict, reason}; If-Match; Idempotency-Key → 200 FindingDetail
