@@ -1,12 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
-import { useForm } from 'react-hook-form';
+import { useForm, type Path } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
+import type { z } from 'zod';
 import { formatQuantity } from '../../shared/calc/format';
 import { MODEL_LIMITS, type ModelLimitKey } from '../../shared/catalogue/types';
-import { createModelSchema, statedLimitInput, type JobDetail, type StatedLimitInput, type UnitModelDto } from '../../shared/schemas/setup';
+import { createModelSchema, type CreateModelInput, type JobDetail, type StatedLimitInput, type UnitModelDto } from '../../shared/schemas/setup';
 import { UNIT_KINDS } from '../../shared/words';
-import { ApiError } from '../api/client';
 import { useCreateModelMutation, useDeleteModelMutation, useModelsQuery, useUpdateModelMutation } from '../queries/models';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -14,9 +14,8 @@ import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
-import { TextField } from '../ui/TextField';
 import { useWide } from '../ui/useWide';
-import { FormQuantity, FormSelect, FormText } from '../ui/FormFields';
+import { FormQuantity, FormSelect, FormText, preparedFor } from '../ui/FormFields';
 import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 import { KIND_LABEL } from './UnitsScreen';
@@ -131,63 +130,66 @@ function ModelCard({ job, model, editor, onEdit }: { job: JobDetail; model: Unit
   );
 }
 
+/** A limit as typed; value and source both empty mean none (removed when the model had one). */
 type LimitDraft = { value: string; source: string };
+type ModelFormValues = Omit<CreateModelInput, 'limits'> & { limits: Record<ModelLimitKey, LimitDraft> };
+type ModelFormParsed = z.output<typeof createModelSchema>;
+
+const FIELDS = [
+  'name',
+  'modelNumber',
+  'unitKind',
+  'nominalCapacity',
+  ...MODEL_LIMITS.flatMap((l) => [`limits.${l.key}.value`, `limits.${l.key}.source`]),
+] as Path<ModelFormValues>[];
+
+function modelResolver(existing: UnitModelDto | undefined) {
+  return preparedFor<ModelFormValues, CreateModelInput, unknown, ModelFormParsed>(zodResolver(createModelSchema), ({ limits: drafts, ...values }) => {
+    const limits: Partial<Record<ModelLimitKey, StatedLimitInput | null>> = {};
+    for (const def of MODEL_LIMITS) {
+      const d = drafts[def.key];
+      if (d.value.trim() === '' && d.source.trim() === '') {
+        if (existing?.limits[def.key]) limits[def.key] = null;
+      } else limits[def.key] = { value: d.value, source: d.source };
+    }
+    return { ...values, limits };
+  });
+}
 
 function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitModelDto; onDone: () => void }) {
   const wide = useWide();
   const create = useCreateModelMutation(job.id);
   const update = useUpdateModelMutation(job.id);
   const metric = job.unitSystem === 'metric';
-  const { control, handleSubmit, setError, formState } = useForm({
-    resolver: zodResolver(createModelSchema),
+  const [resolver] = useState(() => modelResolver(existing));
+  const { control, handleSubmit, setError, formState } = useForm<ModelFormValues, unknown, ModelFormParsed>({
+    resolver,
     defaultValues: {
       name: existing?.name ?? '',
       modelNumber: existing?.modelNumber ?? null,
       unitKind: existing?.unitKind ?? 'cassette_4way',
       nominalCapacity:
         existing?.nominalCapacity != null ? formatQuantity(existing.nominalCapacity, 'capacity', job.unitSystem).replace(/,/g, '') : null,
+      limits: Object.fromEntries(
+        MODEL_LIMITS.map((l) => [l.key, { value: existing?.limits[l.key]?.text ?? '', source: existing?.limits[l.key]?.source ?? '' }]),
+      ) as Record<ModelLimitKey, LimitDraft>,
     },
   });
-  const [drafts, setDrafts] = useState<Record<string, LimitDraft>>(() =>
-    Object.fromEntries(MODEL_LIMITS.map((l) => [l.key, { value: existing?.limits[l.key]?.text ?? '', source: existing?.limits[l.key]?.source ?? '' }])),
-  );
-  const [limitErrors, setLimitErrors] = useState<Record<string, string>>({});
 
-  const submit = handleSubmit(async (values) => {
-    const limits: Partial<Record<ModelLimitKey, StatedLimitInput | null>> = {};
-    const errors: Record<string, string> = {};
-    for (const def of MODEL_LIMITS) {
-      const d = drafts[def.key]!;
-      if (d.value.trim() === '' && d.source.trim() === '') {
-        if (existing?.limits[def.key]) limits[def.key] = null;
-        continue;
+  const submit = handleSubmit(
+    async (input) => {
+      try {
+        if (existing) await update.mutateAsync({ model: existing, input });
+        else await create.mutateAsync(input);
+        onDone();
+      } catch (err) {
+        showServerErrors(err, setError, FIELDS, { duplicate: 'name' });
       }
-      const parsed = statedLimitInput(def.quantity, def.label).safeParse({ value: d.value, source: d.source });
-      if (!parsed.success) errors[def.key] = parsed.error.issues[0]?.message ?? 'Check this limit.';
-      else limits[def.key] = { value: parsed.data.value, source: parsed.data.source };
-    }
-    setLimitErrors(errors);
-    if (Object.keys(errors).length > 0) {
-      setError('root', { message: 'Check the limits marked below.' });
-      return;
-    }
-    try {
-      const input = { ...values, limits };
-      if (existing) await update.mutateAsync({ model: existing, input });
-      else await create.mutateAsync(input);
-      onDone();
-    } catch (err) {
-      if (err instanceof ApiError) {
-        const fromServer: Record<string, string> = {};
-        for (const [k, m] of Object.entries(err.fields)) {
-          const key = k.split('.')[1];
-          if (k.startsWith('limits.') && key) fromServer[key] = m;
-        }
-        setLimitErrors(fromServer);
-      }
-      showServerErrors(err, setError, ['name', 'modelNumber', 'unitKind', 'nominalCapacity'], { duplicate: 'name' });
-    }
-  });
+    },
+    (errors) => {
+      if (errors.limits) setError('root', { message: 'Check the limits marked below.' });
+    },
+  );
 
   return (
     <Card testID="model-form">
@@ -228,21 +230,20 @@ function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitM
       {MODEL_LIMITS.map((def) => (
         <View key={def.key} style={[styles.limitForm, wide ? styles.pair : null]} testID={`model-limit-input-${def.key}`}>
           <View style={styles.cell}>
-            <TextField
+            <FormText
+              control={control}
+              name={`limits.${def.key}.value`}
               label={def.label}
               testID={`model-limit-${def.key}-value`}
-              value={drafts[def.key]!.value}
-              onChangeText={(value) => setDrafts((d) => ({ ...d, [def.key]: { ...d[def.key]!, value } }))}
               placeholder={def.quantity === 'angle' ? 'e.g. 30°' : 'e.g. 27-9/16 in'}
-              error={limitErrors[def.key]}
             />
           </View>
           <View style={styles.cell}>
-            <TextField
+            <FormText
+              control={control}
+              name={`limits.${def.key}.source`}
               label="Source"
               testID={`model-limit-${def.key}-source`}
-              value={drafts[def.key]!.source}
-              onChangeText={(source) => setDrafts((d) => ({ ...d, [def.key]: { ...d[def.key]!, source } }))}
               placeholder="e.g. installation manual, p. 12"
             />
           </View>

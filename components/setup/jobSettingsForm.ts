@@ -80,22 +80,23 @@ const recurringForm = z
   .transform((r): z.input<typeof recurringThresholdsSchema> => ({ minUnits: Number(r.minUnits), minShare: percentToShare(r.minShare) }))
   .pipe(recurringThresholdsSchema);
 
-const limitDraft = z.object({ value: z.string(), source: z.string() });
+/**
+ * One job limit as typed: both empty = no value (null); otherwise the shared stated-limit schema
+ * (value with its unit, and a source), whose messages land at `<key>.value` / `<key>.source`.
+ */
+const limitField = (def: (typeof JOB_SETTINGS)[number]) =>
+  z
+    .object({ value: z.string(), source: z.string() })
+    .transform((d) => (d.value.trim() === '' && d.source.trim() === '' ? null : d))
+    .pipe(statedLimitInput(def.quantity, def.label).nullable());
 
-/** Both empty = no value (null); otherwise the shared stated-limit schema (value with its unit, and a source). */
 const jobLimitsForm = z
-  .object(Object.fromEntries(JOB_SETTINGS.map((s) => [s.key, limitDraft])) as Record<JobSettingKey, typeof limitDraft>)
-  .transform((drafts, ctx) => {
+  .object(Object.fromEntries(JOB_SETTINGS.map((def) => [def.key, limitField(def)])) as Record<JobSettingKey, ReturnType<typeof limitField>>)
+  .transform((limits) => {
     const out = {} as Record<JobSettingKey, StatedLimitInput | null>;
     for (const def of JOB_SETTINGS) {
-      const d = drafts[def.key];
-      if (d.value.trim() === '' && d.source.trim() === '') {
-        out[def.key] = null;
-        continue;
-      }
-      const parsed = statedLimitInput(def.quantity, def.label).safeParse({ value: d.value, source: d.source });
-      if (parsed.success) out[def.key] = { value: parsed.data.value, source: parsed.data.source };
-      else for (const issue of parsed.error.issues) ctx.addIssue({ code: 'custom', message: issue.message, path: [def.key, ...issue.path] });
+      const l = limits[def.key];
+      out[def.key] = l ? { value: l.value, source: l.source } : null;
     }
     return out;
   });

@@ -2,12 +2,13 @@
  * Set-up forms checked by the shared schemas: a company added by name or picked from the known
  * ones (each branch's messages on its own fields), and a system's concentration limit typed as
  * text (value and source both empty mean no override; a nested server message lands under the
- * field it names).
+ * field it names), and a model's limits typed with their source (a limit left empty is not sent).
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { fireEvent, render, screen, waitFor, within } from '@testing-library/react-native';
 import type { ReactElement } from 'react';
 import { CompaniesScreen } from '../../components/setup/CompaniesScreen';
+import { ModelsScreen } from '../../components/setup/ModelsScreen';
 import { SystemsScreen } from '../../components/setup/SystemsScreen';
 import type { JobDetail } from '../../shared/schemas/setup';
 
@@ -115,5 +116,25 @@ describe('a system’s concentration limit', () => {
     fireEvent.press(screen.getByTestId('system-submit'));
     expect(within(await screen.findByTestId('system-limit-source-error')).getByText('The limit’s source is at most 300 characters.')).toBeTruthy();
     expect(sent[0]!.body).toMatchObject({ concentrationLimitOverride: { value: 26, unit: 'lb/Mcf', source: 'ASHRAE 15-2019 Table 7-1' } });
+  });
+});
+
+describe('a unit model’s limits', () => {
+  it('asks for the source of a typed limit, then sends only the limits typed', async () => {
+    const sent = fakeApi([{ status: 201, body: {} }]);
+    renderWith(<ModelsScreen jobId={JOB} />);
+    fireEvent.press(await screen.findByTestId('model-add'));
+    fireEvent.changeText(screen.getByTestId('model-name-input'), 'Cassette 24');
+    fireEvent.changeText(screen.getByTestId('model-limit-max_pump_lift-value'), '27-9/16 in');
+    fireEvent.press(screen.getByTestId('model-submit'));
+    expect(await screen.findByTestId('model-limit-max_pump_lift-source-error')).toBeTruthy();
+    expect(within(screen.getByTestId('model-form-error')).getByText('Check the limits marked below.')).toBeTruthy();
+    expect(sent).toEqual([]);
+
+    fireEvent.changeText(screen.getByTestId('model-limit-max_pump_lift-source'), 'Installation manual, p. 12');
+    fireEvent.press(screen.getByTestId('model-submit'));
+    await waitFor(() => expect(sent).toHaveLength(1));
+    expect(sent[0]!.body).toMatchObject({ name: 'Cassette 24', limits: { max_pump_lift: { value: '27-9/16 in', source: 'Installation manual, p. 12' } } });
+    expect(Object.keys((sent[0]!.body as { limits: object }).limits)).toEqual(['max_pump_lift']);
   });
 });
