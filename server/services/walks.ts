@@ -1,6 +1,12 @@
-import type { Transaction } from 'sequelize';
-import { badRequest, conflict } from '../errors';
-import { Walk } from '../models';
+/** Walks: one inspector's pass over a level (reads and writes of routes/walks.ts), and the walk a unit check joins. */
+import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import type { WalkDetail, WalkDto, WalkListQueryParsed, WalkUnitsQueryParsed, WalkUnitsResponse } from '../../shared/schemas/findings';
+import { badRequest, conflict, forbidden, notFound } from '../errors';
+import { Level, Walk } from '../models';
+import { presentWalk, presentWalkDetail, type WalkRow } from '../presenters/walk';
+import { finishPage, type PageRequest } from './paging';
+import { lockRow } from './records';
+import { levelCoverage, walkUnitCounts, walkUnitsPage } from './walkUnits';
 
 /** A walk of this job that may take unit checks on `levelId`: 400 when unknown or on another level, 409 when finished. */
 export async function usableWalk(jobId: string, walkId: string, levelId: string, transaction: Transaction): Promise<Walk> {
@@ -11,4 +17,118 @@ export async function usableWalk(jobId: string, walkId: string, levelId: string,
   }
   if (walk.finishedAt) throw conflict('That walk is finished. Start a new walk to record more checks.', 'walk_finished');
   return walk;
+}
+
+const WALK_SELECT = `
+  SELECT w.id, w.level_id, l.name AS level_name, w.inspector_id, u.name AS inspector_name,
+         w.started_at, w.finished_at,
+         to_char(w.started_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"') AS started_text,
+         (SELECT count(*) FROM unit_checks uc WHERE uc.walk_id = w.id) AS check_count
+    FROM walks w JOIN levels l ON l.id = w.level_id JOIN users u ON u.id = w.inspector_id`;
+
+/** One walk with its level's coverage and the units completed in it, or null. */
+export async function walkDetail(sequelize: Sequelize, jobId: string, walkId: string, transaction?: Transaction): Promise<WalkDetail | null> {
+  const [row] = await sequelize.query<WalkRow>(`${WALK_SELECT} WHERE w.job_id = $1 AND w.id = $2`, {
+    bind: [jobId, walkId],
+    type: QueryTypes.SELECT,
+    transaction,
+  });
+  if (!row) return null;
+  const coverage = await levelCoverage(sequelize, jobId, row.level_id, transaction);
+  const [inWalk] = await sequelize.query<{ n: string }>(
+    `SELECT count(DISTINCT unit_id) AS n FROM unit_checks WHERE walk_id = $1 AND complete`,
+    { bind: [walkId], type: QueryTypes.SELECT, transaction },
+  );
+  return presentWalkDetail(row, coverage, Number(inWalk?.n ?? 0));
+}
+
+/** The job's walks, newest first: (started_at, id) descending; the cursor carries started_at as text (microseconds kept). */
+export async function listWalks(
+  sequelize: Sequelize,
+  jobId: string,
+  query: WalkListQueryParsed,
+  page: PageRequest,
+): Promise<{ items: WalkDto[]; nextCursor: string | null }> {
+  const bind: unknown[] = [jobId];
+  const conds = ['w.job_id = $1'];
+  if (query.levelId) conds.push(`w.level_id = $${bind.push(query.levelId)}`);
+  if (query.inspectorId) conds.push(`w.inspector_id = $${bind.push(query.inspectorId)}`);
+  if (query.open === true) conds.push('w.finished_at IS NULL');
+  if (query.open === false) conds.push('w.finished_at IS NOT NULL');
+  if (page.after) {
+    const a = bind.push(String(page.after.value));
+    const b = bind.push(page.after.id);
+    conds.push(`(w.started_at < $${a}::timestamptz OR (w.started_at = $${a}::timestamptz AND w.id < $${b}))`);
+  }
+  const limit = bind.push(page.limit + 1);
+  const rows = await sequelize.query<WalkRow>(`${WALK_SELECT} WHERE ${conds.join(' AND ')} ORDER BY w.started_at DESC, w.id DESC LIMIT $${limit}`, {
+    bind,
+    type: QueryTypes.SELECT,
+  });
+  const { rows: kept, nextCursor } = finishPage(rows, page, (r) => r.started_text);
+  return { items: kept.map(presentWalk), nextCursor };
+}
+
+export interface WalkWrite {
+  sequelize: Sequelize;
+  transaction: Transaction;
+  jobId: string;
+  /** Who starts or finishes the walk, and their role on the job. */
+  actor: { id: string; role: string };
+  clock?: () => Date;
+}
+
+/** The actor starts a walk on a level of the job (400 when the level is not on it). */
+export async function startWalk({ sequelize, transaction, jobId, actor, clock }: WalkWrite, levelId: string): Promise<WalkDetail> {
+  const level = await Level.findOne({ where: { id: levelId, jobId }, transaction });
+  if (!level) throw badRequest('levelId: That level is not on this job.', { levelId: 'That level is not on this job.' });
+  const walk = await Walk.create({ jobId, levelId: level.id, inspectorId: actor.id, startedAt: (clock ?? (() => new Date()))() }, { transaction });
+  return (await walkDetail(sequelize, jobId, walk.id, transaction))!;
+}
+
+/** The walk's inspector or a GC manager finishes it; finishing twice keeps the first finish time (a retried request). */
+export async function finishWalk({ sequelize, transaction, jobId, actor, clock }: WalkWrite, walkId: string): Promise<WalkDetail> {
+  const walk = await lockRow(Walk, { id: walkId, jobId }, transaction, 'Walk not found.');
+  if (actor.role !== 'gc_manager' && walk.inspectorId !== actor.id) {
+    throw forbidden('Only the inspector who started this walk or a GC manager can finish it.');
+  }
+  if (!walk.finishedAt) {
+    walk.finishedAt = (clock ?? (() => new Date()))();
+    await walk.save({ transaction });
+  }
+  return (await walkDetail(sequelize, jobId, walk.id, transaction))!;
+}
+
+/**
+ * A level's units with their walk state, the counts under the filters, and the level's coverage.
+ * `pageOf` reads the cursor only once the level is known to be on the job (a level of another
+ * job answers 404 whatever cursor came with it).
+ */
+export async function walkUnitsOf(
+  sequelize: Sequelize,
+  jobId: string,
+  levelId: string,
+  query: WalkUnitsQueryParsed,
+  pageOf: () => PageRequest,
+): Promise<WalkUnitsResponse> {
+  const level = await Level.findOne({ where: { id: levelId, jobId } });
+  if (!level) throw notFound('Level not found.');
+  const page = pageOf();
+  const filters = { spaceId: query.spaceId, systemId: query.systemId, kind: query.kind, q: query.q || undefined, state: query.state };
+  const items = await walkUnitsPage(sequelize, jobId, level.id, filters, page);
+  const { rows, nextCursor } = finishPage(items, page, (u) => u.tag);
+  const counts = await walkUnitCounts(sequelize, jobId, level.id, filters);
+  const coverage = await levelCoverage(sequelize, jobId, level.id);
+  return {
+    items: rows,
+    nextCursor,
+    counts: {
+      total: counts.total,
+      checked: counts.checked,
+      notChecked: counts.notChecked,
+      inProgress: counts.inProgress,
+      withOpenFindings: counts.withOpenFindings,
+    },
+    coverage,
+  };
 }
