@@ -184,7 +184,6 @@ export interface RecurringThresholdsView {
   minUnits: number;
   minShare: number;
 }
-export const DEFAULT_RECURRING_THRESHOLDS: RecurringThresholdsView = { minUnits: 3, minShare: 0.1 };
 
 export interface RecurringDefect {
   catalogueItemId: string;

@@ -2,8 +2,8 @@
  * Recurring defects: defect types found on many of the looked-at units (docs/api-board.md).
  */
 import type { Sequelize } from 'sequelize';
+import { DEFAULT_RECURRING_THRESHOLDS } from '../../../shared/schemas/setup';
 import {
-  DEFAULT_RECURRING_THRESHOLDS,
   type RecurringDefect,
   type RecurringResponse,
   type RecurringThresholdsView,

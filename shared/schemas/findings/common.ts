@@ -2,7 +2,6 @@
  * Limits and the person reference shared by the walk, check and finding schemas.
  */
 
-export const FINDINGS_LIST_LIMIT_MAX = 200;
 export const FINDINGS_LIST_LIMIT_DEFAULT = 50;
 /** Items in one unit check (the catalogue holds far fewer per unit kind). */
 export const CHECK_ITEMS_MAX = 200;

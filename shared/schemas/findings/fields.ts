@@ -3,22 +3,9 @@
  * shared/schemas/findings.ts: only the schemas built from them are.
  */
 import { z } from 'zod';
-import { FINDINGS_LIST_LIMIT_MAX, NOTE_MAX, MEASURED_TEXT_MAX, REASON_MAX } from './common';
+import { NOTE_MAX, MEASURED_TEXT_MAX, REASON_MAX } from './common';
 
-export const id = (label = 'id') => z.string({ error: `Choose a ${label}.` }).uuid(`Not a valid ${label}.`);
-
-export const pageQuery = {
-  limit: z.coerce
-    .number({ error: `A whole number from 1 to ${FINDINGS_LIST_LIMIT_MAX}.` })
-    .int(`A whole number from 1 to ${FINDINGS_LIST_LIMIT_MAX}.`)
-    .min(1, `A whole number from 1 to ${FINDINGS_LIST_LIMIT_MAX}.`)
-    .max(FINDINGS_LIST_LIMIT_MAX, `At most ${FINDINGS_LIST_LIMIT_MAX}.`)
-    .optional(),
-  /** Opaque; the server checks it whole (length, signature, types) and answers 400 invalid_cursor. */
-  cursor: z.string().optional(),
-};
-
-export const booleanQuery = z.enum(['true', 'false'], { error: 'Use true or false.' }).transform((v) => v === 'true');
+export { booleanQuery, dateOnly, id, pageQuery } from '../fields';
 
 /** A comma-separated list of enum values in a query string: `status=open,fix_submitted`. */
 export function enumList<T extends readonly [string, ...string[]]>(values: T) {
@@ -38,14 +25,6 @@ export function enumList<T extends readonly [string, ...string[]]>(values: T) {
       return [...new Set(parts)] as T[number][];
     });
 }
-
-export const dateOnly = z
-  .string({ error: 'Enter a date (YYYY-MM-DD).' })
-  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Enter a date as YYYY-MM-DD.')
-  .refine(
-    (s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s),
-    'Not a real date.',
-  );
 
 export const measuredText = z
   .string({ error: 'Type the measured value with its unit (e.g. 34 in).' })

@@ -6,7 +6,7 @@ import { z } from 'zod';
 import type { QuantityKind } from '../../catalogue/types';
 import { parseQuantity } from '../../calc/quantity';
 
-export const LIST_LIMIT_MAX = 200;
+export { LIST_LIMIT_MAX } from '../fields';
 export const LIST_LIMIT_DEFAULT = 100;
 /** CSV import: at most this many data rows per file. */
 export const IMPORT_MAX_ROWS = 5000;

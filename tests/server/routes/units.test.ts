@@ -88,7 +88,7 @@ describe('units: read', () => {
     expect(seen).toEqual(['T-1', 'T-2', 'T-3', 'T-4', 'T-5']);
     const tooMany = await crew.sub.get(jobPath(s.job.id, '/units?limit=500'));
     expect(tooMany.status).toBe(400);
-    expect(tooMany.body.error.message).toBe('query.limit: limit: at most 200.');
+    expect(tooMany.body.error.message).toBe('query.limit: At most 200.');
   });
 
   it("answers 404 for another job's units", async () => {
