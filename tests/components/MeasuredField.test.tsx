@@ -2,7 +2,7 @@
  * The unit check's measured item: as the inspector types, the verdict (pass / fail), the limit,
  * the margin and where the limit comes from show at once; a malformed value shows the parser's
  * message under the field; a missing model limit is never a pass; a failed measurement proposes
- * the defect (CheckItemCard switches the mark).
+ * the defect (CheckItemRow switches the mark).
  *
  * Check values: the model's pump-lift rating of 30 in is an invented demo figure (common
  * practice puts a cassette's pump lift at about 30 in, no published source). 1 in = 25.4 mm exactly
@@ -13,7 +13,7 @@ import { useState } from 'react';
 import type { MeasuredRule } from '../../shared/catalogue/types';
 import type { CatalogueItemDto, JobDetail, UnitModelDto } from '../../shared/schemas/setup';
 import type { CheckMark } from '../../shared/words';
-import { CheckItemCard } from '../../components/walk/CheckItemCard';
+import { CheckItemRow } from '../../components/walk/CheckItemRow';
 import { MeasuredField } from '../../components/walk/MeasuredField';
 import { limitResolverFor, measure, type MeasurementView } from '../../components/walk/measure';
 
@@ -144,7 +144,7 @@ describe('measure()', () => {
   });
 });
 
-describe('CheckItemCard', () => {
+describe('CheckItemRow', () => {
   const item: CatalogueItemDto = {
     id: '00000000-0000-4000-8000-000000000003',
     code: 'DR-03',
@@ -167,7 +167,7 @@ describe('CheckItemCard', () => {
     const [mark, setMark] = useState<CheckMark | undefined>(undefined);
     const [text, setText] = useState('');
     return (
-      <CheckItemCard
+      <CheckItemRow
         item={item}
         mark={mark}
         onMark={setMark}
@@ -179,6 +179,7 @@ describe('CheckItemCard', () => {
         resolve={resolve}
         system="imperial"
         logged={[]}
+        unresolved={[]}
         onLogFinding={onLog}
       />
     );
@@ -194,11 +195,23 @@ describe('CheckItemCard', () => {
     expect(onLog).toHaveBeenCalledTimes(1);
   });
 
-  it('names the hazards of its caution and reads it in full on a tap', () => {
+  it('keeps the guidance and the caution one tap away, read in full when opened', () => {
     render(<Card onLog={jest.fn()} />);
+    expect(screen.queryByTestId('check-item-DR-03-caution')).toBeNull();
+    fireEvent.press(screen.getByTestId('check-item-DR-03-expand'));
     expect(screen.getByText('⚠ Caution: Overhead work')).toBeTruthy();
-    expect(screen.queryByTestId('check-item-DR-03-caution-text')).toBeNull();
-    fireEvent.press(screen.getByTestId('check-item-DR-03-caution-toggle'));
     expect(flat('check-item-DR-03-caution-text')).toContain('licensed practice govern');
+    expect(screen.getByText('The drain rises higher than the pump can lift.')).toBeTruthy();
+  });
+
+  it('names the item in the accessible name of each one-tap mark', () => {
+    render(<Card onLog={jest.fn()} />);
+    expect(screen.getByLabelText('OK: DR-03 Pump lift too high').props.testID).toBe('check-item-DR-03-mark-ok');
+    expect(screen.getByLabelText('Defect: DR-03 Pump lift too high').props.testID).toBe('check-item-DR-03-mark-defect');
+    fireEvent.press(screen.getByTestId('check-item-DR-03-mark-ok'));
+    expect(screen.getByTestId('check-item-DR-03-mark-ok').props.accessibilityState).toMatchObject({ checked: true });
+    // a second tap takes the mark back
+    fireEvent.press(screen.getByTestId('check-item-DR-03-mark-ok'));
+    expect(screen.getByTestId('check-item-DR-03-mark-ok').props.accessibilityState).toMatchObject({ checked: false });
   });
 });

@@ -119,6 +119,17 @@ async function openUnit(page: Page, tag: string) {
   expect(await text(page, 'unit-check-tag')).toBe(tag);
 }
 
+/**
+ * Taps OK on every item still not marked: what "All OK for the rest" leaves to the inspector
+ * (measured and yes/no items, items with an open finding).
+ */
+async function okTheRest(page: Page) {
+  const unmarked = page.locator('[data-testid^="check-item-"][data-testid$="-state"]', { hasText: /^Not marked$/ });
+  for (const id of await unmarked.evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')!))) {
+    await page.getByTestId(id.replace(/-state$/, '-mark-ok')).click();
+  }
+}
+
 async function saveCheck(page: Page, tag: string) {
   await page.getByTestId('unit-check-save').click();
   await page.getByTestId('level-walk-saved').waitFor();
@@ -155,9 +166,9 @@ describe('walking a level on a phone', () => {
     await openUnit(page, tags[0]);
     await page.getByTestId('unit-check-progress').waitFor();
     expect(await text(page, 'unit-check-progress')).toMatch(/^0 of \d+ marked$/);
-    // the caution names its hazards; a tap reads it, deferring to the manual, codes and licensed practice
+    // guidance and the caution are one tap away: the caution names its hazards and defers to the manual, codes and licensed practice
+    await page.getByTestId('check-item-MT-01-expand').click();
     expect(await text(page, 'check-item-MT-01-caution-toggle')).toContain('Caution: Lifting · Overhead work');
-    await page.getByTestId('check-item-MT-01-caution-toggle').click();
     expect(await text(page, 'check-item-MT-01-caution-text')).toContain('installation manual, local codes and licensed practice govern');
     await h.screenshot(page, 'walk-03-unit-check-phone');
     // A defect marked with no finding behind it is named before the check saves.
@@ -165,7 +176,11 @@ describe('walking a level on a phone', () => {
     await page.getByTestId('unit-check-save').click();
     expect(await text(page, 'unit-check-error')).toContain('marked Defect with no finding logged: MT-01');
     await page.getByTestId('check-item-MT-01-mark-ok').click();
+    // "All OK for the rest" leaves measured and yes/no items to the inspector, and says how many
     await page.getByTestId('unit-check-all-ok').click();
+    expect(await text(page, 'unit-check-all-ok-left')).toMatch(/^Marked \d+ OK\. Left for you: \d+ measured or yes\/no items\.$/);
+    expect(await text(page, 'unit-check-progress')).not.toMatch(/^(\d+) of \1 marked$/);
+    await okTheRest(page);
     expect(await text(page, 'unit-check-progress')).toMatch(/^(\d+) of \1 marked$/);
     await saveCheck(page, tags[0]);
     await exactText(page, 'level-coverage-count', '1 of 3 checked');
@@ -200,6 +215,7 @@ describe('walking a level on a phone', () => {
     const photoLabel = (await text(page, 'check-item-MT-01-logged')).replace(/^✓ Logged /, '');
     expect(photoLabel).toMatch(/^#\d+$/);
     await page.getByTestId('unit-check-all-ok').click();
+    await okTheRest(page);
     await saveCheck(page, tags[1]);
     await exactText(page, 'level-coverage-count', '2 of 3 checked');
 
@@ -228,6 +244,7 @@ describe('walking a level on a phone', () => {
     await submitFinding(page, 'DR-03');
     const measuredLabel = (await text(page, 'check-item-DR-03-logged')).replace(/^✓ Logged /, '');
     await page.getByTestId('unit-check-all-ok').click();
+    await okTheRest(page);
     await saveCheck(page, tags[2]);
 
     // 4. The level's coverage: all three checked, two with open findings, their worst severity shown.
