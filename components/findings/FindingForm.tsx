@@ -10,6 +10,7 @@ import { SEVERITY_LABELS, TRADES, type Severity, type UnitKindKey } from '../../
 import { ApiError } from '../api/client';
 import type { Write } from '../api/mutations';
 import { applyApiError } from '../auth/formErrors';
+import { useFindingDraft, useKeepFindingDraft } from '../drafts/findingDraft';
 import { useCatalogueQuery } from '../queries/catalogue';
 import { useJobCompaniesQuery } from '../queries/companies';
 import { createFindingWrite, useCreateFindingMutation } from '../queries/findings';
@@ -49,6 +50,8 @@ export interface FindingFormProps {
   resolve?: LimitResolver;
   onLogged: (finding: FindingDetail) => void;
   onCancel?: () => void;
+  /** Keeps the half-filled form on the phone under this key (components/drafts), restored when it opens again. */
+  draftKey?: string;
   testID?: string;
 }
 
@@ -92,11 +95,13 @@ function FindingFormBody({
   onCancel,
   items,
   companies,
+  draftKey,
   testID = 'finding-form',
 }: FindingFormProps & { items: readonly CatalogueItemDto[]; companies: NonNullable<ReturnType<typeof useJobCompaniesQuery>['data']> }) {
   const today = todayIn(job.timeZone);
   const policyDue = (s: Severity) => addDays(today, job.severityDueDays[s]);
-  const initialSeverity: Severity = fixedItem?.defaultSeverity ?? 'major';
+  const kept = useFindingDraft(draftKey);
+  const initialSeverity: Severity = kept.initial.severity ?? fixedItem?.defaultSeverity ?? 'major';
   const { control, handleSubmit, setError, setValue, watch, formState } = useForm<FindingFormValues, unknown, FindingFormParsed>({
     resolver,
     defaultValues: {
@@ -112,8 +117,10 @@ function FindingFormBody({
       walkId: walkId ?? undefined,
       unitCheckId: unitCheckId ?? undefined,
       photos: [],
+      ...kept.initial,
     },
   });
+  useKeepFindingDraft(kept, watch, (photos) => setValue('photos', photos));
   const create = useCreateFindingMutation(job.id);
   // One write per press; a retry after a failure re-sends the same write (same Idempotency-Key).
   const write = useRef<Write | null>(null);
@@ -168,6 +175,7 @@ function FindingFormBody({
       create.mutate(w, {
         onSuccess: (finding) => {
           write.current = null;
+          kept.clear();
           onLogged(finding);
         },
         onError: (err) => {
@@ -266,7 +274,17 @@ function FindingFormBody({
         </Notice>
       ) : null}
       <Button label={photoCount ? `Log finding with ${photoCount} photo${photoCount === 1 ? '' : 's'}` : 'Log finding'} testID={`${testID}-submit`} busy={create.isPending} onPress={submit} />
-      {onCancel ? <Button label="Cancel" tone="quiet" testID={`${testID}-cancel`} onPress={onCancel} /> : null}
+      {onCancel ? (
+        <Button
+          label="Cancel"
+          tone="quiet"
+          testID={`${testID}-cancel`}
+          onPress={() => {
+            kept.clear();
+            onCancel();
+          }}
+        />
+      ) : null}
     </View>
   );
 }

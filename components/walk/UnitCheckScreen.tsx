@@ -8,6 +8,7 @@ import type { CatalogueItemDto, JobDetail, UnitDto, UnitModelDto } from '../../s
 import { UNIT_KINDS, type CheckMark } from '../../shared/words';
 import { ApiError } from '../api/client';
 import { checkDraftKey, clearCheckDraft, draftDiffers, readCheckDraft, writeCheckDraft, type CheckDraft } from '../drafts/checkDraft';
+import { clearFindingDrafts, findingDraftKey } from '../drafts/findingDraft';
 import type { Stored } from '../drafts/store';
 import { FindingForm } from '../findings/FindingForm';
 import { formatWhen } from '../findings/due';
@@ -304,6 +305,7 @@ function UnitCheckBody({
 
   function discardDraft() {
     clearCheckDraft(draftKey);
+    clearFindingDrafts(userId, job.id, unit.id);
     setOffer(null);
   }
 
@@ -398,6 +400,7 @@ function UnitCheckBody({
           unitCheckId={null}
           resolve={resolve}
           onCancel={back}
+          draftKey={findingDraftKey(userId, job.id, unit.id, item?.id ?? null)}
           onLogged={(finding) => {
             const id = item?.id ?? finding.catalogueItemId;
             if (!item) setMarks((now) => ({ ...now, [id]: 'defect' }));

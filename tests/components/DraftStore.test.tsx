@@ -3,6 +3,7 @@
  * area, user, job and unit; unreadable or other-version entries are dropped, never half-read.
  */
 import { checkDraftKey, clearCheckDraft, draftDiffers, readCheckDraft, writeCheckDraft, type CheckDraft } from '../../components/drafts/checkDraft';
+import { clearFindingDrafts, findingDraftKey } from '../../components/drafts/findingDraft';
 import { keysUnder, memoryStorage, readEntry, setStorage, storeKey, writeEntry, type KeyValueStorage } from '../../components/drafts/store';
 
 let storage: KeyValueStorage;
@@ -75,5 +76,17 @@ describe('draftDiffers', () => {
     expect(draftDiffers({ marks: { a: 'ok' }, texts: { c: '28 in' }, logged: { a: ['#1'] } }, base)).toBe(true);
     // an emptied field is no change
     expect(draftDiffers({ marks: { a: 'ok' }, texts: { c: '28 in', d: '' }, logged: { a: [] } }, base)).toBe(false);
+  });
+});
+
+describe('finding drafts', () => {
+  it('are keyed per unit and item ("other" for one not listed), and a discarded check takes its unit’s finding drafts with it', () => {
+    expect(findingDraftKey('u1', 'j1', 'unit9', 'item3')).toBe('trimout:v1:finding:u1:j1:unit9:item3');
+    expect(findingDraftKey('u1', 'j1', 'unit9', null)).toBe('trimout:v1:finding:u1:j1:unit9:other');
+    writeEntry(findingDraftKey('u1', 'j1', 'unit9', 'item3'), { note: 'half written' });
+    writeEntry(findingDraftKey('u1', 'j1', 'unit9', null), { note: 'other' });
+    writeEntry(findingDraftKey('u1', 'j1', 'unit10', 'item3'), { note: 'another unit' });
+    clearFindingDrafts('u1', 'j1', 'unit9');
+    expect(keysUnder(storeKey('finding', 'u1', 'j1'))).toEqual([findingDraftKey('u1', 'j1', 'unit10', 'item3')]);
   });
 });

@@ -129,7 +129,7 @@ async function inView(page: Page, locator: Locator): Promise<boolean> {
 }
 
 describe('the unit check on a phone', () => {
-  it('keeps 10 marks and 2 measurements through a reload and a killed tab, and offers them back', async () => {
+  it('keeps 10 marks, 2 measurements and a half-filled finding with a photo through a reload and a killed tab, and offers them back', async () => {
     const { context, page, problems } = await phone();
     await openCheck(page, tags[0]);
     page.on('dialog', (d) => void d.accept());
@@ -143,13 +143,37 @@ describe('the unit check on a phone', () => {
     await page.getByTestId('check-item-PN-02').scrollIntoViewIfNeeded();
     expect(await inView(page, page.getByTestId('unit-check-save-next'))).toBe(true);
 
+    // a finding half written on the defect: a note, another severity, a photo
+    await page.getByTestId('check-item-MT-04-log').tap();
+    await page.getByTestId('finding-form').waitFor();
+    await page.getByTestId('finding-form-note').fill('No sway bracing on the north side.');
+    await page.getByTestId('finding-form-severity-minor').tap();
+    const jpeg = await sharp({ create: { width: 640, height: 480, channels: 3, background: { r: 90, g: 120, b: 150 } } }).jpeg().toBuffer();
+    await page.getByTestId('finding-form-files-input').setInputFiles({ name: 'bracing.jpg', mimeType: 'image/jpeg', buffer: jpeg });
+    await page.getByTestId('finding-form-photos-thumb-0').waitFor();
+
     await page.reload();
     await page.getByTestId('unit-check-draft-offer').waitFor();
     const question = (await page.getByTestId('unit-check-draft-question').textContent()) ?? '';
     expect(question).toMatch(new RegExp(`^Continue the check of ${tags[0]} from \\d{2}:\\d{2}\\?$`));
-    expect(await page.getByTestId('unit-check-draft-summary').textContent()).toContain('2 measured values');
+    expect(await page.getByTestId('unit-check-draft-summary').textContent()).toBe('Kept on this phone, not saved yet: 11 marks, 2 measured values, a finding being written.');
     await h.screenshot(page, 'walk-phone-02-draft-offer');
     await page.getByTestId('unit-check-draft-continue').tap();
+    // the finding form opens again as it was, photo included
+    await page.getByTestId('finding-form').waitFor();
+    expect(await page.getByTestId('finding-form-note').inputValue()).toBe('No sway bracing on the north side.');
+    expect(await checked(page.getByTestId('finding-form-severity-minor'))).toBe(true);
+    await page.getByTestId('finding-form-photos-thumb-0').waitFor();
+    await until(() =>
+      page
+        .getByTestId('finding-form-photos-thumb-0')
+        .locator('img')
+        .first()
+        .evaluate((img: { complete: boolean; naturalWidth: number }) => img.complete && img.naturalWidth > 0),
+    );
+    await h.screenshot(page, 'walk-phone-02a-finding-restored');
+    await page.getByTestId('finding-form-cancel').tap();
+    await page.getByTestId('check-item-MT-04').waitFor();
     for (const [i, code] of PLAIN.entries()) expect(await checked(page.getByTestId(`check-item-${code}-mark-${i === 3 ? 'defect' : 'ok'}`))).toBe(true);
     expect(await page.getByTestId('check-item-DR-03-measured-input').inputValue()).toBe('28 in');
     expect(await page.getByTestId('check-item-DR-04-measured-input').inputValue()).toBe('3 ft');
