@@ -11,7 +11,7 @@ import { addDays, todayIn } from '../../../shared/rules/dates';
 import { buildTestApp, csrfFor, signIn, type SignedIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser } from '../../support/factories';
-import { buildWalkJob, type People, type WalkJob } from '../../support/findings';
+import { buildWalkJob, countRows, insertFinding, type People, type WalkJob } from '../../support/findings';
 
 jest.setTimeout(120_000);
 
@@ -198,6 +198,36 @@ describe('POST /api/jobs/:jobId/units/:unitId/checks', () => {
     expect(changed.body.error.message).toBe('This Idempotency-Key was already used for a different request.');
     const history = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(200);
     expect(history.body.items).toHaveLength(1);
+  });
+});
+
+describe('an item with an unresolved finding on the unit', () => {
+  it('cannot be saved as OK while the finding is open or has a fix submitted: 409 open_finding_on_item naming it, nothing written', async () => {
+    const w = await buildWalkJob(people);
+    const item = w.byCode('DR-03');
+    for (const status of ['open', 'fix_submitted'] as const) {
+      const finding = await insertFinding(w, { code: 'DR-03', status });
+      const before = await countRows(w.job.id);
+      const res = await post(inspector, w, w.cassette.id, { items: [ok(w, 'MT-01'), ok(w, 'DR-03')], complete: true }).expect(409);
+      expect(res.body.error.id).toBe('open_finding_on_item');
+      expect(res.body.error.message).toContain(`#${finding.number}`);
+      expect(res.body.error.message).toContain(item.title);
+      expect(await countRows(w.job.id)).toEqual(before);
+      await finding.update({ status: 'closed' });
+    }
+  });
+
+  it('may be saved as a defect or not applicable, and as OK once the finding is closed or voided or is on another unit', async () => {
+    const w = await buildWalkJob(people);
+    await insertFinding(w, { code: 'DR-03', status: 'open' });
+    await post(inspector, w, w.cassette.id, { items: [{ catalogueItemId: w.byCode('DR-03').id, mark: 'defect' }], complete: false }).expect(201);
+    await post(inspector, w, w.cassette.id, { items: [{ catalogueItemId: w.byCode('DR-03').id, mark: 'not_applicable' }], complete: false }).expect(201);
+    await post(inspector, w, w.cassette2.id, { items: [ok(w, 'DR-03')], complete: true }).expect(201);
+    for (const status of ['closed', 'voided'] as const) {
+      const v = await buildWalkJob(people);
+      await insertFinding(v, { code: 'DR-03', status });
+      await post(gc, v, v.cassette.id, { items: [ok(v, 'DR-03')], complete: true }).expect(201);
+    }
   });
 });
 
