@@ -1,31 +1,32 @@
+import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
+import { useForm, type Resolver } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
+import type { z } from 'zod';
 import { CODE_LIMITS } from '../../shared/calc/limits';
 import { CATALOGUE_GROUPS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type LimitRef } from '../../shared/catalogue/types';
 import {
   createCatalogueItemSchema,
-  measuredRuleSchema,
   updateCatalogueItemSchema,
   type CatalogueItemDto,
+  type CreateCatalogueItemInput,
   type JobDetail,
+  type UpdateCatalogueItemInput,
 } from '../../shared/schemas/setup';
 import { SEVERITIES, SEVERITY_LABELS, TRADES, UNIT_KINDS, type Severity, type TradeKey, type UnitKindKey } from '../../shared/words';
-import { ApiError } from '../api/client';
 import { useCatalogueQuery, useCreateCatalogueItemMutation, useUpdateCatalogueItemMutation } from '../queries/catalogue';
 import { colors, radius, severityColors, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
-import { Chips } from '../ui/Chips';
 import { Notice, SafetyCaution } from '../ui/Notice';
-import { Segmented } from '../ui/Segmented';
 import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
-import { TextField } from '../ui/TextField';
+import { FormChips, FormSegmented, FormSelect, FormText, preparedFor } from '../ui/FormFields';
 import { useWide } from '../ui/useWide';
 import { TRADE_LABEL } from './CompaniesScreen';
-import { writeErrorMessage } from './formErrors';
+import { showServerErrors, writeErrorMessage } from './formErrors';
 import { ruleWords } from './ruleWords';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 import { KIND_LABEL } from './UnitsScreen';
@@ -210,6 +211,7 @@ function toRef(value: string): LimitRef | undefined {
 }
 const fromRef = (ref: LimitRef | undefined) => (ref ? `${ref.from}:${ref.key}` : '');
 
+/** The form as typed: choices as the pickers hold them; the rule's limits as "model:key" etc. */
 interface Draft {
   code: string;
   group: string;
@@ -221,14 +223,17 @@ interface Draft {
   fixGuidance: string;
   caution: string;
   needsCeilingAccess: 'yes' | 'no';
+  /** Form-only: whether the defect type has a measured rule at all. */
   hasRule: 'yes' | 'no';
-  measure: string;
-  quantity: string;
-  comparison: string;
-  limit: string;
-  upper: string;
-  tolerance: string;
-  expected: 'yes' | 'no';
+  measuredRule: {
+    measure: string;
+    quantity: string;
+    comparison: string;
+    limit: string;
+    upper: string;
+    tolerance: string;
+    expected: 'yes' | 'no';
+  };
 }
 
 function draftOf(item?: CatalogueItemDto): Draft {
@@ -245,15 +250,76 @@ function draftOf(item?: CatalogueItemDto): Draft {
     caution: item?.caution ?? '',
     needsCeilingAccess: item?.needsCeilingAccess ? 'yes' : 'no',
     hasRule: r ? 'yes' : 'no',
-    measure: r?.measure ?? '',
-    quantity: r?.quantity ?? 'length',
-    comparison: r?.comparison ?? 'at_least',
-    limit: fromRef(r?.limit),
-    upper: fromRef(r?.upper),
-    tolerance: r?.tolerance !== undefined ? String(r.tolerance) : '',
-    expected: r?.expected === false ? 'no' : 'yes',
+    measuredRule: {
+      measure: r?.measure ?? '',
+      quantity: r?.quantity ?? 'length',
+      comparison: r?.comparison ?? 'at_least',
+      limit: fromRef(r?.limit),
+      upper: fromRef(r?.upper),
+      tolerance: r?.tolerance !== undefined ? String(r.tolerance) : '',
+      expected: r?.expected === false ? 'no' : 'yes',
+    },
   };
 }
+
+/** The request body the draft stands for (the shared schema then checks it, paths unchanged). */
+function bodyOf(d: Draft, withCode: boolean): CreateCatalogueItemInput {
+  const r = d.measuredRule;
+  const measuredRule =
+    d.hasRule === 'yes'
+      ? {
+          measure: r.measure,
+          quantity: r.quantity,
+          comparison: r.comparison,
+          ...(r.comparison !== 'yes_no' ? { limit: toRef(r.limit) } : {}),
+          ...(r.comparison === 'between' ? { upper: toRef(r.upper) } : {}),
+          ...(r.comparison === 'equal_within' ? { tolerance: Number(r.tolerance) } : {}),
+          ...(r.comparison === 'yes_no' ? { expected: r.expected === 'yes' } : {}),
+        }
+      : null;
+  return {
+    ...(withCode ? { code: d.code } : {}),
+    group: d.group,
+    title: d.title,
+    description: d.description,
+    unitKinds: d.unitKinds,
+    defaultSeverity: d.defaultSeverity,
+    trade: d.trade,
+    measuredRule,
+    fixGuidance: d.fixGuidance,
+    caution: d.caution.trim() === '' ? null : d.caution,
+    needsCeilingAccess: d.needsCeilingAccess === 'yes',
+  } as CreateCatalogueItemInput;
+}
+
+const createResolver = preparedFor<Draft, CreateCatalogueItemInput, unknown, z.output<typeof createCatalogueItemSchema>>(
+  zodResolver(createCatalogueItemSchema),
+  (d) => bodyOf(d, true),
+);
+const updateResolver = preparedFor<Draft, UpdateCatalogueItemInput, unknown, z.output<typeof updateCatalogueItemSchema>>(
+  zodResolver(updateCatalogueItemSchema),
+  (d) => bodyOf(d, false) as UpdateCatalogueItemInput,
+);
+
+const FIELDS = [
+  'code',
+  'group',
+  'title',
+  'description',
+  'unitKinds',
+  'defaultSeverity',
+  'trade',
+  'fixGuidance',
+  'caution',
+  'needsCeilingAccess',
+  'measuredRule.measure',
+  'measuredRule.quantity',
+  'measuredRule.comparison',
+  'measuredRule.limit',
+  'measuredRule.upper',
+  'measuredRule.tolerance',
+  'measuredRule.expected',
+] as const;
 
 const COMPARISON_LABEL: Record<string, string> = {
   at_least: 'At least the limit',
@@ -267,123 +333,148 @@ function CatalogueForm({ job, existing, onDone }: { job: JobDetail; existing?: C
   const wide = useWide();
   const create = useCreateCatalogueItemMutation(job.id);
   const update = useUpdateCatalogueItemMutation(job.id);
-  const [d, setD] = useState<Draft>(() => draftOf(existing));
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const set = <K extends keyof Draft>(k: K, v: Draft[K]) => setD((x) => ({ ...x, [k]: v }));
+  const { control, handleSubmit, setError, watch, formState } = useForm<Draft, unknown, CreateCatalogueItemInput | UpdateCatalogueItemInput>({
+    resolver: (existing ? updateResolver : createResolver) as Resolver<Draft, unknown, CreateCatalogueItemInput | UpdateCatalogueItemInput>,
+    defaultValues: draftOf(existing),
+  });
+  const hasRule = watch('hasRule');
+  const comparison = watch('measuredRule.comparison');
 
-  const submit = () => {
-    let measuredRule: unknown = null;
-    if (d.hasRule === 'yes') {
-      const rule = {
-        measure: d.measure,
-        quantity: d.quantity,
-        comparison: d.comparison,
-        ...(d.comparison !== 'yes_no' ? { limit: toRef(d.limit) } : {}),
-        ...(d.comparison === 'between' ? { upper: toRef(d.upper) } : {}),
-        ...(d.comparison === 'equal_within' ? { tolerance: Number(d.tolerance) } : {}),
-        ...(d.comparison === 'yes_no' ? { expected: d.expected === 'yes' } : {}),
-      };
-      const r = measuredRuleSchema.safeParse(rule);
-      if (!r.success) {
-        const issue = r.error.issues[0];
-        setErrors({ measuredRule: issue?.message ?? 'Check the measured rule.' });
-        return;
-      }
-      measuredRule = r.data;
+  const submit = handleSubmit(async (body) => {
+    try {
+      if (existing) await update.mutateAsync({ item: existing, input: body as UpdateCatalogueItemInput });
+      else await create.mutateAsync(body as CreateCatalogueItemInput);
+      onDone();
+    } catch (err) {
+      showServerErrors(err, setError, FIELDS);
     }
-    const body = {
-      group: d.group,
-      title: d.title,
-      description: d.description,
-      unitKinds: d.unitKinds,
-      defaultSeverity: d.defaultSeverity,
-      trade: d.trade,
-      measuredRule,
-      fixGuidance: d.fixGuidance,
-      caution: d.caution.trim() === '' ? null : d.caution,
-      needsCeilingAccess: d.needsCeilingAccess === 'yes',
-    };
-    const parsed = existing ? updateCatalogueItemSchema.safeParse(body) : createCatalogueItemSchema.safeParse({ ...body, code: d.code });
-    if (!parsed.success) {
-      const next: Record<string, string> = {};
-      for (const issue of parsed.error.issues) next[String(issue.path[0] ?? 'root')] ??= issue.message;
-      setErrors(next);
-      return;
-    }
-    setErrors({});
-    const onError = (err: unknown) => setErrors({ ...(err instanceof ApiError ? topLevel(err.fields) : {}), root: writeErrorMessage(err) });
-    if (existing) {
-      update.mutate({ item: existing, input: updateCatalogueItemSchema.parse(body) }, { onSuccess: onDone, onError });
-    } else {
-      create.mutate(createCatalogueItemSchema.parse({ ...body, code: d.code }), { onSuccess: onDone, onError });
-    }
-  };
+  });
 
+  const errors = formState.errors;
+  const ruleError = errors.measuredRule?.message ?? errors.measuredRule?.root?.message;
   const pair = wide ? styles.pair : null;
   return (
     <Card testID="catalogue-form">
       <AppText variant="heading">{existing ? `Edit ${existing.code}` : 'New defect type'}</AppText>
-      {errors.root ? (
+      {errors.root?.message ? (
         <Notice tone="error" testID="catalogue-form-error">
-          {errors.root}
+          {errors.root.message}
         </Notice>
       ) : null}
       <View style={pair}>
         {!existing ? (
           <View style={styles.cell}>
-            <TextField label="Code" testID="catalogue-code-input" value={d.code} onChangeText={(v) => set('code', v)} placeholder="e.g. DR-41" autoCapitalize="characters" error={errors.code} />
+            <FormText control={control} name="code" label="Code" testID="catalogue-code-input" placeholder="e.g. DR-41" autoCapitalize="characters" />
           </View>
         ) : null}
         <View style={styles.cell}>
-          <Select label="Group" testID="catalogue-group-input" value={d.group} options={CATALOGUE_GROUPS.map((g) => ({ value: g.key, label: g.label }))} onChange={(v) => set('group', v)} error={errors.group} />
+          <FormSelect control={control} name="group" label="Group" testID="catalogue-group-input" options={CATALOGUE_GROUPS.map((g) => ({ value: g.key, label: g.label }))} />
         </View>
       </View>
-      <TextField label="Title" testID="catalogue-title-input" value={d.title} onChangeText={(v) => set('title', v)} error={errors.title} />
-      <TextField label="Description" testID="catalogue-description-input" value={d.description} onChangeText={(v) => set('description', v)} multiline style={styles.multi} error={errors.description} />
-      <Chips label="Applies to" values={d.unitKinds} options={UNIT_KINDS.map((k) => ({ value: k.key, label: k.label }))} onChange={(v) => set('unitKinds', v)} error={errors.unitKinds} testID="catalogue-kinds-input" />
+      <FormText control={control} name="title" label="Title" testID="catalogue-title-input" />
+      <FormText control={control} name="description" label="Description" testID="catalogue-description-input" multiline style={styles.multi} />
+      <FormChips control={control} name="unitKinds" label="Applies to" options={UNIT_KINDS.map((k) => ({ value: k.key, label: k.label }))} testID="catalogue-kinds-input" />
       <View style={pair}>
         <View style={styles.cell}>
-          <Select label="Default severity" testID="catalogue-severity-input" value={d.defaultSeverity} options={SEVERITIES.map((s) => ({ value: s, label: SEVERITY_LABELS[s] }))} onChange={(v) => set('defaultSeverity', v as Severity)} />
+          <FormSelect
+            control={control}
+            name="defaultSeverity"
+            label="Default severity"
+            testID="catalogue-severity-input"
+            options={SEVERITIES.map((s) => ({ value: s, label: SEVERITY_LABELS[s] }))}
+          />
         </View>
         <View style={styles.cell}>
-          <Select label="Usual trade" testID="catalogue-trade-input" value={d.trade} options={TRADES.map((t) => ({ value: t.key, label: t.label }))} onChange={(v) => set('trade', v as TradeKey)} />
+          <FormSelect control={control} name="trade" label="Usual trade" testID="catalogue-trade-input" options={TRADES.map((t) => ({ value: t.key, label: t.label }))} />
         </View>
       </View>
-      <TextField label="How to fix" testID="catalogue-fix-input" value={d.fixGuidance} onChangeText={(v) => set('fixGuidance', v)} multiline style={styles.multi} error={errors.fixGuidance} />
-      <TextField
+      <FormText control={control} name="fixGuidance" label="How to fix" testID="catalogue-fix-input" multiline style={styles.multi} />
+      <FormText
+        control={control}
+        name="caution"
         label="Caution (optional)"
         testID="catalogue-caution-input"
-        value={d.caution}
-        onChangeText={(v) => set('caution', v)}
         multiline
         style={styles.multi}
         hint="For hazardous work: electrical, refrigerant, brazing, lifting, overhead."
-        error={errors.caution}
       />
-      <Segmented label="The fix needs access above the ceiling" value={d.needsCeilingAccess} options={[{ value: 'no', label: 'No' }, { value: 'yes', label: 'Yes' }]} onChange={(v) => set('needsCeilingAccess', v)} />
-      <Segmented label="Measured rule" testID="catalogue-has-rule" value={d.hasRule} options={[{ value: 'no', label: 'None' }, { value: 'yes', label: 'Measure a value' }]} onChange={(v) => set('hasRule', v)} />
-      {d.hasRule === 'yes' ? (
+      <FormSegmented
+        control={control}
+        name="needsCeilingAccess"
+        label="The fix needs access above the ceiling"
+        testID="catalogue-ceiling-access"
+        options={[
+          { value: 'no', label: 'No' },
+          { value: 'yes', label: 'Yes' },
+        ]}
+      />
+      <FormSegmented
+        control={control}
+        name="hasRule"
+        label="Measured rule"
+        testID="catalogue-has-rule"
+        options={[
+          { value: 'no', label: 'None' },
+          { value: 'yes', label: 'Measure a value' },
+        ]}
+      />
+      {hasRule === 'yes' ? (
         <View style={styles.rule}>
-          {errors.measuredRule ? <Notice tone="error">{errors.measuredRule}</Notice> : null}
-          <TextField label="What is measured" testID="catalogue-measure-input" value={d.measure} onChangeText={(v) => set('measure', v)} placeholder="e.g. Pump lift from the unit's base" />
+          {ruleError ? <Notice tone="error">{ruleError}</Notice> : null}
+          <FormText control={control} name="measuredRule.measure" label="What is measured" testID="catalogue-measure-input" placeholder="e.g. Pump lift from the unit's base" />
           <View style={pair}>
             <View style={styles.cell}>
-              <Select label="Quantity" value={d.quantity} options={QUANTITY_KINDS.map((q) => ({ value: q, label: q }))} onChange={(v) => set('quantity', v)} />
+              <FormSelect control={control} name="measuredRule.quantity" label="Quantity" testID="catalogue-quantity-input" options={QUANTITY_KINDS.map((q) => ({ value: q, label: q }))} />
             </View>
             <View style={styles.cell}>
-              <Select label="Passes when" value={d.comparison} options={COMPARISONS.map((c) => ({ value: c, label: COMPARISON_LABEL[c] ?? c }))} onChange={(v) => set('comparison', v)} />
+              <FormSelect
+                control={control}
+                name="measuredRule.comparison"
+                label="Passes when"
+                testID="catalogue-comparison-input"
+                options={COMPARISONS.map((c) => ({ value: c, label: COMPARISON_LABEL[c] ?? c }))}
+              />
             </View>
           </View>
-          {d.comparison === 'yes_no' ? (
-            <Segmented label="The answer that passes" value={d.expected} options={[{ value: 'yes', label: 'Yes' }, { value: 'no', label: 'No' }]} onChange={(v) => set('expected', v)} />
+          {comparison === 'yes_no' ? (
+            <FormSegmented
+              control={control}
+              name="measuredRule.expected"
+              label="The answer that passes"
+              testID="catalogue-expected-input"
+              options={[
+                { value: 'yes', label: 'Yes' },
+                { value: 'no', label: 'No' },
+              ]}
+            />
           ) : (
-            <Select label={d.comparison === 'between' ? 'Lower limit from' : 'Limit from'} value={d.limit} placeholder="Choose where the limit comes from" options={LIMIT_SOURCES} onChange={(v) => set('limit', v)} />
+            <FormSelect
+              control={control}
+              name="measuredRule.limit"
+              label={comparison === 'between' ? 'Lower limit from' : 'Limit from'}
+              testID="catalogue-limit-input"
+              placeholder="Choose where the limit comes from"
+              options={LIMIT_SOURCES}
+            />
           )}
-          {d.comparison === 'between' ? (
-            <Select label="Upper limit from" value={d.upper} placeholder="Choose where the limit comes from" options={LIMIT_SOURCES} onChange={(v) => set('upper', v)} />
+          {comparison === 'between' ? (
+            <FormSelect
+              control={control}
+              name="measuredRule.upper"
+              label="Upper limit from"
+              testID="catalogue-upper-input"
+              placeholder="Choose where the limit comes from"
+              options={LIMIT_SOURCES}
+            />
           ) : null}
-          {d.comparison === 'equal_within' ? (
-            <TextField label="Tolerance (base units: mm, degrees or ratio)" value={d.tolerance} onChangeText={(v) => set('tolerance', v)} inputMode="decimal" />
+          {comparison === 'equal_within' ? (
+            <FormText
+              control={control}
+              name="measuredRule.tolerance"
+              label="Tolerance (base units: mm, degrees or ratio)"
+              testID="catalogue-tolerance-input"
+              inputMode="decimal"
+            />
           ) : null}
         </View>
       ) : null}
@@ -393,12 +484,6 @@ function CatalogueForm({ job, existing, onDone }: { job: JobDetail; existing?: C
       </View>
     </Card>
   );
-}
-
-function topLevel(fields: Record<string, string>): Record<string, string> {
-  const out: Record<string, string> = {};
-  for (const [k, v] of Object.entries(fields)) out[k.split('.')[0]!] ??= v;
-  return out;
 }
 
 const styles = StyleSheet.create({

@@ -2,11 +2,13 @@
  * Set-up forms checked by the shared schemas: a company added by name or picked from the known
  * ones (each branch's messages on its own fields), and a system's concentration limit typed as
  * text (value and source both empty mean no override; a nested server message lands under the
- * field it names), and a model's limits typed with their source (a limit left empty is not sent).
+ * field it names), a defect type's measured rule (each of the rule's messages under its own
+ * field), and a model's limits typed with their source (a limit left empty is not sent).
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { fireEvent, render, screen, waitFor, within } from '@testing-library/react-native';
 import type { ReactElement } from 'react';
+import { CatalogueScreen } from '../../components/setup/CatalogueScreen';
 import { CompaniesScreen } from '../../components/setup/CompaniesScreen';
 import { ModelsScreen } from '../../components/setup/ModelsScreen';
 import { SystemsScreen } from '../../components/setup/SystemsScreen';
@@ -136,5 +138,46 @@ describe('a unit model’s limits', () => {
     await waitFor(() => expect(sent).toHaveLength(1));
     expect(sent[0]!.body).toMatchObject({ name: 'Cassette 24', limits: { max_pump_lift: { value: '27-9/16 in', source: 'Installation manual, p. 12' } } });
     expect(Object.keys((sent[0]!.body as { limits: object }).limits)).toEqual(['max_pump_lift']);
+  });
+});
+
+describe('a defect type’s measured rule', () => {
+  it('puts the rule’s messages under its fields, then sends the rule with its limits', async () => {
+    const sent = fakeApi([{ status: 201, body: {} }]);
+    renderWith(<CatalogueScreen jobId={JOB} />);
+    fireEvent.press(await screen.findByTestId('catalogue-add'));
+    fireEvent.changeText(screen.getByTestId('catalogue-code-input'), 'dr-90');
+    fireEvent.changeText(screen.getByTestId('catalogue-title-input'), 'Pump lift too high');
+    fireEvent.changeText(screen.getByTestId('catalogue-description-input'), 'The pump lifts further than its manual allows.');
+    fireEvent.press(screen.getByTestId('catalogue-kinds-input-wall_mounted'));
+    fireEvent.changeText(screen.getByTestId('catalogue-fix-input'), 'Lower the riser.');
+    fireEvent.press(screen.getByTestId('catalogue-has-rule-yes'));
+    fireEvent.changeText(screen.getByTestId('catalogue-measure-input'), 'Pump lift');
+    fireEvent.press(screen.getByTestId('catalogue-comparison-input'));
+    fireEvent.press(screen.getByText('Between two limits'));
+    fireEvent.press(screen.getByTestId('catalogue-submit'));
+    expect(await screen.findByText('Say where the limit comes from.')).toBeTruthy();
+    expect(screen.getByText('A range needs an upper limit.')).toBeTruthy();
+    expect(sent).toEqual([]);
+
+    fireEvent.press(screen.getByTestId('catalogue-limit-input'));
+    fireEvent.press(screen.getAllByText('Unit model: Minimum clearance above the unit')[0]!);
+    fireEvent.press(screen.getByTestId('catalogue-upper-input'));
+    fireEvent.press(screen.getAllByText('Unit model: Maximum condensate pump lift')[0]!);
+    fireEvent.press(screen.getByTestId('catalogue-submit'));
+    await waitFor(() => expect(sent).toHaveLength(1));
+    expect(sent[0]!.body).toMatchObject({
+      code: 'DR-90',
+      unitKinds: ['wall_mounted'],
+      measuredRule: {
+        measure: 'Pump lift',
+        quantity: 'length',
+        comparison: 'between',
+        limit: { from: 'model', key: 'min_clearance_top' },
+        upper: { from: 'model', key: 'max_pump_lift' },
+      },
+      caution: null,
+      needsCeilingAccess: false,
+    });
   });
 });
