@@ -225,7 +225,7 @@ function UnitRow({ jobId, unit }: { jobId: string; unit: WalkUnitDto }) {
 }
 
 const styles = StyleSheet.create({
-  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  back: { alignSelf: 'flex-start', minHeight: touchTarget, minWidth: touchTarget, paddingVertical: space.sm, display: 'flex', alignItems: 'center' },
   head: { gap: space.xs },
   coverageRow: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'baseline' },
   bar: { height: 12, borderRadius: 6, backgroundColor: colors.spruceSoft, overflow: 'hidden' },

