@@ -1,3 +1,4 @@
+import { MAX_PHOTOS_PER_REQUEST } from '../../shared/rules/photos';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useMemo, useRef } from 'react';
 import { useForm } from 'react-hook-form';
@@ -26,7 +27,8 @@ import { addDays, formatDay, suggestCompany, todayIn } from './due';
 import type { PickedPhoto } from './PhotoPicker.types';
 
 /** At most this many photos per finding (the server's limit). */
-export const MAX_PHOTOS = 10;
+/** The server's own limit per request (shared/rules/photos). */
+export const MAX_PHOTOS = MAX_PHOTOS_PER_REQUEST;
 
 export interface FindingTarget {
   unitId?: string | null;

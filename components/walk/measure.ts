@@ -4,11 +4,12 @@
  * from the unit's model, the job's settings or a built-in code value (shared/calc evaluateRule).
  * The server evaluates the same rule again when the check is saved.
  */
+import { unitLimitResolver, unitLimitSources } from '../../shared/rules/limits';
 import { formatQuantity } from '../../shared/calc/format';
 import { parseQuantity } from '../../shared/calc/quantity';
-import { evaluateRule, makeLimitResolver, type LimitResolver, type LimitSources, type RuleResult } from '../../shared/calc/rules';
-import type { JobSettingKey, MeasuredRule, ModelLimitKey, StatedLimit, UnitSystem } from '../../shared/catalogue/types';
-import type { JobDetail, StatedLimitDto, UnitModelDto } from '../../shared/schemas/setup';
+import { evaluateRule, type LimitResolver, type LimitSources, type RuleResult } from '../../shared/calc/rules';
+import type { MeasuredRule, UnitSystem } from '../../shared/catalogue/types';
+import type { JobDetail, UnitModelDto } from '../../shared/schemas/setup';
 
 export type MeasurementView =
   /** Nothing typed: the limit is shown so the inspector knows what to look for. */
@@ -17,34 +18,16 @@ export type MeasurementView =
   | { kind: 'parse_error'; error: string; result: RuleResult }
   | { kind: 'result'; value: number | boolean; display: string; result: RuleResult };
 
-function toStated(dto: StatedLimitDto): StatedLimit {
-  return { value: dto.stated, unit: dto.unit, source: dto.source };
-}
-
-function mapLimits<K extends string>(limits: Partial<Record<K, StatedLimitDto>> | undefined): Partial<Record<K, StatedLimit>> {
-  const out: Partial<Record<K, StatedLimit>> = {};
-  if (!limits) return out;
-  for (const key of Object.keys(limits) as K[]) {
-    const dto = limits[key];
-    if (dto) out[key] = toStated(dto);
-  }
-  return out;
-}
-
-/** The limit sources of one unit: its model's limits, the job's settings and code editions. */
 export function limitSourcesFor(model: Pick<UnitModelDto, 'name' | 'limits'> | null | undefined, job: Pick<JobDetail, 'settings' | 'codeEditions'> | null | undefined): LimitSources {
-  return {
-    model: model ? { name: model.name, limits: mapLimits<ModelLimitKey>(model.limits) } : undefined,
-    job: mapLimits<JobSettingKey>(job?.settings),
-    editions: job?.codeEditions,
-  };
+  return unitLimitSources({ model, job });
 }
 
+/** The phone's resolver: the same rule the server checks a saved unit against (shared/rules/limits). */
 export function limitResolverFor(
   model: Pick<UnitModelDto, 'name' | 'limits'> | null | undefined,
   job: Pick<JobDetail, 'settings' | 'codeEditions'> | null | undefined,
 ): LimitResolver {
-  return makeLimitResolver(limitSourcesFor(model, job));
+  return unitLimitResolver({ model, job });
 }
 
 /** Parse and evaluate one measured item's text (or yes/no answer). */

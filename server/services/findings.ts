@@ -7,12 +7,11 @@
  * - per-job finding numbers (#1, #2 ...) handed out under a row lock;
  * - the append-only finding history (finding_events: create only; the database refuses changes).
  */
+import { unitLimitResolver } from '../../shared/rules/limits';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import type { JobSettingKey, ModelLimitKey, StatedLimit } from '../../shared/catalogue/types';
 import { parseQuantity } from '../../shared/calc/quantity';
-import { evaluateRule, makeLimitResolver, type LimitResolver, type RuleResult } from '../../shared/calc/rules';
+import { evaluateRule, type LimitResolver, type RuleResult } from '../../shared/calc/rules';
 import type { FindingEventKind } from '../../shared/schemas/findings';
-import type { StatedLimitDto } from '../../shared/schemas/setup';
 import { suggestedCompany } from '../../shared/rules/suggestedCompany';
 import type { Severity } from '../../shared/words';
 import { badRequest } from '../errors';
@@ -65,26 +64,9 @@ export async function companyOnJob(
 // ---------------------------------------------------------------------------------------------
 // Measured values
 
-/** A stored limit (base value + the value as stated) → what the engine's resolver reads. */
-function asStated(dto: StatedLimitDto): StatedLimit {
-  return { value: dto.stated, unit: dto.unit, source: dto.source };
-}
-
-/** The limit resolver for one unit (its model's limits, or none) on one job. */
+/** The limit resolver for one unit (its model's limits, or none) on one job: the shared rule the phone applies too. */
 export function limitResolverFor(job: Job, model: UnitModel | null): LimitResolver {
-  const modelLimits: Partial<Record<ModelLimitKey, StatedLimit>> = {};
-  for (const [key, dto] of Object.entries(model?.limits ?? {}) as Array<[ModelLimitKey, StatedLimitDto | undefined]>) {
-    if (dto) modelLimits[key] = asStated(dto);
-  }
-  const jobSettings: Partial<Record<JobSettingKey, StatedLimit>> = {};
-  for (const [key, dto] of Object.entries(job.settings ?? {}) as Array<[JobSettingKey, StatedLimitDto | undefined]>) {
-    if (dto) jobSettings[key] = asStated(dto);
-  }
-  return makeLimitResolver({
-    model: model ? { name: model.name, limits: modelLimits } : undefined,
-    job: jobSettings,
-    editions: job.codeEditions ?? {},
-  });
+  return unitLimitResolver({ model: model ? { name: model.name, limits: model.limits } : null, job: { settings: job.settings, codeEditions: job.codeEditions } });
 }
 
 export interface Measurement {
