@@ -13,16 +13,9 @@ import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { limitResolverFor } from '../walk/measure';
 import { FindingForm, type FindingTarget } from './FindingForm';
-import { links } from '../links';
+import { links, type NewFindingParams } from '../links';
 
-export interface NewFindingParams {
-  unitId?: string;
-  spaceId?: string;
-  levelId?: string;
-  catalogueItemId?: string;
-  measuredText?: string;
-  walkId?: string;
-}
+export type { NewFindingParams };
 
 /**
  * Log a finding on its own page: for a unit, or for a space or a level when the defect is not
