@@ -72,7 +72,8 @@ export const links = {
   walk: (jobId: string): Href => href(`${job(jobId)}/walk`),
   /** One level's walk; `saved` names the unit whose check was just saved. */
   levelWalk: (jobId: string, levelId: string, saved?: string): Href => href(`${level(jobId, levelId)}/walk${query({ saved }, ['saved'])}`),
-  unitCheck: (jobId: string, unitId: string): Href => href(`${job(jobId)}/units/${e(unitId)}/check`),
+  /** One unit's check; `saved` names the unit whose check was just saved (Save and next unit). */
+  unitCheck: (jobId: string, unitId: string, saved?: string): Href => href(`${job(jobId)}/units/${e(unitId)}/check${query({ saved }, ['saved'])}`),
   /** A level's plan, optionally opened to place a finding's or a unit's pin. */
   plan: (jobId: string, levelId: string, place?: { kind: PlaceKind; id: string }): Href =>
     href(`${level(jobId, levelId)}/plan${place ? query({ place: place.kind, id: place.id }, ['place', 'id']) : ''}`),

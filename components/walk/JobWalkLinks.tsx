@@ -1,4 +1,5 @@
-import { Link, type Href } from 'expo-router';
+import { links } from '../links';
+import { Link } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 import type { Role } from '../../shared/words';
 import { space } from '../theme';
@@ -6,23 +7,22 @@ import { Button } from '../ui/Button';
 
 /** The job's way into the walk and the findings (on the job's overview). */
 export function JobWalkLinks({ jobId, role }: { jobId: string; role: Role }) {
-  const base = `/jobs/${encodeURIComponent(jobId)}`;
   return (
     <View style={styles.row} testID="job-walk-links">
       {role !== 'subcontractor' ? (
-        <Link href={`${base}/walk` as Href} asChild>
+        <Link href={links.walk(jobId)} asChild>
           <Button label="Walk a level" testID="job-walk" style={styles.grow} />
         </Link>
       ) : null}
-      <Link href={`${base}/findings` as Href} asChild>
+      <Link href={links.findings(jobId)} asChild>
         <Button label="Findings" tone="secondary" testID="job-findings" style={styles.grow} />
       </Link>
       {role !== 'subcontractor' ? (
-        <Link href={`${base}/reinspections` as Href} asChild>
+        <Link href={links.reinspections(jobId)} asChild>
           <Button label="Re-inspections" tone="secondary" testID="job-reinspections" style={styles.grow} />
         </Link>
       ) : (
-        <Link href={'/inbox' as Href} asChild>
+        <Link href={links.inbox()} asChild>
           <Button label="Findings to fix" tone="secondary" testID="job-inbox" style={styles.grow} />
         </Link>
       )}

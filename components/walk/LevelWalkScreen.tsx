@@ -1,10 +1,11 @@
-import { Link, type Href } from 'expo-router';
+import { unitKindLabel } from '../../shared/words';
+import { links } from '../links';
+import { Link } from 'expo-router';
 import { LevelPlanLink } from '../plans/PlanPinLink';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { Coverage, WalkUnitDto } from '../../shared/schemas/findings';
 import type { JobDetail } from '../../shared/schemas/setup';
-import { UNIT_KINDS } from '../../shared/words';
 import { ApiError } from '../api/client';
 import { formatWhen } from '../findings/due';
 import { useJobQuery } from '../queries/jobs';
@@ -23,23 +24,7 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { UnitStateBadge } from './UnitStateBadge';
 import { WalkFilters } from './WalkFilters';
 
-const KIND_LABEL: Record<string, string> = Object.fromEntries(UNIT_KINDS.map((k) => [k.key, k.label]));
 
-export function unitCheckHref(jobId: string, unitId: string): Href {
-  return `/jobs/${encodeURIComponent(jobId)}/units/${encodeURIComponent(unitId)}/check` as Href;
-}
-export function newFindingHref(jobId: string, params: Record<string, string>): Href {
-  const q = Object.entries(params)
-    .map(([k, v]) => `${encodeURIComponent(k)}=${encodeURIComponent(v)}`)
-    .join('&');
-  return `/jobs/${encodeURIComponent(jobId)}/findings/new${q ? `?${q}` : ''}` as Href;
-}
-export function findingsHref(jobId: string, params: Record<string, string> = {}): Href {
-  const q = Object.entries(params)
-    .map(([k, v]) => `${encodeURIComponent(k)}=${encodeURIComponent(v)}`)
-    .join('&');
-  return `/jobs/${encodeURIComponent(jobId)}/findings${q ? `?${q}` : ''}` as Href;
-}
 
 /** One level's walk: coverage, the inspector's walk, and the units with their state at a glance. */
 export function LevelWalkScreen({ jobId, levelId, saved }: { jobId: string; levelId: string; saved?: string }) {
@@ -48,7 +33,7 @@ export function LevelWalkScreen({ jobId, levelId, saved }: { jobId: string; leve
   const level = levels.data?.find((l) => l.id === levelId);
   return (
     <Screen testID="level-walk-screen" maxWidth={720}>
-      <Link href={`/jobs/${encodeURIComponent(jobId)}/walk` as Href} style={styles.back} testID="level-walk-back">
+      <Link href={links.walk(jobId)} style={styles.back} testID="level-walk-back">
         <AppText variant="label" style={{ color: colors.spruce }}>
           ← All levels
         </AppText>
@@ -80,7 +65,7 @@ export function InspectorsOnly({ jobId }: { jobId: string }) {
       body="Inspectors and GC managers walk the levels. Your company's findings are in the findings list."
       testID="walk-inspectors-only"
       action={
-        <Link href={findingsHref(jobId)} asChild>
+        <Link href={links.findings(jobId)} asChild>
           <Button label="Your findings" tone="secondary" />
         </Link>
       }
@@ -141,10 +126,10 @@ function LevelWalkBody({ job, levelId, levelName, saved }: { job: JobDetail; lev
         </View>
       )}
       <View style={styles.links}>
-        <Link href={newFindingHref(job.id, { levelId })} asChild>
+        <Link href={links.newFinding(job.id, { levelId })} asChild>
           <Button label="Log a finding for this level (not one unit)" tone="secondary" testID="level-walk-level-finding" />
         </Link>
-        <Link href={findingsHref(job.id, { levelId })} asChild>
+        <Link href={links.findings(job.id, { levelId })} asChild>
           <Button label={`Findings on ${levelName}`} tone="quiet" testID="level-walk-findings" />
         </Link>
       </View>
@@ -206,12 +191,12 @@ function WalkBanner({ job, levelId }: { job: JobDetail; levelId: string }) {
 function UnitRow({ jobId, unit }: { jobId: string; unit: WalkUnitDto }) {
   const where = [unit.spaceName, unit.systemName].filter(Boolean).join(' · ');
   return (
-    <Link href={unitCheckHref(jobId, unit.id)} asChild>
+    <Link href={links.unitCheck(jobId, unit.id)} asChild>
       <Pressable style={styles.row} testID={`walk-unit-${unit.tag}`} accessibilityRole="link" accessibilityLabel={`Unit ${unit.tag}`}>
         <View style={styles.rowMain}>
           <AppText variant="heading">{unit.tag}</AppText>
           <AppText variant="small" muted numberOfLines={1}>
-            {KIND_LABEL[unit.kind] ?? unit.kind}
+            {unitKindLabel(unit.kind)}
             {where ? ` · ${where}` : ''}
           </AppText>
           <UnitStateBadge state={unit.state} openFindings={unit.openFindings} worstSeverity={unit.worstSeverity} testID={`walk-unit-${unit.tag}-state`} />

@@ -1,11 +1,13 @@
-import { useRouter, type Href } from 'expo-router';
+import { unitKindLabel } from '../../shared/words';
+import { links } from '../links';
+import { useRouter } from 'expo-router';
 import { PlanPinLink } from '../plans/PlanPinLink';
 import { useEffect, useMemo, useRef, useState, type ReactNode, type Ref } from 'react';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import { CATALOGUE_GROUPS } from '../../shared/catalogue/types';
 import type { UnitChecksResponse } from '../../shared/schemas/findings';
 import type { CatalogueItemDto, JobDetail, UnitDto, UnitModelDto } from '../../shared/schemas/setup';
-import { UNIT_KINDS, type CheckMark } from '../../shared/words';
+import { type CheckMark } from '../../shared/words';
 import { ApiError } from '../api/client';
 import { checkDraftKey, clearCheckDraft, draftDiffers, readCheckDraft, writeCheckDraft, type CheckDraft } from '../drafts/checkDraft';
 import { clearFindingDrafts, findingDraftKey } from '../drafts/findingDraft';
@@ -26,12 +28,11 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { TextField } from '../ui/TextField';
 import { CheckItemRow } from './CheckItemRow';
 import { confirmLeave, useLeaveGuard } from './leaveGuard';
-import { InspectorsOnly, unitCheckHref } from './LevelWalkScreen';
+import { InspectorsOnly } from './LevelWalkScreen';
 import { limitResolverFor, measure } from './measure';
 import { UnitStateBadge } from './UnitStateBadge';
 import { nextUnitAfter, useUnresolvedFindingsQuery, useWalkOrderQuery } from './walkData';
 
-const KIND_LABEL: Record<string, string> = Object.fromEntries(UNIT_KINDS.map((k) => [k.key, k.label]));
 /** Section names short enough for the jump bar's chips. */
 const SHORT_GROUP: Record<string, string> = {
   mounting: 'Mounting',
@@ -46,15 +47,8 @@ const SHORT_GROUP: Record<string, string> = {
   labelling: 'Labels',
 };
 
-export function levelWalkHref(jobId: string, levelId: string, saved?: string): Href {
-  const base = `/jobs/${encodeURIComponent(jobId)}/levels/${encodeURIComponent(levelId)}/walk`;
-  return (saved ? `${base}?saved=${encodeURIComponent(saved)}` : base) as Href;
-}
 
 /** A unit check with the confirmation of the unit saved just before ("Save and next unit"). */
-function nextUnitHref(jobId: string, unitId: string, saved: string): Href {
-  return `${unitCheckHref(jobId, unitId) as string}?saved=${encodeURIComponent(saved)}` as Href;
-}
 
 /** Brings a row into view (web: the DOM node of a View). Native builds keep the scroll where it is. */
 function scrollIntoView(node: View | null | undefined, block: 'center' | 'start' = 'center') {
@@ -312,7 +306,7 @@ function UnitCheckBody({
   async function leave() {
     if (dirty && canCheck && !(await confirmLeave(leaveMessage))) return;
     done.current = true;
-    router.push(levelWalkHref(job.id, unit.levelId));
+    router.push(links.levelWalk(job.id, unit.levelId));
   }
 
   async function save(to: SaveTo) {
@@ -358,7 +352,7 @@ function UnitCheckBody({
       done.current = true;
       clearCheckDraft(draftKey);
       const target = to === 'next' ? next?.next : null;
-      router.push(target ? nextUnitHref(job.id, target.id, unit.tag) : levelWalkHref(job.id, unit.levelId, unit.tag));
+      router.push(target ? links.unitCheck(job.id, target.id, unit.tag) : links.levelWalk(job.id, unit.levelId, unit.tag));
     } catch (err) {
       if (err instanceof ApiError && err.status === 409 && err.fields) {
         // The server names the refused items by their place in the request (items.<n>...).
@@ -510,7 +504,7 @@ function UnitCheckBody({
       ) : items.length === 0 ? (
         <EmptyState
           title="Nothing to check for this kind"
-          body={`The job's defect catalogue has no items for ${KIND_LABEL[unit.kind] ?? unit.kind}. A GC manager can add them in set-up.`}
+          body={`The job's defect catalogue has no items for ${unitKindLabel(unit.kind)}. A GC manager can add them in set-up.`}
           testID="unit-check-empty"
         />
       ) : (
@@ -647,7 +641,7 @@ function Header({
         {unit.tag}
       </AppText>
       <AppText muted>
-        {KIND_LABEL[unit.kind] ?? unit.kind}
+        {unitKindLabel(unit.kind)}
         {unit.modelName ? ` · ${unit.modelName}` : ''}
         {where ? ` · ${where}` : ''}
       </AppText>

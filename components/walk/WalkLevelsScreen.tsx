@@ -1,4 +1,5 @@
-import { Link, type Href } from 'expo-router';
+import { links } from '../links';
+import { Link } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { LevelDto } from '../../shared/schemas/setup';
 import { ApiError } from '../api/client';
@@ -10,11 +11,8 @@ import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
-import { InspectorsOnly, findingsHref } from './LevelWalkScreen';
+import { InspectorsOnly } from './LevelWalkScreen';
 
-export function levelWalkPath(jobId: string, levelId: string): Href {
-  return `/jobs/${encodeURIComponent(jobId)}/levels/${encodeURIComponent(levelId)}/walk` as Href;
-}
 
 /** Job → level: pick the level to walk; each shows how many of its units are checked. */
 export function WalkLevelsScreen({ jobId }: { jobId: string }) {
@@ -22,7 +20,7 @@ export function WalkLevelsScreen({ jobId }: { jobId: string }) {
   const levels = useLevelsQuery(jobId);
   return (
     <Screen testID="walk-levels-screen" maxWidth={720}>
-      <Link href={`/jobs/${encodeURIComponent(jobId)}` as Href} style={styles.back} testID="walk-levels-back">
+      <Link href={links.job(jobId)} style={styles.back} testID="walk-levels-back">
         <AppText variant="label" style={{ color: colors.spruce }}>
           ← {job.data?.name ?? 'The job'}
         </AppText>
@@ -52,7 +50,7 @@ export function WalkLevelsScreen({ jobId }: { jobId: string }) {
           ))}
         </View>
       )}
-      <Link href={findingsHref(jobId)} asChild>
+      <Link href={links.findings(jobId)} asChild>
         <Button label="All findings on this job" tone="secondary" testID="walk-levels-findings" />
       </Link>
     </Screen>
@@ -64,7 +62,7 @@ function LevelRow({ jobId, level }: { jobId: string; level: LevelDto }) {
   const c = coverage.data;
   const pct = c && c.total ? Math.round((c.checked / c.total) * 100) : 0;
   return (
-    <Link href={levelWalkPath(jobId, level.id)} asChild>
+    <Link href={links.levelWalk(jobId, level.id)} asChild>
       <Pressable style={styles.row} testID={`walk-level-${level.position}`} accessibilityRole="link">
         <View style={styles.rowMain}>
           <AppText variant="heading">{level.name}</AppText>

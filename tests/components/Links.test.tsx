@@ -86,15 +86,12 @@ function hits(path: string, text: string, pattern: RegExp): string[] {
     .filter((x): x is string => x !== null);
 }
 
-/** The walk screens are being rewritten; their addresses move to links.ts with that rewrite. */
-const NOT_YET_MOVED = /^components\/walk\//;
-
 describe('one place, one way', () => {
   const files = [...sources('app'), ...sources('components')];
 
   it('builds no in-app address outside components/links.ts', () => {
     const inline = /['"`]\/(jobs|sign-in|sign-up|forgot-password|preferences|inbox|mailbox)\b|href="\/|pathname:\s*['"]\/|router\.(push|replace|navigate)\(\s*['"`]/;
-    const found = files.filter(([p]) => p !== 'components/links.ts' && !NOT_YET_MOVED.test(p)).flatMap(([p, t]) => hits(p, t, inline));
+    const found = files.filter(([p]) => p !== 'components/links.ts').flatMap(([p, t]) => hits(p, t, inline));
     expect(found).toEqual([]);
   });
 
