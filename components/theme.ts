@@ -48,3 +48,17 @@ export const radius = { sm: 6, md: 10, lg: 16 } as const;
 export const contentMaxWidth = 980;
 /** Minimum touch target (WCAG 2.2 target size, enhanced). */
 export const touchTarget = 44;
+
+/**
+ * A choice shown as a rounded chip (filters, jump bar, multi-choices): one look and one touch
+ * size wherever a chip is tapped. Screens add their own "on" colours.
+ */
+export const choiceChip = {
+  minHeight: touchTarget,
+  justifyContent: 'center',
+  paddingHorizontal: space.md,
+  borderRadius: radius.lg,
+  borderWidth: 1.5,
+  borderColor: colors.line,
+  backgroundColor: colors.surface,
+} as const;

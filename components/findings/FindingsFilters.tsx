@@ -4,7 +4,7 @@ import type { FindingListResponse, FindingSort } from '../../shared/schemas/find
 import type { CatalogueItemDto, JobCompanyDto, LevelDto, SpaceDto, UnitDto } from '../../shared/schemas/setup';
 import { FINDING_STATUSES, FINDING_STATUS_LABELS, SEVERITIES, SEVERITY_LABELS, UNIT_KINDS, type FindingStatus, type Severity, type UnitKindKey } from '../../shared/words';
 import type { FindingFilters } from '../queries/findings';
-import { colors, fonts, radius, space, touchTarget } from '../theme';
+import { choiceChip, colors, fonts, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Select } from '../ui/Select';
@@ -244,15 +244,7 @@ export function FindingsFilters({
 const styles = StyleSheet.create({
   wrap: { gap: space.sm },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
-  chip: {
-    minHeight: touchTarget,
-    justifyContent: 'center',
-    paddingHorizontal: space.md,
-    borderRadius: radius.lg,
-    borderWidth: 1.5,
-    borderColor: colors.line,
-    backgroundColor: colors.surface,
-  },
+  chip: choiceChip,
   sevChip: { flexDirection: 'row', alignItems: 'center', gap: space.xs },
   chipOn: { borderColor: colors.spruce, backgroundColor: colors.spruceSoft },
   chipText: { fontFamily: fonts.regular, fontSize: 15 },

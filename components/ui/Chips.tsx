@@ -1,5 +1,5 @@
 import { Pressable, StyleSheet, View } from 'react-native';
-import { colors, fonts, radius, space, touchTarget } from '../theme';
+import { choiceChip, colors, fonts, space } from '../theme';
 import { AppText } from './AppText';
 
 /** Several choices at once (trades, unit kinds): each chip toggles; the check mark says it is on. */
@@ -54,15 +54,7 @@ export function Chips<V extends string>({
 const styles = StyleSheet.create({
   wrap: { gap: space.xs, marginBottom: space.lg },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
-  chip: {
-    minHeight: touchTarget - 4,
-    justifyContent: 'center',
-    paddingHorizontal: space.md,
-    borderRadius: radius.lg,
-    borderWidth: 1.5,
-    borderColor: colors.line,
-    backgroundColor: colors.surface,
-  },
+  chip: choiceChip,
   on: { borderColor: colors.spruce, backgroundColor: colors.spruceSoft },
   text: { fontFamily: fonts.regular, fontSize: 15 },
   textOn: { fontFamily: fonts.bold, color: colors.spruce },

@@ -19,7 +19,7 @@ import { ensureWalk, recordCheckWrite, useRecordCheckMutation, useUnitChecksQuer
 import { useJobQuery } from '../queries/jobs';
 import { useSessionQuery } from '../queries/session';
 import { useOpenWalkQuery } from '../queries/walks';
-import { colors, radius, space, touchTarget } from '../theme';
+import { choiceChip, colors, radius, space, touchTarget } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
@@ -665,15 +665,7 @@ const styles = StyleSheet.create({
   back: { alignSelf: 'flex-start', minHeight: touchTarget, justifyContent: 'center' },
   tools: { gap: space.sm },
   jump: { gap: space.sm, paddingVertical: 2 },
-  chip: {
-    minHeight: touchTarget,
-    justifyContent: 'center',
-    paddingHorizontal: space.md,
-    borderRadius: radius.lg,
-    borderWidth: 1.5,
-    borderColor: colors.line,
-    backgroundColor: colors.surface,
-  },
+  chip: choiceChip,
   chipDone: { borderColor: colors.good, backgroundColor: colors.goodSoft },
   group: { gap: space.sm },
   groupTitle: { paddingTop: space.sm },

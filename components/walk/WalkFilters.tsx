@@ -4,7 +4,7 @@ import { UNIT_WALK_STATE_LABELS, type UnitWalkState } from '../../shared/schemas
 import type { SpaceDto, SystemDto } from '../../shared/schemas/setup';
 import { UNIT_KINDS, type UnitKindKey } from '../../shared/words';
 import type { WalkUnitFilters } from '../queries/walks';
-import { colors, fonts, radius, space, touchTarget } from '../theme';
+import { choiceChip, colors, fonts, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Select } from '../ui/Select';
@@ -123,15 +123,7 @@ export function WalkFilters({
 const styles = StyleSheet.create({
   wrap: { gap: space.sm },
   states: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
-  chip: {
-    minHeight: touchTarget,
-    justifyContent: 'center',
-    paddingHorizontal: space.md,
-    borderRadius: radius.lg,
-    borderWidth: 1.5,
-    borderColor: colors.line,
-    backgroundColor: colors.surface,
-  },
+  chip: choiceChip,
   chipOn: { borderColor: colors.spruce, backgroundColor: colors.spruceSoft },
   chipText: { fontFamily: fonts.regular, fontSize: 15 },
   chipTextOn: { fontFamily: fonts.bold, color: colors.spruce },
