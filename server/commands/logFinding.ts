@@ -11,9 +11,10 @@
 import type { CreateFindingParsed, FindingDetail } from '../../shared/schemas/findings';
 import { dueOnFor } from '../../shared/rules/due';
 import type { Severity } from '../../shared/words';
-import { badRequest } from '../errors';
+import { badRequest, conflict } from '../errors';
 import { CatalogueItem, Finding, Level, Photo, Space, Unit, UnitCheck, UnitModel, Walk, type Job } from '../models';
 import { companyOnJob, limitResolverFor, measure, nextFindingNumber, recordFindingEvent, suggestCompany, type CompanyRef, type Measurement } from '../services/findings';
+import { findingDetail } from '../services/findingQueries';
 import { photoRowValues } from '../services/photos';
 import { notifyCriticalAssignment, type CommandContext, type NewPhotos, type ReadContext } from './context';
 import { detailOf } from './findingWrites';
@@ -90,6 +91,20 @@ export async function checkNewFinding(ctx: ReadContext, job: Job, body: CreateFi
   return { body, item, place, company, measured, severity, dueOn };
 }
 
+/**
+ * A finding id made on the phone is the idempotency of its creation: the same id from the same
+ * person on the same job is that finding again (answered as it is now, nothing written); an id
+ * that names anything else is refused (409) before anything is checked or stored.
+ */
+export async function findingAlreadyLogged(ctx: ReadContext, findingId: string): Promise<FindingDetail | null> {
+  const found = await Finding.findByPk(findingId, { attributes: ['id', 'jobId', 'loggedBy'] });
+  if (!found) return null;
+  if (found.jobId !== ctx.scope.jobId || found.loggedBy !== ctx.actor.id) {
+    throw conflict('This finding id is already used. Log the finding again to give it a new id.', 'finding_id_taken');
+  }
+  return findingDetail(ctx.sequelize, ctx.scope, findingId);
+}
+
 /** Writes the checked finding with its photos, number, event and mail; returns it as the caller sees it. */
 export async function logFinding(ctx: CommandContext, input: NewFinding, photos: NewPhotos): Promise<FindingDetail> {
   const { sequelize, transaction, actor, scope } = ctx;
@@ -98,6 +113,7 @@ export async function logFinding(ctx: CommandContext, input: NewFinding, photos:
   const number = await nextFindingNumber(sequelize, jobId, transaction);
   const finding = await Finding.create(
     {
+      ...(body.id ? { id: body.id } : {}),
       jobId,
       number,
       unitId: place.unit?.id ?? null,

@@ -2,7 +2,8 @@
  * Findings and their photos.
  * GET  /jobs/:jobId/findings                   every role; a subcontractor sees only their company's findings
  * POST /jobs/:jobId/findings                   inspector, GC manager (Idempotency-Key); JSON, or multipart with
- *                                              a `data` field (the JSON) and up to 10 `photos` → 201 FindingDetail
+ *                                              a `data` field (the JSON) and up to 10 `photos` → 201 FindingDetail;
+ *                                              an optional phone-made `id` (same id again → 200 that finding)
  * GET  /jobs/:jobId/findings/:findingId        every role (subcontractor: own company, else 404); ETag
  * GET  /jobs/:jobId/photos/:photoId            as the finding it belongs to
  * GET  /jobs/:jobId/photos/:photoId/thumb      as the finding it belongs to
@@ -25,7 +26,7 @@ import {
   FINDINGS_LIST_LIMIT_DEFAULT,
   photoParamsSchema,
 } from '../../shared/schemas/findings';
-import { checkNewFinding, logFinding } from '../commands/logFinding';
+import { checkNewFinding, findingAlreadyLogged, logFinding } from '../commands/logFinding';
 import { contextOf } from '../commands/context';
 import { notFound } from '../errors';
 import { createUploadGuard, photosWithJsonData, uploadedFiles, type UploadGuard } from '../middleware/upload';
@@ -74,6 +75,13 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
     // A retry of a request that already succeeded: replay its answer, store nothing.
     if (await replayIfAnswered(req, res)) return;
     const ctx = contextOf(req);
+    // A phone-made id sent again (its first answer lost, its key gone): that finding, once.
+    const same = body.id ? await findingAlreadyLogged(ctx, body.id) : null;
+    if (same) {
+      setEtag(res, same.version);
+      res.status(200).json(same);
+      return;
+    }
     // Everything that can be refused is refused before any photo is stored.
     const checked = await checkNewFinding(ctx, req.membership!.job, body);
     const files = uploadedFiles(req);

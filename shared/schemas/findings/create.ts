@@ -13,9 +13,13 @@ import { id, dateOnly, measuredText, note, pin } from './fields';
  * space; a levelId sent beside a unit or space must match it.
  * Omitted severity → the catalogue item's default; omitted companyId → the suggested company
  * (400 when none fits); omitted dueOn → today (job time zone) + the job's days for the severity.
+ * `id`: optional, made on the phone (UUID) so later writes queued offline can name the finding before
+ * it reaches the server. It is the idempotency of creation: the same id again from the same person on
+ * the same job answers 200 with that finding (nothing new); an id already used otherwise → 409.
  */
 export const createFindingSchema = z
   .object({
+    id: id('finding id').optional(),
     catalogueItemId: id('defect type'),
     unitId: id('unit').nullable().optional(),
     spaceId: id('space').nullable().optional(),

@@ -367,6 +367,48 @@ describe('POST /api/jobs/:jobId/findings', () => {
   });
 });
 
+describe('POST /api/jobs/:jobId/findings with an id made on the phone', () => {
+  it('creates the finding under that id; the same id again (another key) answers that finding, once', async () => {
+    const w = await buildWalkJob(people);
+    const before = await snapshot(w);
+    const findingId = crypto.randomUUID();
+    const data = { ...dr03(w), id: findingId, note: 'Logged without signal.' };
+    const first = await postMultipart(inspector, w, data, [{ buffer: jpeg, name: 'a.jpg' }], 'phone-id-0001').expect(201);
+    expect(first.body.id).toBe(findingId);
+    // Its first answer lost and the key forgotten: the id alone still makes it once.
+    const again = await postMultipart(inspector, w, data, [{ buffer: jpeg, name: 'a.jpg' }], 'phone-id-0002').expect(200);
+    expect(again.body.id).toBe(findingId);
+    expect(again.body.number).toBe(first.body.number);
+    expect(again.headers.etag).toBe('"v1"');
+    const noKey = await postJson(inspector, w, { ...dr03(w), id: findingId }).expect(200);
+    expect(noKey.body.id).toBe(findingId);
+    const after = await snapshot(w);
+    expect(after.rows).toEqual({ findings: before.rows.findings + 1, photos: before.rows.photos + 1, events: before.rows.events + 1 });
+    expect(after.keys.length).toBe(before.keys.length + 2);
+  });
+
+  it('an id already used by another person or on another job → 409 finding_id_taken, nothing saved', async () => {
+    const w = await buildWalkJob(people);
+    const other = await buildWalkJob(people);
+    const findingId = crypto.randomUUID();
+    await postJson(inspector, w, { ...dr03(w), id: findingId }, 'phone-id-0003').expect(201);
+    const before = await snapshot(w);
+    const otherBefore = await countRows(other.job.id);
+    const byGc = await postJson(gc, w, { ...dr03(w), id: findingId }, 'phone-id-0004').expect(409);
+    expect(byGc.body.error.id).toBe('finding_id_taken');
+    const elsewhere = await postMultipart(inspector, other, { ...dr03(other), id: findingId }, [{ buffer: jpeg, name: 'a.jpg' }], 'phone-id-0005').expect(409);
+    expect(elsewhere.body.error.id).toBe('finding_id_taken');
+    expect(await snapshot(w)).toEqual(before);
+    expect(await countRows(other.job.id)).toEqual(otherBefore);
+  });
+
+  it('an id that is not a UUID → 400 naming the field', async () => {
+    const w = await buildWalkJob(people);
+    const res = await postJson(inspector, w, { ...dr03(w), id: 'phone-1' }).expect(400);
+    expect(res.body.error.fields).toHaveProperty('id');
+  });
+});
+
 describe('GET /api/jobs/:jobId/findings', () => {
   async function seeded() {
     const w = await buildWalkJob(people);
