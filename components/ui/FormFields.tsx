@@ -5,7 +5,6 @@
  */
 import { useState, type Ref } from 'react';
 import {
-  Controller,
   type Control,
   type FieldError,
   type FieldErrors,
@@ -14,6 +13,7 @@ import {
   type Resolver,
   type ResolverOptions,
   type UseFormSetError,
+  useController,
 } from 'react-hook-form';
 import { StyleSheet, View, type TextInput, type TextInputProps } from 'react-native';
 import type { LimitResolver } from '../../shared/calc/rules';
@@ -54,23 +54,18 @@ export function FormText<T extends FieldValues>({
   inputRef,
   ...input
 }: Base<T> & { nullable?: boolean; inputRef?: Ref<TextInput>; compact?: boolean } & Omit<TextInputProps, 'value' | 'onChangeText' | 'testID'>) {
+  const { field, fieldState } = useController({ control, name });
   return (
-    <Controller
-      control={control}
-      name={name}
-      render={({ field, fieldState }) => (
-        <TextField
-          {...input}
-          ref={inputRef}
-          testID={testID}
-          label={label}
-          hint={hint}
-          value={typeof field.value === 'string' ? field.value : ''}
-          onChangeText={(t) => field.onChange(nullable && t.trim() === '' ? null : t)}
-          onBlur={field.onBlur}
-          error={fieldState.error?.message}
-        />
-      )}
+    <TextField
+      {...input}
+      ref={inputRef}
+      testID={testID}
+      label={label}
+      hint={hint}
+      value={typeof field.value === 'string' ? field.value : ''}
+      onChangeText={(t) => field.onChange(nullable && t.trim() === '' ? null : t)}
+      onBlur={field.onBlur}
+      error={fieldState.error?.message}
     />
   );
 }
@@ -94,26 +89,21 @@ export function FormSelect<T extends FieldValues>({
   /** Called after the user picks a value (to fill in what follows from it). */
   onChosen?: (value: string) => void;
 }) {
+  const { field, fieldState } = useController({ control, name });
   return (
-    <Controller
-      control={control}
-      name={name}
-      render={({ field, fieldState }) => (
-        <Select
-          testID={testID}
-          label={label}
-          hint={hint}
-          value={typeof field.value === 'string' ? field.value : ''}
-          options={options}
-          placeholder={placeholder}
-          onChange={(v) => {
-            field.onChange(v === '' ? (nullable ? null : undefined) : v);
-            onChosen?.(v);
-          }}
-          error={fieldState.error?.message}
-          compact={compact}
-        />
-      )}
+    <Select
+      testID={testID}
+      label={label}
+      hint={hint}
+      value={typeof field.value === 'string' ? field.value : ''}
+      options={options}
+      placeholder={placeholder}
+      onChange={(v) => {
+        field.onChange(v === '' ? (nullable ? null : undefined) : v);
+        onChosen?.(v);
+      }}
+      error={fieldState.error?.message}
+      compact={compact}
     />
   );
 }
@@ -140,47 +130,40 @@ export function FormQuantity<T extends FieldValues>({
 }: Base<T> & { units: readonly string[]; defaultUnit: string; placeholder?: string }) {
   const [unit, setUnit] = useState(defaultUnit);
   const [raw, setRaw] = useState<string | null>(null);
+  const { field, fieldState } = useController({ control, name });
+  const toValue = (text: string, u: string) => (text.trim() === '' ? null : withUnit(text, u));
+  const current = typeof field.value === 'string' ? field.value : null;
+  // What was typed, while it still stands for the form's value (a reset clears it).
+  const shown = raw !== null && toValue(raw, unit) === current ? raw : (current ?? '');
+  const send = (text: string, u: string) => field.onChange(toValue(text, u));
   return (
-    <Controller
-      control={control}
-      name={name}
-      render={({ field, fieldState }) => {
-        const toValue = (text: string, u: string) => (text.trim() === '' ? null : withUnit(text, u));
-        const current = typeof field.value === 'string' ? field.value : null;
-        // What was typed, while it still stands for the form's value (a reset clears it).
-        const shown = raw !== null && toValue(raw, unit) === current ? raw : (current ?? '');
-        const send = (text: string, u: string) => field.onChange(toValue(text, u));
-        return (
-          <View style={styles.quantity}>
-            <View style={styles.grow}>
-              <TextField
-                testID={testID}
-                label={label}
-                hint={hint ?? `Type a number and pick its unit, or type it with its unit.`}
-                placeholder={placeholder}
-                value={shown}
-                onChangeText={(t) => {
-                  setRaw(t);
-                  send(t, unit);
-                }}
-                onBlur={field.onBlur}
-                error={fieldState.error?.message}
-              />
-            </View>
-            <Segmented
-              label="Unit"
-              testID={`${testID}-unit`}
-              value={unit}
-              options={units.map((u) => ({ value: u, label: u }))}
-              onChange={(u) => {
-                setUnit(u);
-                send(shown, u);
-              }}
-            />
-          </View>
-        );
-      }}
-    />
+    <View style={styles.quantity}>
+      <View style={styles.grow}>
+        <TextField
+          testID={testID}
+          label={label}
+          hint={hint ?? `Type a number and pick its unit, or type it with its unit.`}
+          placeholder={placeholder}
+          value={shown}
+          onChangeText={(t) => {
+            setRaw(t);
+            send(t, unit);
+          }}
+          onBlur={field.onBlur}
+          error={fieldState.error?.message}
+        />
+      </View>
+      <Segmented
+        label="Unit"
+        testID={`${testID}-unit`}
+        value={unit}
+        options={units.map((u) => ({ value: u, label: u }))}
+        onChange={(u) => {
+          setUnit(u);
+          send(shown, u);
+        }}
+      />
+    </View>
   );
 }
 
@@ -193,26 +176,21 @@ export function FormSegmented<T extends FieldValues, V extends string>({
   options,
   onChosen,
 }: Base<T> & { options: readonly { value: V; label: string }[]; onChosen?: (value: V) => void }) {
+  const { field, fieldState } = useController({ control, name });
   return (
-    <Controller
-      control={control}
-      name={name}
-      render={({ field, fieldState }) => (
-        <View>
-          <Segmented<V>
-            label={label}
-            testID={testID}
-            value={field.value as V}
-            options={options}
-            onChange={(v) => {
-              field.onChange(v);
-              onChosen?.(v);
-            }}
-          />
-          <FieldMessage error={fieldState.error} testID={`${testID}-error`} />
-        </View>
-      )}
-    />
+    <View>
+      <Segmented<V>
+        label={label}
+        testID={testID}
+        value={field.value as V}
+        options={options}
+        onChange={(v) => {
+          field.onChange(v);
+          onChosen?.(v);
+        }}
+      />
+      <FieldMessage error={fieldState.error} testID={`${testID}-error`} />
+    </View>
   );
 }
 
@@ -224,20 +202,15 @@ export function FormChips<T extends FieldValues, V extends string>({
   testID,
   options,
 }: Base<T> & { options: readonly { value: V; label: string }[] }) {
+  const { field, fieldState } = useController({ control, name });
   return (
-    <Controller
-      control={control}
-      name={name}
-      render={({ field, fieldState }) => (
-        <Chips<V>
-          label={label}
-          testID={testID}
-          values={Array.isArray(field.value) ? (field.value as V[]) : []}
-          options={options}
-          onChange={field.onChange}
-          error={fieldState.error?.message}
-        />
-      )}
+    <Chips<V>
+      label={label}
+      testID={testID}
+      values={Array.isArray(field.value) ? (field.value as V[]) : []}
+      options={options}
+      onChange={field.onChange}
+      error={fieldState.error?.message}
     />
   );
 }
@@ -249,24 +222,19 @@ export function FormSeverity<T extends FieldValues>({
   testID,
   onChosen,
 }: Omit<Base<T>, 'label'> & { onChosen?: (value: Severity) => void }) {
+  const { field, fieldState } = useController({ control, name });
   return (
-    <Controller
-      control={control}
-      name={name}
-      render={({ field, fieldState }) => (
-        <View>
-          <SeverityPicker
-            testID={testID}
-            value={field.value as Severity}
-            onChange={(s) => {
-              field.onChange(s);
-              onChosen?.(s);
-            }}
-          />
-          <FieldMessage error={fieldState.error} testID={`${testID}-error`} />
-        </View>
-      )}
-    />
+    <View>
+      <SeverityPicker
+        testID={testID}
+        value={field.value as Severity}
+        onChange={(s) => {
+          field.onChange(s);
+          onChosen?.(s);
+        }}
+      />
+      <FieldMessage error={fieldState.error} testID={`${testID}-error`} />
+    </View>
   );
 }
 
@@ -282,24 +250,19 @@ export function FormMeasured<T extends FieldValues>({
   resolve,
   system,
 }: Omit<Base<T>, 'label'> & { rule: MeasuredRule; resolve: LimitResolver; system: UnitSystem }) {
+  const { field, fieldState } = useController({ control, name });
   return (
-    <Controller
-      control={control}
-      name={name}
-      render={({ field, fieldState }) => (
-        <View>
-          <MeasuredField
-            rule={rule}
-            text={typeof field.value === 'string' ? field.value : ''}
-            onChangeText={(t) => field.onChange(t.trim() === '' ? null : t)}
-            resolve={resolve}
-            system={system}
-            testID={testID}
-          />
-          <FieldMessage error={fieldState.error} testID={`${testID}-error`} />
-        </View>
-      )}
-    />
+    <View>
+      <MeasuredField
+        rule={rule}
+        text={typeof field.value === 'string' ? field.value : ''}
+        onChangeText={(t) => field.onChange(t.trim() === '' ? null : t)}
+        resolve={resolve}
+        system={system}
+        testID={testID}
+      />
+      <FieldMessage error={fieldState.error} testID={`${testID}-error`} />
+    </View>
   );
 }
 
@@ -318,42 +281,35 @@ export function FormPhotos<T extends FieldValues>({
   photoLabel = 'Photo',
 }: Base<T> & { max: number; tooMany: string; photoLabel?: string }) {
   const [problem, setProblem] = useState<string | null>(null);
+  const { field, fieldState } = useController({ control, name });
+  const photos: PickedPhoto[] = Array.isArray(field.value) ? (field.value as PickedPhoto[]) : [];
+  const add = (more: PickedPhoto[]) => {
+    const room = Math.max(max - photos.length, 0);
+    setProblem(more.length > room ? tooMany : null);
+    field.onChange([...photos, ...more.slice(0, room)]);
+  };
+  const message = fieldState.error?.message ?? problem;
   return (
-    <Controller
-      control={control}
-      name={name}
-      render={({ field, fieldState }) => {
-        const photos: PickedPhoto[] = Array.isArray(field.value) ? (field.value as PickedPhoto[]) : [];
-        const add = (more: PickedPhoto[]) => {
-          const room = Math.max(max - photos.length, 0);
-          setProblem(more.length > room ? tooMany : null);
-          field.onChange([...photos, ...more.slice(0, room)]);
-        };
-        const message = fieldState.error?.message ?? problem;
-        return (
-          <View style={styles.photos}>
-            <AppText variant="label">
-              {label} ({photos.length} of at most {max})
-            </AppText>
-            <PhotoStrip
-              testID={`${testID}-photos`}
-              photos={photos.map((p, i) => ({ key: p.key, thumbUri: p.uri, fullUri: p.uri, label: `${photoLabel} ${i + 1}` }))}
-              onRemove={(key) => {
-                setProblem(null);
-                field.onChange(photos.filter((p) => p.key !== key));
-              }}
-            />
-            <PhotoPicker label="Add photos from files" testID={`${testID}-files`} disabled={photos.length >= max} onPick={add} onError={setProblem} />
-            <CameraCapture testID={`${testID}-camera`} disabled={photos.length >= max} onPhoto={(p) => add([p])} />
-            {message ? (
-              <AppText variant="small" role="alert" style={styles.error} testID={`${testID}-photos-error`}>
-                {message}
-              </AppText>
-            ) : null}
-          </View>
-        );
-      }}
-    />
+    <View style={styles.photos}>
+      <AppText variant="label">
+        {label} ({photos.length} of at most {max})
+      </AppText>
+      <PhotoStrip
+        testID={`${testID}-photos`}
+        photos={photos.map((p, i) => ({ key: p.key, thumbUri: p.uri, fullUri: p.uri, label: `${photoLabel} ${i + 1}` }))}
+        onRemove={(key) => {
+          setProblem(null);
+          field.onChange(photos.filter((p) => p.key !== key));
+        }}
+      />
+      <PhotoPicker label="Add photos from files" testID={`${testID}-files`} disabled={photos.length >= max} onPick={add} onError={setProblem} />
+      <CameraCapture testID={`${testID}-camera`} disabled={photos.length >= max} onPhoto={(p) => add([p])} />
+      {message ? (
+        <AppText variant="small" role="alert" style={styles.error} testID={`${testID}-photos-error`}>
+          {message}
+        </AppText>
+      ) : null}
+    </View>
   );
 }
 

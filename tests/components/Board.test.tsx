@@ -4,9 +4,7 @@
  * filtered to exactly the findings it counts (and the list reads those filters back from the
  * address), the trend chart's text summary, and the scorecards' sortable headers.
  */
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { fireEvent, render, screen, within } from '@testing-library/react-native';
-import type { ReactElement } from 'react';
+import { fireEvent, screen, within } from '@testing-library/react-native';
 import { BoardScreen } from '../../components/board/BoardScreen';
 import { LevelDetailScreen } from '../../components/board/LevelDetailScreen';
 import { ReadinessScreen } from '../../components/board/ReadinessScreen';
@@ -18,6 +16,7 @@ import { links } from '../../components/links';
 import { findingFiltersFromParams } from '../../components/findings/filterParams';
 import type { BoardResponse, CompanyScorecard, ReadinessResponse, RecurringResponse, TrendResponse } from '../../shared/schemas/board';
 import type { Role } from '../../shared/words';
+import { renderWithQueries } from '../support/components';
 
 jest.setTimeout(30_000);
 
@@ -25,14 +24,7 @@ let mockWide = true;
 jest.mock('../../components/ui/useWide', () => ({ useWide: () => mockWide, WIDE_BREAKPOINT: 760 }));
 
 // Links render their href as a prop, so a test can read where each one goes.
-jest.mock('expo-router', () => {
-  const React = jest.requireActual<typeof import('react')>('react');
-  const { Text } = jest.requireActual<typeof import('react-native')>('react-native');
-  return {
-    Link: ({ href, asChild, children, ...rest }: { href: string; asChild?: boolean; children: ReactElement }) =>
-      asChild ? React.cloneElement(React.Children.only(children), { href } as object) : React.createElement(Text, { ...rest, href } as object, children),
-  };
-});
+jest.mock('expo-router', () => jest.requireActual<typeof import('../support/components')>('../support/components').linkingRouter());
 
 const JOB = '00000000-0000-4000-8000-0000000000a1';
 const L1 = '00000000-0000-4000-8000-000000000011';
@@ -149,11 +141,6 @@ function fakeApi(role: Role, over: Record<string, [number, unknown]> = {}) {
   return fn;
 }
 
-function renderWith(ui: ReactElement) {
-  const client = new QueryClient({ defaultOptions: { queries: { retry: false, gcTime: Infinity } } });
-  return render(<QueryClientProvider client={client}>{ui}</QueryClientProvider>);
-}
-
 function hrefOf(testID: string): string {
   return String(screen.getByTestId(testID).props.href);
 }
@@ -167,7 +154,7 @@ describe('the levels board', () => {
 
   it('shows a grid on a wide screen: levels in building order, then the totals', async () => {
     fakeApi('gc_manager');
-    renderWith(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} />);
     const grid = await screen.findByTestId('board-grid');
     expect(screen.queryByTestId('board-cards')).toBeNull();
     const rows = within(grid)
@@ -185,7 +172,7 @@ describe('the levels board', () => {
   it('shows one card per level on a phone, totals first, with the same numbers', async () => {
     mockWide = false;
     fakeApi('gc_manager');
-    renderWith(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} />);
     await screen.findByTestId('board-cards');
     expect(screen.queryByTestId('board-grid')).toBeNull();
     const cards = screen.getAllByTestId(/^board-card-/).map((c) => c.props.testID);
@@ -196,7 +183,7 @@ describe('the levels board', () => {
 
   it('links each count to the findings list filtered to what it counts', async () => {
     fakeApi('gc_manager');
-    renderWith(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} />);
     await screen.findByTestId('board-grid');
     expect(hrefOf(`board-cell-${L2}-open`)).toBe(`${F}?levelId=${L2}&status=open`);
     expect(hrefOf(`board-cell-${L2}-openCritical`)).toBe(`${F}?levelId=${L2}&status=open&severity=critical`);
@@ -223,7 +210,7 @@ describe('the levels board', () => {
 
   it('gives a subcontractor no link to the scorecards', async () => {
     fakeApi('subcontractor');
-    renderWith(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} />);
     await screen.findByTestId('board-grid');
     await screen.findByTestId('board-tabs-readiness');
     expect(screen.queryByTestId('board-tabs-scorecards')).toBeNull();
@@ -231,11 +218,11 @@ describe('the levels board', () => {
 
   it('says "no levels yet" for a job without levels, and shows the error with a retry', async () => {
     fakeApi('gc_manager', { [`/api/jobs/${JOB}/board`]: [200, { levels: [], totals: zero, today: '2026-11-30', companyScope: null }] });
-    const first = renderWith(<BoardScreen jobId={JOB} />);
+    const first = renderWithQueries(<BoardScreen jobId={JOB} />);
     expect(await screen.findByTestId('board-empty')).toBeTruthy();
     first.unmount();
     fakeApi('gc_manager', { [`/api/jobs/${JOB}/board`]: [500, { error: { id: 'internal', message: 'Something went wrong.' } }] });
-    renderWith(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} />);
     expect(await screen.findByText('Something went wrong.')).toBeTruthy();
   });
 });
@@ -248,7 +235,7 @@ describe('the trend chart', () => {
     );
     expect(trendSummary([])).toBe('Open findings: no days to show yet.');
     fakeApi('gc_manager');
-    renderWith(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} />);
     const summary = await screen.findByTestId('trend-summary');
     expect(summary.props.children).toBe(trendSummary(TREND.points));
     expect(screen.getByTestId('trend-chart').props['aria-label']).toBe(trendSummary(TREND.points));
@@ -271,7 +258,7 @@ describe('company scorecards', () => {
 
   it('sorts by a header and turns the order round on a second press (aria-sort follows)', async () => {
     fakeApi('gc_manager');
-    renderWith(<ScorecardsScreen jobId={JOB} />);
+    renderWithQueries(<ScorecardsScreen jobId={JOB} />);
     await screen.findByTestId('scorecards-table');
     // Most overdue first by default.
     expect(nameText()).toEqual(['Amp Electric', 'Mech Co', 'Ceil Co']);
@@ -299,7 +286,7 @@ describe('company scorecards', () => {
   it('shows cards on a phone', async () => {
     mockWide = false;
     fakeApi('inspector');
-    renderWith(<ScorecardsScreen jobId={JOB} />);
+    renderWithQueries(<ScorecardsScreen jobId={JOB} />);
     await screen.findByTestId('scorecards-cards');
     expect(screen.queryByTestId('scorecards-table')).toBeNull();
     expect(within(screen.getByTestId('scorecards-card-0')).getByText('Amp Electric')).toBeTruthy();
@@ -307,7 +294,7 @@ describe('company scorecards', () => {
 
   it('does not ask for them as a subcontractor and says who sees them', async () => {
     const fetchSpy = fakeApi('subcontractor');
-    renderWith(<ScorecardsScreen jobId={JOB} />);
+    renderWithQueries(<ScorecardsScreen jobId={JOB} />);
     expect(await screen.findByTestId('scorecards-forbidden')).toBeTruthy();
     expect(fetchSpy.mock.calls.map((c) => c[0])).not.toContain(`/api/jobs/${JOB}/scorecards`);
   });
@@ -317,7 +304,7 @@ describe('readiness and the level screen', () => {
   it('names what blocks a system and a level, each finding a link', async () => {
     mockWide = false;
     fakeApi('gc_manager');
-    renderWith(<ReadinessScreen jobId={JOB} />);
+    renderWithQueries(<ReadinessScreen jobId={JOB} />);
     const sys = await screen.findByTestId('system-readiness-00000000-0000-4000-8000-0000000000e1');
     expect(within(sys).getByText('✕ Not ready')).toBeTruthy();
     expect(within(sys).getByText('No complete unit check yet (1 unit)')).toBeTruthy();
@@ -333,7 +320,7 @@ describe('readiness and the level screen', () => {
   it('shows a level’s numbers, readiness and trend, and links to walk it and to its plan', async () => {
     mockWide = false;
     fakeApi('gc_manager');
-    renderWith(<LevelDetailScreen jobId={JOB} levelId={L2} />);
+    renderWithQueries(<LevelDetailScreen jobId={JOB} levelId={L2} />);
     expect(await screen.findByTestId('level-name')).toBeTruthy();
     expect(hrefOf('level-walk')).toBe(`/jobs/${JOB}/levels/${L2}/walk`);
     expect(hrefOf('level-plan')).toBe(`/jobs/${JOB}/levels/${L2}/plan`);

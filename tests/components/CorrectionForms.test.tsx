@@ -3,15 +3,14 @@
  * under their fields before anything is sent, and the server's field messages (keyed by the
  * body's path) under the fields they name.
  */
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { fireEvent, render, screen, waitFor, within } from '@testing-library/react-native';
-import type { ReactElement } from 'react';
+import { fireEvent, screen, waitFor, within } from '@testing-library/react-native';
 import { BulkBar } from '../../components/correction/BulkBar';
 import { Comments } from '../../components/correction/Comments';
 import { FindingActions } from '../../components/correction/FindingActions';
 import { FixForm } from '../../components/correction/FixForm';
 import type { FindingDetail, FindingDto } from '../../shared/schemas/findings';
 import type { JobCompanyDto } from '../../shared/schemas/setup';
+import { refused, renderWithQueries } from '../support/components';
 
 jest.setTimeout(30_000);
 
@@ -50,20 +49,10 @@ function fakeApi(writes: Answer[]) {
   return { writes: () => fn.mock.calls.filter(([, init]) => (init?.method ?? 'GET') !== 'GET') };
 }
 
-function renderWith(ui: ReactElement) {
-  const client = new QueryClient({ defaultOptions: { queries: { retry: false, gcTime: Infinity }, mutations: { retry: false, gcTime: Infinity } } });
-  render(<QueryClientProvider client={client}>{ui}</QueryClientProvider>);
-}
-
-const refused = (fields: Record<string, string>) => ({
-  status: 400,
-  body: { error: { id: 'validation', message: `${Object.keys(fields)[0]}: ${Object.values(fields)[0]}`, fields } },
-});
-
 describe('FixForm', () => {
   it('asks for what was fixed and for a photo at once, and sends nothing', async () => {
     const api = fakeApi([]);
-    renderWith(<FixForm jobId={JOB} finding={finding} onStale={jest.fn()} />);
+    renderWithQueries(<FixForm jobId={JOB} finding={finding} onStale={jest.fn()} />);
     fireEvent.press(screen.getByTestId('fix-form-submit'));
     expect(await screen.findByText('Say what was fixed.')).toBeTruthy();
     expect(within(screen.getByTestId('fix-form-photos-error')).getByText('Add at least one photo of the fixed work.')).toBeTruthy();
@@ -74,7 +63,7 @@ describe('FixForm', () => {
 describe('Comments', () => {
   it('asks for text, then puts the server’s field message under the comment box', async () => {
     const api = fakeApi([refused({ text: 'A comment is at most 2000 characters.' })]);
-    renderWith(<Comments jobId={JOB} findingId={FINDING} timeZone="UTC" />);
+    renderWithQueries(<Comments jobId={JOB} findingId={FINDING} timeZone="UTC" />);
     fireEvent.press(screen.getByTestId('finding-comment-send'));
     expect(within(await screen.findByTestId('finding-comment-text-error')).getByText('Write a comment.')).toBeTruthy();
     expect(api.writes()).toEqual([]);
@@ -88,7 +77,7 @@ describe('Comments', () => {
 
 describe('FindingActions: change this finding', () => {
   function renderActions() {
-    renderWith(<FindingActions jobId={JOB} finding={finding} role="gc_manager" isLogger={false} onStale={jest.fn()} />);
+    renderWithQueries(<FindingActions jobId={JOB} finding={finding} role="gc_manager" isLogger={false} onStale={jest.fn()} />);
   }
 
   it('needs a reason to void, and keeps the reason typed while switching what to change', async () => {
@@ -133,7 +122,7 @@ describe('BulkBar', () => {
   it('asks for a company and a reason before reassigning, then sends the ticked findings', async () => {
     const api = fakeApi([{ status: 200, body: { items: rows } }]);
     const onClear = jest.fn();
-    renderWith(<BulkBar jobId={JOB} selected={[FINDING, OTHER]} rows={rows} companies={[MECH, ELEC]} onClear={onClear} />);
+    renderWithQueries(<BulkBar jobId={JOB} selected={[FINDING, OTHER]} rows={rows} companies={[MECH, ELEC]} onClear={onClear} />);
     fireEvent.press(screen.getByTestId('bulk-apply'));
     expect(await screen.findByText('Choose a responsible company.')).toBeTruthy();
     expect(within(screen.getByTestId('bulk-reason-error')).getByText('Give a reason for the reassignment.')).toBeTruthy();

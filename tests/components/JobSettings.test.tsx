@@ -5,48 +5,22 @@
  * that says someone else changed the job, reloads it and keeps what was typed, a 400's field
  * messages beside their fields, and the read-only view other roles get.
  */
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { fireEvent, render, screen, within } from '@testing-library/react-native';
-import type { ReactElement } from 'react';
+import { fireEvent, screen, within } from '@testing-library/react-native';
 import { setCsrfToken } from '../../components/api/client';
 import { JobSettingsScreen } from '../../components/setup/JobSettingsScreen';
 import { percentToShare, shareToPercent } from '../../components/setup/jobSettingsForm';
 import type { JobDetail } from '../../shared/schemas/setup';
+import { renderWithQueries, SAMPLE_JOB_ID, sampleJob } from '../support/components';
 import type { Role } from '../../shared/words';
 
 jest.setTimeout(30_000);
 
 jest.mock('../../components/ui/useWide', () => ({ useWide: () => true, WIDE_BREAKPOINT: 760 }));
-jest.mock('expo-router', () => {
-  const React = jest.requireActual<typeof import('react')>('react');
-  const { Text } = jest.requireActual<typeof import('react-native')>('react-native');
-  return {
-    Link: ({ href, asChild, children, ...rest }: { href: string; asChild?: boolean; children: ReactElement }) =>
-      asChild ? React.cloneElement(React.Children.only(children), { href } as object) : React.createElement(Text, { ...rest, href } as object, children),
-  };
-});
+jest.mock('expo-router', () => jest.requireActual<typeof import('../support/components')>('../support/components').linkingRouter());
 
-const JOB = '00000000-0000-4000-8000-0000000000a1';
+const JOB = SAMPLE_JOB_ID;
 
-function job(overrides: Partial<JobDetail> = {}): JobDetail {
-  return {
-    id: JOB,
-    name: 'Cinder Lane Commons',
-    number: null,
-    address: null,
-    role: 'gc_manager',
-    startsOn: null,
-    endsOn: null,
-    timeZone: 'America/Chicago',
-    unitSystem: 'imperial',
-    codeEditions: { IMC: '2018', IRC: '2018', 'NFPA 70': '2023', 'ASHRAE 34': '2019', 'IEC 60335-2-40': '2018' },
-    severityDueDays: { critical: 2, major: 7, minor: 14 },
-    recurringThresholds: { minUnits: 3, minShare: 0.1 },
-    settings: {},
-    version: 3,
-    ...overrides,
-  };
-}
+const job = (overrides: Partial<JobDetail> = {}): JobDetail => sampleJob({ timeZone: 'America/Chicago', ...overrides });
 
 type Answer = { status: number; body: unknown };
 type Call = { method: string; path: string; headers: Record<string, string>; body: unknown };
@@ -76,14 +50,7 @@ function fakeApi(gets: JobDetail[], patches: Answer[] = []) {
 }
 
 function renderScreen() {
-  const client = new QueryClient({
-    defaultOptions: { queries: { retry: false, gcTime: Infinity }, mutations: { retry: false, gcTime: Infinity } },
-  });
-  render(
-    <QueryClientProvider client={client}>
-      <JobSettingsScreen jobId={JOB} />
-    </QueryClientProvider>,
-  );
+  renderWithQueries(<JobSettingsScreen jobId={JOB} />);
 }
 
 const value = (testID: string) => screen.getByTestId(testID).props.value as string;

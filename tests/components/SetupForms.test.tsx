@@ -5,44 +5,20 @@
  * field it names), a defect type's measured rule (each of the rule's messages under its own
  * field), and a model's limits typed with their source (a limit left empty is not sent).
  */
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { fireEvent, render, screen, waitFor, within } from '@testing-library/react-native';
-import type { ReactElement } from 'react';
+import { fireEvent, screen, waitFor, within } from '@testing-library/react-native';
 import { CatalogueScreen } from '../../components/setup/CatalogueScreen';
 import { CompaniesScreen } from '../../components/setup/CompaniesScreen';
 import { ModelsScreen } from '../../components/setup/ModelsScreen';
 import { SystemsScreen } from '../../components/setup/SystemsScreen';
-import type { JobDetail } from '../../shared/schemas/setup';
+import { refused, renderWithQueries, SAMPLE_JOB_ID, sampleJob } from '../support/components';
 
 jest.setTimeout(30_000);
 
 jest.mock('../../components/ui/useWide', () => ({ useWide: () => true, WIDE_BREAKPOINT: 760 }));
-jest.mock('expo-router', () => {
-  const React = jest.requireActual<typeof import('react')>('react');
-  const { Text } = jest.requireActual<typeof import('react-native')>('react-native');
-  return {
-    Link: ({ href, asChild, children, ...rest }: { href: string; asChild?: boolean; children: ReactElement }) =>
-      asChild ? React.cloneElement(React.Children.only(children), { href } as object) : React.createElement(Text, { ...rest, href } as object, children),
-  };
-});
+jest.mock('expo-router', () => jest.requireActual<typeof import('../support/components')>('../support/components').linkingRouter());
 
-const JOB = '00000000-0000-4000-8000-0000000000a1';
-const job: JobDetail = {
-  id: JOB,
-  name: 'Cinder Lane Commons',
-  number: null,
-  address: null,
-  role: 'gc_manager',
-  startsOn: null,
-  endsOn: null,
-  timeZone: 'UTC',
-  unitSystem: 'imperial',
-  codeEditions: { IMC: '2018', IRC: '2018', 'NFPA 70': '2023', 'ASHRAE 34': '2019', 'IEC 60335-2-40': '2018' },
-  severityDueDays: { critical: 2, major: 7, minor: 14 },
-  recurringThresholds: { minUnits: 3, minShare: 0.1 },
-  settings: {},
-  version: 3,
-} as unknown as JobDetail;
+const JOB = SAMPLE_JOB_ID;
+const job = sampleJob();
 
 type Answer = { status: number; body: unknown };
 
@@ -62,20 +38,10 @@ function fakeApi(writes: Answer[]) {
   return sent;
 }
 
-function renderWith(ui: ReactElement) {
-  const client = new QueryClient({ defaultOptions: { queries: { retry: false, gcTime: Infinity }, mutations: { retry: false, gcTime: Infinity } } });
-  render(<QueryClientProvider client={client}>{ui}</QueryClientProvider>);
-}
-
-const refused = (fields: Record<string, string>) => ({
-  status: 400,
-  body: { error: { id: 'validation', message: `${Object.keys(fields)[0]}: ${Object.values(fields)[0]}`, fields } },
-});
-
 describe('adding a company', () => {
   it('asks for a name, then puts the server’s message on the trades', async () => {
     const sent = fakeApi([refused({ trades: 'Choose at least one trade.' })]);
-    renderWith(<CompaniesScreen jobId={JOB} />);
+    renderWithQueries(<CompaniesScreen jobId={JOB} />);
     fireEvent.press(await screen.findByTestId('company-add'));
     fireEvent.press(screen.getByTestId('company-submit'));
     expect(within(await screen.findByTestId('company-name-input-error')).getByText('Enter a company name, or choose one you already work with.')).toBeTruthy();
@@ -98,7 +64,7 @@ describe('a system’s concentration limit', () => {
 
   it('sends no override while value and source are empty', async () => {
     const sent = fakeApi([{ status: 201, body: {} }]);
-    renderWith(<SystemsScreen jobId={JOB} />);
+    renderWithQueries(<SystemsScreen jobId={JOB} />);
     await openForm();
     fireEvent.press(screen.getByTestId('system-submit'));
     await waitFor(() => expect(sent).toHaveLength(1));
@@ -107,7 +73,7 @@ describe('a system’s concentration limit', () => {
 
   it('checks a typed limit against the shared schema and sends it as a number', async () => {
     const sent = fakeApi([refused({ 'concentrationLimitOverride.source': 'The limit’s source is at most 300 characters.' })]);
-    renderWith(<SystemsScreen jobId={JOB} />);
+    renderWithQueries(<SystemsScreen jobId={JOB} />);
     await openForm();
     fireEvent.changeText(screen.getByTestId('system-limit-source'), 'ASHRAE 15-2019 Table 7-1');
     fireEvent.press(screen.getByTestId('system-submit'));
@@ -124,7 +90,7 @@ describe('a system’s concentration limit', () => {
 describe('a unit model’s limits', () => {
   it('asks for the source of a typed limit, then sends only the limits typed', async () => {
     const sent = fakeApi([{ status: 201, body: {} }]);
-    renderWith(<ModelsScreen jobId={JOB} />);
+    renderWithQueries(<ModelsScreen jobId={JOB} />);
     fireEvent.press(await screen.findByTestId('model-add'));
     fireEvent.changeText(screen.getByTestId('model-name-input'), 'Cassette 24');
     fireEvent.changeText(screen.getByTestId('model-limit-max_pump_lift-value'), '27-9/16 in');
@@ -144,7 +110,7 @@ describe('a unit model’s limits', () => {
 describe('a defect type’s measured rule', () => {
   it('puts the rule’s messages under its fields, then sends the rule with its limits', async () => {
     const sent = fakeApi([{ status: 201, body: {} }]);
-    renderWith(<CatalogueScreen jobId={JOB} />);
+    renderWithQueries(<CatalogueScreen jobId={JOB} />);
     fireEvent.press(await screen.findByTestId('catalogue-add'));
     fireEvent.changeText(screen.getByTestId('catalogue-code-input'), 'dr-90');
     fireEvent.changeText(screen.getByTestId('catalogue-title-input'), 'Pump lift too high');
