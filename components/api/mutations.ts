@@ -17,7 +17,8 @@ export interface Write {
   ifMatch?: string;
 }
 
-function randomKey(): string {
+/** A random UUID v4: Idempotency-Keys, and ids made on the phone (a finding logged offline, an outbox entry). */
+export function newClientId(): string {
   const c = globalThis.crypto as Crypto | undefined;
   if (c?.randomUUID) return c.randomUUID();
   // Fallback for old engines: 122 random bits from getRandomValues, formatted as a UUID v4.
@@ -30,7 +31,7 @@ function randomKey(): string {
 }
 
 export function newWrite(write: Omit<Write, 'idempotencyKey'>): Write {
-  return { ...write, idempotencyKey: write.method === 'POST' ? randomKey() : undefined };
+  return { ...write, idempotencyKey: write.method === 'POST' ? newClientId() : undefined };
 }
 
 /**

@@ -1,0 +1,54 @@
+/**
+ * Runs the signed-in person's outbox while the signed-in screens are open: loads what is kept,
+ * sends it on start, on the 'online' event and every minute while writes wait, and refreshes the
+ * screens a sent write changes (the same keys the write's hook refreshes online).
+ */
+import { useQueryClient } from '@tanstack/react-query';
+import { useEffect, type ReactNode } from 'react';
+import type { SessionResponse } from '../../shared/schemas/session';
+import { apiGet, requestWithMeta, setCsrfToken } from '../api/client';
+import { sendWrite } from '../api/mutations';
+import { correctionKeys } from '../queries/correction';
+import { refreshWalkData } from '../queries/walks';
+import { Outbox } from './engine';
+import { setCurrentOutbox } from './index';
+import { defaultOutboxStorage } from './storage';
+
+const MINUTE = 60_000;
+
+export function OutboxProvider({ userId, children }: { userId: string; children: ReactNode }) {
+  const queryClient = useQueryClient();
+  useEffect(() => {
+    const outbox = new Outbox(userId, {
+      storage: defaultOutboxStorage(),
+      send: (write) => sendWrite(write),
+      read: (path) => requestWithMeta<unknown>('GET', path),
+      signedInUser: async () => {
+        const session = await apiGet<SessionResponse>('/api/session');
+        setCsrfToken(session.csrfToken);
+        return session.user?.id ?? null;
+      },
+      onSent: (item) => {
+        void refreshWalkData(queryClient, item.jobId);
+        void queryClient.invalidateQueries({ queryKey: correctionKeys.inboxAll });
+      },
+      setTimer: (fn, ms) => setTimeout(fn, ms),
+      clearTimer: (h) => clearTimeout(h as ReturnType<typeof setTimeout>),
+    });
+    setCurrentOutbox(outbox);
+    void outbox.load().then(() => outbox.sync(true));
+    const online = () => void outbox.sync(true);
+    const target = globalThis as { addEventListener?: (t: string, f: () => void) => void; removeEventListener?: (t: string, f: () => void) => void };
+    target.addEventListener?.('online', online);
+    const minute = setInterval(() => {
+      if (outbox.snapshot().items.some((i) => i.state === 'waiting')) void outbox.sync(false);
+    }, MINUTE);
+    return () => {
+      clearInterval(minute);
+      target.removeEventListener?.('online', online);
+      outbox.stop();
+      setCurrentOutbox(null);
+    };
+  }, [userId, queryClient]);
+  return <>{children}</>;
+}
