@@ -28,3 +28,6 @@ export const pageQuery = {
   /** Opaque; the server checks it whole (length, signature, types) and answers 400 invalid_cursor. */
   cursor: z.string().optional(),
 };
+
+/** A point on a level's plan: a fraction of the plan image's width or height, 0..1. */
+export const planFraction = () => z.number({ error: 'A number from 0 to 1.' }).min(0, 'From 0 to 1.').max(1, 'From 0 to 1.');

@@ -3,6 +3,7 @@
  * shared/schemas/findings.ts: only the schemas built from them are.
  */
 import { z } from 'zod';
+import { planFraction } from '../fields';
 import { NOTE_MAX, MEASURED_TEXT_MAX, REASON_MAX } from './common';
 
 export { booleanQuery, dateOnly, id, pageQuery } from '../fields';
@@ -38,11 +39,7 @@ export const note = z
   .max(NOTE_MAX, `The note is at most ${NOTE_MAX} characters.`);
 
 /** A plan pin: a fraction of the plan image's width / height, 0..1. */
-export const pin = () =>
-  z
-    .number({ error: 'A number from 0 to 1.' })
-    .min(0, 'From 0 to 1.')
-    .max(1, 'From 0 to 1.');
+export const pin = planFraction;
 
 export const reason = (what = 'a reason') =>
   z

@@ -4,7 +4,7 @@
  */
 import { z } from 'zod';
 
-export { booleanQuery, dateOnly, id, pageQuery } from '../fields';
+export { booleanQuery, dateOnly, id, pageQuery, planFraction } from '../fields';
 
 export const text = (label: string, max: number) =>
   z

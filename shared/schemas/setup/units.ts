@@ -4,7 +4,7 @@
 import { z } from 'zod';
 import { UNIT_KIND_KEYS, type UnitKindKey } from '../../words';
 import { IMPORT_MAX_BYTES, quantityText } from './common';
-import { id, text, pageQuery, booleanQuery } from './fields';
+import { id, text, pageQuery, booleanQuery, planFraction } from './fields';
 
 export const TAG_PATTERN = /^[A-Za-z0-9][A-Za-z0-9 ._/#-]*$/;
 const tagSchema = text('a tag', 40).regex(TAG_PATTERN, 'A tag uses letters, digits, spaces and . _ / # - (e.g. IU-L3-07).');
@@ -21,17 +21,15 @@ const unitFields = {
 };
 export const createUnitSchema = z.object(unitFields).strict();
 export type CreateUnitInput = z.input<typeof createUnitSchema>;
-/** A unit's pin on its level's plan: a fraction of the plan image's width / height, 0..1 (null clears it). */
-const unitPin = (axis: 'pinX' | 'pinY') =>
-  z.number({ error: `${axis}: a number from 0 to 1.` }).min(0, `${axis}: from 0 to 1.`).max(1, `${axis}: from 0 to 1.`);
 export const updateUnitSchema = z
   .object({
     ...unitFields,
     tag: unitFields.tag.optional(),
     kind: unitFields.kind.optional(),
     levelId: unitFields.levelId.optional(),
-    pinX: unitPin('pinX').nullable().optional(),
-    pinY: unitPin('pinY').nullable().optional(),
+    // A unit's pin on its level's plan (null clears it).
+    pinX: planFraction().nullable().optional(),
+    pinY: planFraction().nullable().optional(),
   })
   .strict()
   .refine((u) => (u.pinX === undefined) === (u.pinY === undefined) && (u.pinX === null) === (u.pinY === null), {
