@@ -5,7 +5,7 @@ import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { LimitResolver } from '../../shared/calc/rules';
 import { CATALOGUE_GROUPS } from '../../shared/catalogue/types';
-import { createFindingSchema, type CreateFindingInput, type CreateFindingParsed, type FindingDetail } from '../../shared/schemas/findings';
+import { createFindingSchema, type CreateFindingInput, type CreateFindingParsed } from '../../shared/schemas/findings';
 import type { CatalogueItemDto, JobDetail } from '../../shared/schemas/setup';
 import { SEVERITY_LABELS, TRADES, type Severity, type UnitKindKey } from '../../shared/words';
 import { ApiError } from '../api/client';
@@ -14,7 +14,7 @@ import { applyApiError } from '../auth/formErrors';
 import { useFindingDraft, useKeepFindingDraft } from '../drafts/findingDraft';
 import { useCatalogueQuery } from '../queries/catalogue';
 import { useJobCompaniesQuery } from '../queries/companies';
-import { createFindingWrite, useCreateFindingMutation } from '../queries/findings';
+import { createFindingWrite, useCreateFindingMutation, type LoggedFinding } from '../queries/findings';
 import { space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
@@ -50,7 +50,8 @@ export interface FindingFormProps {
   unitCheckId?: string | null;
   /** Limits of the unit (its model, the job, the codes) for a measured defect type. */
   resolve?: LimitResolver;
-  onLogged: (finding: FindingDetail) => void;
+  /** The finding as the server holds it, or (no signal) the one kept on the phone, waiting to send. */
+  onLogged: (finding: LoggedFinding) => void;
   onCancel?: () => void;
   /** Keeps the half-filled form on the phone under this key (components/drafts), restored when it opens again. */
   draftKey?: string;

@@ -2,6 +2,7 @@ import { Link, useRouter } from 'expo-router';
 import { useMemo } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { ApiError } from '../api/client';
+import { isQueued } from '../outbox';
 import { useCatalogueQuery } from '../queries/catalogue';
 import { useUnitModelQuery, useUnitRecordQuery } from '../queries/checks';
 import { useJobQuery } from '../queries/jobs';
@@ -86,7 +87,7 @@ export function NewFindingScreen({ jobId, params }: { jobId: string; params: New
           measuredText={params.measuredText}
           walkId={params.walkId ?? null}
           resolve={resolve}
-          onLogged={(f) => router.replace(links.finding(jobId, f.id))}
+          onLogged={(f) => router.replace(isQueued(f) ? links.sync() : links.finding(jobId, f.id))}
           onCancel={() => router.replace(back)}
         />
       )}

@@ -1,9 +1,11 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { RecordCheckInput, UnitCheckDto, UnitChecksResponse, WalkDetail, WalkDto } from '../../shared/schemas/findings';
 import type { ListResponse, UnitDto, UnitModelDto } from '../../shared/schemas/setup';
-import { apiGet } from '../api/client';
+import { ApiError, apiGet } from '../api/client';
 import { jobPath, queryString } from '../api/lists';
 import { newWrite, sendWrite, type Write } from '../api/mutations';
+import { labelWrite, submitWrite } from '../outbox';
+import { rememberedOpenWalk, rememberOpenWalk } from '../outbox/walks';
 import { setupKeys } from './setupKeys';
 import { refreshWalkData, walkKeys } from './walks';
 
@@ -42,8 +44,9 @@ export function useUnitModelQuery(jobId: string, modelId: string | null | undefi
 }
 
 /** The write that records a unit check; made once per press of "Save" so a retry reuses its key. */
-export function recordCheckWrite(jobId: string, unitId: string, input: RecordCheckInput): Write {
-  return newWrite({ method: 'POST', path: jobPath(jobId, 'units', unitId, 'checks'), body: input });
+export function recordCheckWrite(jobId: string, unitId: string, input: RecordCheckInput, unitTag?: string): Write {
+  const write = newWrite({ method: 'POST', path: jobPath(jobId, 'units', unitId, 'checks'), body: input });
+  return unitTag ? labelWrite(write, `unit ${unitTag}`) : write;
 }
 
 /**
@@ -51,6 +54,19 @@ export function recordCheckWrite(jobId: string, unitId: string, input: RecordChe
  * a walk (one inspector's pass over a level) without an extra tap.
  */
 export async function ensureWalk(jobId: string, levelId: string, inspectorId: string): Promise<string> {
+  try {
+    const id = await openOrStartWalk(jobId, levelId, inspectorId);
+    rememberOpenWalk(inspectorId, jobId, levelId, id);
+    return id;
+  } catch (err) {
+    // No signal: the walk this phone last knew open on the level (the check waits to send with it).
+    const kept = err instanceof ApiError && err.status === 0 ? rememberedOpenWalk(inspectorId, jobId, levelId) : null;
+    if (kept) return kept;
+    throw err;
+  }
+}
+
+async function openOrStartWalk(jobId: string, levelId: string, inspectorId: string): Promise<string> {
   const open = await apiGet<ListResponse<WalkDto>>(`${jobPath(jobId, 'walks')}${queryString({ levelId, inspectorId, open: 'true', limit: 1 })}`);
   const walk = open.items[0];
   if (walk) return walk.id;
@@ -58,11 +74,15 @@ export async function ensureWalk(jobId: string, levelId: string, inspectorId: st
   return started.id;
 }
 
-/** POST /units/:unitId/checks; refreshes the walk screens (states, coverage) when it settles. */
+/**
+ * POST /units/:unitId/checks, kept in the outbox first (no signal: it waits to send, see
+ * components/outbox); refreshes the walk screens (states, coverage) when it settles.
+ */
 export function useRecordCheckMutation(jobId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (write: Write) => sendWrite<UnitCheckDto>(write),
+    networkMode: 'always',
+    mutationFn: (write: Write) => submitWrite<UnitCheckDto>(write),
     onSettled: () => refreshWalkData(queryClient, jobId),
   });
 }

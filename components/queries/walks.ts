@@ -4,6 +4,7 @@ import type { ListResponse } from '../../shared/schemas/setup';
 import { apiGet } from '../api/client';
 import { jobPath, queryString } from '../api/lists';
 import { newWrite, sendWrite } from '../api/mutations';
+import { rememberOpenWalk } from '../outbox/walks';
 
 /** The level's units as filtered on the walk screen (no paging fields). */
 export type WalkUnitFilters = Omit<WalkUnitsQuery, 'limit' | 'cursor'>;
@@ -45,7 +46,10 @@ export function useOpenWalkQuery(jobId: string, levelId: string, inspectorId: st
       const res = await apiGet<ListResponse<WalkDto>>(
         `${jobPath(jobId, 'walks')}${queryString({ levelId, inspectorId, open: 'true', limit: 1 })}`,
       );
-      return res.items[0] ?? null;
+      const walk = res.items[0] ?? null;
+      // Remembered on the phone: a check saved later with no signal still belongs to this walk.
+      if (walk && inspectorId) rememberOpenWalk(inspectorId, jobId, levelId, walk.id);
+      return walk;
     },
     enabled: Boolean(jobId && levelId && inspectorId),
   });

@@ -79,33 +79,33 @@ export const reassignStep: ChangeStep<ReassignInput, { company: CompanyRef; reas
     notifyCriticalAssignment(ctx, { jobId: finding.jobId, findingId: finding.id, companyId: finding.companyId, severity: finding.severity, how: 'reassigned' }),
 };
 
-type SeverityInput = NonNullable<FindingChange['severity']>;
+/**
+ * A change that sets one field of the finding to `to` (severity, due date), with an event that
+ * holds the value before and after, and the reason given.
+ */
+function settingStep<K extends 'severity' | 'dueOn'>(
+  key: K,
+  action: FindingAction,
+  eventType: 'severity_changed' | 'due_changed',
+  already: (finding: Finding) => string,
+  alreadyShort: string,
+): ChangeStep<NonNullable<FindingChange[K]>, NonNullable<FindingChange[K]>> {
+  return {
+    decide: byAction(action),
+    prepare: async (_ctx, input) => input,
+    async apply(ctx, finding, input) {
+      if (input.to === finding[key]) return false;
+      await event(ctx, finding, eventType, { [key]: finding[key] }, { [key]: input.to }, input.reason);
+      finding.set(key, input.to as Finding[K]);
+      return true;
+    },
+    unchanged: (finding, field) => fieldError(`${field}.to`, already(finding), alreadyShort),
+  };
+}
 
-export const severityStep: ChangeStep<SeverityInput, SeverityInput> = {
-  decide: byAction('change_severity'),
-  prepare: async (_ctx, input) => input,
-  async apply(ctx, finding, input) {
-    if (input.to === finding.severity) return false;
-    await event(ctx, finding, 'severity_changed', { severity: finding.severity }, { severity: input.to }, input.reason);
-    finding.severity = input.to;
-    return true;
-  },
-  unchanged: (finding, field) => fieldError(`${field}.to`, `The severity is already ${finding.severity}.`, 'That is the severity already.'),
-};
+export const severityStep = settingStep('severity', 'change_severity', 'severity_changed', (f) => `The severity is already ${f.severity}.`, 'That is the severity already.');
 
-type DueInput = NonNullable<FindingChange['dueOn']>;
-
-export const dueOnStep: ChangeStep<DueInput, DueInput> = {
-  decide: byAction('change_due'),
-  prepare: async (_ctx, input) => input,
-  async apply(ctx, finding, input) {
-    if (input.to === finding.dueOn) return false;
-    await event(ctx, finding, 'due_changed', { dueOn: finding.dueOn }, { dueOn: input.to }, input.reason);
-    finding.dueOn = input.to;
-    return true;
-  },
-  unchanged: (finding, field) => fieldError(`${field}.to`, `The finding is already due on ${finding.dueOn}.`, 'That is the due date already.'),
-};
+export const dueOnStep = settingStep('dueOn', 'change_due', 'due_changed', (f) => `The finding is already due on ${f.dueOn}.`, 'That is the due date already.');
 
 type VoidInput = NonNullable<FindingChange['void']>;
 
