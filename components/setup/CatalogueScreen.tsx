@@ -31,6 +31,20 @@ import { ruleWords } from './ruleWords';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 import { KIND_LABEL } from './UnitsScreen';
 
+const YES_NO = [
+  { value: 'yes', label: 'Yes' },
+  { value: 'no', label: 'No' },
+] as const;
+const NO_YES = [YES_NO[1], YES_NO[0]] as const;
+const RULE_OR_NONE = [
+  { value: 'no', label: 'None' },
+  { value: 'yes', label: 'Measure a value' },
+] as const;
+const SHOWN_TYPES = [
+  { value: 'active', label: 'Types in use' },
+  { value: 'all', label: 'Also retired types' },
+] as const;
+
 export function CatalogueScreen({ jobId }: { jobId: string }) {
   return (
     <SetupFrame
@@ -72,10 +86,7 @@ function CatalogueBody({ job }: { job: JobDetail }) {
             label="Show"
             testID="catalogue-retired"
             value={includeRetired ? 'all' : 'active'}
-            options={[
-              { value: 'active', label: 'Types in use' },
-              { value: 'all', label: 'Also retired types' },
-            ]}
+            options={SHOWN_TYPES}
             onChange={(v) => setIncludeRetired(v === 'all')}
           />
         </View>
@@ -403,20 +414,14 @@ function CatalogueForm({ job, existing, onDone }: { job: JobDetail; existing?: C
         name="needsCeilingAccess"
         label="The fix needs access above the ceiling"
         testID="catalogue-ceiling-access"
-        options={[
-          { value: 'no', label: 'No' },
-          { value: 'yes', label: 'Yes' },
-        ]}
+        options={NO_YES}
       />
       <FormSegmented
         control={control}
         name="hasRule"
         label="Measured rule"
         testID="catalogue-has-rule"
-        options={[
-          { value: 'no', label: 'None' },
-          { value: 'yes', label: 'Measure a value' },
-        ]}
+        options={RULE_OR_NONE}
       />
       {hasRule === 'yes' ? (
         <View style={styles.rule}>
@@ -442,10 +447,7 @@ function CatalogueForm({ job, existing, onDone }: { job: JobDetail; existing?: C
               name="measuredRule.expected"
               label="The answer that passes"
               testID="catalogue-expected-input"
-              options={[
-                { value: 'yes', label: 'Yes' },
-                { value: 'no', label: 'No' },
-              ]}
+              options={YES_NO}
             />
           ) : (
             <FormSelect
