@@ -88,3 +88,17 @@ export function decidePin(status: FindingStatus, role: Role): Decision {
   if (status === 'voided') return { allowed: false, code: 409, message: 'This finding is voided; it cannot be placed on the plan.' };
   return { allowed: true, to: status };
 }
+
+/** Who may add photos of the defect to a finding after logging it: those who may log one. */
+export const ADD_PHOTO_ROLES: readonly Role[] = ['gc_manager', 'inspector'];
+
+/**
+ * Adding photos of the defect: only while the finding is open (a returned finding is open again);
+ * once a fix is submitted the photos to judge are the fix's, and a closed or voided finding is
+ * evidence that no longer changes. The status stays as it is.
+ */
+export function decideAddPhotos(status: FindingStatus, role: Role): Decision {
+  if (!ADD_PHOTO_ROLES.includes(role)) return { allowed: false, code: 403, message: 'Only the GC manager and inspectors add photos to a finding.' };
+  if (status !== 'open') return { allowed: false, code: 409, message: `This finding is ${STATUS_WORDS[status]}; photos can be added only while it is open.` };
+  return { allowed: true, to: status };
+}

@@ -4,7 +4,11 @@ import { unsupportedMediaType } from '../errors';
 /** Routes (paths relative to /api) that also take a CSV file as text/csv. */
 export const TEXT_CSV_PATHS: readonly RegExp[] = [/^\/jobs\/[^/]+\/units\/import$/];
 /** Routes (paths relative to /api) that also take photos as multipart/form-data (server/middleware/upload.ts reads them). */
-export const MULTIPART_PATHS: readonly RegExp[] = [/^\/jobs\/[^/]+\/findings$/, /^\/jobs\/[^/]+\/findings\/[^/]+\/fixes$/, /^\/jobs\/[^/]+\/levels\/[^/]+\/plan$/];
+export const MULTIPART_PATHS: readonly RegExp[] = [
+  /^\/jobs\/[^/]+\/findings$/,
+  /^\/jobs\/[^/]+\/findings\/[^/]+\/(fixes|photos|reinspections)$/,
+  /^\/jobs\/[^/]+\/levels\/[^/]+\/plan$/,
+];
 
 /** A request with a body on a JSON route must say application/json (else 415). */
 export const requireJsonBody: RequestHandler = (req, _res, next) => {

@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import type { RuleResult } from '../../shared/calc/rules';
 import type { Finding } from './Finding';
 import type { Job } from './Job';
 import type { User } from './User';
@@ -11,6 +12,10 @@ export class Fix extends Model<InferAttributes<Fix>, InferCreationAttributes<Fix
   declare submittedBy: ForeignKey<User['id']>;
   declare note: string;
   declare submittedAt: Date;
+  /** The new measurement of a measured defect (null when the defect takes none). */
+  declare measuredText: CreationOptional<string | null>;
+  declare measuredValue: CreationOptional<number | null>;
+  declare ruleResult: CreationOptional<RuleResult | null>;
 
   static initModel(sequelize: Sequelize) {
     Fix.init(
@@ -21,6 +26,9 @@ export class Fix extends Model<InferAttributes<Fix>, InferCreationAttributes<Fix
         submittedBy: { type: DataTypes.UUID, allowNull: false },
         note: { type: DataTypes.TEXT, allowNull: false },
         submittedAt: { type: DataTypes.DATE, allowNull: false },
+        measuredText: { type: DataTypes.STRING(60), allowNull: true },
+        measuredValue: { type: DataTypes.DOUBLE, allowNull: true },
+        ruleResult: { type: DataTypes.JSONB, allowNull: true },
       },
       { sequelize, tableName: 'fixes', timestamps: false },
     );

@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import type { PhotoStage } from '../../shared/schemas/findings';
 import type { PhotoType } from '../services/photos';
 import type { Job } from './Job';
 import type { User } from './User';
@@ -23,6 +24,8 @@ export class Photo extends Model<InferAttributes<Photo>, InferCreationAttributes
   declare uploadedBy: ForeignKey<User['id']>;
   declare findingId: CreationOptional<string | null>;
   declare fixId: CreationOptional<string | null>;
+  /** What the photo shows: the defect, the fixed work, or the inspector's re-inspection (shared PhotoStage). */
+  declare stage: CreationOptional<PhotoStage>;
   declare createdAt: CreationOptional<Date>;
 
   static initModel(sequelize: Sequelize) {
@@ -41,6 +44,7 @@ export class Photo extends Model<InferAttributes<Photo>, InferCreationAttributes
         uploadedBy: { type: DataTypes.UUID, allowNull: false },
         findingId: { type: DataTypes.UUID, allowNull: true },
         fixId: { type: DataTypes.UUID, allowNull: true },
+        stage: { type: DataTypes.STRING(20), allowNull: false, defaultValue: 'finding' },
         createdAt: DataTypes.DATE,
       },
       { sequelize, tableName: 'photos', updatedAt: false },

@@ -98,6 +98,7 @@ export function presentFindingDetail(jobId: string, row: FindingRow, photos: Pho
       needsCeilingAccess: row.needs_ceiling_access,
       quantity: row.measured_rule?.quantity ?? null,
       measure: row.measured_rule?.measure ?? null,
+      rule: row.measured_rule ?? null,
     },
   };
 }

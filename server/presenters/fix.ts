@@ -1,4 +1,5 @@
 /** Fix rows with their photos → FixDto. */
+import type { RuleResult } from '../../shared/calc/rules';
 import type { FixDto, PhotoDto } from '../../shared/schemas/findings';
 
 export interface FixRow {
@@ -8,6 +9,8 @@ export interface FixRow {
   submitted_by: string;
   submitter_name: string;
   submitted_at: Date;
+  measured_text: string | null;
+  rule_result: RuleResult | null;
 }
 
 export function presentFix(r: FixRow, photos: PhotoDto[]): FixDto {
@@ -17,6 +20,8 @@ export function presentFix(r: FixRow, photos: PhotoDto[]): FixDto {
     note: r.note,
     submittedBy: { id: r.submitted_by, name: r.submitter_name },
     submittedAt: new Date(r.submitted_at).toISOString(),
+    measuredText: r.measured_text,
+    ruleResult: r.rule_result,
     photos,
   };
 }

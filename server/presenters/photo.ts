@@ -1,5 +1,5 @@
 /** Photo rows → PhotoDto. Photos are served only through the job's authorised photo routes. */
-import type { PhotoDto } from '../../shared/schemas/findings';
+import type { PhotoDto, PhotoStage } from '../../shared/schemas/findings';
 
 /** A photo as the finding queries read it (photos joined to the uploader's name). */
 export interface PhotoRow {
@@ -9,6 +9,7 @@ export interface PhotoRow {
   height: number | null;
   byte_size: number | null;
   fix_id: string | null;
+  stage: PhotoStage;
   uploaded_by: string | null;
   uploader_name: string | null;
   created_at: Date;
@@ -28,6 +29,7 @@ export function presentPhoto(jobId: string, p: PhotoRow): PhotoDto {
     height: p.height,
     bytes: p.byte_size,
     fixId: p.fix_id,
+    stage: p.stage,
     uploadedBy: p.uploaded_by ? { id: p.uploaded_by, name: p.uploader_name ?? '' } : null,
     createdAt: new Date(p.created_at).toISOString(),
   };

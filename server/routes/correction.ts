@@ -1,8 +1,10 @@
 /**
  * The correction loop: fixes, re-inspections, changes, comments, bulk, inbox, queue. Paths under /api/jobs/:jobId/findings/:findingId unless said.
- * POST  /fixes              subcontractor (their company's finding), GC manager; multipart: `data` {note} + 1–10
+ * POST  /fixes              subcontractor (their company's finding), GC manager; multipart: `data` {note, measuredText?} + 1–10
  *                           `photos`; Idempotency-Key → 201 FixDetail (finding ETag)
- * POST  /reinspections      inspector, GC manager; {verdict, reason}; If-Match; Idempotency-Key → 200 FindingDetail
+ * POST  /reinspections      inspector, GC manager; {verdict, reason, measuredText?} as JSON, or multipart with it in
+ *                           `data` and up to 10 `photos` (the inspector's own); If-Match; Idempotency-Key → 200
+ *                           FindingDetail; accepting while the new measurement fails the rule → 409 measurement_fails
  * PATCH (the finding)       one change (reassign | severity | dueOn | void | reopen | close | pin); If-Match → 200 FindingDetail
  *                           (a voided finding takes no pin: 409)
  * GET   /events             everyone who sees the finding → { items: FindingEventDto[] }
@@ -36,8 +38,8 @@ import { bulkChangeFindings } from '../commands/bulkChangeFindings';
 import { changeFinding } from '../commands/changeFinding';
 import { commentOnFinding } from '../commands/commentOnFinding';
 import { contextOf } from '../commands/context';
-import { reinspectFinding } from '../commands/reinspectFinding';
-import { checkFixTarget, submitFix } from '../commands/submitFix';
+import { checkReinspectTarget, reinspectFinding } from '../commands/reinspectFinding';
+import { checkFixMeasurement, checkFixTarget, submitFix } from '../commands/submitFix';
 import { badRequest, forbidden, notFound } from '../errors';
 import { createUploadGuard, photosWithJsonData, uploadedFiles, type UploadGuard } from '../middleware/upload';
 import { valid, validate } from '../middleware/validate';
@@ -86,6 +88,13 @@ async function fixTarget(req: Request, _res: Response, next: NextFunction) {
   next();
 }
 
+/** A re-inspection with photos is an upload: refused (404/403/409) before its body is read. A JSON one goes on. */
+async function reinspectTarget(req: Request, _res: Response, next: NextFunction) {
+  if (!req.is('multipart/form-data') || (await alreadyAnswered(req))) return next();
+  await checkReinspectTarget(contextOf(req), valid<FindingParams>(req.valid.params).findingId);
+  next();
+}
+
 function requirePhotos(req: Request, _res: Response, next: NextFunction) {
   if (uploadedFiles(req).length === 0) return next(badRequest('photos: Add at least one photo of the fix.', { photos: 'Add at least one photo of the fix.' }));
   next();
@@ -113,10 +122,12 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
       const body = valid<SubmitFixBody>(req.valid.body);
       if (await replayIfAnswered(req, res)) return;
       const ctx = contextOf(req);
-      // Visible (404), role (403) and status (409) were checked before the body was read (fixTarget).
+      // Visible (404), role (403) and status (409) were checked before the body was read (fixTarget);
+      // the new measurement (400) before any photo is read or stored.
+      const measured = await checkFixMeasurement(ctx, findingId, body);
       const processed = await processPhotos(uploadedFiles(req), { charge: (pixels) => uploads.chargePixels(ctx.actor.id, pixels) });
       await idempotentPhotoWrite(req, res, { store, processed, log, what: 'of a replayed fix' }, async (transaction, photos) => {
-        const result = await submitFix({ ...ctx, transaction }, findingId, body, photos);
+        const result = await submitFix({ ...ctx, transaction }, findingId, body, photos, measured);
         setEtag(res, result.finding.version);
         return { status: 201, body: result };
       });
@@ -124,15 +135,36 @@ export function correctionRouter(options: CorrectionRouterOptions): Router {
   );
 
   // ---- Re-inspection -----------------------------------------------------------------------
-  router.post(`${base}/reinspections`, policy.jobMember(REINSPECT_ROLES), validate({ params: findingParamsSchema, body: reinspectionSchema }), async (req, res) => {
-    const { findingId } = valid<FindingParams>(req.valid.params);
-    const body = valid<ReinspectionBody>(req.valid.body);
-    await idempotentWrite(req, res, async (transaction) => {
-      const detail = await reinspectFinding({ ...contextOf(req), transaction }, findingId, body, { ifMatch: req.get('if-match') });
-      setEtag(res, detail.version);
-      return { status: 200, body: detail };
-    });
-  });
+  router.post(
+    `${base}/reinspections`,
+    policy.jobMember(REINSPECT_ROLES),
+    validate({ params: findingParamsSchema }),
+    uploads.rate,
+    reinspectTarget,
+    photosWithJsonData('re-inspection', 'next', { tempRoot: uploads.tempRoot }),
+    validate({ body: reinspectionSchema }),
+    async (req, res) => {
+      const { findingId } = valid<FindingParams>(req.valid.params);
+      const body = valid<ReinspectionBody>(req.valid.body);
+      const files = uploadedFiles(req);
+      if (files.length === 0) {
+        await idempotentWrite(req, res, async (transaction) => {
+          const detail = await reinspectFinding({ ...contextOf(req), transaction }, findingId, body, { ifMatch: req.get('if-match') });
+          setEtag(res, detail.version);
+          return { status: 200, body: detail };
+        });
+        return;
+      }
+      if (await replayIfAnswered(req, res)) return;
+      const ctx = contextOf(req);
+      const processed = await processPhotos(files, { charge: (pixels) => uploads.chargePixels(ctx.actor.id, pixels) });
+      await idempotentPhotoWrite(req, res, { store, processed, log, what: 'of a replayed re-inspection' }, async (transaction, photos) => {
+        const detail = await reinspectFinding({ ...ctx, transaction }, findingId, body, { ifMatch: req.get('if-match') }, photos);
+        setEtag(res, detail.version);
+        return { status: 200, body: detail };
+      });
+    },
+  );
 
   // ---- One change to the finding -------------------------------------------------------------
   router.patch(base, policy.jobMember(), validate({ params: findingParamsSchema, body: findingChangeSchema }), async (req, res) => {

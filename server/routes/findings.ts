@@ -5,6 +5,9 @@
  *                                              a `data` field (the JSON) and up to 10 `photos` → 201 FindingDetail;
  *                                              an optional phone-made `id` (same id again → 200 that finding)
  * GET  /jobs/:jobId/findings/:findingId        every role (subcontractor: own company, else 404); ETag
+ * POST /jobs/:jobId/findings/:findingId/photos inspector, GC manager, while the finding is open (409 otherwise);
+ *                                              multipart: `data` {note?} + 1–10 `photos`, at most 10 photos of the
+ *                                              defect per finding (409 photo_limit); Idempotency-Key → 201 FindingDetail
  * GET  /jobs/:jobId/photos/:photoId            as the finding it belongs to
  * GET  /jobs/:jobId/photos/:photoId/thumb      as the finding it belongs to
  *
@@ -16,24 +19,26 @@
  * Uploads: the policy and the per-user upload rate run before the body is read; the photos go
  * to temporary files, never memory (server/middleware/upload.ts).
  */
-import type { RequestHandler } from 'express';
+import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import { Router } from 'express';
 import type { z } from 'zod';
 import {
+  addFindingPhotosSchema,
   createFindingSchema,
   findingListQuerySchema,
   findingParamsSchema,
   FINDINGS_LIST_LIMIT_DEFAULT,
   photoParamsSchema,
 } from '../../shared/schemas/findings';
+import { addFindingPhotos, checkAddPhotosTarget } from '../commands/addFindingPhotos';
 import { checkNewFinding, findingAlreadyLogged, logFinding } from '../commands/logFinding';
 import { contextOf } from '../commands/context';
-import { notFound } from '../errors';
+import { badRequest, notFound } from '../errors';
 import { createUploadGuard, photosWithJsonData, uploadedFiles, type UploadGuard } from '../middleware/upload';
 import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
 import { findingDetail, findingFiltersOf, findingListOrder, listFindings, visiblePhoto } from '../services/findingQueries';
-import { idempotentPhotoWrite, replayIfAnswered } from '../services/idempotency';
+import { alreadyAnswered, idempotentPhotoWrite, replayIfAnswered } from '../services/idempotency';
 import { pageRequest } from '../services/paging';
 import { processPhotos, sendPhoto } from '../services/photos';
 import { sequelizeOf } from '../services/records';
@@ -46,6 +51,20 @@ type FindingListQuery = z.infer<typeof findingListQuerySchema>;
 type CreateFindingBody = z.infer<typeof createFindingSchema>;
 type FindingParams = z.infer<typeof findingParamsSchema>;
 type PhotoParams = z.infer<typeof photoParamsSchema>;
+type AddFindingPhotosBody = z.infer<typeof addFindingPhotosSchema>;
+
+const NEEDS_PHOTOS = 'Add at least one photo.';
+
+/**
+ * Before the body is read: the finding is one the caller sees (404), their role adds photos (403),
+ * it is open (409) and has room for another photo (409). A retry of an answered request goes on to
+ * its replay.
+ */
+async function addPhotosTarget(req: Request, _res: Response, next: NextFunction) {
+  if (await alreadyAnswered(req)) return next();
+  await checkAddPhotosTarget(contextOf(req), valid<FindingParams>(req.valid.params).findingId);
+  next();
+}
 
 export interface FindingsRouterOptions {
   /** Photo storage (server/storage). */
@@ -100,6 +119,32 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
     setEtag(res, detail.version);
     res.json(detail);
   });
+
+  router.post(
+    '/jobs/:jobId/findings/:findingId/photos',
+    policy.jobMember(WRITE_ROLES),
+    validate({ params: findingParamsSchema }),
+    uploads.rate,
+    addPhotosTarget,
+    photosWithJsonData('finding\'s photos', () => badRequest(`photos: ${NEEDS_PHOTOS} Send multipart/form-data with "data" and "photos".`, { photos: NEEDS_PHOTOS }), {
+      tempRoot: uploads.tempRoot,
+    }),
+    validate({ body: addFindingPhotosSchema }),
+    async (req, res) => {
+      const { findingId } = valid<FindingParams>(req.valid.params);
+      const body = valid<AddFindingPhotosBody>(req.valid.body);
+      if (await replayIfAnswered(req, res)) return;
+      const files = uploadedFiles(req);
+      if (files.length === 0) throw badRequest(`photos: ${NEEDS_PHOTOS}`, { photos: NEEDS_PHOTOS });
+      const ctx = contextOf(req);
+      const processed = await processPhotos(files, { charge: (pixels) => uploads.chargePixels(ctx.actor.id, pixels) });
+      await idempotentPhotoWrite(req, res, { store, processed, log, what: 'of a replayed photo upload' }, async (transaction, photos) => {
+        const detail = await addFindingPhotos({ ...ctx, transaction }, findingId, body, photos);
+        setEtag(res, detail.version);
+        return { status: 201, body: detail };
+      });
+    },
+  );
 
   const servePhoto = (variant: 'full' | 'thumb'): RequestHandler => async (req, res) => {
     const { photoId } = valid<PhotoParams>(req.valid.params);

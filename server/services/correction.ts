@@ -15,7 +15,7 @@ import { FROM_SQL, selectSql, type FindingScope } from './findingQueries';
 /** At most this many findings in one inbox answer (a company's active findings). */
 export const INBOX_MAX = 1000;
 
-const PHOTO_SELECT = `SELECT p.id, p.finding_id, p.fix_id, p.content_type, p.width, p.height, p.byte_size, p.uploaded_by,
+const PHOTO_SELECT = `SELECT p.id, p.finding_id, p.fix_id, p.stage, p.content_type, p.width, p.height, p.byte_size, p.uploaded_by,
          u.name AS uploader_name, p.created_at
     FROM photos p LEFT JOIN users u ON u.id = p.uploaded_by`;
 
@@ -37,7 +37,7 @@ async function fixesWithPhotos(sequelize: Sequelize, jobId: string, rows: FixRow
 /** One fix with its photos (the caller has already checked the finding is visible). */
 export async function fixDto(sequelize: Sequelize, jobId: string, fixId: string, transaction?: Transaction): Promise<FixDto | null> {
   const rows = await sequelize.query<FixRow>(
-    `SELECT x.id, x.finding_id, x.note, x.submitted_by, u.name AS submitter_name, x.submitted_at
+    `SELECT x.id, x.finding_id, x.note, x.submitted_by, u.name AS submitter_name, x.submitted_at, x.measured_text, x.rule_result
        FROM fixes x JOIN users u ON u.id = x.submitted_by WHERE x.job_id = $1 AND x.id = $2`,
     { bind: [jobId, fixId], type: QueryTypes.SELECT, transaction },
   );
@@ -146,7 +146,8 @@ export async function reinspectionQueue(sequelize: Sequelize, scope: FindingScop
     ids.length === 0
       ? []
       : await sequelize.query<FixRow>(
-          `SELECT DISTINCT ON (x.finding_id) x.id, x.finding_id, x.note, x.submitted_by, u.name AS submitter_name, x.submitted_at
+          `SELECT DISTINCT ON (x.finding_id) x.id, x.finding_id, x.note, x.submitted_by, u.name AS submitter_name, x.submitted_at,
+                  x.measured_text, x.rule_result
              FROM fixes x JOIN users u ON u.id = x.submitted_by
             WHERE x.job_id = $1 AND x.finding_id = ANY ($2::uuid[])
             ORDER BY x.finding_id, x.submitted_at DESC, x.id DESC`,
@@ -156,7 +157,7 @@ export async function reinspectionQueue(sequelize: Sequelize, scope: FindingScop
   const originals =
     ids.length === 0
       ? []
-      : await sequelize.query<PhotoRow & { finding_id: string | null }>(`${PHOTO_SELECT} WHERE p.job_id = $1 AND p.finding_id = ANY ($2::uuid[]) ORDER BY p.created_at, p.id`, {
+      : await sequelize.query<PhotoRow & { finding_id: string | null }>(`${PHOTO_SELECT} WHERE p.job_id = $1 AND p.finding_id = ANY ($2::uuid[]) AND p.stage = 'finding' ORDER BY p.created_at, p.id`, {
           bind: [scope.jobId, ids],
           type: QueryTypes.SELECT,
         });

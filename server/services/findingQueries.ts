@@ -127,8 +127,8 @@ export function selectSql(sortKey: string, today: string, catalogue = true): str
          (f.due_on < ${today} AND f.status IN ('open', 'fix_submitted')) AS overdue,
          f.note, f.measured_text, f.measured_value, f.rule_result, f.return_count,
          f.logged_by, lb.name AS logged_by_name, f.logged_at, f.walk_id, f.pin_x, f.pin_y, f.voided_reason,
-         (SELECT count(*) FROM photos p WHERE p.finding_id = f.id) AS photo_count,
-         (SELECT p.id FROM photos p WHERE p.finding_id = f.id ORDER BY p.created_at, p.id LIMIT 1) AS first_photo_id,
+         (SELECT count(*) FROM photos p WHERE p.finding_id = f.id AND p.stage = 'finding') AS photo_count,
+         (SELECT p.id FROM photos p WHERE p.finding_id = f.id AND p.stage = 'finding' ORDER BY p.created_at, p.id LIMIT 1) AS first_photo_id,
          f.version, ${sortKey} AS sort_key${
            catalogue ? ',\n         ci.description, ci.fix_guidance, ci.caution, ci.needs_ceiling_access, ci.measured_rule' : ''
          }`;
@@ -310,7 +310,7 @@ export async function findingDetail(
   });
   if (!row) return null;
   const photos = await sequelize.query<PhotoRow>(
-    `SELECT p.id, p.content_type, p.width, p.height, p.byte_size, p.fix_id, p.uploaded_by, u.name AS uploader_name, p.created_at
+    `SELECT p.id, p.content_type, p.width, p.height, p.byte_size, p.fix_id, p.stage, p.uploaded_by, u.name AS uploader_name, p.created_at
        FROM photos p LEFT JOIN users u ON u.id = p.uploaded_by
       WHERE p.job_id = $1 AND (p.finding_id = $2 OR p.fix_id IN (SELECT x.id FROM fixes x WHERE x.finding_id = $2))
       ORDER BY p.created_at, p.id`,

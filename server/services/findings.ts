@@ -8,6 +8,7 @@
  * - the append-only finding history (finding_events: create only; the database refuses changes).
  */
 import { unitLimitResolver } from '../../shared/rules/limits';
+import { fixNeedsMeasurement, measurementVerdict, sameLimitResolver } from '../../shared/rules/remeasure';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import { parseQuantity } from '../../shared/calc/quantity';
 import { evaluateRule, type LimitResolver, type RuleResult } from '../../shared/calc/rules';
@@ -15,7 +16,7 @@ import type { FindingEventKind } from '../../shared/schemas/findings';
 import { suggestedCompany } from '../../shared/rules/suggestedCompany';
 import type { Severity } from '../../shared/words';
 import { badRequest } from '../errors';
-import { FindingEvent, type CatalogueItem, type Job, type UnitModel } from '../models';
+import { CatalogueItem, FindingEvent, Job, Unit, UnitModel, type Finding } from '../models';
 
 // ---------------------------------------------------------------------------------------------
 // Due dates: the rule lives in shared/rules (the screens apply the same one).
@@ -100,6 +101,53 @@ export function measure(
     source: rule.comparison === 'yes_no' ? `${item.code} ${item.title}` : undefined,
   });
   return { measuredText: text.trim(), measuredValue: parsed.value, result };
+}
+
+/**
+ * A new measurement of a logged finding (with a fix, or at re-inspection): the defect type's rule,
+ * and the limit the finding as logged was judged against (shared/rules/remeasure.ts); a limit the
+ * original did not decide comes from the unit's limits now. 400 naming `field` when the text
+ * cannot be read or the defect type takes no measured value.
+ */
+export async function remeasure(
+  finding: Pick<Finding, 'jobId' | 'catalogueItemId' | 'unitId' | 'ruleResult'>,
+  text: string,
+  field: string,
+  transaction?: Transaction,
+): Promise<Measurement & { verdict: string }> {
+  const [item, job] = await Promise.all([
+    CatalogueItem.findOne({ where: { id: finding.catalogueItemId, jobId: finding.jobId }, transaction }),
+    Job.findByPk(finding.jobId, { transaction }),
+  ]);
+  if (!item || !job) throw new Error('a finding without its defect type or job');
+  const unit = finding.unitId ? await Unit.findOne({ where: { id: finding.unitId, jobId: finding.jobId }, attributes: ['modelId'], transaction }) : null;
+  const model = unit?.modelId ? await UnitModel.findOne({ where: { id: unit.modelId, jobId: finding.jobId }, transaction }) : null;
+  const fallback = limitResolverFor(job, model);
+  const resolver = item.measuredRule ? sameLimitResolver(item.measuredRule, finding.ruleResult, fallback) : fallback;
+  const m = measure(item, text, resolver, job, field);
+  return { ...m, verdict: measurementVerdict(item.measuredRule!, m.result, job.unitSystem) };
+}
+
+/**
+ * The new measurement a fix brings: required (400 `measuredText`) when the finding was logged with
+ * a measured value of a measured defect type; otherwise optional. Checked before any photo is stored.
+ */
+export async function fixMeasurement(
+  finding: Pick<Finding, 'jobId' | 'catalogueItemId' | 'unitId' | 'ruleResult' | 'measuredText'>,
+  text: string | null | undefined,
+): Promise<(Measurement & { verdict: string }) | null> {
+  if (text) return remeasure(finding, text, 'measuredText');
+  const item = await CatalogueItem.findOne({ where: { id: finding.catalogueItemId, jobId: finding.jobId }, attributes: ['measuredRule'] });
+  if (fixNeedsMeasurement(item?.measuredRule, finding)) {
+    const message = `Measure ${item!.measuredRule!.measure.toLowerCase()} again after the fix and type the new value.`;
+    throw badRequest(`measuredText: ${message}`, { measuredText: message });
+  }
+  return null;
+}
+
+/** What a history entry keeps of a new measurement: the value as typed, pass/fail and the verdict in words. */
+export function measurementEventFields(m: (Measurement & { verdict: string }) | null): Record<string, unknown> {
+  return m ? { measuredText: m.measuredText, pass: m.result.pass, verdict: m.verdict } : {};
 }
 
 // ---------------------------------------------------------------------------------------------

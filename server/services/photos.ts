@@ -47,6 +47,7 @@ import { HttpError, notFound } from '../errors';
 import type { ObjectStore } from '../storage/types';
 import type { PendingUploads } from './pendingUploads';
 import { createSlots } from './slots';
+import type { PhotoStage } from '../../shared/schemas/findings';
 
 /** Largest accepted photo in pixels (width × height): 40 MP, above any phone camera's 12–24 MP default. */
 export const PHOTO_PIXEL_LIMIT = 40_000_000;
@@ -442,7 +443,7 @@ export async function storePhotos(
 /** The `photos` row values for stored photos (Photo.bulkCreate inside the caller's transaction). */
 export function photoRowValues(
   stored: readonly StoredPhoto[],
-  owner: { jobId: string; uploadedBy: string; findingId?: string | null; fixId?: string | null },
+  owner: { jobId: string; uploadedBy: string; findingId?: string | null; fixId?: string | null; stage?: PhotoStage },
 ) {
   return stored.map((p) => ({
     id: p.id,
@@ -458,6 +459,8 @@ export function photoRowValues(
     uploadedBy: owner.uploadedBy,
     findingId: owner.findingId ?? null,
     fixId: owner.fixId ?? null,
+    // A fix's photos show the fix; a finding's show the defect unless the owner says otherwise (re-inspection).
+    stage: owner.stage ?? (owner.fixId ? 'fix' : 'finding'),
   }));
 }
 

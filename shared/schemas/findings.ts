@@ -20,6 +20,7 @@ export * from './findings/create';
 export * from './findings/filters';
 export * from './findings/actions';
 export * from './findings/fix';
+export * from './findings/photos';
 export * from './findings/reinspect';
 export * from './findings/change';
 export * from './findings/comments';

@@ -1,7 +1,7 @@
 /**
  * A finding as answered: its event kinds, photos, list item, detail and list response.
  */
-import type { QuantityKind } from '../../catalogue/types';
+import type { MeasuredRule, QuantityKind } from '../../catalogue/types';
 import type { RuleResult } from '../../calc/rules';
 import type { FindingStatus, Severity, UnitKindKey } from '../../words';
 import type { PersonRef } from './common';
@@ -25,6 +25,13 @@ export type FindingEventKind = (typeof FINDING_EVENT_KINDS)[number];
 /** Findings still waiting on someone: counted as "open" on boards and unit states. */
 export const ACTIVE_FINDING_STATUSES: readonly FindingStatus[] = ['open', 'fix_submitted'];
 
+/**
+ * What a photo shows: the defect (as logged, or added while the finding is open), the fixed work
+ * (with a fix), or the inspector's own photo at re-inspection.
+ */
+export const PHOTO_STAGES = ['finding', 'fix', 'reinspection'] as const;
+export type PhotoStage = (typeof PHOTO_STAGES)[number];
+
 export interface PhotoDto {
   id: string;
   /** GET these with the session cookie; both answer 404 to anyone who may not see the finding. */
@@ -36,6 +43,8 @@ export interface PhotoDto {
   bytes: number | null;
   /** null: a photo of the finding as logged; otherwise the fix it was sent with. */
   fixId: string | null;
+  /** finding: the defect; fix: with the fix `fixId`; reinspection: the inspector's, with a verdict. */
+  stage: PhotoStage;
   uploadedBy: PersonRef | null;
   createdAt: string;
 }
@@ -74,6 +83,7 @@ export interface FindingDto {
   pinX: number | null;
   pinY: number | null;
   voidedReason: string | null;
+  /** Photos of the defect (as logged and added later); fix and re-inspection photos are not counted. */
   photoCount: number;
   /** The first photo's thumbnail, for cards; null without photos. */
   thumbUrl: string | null;
@@ -103,6 +113,8 @@ export interface FindingDetail extends FindingDto {
     needsCeilingAccess: boolean;
     quantity: QuantityKind | null;
     measure: string | null;
+    /** The defect type's measured rule, for a fix's or re-inspection's new measurement (null: none). */
+    rule: MeasuredRule | null;
   };
 }
 

@@ -367,6 +367,9 @@ export const CASES: Record<string, RouteCase> = {
   'POST /api/jobs/:jobId/findings/:findingId/fixes': {
     setup: async (w, _c, v) => ({ path: J(w, `/findings/${(await openFinding(w, v)).id}/fixes`), multipart: { data: { note: 'Re-pitched the drain.' }, photos: 1 } }),
   },
+  'POST /api/jobs/:jobId/findings/:findingId/photos': {
+    setup: async (w, _c, v) => ({ path: J(w, `/findings/${(await openFinding(w, v)).id}/photos`), multipart: { data: {}, photos: 1 } }),
+  },
   'POST /api/jobs/:jobId/findings/:findingId/reinspections': {
     setup: async (w, _c, v) => ({
       path: J(w, `/findings/${(await openFinding(w, v, 'fix_submitted')).id}/reinspections`),

@@ -144,6 +144,7 @@ export const EXPECTED: Record<string, Row> = {
   'GET /api/jobs/:jobId/photos/:photoId/thumb': seesFinding(200),
   'POST /api/jobs/:jobId/findings/:findingId/fixes': r(401, 201, 403, 201, 404), // the finding's company and the GC manager
   'POST /api/jobs/:jobId/findings/:findingId/reinspections': r(401, 200, 200, 403, 403),
+  'POST /api/jobs/:jobId/findings/:findingId/photos': fieldCrew(201), // those who log findings add photos to them
   'PATCH /api/jobs/:jobId/findings/:findingId': r(401, 200, 200, 403, 404), // a subcontractor changes nothing; another company's finding is not found
 };
 
