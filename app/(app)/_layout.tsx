@@ -9,7 +9,8 @@ import { links } from '../../components/links';
 export default function SignedInLayout() {
   const session = useSessionQuery();
   if (session.isPending) return <LoadingState />;
-  if (session.isError) return <ErrorState message={session.error.message} onRetry={() => session.refetch()} />;
+  // Offline with a level kept on the phone, the session kept with it stands until the network answers.
+  if (session.isError && !session.data) return <ErrorState message={session.error.message} onRetry={() => session.refetch()} />;
   if (!session.data.user) return <Redirect href={links.signIn()} />;
   return (
     <View style={{ flex: 1 }}>

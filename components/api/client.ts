@@ -86,6 +86,18 @@ export function apiGet<T>(path: string): Promise<T> {
   return request<T>('GET', path);
 }
 
+/** GET of a file the session may see (a photo thumbnail kept on the phone), as a Blob. */
+export async function apiGetBlob(path: string): Promise<Blob> {
+  let res: Response;
+  try {
+    res = await fetch(path, { method: 'GET', credentials: 'same-origin' });
+  } catch {
+    throw new ApiError(0, 'offline', 'No connection to Trimout. Check your signal and try again.');
+  }
+  if (!res.ok) throw await toError(res);
+  return res.blob();
+}
+
 /** A 409 (conflict) or 412 (someone changed it first): the screen reloads and says so. */
 export function isConflict(err: unknown): err is ApiError {
   return err instanceof ApiError && (err.status === 409 || err.status === 412);

@@ -1,6 +1,7 @@
 import { CameraView, useCameraPermissions } from 'expo-camera';
 import { useRef, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
+import { preparePhotos } from '../photos/prepare';
 import { space } from '../theme';
 import { Button } from '../ui/Button';
 import { Notice } from '../ui/Notice';
@@ -55,7 +56,10 @@ export function CameraCapture({ onPhoto, disabled, testID = 'camera' }: { onPhot
       const name = `camera-${new Date().toISOString().replace(/[:.]/g, '-')}.jpg`;
       if (shot.uri.startsWith('data:')) {
         const blob = dataUriToBlob(shot.uri);
-        onPhoto({ key: photoKey(), name, type: blob.type, blob, uri: URL.createObjectURL(blob) });
+        // Downscaled on the device and checked against the room left before the form holds it.
+        const { photos, refused } = await preparePhotos([{ key: photoKey(), name, type: blob.type, blob, uri: URL.createObjectURL(blob) }]);
+        if (refused) setError(refused);
+        for (const p of photos) onPhoto(p);
       } else {
         onPhoto({ key: photoKey(), name, type: 'image/jpeg', uri: shot.uri });
       }

@@ -1,7 +1,8 @@
 import { Link } from 'expo-router';
-import { Image, Pressable, StyleSheet, View } from 'react-native';
+import { Pressable, StyleSheet, View } from 'react-native';
 import type { FindingDto } from '../../shared/schemas/findings';
 import { FINDING_STATUS_LABELS, type FindingStatus } from '../../shared/words';
+import { KeptImage } from '../kept/KeptImage';
 import { colors, radius, space, touchTarget } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
@@ -58,7 +59,7 @@ export function FindingCard({ jobId, finding }: { jobId: string; finding: Findin
         </View>
         {f.thumbUrl ? (
           <View style={styles.thumbWrap}>
-            <Image source={{ uri: f.thumbUrl }} style={styles.thumb} accessibilityLabel={`Photo of ${f.label}`} />
+            <KeptImage uri={f.thumbUrl} style={styles.thumb} accessibilityLabel={`Photo of ${f.label}`} testID={`finding-thumb-${f.number}`} />
             {f.photoCount > 1 ? (
               <AppText variant="small" muted style={styles.count}>
                 +{f.photoCount - 1}

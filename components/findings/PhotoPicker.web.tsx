@@ -1,5 +1,6 @@
 import { createElement, useRef } from 'react';
 import { View } from 'react-native';
+import { preparePhotos } from '../photos/prepare';
 import { Button } from '../ui/Button';
 import { photoKey, type PhotoPickerProps } from './PhotoPicker.types';
 
@@ -25,15 +26,19 @@ export function PhotoPicker({ label, onPick, onError, disabled, testID }: PhotoP
           const images = files.filter((f) => f.type === '' || f.type.startsWith('image/'));
           if (images.length < files.length) onError?.('Only photos can be attached (JPEG, PNG, WebP or HEIC).');
           if (images.length === 0) return;
-          onPick(
+          // Downscaled on the device and checked against the room left before the form holds them.
+          void preparePhotos(
             images.map((f) => ({
               key: photoKey(),
               name: f.name || 'photo.jpg',
               type: f.type || 'image/jpeg',
-              blob: f,
+              blob: f as Blob,
               uri: URL.createObjectURL(f),
             })),
-          );
+          ).then(({ photos, refused }) => {
+            if (refused) onError?.(refused);
+            if (photos.length) onPick(photos);
+          });
         },
       })}
       <Button label={label} tone="secondary" testID={testID} disabled={disabled} onPress={() => input.current?.click()} />

@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { Image, Modal, Pressable, StyleSheet, View } from 'react-native';
+import { KeptImage } from '../kept/KeptImage';
 import { colors, radius, space, touchTarget } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
@@ -28,7 +29,7 @@ export function PhotoStrip({ photos, onRemove, testID = 'photos' }: { photos: re
             onPress={() => setOpen(p)}
             style={styles.thumbWrap}
           >
-            <Image source={{ uri: p.thumbUri }} style={styles.thumb} resizeMode="cover" accessibilityLabel={p.label} />
+            <KeptImage uri={p.thumbUri} style={styles.thumb} resizeMode="cover" accessibilityLabel={p.label} />
           </Pressable>
           {onRemove ? (
             <Pressable

@@ -7,7 +7,7 @@ import { newWrite, sendWrite, type Write } from '../api/mutations';
 import { labelWrite, submitWrite } from '../outbox';
 import { rememberedOpenWalk, rememberOpenWalk } from '../outbox/walks';
 import { setupKeys } from './setupKeys';
-import { refreshWalkData, walkKeys } from './walks';
+import { announceWalkStarted, refreshWalkData, walkKeys } from './walks';
 
 export const checkKeys = {
   unit: (jobId: string, unitId: string) => [...walkKeys.job(jobId), 'checks', unitId] as const,
@@ -71,6 +71,7 @@ async function openOrStartWalk(jobId: string, levelId: string, inspectorId: stri
   const walk = open.items[0];
   if (walk) return walk.id;
   const started = await sendWrite<WalkDetail>(newWrite({ method: 'POST', path: jobPath(jobId, 'walks'), body: { levelId } }));
+  announceWalkStarted(jobId, levelId);
   return started.id;
 }
 

@@ -19,6 +19,19 @@ export const walkKeys = {
   walk: (jobId: string, walkId: string) => [...walkKeys.job(jobId), 'detail', walkId] as const,
 };
 
+type WalkStarted = (jobId: string, levelId: string) => void;
+const walkStartedListeners = new Set<WalkStarted>();
+
+/** Called when this phone starts a walk (the level is then kept on the phone for it). */
+export function onWalkStarted(listener: WalkStarted): () => void {
+  walkStartedListeners.add(listener);
+  return () => walkStartedListeners.delete(listener);
+}
+
+export function announceWalkStarted(jobId: string, levelId: string) {
+  for (const l of walkStartedListeners) l(jobId, levelId);
+}
+
 /** Refresh every walk, check and finding screen of a job (after a check or a finding is saved). */
 export function refreshWalkData(queryClient: QueryClient, jobId: string) {
   return queryClient.invalidateQueries({ queryKey: walkKeys.job(jobId) });
@@ -59,6 +72,7 @@ export function useStartWalkMutation(jobId: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (levelId: string) => sendWrite<WalkDetail>(newWrite({ method: 'POST', path: jobPath(jobId, 'walks'), body: { levelId } })),
+    onSuccess: (_walk, levelId) => announceWalkStarted(jobId, levelId),
     onSettled: () => refreshWalkData(queryClient, jobId),
   });
 }

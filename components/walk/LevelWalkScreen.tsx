@@ -8,6 +8,7 @@ import type { Coverage, WalkUnitDto } from '../../shared/schemas/findings';
 import type { JobDetail } from '../../shared/schemas/setup';
 import { ApiError } from '../api/client';
 import { formatWhen } from '../findings/due';
+import { KeptLevelCard } from '../kept/KeptLevelCard';
 import { useJobQuery } from '../queries/jobs';
 import { useLevelsQuery } from '../queries/levels';
 import { useSessionQuery } from '../queries/session';
@@ -99,6 +100,7 @@ function LevelWalkBody({ job, levelId, levelName, saved }: { job: JobDetail; lev
       ) : null}
       {first ? <CoverageCard coverage={first.coverage} /> : null}
       <WalkBanner job={job} levelId={levelId} />
+      <KeptLevelCard jobId={job.id} levelId={levelId} levelName={levelName} timeZone={job.timeZone} />
       <WalkFilters value={filters} onChange={setFilters} spaces={spaces.data ?? []} systems={systems.data ?? []} />
       {units.isPending ? (
         <LoadingState label="Loading the units…" />

@@ -4,8 +4,8 @@ import { apiGet } from '../api/client';
 import { jobPath, queryString } from '../api/lists';
 import { walkKeys } from '../queries/walks';
 
-/** Under the walk keys: saving a check or logging a finding refreshes them. */
-const keys = {
+/** Under the walk keys: saving a check or logging a finding refreshes them. A kept level fills the same keys. */
+export const walkDataKeys = {
   order: (jobId: string, levelId: string) => [...walkKeys.job(jobId), 'order', levelId] as const,
   unresolved: (jobId: string, unitId: string) => [...walkKeys.job(jobId), 'unresolved', unitId] as const,
 };
@@ -13,7 +13,7 @@ const keys = {
 /** Every unit of the level in the walk's order (by tag, as the level's list shows them), all pages. */
 export function useWalkOrderQuery(jobId: string, levelId: string) {
   return useQuery({
-    queryKey: keys.order(jobId, levelId),
+    queryKey: walkDataKeys.order(jobId, levelId),
     queryFn: async () => {
       const out: WalkUnitDto[] = [];
       let cursor: string | null = null;
@@ -33,7 +33,7 @@ export function useWalkOrderQuery(jobId: string, levelId: string) {
 /** The unit's findings not resolved yet (open or fix submitted): an item with one cannot be marked OK. */
 export function useUnresolvedFindingsQuery(jobId: string, unitId: string) {
   return useQuery({
-    queryKey: keys.unresolved(jobId, unitId),
+    queryKey: walkDataKeys.unresolved(jobId, unitId),
     queryFn: async () => {
       const out: FindingDto[] = [];
       let cursor: string | null = null;
