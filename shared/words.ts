@@ -87,3 +87,11 @@ export function tradeLabel(key: string): string {
 
 export const REFRIGERANTS = ['R-410A', 'R-32', 'R-454B'] as const;
 export type Refrigerant = (typeof REFRIGERANTS)[number];
+
+/** A finding whose defect is not in the catalogue (the job's "other" defect type, with its own title). */
+export const SOMETHING_ELSE = {
+  label: 'Something else',
+  /** The button that opens it, beside a catalogue. */
+  action: 'Something else (not in the catalogue)',
+  titleLabel: 'What is wrong',
+} as const;

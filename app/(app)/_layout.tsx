@@ -1,5 +1,6 @@
 import { Redirect, Slot } from 'expo-router';
 import { View } from 'react-native';
+import { OutboxProvider } from '../../components/outbox/OutboxProvider';
 import { useSessionQuery } from '../../components/queries/session';
 import { AppHeader } from '../../components/ui/AppHeader';
 import { ErrorState, LoadingState } from '../../components/ui/States';
@@ -12,10 +13,13 @@ export default function SignedInLayout() {
   // Offline with a level kept on the phone, the session kept with it stands until the network answers.
   if (session.isError && !session.data) return <ErrorState message={session.error.message} onRetry={() => session.refetch()} />;
   if (!session.data.user) return <Redirect href={links.signIn()} />;
+  // The signed-in person's outbox runs while they are signed in (sent on start, 'online', every minute).
   return (
-    <View style={{ flex: 1 }}>
-      <AppHeader />
-      <Slot />
-    </View>
+    <OutboxProvider userId={session.data.user.id}>
+      <View style={{ flex: 1 }}>
+        <AppHeader />
+        <Slot />
+      </View>
+    </OutboxProvider>
   );
 }

@@ -30,10 +30,10 @@ export function RecurringList({ jobId, data, wide }: { jobId: string; data: Recu
           No recurring defects: no defect type has reached the job&apos;s thresholds.
         </AppText>
       ) : wide ? (
-        <Table columns={columns(jobId)} rows={data.items} rowKey={(r) => r.catalogueItemId} rowTestID={(r) => `recurring-${r.code}`} testID="recurring-table" />
+        <Table columns={columns(jobId)} rows={data.items} rowKey={(r) => r.key} rowTestID={(r) => `recurring-${r.code}`} testID="recurring-table" />
       ) : (
         data.items.map((r) => (
-          <Card key={r.catalogueItemId} testID={`recurring-${r.code}`}>
+          <Card key={r.key} testID={`recurring-${r.code}`}>
             <View style={styles.top}>
               <AppText variant="small" muted>
                 {r.code}

@@ -16,6 +16,7 @@ import { CatalogueItem, Finding, Level, Photo, Space, Unit, UnitCheck, UnitModel
 import { companyOnJob, limitResolverFor, measure, nextFindingNumber, recordFindingEvent, suggestCompany, type CompanyRef, type Measurement } from '../services/findings';
 import { findingDetail } from '../services/findingQueries';
 import { photoRowValues } from '../services/photos';
+import { otherDefectType } from '../services/somethingElse';
 import { notifyCriticalAssignment, type CommandContext, type NewPhotos, type ReadContext } from './context';
 import { detailOf } from './findingWrites';
 
@@ -52,7 +53,8 @@ async function placementOf(jobId: string, body: CreateFindingParsed): Promise<Pl
 /** A finding that passed every check, ready to be written. */
 export interface NewFinding {
   body: CreateFindingParsed;
-  item: CatalogueItem;
+  /** null for "Something else": body.title and body.trade name the defect. */
+  item: CatalogueItem | null;
   place: Placement;
   company: CompanyRef;
   measured: Measurement | null;
@@ -63,17 +65,19 @@ export interface NewFinding {
 /** Every refusal of a new finding (400 naming the field), before any photo is stored. */
 export async function checkNewFinding(ctx: ReadContext, job: Job, body: CreateFindingParsed): Promise<NewFinding> {
   const { sequelize } = ctx;
-  const item = await CatalogueItem.findOne({ where: { id: body.catalogueItemId, jobId: job.id } });
-  if (!item) refuse('catalogueItemId', 'Not a defect type of this job.');
-  if (item.retiredAt) refuse('catalogueItemId', `${item.code} ${item.title} is retired from this job's catalogue.`);
+  // "Something else" (no defect type named): the job's other type, made when the finding is written.
+  const item = body.catalogueItemId ? await CatalogueItem.findOne({ where: { id: body.catalogueItemId, jobId: job.id, isOther: false } }) : null;
+  if (body.catalogueItemId && !item) refuse('catalogueItemId', 'Not a defect type of this job.');
+  if (item?.retiredAt) refuse('catalogueItemId', `${item.code} ${item.title} is retired from this job's catalogue.`);
   const place = await placementOf(job.id, body);
-  if (place.unit && !item.unitKinds.includes(place.unit.kind)) {
+  if (item && place.unit && !item.unitKinds.includes(place.unit.kind)) {
     refuse('catalogueItemId', `${item.code} ${item.title} does not apply to this unit's kind (${place.unit.kind}).`);
   }
-  const company = body.companyId ? await companyOnJob(sequelize, job.id, body.companyId) : await suggestCompany(sequelize, job.id, item.trade);
+  const trade = item?.trade ?? body.trade!;
+  const company = body.companyId ? await companyOnJob(sequelize, job.id, body.companyId) : await suggestCompany(sequelize, job.id, trade);
   if (!company) {
     if (body.companyId) refuse('companyId', 'That company is not on this job.');
-    refuse('companyId', `No company on this job covers the ${item.trade} trade; choose the responsible company.`);
+    refuse('companyId', `No company on this job covers the ${trade} trade; choose the responsible company.`);
   }
   if (body.walkId) {
     const walk = await Walk.findOne({ where: { id: body.walkId, jobId: job.id }, attributes: ['levelId'] });
@@ -85,8 +89,9 @@ export async function checkNewFinding(ctx: ReadContext, job: Job, body: CreateFi
     if (!check || check.unitId !== place.unit?.id) refuse('unitCheckId', 'That unit check is not of this unit.');
   }
   const model = place.unit?.modelId ? await UnitModel.findOne({ where: { id: place.unit.modelId, jobId: job.id } }) : null;
-  const measured = body.measuredText ? measure(item, body.measuredText, limitResolverFor(job, model), job, 'measuredText') : null;
-  const severity: Severity = body.severity ?? item.defaultSeverity;
+  const measured = item && body.measuredText ? measure(item, body.measuredText, limitResolverFor(job, model), job, 'measuredText') : null;
+  // The schema asks "Something else" for its severity: it has no type to take a default from.
+  const severity: Severity = body.severity ?? item?.defaultSeverity ?? 'minor';
   const dueOn = body.dueOn ?? dueOnFor(job, severity, ctx.clock());
   return { body, item, place, company, measured, severity, dueOn };
 }
@@ -110,6 +115,7 @@ export async function logFinding(ctx: CommandContext, input: NewFinding, photos:
   const { sequelize, transaction, actor, scope } = ctx;
   const { body, item, place, company, measured, severity, dueOn } = input;
   const jobId = scope.jobId;
+  const type = item ?? (await otherDefectType(jobId, transaction));
   const number = await nextFindingNumber(sequelize, jobId, transaction);
   const finding = await Finding.create(
     {
@@ -119,7 +125,8 @@ export async function logFinding(ctx: CommandContext, input: NewFinding, photos:
       unitId: place.unit?.id ?? null,
       spaceId: place.spaceId,
       levelId: place.levelId,
-      catalogueItemId: item.id,
+      catalogueItemId: type.id,
+      title: item ? null : body.title!,
       walkId: body.walkId ?? null,
       unitCheckId: body.unitCheckId ?? null,
       severity,

@@ -131,7 +131,7 @@ export async function companyFindings(
 ): Promise<{ today: string; items: DigestFinding[] }> {
   const today = todayIn(job.timeZone || 'UTC', now);
   const rows = await sequelize.query<FindingSqlRow>(
-    `SELECT f.id, f.job_id, f.number, c.code, c.title, f.severity, f.status, to_char(f.due_on, 'YYYY-MM-DD') AS due_on,
+    `SELECT f.id, f.job_id, f.number, c.code, coalesce(f.title, c.title) AS title, f.severity, f.status, to_char(f.due_on, 'YYYY-MM-DD') AS due_on,
             l.name AS level_name, l.position AS level_position, s.name AS space_name, u.tag AS unit_tag,
             f.logged_at, f.return_count,
             (f.logged_at >= $3 OR EXISTS (

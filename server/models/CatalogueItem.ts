@@ -19,6 +19,8 @@ export class CatalogueItem extends Model<InferAttributes<CatalogueItem>, InferCr
   declare caution: string | null;
   declare needsCeilingAccess: boolean;
   declare builtin: CreationOptional<boolean>;
+  /** The job's one "other" type: findings of "Something else" (their own title); never in a checklist or the set-up list. */
+  declare isOther: CreationOptional<boolean>;
   declare position: number;
   declare retiredAt: CreationOptional<Date | null>;
   declare version: CreationOptional<number>;
@@ -42,6 +44,7 @@ export class CatalogueItem extends Model<InferAttributes<CatalogueItem>, InferCr
         caution: { type: DataTypes.TEXT, allowNull: true },
         needsCeilingAccess: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         builtin: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        isOther: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         position: { type: DataTypes.INTEGER, allowNull: false },
         retiredAt: { type: DataTypes.DATE, allowNull: true },
         version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },

@@ -24,6 +24,8 @@ export class Finding extends Model<InferAttributes<Finding>, InferCreationAttrib
   declare spaceId: ForeignKey<Space['id']> | null;
   declare levelId: ForeignKey<Level['id']>;
   declare catalogueItemId: ForeignKey<CatalogueItem['id']>;
+  /** "Something else" (the job's other defect type): the defect in the inspector's words; null otherwise. */
+  declare title: CreationOptional<string | null>;
   declare walkId: ForeignKey<Walk['id']> | null;
   declare unitCheckId: ForeignKey<UnitCheck['id']> | null;
   declare severity: Severity;
@@ -54,6 +56,7 @@ export class Finding extends Model<InferAttributes<Finding>, InferCreationAttrib
         spaceId: { type: DataTypes.UUID, allowNull: true },
         levelId: { type: DataTypes.UUID, allowNull: false },
         catalogueItemId: { type: DataTypes.UUID, allowNull: false },
+        title: { type: DataTypes.STRING(160), allowNull: true },
         walkId: { type: DataTypes.UUID, allowNull: true },
         unitCheckId: { type: DataTypes.UUID, allowNull: true },
         severity: { type: DataTypes.STRING(10), allowNull: false },

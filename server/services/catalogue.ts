@@ -50,6 +50,8 @@ export async function listCatalogue(jobId: string, filters: CatalogueFilters, pa
   const rows = await CatalogueItem.findAll({
     where: {
       jobId,
+      // The other type ("Something else") is no defect to check for: it is not listed.
+      isOther: false,
       ...(filters.unitKind ? { unitKinds: { [Op.contains]: [filters.unitKind] } } : {}),
       ...(filters.group ? { group: filters.group } : {}),
       ...(filters.includeRetired ? {} : { retiredAt: null }),
@@ -63,7 +65,7 @@ export async function listCatalogue(jobId: string, filters: CatalogueFilters, pa
 }
 
 export async function findCatalogueItem(jobId: string, itemId: string): Promise<CatalogueItem> {
-  const item = await CatalogueItem.findOne({ where: { id: itemId, jobId } });
+  const item = await CatalogueItem.findOne({ where: { id: itemId, jobId, isOther: false } });
   if (!item) throw notFound('Catalogue item not found.');
   return item;
 }

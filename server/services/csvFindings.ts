@@ -96,7 +96,7 @@ export function findingsCsvSql(scope: FindingScope, filters: FindingFilters, sor
   // row costs ~0.1 ms, i.e. seconds for 100,000 findings.
   const sql = `
   SELECT f.id, f.number, l.name AS level_name, s.name AS space_name, u.tag AS unit_tag, u.kind AS unit_kind,
-         sy.name AS system_name, ci.code, ci.title, f.severity, f.status, c.name AS company_name,
+         sy.name AS system_name, ci.code, coalesce(f.title, ci.title) AS title, f.severity, f.status, c.name AS company_name,
          lb.name AS logged_by_name, ${iso('f.logged_at')} AS logged_at, to_char(f.due_on, 'YYYY-MM-DD') AS due_on,
          (COALESCE((closing.at AT TIME ZONE ${tz})::date, ${today}) - (f.logged_at AT TIME ZONE ${tz})::date) AS days_open,
          (f.due_on < ${today} AND f.status IN ('open', 'fix_submitted')) AS overdue,

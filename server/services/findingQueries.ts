@@ -122,7 +122,7 @@ export class Params {
 export function selectSql(sortKey: string, today: string, catalogue = true): string {
   return `
   SELECT f.id, f.number, f.level_id, l.name AS level_name, f.space_id, s.name AS space_name,
-         f.unit_id, u.tag AS unit_tag, u.kind AS unit_kind, f.catalogue_item_id, ci.code, ci.title,
+         f.unit_id, u.tag AS unit_tag, u.kind AS unit_kind, f.catalogue_item_id, ci.code, coalesce(f.title, ci.title) AS title,
          f.severity, f.status, f.company_id, c.name AS company_name, to_char(f.due_on, 'YYYY-MM-DD') AS due_on,
          (f.due_on < ${today} AND f.status IN ('open', 'fix_submitted')) AS overdue,
          f.note, f.measured_text, f.measured_value, f.rule_result, f.return_count,
@@ -195,7 +195,7 @@ export function whereSql(p: Params, scope: FindingScope, filters: FindingFilters
   if (filters.overdue === false) conds.push(`NOT (f.due_on < ${p.today()} AND f.status IN ('open', 'fix_submitted'))`);
   if (filters.q) {
     const like = add(likeContains(filters.q));
-    const parts = [`f.note ILIKE ${like}`, `ci.title ILIKE ${like}`, `ci.code ILIKE ${like}`, `u.tag ILIKE ${like}`];
+    const parts = [`f.note ILIKE ${like}`, `coalesce(f.title, ci.title) ILIKE ${like}`, `ci.code ILIKE ${like}`, `u.tag ILIKE ${like}`];
     const asNumber = /^#?(\d{1,9})$/.exec(filters.q.trim());
     if (asNumber) parts.push(`f.number = ${add(Number(asNumber[1]))}`);
     conds.push(`(${parts.join(' OR ')})`);

@@ -186,6 +186,9 @@ export interface RecurringThresholdsView {
 }
 
 export interface RecurringDefect {
+  /** One per defect: the type's id, or for "Something else" `other:` and its normalised title. */
+  key: string;
+  /** For "Something else": the job's other type (shared by every such defect; `title` tells them apart). */
   catalogueItemId: string;
   code: string;
   title: string;

@@ -60,6 +60,7 @@ const RECURRING: RecurringResponse = {
   thresholds: { minUnits: 3, minShare: 0.1 },
   items: [
     {
+      key: '00000000-0000-4000-8000-0000000000d1',
       catalogueItemId: '00000000-0000-4000-8000-0000000000d1',
       code: 'CD-02',
       title: 'Drain not sloped',

@@ -17,7 +17,7 @@ import type { FindingScope } from '../findingQueries';
 import { Bind, companyCond, latestCheckJoin, num, select, selectTuned } from './common';
 
 /** JSON of one blocker row (aliases f, `item` = where code and title are, bu = the finding's unit). */
-const blockerJson = (item: string) => `json_build_object('findingId', f.id, 'number', f.number, 'code', ${item}.code, 'title', ${item}.title,
+const blockerJson = (item: string) => `json_build_object('findingId', f.id, 'number', f.number, 'code', ${item}.code, 'title', coalesce(f.title, ${item}.title),
   'severity', f.severity, 'status', f.status, 'unitId', f.unit_id, 'unitTag', bu.tag)`;
 
 interface UnitStateRow {
@@ -106,7 +106,7 @@ export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, q
       FROM unit_state us
       LEFT JOIN LATERAL (
         SELECT max(f.total) AS total, json_agg(${blockerJson('ci')} ORDER BY f.number) AS blockers
-          FROM (SELECT f.id, f.number, f.severity, f.status, f.unit_id, f.catalogue_item_id, count(*) OVER () AS total
+          FROM (SELECT f.id, f.number, f.severity, f.status, f.unit_id, f.catalogue_item_id, f.title, count(*) OVER () AS total
                   FROM findings f
                  WHERE ${blocking} AND f.unit_id = us.unit_id
                  ORDER BY f.number

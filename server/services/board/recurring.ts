@@ -8,6 +8,7 @@ import {
   type RecurringResponse,
   type RecurringThresholdsView,
 } from '../../../shared/schemas/board';
+import { normalisedTitleSql } from '../../../shared/rules/somethingElse';
 import { cachedStat } from '../statCache';
 import type { FindingScope } from '../findingQueries';
 import { Bind, companyCond, LATEST_CHECK_CTE, num, select, selectTuned } from './common';
@@ -21,6 +22,7 @@ export function recurringThresholdsOf(stored: Partial<RecurringThresholdsView> |
 }
 
 interface RecurringRow {
+  defect_key: string;
   catalogue_item_id: string;
   code: string;
   title: string;
@@ -58,6 +60,8 @@ async function computeRecurring(sequelize: Sequelize, scope: FindingScope): Prom
   const company = companyCond(b, scope);
   const minUnits = b.add(thresholds.minUnits);
   const minShare = b.add(String(thresholds.minShare));
+  // A type of the catalogue recurs as itself; "Something else" recurs by its normalised title.
+  const defectKey = `CASE WHEN ci0.is_other THEN 'other:' || ${normalisedTitleSql('f.title')} ELSE f.catalogue_item_id::text END`;
   const sql = `
     WITH ${LATEST_CHECK_CTE}, checked_by_kind AS MATERIALIZED (
       SELECT u.kind, count(*) AS n
@@ -65,66 +69,72 @@ async function computeRecurring(sequelize: Sequelize, scope: FindingScope): Prom
        WHERE u.job_id = $1
        GROUP BY u.kind
     ), per_unit_company AS MATERIALIZED (
-      SELECT f.catalogue_item_id, f.unit_id, f.company_id, min(f.logged_at) AS first_at
-        FROM findings f
+      SELECT ${defectKey} AS defect_key, f.catalogue_item_id, f.unit_id, f.company_id, min(f.logged_at) AS first_at,
+             (array_agg(f.title ORDER BY f.logged_at, f.id))[1] AS first_title
+        FROM findings f JOIN catalogue_items ci0 ON ci0.id = f.catalogue_item_id
        WHERE f.job_id = $1 AND f.status <> 'voided' AND f.unit_id IS NOT NULL${company}
-       GROUP BY f.catalogue_item_id, f.unit_id, f.company_id
+       GROUP BY 1, f.catalogue_item_id, f.unit_id, f.company_id
     ), first_per_unit AS MATERIALIZED (
-      SELECT catalogue_item_id, unit_id, min(first_at) AS first_at
+      SELECT defect_key, catalogue_item_id, unit_id, min(first_at) AS first_at,
+             (array_agg(first_title ORDER BY first_at))[1] AS first_title
         FROM per_unit_company
-       GROUP BY catalogue_item_id, unit_id
+       GROUP BY defect_key, catalogue_item_id, unit_id
     ), ranked AS (
-      SELECT catalogue_item_id, first_at,
-             row_number() OVER (PARTITION BY catalogue_item_id ORDER BY first_at, unit_id) AS nth,
-             count(*) OVER (PARTITION BY catalogue_item_id) AS unit_count
+      SELECT defect_key, catalogue_item_id, first_at, first_title,
+             row_number() OVER (PARTITION BY defect_key ORDER BY first_at, unit_id) AS nth,
+             count(*) OVER (PARTITION BY defect_key) AS unit_count,
+             first_value(first_title) OVER (PARTITION BY defect_key ORDER BY first_at, unit_id) AS shown_title
         FROM first_per_unit
     ), looked_at AS (
-      -- Per type, in one pass: the units it was found on that are not checked units of its kinds.
-      SELECT fu2.catalogue_item_id, count(*) AS n
+      -- Per defect, in one pass: the units it was found on that are not checked units of its kinds
+      -- (the other type applies to every kind).
+      SELECT fu2.defect_key, count(*) AS n
         FROM first_per_unit fu2
         JOIN units u2 ON u2.id = fu2.unit_id
         JOIN catalogue_items ci2 ON ci2.id = fu2.catalogue_item_id
         LEFT JOIN latest_check lc2 ON lc2.unit_id = u2.id
-       WHERE NOT (coalesce(lc2.complete, false) AND u2.kind = ANY (ci2.unit_kinds))
-       GROUP BY fu2.catalogue_item_id
+       WHERE NOT (coalesce(lc2.complete, false) AND (ci2.is_other OR u2.kind = ANY (ci2.unit_kinds)))
+       GROUP BY fu2.defect_key
     ), shares AS (
-      SELECT r.catalogue_item_id, r.unit_count, r.first_at AS recurring_since, ci.code, ci.title,
-             coalesce((SELECT sum(k.n) FROM checked_by_kind k WHERE k.kind = ANY (ci.unit_kinds)), 0)
+      SELECT r.defect_key, r.catalogue_item_id, r.unit_count, r.first_at AS recurring_since, ci.code,
+             CASE WHEN ci.is_other THEN r.shown_title ELSE ci.title END AS title,
+             coalesce((SELECT sum(k.n) FROM checked_by_kind k WHERE ci.is_other OR k.kind = ANY (ci.unit_kinds)), 0)
              + coalesce(la.n, 0) AS checked_units
         FROM ranked r
         JOIN catalogue_items ci ON ci.id = r.catalogue_item_id
-        LEFT JOIN looked_at la ON la.catalogue_item_id = r.catalogue_item_id
+        LEFT JOIN looked_at la ON la.defect_key = r.defect_key
        WHERE r.nth = ${minUnits}::int
     ), recurring AS MATERIALIZED (
       SELECT s.*, s.unit_count::numeric / greatest(s.checked_units, 1) AS share
         FROM shares s
     ), by_level AS (
-      SELECT x.catalogue_item_id, json_agg(json_build_object('levelId', x.level_id, 'name', x.name, 'count', x.n) ORDER BY x.position, x.level_id) AS list
-        FROM (SELECT fu.catalogue_item_id, u.level_id, lv.name, lv.position, count(*) AS n
+      SELECT x.defect_key, json_agg(json_build_object('levelId', x.level_id, 'name', x.name, 'count', x.n) ORDER BY x.position, x.level_id) AS list
+        FROM (SELECT fu.defect_key, u.level_id, lv.name, lv.position, count(*) AS n
                 FROM first_per_unit fu
-                JOIN recurring r ON r.catalogue_item_id = fu.catalogue_item_id AND r.share >= ${minShare}::numeric
+                JOIN recurring r ON r.defect_key = fu.defect_key AND r.share >= ${minShare}::numeric
                 JOIN units u ON u.id = fu.unit_id
                 JOIN levels lv ON lv.id = u.level_id
-               GROUP BY fu.catalogue_item_id, u.level_id, lv.name, lv.position) x
-       GROUP BY x.catalogue_item_id
+               GROUP BY fu.defect_key, u.level_id, lv.name, lv.position) x
+       GROUP BY x.defect_key
     ), by_company AS (
-      SELECT y.catalogue_item_id, json_agg(json_build_object('companyId', y.company_id, 'name', y.name, 'count', y.n) ORDER BY y.name, y.company_id) AS list
-        FROM (SELECT pc.catalogue_item_id, pc.company_id, c.name, count(*) AS n
+      SELECT y.defect_key, json_agg(json_build_object('companyId', y.company_id, 'name', y.name, 'count', y.n) ORDER BY y.name, y.company_id) AS list
+        FROM (SELECT pc.defect_key, pc.company_id, c.name, count(*) AS n
                 FROM per_unit_company pc
-                JOIN recurring r ON r.catalogue_item_id = pc.catalogue_item_id AND r.share >= ${minShare}::numeric
+                JOIN recurring r ON r.defect_key = pc.defect_key AND r.share >= ${minShare}::numeric
                 JOIN companies c ON c.id = pc.company_id
-               GROUP BY pc.catalogue_item_id, pc.company_id, c.name) y
-       GROUP BY y.catalogue_item_id
+               GROUP BY pc.defect_key, pc.company_id, c.name) y
+       GROUP BY y.defect_key
     )
-    SELECT r.catalogue_item_id, r.code, r.title, r.unit_count, r.checked_units, r.share::float8 AS share, r.recurring_since,
+    SELECT r.defect_key, r.catalogue_item_id, r.code, r.title, r.unit_count, r.checked_units, r.share::float8 AS share, r.recurring_since,
            bl.list AS by_level, bc.list AS by_company
       FROM recurring r
-      LEFT JOIN by_level bl ON bl.catalogue_item_id = r.catalogue_item_id
-      LEFT JOIN by_company bc ON bc.catalogue_item_id = r.catalogue_item_id
+      LEFT JOIN by_level bl ON bl.defect_key = r.defect_key
+      LEFT JOIN by_company bc ON bc.defect_key = r.defect_key
      WHERE r.share >= ${minShare}::numeric
-     ORDER BY r.unit_count DESC, r.code, r.catalogue_item_id`;
+     ORDER BY r.unit_count DESC, r.code, r.title, r.defect_key`;
   const rows = await selectTuned<RecurringRow>(sequelize, sql, b.values);
   const items: RecurringDefect[] = rows.map((r) => ({
+    key: r.defect_key,
     catalogueItemId: r.catalogue_item_id,
     code: r.code,
     title: r.title,

@@ -4,6 +4,7 @@
 import { z } from 'zod';
 import { SEVERITIES } from '../../words';
 import { id, dateOnly, measuredText, note, pin } from './fields';
+import { defectTitle, somethingElseTrade, refineSomethingElse } from './somethingElse';
 
 /**
  * POST /findings → 201 FindingDetail. Idempotency-Key honoured (a retry returns the first answer).
@@ -20,7 +21,11 @@ import { id, dateOnly, measuredText, note, pin } from './fields';
 export const createFindingSchema = z
   .object({
     id: id('finding id').optional(),
-    catalogueItemId: id('defect type'),
+    /** The defect type; leave it out for "Something else" (title and trade instead). */
+    catalogueItemId: id('defect type').optional(),
+    /** "Something else": the defect in the inspector's words, and the trade that usually fixes it. */
+    title: defectTitle.optional(),
+    trade: somethingElseTrade.optional(),
     unitId: id('unit').nullable().optional(),
     spaceId: id('space').nullable().optional(),
     levelId: id('level').nullable().optional(),
@@ -36,6 +41,7 @@ export const createFindingSchema = z
     pinY: pin().nullable().optional(),
   })
   .strict()
+  .superRefine(refineSomethingElse)
   .refine((f) => Boolean(f.unitId || f.spaceId || f.levelId), {
     message: 'Attach the finding to a unit, a space or a level.',
     path: ['unitId'],

@@ -301,6 +301,7 @@ function expectedRecurring(rows: Rows, companyId: string | null): RecurringRespo
     const perCompany = new Map<string, Set<string>>();
     for (const f of mine) perCompany.set(f.company_id, (perCompany.get(f.company_id) ?? new Set()).add(f.unit_id!));
     items.push({
+      key: item.id,
       catalogueItemId: item.id,
       code: item.code,
       title: item.title,
@@ -710,7 +711,7 @@ describe('a small hand-built job', () => {
       companyScope: null,
       items: [
         {
-          catalogueItemId: f.F1!.catalogueItemId, code: 'PG-01', title: expect.any(String),
+          key: f.F1!.catalogueItemId, catalogueItemId: f.F1!.catalogueItemId, code: 'PG-01', title: expect.any(String),
           unitCount: 3, checkedUnits: 5, share: 0.6, recurringSince: at(0, 16).toISOString(),
           byLevel: [
             { levelId: L1.id, name: 'First', count: 2 },
