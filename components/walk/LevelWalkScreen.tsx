@@ -1,6 +1,7 @@
 import { unitKindLabel } from '../../shared/words';
 import { links } from '../links';
 import { Link } from 'expo-router';
+import { LevelWaiting, UnitWaiting } from '../outbox/Waiting';
 import { LevelPlanLink } from '../plans/PlanPinLink';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
@@ -100,6 +101,7 @@ function LevelWalkBody({ job, levelId, levelName, saved }: { job: JobDetail; lev
       ) : null}
       {first ? <CoverageCard coverage={first.coverage} /> : null}
       <WalkBanner job={job} levelId={levelId} />
+      <LevelWaiting jobId={job.id} unitTags={new Map(rows.map((u) => [u.id, u.tag]))} />
       <KeptLevelCard jobId={job.id} levelId={levelId} levelName={levelName} timeZone={job.timeZone} />
       <WalkFilters value={filters} onChange={setFilters} spaces={spaces.data ?? []} systems={systems.data ?? []} />
       {units.isPending ? (
@@ -202,6 +204,7 @@ function UnitRow({ jobId, unit }: { jobId: string; unit: WalkUnitDto }) {
             {where ? ` · ${where}` : ''}
           </AppText>
           <UnitStateBadge state={unit.state} openFindings={unit.openFindings} worstSeverity={unit.worstSeverity} testID={`walk-unit-${unit.tag}-state`} />
+          <UnitWaiting jobId={jobId} unitId={unit.id} testID={`walk-unit-${unit.tag}-waiting`} />
         </View>
         <AppText variant="title" style={{ color: colors.spruce }} aria-hidden>
           ›

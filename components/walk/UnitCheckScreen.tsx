@@ -1,6 +1,7 @@
 import { unitKindLabel } from '../../shared/words';
 import { links } from '../links';
 import { useRouter } from 'expo-router';
+import { UnitWaiting } from '../outbox/Waiting';
 import { PlanPinLink } from '../plans/PlanPinLink';
 import { useEffect, useMemo, useRef, useState, type ReactNode, type Ref } from 'react';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
@@ -348,7 +349,7 @@ function UnitCheckBody({
     });
     try {
       const walkId = await ensureWalk(job.id, unit.levelId, userId);
-      await record.mutateAsync(recordCheckWrite(job.id, unit.id, { walkId, complete: marked.length === items.length, items: sent }));
+      await record.mutateAsync(recordCheckWrite(job.id, unit.id, { walkId, complete: marked.length === items.length, items: sent }, unit.tag));
       done.current = true;
       clearCheckDraft(draftKey);
       const target = to === 'next' ? next?.next : null;
@@ -482,6 +483,7 @@ function UnitCheckBody({
   return (
     <CheckFrame bar={bar} scrollRef={scrollRef}>
       <Header job={job} unit={unit} checks={checks} where={where} onBack={() => void leave()} />
+      <UnitWaiting jobId={job.id} unitId={unit.id} testID="unit-check-waiting" />
       {saved ? (
         <Notice tone="success" testID="unit-check-saved">
           {`Unit check of ${saved} saved.`}

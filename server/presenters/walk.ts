@@ -1,5 +1,5 @@
 /** Walks → WalkDto / WalkDetail. */
-import type { Coverage, WalkDetail, WalkDto } from '../../shared/schemas/findings';
+import type { Coverage, WalkDetail, WalkDto, WalkSummary } from '../../shared/schemas/findings';
 
 /** A walk as read by services/walks.ts (one row with its level's and inspector's names). */
 export interface WalkRow {
@@ -27,6 +27,6 @@ export function presentWalk(row: WalkRow): WalkDto {
   };
 }
 
-export function presentWalkDetail(row: WalkRow, coverage: Coverage, checkedInWalk: number): WalkDetail {
-  return { ...presentWalk(row), coverage, checkedInWalk };
+export function presentWalkDetail(row: WalkRow, coverage: Coverage, checkedInWalk: number, summary: WalkSummary): WalkDetail {
+  return { ...presentWalk(row), coverage, checkedInWalk, summary };
 }

@@ -1,6 +1,7 @@
 /** Walks: one inspector's pass over a level (reads and writes of routes/walks.ts), and the walk a unit check joins. */
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import type { WalkDetail, WalkDto, WalkListQueryParsed, WalkUnitsQueryParsed, WalkUnitsResponse } from '../../shared/schemas/findings';
+import type { WalkDetail, WalkDto, WalkListQueryParsed, WalkSummary, WalkUnitsQueryParsed, WalkUnitsResponse } from '../../shared/schemas/findings';
+import { SEVERITIES, type Severity } from '../../shared/words';
 import { badRequest, conflict, forbidden, notFound } from '../errors';
 import { Level, Walk } from '../models';
 import { presentWalk, presentWalkDetail, type WalkRow } from '../presenters/walk';
@@ -39,7 +40,31 @@ export async function walkDetail(sequelize: Sequelize, jobId: string, walkId: st
     `SELECT count(DISTINCT unit_id) AS n FROM unit_checks WHERE walk_id = $1 AND complete`,
     { bind: [walkId], type: QueryTypes.SELECT, transaction },
   );
-  return presentWalkDetail(row, coverage, Number(inWalk?.n ?? 0));
+  return presentWalkDetail(row, coverage, Number(inWalk?.n ?? 0), await walkSummary(sequelize, jobId, row.id, row.level_id, transaction));
+}
+
+/**
+ * Findings logged within the walk by severity, and the level's units whose current (latest) unit
+ * check is not complete, the same rule as the level's coverage (services/walkUnits.ts).
+ */
+async function walkSummary(sequelize: Sequelize, jobId: string, walkId: string, levelId: string, transaction?: Transaction): Promise<WalkSummary> {
+  const bySeverity = await sequelize.query<{ severity: Severity; n: string }>(
+    `SELECT severity, count(*) AS n FROM findings WHERE job_id = $1 AND walk_id = $2 AND status <> 'voided' GROUP BY severity`,
+    { bind: [jobId, walkId], type: QueryTypes.SELECT, transaction },
+  );
+  const findingsBySeverity = Object.fromEntries(SEVERITIES.map((s) => [s, 0])) as Record<Severity, number>;
+  for (const r of bySeverity) findingsBySeverity[r.severity] = Number(r.n);
+  const unchecked = await sequelize.query<{ id: string; tag: string; in_progress: boolean }>(
+    `SELECT u.id, u.tag, (l.unit_id IS NOT NULL) AS in_progress
+       FROM units u
+       LEFT JOIN LATERAL (
+         SELECT uc.unit_id, uc.complete FROM unit_checks uc WHERE uc.unit_id = u.id ORDER BY uc.checked_at DESC, uc.id DESC LIMIT 1
+       ) l ON true
+      WHERE u.job_id = $1 AND u.level_id = $2 AND NOT coalesce(l.complete, false)
+      ORDER BY u.tag, u.id`,
+    { bind: [jobId, levelId], type: QueryTypes.SELECT, transaction },
+  );
+  return { findingsBySeverity, unchecked: unchecked.map((u) => ({ id: u.id, tag: u.tag, inProgress: Boolean(u.in_progress) })) };
 }
 
 /** The job's walks, newest first: (started_at, id) descending; the cursor carries started_at as text (microseconds kept). */

@@ -2,6 +2,7 @@
  * Walks: start, finish, list (docs/api-findings.md).
  */
 import { z } from 'zod';
+import type { Severity } from '../../words';
 import type { PersonRef } from './common';
 import { id, pageQuery, booleanQuery } from './fields';
 
@@ -47,9 +48,18 @@ export interface Coverage {
   inProgress: number;
 }
 
+/** What finishing a walk shows before it ends: what was found on it, and what is left on the level. */
+export interface WalkSummary {
+  /** Findings logged within this walk, by severity (voided ones left out). */
+  findingsBySeverity: Record<Severity, number>;
+  /** Units on the level whose current unit check is not complete (never checked, or not finished), by tag. */
+  unchecked: { id: string; tag: string; inProgress: boolean }[];
+}
+
 /** GET /walks/:walkId, POST /walks (201), POST /walks/:walkId/finish. */
 export interface WalkDetail extends WalkDto {
   /** The level's coverage now (all walks), and the units checked within this walk. */
   coverage: Coverage;
   checkedInWalk: number;
+  summary: WalkSummary;
 }
