@@ -13,6 +13,7 @@
  * nothing. Its body is read only as that form or as JSON, at most 1 kB.
  */
 import express, { Router, type Request } from 'express';
+import type { z } from 'zod';
 import { rateLimit } from 'express-rate-limit';
 import {
   digestNowSchema,
@@ -21,8 +22,6 @@ import {
   unsubscribeParamsSchema,
   type DigestNowResponse,
   type PreferencesPatch,
-  type UnsubscribeList,
-  type UnsubscribePreview,
   type UnsubscribeResult,
 } from '../../shared/schemas/preferences';
 import { HttpError, notFound, tooManyRequests } from '../errors';
@@ -31,11 +30,13 @@ import type { MailService } from '../mail';
 import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
 import type { DigestService } from '../digests/service';
-import { loadPreferences, lockPreferencesRow, preferencesDto, updatePreferences, type EffectivePreferences } from '../digests/preferences';
+import { loadPreferences, preferencesDto, type EffectivePreferences } from '../digests/preferences';
+import { changePreferences, turnOffMailList } from '../commands/changePreferences';
+import { presentUnsubscribePreview } from '../presenters/preferences';
 import { verifyUnsubscribeToken } from '../digests/unsubscribeToken';
 import { idempotentWrite } from '../services/idempotency';
 import { sequelizeOf } from '../services/records';
-import { checkIfMatch, setEtag } from '../services/versioning';
+import { setEtag } from '../services/versioning';
 
 export interface PreferencesRouterOptions {
   digests: DigestService;
@@ -75,16 +76,7 @@ export function preferencesRouter(options: PreferencesRouterOptions): Router {
 
   router.patch('/me/preferences', policy.signedIn(), validate({ body: preferencesPatchSchema }), async (req, res) => {
     const patch = valid<PreferencesPatch>(req.valid.body);
-    const sequelize = sequelizeOf(req);
-    const userId = req.user!.id;
-    const prefs = await sequelize.transaction(async (transaction) => {
-      const row = await lockPreferencesRow(sequelize, userId, transaction);
-      const before = await loadPreferences(sequelize, userId, transaction);
-      checkIfMatch(req, row.version, before ? preferencesDto(before, mailboxPath(mail)) : undefined);
-      await updatePreferences(sequelize, userId, patch, transaction);
-      return loadPreferences(sequelize, userId, transaction);
-    });
-    if (!prefs) throw notFound('Your account was not found.');
+    const prefs = await changePreferences(sequelizeOf(req), req.user!.id, patch, { req, present: (p) => preferencesDto(p, mailboxPath(mail)) });
     setEtag(res, prefs.version);
     res.json(preferencesDto(prefs, mailboxPath(mail)));
   });
@@ -108,16 +100,6 @@ export function preferencesRouter(options: PreferencesRouterOptions): Router {
   return router;
 }
 
-const LIST_WORDS: Record<UnsubscribeList, string> = {
-  digest: 'Your Trimout digest mails (daily or weekly)',
-  critical: 'Mails about critical findings assigned to your company',
-};
-
-function maskAddress(email: string): string {
-  const [local = '', domain = ''] = email.split('@');
-  return `${local.slice(0, 1)}${'•'.repeat(Math.max(2, Math.min(6, local.length - 1)))}@${domain}`;
-}
-
 export interface UnsubscribeRouterOptions {
   /** Secrets that verify tokens (env.sessionSecrets: the first signs). */
   secrets: readonly string[];
@@ -130,7 +112,7 @@ export function unsubscribeRouter(options: UnsubscribeRouterOptions): Router {
   const bodies = [express.urlencoded({ extended: false, limit: '1kb', parameterLimit: 5 }), express.json({ limit: '1kb', strict: true }), refuseNul];
 
   async function resolve(req: Request) {
-    const { token } = valid<{ token: string }>(req.valid.params);
+    const { token } = valid<z.infer<typeof unsubscribeParamsSchema>>(req.valid.params);
     const check = verifyUnsubscribeToken(options.secrets, token);
     if (!check.ok) {
       if (check.reason === 'expired') throw new HttpError(410, 'link_expired', 'This unsubscribe link has expired. Sign in and change your preferences instead.');
@@ -138,13 +120,7 @@ export function unsubscribeRouter(options: UnsubscribeRouterOptions): Router {
     }
     const prefs = await loadPreferences(sequelizeOf(req), check.claim.userId);
     if (!prefs) throw notFound('This unsubscribe link is not valid. Check that you copied the whole link from the mail.');
-    const preview: UnsubscribePreview = {
-      list: check.claim.list,
-      description: LIST_WORDS[check.claim.list],
-      address: maskAddress(prefs.email),
-      alreadyOff: check.claim.list === 'digest' ? prefs.digestFrequency === 'off' : !prefs.criticalAssignmentMail,
-      expiresAt: check.claim.expiresAt.toISOString(),
-    };
+    const preview = presentUnsubscribePreview(check.claim, prefs);
     return { claim: check.claim, preview };
   }
 
@@ -155,11 +131,7 @@ export function unsubscribeRouter(options: UnsubscribeRouterOptions): Router {
 
   router.post('/unsubscribe/:token', policy.public(), ...bodies, validate({ params: unsubscribeParamsSchema, body: unsubscribeBodySchema }), async (req, res) => {
     const { claim, preview } = await resolve(req);
-    const sequelize = sequelizeOf(req);
-    await sequelize.transaction(async (transaction) => {
-      await lockPreferencesRow(sequelize, claim.userId, transaction);
-      await updatePreferences(sequelize, claim.userId, claim.list === 'digest' ? { digestFrequency: 'off' } : { criticalAssignmentMail: false }, transaction);
-    });
+    await turnOffMailList(sequelizeOf(req), claim.userId, claim.list);
     const result: UnsubscribeResult = { ...preview, alreadyOff: true, done: true };
     res.json(result);
   });
