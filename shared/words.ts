@@ -95,3 +95,21 @@ export const SOMETHING_ELSE = {
   action: 'Something else (not in the catalogue)',
   titleLabel: 'What is wrong',
 } as const;
+
+/** What a finding's photo shows (PhotoDto.stage), as the finding screen labels it. */
+export const PHOTO_STAGE_LABELS = {
+  finding: 'Defect photo',
+  fix: 'Fix photo',
+  reinspection: 'Re-inspection photo',
+} as const satisfies Record<'finding' | 'fix' | 'reinspection', string>;
+
+/** The finding screen's side-by-side of the latest fix and the latest re-inspection. */
+export const FIX_AND_REINSPECTION_WORDS = {
+  heading: 'Fix and re-inspection',
+  fix: 'Fix (latest)',
+  reinspection: 'Re-inspection (latest)',
+  noFixPhoto: 'No fix photo.',
+  noReinspectionPhoto: 'No re-inspection photo.',
+  newMeasurement: 'New measurement',
+  addPhotos: 'Add photos of the defect',
+} as const;

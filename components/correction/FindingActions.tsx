@@ -1,3 +1,4 @@
+import type { UnitSystem } from '../../shared/catalogue/types';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
@@ -44,12 +45,15 @@ export function FindingActions({
   finding,
   role,
   isLogger,
+  system,
   onStale,
 }: {
   jobId: string;
   finding: FindingDetail;
   role: Role;
   isLogger: boolean;
+  /** The job's unit system, for a new measurement at re-inspection. */
+  system?: UnitSystem;
   onStale: () => void;
 }) {
   const can = (a: FindingAction) => mayDo(a, finding.status, role, isLogger);
@@ -67,7 +71,12 @@ export function FindingActions({
           <AppText variant="small" muted>
             Compare the fix photos with the finding’s photos, then accept it, or return it with the reason.
           </AppText>
-          <ReinspectControls jobId={jobId} finding={finding} onStale={onStale} />
+          <ReinspectControls
+            jobId={jobId}
+            finding={finding}
+            measured={finding.catalogue.rule && system ? { rule: finding.catalogue.rule, original: finding.ruleResult, system } : null}
+            onStale={onStale}
+          />
         </Card>
       ) : null}
       {close ? <CloseOnWalk jobId={jobId} finding={finding} onStale={onStale} /> : null}

@@ -1,7 +1,9 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
-import { useEffect, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
+import type { UnitSystem } from '../../shared/catalogue/types';
+import { fixNeedsMeasurement, newMeasurementNeeded, noLimits, sameLimitResolver } from '../../shared/rules/remeasure';
 import { NOTE_MAX, submitFixSchema, type FindingDetail, type SubmitFixInput } from '../../shared/schemas/findings';
 import { writeErrorMessage } from '../api/writeErrors';
 import { MAX_PHOTOS } from '../findings/FindingForm';
@@ -10,30 +12,43 @@ import { submitFixWrite, useSubmitFixMutation } from '../queries/correction';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
-import { FormPhotos, FormText, setServerFieldErrors, withFormOnly } from '../ui/FormFields';
+import { FormMeasured, FormPhotos, FormText, setServerFieldErrors, withFormOnly } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
 import { ActionWrite, FINDING_WRITE_WORDS, isStale } from './rules';
 
 type FixFormValues = SubmitFixInput & { photos: PickedPhoto[] };
 type FixFormParsed = z.output<typeof submitFixSchema> & { photos: PickedPhoto[] };
 
-const resolver = withFormOnly<SubmitFixInput, unknown, z.output<typeof submitFixSchema>, { photos: PickedPhoto[] }>(zodResolver(submitFixSchema), {
-  photos: (photos) => (photos.length === 0 ? 'Add at least one photo of the fixed work.' : undefined),
-});
+/**
+ * The fix's schema, and for a finding logged with a measured value the new measurement required
+ * (the server refuses a fix without it with the same words).
+ */
+export function fixFormResolver(finding: Pick<FindingDetail, 'measuredText' | 'ruleResult' | 'catalogue'>) {
+  const rule = finding.catalogue.rule;
+  const schema = fixNeedsMeasurement(rule, finding)
+    ? submitFixSchema.refine((v) => Boolean(v.measuredText), { message: newMeasurementNeeded(rule!), path: ['measuredText'] })
+    : submitFixSchema;
+  return withFormOnly<SubmitFixInput, unknown, z.output<typeof submitFixSchema>, { photos: PickedPhoto[] }>(zodResolver(schema), {
+    photos: (photos) => (photos.length === 0 ? 'Add at least one photo of the fixed work.' : undefined),
+  });
+}
 
 /**
- * The subcontractor's "Submit fix": what was done and one or more photos of the work, sent as one
- * multipart write (same photo rules as a finding). A retry re-sends the same write, so a flaky
- * connection never makes a second fix.
+ * The subcontractor's "Submit fix": what was done, one or more photos of the work and, for a
+ * measured defect, the new measurement with its verdict against the finding's own limit as it is
+ * typed; sent as one multipart write (same photo rules as a finding). A retry re-sends the same
+ * write, so a flaky connection never makes a second fix.
  */
 export function FixForm({
   jobId,
   finding,
+  system,
   onStale,
   testID = 'fix-form',
 }: {
   jobId: string;
   finding: FindingDetail;
+  system: UnitSystem;
   /** Someone changed the finding first: the screen reloads it. */
   onStale: () => void;
   testID?: string;
@@ -41,9 +56,13 @@ export function FixForm({
   const submit = useSubmitFixMutation(jobId, finding.id);
   const [slot] = useState(() => new ActionWrite());
   const [done, setDone] = useState(false);
+  const rule = finding.catalogue.rule;
+  const resolver = useMemo(() => fixFormResolver(finding), [finding]);
+  // The limit the finding was logged against; the server decides with the unit's limits where it had none.
+  const resolve = useMemo(() => (rule ? sameLimitResolver(rule, finding.ruleResult, noLimits) : noLimits), [rule, finding.ruleResult]);
   const { control, handleSubmit, setError, reset, watch, formState } = useForm<FixFormValues, unknown, FixFormParsed>({
     resolver,
-    defaultValues: { note: '', photos: [] },
+    defaultValues: { note: '', measuredText: null, photos: [] },
   });
   // Any change after a failed send makes a new write (the old key belongs to other content).
   useEffect(() => {
@@ -58,11 +77,11 @@ export function FixForm({
       onSuccess: () => {
         slot.settled();
         setDone(true);
-        reset({ note: '', photos: [] });
+        reset({ note: '', measuredText: null, photos: [] });
       },
       onError: (err) => {
         slot.settled(err);
-        setServerFieldErrors(err, setError, ['note']);
+        setServerFieldErrors(err, setError, ['note', 'measuredText', 'photos']);
         setError('root', { message: writeErrorMessage(err, FINDING_WRITE_WORDS) });
         if (isStale(err)) onStale();
       },
@@ -99,6 +118,12 @@ export function FixForm({
         testID={`${testID}-note`}
         compact
       />
+      {rule ? (
+        <>
+          <AppText variant="label">{fixNeedsMeasurement(rule, finding) ? 'New measurement after the fix (needed)' : 'New measurement after the fix (optional)'}</AppText>
+          <FormMeasured control={control} name="measuredText" testID={`${testID}-measured`} rule={rule} resolve={resolve} system={system} />
+        </>
+      ) : null}
       <FormPhotos
         control={control}
         name="photos"

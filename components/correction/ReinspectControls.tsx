@@ -1,29 +1,51 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useEffect, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { REASON_MAX, reinspectionSchema, type ReinspectionVerdict } from '../../shared/schemas/findings';
+import type { z } from 'zod';
+import type { RuleResult } from '../../shared/calc/rules';
+import type { MeasuredRule, UnitSystem } from '../../shared/catalogue/types';
+import { MAX_PHOTOS_PER_REQUEST } from '../../shared/rules/photos';
+import { noLimits, sameLimitResolver } from '../../shared/rules/remeasure';
+import { REASON_MAX, reinspectionSchema, type ReinspectionInput, type ReinspectionVerdict } from '../../shared/schemas/findings';
+import { PHOTO_STAGE_LABELS } from '../../shared/words';
 import { writeErrorMessage } from '../api/writeErrors';
+import type { PickedPhoto } from '../findings/PhotoPicker.types';
 import { reinspectionWrite, useFindingWriteMutation } from '../queries/correction';
 import { space } from '../theme';
+import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
-import { FormText, setServerFieldErrors } from '../ui/FormFields';
+import { FormMeasured, FormPhotos, FormText, setServerFieldErrors, withFormOnly } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
 import { ActionWrite, FINDING_WRITE_WORDS, isStale } from './rules';
 
+type ReinspectValues = ReinspectionInput & { photos: PickedPhoto[] };
+type ReinspectParsed = z.output<typeof reinspectionSchema> & { photos: PickedPhoto[] };
+
+// Photos are the inspector's own and optional; the field itself refuses more than the request takes.
+const resolver = withFormOnly<ReinspectionInput, unknown, z.output<typeof reinspectionSchema>, { photos: PickedPhoto[] }>(zodResolver(reinspectionSchema), {
+  photos: () => undefined,
+});
+
 /**
- * The inspector's verdict on a fix in one tap: Accept, or Return with the reason typed above it.
- * Sent with If-Match (the version looked at): a finding changed meanwhile is refused and reloaded.
+ * The inspector's verdict on a fix in one tap: Accept, or Return with the reason typed above it;
+ * with their own photos beside the fix and, for a measured defect, their own new measurement
+ * (judged against the finding's own limit as it is typed). Sent with If-Match (the version looked
+ * at): a finding changed meanwhile is refused and reloaded. Accepting while the new measurement
+ * fails is refused by the server with the reason, which shows above the buttons.
  */
 export function ReinspectControls({
   jobId,
   finding,
+  measured,
   onStale,
   onDone,
   testID = 'reinspect',
 }: {
   jobId: string;
   finding: { id: string; version: number; label: string };
+  /** The defect type's measured rule and the finding's own result: the inspector may measure again. */
+  measured?: { rule: MeasuredRule; original: RuleResult | null; system: UnitSystem } | null;
   onStale: () => void;
   onDone?: (verdict: ReinspectionVerdict) => void;
   testID?: string;
@@ -31,11 +53,12 @@ export function ReinspectControls({
   const write = useFindingWriteMutation(jobId);
   const [slot] = useState(() => new ActionWrite());
   const [pending, setPending] = useState<ReinspectionVerdict | null>(null);
-  const { control, handleSubmit, setValue, getValues, setError, reset, watch, formState } = useForm({
-    resolver: zodResolver(reinspectionSchema),
-    defaultValues: { verdict: 'accept' as ReinspectionVerdict, reason: '' },
+  const { control, handleSubmit, setValue, getValues, setError, reset, watch, formState } = useForm<ReinspectValues, unknown, ReinspectParsed>({
+    resolver,
+    defaultValues: { verdict: 'accept', reason: '', measuredText: null, photos: [] },
   });
-  // Another verdict or reason is other content: the next press makes a new write.
+  const resolve = useMemo(() => (measured ? sameLimitResolver(measured.rule, measured.original, noLimits) : noLimits), [measured]);
+  // Another verdict, reason, measurement or photo is other content: the next press makes a new write.
   useEffect(() => {
     const sub = watch(() => slot.settled());
     return () => sub.unsubscribe();
@@ -43,18 +66,19 @@ export function ReinspectControls({
 
   function send(verdict: ReinspectionVerdict) {
     if (getValues('verdict') !== verdict) setValue('verdict', verdict);
-    void handleSubmit(({ reason }) => {
+    void handleSubmit(({ reason, measuredText, photos }) => {
       setPending(verdict);
-      const w = slot.take(() => reinspectionWrite(jobId, finding.id, finding.version, { verdict, reason: reason || undefined }));
+      const input: ReinspectionInput = { verdict, reason: reason || undefined, ...(measuredText ? { measuredText } : {}) };
+      const w = slot.take(() => reinspectionWrite(jobId, finding.id, finding.version, input, photos));
       write.mutate(w, {
         onSuccess: () => {
           slot.settled();
-          reset({ verdict, reason: '' });
+          reset({ verdict, reason: '', measuredText: null, photos: [] });
           onDone?.(verdict);
         },
         onError: (err) => {
           slot.settled(err);
-          setServerFieldErrors(err, setError, ['reason']);
+          setServerFieldErrors(err, setError, ['reason', 'measuredText', 'photos']);
           setError('root', { message: writeErrorMessage(err, FINDING_WRITE_WORDS) });
           if (isStale(err)) onStale();
         },
@@ -66,6 +90,21 @@ export function ReinspectControls({
 
   return (
     <View style={styles.wrap} testID={testID}>
+      {measured ? (
+        <View style={styles.wrap}>
+          <AppText variant="label">New measurement at re-inspection (optional)</AppText>
+          <FormMeasured control={control} name="measuredText" testID={`${testID}-measured`} rule={measured.rule} resolve={resolve} system={measured.system} />
+        </View>
+      ) : null}
+      <FormPhotos
+        control={control}
+        name="photos"
+        label={`Your photos of ${finding.label} (optional)`}
+        photoLabel={PHOTO_STAGE_LABELS.reinspection}
+        testID={testID}
+        max={MAX_PHOTOS_PER_REQUEST}
+        tooMany={`At most ${MAX_PHOTOS_PER_REQUEST} photos with a re-inspection.`}
+      />
       <FormText
         control={control}
         name="reason"
@@ -83,6 +122,7 @@ export function ReinspectControls({
       <View style={styles.row}>
         <Button
           label="✓ Accept fix"
+          accessibilityLabel={`Accept the fix of ${finding.label}`}
           testID={`${testID}-accept`}
           busy={pending === 'accept'}
           disabled={pending !== null}
@@ -91,6 +131,7 @@ export function ReinspectControls({
         />
         <Button
           label="↩ Return"
+          accessibilityLabel={`Return the fix of ${finding.label}`}
           tone="danger"
           testID={`${testID}-return`}
           busy={pending === 'return'}

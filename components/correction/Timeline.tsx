@@ -1,6 +1,6 @@
 import { StyleSheet, View } from 'react-native';
 import type { FindingEventDto, FindingEventKind, PhotoDto } from '../../shared/schemas/findings';
-import { FINDING_STATUS_LABELS, SEVERITY_LABELS, type FindingStatus, type Severity } from '../../shared/words';
+import { FINDING_STATUS_LABELS, PHOTO_STAGE_LABELS, SEVERITY_LABELS, type FindingStatus, type Severity } from '../../shared/words';
 import { formatDay, formatWhen } from '../findings/due';
 import { PhotoStrip } from '../findings/PhotoStrip';
 import { colors, space } from '../theme';
@@ -29,6 +29,8 @@ const FIELD_WORDS: Record<string, string> = {
   dueOn: 'Due',
   measuredText: 'Measured',
   pass: 'Measured result',
+  verdict: 'Against the rule',
+  photoCount: 'Photos of the defect',
   note: 'Note',
   returnCount: 'Returns',
 };
@@ -104,13 +106,13 @@ export function Timeline({
               {what ? <AppText variant="small">{what}</AppText> : null}
               {e.reason ? (
                 <AppText variant="small" testID={`${testID}-reason-${i}`}>
-                  {e.kind === 'returned' ? 'Why: ' : e.kind === 'fix_submitted' ? 'Note: ' : ''}“{e.reason}”
+                  {e.kind === 'returned' ? 'Why: ' : e.kind === 'fix_submitted' || e.kind === 'photo_added' ? 'Note: ' : ''}“{e.reason}”
                 </AppText>
               ) : null}
               {pics.length ? (
                 <PhotoStrip
                   testID={`${testID}-photos-${i}`}
-                  photos={pics.map((p, n) => ({ key: p.id, thumbUri: p.thumbUrl, fullUri: p.url, label: `${EVENT_WORDS[e.kind]} photo ${n + 1}` }))}
+                  photos={pics.map((p, n) => ({ key: p.id, thumbUri: p.thumbUrl, fullUri: p.url, label: `${EVENT_WORDS[e.kind]}: ${PHOTO_STAGE_LABELS[p.stage] ?? 'photo'} ${n + 1}` }))}
                 />
               ) : e.photoIds.length ? (
                 <AppText variant="small" muted>

@@ -2,7 +2,7 @@
  * What the screens offer, by role and status: the same status machine the server runs
  * (shared/findingStatus.ts). The server stays the authority: a refusal shows its message.
  */
-import { decide, decidePin } from '../../shared/findingStatus';
+import { decide, decideAddPhotos, decidePin } from '../../shared/findingStatus';
 import type { FindingAction } from '../../shared/schemas/findings';
 import type { FindingStatus, Role } from '../../shared/words';
 import { ApiError } from '../api/client';
@@ -17,6 +17,11 @@ export function mayDo(action: FindingAction, status: FindingStatus, role: Role, 
 /** True when this role may place, move or remove this finding's pin on the plan (the server's rule). */
 export function mayPin(status: FindingStatus, role: Role): boolean {
   return decidePin(status, role).allowed;
+}
+
+/** True when this role may add photos of the defect to this finding now (the server's rule). */
+export function mayAddPhotos(status: FindingStatus, role: Role): boolean {
+  return decideAddPhotos(status, role).allowed;
 }
 
 /** GC managers and inspectors change many findings at once from the table. */

@@ -9,8 +9,10 @@ import { ApiError } from '../api/client';
 import { BeforeAfter, latestFixPhotos } from '../correction/BeforeAfter';
 import { Comments } from '../correction/Comments';
 import { FindingActions } from '../correction/FindingActions';
+import { AddPhotosForm } from '../correction/AddPhotosForm';
+import { FixAndReinspection } from '../correction/FixAndReinspection';
 import { FixForm } from '../correction/FixForm';
-import { mayDo, mayPin } from '../correction/rules';
+import { mayAddPhotos, mayDo, mayPin } from '../correction/rules';
 import { Timeline } from '../correction/Timeline';
 import { useFindingQuery } from '../queries/findings';
 import { useJobQuery } from '../queries/jobs';
@@ -97,7 +99,8 @@ function FindingBody({
   const r = f.ruleResult;
   const q = f.catalogue.quantity;
   const fmt = (v: number | null) => (v === null || !q || q === 'boolean' ? null : formatQuantity(v, q, system));
-  const logPhotos = f.photos.filter((p) => !p.fixId);
+  // The defect's photos (as logged and added since); the fix's and the re-inspection's have their own places.
+  const logPhotos = f.photos.filter((p) => p.stage === 'finding');
   const fixPhotos = f.photos.filter((p) => p.fixId);
   const latestFix = latestFixPhotos(f.photos);
   const lastReturn = [...f.events].reverse().find((e) => e.kind === 'returned');
@@ -201,8 +204,12 @@ function FindingBody({
         )}
       </View>
 
+      <FixAndReinspection photos={f.photos} events={f.events} label={f.label} timeZone={timeZone} testID="finding-fix-and-reinspection" />
+
+      {mayAddPhotos(f.status, role) ? <AddPhotosForm jobId={jobId} finding={f} onStale={reload} testID="finding-add-photos" /> : null}
+
       {/* Inspector and GC: the verdict and the changes right under the photos they compare. */}
-      {!sub ? <FindingActions jobId={jobId} finding={f} role={role} isLogger={isLogger} onStale={reload} /> : null}
+      {!sub ? <FindingActions jobId={jobId} finding={f} role={role} isLogger={isLogger} system={system} onStale={reload} /> : null}
 
       <Card>
         <AppText variant="label">About this defect type</AppText>
@@ -219,7 +226,7 @@ function FindingBody({
       {f.catalogue.caution ? <ItemCaution text={f.catalogue.caution} initiallyOpen testID="finding-caution" /> : null}
 
       {sub && mayDo('submit_fix', f.status, role, isLogger) ? (
-        <FixForm jobId={jobId} finding={f} onStale={reload} />
+        <FixForm jobId={jobId} finding={f} system={system} onStale={reload} />
       ) : sub && f.status === 'fix_submitted' ? (
         <Notice tone="info" title="Fix sent" testID="finding-fix-waiting">
           The inspector re-inspects it next. You will see here whether it is accepted or returned.

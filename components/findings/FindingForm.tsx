@@ -173,7 +173,7 @@ function FindingFormBody({
         note: values.note || undefined,
         measuredText: item?.measuredRule ? (values.measuredText ?? undefined) : undefined,
       };
-      const w = write.current ?? createFindingWrite(job.id, input, photos);
+      const w = write.current ?? createFindingWrite(job.id, input, photos, target.label);
       write.current = w;
       create.mutate(w, {
         onSuccess: (finding) => {

@@ -5,6 +5,7 @@
  */
 import { useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type {
+  AddFindingPhotosInput,
   BulkChangeInput,
   BulkChangeResponse,
   CommentInput,
@@ -63,16 +64,36 @@ async function refreshAfterChange(queryClient: QueryClient, jobId: string) {
   await Promise.all([refreshWalkData(queryClient, jobId), queryClient.invalidateQueries({ queryKey: correctionKeys.inboxAll })]);
 }
 
-/** The multipart write of a fix: `data` (the JSON) and the photos. Made once per press of "Submit fix". */
-export function submitFixWrite(jobId: string, findingId: string, input: SubmitFixInput, photos: readonly UploadPhoto[]): Write {
+/** A multipart body: `data` (the JSON) and the photos as files. */
+function photoForm(data: unknown, photos: readonly UploadPhoto[]): FormData {
   const form = new FormData();
-  form.append('data', JSON.stringify(input));
+  form.append('data', JSON.stringify(data));
   for (const p of photos) {
     if (p.blob) form.append('photos', p.blob, p.name);
     // React Native's FormData takes a { uri, name, type } file descriptor in place of a Blob.
     else form.append('photos', { uri: p.uri, name: p.name, type: p.type } as unknown as Blob);
   }
-  return newWrite({ method: 'POST', path: jobPath(jobId, 'findings', findingId, 'fixes'), body: form });
+  return form;
+}
+
+/** The multipart write of a fix: `data` (the JSON) and the photos. Made once per press of "Submit fix". */
+export function submitFixWrite(jobId: string, findingId: string, input: SubmitFixInput, photos: readonly UploadPhoto[]): Write {
+  return newWrite({ method: 'POST', path: jobPath(jobId, 'findings', findingId, 'fixes'), body: photoForm(input, photos) });
+}
+
+/** POST /findings/:findingId/photos: more photos of the defect while the finding is open. Made once per press of "Add photos". */
+export function addFindingPhotosWrite(jobId: string, findingId: string, input: AddFindingPhotosInput, photos: readonly UploadPhoto[]): Write {
+  return newWrite({ method: 'POST', path: jobPath(jobId, 'findings', findingId, 'photos'), body: photoForm(input, photos) });
+}
+
+/** Photos added answer with the finding as it is now. */
+export function useAddFindingPhotosMutation(jobId: string, findingId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (write: Write) => sendWrite<FindingDetail>(write),
+    onSuccess: (f) => queryClient.setQueryData(findingKeys.detail(jobId, findingId), f),
+    onSettled: () => refreshAfterChange(queryClient, jobId),
+  });
 }
 
 export function useSubmitFixMutation(jobId: string, findingId: string) {
@@ -84,9 +105,13 @@ export function useSubmitFixMutation(jobId: string, findingId: string) {
   });
 }
 
-/** POST /reinspections with If-Match from the version the inspector looked at. */
-export function reinspectionWrite(jobId: string, findingId: string, version: number, input: ReinspectionInput): Write {
-  return newWrite({ method: 'POST', path: jobPath(jobId, 'findings', findingId, 'reinspections'), body: input, ifMatch: versionTag(version) });
+/**
+ * POST /reinspections with If-Match from the version the inspector looked at: JSON, or multipart
+ * with the inspector's own photos.
+ */
+export function reinspectionWrite(jobId: string, findingId: string, version: number, input: ReinspectionInput, photos: readonly UploadPhoto[] = []): Write {
+  const body = photos.length ? photoForm(input, photos) : input;
+  return newWrite({ method: 'POST', path: jobPath(jobId, 'findings', findingId, 'reinspections'), body, ifMatch: versionTag(version) });
 }
 
 /** PATCH /findings/:findingId: one change (reassign, severity, due date, void, reopen, close) with If-Match. */

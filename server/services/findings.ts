@@ -8,7 +8,7 @@
  * - the append-only finding history (finding_events: create only; the database refuses changes).
  */
 import { unitLimitResolver } from '../../shared/rules/limits';
-import { fixNeedsMeasurement, measurementVerdict, sameLimitResolver } from '../../shared/rules/remeasure';
+import { fixNeedsMeasurement, measurementVerdict, newMeasurementNeeded, sameLimitResolver } from '../../shared/rules/remeasure';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import { parseQuantity } from '../../shared/calc/quantity';
 import { evaluateRule, type LimitResolver, type RuleResult } from '../../shared/calc/rules';
@@ -139,7 +139,7 @@ export async function fixMeasurement(
   if (text) return remeasure(finding, text, 'measuredText');
   const item = await CatalogueItem.findOne({ where: { id: finding.catalogueItemId, jobId: finding.jobId }, attributes: ['measuredRule'] });
   if (fixNeedsMeasurement(item?.measuredRule, finding)) {
-    const message = `Measure ${item!.measuredRule!.measure.toLowerCase()} again after the fix and type the new value.`;
+    const message = newMeasurementNeeded(item!.measuredRule!);
     throw badRequest(`measuredText: ${message}`, { measuredText: message });
   }
   return null;

@@ -25,6 +25,11 @@ export function fixNeedsMeasurement(rule: MeasuredRule | null | undefined, findi
   return Boolean(rule) && finding.measuredText !== null;
 }
 
+/** The refusal of a fix without its new measurement (the form and the server say the same). */
+export function newMeasurementNeeded(rule: Pick<MeasuredRule, 'measure'>): string {
+  return `Measure ${rule.measure.charAt(0).toLowerCase()}${rule.measure.slice(1)} again after the fix and type the new value.`;
+}
+
 /** True when the defect type takes a measured value at all (a fix or re-inspection may record one). */
 export function takesMeasurement(rule: MeasuredRule | null | undefined): rule is MeasuredRule {
   return Boolean(rule);

@@ -30,6 +30,9 @@ const finding = {
   companyId: MECH.id,
   companyName: MECH.name,
   returnCount: 0,
+  measuredText: null,
+  ruleResult: null,
+  catalogue: { rule: null },
 } as unknown as FindingDetail;
 
 type Answer = { status: number; body?: unknown };
@@ -52,7 +55,7 @@ function fakeApi(writes: Answer[]) {
 describe('FixForm', () => {
   it('asks for what was fixed and for a photo at once, and sends nothing', async () => {
     const api = fakeApi([]);
-    renderWithQueries(<FixForm jobId={JOB} finding={finding} onStale={jest.fn()} />);
+    renderWithQueries(<FixForm jobId={JOB} finding={finding} system="imperial" onStale={jest.fn()} />);
     fireEvent.press(screen.getByTestId('fix-form-submit'));
     expect(await screen.findByText('Say what was fixed.')).toBeTruthy();
     expect(within(screen.getByTestId('fix-form-photos-error')).getByText('Add at least one photo of the fixed work.')).toBeTruthy();
