@@ -9,7 +9,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useQueryClient } from '@tanstack/react-query';
 import { Link } from 'expo-router';
 import { useRef, useState } from 'react';
-import { useForm, type FieldPath, type Resolver, type UseFormSetError } from 'react-hook-form';
+import { useForm, type FieldPath, type UseFormSetError } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { CODE_DOCUMENTS, JOB_SETTINGS, type CodeDocument } from '../../shared/catalogue/types';
 import { KNOWN_EDITIONS, type JobDetail } from '../../shared/schemas/setup';
@@ -101,13 +101,13 @@ function SettingsForm({ job }: { job: JobDetail }) {
   // The form is typed by its fields so the shared FormText/FormSelect bind to it.
   /** The saved values the form was last filled from (to tell the user's changes from someone else's). */
   const loaded = useRef(toSettingsForm(job));
-  const { control, handleSubmit, formState, setError, watch, reset, getValues, setValue, clearErrors } = useForm<SettingsFormValues>({
-    resolver: zodResolver(settingsFormSchema) as unknown as Resolver<SettingsFormValues>,
+  const { control, handleSubmit, formState, setError, watch, reset, getValues, setValue, clearErrors } = useForm<SettingsFormValues, unknown, SettingsFormOutput>({
+    resolver: zodResolver(settingsFormSchema),
     defaultValues: toSettingsForm(job),
   });
 
   const submit = handleSubmit(async (parsed) => {
-    const values = parsed as unknown as SettingsFormOutput;
+    const values = parsed;
     setSaved(null);
     setConflict(null);
     const patch = settingsPatch(job, values);

@@ -19,13 +19,11 @@ import {
 } from '../../shared/schemas/setup';
 import { SEVERITIES } from '../../shared/words';
 
-export interface SettingsFormValues {
-  codeEditions: Record<CodeDocument, string>;
-  severityDueDays: { critical: string; major: string; minor: string };
-  /** minShare holds the percent as typed ("10" = 10 %). */
-  recurringThresholds: { minUnits: string; minShare: string };
-  settings: Record<JobSettingKey, { value: string; source: string }>;
-}
+/**
+ * What the settings form holds: the text as typed (numbers and the recurring share as a percent,
+ * "10" = 10 %); the schema below turns it into the job's values (SettingsFormOutput).
+ */
+export type SettingsFormValues = z.input<typeof settingsFormSchema>;
 
 /** 0.1 → "10"; 0.125 → "12.5" (two decimals of a percent at most). */
 export function shareToPercent(share: number): string {
