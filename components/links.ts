@@ -60,6 +60,8 @@ export const links = {
   signUp: (): Href => href('/sign-up'),
   forgotPassword: (): Href => href('/forgot-password'),
   preferences: (): Href => href('/preferences'),
+  /** What is kept on this phone waiting to send, and what needs attention. */
+  sync: (): Href => href('/sync'),
   /** A subcontractor's findings to fix, across jobs. */
   inbox: (): Href => href('/inbox'),
   newJob: (): Href => href('/jobs/new'),

@@ -4,7 +4,7 @@
  * the server never creates a second record. A write is a plain object, so it can be kept and sent
  * again later; its Idempotency-Key makes a resend safe.
  */
-import { getCsrfToken, request } from './client';
+import { getCsrfToken, request, requestWithMeta, type WithMeta } from './client';
 
 export interface Write {
   method: 'POST' | 'PUT' | 'PATCH' | 'DELETE';
@@ -43,4 +43,9 @@ export function sendWrite<T>(write: Write): Promise<T> {
   if (write.idempotencyKey) headers['Idempotency-Key'] = write.idempotencyKey;
   if (write.ifMatch) headers['If-Match'] = write.ifMatch;
   return request<T>(write.method, write.path, { body: write.body, headers });
+}
+
+/** GET of a record with its ETag: what the server holds now, for a kept write to be applied again on it. */
+export function readCurrent<T>(path: string): Promise<WithMeta<T>> {
+  return requestWithMeta<T>('GET', path);
 }

@@ -6,8 +6,8 @@
 import { useQueryClient } from '@tanstack/react-query';
 import { useEffect, type ReactNode } from 'react';
 import type { SessionResponse } from '../../shared/schemas/session';
-import { apiGet, requestWithMeta, setCsrfToken } from '../api/client';
-import { sendWrite } from '../api/mutations';
+import { apiGet, setCsrfToken } from '../api/client';
+import { readCurrent, sendWrite } from '../api/mutations';
 import { correctionKeys } from '../queries/correction';
 import { refreshWalkData } from '../queries/walks';
 import { Outbox } from './engine';
@@ -22,7 +22,7 @@ export function OutboxProvider({ userId, children }: { userId: string; children:
     const outbox = new Outbox(userId, {
       storage: defaultOutboxStorage(),
       send: (write) => sendWrite(write),
-      read: (path) => requestWithMeta<unknown>('GET', path),
+      read: (path) => readCurrent<unknown>(path),
       signedInUser: async () => {
         const session = await apiGet<SessionResponse>('/api/session');
         setCsrfToken(session.csrfToken);

@@ -5,7 +5,8 @@
  */
 import { useSyncExternalStore } from 'react';
 import { sendWrite, type Write } from '../api/mutations';
-import type { Outbox, OutboxSnapshot, Queued, WriteMeta } from './engine';
+import { describeWrite } from './describe';
+import type { Outbox, OutboxSnapshot, Queued } from './engine';
 import type { OutboxItem } from './storage';
 
 export { isQueued, type Queued, type WriteMeta } from './engine';
@@ -22,9 +23,20 @@ export function currentOutbox(): Outbox | null {
   return current;
 }
 
-/** Keeps the write in the outbox and sends it: the server's answer, or Queued when it waits. */
-export function submitWrite<T>(write: Write, meta: WriteMeta): Promise<T | Queued> {
-  return current ? current.submit<T>(write, meta) : sendWrite<T>(write);
+const labels = new WeakMap<Write, string>();
+
+/** Names what a write is about on the sync screen ("unit IU-L3-04"); returns the same write. */
+export function labelWrite(write: Write, label: string): Write {
+  labels.set(write, label);
+  return write;
+}
+
+/**
+ * Keeps the write in the outbox and sends it: the server's answer, or Queued when it waits.
+ * `label` names what it is about on the sync screen ("unit IU-L3-04", "#214").
+ */
+export function submitWrite<T>(write: Write, label?: string): Promise<T | Queued> {
+  return current ? current.submit<T>(write, describeWrite(write, label ?? labels.get(write))) : sendWrite<T>(write);
 }
 
 const EMPTY: OutboxSnapshot = { loaded: false, items: [], sent: [], status: 'idle' };

@@ -31,7 +31,7 @@ export interface KeptWrite {
 export type OutboxState = 'waiting' | 'sending' | 'attention';
 
 /** What kind of work a write is, for the words on the screen and the screens it refreshes. */
-export type OutboxKind = 'check' | 'finding' | 'fix' | 'reinspection' | 'change' | 'comment' | 'pin' | 'walk' | 'other';
+export type OutboxKind = 'check' | 'finding' | 'fix' | 'reinspection' | 'change' | 'comment' | 'pin' | 'photos' | 'walk' | 'other';
 
 export interface OutboxItem {
   id: string;

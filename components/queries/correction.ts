@@ -22,6 +22,7 @@ import type {
 import { apiGet } from '../api/client';
 import { jobPath, queryString, versionTag } from '../api/lists';
 import { newWrite, sendWrite, type Write } from '../api/mutations';
+import { isQueued, submitWrite } from '../outbox';
 import { findingKeys, type UploadPhoto } from './findings';
 import { refreshWalkData, walkKeys } from './walks';
 
@@ -96,11 +97,15 @@ export function useAddFindingPhotosMutation(jobId: string, findingId: string) {
   });
 }
 
+/** Fixes, re-inspections, changes and comments are kept in the outbox first (no signal), then sent. */
 export function useSubmitFixMutation(jobId: string, findingId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (write: Write) => sendWrite<FixDetail>(write),
-    onSuccess: (res) => queryClient.setQueryData(findingKeys.detail(jobId, findingId), res.finding),
+    networkMode: 'always',
+    mutationFn: (write: Write) => submitWrite<FixDetail>(write),
+    onSuccess: (res) => {
+      if (!isQueued(res)) queryClient.setQueryData(findingKeys.detail(jobId, findingId), res.finding);
+    },
     onSettled: () => refreshAfterChange(queryClient, jobId),
   });
 }
@@ -123,8 +128,11 @@ export function findingChangeWrite(jobId: string, findingId: string, version: nu
 export function useFindingWriteMutation(jobId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (write: Write) => sendWrite<FindingDetail>(write),
-    onSuccess: (f) => queryClient.setQueryData(findingKeys.detail(jobId, f.id), f),
+    networkMode: 'always',
+    mutationFn: (write: Write) => submitWrite<FindingDetail>(write),
+    onSuccess: (f) => {
+      if (!isQueued(f)) queryClient.setQueryData(findingKeys.detail(jobId, f.id), f);
+    },
     onSettled: () => refreshAfterChange(queryClient, jobId),
   });
 }
@@ -136,7 +144,8 @@ export function commentWrite(jobId: string, findingId: string, input: CommentInp
 export function useAddCommentMutation(jobId: string, findingId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (write: Write) => sendWrite<FindingEventDto>(write),
+    networkMode: 'always',
+    mutationFn: (write: Write) => submitWrite<FindingEventDto>(write),
     onSettled: () =>
       Promise.all([
         queryClient.invalidateQueries({ queryKey: correctionKeys.comments(jobId, findingId) }),

@@ -2,7 +2,9 @@ import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tansta
 import type { CreateFindingInput, FindingDetail, FindingListQuery, FindingListResponse } from '../../shared/schemas/findings';
 import { apiGet } from '../api/client';
 import { jobPath, queryString } from '../api/lists';
-import { newWrite, sendWrite, type Write } from '../api/mutations';
+import { newClientId, newWrite, type Write } from '../api/mutations';
+import { bodyJson } from '../outbox/describe';
+import { isQueued, labelWrite, submitWrite, type Queued } from '../outbox';
 import { refreshWalkData, walkKeys } from './walks';
 
 /** The list's filters as the screen holds them (status and severity as comma lists, like the API). */
@@ -47,26 +49,62 @@ export interface UploadPhoto {
 
 /**
  * The write that logs a finding: JSON without photos, else multipart with `data` (the JSON) and
- * `photos`. Made once per press of "Log finding" so a retry reuses its Idempotency-Key.
+ * `photos`. Made once per press of "Log finding" so a retry reuses its Idempotency-Key. The
+ * finding's id is made here, on the phone: a fix, a pin or photos queued after it (no signal) name
+ * it before it reaches the server, and the server makes it once whatever happens to the key.
  */
-export function createFindingWrite(jobId: string, input: CreateFindingInput, photos: readonly UploadPhoto[]): Write {
+export function createFindingWrite(jobId: string, input: CreateFindingInput, photos: readonly UploadPhoto[], where?: string): Write {
   const path = jobPath(jobId, 'findings');
-  if (photos.length === 0) return newWrite({ method: 'POST', path, body: input });
+  const body: CreateFindingInput = { ...input, id: input.id ?? newClientId() };
+  const named = (write: Write) => (where ? labelWrite(write, where) : write);
+  if (photos.length === 0) return named(newWrite({ method: 'POST', path, body }));
   const form = new FormData();
-  form.append('data', JSON.stringify(input));
+  form.append('data', JSON.stringify(body));
   for (const p of photos) {
     if (p.blob) form.append('photos', p.blob, p.name);
     // React Native's FormData takes a { uri, name, type } file descriptor in place of a Blob.
     else form.append('photos', { uri: p.uri, name: p.name, type: p.type } as unknown as Blob);
   }
-  return newWrite({ method: 'POST', path, body: form });
+  return named(newWrite({ method: 'POST', path, body: form }));
 }
 
+/** A finding kept on the phone, not on the server yet: its id (made on the phone) and what the form knew. */
+export interface QueuedFinding extends Queued {
+  id: string;
+  /** Shown where the server's number would be. */
+  label: string;
+  /** The defect type's id as sent ('' for "Something else", which has none). */
+  catalogueItemId: string;
+  /** Not known on the phone (''): the server gives the type's code. */
+  code: string;
+  /** "Something else": the title as typed. */
+  title: string | null;
+}
+
+/** What logging a finding answers: the finding as the server holds it, or the one waiting to send. */
+export type LoggedFinding = FindingDetail | QueuedFinding;
+
+/** Kept in the outbox first (works with no signal), then sent; see components/outbox. */
 export function useCreateFindingMutation(jobId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (write: Write) => sendWrite<FindingDetail>(write),
-    onSuccess: (finding) => queryClient.setQueryData(findingKeys.detail(jobId, finding.id), finding),
+    networkMode: 'always',
+    mutationFn: async (write: Write): Promise<LoggedFinding> => {
+      const answer = await submitWrite<FindingDetail>(write);
+      if (!isQueued(answer)) return answer;
+      const body = bodyJson(write);
+      return {
+        ...answer,
+        id: typeof body?.id === 'string' ? body.id : '',
+        label: '(waiting to send)',
+        catalogueItemId: typeof body?.catalogueItemId === 'string' ? body.catalogueItemId : '',
+        code: '',
+        title: typeof body?.title === 'string' ? body.title : null,
+      };
+    },
+    onSuccess: (finding) => {
+      if (!isQueued(finding)) queryClient.setQueryData(findingKeys.detail(jobId, finding.id), finding);
+    },
     onSettled: () => refreshWalkData(queryClient, jobId),
   });
 }

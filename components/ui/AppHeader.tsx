@@ -1,5 +1,8 @@
 import { Link } from 'expo-router';
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
+import { currentOutbox } from '../outbox';
+import { OfflineBanner, OutboxCountLink, SignOutConfirm } from '../outbox/HeaderParts';
 import { useSessionQuery, useSignOutMutation } from '../queries/session';
 import { colors, contentMaxWidth, space } from '../theme';
 import { AppText } from './AppText';
@@ -11,6 +14,12 @@ export function AppHeader() {
   const session = useSessionQuery();
   const signOut = useSignOutMutation();
   const user = session.data?.user;
+  // Work not sent yet: signing out asks first (it is kept unless discarded explicitly).
+  const [asking, setAsking] = useState(false);
+  const requestSignOut = () => {
+    if ((currentOutbox()?.snapshot().items.length ?? 0) > 0) setAsking(true);
+    else signOut.mutate();
+  };
   return (
     <View style={styles.bar} testID="app-header">
       <View style={styles.inner}>
@@ -18,6 +27,7 @@ export function AppHeader() {
           <Wordmark compact />
         </Link>
         <View style={styles.right}>
+          <OutboxCountLink />
           {user ? (
             <View style={styles.who}>
               <AppText variant="label" numberOfLines={1} testID="header-user-name">
@@ -40,10 +50,18 @@ export function AppHeader() {
             label="Sign out"
             tone="quiet"
             busy={signOut.isPending}
-            onPress={() => signOut.mutate()}
+            onPress={requestSignOut}
           />
         </View>
       </View>
+      {asking ? (
+        <SignOutConfirm
+          busy={signOut.isPending}
+          onCancel={() => setAsking(false)}
+          onSignOut={() => signOut.mutate(undefined, { onSettled: () => setAsking(false) })}
+        />
+      ) : null}
+      <OfflineBanner />
     </View>
   );
 }

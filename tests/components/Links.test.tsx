@@ -42,7 +42,7 @@ describe('links', () => {
     expect(links.readiness(JOB)).toBe(`/jobs/${JOB}/readiness`);
     expect(links.readiness(JOB, LEVEL)).toBe(`/jobs/${JOB}/readiness?systemId=${LEVEL}`);
     expect(links.newFinding(JOB, { levelId: LEVEL })).toBe(`/jobs/${JOB}/findings/new?levelId=${LEVEL}`);
-    expect([links.home(), links.signIn(), links.inbox(), links.newJob()]).toEqual(['/', '/sign-in', '/inbox', '/jobs/new']);
+    expect([links.home(), links.signIn(), links.inbox(), links.newJob(), links.sync()]).toEqual(['/', '/sign-in', '/inbox', '/jobs/new', '/sync']);
   });
 
   it('writes the findings filters in one order, leaving out empty ones', () => {
@@ -90,7 +90,7 @@ describe('one place, one way', () => {
   const files = [...sources('app'), ...sources('components')];
 
   it('builds no in-app address outside components/links.ts', () => {
-    const inline = /['"`]\/(jobs|sign-in|sign-up|forgot-password|preferences|inbox|mailbox)\b|href="\/|pathname:\s*['"]\/|router\.(push|replace|navigate)\(\s*['"`]/;
+    const inline = /['"`]\/(jobs|sign-in|sign-up|forgot-password|preferences|inbox|sync|mailbox)\b|href="\/|pathname:\s*['"]\/|router\.(push|replace|navigate)\(\s*['"`]/;
     const found = files.filter(([p]) => p !== 'components/links.ts').flatMap(([p, t]) => hits(p, t, inline));
     expect(found).toEqual([]);
   });

@@ -1,0 +1,5 @@
+import { SyncScreen } from '../../components/outbox/SyncScreen';
+
+export default function SyncRoute() {
+  return <SyncScreen />;
+}

@@ -1,0 +1,88 @@
+/**
+ * What a write is, read from its address and body, so the outbox takes any Write made with newWrite:
+ * its job, its kind (the words on the sync screen), the record it changes (writes on one record go
+ * in order) and where that record can be read again (to show what the server holds now).
+ */
+import type { Write } from '../api/mutations';
+import type { WriteMeta } from './engine';
+import type { OutboxKind } from './storage';
+
+export const KIND_WORDS: Record<OutboxKind, string> = {
+  check: 'Unit check',
+  finding: 'New finding',
+  fix: 'Fix',
+  reinspection: 'Re-inspection',
+  change: 'Change to a finding',
+  comment: 'Comment',
+  pin: 'Pin on the plan',
+  photos: 'Photos',
+  walk: 'Walk',
+  other: 'Change',
+};
+
+const FINDING_CHANGES: Record<string, string> = {
+  void: 'Void',
+  reopen: 'Reopen',
+  close: 'Close',
+  reassign: 'Reassign',
+  severity: 'Severity',
+  dueOn: 'Due date',
+};
+
+/** The JSON of a write's body: the body itself, or the `data` field of a multipart form. */
+export function bodyJson(write: Write): Record<string, unknown> | null {
+  const b = write.body;
+  if (typeof FormData !== 'undefined' && b instanceof FormData) {
+    const data = b.get('data');
+    if (typeof data !== 'string') return null;
+    try {
+      return JSON.parse(data) as Record<string, unknown>;
+    } catch {
+      return null;
+    }
+  }
+  return b && typeof b === 'object' ? (b as Record<string, unknown>) : null;
+}
+
+const enc = encodeURIComponent;
+
+export function describeWrite(write: Write, label?: string): WriteMeta {
+  const parts = write.path.split('?')[0]!.split('/').filter(Boolean).map(decodeURIComponent);
+  // ['api', 'jobs', jobId, resource, id?, sub?]
+  const jobId = parts[0] === 'api' && parts[1] === 'jobs' ? (parts[2] ?? '') : '';
+  const [resource, id, sub] = [parts[3], parts[4], parts[5]];
+  const job = `/api/jobs/${enc(jobId)}`;
+  const findingMeta = (findingId: string, kind: OutboxKind, words: string): WriteMeta => ({
+    jobId,
+    kind,
+    label: label ? `${words} · ${label}` : words,
+    record: `finding:${findingId}`,
+    readPath: `${job}/findings/${enc(findingId)}`,
+  });
+  if (resource === 'findings' && !id && write.method === 'POST') {
+    const made = bodyJson(write)?.id;
+    if (typeof made === 'string') return findingMeta(made, 'finding', KIND_WORDS.finding);
+    return { jobId, kind: 'finding', label: label ? `${KIND_WORDS.finding} · ${label}` : KIND_WORDS.finding, record: null, readPath: null };
+  }
+  if (resource === 'findings' && id && id !== 'bulk') {
+    if (!sub && write.method === 'PATCH') {
+      const body = bodyJson(write) ?? {};
+      if ('pin' in body) return findingMeta(id, 'pin', KIND_WORDS.pin);
+      const change = Object.keys(body).find((k) => FINDING_CHANGES[k]);
+      return findingMeta(id, 'change', change ? FINDING_CHANGES[change]! : KIND_WORDS.change);
+    }
+    const kind: OutboxKind = sub === 'fixes' ? 'fix' : sub === 'reinspections' ? 'reinspection' : sub === 'comments' ? 'comment' : sub === 'photos' ? 'photos' : 'other';
+    return findingMeta(id, kind, KIND_WORDS[kind]);
+  }
+  if (resource === 'units' && id && sub === 'checks') {
+    return {
+      jobId,
+      kind: 'check',
+      label: label ? `${KIND_WORDS.check} · ${label}` : KIND_WORDS.check,
+      record: `unit:${id}`,
+      readPath: `${job}/units/${enc(id)}/checks`,
+    };
+  }
+  if (resource === 'walks') return { jobId, kind: 'walk', label: label ? `${KIND_WORDS.walk} · ${label}` : KIND_WORDS.walk, record: write.path, readPath: null };
+  return { jobId, kind: 'other', label: label ?? KIND_WORDS.other, record: write.path, readPath: null };
+}
