@@ -1,7 +1,8 @@
 /**
  * The correction loop's reads and writes: the subcontractor's inbox, the re-inspection queue,
  * fixes, re-inspections, changes to a finding (PATCH with If-Match), comments and bulk changes.
- * Every write goes through sendWrite(newWrite(...)); the write object is made once per press.
+ * Every write is made once per press with newWrite(...); the field writes (fixes, photos, re-inspections,
+ * changes, comments) go through the outbox (kept on the phone first, sent after: components/outbox).
  */
 import { useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type {
@@ -91,8 +92,11 @@ export function addFindingPhotosWrite(jobId: string, findingId: string, input: A
 export function useAddFindingPhotosMutation(jobId: string, findingId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (write: Write) => sendWrite<FindingDetail>(write),
-    onSuccess: (f) => queryClient.setQueryData(findingKeys.detail(jobId, findingId), f),
+    networkMode: 'always',
+    mutationFn: (write: Write) => submitWrite<FindingDetail>(write),
+    onSuccess: (f) => {
+      if (!isQueued(f)) queryClient.setQueryData(findingKeys.detail(jobId, findingId), f);
+    },
     onSettled: () => refreshAfterChange(queryClient, jobId),
   });
 }

@@ -10,6 +10,7 @@ import type { FindingDetail, FindingDto } from '../../shared/schemas/findings';
 import type { LevelDto, UnitDto } from '../../shared/schemas/setup';
 import { fetchAll, jobPath, versionTag } from '../api/lists';
 import { newWrite, sendWrite, type Write } from '../api/mutations';
+import { isQueued, submitWrite, type Queued } from '../outbox';
 import { findingChangeWrite } from './correction';
 import { setupKeys } from './setupKeys';
 import { walkKeys } from './walks';
@@ -92,9 +93,11 @@ export type PinTarget = { kind: 'finding'; item: FindingDto } | { kind: 'unit'; 
 export function usePlacePinMutation(jobId: string, levelId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: ({ target, pin }: { target: PinTarget; pin: Pin | null }): Promise<FindingDetail | UnitDto> =>
+    // A finding's pin is field work: kept in the outbox first (no signal), sent after.
+    networkMode: 'always',
+    mutationFn: ({ target, pin }: { target: PinTarget; pin: Pin | null }): Promise<FindingDetail | UnitDto | Queued> =>
       target.kind === 'finding'
-        ? sendWrite<FindingDetail>(findingChangeWrite(jobId, target.item.id, target.item.version, { pin }))
+        ? submitWrite<FindingDetail>(findingChangeWrite(jobId, target.item.id, target.item.version, { pin }))
         : sendWrite<UnitDto>(
             newWrite({
               method: 'PATCH',
@@ -104,6 +107,7 @@ export function usePlacePinMutation(jobId: string, levelId: string) {
             }),
           ),
     onSuccess: (saved, { target }) => {
+      if (isQueued(saved)) return;
       // Show the new pin at once; the refetch below confirms it.
       queryClient.setQueryData<PlanPins>(planKeys.pins(jobId, levelId), (old) => {
         if (!old) return old;
