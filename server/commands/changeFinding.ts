@@ -107,42 +107,35 @@ export const severityStep = settingStep('severity', 'change_severity', 'severity
 
 export const dueOnStep = settingStep('dueOn', 'change_due', 'due_changed', (f) => `The finding is already due on ${f.dueOn}.`, 'That is the due date already.');
 
-type VoidInput = NonNullable<FindingChange['void']>;
+/**
+ * A move of the status machine with an event and the words given: voiding and reopening take a
+ * reason, closing on a walk an optional note. `also` sets what the move keeps beside the status.
+ */
+function moveStep<K extends 'void' | 'reopen' | 'close'>(
+  action: FindingAction,
+  eventType: 'voided' | 'reopened' | 'closed_on_walk',
+  words: (input: NonNullable<FindingChange[K]>) => string | null | undefined,
+  also?: (finding: Finding, input: NonNullable<FindingChange[K]>) => void,
+): ChangeStep<NonNullable<FindingChange[K]>, NonNullable<FindingChange[K]>> {
+  return {
+    decide: byAction(action),
+    prepare: async (_ctx, input) => input,
+    async apply(ctx, finding, input, to) {
+      await event(ctx, finding, eventType, { status: finding.status }, { status: to }, words(input));
+      finding.status = to;
+      also?.(finding, input);
+      return true;
+    },
+  };
+}
 
-export const voidStep: ChangeStep<VoidInput, VoidInput> = {
-  decide: byAction('void'),
-  prepare: async (_ctx, input) => input,
-  async apply(ctx, finding, input, to) {
-    await event(ctx, finding, 'voided', { status: finding.status }, { status: to }, input.reason);
-    finding.status = to;
-    finding.voidedReason = input.reason;
-    return true;
-  },
-};
+export const voidStep = moveStep<'void'>('void', 'voided', (input) => input.reason, (finding, input) => {
+  finding.voidedReason = input.reason;
+});
 
-type ReopenInput = NonNullable<FindingChange['reopen']>;
+export const reopenStep = moveStep<'reopen'>('reopen', 'reopened', (input) => input.reason);
 
-export const reopenStep: ChangeStep<ReopenInput, ReopenInput> = {
-  decide: byAction('reopen'),
-  prepare: async (_ctx, input) => input,
-  async apply(ctx, finding, input, to) {
-    await event(ctx, finding, 'reopened', { status: finding.status }, { status: to }, input.reason);
-    finding.status = to;
-    return true;
-  },
-};
-
-type CloseInput = NonNullable<FindingChange['close']>;
-
-export const closeStep: ChangeStep<CloseInput, CloseInput> = {
-  decide: byAction('close'),
-  prepare: async (_ctx, input) => input,
-  async apply(ctx, finding, input, to) {
-    await event(ctx, finding, 'closed_on_walk', { status: finding.status }, { status: to }, input.note || null);
-    finding.status = to;
-    return true;
-  },
-};
+export const closeStep = moveStep<'close'>('close', 'closed_on_walk', (input) => input.note || null);
 
 type PinInput = FindingChange['pin'];
 
