@@ -6,6 +6,7 @@ import { MAX_PHOTOS_PER_REQUEST } from '../../shared/rules/photos';
 import { addFindingPhotosSchema, NOTE_MAX, type AddFindingPhotosInput, type FindingDetail } from '../../shared/schemas/findings';
 import { FIX_AND_REINSPECTION_WORDS, PHOTO_STAGE_LABELS } from '../../shared/words';
 import { writeErrorMessage } from '../api/writeErrors';
+import { isQueued } from '../outbox';
 import type { PickedPhoto } from '../findings/PhotoPicker.types';
 import { addFindingPhotosWrite, useAddFindingPhotosMutation } from '../queries/correction';
 import { AppText } from '../ui/AppText';
@@ -35,7 +36,7 @@ export const addPhotosResolver = withFormOnly<AddFindingPhotosInput, unknown, z.
 export function AddPhotosForm({ jobId, finding, onStale, testID = 'add-photos' }: { jobId: string; finding: FindingDetail; onStale: () => void; testID?: string }) {
   const add = useAddFindingPhotosMutation(jobId, finding.id);
   const [slot] = useState(() => new ActionWrite());
-  const [added, setAdded] = useState<number | null>(null);
+  const [added, setAdded] = useState<{ count: number; waiting: boolean } | null>(null);
   const room = photoRoom(finding);
   const { control, handleSubmit, setError, reset, watch, formState } = useForm<Values, unknown, Parsed>({
     resolver: addPhotosResolver,
@@ -50,9 +51,9 @@ export function AddPhotosForm({ jobId, finding, onStale, testID = 'add-photos' }
   const send = handleSubmit(({ photos, note }) => {
     const write = slot.take(() => addFindingPhotosWrite(jobId, finding.id, note ? { note } : {}, photos));
     add.mutate(write, {
-      onSuccess: () => {
+      onSuccess: (answer) => {
         slot.settled();
-        setAdded(photos.length);
+        setAdded({ count: photos.length, waiting: isQueued(answer) });
         reset({ note: '', photos: [] });
       },
       onError: (err) => {
@@ -71,8 +72,8 @@ export function AddPhotosForm({ jobId, finding, onStale, testID = 'add-photos' }
         {FIX_AND_REINSPECTION_WORDS.addPhotos}
       </AppText>
       {added ? (
-        <Notice tone="success" testID={`${testID}-done`}>
-          {added === 1 ? '1 photo added' : `${added} photos added`} to {finding.label}.
+        <Notice tone={added.waiting ? 'info' : 'success'} testID={`${testID}-done`}>
+          {added.count === 1 ? '1 photo' : `${added.count} photos`} {added.waiting ? 'waiting to send' : 'added'} to {finding.label}.
         </Notice>
       ) : null}
       {room === 0 ? (
