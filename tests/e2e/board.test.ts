@@ -8,9 +8,10 @@
  */
 import { Op, type WhereOptions } from 'sequelize';
 import type { Page } from 'playwright-core';
-import { Company, Finding, Job, Level } from '../../server/models';
+import { Company, Finding, Level } from '../../server/models';
 import { DEMO_ACCOUNTS, DEMO_COMPANIES, DEMO_PASSWORD, seedDemo } from '../../server/seed/demo';
 import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
+import { demoJob } from '../support/demo';
 
 jest.setTimeout(300_000);
 
@@ -24,8 +25,7 @@ const mechanical = DEMO_ACCOUNTS.find((a) => a.company === 'mechanical')!;
 beforeAll(async () => {
   h = await startBrowserHarness();
   await seedDemo(h.db);
-  const job = await Job.findOne({ where: { name: 'Cinder Lane Commons' } });
-  if (!job) throw new Error('The demo job is missing.');
+  const job = await demoJob();
   jobId = job.id;
   // Today in the job's time zone, as the board judges "overdue".
   today = new Intl.DateTimeFormat('en-CA', { timeZone: job.timeZone || 'UTC', year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date());

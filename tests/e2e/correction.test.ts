@@ -9,11 +9,12 @@
 import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
 import type { Page } from 'playwright-core';
-import { CatalogueItem, Company, Job, JobCompany } from '../../server/models';
+import { CatalogueItem, Company, JobCompany } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_COMPANIES, DEMO_PASSWORD } from '../../server/seed/demo';
 import { buildLevel, buildSpace, buildUnit, copyCatalogue } from '../support/factories';
 import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
+import { demoJob } from '../support/demo';
 
 jest.setTimeout(300_000);
 
@@ -32,8 +33,7 @@ const mechanical = DEMO_ACCOUNTS.find((a) => a.company === 'mechanical')!;
 const gc = DEMO_ACCOUNTS.find((a) => a.role === 'gc_manager')!;
 
 async function setUp() {
-  const job = await Job.findOne({ where: { name: 'Cinder Lane Commons' } });
-  if (!job) throw new Error('The demo job is missing.');
+  const job = await demoJob();
   jobId = job.id;
   if ((await CatalogueItem.count({ where: { jobId } })) === 0) await copyCatalogue(jobId);
   // The mechanical subcontractor covers the mechanical trade (the finding form suggests it).

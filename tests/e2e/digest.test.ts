@@ -6,10 +6,11 @@
  * the preferences then show the digest off. Screenshots go to .artifacts/screenshots.
  */
 import { QueryTypes } from 'sequelize';
-import { Job, User } from '../../server/models';
+import { User } from '../../server/models';
 import { DEMO_PASSWORD, seedDemo } from '../../server/seed/demo';
 import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { linkTo, startFakeSmtp, type FakeSmtp } from '../support/mail';
+import { demoJob } from '../support/demo';
 
 jest.setTimeout(240_000);
 
@@ -31,7 +32,7 @@ afterAll(async () => {
 });
 
 it('send me a digest now → caught mail → finding link → unsubscribe link → preferences show off', async () => {
-  const job = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!;
+  const job = (await demoJob());
   const { page, problems } = await h.newPage(PHONE);
   const fail = async (name: string, err: unknown) => {
     await h.screenshot(page, `digest-${name}-failed`);

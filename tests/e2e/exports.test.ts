@@ -7,9 +7,9 @@
 import fs from 'node:fs';
 import { parse } from 'csv-parse/sync';
 import type { Page } from 'playwright-core';
-import { Job } from '../../server/models';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedDemo } from '../../server/seed/demo';
 import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
+import { demoJob } from '../support/demo';
 
 jest.setTimeout(300_000);
 
@@ -20,7 +20,7 @@ const gc = DEMO_ACCOUNTS.find((a) => a.role === 'gc_manager')!;
 beforeAll(async () => {
   h = await startBrowserHarness();
   await seedDemo(h.db);
-  jobId = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!.id;
+  jobId = (await demoJob()).id;
 });
 afterAll(async () => {
   await h?.close();

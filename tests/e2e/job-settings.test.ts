@@ -11,6 +11,7 @@ import type { Page } from 'playwright-core';
 import { Job } from '../../server/models';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedDemo } from '../../server/seed/demo';
 import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
+import { demoJob } from '../support/demo';
 
 jest.setTimeout(300_000);
 
@@ -22,8 +23,7 @@ const inspector = DEMO_ACCOUNTS.find((a) => a.role === 'inspector')!;
 beforeAll(async () => {
   h = await startBrowserHarness();
   await seedDemo(h.db);
-  const job = await Job.findOne({ where: { name: 'Cinder Lane Commons' } });
-  if (!job) throw new Error('The demo job is missing.');
+  const job = await demoJob();
   jobId = job.id;
   // Start from the defaults whatever an earlier run left (2/7/14 days; 3 units and 10 %).
   await job.update({ severityDueDays: { critical: 2, major: 7, minor: 14 }, recurringThresholds: { minUnits: 3, minShare: 0.1 }, version: job.version + 1 });

@@ -8,10 +8,11 @@
 import sharp from 'sharp';
 import { QueryTypes } from 'sequelize';
 import type { Page } from 'playwright-core';
-import { Finding, Job, Level } from '../../server/models';
+import { Finding, Level } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/seed/demo';
 import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
+import { demoJob } from '../support/demo';
 
 jest.setTimeout(300_000);
 
@@ -44,8 +45,7 @@ beforeAll(async () => {
   s3 = await startFakeS3();
   h = await startBrowserHarness({ objectStore: s3.store });
   await seedDemo(h.db);
-  const job = await Job.findOne({ where: { name: 'Cinder Lane Commons' } });
-  if (!job) throw new Error('The demo job is missing.');
+  const job = await demoJob();
   jobId = job.id;
   // The demo level with the most open findings; its plan and their pins start empty.
   const [row] = await h.db.sequelize.query<{ level_id: string }>(

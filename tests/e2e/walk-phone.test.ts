@@ -7,11 +7,12 @@
 import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
 import { chromium, type Browser, type BrowserContext, type Locator, type Page } from 'playwright-core';
-import { CatalogueItem, Company, Job, JobCompany, UnitModel } from '../../server/models';
+import { CatalogueItem, Company, JobCompany, UnitModel } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_COMPANIES, DEMO_PASSWORD } from '../../server/seed/demo';
 import { buildLevel, buildSpace, buildSystem, buildUnit, copyCatalogue } from '../support/factories';
 import { PHONE, screenshotsDir, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
+import { demoJob } from '../support/demo';
 
 jest.setTimeout(240_000);
 
@@ -32,8 +33,7 @@ beforeAll(async () => {
   s3 = await startFakeS3();
   h = await startBrowserHarness({ objectStore: s3.store });
   await seedDemo(h.db);
-  const job = await Job.findOne({ where: { name: 'Cinder Lane Commons' } });
-  if (!job) throw new Error('The demo job is missing.');
+  const job = await demoJob();
   jobId = job.id;
   if ((await CatalogueItem.count({ where: { jobId } })) === 0) await copyCatalogue(jobId);
   const mechanical = await Company.findOne({ where: { name: DEMO_COMPANIES.mechanical } });

@@ -7,12 +7,13 @@
 import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
 import { chromium, type Page } from 'playwright-core';
-import { CatalogueItem, Company, Job, JobCompany, Unit, UnitModel } from '../../server/models';
+import { CatalogueItem, Company, JobCompany, Unit, UnitModel } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_COMPANIES, DEMO_PASSWORD } from '../../server/seed/demo';
 import type { TradeKey } from '../../shared/words';
 import { buildLevel, buildSpace, buildSystem, buildUnit, copyCatalogue } from '../support/factories';
 import { PHONE, WIDE, screenshotsDir, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
+import { demoJob } from '../support/demo';
 
 jest.setTimeout(240_000);
 
@@ -26,8 +27,7 @@ let levelId = '';
 
 /** The demo job, with a level of our own: three cassettes of a model whose pump lift is rated 30 in. */
 async function setUpLevel() {
-  const job = await Job.findOne({ where: { name: 'Cinder Lane Commons' } });
-  if (!job) throw new Error('The demo job is missing.');
+  const job = await demoJob();
   jobId = job.id;
   if ((await CatalogueItem.count({ where: { jobId } })) === 0) await copyCatalogue(jobId);
   // The companies the finding form suggests from a defect type's trade.
