@@ -38,7 +38,8 @@ export function OutboxCountLink() {
   const n = snap.items.length;
   if (n === 0) return null;
   const attention = snap.items.filter((i) => i.state === 'attention').length;
-  const words = attention ? `${attention} need${attention === 1 ? 's' : ''} attention · ${waitingWords(n - attention)}` : waitingWords(n);
+  const needs = `${attention} need${attention === 1 ? 's' : ''} attention`;
+  const words = attention ? (n > attention ? `${needs} · ${waitingWords(n - attention)}` : needs) : waitingWords(n);
   return (
     <Link href={links.sync()} accessibilityLabel={`${words}: open the list`} testID="header-outbox" style={[styles.count, attention ? styles.countAttention : null]}>
       <AppText variant="label" style={attention ? styles.countAttentionText : styles.countText}>
