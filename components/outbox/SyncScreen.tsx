@@ -21,6 +21,7 @@ import type { OutboxItem } from './storage';
 const STATE_WORDS: Record<OutboxItem['state'], string> = { waiting: 'Waiting to send', sending: 'Sending', attention: 'Needs attention' };
 
 function megabytes(bytes: number): string {
+  if (bytes < 1_000_000) return `${Math.max(bytes ? 1 : 0, Math.round(bytes / 1000))} KB`;
   return `${(bytes / 1_000_000).toFixed(bytes < 10_000_000 ? 1 : 0)} MB`;
 }
 
@@ -115,8 +116,8 @@ export function SyncScreen() {
         <AppText muted testID="sync-summary">
           {snap.items.length === 0
             ? 'Everything saved on this phone has reached Trimout.'
-            : `${waitingWords(snap.items.length)}${attention.length ? `, ${attention.length} of them need${attention.length === 1 ? 's' : ''} attention` : ''}. ${
-                online ? (snap.status === 'signed-out' ? 'Sign in again to send them.' : 'They are sent in the order they were saved.') : 'No signal: they are sent when it is back.'
+            : `${[others.length ? waitingWords(others.length) : '', attention.length ? `${attention.length} need${attention.length === 1 ? 's' : ''} attention` : ''].filter(Boolean).join(', ')}. ${
+                online ? (snap.status === 'signed-out' ? 'Sign in again to send them.' : 'Work is sent in the order it was saved.') : 'No signal: it is sent when the signal is back.'
               }`}
         </AppText>
         <AppText variant="small" muted testID="sync-storage">

@@ -44,6 +44,15 @@ function countWords(items: readonly OutboxItem[]): string {
 
 const STATE_WORDS: Record<OutboxItem['state'], string> = { waiting: 'waiting to send', sending: 'sending', attention: 'needs attention' };
 
+/**
+ * The words after saving a unit check: "saved" once it is on the server, "saved on this phone,
+ * waiting to send" while it is kept in the outbox (nothing pretends to be on the server).
+ */
+export function useSavedCheckWords(jobId: string, tag: string | undefined): string {
+  const waiting = useWaitingItems(jobId).some((i) => i.kind === 'check' && tag !== undefined && i.label.endsWith(`Unit ${tag}`));
+  return waiting ? `Unit check of ${tag} saved on this phone, waiting to send.` : `Unit check of ${tag} saved.`;
+}
+
 /** A unit's kept work: "Waiting to send: 1 unit check, 2 findings". Nothing when there is none. */
 export function UnitWaiting({ jobId, unitId, testID }: { jobId: string; unitId: string; testID?: string }) {
   const mine = useWaitingItems(jobId).filter((i) => itemUnitId(i) === unitId);

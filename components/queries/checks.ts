@@ -46,7 +46,7 @@ export function useUnitModelQuery(jobId: string, modelId: string | null | undefi
 /** The write that records a unit check; made once per press of "Save" so a retry reuses its key. */
 export function recordCheckWrite(jobId: string, unitId: string, input: RecordCheckInput, unitTag?: string): Write {
   const write = newWrite({ method: 'POST', path: jobPath(jobId, 'units', unitId, 'checks'), body: input });
-  return unitTag ? labelWrite(write, `unit ${unitTag}`) : write;
+  return unitTag ? labelWrite(write, `Unit ${unitTag}`) : write;
 }
 
 /**

@@ -1,7 +1,7 @@
 import { unitKindLabel } from '../../shared/words';
 import { links } from '../links';
 import { Link } from 'expo-router';
-import { LevelWaiting, UnitWaiting } from '../outbox/Waiting';
+import { LevelWaiting, UnitWaiting, useSavedCheckWords } from '../outbox/Waiting';
 import { LevelPlanLink } from '../plans/PlanPinLink';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
@@ -78,6 +78,7 @@ export function InspectorsOnly({ jobId }: { jobId: string }) {
 function LevelWalkBody({ job, levelId, levelName, saved }: { job: JobDetail; levelId: string; levelName: string; saved?: string }) {
   const [filters, setFilters] = useState<WalkUnitFilters>({});
   const units = useWalkUnitsQuery(job.id, levelId, filters);
+  const savedWords = useSavedCheckWords(job.id, saved);
   const spaces = useSpacesQuery(job.id, levelId);
   const systems = useSystemsQuery(job.id);
   const first = units.data?.pages[0];
@@ -96,7 +97,7 @@ function LevelWalkBody({ job, levelId, levelName, saved }: { job: JobDetail; lev
       </View>
       {saved ? (
         <Notice tone="success" testID="level-walk-saved">
-          {`Unit check of ${saved} saved.`}
+          {savedWords}
         </Notice>
       ) : null}
       {first ? <CoverageCard coverage={first.coverage} /> : null}

@@ -1,7 +1,7 @@
 import { unitKindLabel } from '../../shared/words';
 import { links } from '../links';
 import { useRouter } from 'expo-router';
-import { UnitWaiting } from '../outbox/Waiting';
+import { UnitWaiting, useSavedCheckWords } from '../outbox/Waiting';
 import { PlanPinLink } from '../plans/PlanPinLink';
 import { useEffect, useMemo, useRef, useState, type ReactNode, type Ref } from 'react';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
@@ -152,6 +152,7 @@ function UnitCheckBody({
 }) {
   const router = useRouter();
   const openWalk = useOpenWalkQuery(job.id, unit.levelId, userId);
+  const savedWords = useSavedCheckWords(job.id, saved);
   const order = useWalkOrderQuery(job.id, unit.levelId);
   const record = useRecordCheckMutation(job.id);
   const canCheck = job.role === 'inspector' || job.role === 'gc_manager';
@@ -486,7 +487,7 @@ function UnitCheckBody({
       <UnitWaiting jobId={job.id} unitId={unit.id} testID="unit-check-waiting" />
       {saved ? (
         <Notice tone="success" testID="unit-check-saved">
-          {`Unit check of ${saved} saved.`}
+          {savedWords}
         </Notice>
       ) : null}
       {offer ? (
