@@ -16,6 +16,8 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { FindingStatus, Severity } from '../../shared/words';
 import { todayIn } from '../../shared/rules/dates';
+import { isOverdue } from '../../shared/rules/due';
+import { overdueSql } from '../services/findingQueries';
 import { newRecurring, type NewRecurring } from './recurring';
 
 export type DigestPeriod = 'daily' | 'weekly';
@@ -165,7 +167,7 @@ export async function companyFindings(
       severity: r.severity,
       status: r.status,
       dueOn: r.due_on,
-      overdue: r.due_on < today,
+      overdue: isOverdue({ status: r.status, dueOn: r.due_on }, today),
       levelName: r.level_name,
       spaceName: r.space_name,
       unitTag: r.unit_tag,
@@ -218,7 +220,7 @@ export async function overdueByCompany(sequelize: Sequelize, jobId: string, toda
   const rows = await sequelize.query<{ company_id: string; name: string; overdue: number }>(
     `SELECT c.id AS company_id, c.name, count(*)::int AS overdue
        FROM findings f JOIN companies c ON c.id = f.company_id
-      WHERE f.job_id = $1 AND f.status IN ('open', 'fix_submitted') AND f.due_on < $2::date
+      WHERE f.job_id = $1 AND ${overdueSql('$2::date')}
       GROUP BY c.id, c.name
       ORDER BY count(*) DESC, c.name`,
     { bind: [jobId, today], type: QueryTypes.SELECT },

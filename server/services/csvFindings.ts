@@ -16,7 +16,7 @@ import { findingLabel, type FindingSort } from '../../shared/schemas/findings';
 import { FINDING_STATUS_LABELS, SEVERITY_LABELS, UNIT_KINDS, type FindingStatus, type Severity, type UnitKindKey } from '../../shared/words';
 import type { CsvCell } from './csvSafe';
 import type { CsvQuery } from './csvStream';
-import { FROM_SQL, orderBySql, Params, whereSql, type FindingFilters, type FindingScope } from './findingQueries';
+import { FROM_SQL, orderBySql, overdueSql, Params, whereSql, type FindingFilters, type FindingScope } from './findingQueries';
 import { todayIn } from '../../shared/rules/dates';
 
 export const FINDINGS_CSV_HEADER = [
@@ -99,7 +99,7 @@ export function findingsCsvSql(scope: FindingScope, filters: FindingFilters, sor
          sy.name AS system_name, ci.code, coalesce(f.title, ci.title) AS title, f.severity, f.status, c.name AS company_name,
          lb.name AS logged_by_name, ${iso('f.logged_at')} AS logged_at, to_char(f.due_on, 'YYYY-MM-DD') AS due_on,
          (COALESCE((closing.at AT TIME ZONE ${tz})::date, ${today}) - (f.logged_at AT TIME ZONE ${tz})::date) AS days_open,
-         (f.due_on < ${today} AND f.status IN ('open', 'fix_submitted')) AS overdue,
+         ${overdueSql(today)} AS overdue,
          ${iso('lastfix.at')} AS last_fix_at,
          ru.name AS reinspected_by, ${iso('ri.at')} AS reinspected_at,
          f.return_count, f.measured_text, f.rule_result, ci.measured_rule->>'quantity' AS quantity,

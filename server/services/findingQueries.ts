@@ -22,6 +22,14 @@ import type { CursorValueKind, ListOrder, PageRequest } from './paging';
 import { likeContains } from './records';
 import { SEVERITY_RANK_SQL } from './findings';
 
+/**
+ * The overdue rule of shared/rules/due.ts (isOverdue) as SQL, for every read that counts or
+ * filters overdue findings: open (new or returned) and due before `today` (a date expression).
+ */
+export function overdueSql(today: string, alias = 'f'): string {
+  return `(${alias}.status = 'open' AND ${alias}.due_on < ${today})`;
+}
+
 export type { FindingRow };
 
 /** Who is asking: the job, its time zone (for "overdue"), and for a subcontractor their company. */
@@ -124,7 +132,7 @@ export function selectSql(sortKey: string, today: string, catalogue = true): str
   SELECT f.id, f.number, f.level_id, l.name AS level_name, f.space_id, s.name AS space_name,
          f.unit_id, u.tag AS unit_tag, u.kind AS unit_kind, f.catalogue_item_id, ci.code, coalesce(f.title, ci.title) AS title,
          f.severity, f.status, f.company_id, c.name AS company_name, to_char(f.due_on, 'YYYY-MM-DD') AS due_on,
-         (f.due_on < ${today} AND f.status IN ('open', 'fix_submitted')) AS overdue,
+         ${overdueSql(today)} AS overdue,
          f.note, f.measured_text, f.measured_value, f.rule_result, f.return_count,
          f.logged_by, lb.name AS logged_by_name, f.logged_at, f.walk_id, f.pin_x, f.pin_y, f.voided_reason,
          (SELECT count(*) FROM photos p WHERE p.finding_id = f.id AND p.stage = 'finding') AS photo_count,
@@ -191,8 +199,8 @@ export function whereSql(p: Params, scope: FindingScope, filters: FindingFilters
   if (filters.severity && !skip.severity) conds.push(`f.severity = ANY (${add(filters.severity)}::text[])`);
   if (filters.companyId) conds.push(`f.company_id = ${add(filters.companyId)}`);
   if (filters.catalogueItemId) conds.push(`f.catalogue_item_id = ${add(filters.catalogueItemId)}`);
-  if (filters.overdue === true) conds.push(`(f.due_on < ${p.today()} AND f.status IN ('open', 'fix_submitted'))`);
-  if (filters.overdue === false) conds.push(`NOT (f.due_on < ${p.today()} AND f.status IN ('open', 'fix_submitted'))`);
+  if (filters.overdue === true) conds.push(overdueSql(p.today()));
+  if (filters.overdue === false) conds.push(`NOT ${overdueSql(p.today())}`);
   if (filters.q) {
     const like = add(likeContains(filters.q));
     const parts = [`f.note ILIKE ${like}`, `coalesce(f.title, ci.title) ILIKE ${like}`, `ci.code ILIKE ${like}`, `u.tag ILIKE ${like}`];

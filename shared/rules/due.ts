@@ -21,3 +21,14 @@ export function daysToFix(job: Pick<DuePolicy, 'severityDueDays'>, severity: Sev
 export function dueOnFor(job: DuePolicy, severity: Severity, now: Date = new Date()): string {
   return addDays(todayIn(job.timeZone || 'UTC', now), daysToFix(job, severity));
 }
+
+/**
+ * Overdue: the subcontractor still owes the work and its due date has passed in the job's time
+ * zone. Only an open finding (new or returned) can be overdue: a fix waiting for re-inspection
+ * waits on the inspector, not on the company, and closed or voided findings owe nothing.
+ */
+export const OVERDUE_STATUSES = ['open'] as const;
+
+export function isOverdue(finding: { status: string; dueOn: string }, today: string): boolean {
+  return (OVERDUE_STATUSES as readonly string[]).includes(finding.status) && finding.dueOn < today;
+}

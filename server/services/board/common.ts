@@ -8,13 +8,14 @@
  * cover only their company's findings. Request values only ever arrive as bound parameters.
  *
  * Shared definitions (the same as the findings list, server/services/findingQueries.ts):
- *   overdue   = status open or fix_submitted AND due_on < today in the job's time zone (todayIn)
+ *   overdue   = status open (new or returned) AND due_on < today in the job's time zone (todayIn);
+ *               a fix waiting for re-inspection is not overdue (shared/rules/due.ts isOverdue)
  *   checked   = the unit's latest unit check (checked_at DESC, id DESC) is complete (walkUnits.ts)
  *   voided findings are never counted.
  */
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { cachedStat, type StatVersions } from '../statCache';
-import type { FindingScope } from '../findingQueries';
+import { overdueSql, type FindingScope } from '../findingQueries';
 
 /** Bound parameters of one statement; $1 is always the job. */
 export class Bind {
@@ -90,7 +91,7 @@ export async function loadUnresolvedFigures(sequelize: Sequelize, jobId: string,
     const rows = await select<{ level_id: string; company_id: string; severity: string; unresolved: string; overdue: string; ceiling: string }>(
       sequelize,
       `SELECT f.level_id, f.company_id, f.severity, count(*) AS unresolved,
-              count(*) FILTER (WHERE f.due_on < $2::date) AS overdue,
+              count(*) FILTER (WHERE ${overdueSql('$2::date')}) AS overdue,
               count(*) FILTER (WHERE f.catalogue_item_id IN (
                 SELECT ci.id FROM catalogue_items ci WHERE ci.job_id = $1 AND ci.needs_ceiling_access)) AS ceiling
          FROM findings f

@@ -85,7 +85,8 @@ describe('subcontractor digest (demo seed: the mechanical subcontractor)', () =>
     const mine = await Finding.findAll({ where: { jobId: job.id, companyId: user.companyId }, order: [['number', 'ASC']] });
     const unresolved = mine.filter((f) => f.status === 'open' || f.status === 'fix_submitted');
     const today = todayIn(job.timeZone);
-    const overdue = unresolved.filter((f) => f.dueOn < today);
+    // Overdue: open (new or returned) and past due; a fix waiting for re-inspection is not.
+    const overdue = unresolved.filter((f) => f.status === 'open' && f.dueOn < today);
     expect(unresolved.length).toBeGreaterThan(0);
     expect(overdue.length).toBeGreaterThan(0);
     expect(res.body.findings).toBe(unresolved.length);
@@ -163,7 +164,7 @@ describe('GC manager digest (demo seed)', () => {
     const today = todayIn(job.timeZone, now);
     const companies = await Company.findAll();
     const expected = new Map<string, number>();
-    for (const f of findings) if (unresolvedWords.has(f.status) && f.dueOn < today) expected.set(f.companyId, (expected.get(f.companyId) ?? 0) + 1);
+    for (const f of findings) if (f.status === 'open' && f.dueOn < today) expected.set(f.companyId, (expected.get(f.companyId) ?? 0) + 1);
     expect(jobDigest.overdueByCompany.map((c) => [c.name, c.overdue]).sort()).toEqual(
       Array.from(expected.entries()).map(([id, n]) => [companies.find((c) => c.id === id)!.name, n]).sort(),
     );

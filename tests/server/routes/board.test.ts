@@ -154,7 +154,8 @@ function expectedBoard(rows: Rows, companyId: string | null): BoardResponse {
     openMajor: list.filter((f) => f.status === 'open' && f.severity === 'major').length,
     fixSubmitted: list.filter((f) => f.status === 'fix_submitted').length,
     closed: list.filter((f) => f.status === 'closed').length,
-    overdue: list.filter((f) => unresolved(f.status) && f.due_on < today).length,
+    // Overdue: open (new or returned) and past due; a fix waiting for re-inspection is not.
+    overdue: list.filter((f) => f.status === 'open' && f.due_on < today).length,
     unitsTotal: units.length,
     unitsChecked: units.filter((u) => checked.has(u.id)).length,
   });
@@ -262,7 +263,7 @@ function expectedDemoScorecards(rows: Rows): ScorecardsResponse {
       trade: c.trades[0] ?? null,
       trades: c.trades,
       open: mine.filter((f) => f.status === 'open').length,
-      overdue: mine.filter((f) => unresolved(f.status) && f.due_on < today).length,
+      overdue: mine.filter((f) => f.status === 'open' && f.due_on < today).length,
       fixesWaiting: mine.filter((f) => f.status === 'fix_submitted').length,
       accepted: days.length,
       acceptedFirstPass: firstPass,
@@ -598,7 +599,8 @@ describe('a small hand-built job', () => {
       steps: [['fix_submitted', 1], ['accepted', 2], ['reopened', 4], ['fix_submitted', 5], ['accepted', 7]], final: 'closed',
     });
     await make('F6', { company: A, unit: u.U3!.id, level: L2.id, item: pg01.id, severity: 'critical', loggedAt: at(6), dueOn: '2020-01-01', steps: [], final: 'open' });
-    await make('F7', { company: B, unit: u.U4!.id, level: L2.id, item: ct03.id, severity: 'minor', loggedAt: at(8), dueOn: far, steps: [['fix_submitted', 9]], final: 'fix_submitted' });
+    // F7 is past its due date but its fix waits for re-inspection: it is not overdue against B.
+    await make('F7', { company: B, unit: u.U4!.id, level: L2.id, item: ct03.id, severity: 'minor', loggedAt: at(8), dueOn: '2020-01-01', steps: [['fix_submitted', 9]], final: 'fix_submitted' });
 
     gc = caller(await signIn(trimout.app, crew.gcManager.email));
     insp = caller(await signIn(trimout.app, crew.inspector.email));
@@ -614,7 +616,8 @@ describe('a small hand-built job', () => {
     expect(res.body.levels).toEqual([
       // F1, F2, F3 closed; F4 voided (never counted). U1, U5, U6 checked; U2's latest check is incomplete.
       { levelId: L1.id, name: 'First', position: 1, ...zero, closed: 3, unitsTotal: 4, unitsChecked: 3, ceilingBlockers: 0, ceilingReady: true },
-      // F5 closed, F6 open critical and overdue, F7 fix submitted and needs ceiling access.
+      // F5 closed, F6 open critical and overdue, F7 fix submitted (past due, waiting for the inspector:
+      // not overdue) and needs ceiling access.
       { levelId: L2.id, name: 'Second', position: 2, ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 1, overdue: 1, unitsTotal: 2, unitsChecked: 2, ceilingBlockers: 1, ceilingReady: false },
     ]);
     expect(res.body.totals).toEqual({ ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 4, overdue: 1, unitsTotal: 6, unitsChecked: 5 });

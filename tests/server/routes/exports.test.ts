@@ -150,7 +150,8 @@ describe('findings.csv: the demo job', () => {
       expect(r.Status).toBe(({ open: 'Open', fix_submitted: 'Fix submitted', closed: 'Closed', voided: 'Voided' } as Record<string, string>)[f.status]);
       expect(r.Severity.toLowerCase()).toBe(f.severity);
       expect(r.Note).toBe(f.note);
-      expect(r.Overdue).toBe(['open', 'fix_submitted'].includes(f.status) && f.dueOn < today ? 'yes' : 'no');
+      // Overdue: open (new or returned) and past due; a fix waiting for re-inspection is not.
+      expect(r.Overdue).toBe(f.status === 'open' && f.dueOn < today ? 'yes' : 'no');
       const myFixes = fixes.filter((x) => x.findingId === f.id).map((x) => x.submittedAt.getTime());
       expect(r['Last fix submitted']).toBe(myFixes.length ? isoSeconds(new Date(Math.max(...myFixes))) : '');
       const verdict = verdicts.filter((v) => v.finding_id === f.id).at(-1);

@@ -34,7 +34,7 @@ describe('demo seed: findings', () => {
     const returnedOpen = seeded.filter((f) => f.status === 'open' && f.returnCount > 0);
     expect(new Set(returnedOpen.map((f) => f.returnCount))).toEqual(new Set([1, 2]));
     const today = todayIn(job.timeZone);
-    expect(seeded.filter((f) => ['open', 'fix_submitted'].includes(f.status) && f.dueOn < today).length).toBeGreaterThanOrEqual(5);
+    expect(seeded.filter((f) => f.status === 'open' && f.dueOn < today).length).toBeGreaterThanOrEqual(5);
     expect(seeded.filter((f) => f.status === 'voided').every((f) => Boolean(f.voidedReason))).toBe(true);
 
     // Each history ends in the finding's status; return counts match the "returned" events.
