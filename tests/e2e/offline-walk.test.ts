@@ -176,6 +176,8 @@ it('a walk offline: checks and findings with photos kept through a reload, then 
     await page.getByTestId('level-walk-name').waitFor();
     await page.getByTestId(`walk-unit-${tag}-waiting`).waitFor();
   }
+  // Saved on the phone, and said so: nothing pretends to be on the server.
+  expect(await page.getByTestId('level-walk-saved').textContent()).toBe(`Unit check of ${tags[3]} saved on this phone, waiting to send.`);
   const expected = tags.length + DEFECTS.length;
   expect(await page.getByTestId('header-outbox').textContent()).toBe(`${expected} waiting to send`);
   expect(await page.getByTestId('offline-banner').textContent()).toContain(`${expected} waiting to send`);
