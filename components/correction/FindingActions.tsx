@@ -14,6 +14,7 @@ import {
 } from '../../shared/schemas/findings';
 import { SEVERITY_LABELS, type Role, type Severity } from '../../shared/words';
 import { writeErrorMessage } from '../api/writeErrors';
+import { isQueued } from '../outbox';
 import { findingChangeWrite, useFindingWriteMutation } from '../queries/correction';
 import { useJobCompaniesQuery } from '../queries/companies';
 import { space } from '../theme';
@@ -199,10 +200,12 @@ function ChangePanel({
           ? { dueOn: { to: t.dueOn, reason: r || undefined } }
           : changeFor(current, t);
     write.mutate(findingChangeWrite(jobId, finding.id, finding.version, input), {
-      onSuccess: () => {
+      onSuccess: (res) => {
         typed.current = { ...t, reason: '' };
         reset(changeFor(current, typed.current));
-        setSaved(current === 'void' ? 'Voided.' : current === 'reopen' ? 'Reopened.' : 'Saved.');
+        // No signal: kept on the phone, and said so (it is not on the server yet).
+        if (isQueued(res)) setSaved('Saved on this phone, waiting to send.');
+        else setSaved(current === 'void' ? 'Voided.' : current === 'reopen' ? 'Reopened.' : 'Saved.');
       },
       onError: (err) => {
         setServerFieldErrors(err, setError, [`${key}.reason`, 'reassign.companyId', 'severity.to', 'dueOn.to']);
