@@ -1,5 +1,6 @@
 import { Link, useRouter } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
+import { mayStartJob } from '../../shared/rules/roles';
 import type { SessionJob } from '../../shared/schemas/session';
 import { useJobsQuery } from '../queries/jobs';
 import { useSessionQuery } from '../queries/session';
@@ -17,6 +18,8 @@ export function JobListScreen() {
   const router = useRouter();
   const firstName = session.data?.user?.name.split(' ')[0];
   const newJob = () => router.push(links.newJob());
+  // Jobs are set up by GC managers (or someone starting their first): others are not offered it.
+  const canStartJob = mayStartJob((session.data?.jobs ?? []).map((j) => j.role));
   // Subcontractors on any job get their inbox: their company's findings across their jobs.
   const subcontractor = (session.data?.jobs ?? []).some((j) => j.role === 'subcontractor');
 
@@ -29,7 +32,7 @@ export function JobListScreen() {
           </AppText>
           {firstName ? <AppText muted>Signed in as {firstName}. Pick a job to work on.</AppText> : null}
         </View>
-        {jobs.data && jobs.data.length > 0 ? <Button testID="new-job" label="New job" tone="secondary" onPress={newJob} /> : null}
+        {canStartJob && jobs.data && jobs.data.length > 0 ? <Button testID="new-job" label="New job" tone="secondary" onPress={newJob} /> : null}
       </View>
       {subcontractor ? (
         <Link href={links.inbox()} asChild>

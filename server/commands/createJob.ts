@@ -1,10 +1,13 @@
 /**
- * A signed-in person creates a job: owned by their company, they are its GC manager, their company
+ * A signed-in person creates a job (someone with no job yet, or a GC manager: shared/rules/roles.ts):
+ * owned by their company, they are its GC manager, their company
  * is on it (general trade), and its defect catalogue starts as a copy of the built-in one.
  * One transaction.
  */
 import type { Transaction } from 'sequelize';
 import type { CreateJobInput } from '../../shared/schemas/setup';
+import { mayStartJob, START_JOB_REFUSED } from '../../shared/rules/roles';
+import { forbidden } from '../errors';
 import { Job, JobCompany, JobMember } from '../models';
 import { copyBuiltinCatalogue } from '../services/catalogue';
 
@@ -15,6 +18,8 @@ export interface CreateJobContext {
 }
 
 export async function createJob({ transaction, actor }: CreateJobContext, input: CreateJobInput & { number?: string | null; address?: string | null }): Promise<Job> {
+  const roles = (await JobMember.findAll({ where: { userId: actor.id }, attributes: ['role'], transaction })).map((m) => m.role);
+  if (!mayStartJob(roles)) throw forbidden(START_JOB_REFUSED, 'gc_manager_only');
   const job = await Job.create(
     {
       ownerCompanyId: actor.companyId,

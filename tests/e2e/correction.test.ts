@@ -131,6 +131,9 @@ describe('the correction loop', () => {
     // 2. The subcontractor: home → inbox → the finding → fix with a photo.
     const sub = await h.newPage(PHONE);
     await signIn(sub.page, mechanical.email);
+    await sub.page.getByTestId('job-list').waitFor();
+    // Jobs are set up by GC managers: a subcontractor is not offered "New job".
+    expect(await sub.page.getByTestId('new-job').count()).toBe(0);
     await sub.page.getByTestId('home-inbox').click();
     await sub.page.getByTestId('inbox-list').waitFor();
     await sub.page.getByTestId(`inbox-card-${no}`).waitFor();

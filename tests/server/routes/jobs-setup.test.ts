@@ -3,10 +3,11 @@ import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
 import { CatalogueItem, Job, JobCompany, JobMember } from '../../../server/models';
 import { BUILTIN_CATALOGUE } from '../../../shared/catalogue';
-import { ifMatch, jobPath, newJobFor, signInCrew, type SignedCrew } from '../../support/api';
+import { caller, ifMatch, jobPath, newJobFor, signInCrew, type SignedCrew } from '../../support/api';
+import { signIn } from '../../support/app';
 import { buildTestApp } from '../../support/app';
 import { connectTestDb } from '../../support/db';
-import { buildJobWithCrew } from '../../support/factories';
+import { buildJobWithCrew, buildUser } from '../../support/factories';
 
 jest.setTimeout(60_000);
 
@@ -31,8 +32,10 @@ describe('POST /api/jobs', () => {
     await agent.post('/api/jobs').set('X-CSRF-Token', csrf).send({ name: 'X' }).expect(401);
   });
 
-  it('creates a job owned by the caller’s company: creator is GC manager, company linked, catalogue copied', async () => {
-    const res = await crew.sub.post('/api/jobs', { name: 'Larkspur Yard', number: 'LY-1', timeZone: 'America/Denver', unitSystem: 'metric' });
+  it('someone with no job yet starts their first: owned by their company, they are its GC manager, company linked, catalogue copied', async () => {
+    const newcomer = await buildUser();
+    const them = caller(await signIn(trimout.app, newcomer.email));
+    const res = await them.post('/api/jobs', { name: 'Larkspur Yard', number: 'LY-1', timeZone: 'America/Denver', unitSystem: 'metric' });
     expect(res.status).toBe(201);
     expect(res.headers.etag).toBe('"v1"');
     expect(res.body).toMatchObject({
@@ -46,10 +49,23 @@ describe('POST /api/jobs', () => {
       version: 1,
     });
     const job = (await Job.findByPk(res.body.id))!;
-    expect(job.ownerCompanyId).toBe(crew.subA.companyId);
-    expect(await JobMember.findOne({ where: { jobId: job.id, userId: crew.subA.id } })).toMatchObject({ role: 'gc_manager' });
-    expect(await JobCompany.findOne({ where: { jobId: job.id, companyId: crew.subA.companyId } })).toMatchObject({ trades: ['general'] });
+    expect(job.ownerCompanyId).toBe(newcomer.companyId);
+    expect(await JobMember.findOne({ where: { jobId: job.id, userId: newcomer.id } })).toMatchObject({ role: 'gc_manager' });
+    expect(await JobCompany.findOne({ where: { jobId: job.id, companyId: newcomer.companyId } })).toMatchObject({ trades: ['general'] });
     expect(await CatalogueItem.count({ where: { jobId: job.id } })).toBe(BUILTIN_CATALOGUE.length);
+    // Now a GC manager, they may start another.
+    expect((await them.post('/api/jobs', { name: 'Larkspur Yard, phase 2' })).status).toBe(201);
+  });
+
+  it('someone who works on jobs only as an inspector or a subcontractor cannot start one (403), and nothing is created', async () => {
+    const before = await Job.count();
+    for (const who of [crew.sub, crew.insp]) {
+      const res = await who.post('/api/jobs', { name: 'Not theirs to start' });
+      expect(res.status).toBe(403);
+      expect(res.body.error).toMatchObject({ id: 'gc_manager_only', message: expect.stringContaining('Jobs are set up by a GC manager') });
+    }
+    expect(await Job.count()).toBe(before);
+    expect((await crew.gc.post('/api/jobs', { name: 'A GC manager starts another' })).status).toBe(201);
   });
 
   it('answers 400 with a message for a bad time zone, dates out of order, an unknown key', async () => {

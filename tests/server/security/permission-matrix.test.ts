@@ -57,7 +57,7 @@ export const EXPECTED: Record<string, Row> = {
   'GET /api/dev/mail': all(404), // only while the fake SMTP server is in use (development), never in tests/production
   // Any signed-in user
   'GET /api/jobs': member(200),
-  'POST /api/jobs': member(201), // whoever starts a job becomes its GC manager
+  'POST /api/jobs': r(401, 201, 403, 403, 403), // a GC manager (or someone with no job yet) starts a job and is its GC manager; inspectors and subcontractors ask the GC (shared/rules/roles.ts)
   'GET /api/companies/known': member(200),
   'GET /api/inbox': r(401, 403, 403, 200, 200), // subcontractors only
   'GET /api/me/preferences': member(200), // the caller's own preferences only
