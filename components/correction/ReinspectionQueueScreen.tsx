@@ -1,6 +1,7 @@
 import { Link } from 'expo-router';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
+import type { UnitSystem } from '../../shared/catalogue/types';
 import type { ReinspectionQueueItem, ReinspectionVerdict } from '../../shared/schemas/findings';
 import { ApiError } from '../api/client';
 import { formatDay, formatWhen } from '../findings/due';
@@ -76,6 +77,7 @@ export function ReinspectionQueueScreen({ jobId }: { jobId: string }) {
                   jobId={jobId}
                   item={item}
                   timeZone={job.data.timeZone}
+                  system={job.data.unitSystem}
                   onStale={() => void queue.refetch()}
                   onDone={(verdict) => setLast({ label: item.finding.label, verdict })}
                 />
@@ -92,12 +94,14 @@ function QueueCard({
   jobId,
   item,
   timeZone,
+  system,
   onStale,
   onDone,
 }: {
   jobId: string;
   item: ReinspectionQueueItem;
   timeZone: string;
+  system: UnitSystem;
   onStale: () => void;
   onDone: (verdict: ReinspectionVerdict) => void;
 }) {
@@ -135,7 +139,14 @@ function QueueCard({
         </View>
       ) : null}
       <BeforeAfter before={item.originalPhotos} after={fix?.photos ?? []} label={f.label} testID={`reinspection-${f.number}-photos`} />
-      <ReinspectControls jobId={jobId} finding={f} onStale={onStale} onDone={onDone} testID={`reinspection-${f.number}-verdict`} />
+      <ReinspectControls
+        jobId={jobId}
+        finding={f}
+        measured={item.rule ? { rule: item.rule, original: f.ruleResult, system } : null}
+        onStale={onStale}
+        onDone={onDone}
+        testID={`reinspection-${f.number}-verdict`}
+      />
     </View>
   );
 }

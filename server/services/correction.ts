@@ -172,6 +172,7 @@ export async function reinspectionQueue(sequelize: Sequelize, scope: FindingScop
       finding: presentFinding(scope.jobId, r),
       latestFix: fixes.find((x) => x.findingId === r.id) ?? null,
       originalPhotos: originals.filter((p) => p.finding_id === r.id).map((p) => presentPhoto(scope.jobId, p)),
+      rule: r.measured_rule ?? null,
     };
     level.items.push(item);
   }

@@ -124,14 +124,11 @@ async function text(page: Page, testID: string): Promise<string> {
 
 /** Every image under the element loaded (photos come from the API with the session). */
 async function imagesLoaded(page: Page, testID: string) {
-  await page.waitForFunction(
-    (id) => {
-      const imgs = [...document.querySelectorAll(`[data-testid="${id}"] img`)] as HTMLImageElement[];
-      return imgs.length > 0 && imgs.every((i) => i.complete && i.naturalWidth > 0);
-    },
-    testID,
-    { timeout: 15_000 },
-  );
+  // Runs in the page (a string: this file is type-checked without the DOM's types).
+  const selector = JSON.stringify(`[data-testid="${testID}"] img`);
+  await page.waitForFunction(`(() => { const imgs = [...document.querySelectorAll(${selector})]; return imgs.length > 0 && imgs.every((i) => i.complete && i.naturalWidth > 0); })()`, undefined, {
+    timeout: 15_000,
+  });
 }
 
 /** At least 44 by 44 px, and a name a screen reader says. */

@@ -2,6 +2,7 @@
  * Re-inspections (POST /findings/:findingId/reinspections) and the re-inspection queue.
  */
 import { z } from 'zod';
+import type { MeasuredRule } from '../../catalogue/types';
 import { measuredText, optionalReason } from './fields';
 import type { PhotoDto, FindingDto } from './finding';
 import type { FixDto } from './fix';
@@ -38,6 +39,8 @@ export interface ReinspectionQueueItem {
   finding: FindingDto;
   latestFix: FixDto | null;
   originalPhotos: PhotoDto[];
+  /** The defect type's measured rule: the inspector may measure again at re-inspection (null: none). */
+  rule: MeasuredRule | null;
 }
 export interface ReinspectionQueueResponse {
   levels: Array<{ levelId: string; levelName: string; items: ReinspectionQueueItem[] }>;

@@ -283,6 +283,21 @@ describe('re-inspection with photos and a measurement', () => {
     expect(res.body.status).toBe('closed');
   });
 
+  it('the queue carries the measured rule, and its "as logged" photos leave out a returned re-inspection’s photos', async () => {
+    const w = await buildWalkJob(people);
+    const f = await measuredFinding(w);
+    await addPhotos(inspector, w, f).expect(201);
+    await postFix(subA, w, f, { note: 'Moved the pump.', measuredText: '33 in' }).expect(201);
+    await reinspectWithPhoto(inspector, w, { id: f.id, version: 2 }, { verdict: 'return', reason: 'Still too high.' }).expect(200);
+    await postFix(subA, w, f, { note: 'Moved it again.', measuredText: '29 in' }).expect(201);
+    const queue = (await inspector.agent.get(`/api/jobs/${w.job.id}/reinspections/queue`).expect(200)).body;
+    const item = queue.levels.flatMap((l: { items: unknown[] }) => l.items).find((i: { finding: { id: string } }) => i.finding.id === f.id);
+    expect(item.rule).toMatchObject({ comparison: 'at_most', quantity: 'length' });
+    expect(item.originalPhotos).toHaveLength(1);
+    expect(item.originalPhotos[0].stage).toBe('finding');
+    expect(item.latestFix).toMatchObject({ measuredText: '29 in', ruleResult: { pass: true } });
+  });
+
   it('refuses an upload on a finding with no fix waiting (409) or by a subcontractor (403) before reading it', async () => {
     const w = await buildWalkJob(people);
     const closed = await insertFinding(w, { status: 'closed' });
