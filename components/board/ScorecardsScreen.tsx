@@ -8,7 +8,7 @@ import { ExportLink } from '../exports/ExportLink';
 import { exportUrls } from '../api/exports';
 import { useScorecardsQuery } from '../queries/board';
 import { useJobQuery } from '../queries/jobs';
-import { colors, radius, space } from '../theme';
+import { colors, fonts, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
@@ -68,6 +68,16 @@ const COLS: Col[] = [
   { key: 'returns', title: 'Returns', flex: 0.8, render: (c) => String(c.returns) },
 ];
 
+/** What each figure measures, in one line each, shown under the title (the same order as the columns). */
+export const SCORECARD_MEANINGS: readonly { key: ScorecardKey; label: string; line: string }[] = [
+  { key: 'open', label: 'Open', line: 'findings assigned to the company that still need their work (new or returned).' },
+  { key: 'overdue', label: 'Overdue', line: 'open findings past their due date; a fix waiting for re-inspection is not counted.' },
+  { key: 'fixesWaiting', label: 'Fixes waiting', line: 'fixes the company submitted that wait for an inspector.' },
+  { key: 'medianDaysToAccept', label: 'Median days to accepted fix', line: 'the middle value of the days from assignment to the company until its fix was accepted.' },
+  { key: 'firstPassRate', label: 'First-pass acceptance', line: 'of the fixes accepted, the share accepted at their first re-inspection.' },
+  { key: 'returns', label: 'Returns', line: 'fixes an inspector sent back while the finding was the company’s.' },
+];
+
 /** Per company: open, overdue, fixes waiting, time to an accepted fix, first-pass acceptance and returns. */
 export function ScorecardsScreen({ jobId }: { jobId: string }) {
   const wide = useWide();
@@ -85,10 +95,17 @@ export function ScorecardsScreen({ jobId }: { jobId: string }) {
         <AppText variant="display" role="heading">
           Company scorecards
         </AppText>
-        <AppText muted>
-          Who is holding the job up. First-pass acceptance: fixes accepted on their first re-inspection, of all accepted. Days run from the
-          finding&apos;s assignment to the company until its fix was accepted.
-        </AppText>
+        <AppText muted>Who is holding the job up, company by company.</AppText>
+        <View style={styles.meanings} testID="scorecards-meanings">
+          {SCORECARD_MEANINGS.map((m) => (
+            <AppText key={m.key} variant="small" muted testID={`scorecards-meaning-${m.key}`}>
+              <AppText variant="small" style={styles.meaningLabel}>
+                {m.label}:
+              </AppText>{' '}
+              {m.line}
+            </AppText>
+          ))}
+        </View>
       </View>
       <BoardTabs jobId={jobId} role={role} current="scorecards" />
       {forbidden ? (
@@ -227,6 +244,8 @@ function Fact({ label, children }: { label: string; children: ReactNode }) {
 }
 
 const styles = StyleSheet.create({
+  meanings: { gap: 2 },
+  meaningLabel: { fontFamily: fonts.bold, color: colors.ink },
   head: { gap: space.xs },
   table: { borderWidth: 1, borderColor: colors.line, borderRadius: radius.md, backgroundColor: colors.surface, overflow: 'hidden' },
   row: { flexDirection: 'row', borderBottomWidth: 1, borderBottomColor: colors.line, alignItems: 'center' },

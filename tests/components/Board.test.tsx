@@ -277,6 +277,15 @@ describe('company scorecards', () => {
     expect(screen.getByText('75% (3 of 4)')).toBeTruthy();
   });
 
+  it('says in one line what each figure measures, one line per column', async () => {
+    fakeApi('gc_manager');
+    renderWithQueries(<ScorecardsScreen jobId={JOB} />);
+    await screen.findByTestId('scorecards-table');
+    const columns = screen.getAllByTestId(/^scorecards-col-/).map((c) => String(c.props.testID).replace('scorecards-col-', '')).filter((k) => k !== 'name');
+    expect(screen.getAllByTestId(/^scorecards-meaning-/).map((m) => String(m.props.testID).replace('scorecards-meaning-', ''))).toEqual(columns);
+    expect(screen.getByTestId('scorecards-meaning-overdue')).toHaveTextContent(/a fix waiting for re-inspection is not counted/);
+  });
+
   it('keeps a company with nothing accepted last, whichever way the rate is sorted', () => {
     const desc = sortScorecards(CARDS, { key: 'firstPassRate', dir: 'desc' }).map((c) => c.name);
     const asc = sortScorecards(CARDS, nextSort({ key: 'firstPassRate', dir: 'desc' }, 'firstPassRate')).map((c) => c.name);
