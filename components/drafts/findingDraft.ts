@@ -1,4 +1,5 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
+import { TRADE_KEYS, type TradeKey } from '../../shared/words';
 import type { PickedPhoto } from '../findings/PhotoPicker.types';
 import { dropPhotos, keepPhotos, keptPhotos } from './photoBlobs';
 import { keysUnder, readEntry, removeEntry, storeKey, writeEntry } from './store';
@@ -6,6 +7,9 @@ import { keysUnder, readEntry, removeEntry, storeKey, writeEntry } from './store
 /** A half-filled finding as kept on the phone (photos apart, in IndexedDB). */
 export interface FindingDraft {
   catalogueItemId?: string;
+  /** "Something else": its title and trade instead of a defect type. */
+  title?: string;
+  trade?: TradeKey;
   severity?: 'critical' | 'major' | 'minor';
   companyId?: string;
   dueOn?: string;
@@ -21,6 +25,8 @@ function isFindingDraft(data: unknown): data is FindingDraft {
   const d = data as Record<string, unknown>;
   return (
     optString(d.catalogueItemId) &&
+    optString(d.title) &&
+    (d.trade === undefined || (typeof d.trade === 'string' && TRADE_KEYS.includes(d.trade as TradeKey))) &&
     (d.severity === undefined || (typeof d.severity === 'string' && SEVERITIES.has(d.severity))) &&
     optString(d.companyId) &&
     optString(d.dueOn) &&
@@ -99,8 +105,8 @@ export function useKeepFindingDraft(
     });
     const sub = subscribe(({ photos, ...values }) => {
       if (!alive || kept.cleared()) return;
-      const { catalogueItemId, severity, companyId, dueOn, note, measuredText } = values;
-      writeEntry(key, { catalogueItemId, severity, companyId, dueOn, note, measuredText } satisfies FindingDraft);
+      const { catalogueItemId, title, trade, severity, companyId, dueOn, note, measuredText } = values;
+      writeEntry(key, { catalogueItemId, title, trade, severity, companyId, dueOn, note, measuredText } satisfies FindingDraft);
       const list = (photos ?? []).filter((p): p is PickedPhoto => Boolean(p?.key && p.blob));
       const keys = list.map((p) => p.key).join(',');
       if (keys !== photoKeys) {

@@ -1,13 +1,13 @@
 import { MAX_PHOTOS_PER_REQUEST } from '../../shared/rules/photos';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useEffect, useMemo, useRef } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { LimitResolver } from '../../shared/calc/rules';
 import { CATALOGUE_GROUPS } from '../../shared/catalogue/types';
 import { createFindingSchema, type CreateFindingInput, type CreateFindingParsed } from '../../shared/schemas/findings';
 import type { CatalogueItemDto, JobDetail } from '../../shared/schemas/setup';
-import { SEVERITY_LABELS, TRADES, type Severity, type UnitKindKey } from '../../shared/words';
+import { SEVERITY_LABELS, SOMETHING_ELSE, TRADES, type Severity, type TradeKey, type UnitKindKey } from '../../shared/words';
 import { ApiError } from '../api/client';
 import type { Write } from '../api/mutations';
 import { applyApiError } from '../auth/formErrors';
@@ -55,6 +55,8 @@ export interface FindingFormProps {
   onCancel?: () => void;
   /** Keeps the half-filled form on the phone under this key (components/drafts), restored when it opens again. */
   draftKey?: string;
+  /** Opens on "Something else": a defect the catalogue lacks, named in the inspector's words (title). */
+  somethingElse?: boolean;
   testID?: string;
 }
 
@@ -79,7 +81,7 @@ type FindingFormValues = CreateFindingInput & { photos: PickedPhoto[] };
 type FindingFormParsed = CreateFindingParsed & { photos: PickedPhoto[] };
 
 /** The request's fields shown on the form (server field errors land on these). */
-const FIELDS = ['catalogueItemId', 'severity', 'companyId', 'dueOn', 'measuredText', 'note'] as const;
+const FIELDS = ['catalogueItemId', 'title', 'trade', 'severity', 'companyId', 'dueOn', 'measuredText', 'note'] as const;
 
 const resolver = withFormOnly<CreateFindingInput, unknown, CreateFindingParsed, { photos: PickedPhoto[] }>(zodResolver(createFindingSchema), {
   // Photos are optional on a finding; the field itself refuses more than MAX_PHOTOS.
@@ -99,16 +101,20 @@ function FindingFormBody({
   items,
   companies,
   draftKey,
+  somethingElse,
   testID = 'finding-form',
 }: FindingFormProps & { items: readonly CatalogueItemDto[]; companies: NonNullable<ReturnType<typeof useJobCompaniesQuery>['data']> }) {
   const today = todayIn(job.timeZone);
   const policyDue = (s: Severity) => addDays(today, job.severityDueDays[s]);
   const kept = useFindingDraft(draftKey);
   const initialSeverity: Severity = kept.initial.severity ?? fixedItem?.defaultSeverity ?? 'major';
+  // "Something else" holds a title and a trade instead of a defect type (a kept draft says which it was).
+  const [other, setOther] = useState<boolean>(!fixedItem && (kept.initial.title !== undefined || (Boolean(somethingElse) && !kept.initial.catalogueItemId)));
   const { control, handleSubmit, setError, setValue, watch, formState } = useForm<FindingFormValues, unknown, FindingFormParsed>({
     resolver,
     defaultValues: {
       catalogueItemId: fixedItem?.id,
+      ...(other ? { title: '', trade: 'general' as TradeKey } : {}),
       unitId: target.unitId ?? undefined,
       spaceId: target.unitId ? undefined : (target.spaceId ?? undefined),
       levelId: target.unitId || target.spaceId ? undefined : (target.levelId ?? undefined),
@@ -135,9 +141,10 @@ function FindingFormBody({
     return () => sub.unsubscribe();
   }, [watch]);
 
-  const [itemId, severity, dueOn, photoCount] = [watch('catalogueItemId'), watch('severity') ?? 'major', watch('dueOn') ?? '', watch('photos').length];
-  const item = fixedItem ?? items.find((i) => i.id === itemId);
-  const suggested = suggestCompany(companies, item?.trade);
+  const [itemId, severity, dueOn, photoCount, otherTrade] = [watch('catalogueItemId'), watch('severity') ?? 'major', watch('dueOn') ?? '', watch('photos').length, watch('trade')];
+  const item = other ? undefined : (fixedItem ?? items.find((i) => i.id === itemId));
+  const trade = other ? otherTrade : item?.trade;
+  const suggested = suggestCompany(companies, trade);
   const policyDays = job.severityDueDays[severity];
   // The due date follows the job's policy for the severity until someone types another one.
   const followsPolicy = dueOn === policyDue(severity);
@@ -151,6 +158,26 @@ function FindingFormBody({
         .map((i) => ({ value: i.id, label: `${i.code} · ${i.title} (${groupLabel[i.group] ?? i.group})` })),
     [items, groupLabel],
   );
+
+  /** Between a defect type of the catalogue and "Something else": the body carries one or the other. */
+  function chooseOther(next: boolean) {
+    setOther(next);
+    if (next) {
+      setValue('catalogueItemId', undefined);
+      setValue('title', '');
+      setValue('trade', 'general');
+      setValue('measuredText', null);
+      tradeChosen('general');
+    } else {
+      setValue('title', undefined);
+      setValue('trade', undefined);
+    }
+  }
+
+  function tradeChosen(key: string) {
+    const s = suggestCompany(companies, key);
+    if (s) setValue('companyId', s.id, revalidate);
+  }
 
   function severityChosen(next: Severity) {
     if (followsPolicy) setValue('dueOn', policyDue(next), revalidate);
@@ -172,6 +199,7 @@ function FindingFormBody({
         ...values,
         note: values.note || undefined,
         measuredText: item?.measuredRule ? (values.measuredText ?? undefined) : undefined,
+        ...(other ? { catalogueItemId: undefined } : { title: undefined, trade: undefined }),
       };
       const w = write.current ?? createFindingWrite(job.id, input, photos, target.label);
       write.current = w;
@@ -202,6 +230,30 @@ function FindingFormBody({
           <AppText variant="heading" testID={`${testID}-item`}>
             {fixedItem.code} · {fixedItem.title}
           </AppText>
+        ) : other ? (
+          <>
+            <AppText variant="heading" testID={`${testID}-something-else`}>
+              {SOMETHING_ELSE.label}
+            </AppText>
+            <FormText
+              control={control}
+              name="title"
+              label={SOMETHING_ELSE.titleLabel}
+              testID={`${testID}-title`}
+              placeholder="e.g. Return grille hanging loose"
+              hint="A few words, the same each time: findings with the same words count together as a recurring defect."
+              compact
+            />
+            <FormSelect
+              control={control}
+              name="trade"
+              label="Trade that usually fixes it"
+              testID={`${testID}-trade`}
+              options={TRADES.map((t) => ({ value: t.key, label: t.label }))}
+              onChosen={tradeChosen}
+              compact
+            />
+          </>
         ) : (
           <FormSelect
             control={control}
@@ -212,6 +264,14 @@ function FindingFormBody({
             options={itemOptions}
             onChosen={itemChosen}
             compact
+          />
+        )}
+        {fixedItem ? null : (
+          <Button
+            label={other ? 'Choose a defect type from the catalogue instead' : SOMETHING_ELSE.action}
+            tone="quiet"
+            testID={`${testID}-${other ? 'catalogue' : 'other'}`}
+            onPress={() => chooseOther(!other)}
           />
         )}
         {item ? (
@@ -234,10 +294,10 @@ function FindingFormBody({
           .sort((a, b) => a.name.localeCompare(b.name))
           .map((c) => ({ value: c.id, label: c.id === suggested?.id ? `${c.name} (suggested)` : c.name }))}
         hint={
-          item
+          trade
             ? suggested
-              ? `Suggested from the trade: ${TRADE_LABEL[item.trade] ?? item.trade}.`
-              : `No company on the job covers ${TRADE_LABEL[item.trade] ?? item.trade}: choose one.`
+              ? `Suggested from the trade: ${TRADE_LABEL[trade] ?? trade}.`
+              : `No company on the job covers ${TRADE_LABEL[trade] ?? trade}: choose one.`
             : undefined
         }
         compact

@@ -1,4 +1,5 @@
-import { unitKindLabel } from '../../shared/words';
+import { OTHER_DEFECT_CODE } from '../../shared/rules/somethingElse';
+import { SOMETHING_ELSE, unitKindLabel } from '../../shared/words';
 import { links } from '../links';
 import { useRouter } from 'expo-router';
 import { UnitWaiting, useSavedCheckWords } from '../outbox/Waiting';
@@ -397,7 +398,14 @@ function UnitCheckBody({
           resolve={resolve}
           onCancel={back}
           draftKey={findingDraftKey(userId, job.id, unit.id, item?.id ?? null)}
+          somethingElse={!item}
           onLogged={(finding) => {
+            if (finding.code === OTHER_DEFECT_CODE) {
+              // Not an item of this checklist: nothing to mark; the confirmation names it instead.
+              setConfirmation({ itemId: '', text: `Finding ${finding.label} “${finding.title}” logged.` });
+              setMode({ kind: 'check' });
+              return;
+            }
             const id = item?.id ?? finding.catalogueItemId;
             if (!item) setMarks((now) => ({ ...now, [id]: 'defect' }));
             setLogged((now) => ({ ...now, [id]: [...(now[id] ?? []), finding.label] }));
@@ -419,7 +427,7 @@ function UnitCheckBody({
             <View style={styles.confirm} role="status" testID="unit-check-confirmation">
               <Pressable
                 accessibilityRole="button"
-                aria-label={`${confirmation.text} Show the item`}
+                aria-label={confirmation.itemId ? `${confirmation.text} Show the item` : confirmation.text}
                 onPress={() => scrollIntoView(rows.current[confirmation.itemId])}
                 style={styles.confirmText}
               >
@@ -545,9 +553,14 @@ function UnitCheckBody({
             </ScrollView>
           </View>
           {groups.length === 0 ? (
-            <AppText muted testID="unit-check-search-none">
-              No item matches “{query.trim()}”.
-            </AppText>
+            <View style={styles.footer}>
+              <AppText muted testID="unit-check-search-none">
+                No item matches “{query.trim()}”.
+              </AppText>
+              {canCheck ? (
+                <Button label={SOMETHING_ELSE.action} tone="secondary" testID="unit-check-search-other" busy={opening === 'other'} onPress={() => void openFinding()} />
+              ) : null}
+            </View>
           ) : null}
           {groups.map((g) => (
             <View key={g.key} ref={(n) => { sections.current[g.key] = n; }} style={styles.group} testID={`check-group-${g.key}`}>
@@ -592,7 +605,7 @@ function UnitCheckBody({
                 onPress={() => void save('level')}
               />
               <Button
-                label="Log a finding not listed here"
+                label={SOMETHING_ELSE.action}
                 tone="quiet"
                 testID="unit-check-other-finding"
                 busy={opening === 'other'}
