@@ -68,6 +68,19 @@ export function useOpenWalkQuery(jobId: string, levelId: string, inspectorId: st
   });
 }
 
+/**
+ * GET /walks/:walkId: the walk with its level's coverage and its summary (findings logged on it by
+ * severity, units left unchecked), read fresh when finishing asks for it (null: not asked yet).
+ */
+export function useWalkQuery(jobId: string, walkId: string | null) {
+  return useQuery({
+    queryKey: walkKeys.walk(jobId, walkId ?? ''),
+    queryFn: () => apiGet<WalkDetail>(jobPath(jobId, 'walks', walkId!)),
+    enabled: Boolean(jobId && walkId),
+    staleTime: 0,
+  });
+}
+
 export function useStartWalkMutation(jobId: string) {
   const queryClient = useQueryClient();
   return useMutation({

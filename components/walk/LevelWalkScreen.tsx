@@ -15,7 +15,7 @@ import { useLevelsQuery } from '../queries/levels';
 import { useSessionQuery } from '../queries/session';
 import { useSpacesQuery } from '../queries/spaces';
 import { useSystemsQuery } from '../queries/systems';
-import { useFinishWalkMutation, useOpenWalkQuery, useWalkUnitsQuery, type WalkUnitFilters } from '../queries/walks';
+import { useOpenWalkQuery, useWalkUnitsQuery, type WalkUnitFilters } from '../queries/walks';
 import { colors, radius, space, touchTarget } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
@@ -23,6 +23,7 @@ import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { FinishWalk } from './FinishWalk';
 import { UnitStateBadge } from './UnitStateBadge';
 import { WalkFilters } from './WalkFilters';
 
@@ -175,7 +176,6 @@ function CoverageCard({ coverage }: { coverage: Coverage }) {
 function WalkBanner({ job, levelId }: { job: JobDetail; levelId: string }) {
   const session = useSessionQuery();
   const open = useOpenWalkQuery(job.id, levelId, session.data?.user?.id);
-  const finish = useFinishWalkMutation(job.id);
   if (job.role === 'subcontractor' || !open.data) {
     return job.role === 'subcontractor' ? null : (
       <AppText variant="small" muted testID="walk-none">
@@ -188,7 +188,7 @@ function WalkBanner({ job, levelId }: { job: JobDetail; levelId: string }) {
       <AppText style={styles.walkText}>
         Your walk started {formatWhen(open.data.startedAt, job.timeZone)} · {open.data.checkCount} unit check{open.data.checkCount === 1 ? '' : 's'}
       </AppText>
-      <Button label="Finish walk" tone="secondary" testID="walk-finish" busy={finish.isPending} onPress={() => finish.mutate(open.data!.id)} style={styles.walkButton} />
+      <FinishWalk job={job} walk={open.data} />
     </View>
   );
 }
@@ -232,7 +232,6 @@ const styles = StyleSheet.create({
     paddingBottom: space.xs,
   },
   walkText: {},
-  walkButton: { alignSelf: 'flex-end' },
   list: { gap: space.sm },
   row: {
     minHeight: touchTarget + 28,
