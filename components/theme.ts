@@ -62,3 +62,16 @@ export const choiceChip = {
   borderColor: colors.line,
   backgroundColor: colors.surface,
 } as const;
+
+/**
+ * A text link standing alone (back links, "Plan of Level 3"): at least a touch target in both
+ * directions. On the web a Link is an inline element, which takes no height: flex makes it a box.
+ */
+export const linkTarget = {
+  alignSelf: 'flex-start',
+  minHeight: touchTarget,
+  minWidth: touchTarget,
+  paddingVertical: space.sm,
+  display: 'flex',
+  alignItems: 'center',
+} as const;

@@ -1,7 +1,7 @@
 import { Link, type Href } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { Role } from '../../shared/words';
-import { colors, radius, space } from '../theme';
+import { colors, linkTarget, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
 import { Tabs, type TabItem } from '../ui/Tabs';
@@ -115,7 +115,7 @@ export function StartupBadge({ ready, testID }: { ready: boolean; testID?: strin
 }
 
 const styles = StyleSheet.create({
-  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  back: linkTarget,
   count: {
     flexDirection: 'row',
     alignItems: 'center',

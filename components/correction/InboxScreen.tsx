@@ -4,7 +4,7 @@ import { StyleSheet, View } from 'react-native';
 import type { InboxGroup, InboxResponse } from '../../shared/schemas/findings';
 import { ApiError } from '../api/client';
 import { useInboxQuery, type InboxGrouping } from '../queries/correction';
-import { colors, radius, space } from '../theme';
+import { colors, linkTarget, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Screen } from '../ui/Screen';
 import { Segmented } from '../ui/Segmented';
@@ -116,7 +116,7 @@ function AreaGroup({ group, showJob }: { group: InboxGroup; showJob: boolean }) 
 }
 
 const styles = StyleSheet.create({
-  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  back: linkTarget,
   head: { gap: space.xs },
   list: { gap: space.md },
   group: { gap: space.sm, paddingTop: space.sm, borderTopWidth: 2, borderTopColor: colors.spruce, borderRadius: radius.sm },

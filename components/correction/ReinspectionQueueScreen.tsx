@@ -8,7 +8,7 @@ import { formatDay, formatWhen } from '../findings/due';
 import { findingPlace } from '../findings/FindingCard';
 import { useReinspectionQueueQuery } from '../queries/correction';
 import { useJobQuery } from '../queries/jobs';
-import { colors, radius, space } from '../theme';
+import { colors, linkTarget, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Notice } from '../ui/Notice';
 import { Screen } from '../ui/Screen';
@@ -152,7 +152,7 @@ function QueueCard({
 }
 
 const styles = StyleSheet.create({
-  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  back: linkTarget,
   head: { gap: space.xs },
   levels: { gap: space.xl },
   level: { gap: space.md },

@@ -17,7 +17,7 @@ import { Timeline } from '../correction/Timeline';
 import { useFindingQuery } from '../queries/findings';
 import { useJobQuery } from '../queries/jobs';
 import { useSessionQuery } from '../queries/session';
-import { colors, radius, space } from '../theme';
+import { colors, linkTarget, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
@@ -240,7 +240,7 @@ function FindingBody({
 }
 
 const styles = StyleSheet.create({
-  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  back: linkTarget,
   head: { gap: space.xs },
   badges: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm },
   overdue: { color: colors.danger, fontWeight: '700' },

@@ -14,7 +14,7 @@ import { useJobQuery } from '../queries/jobs';
 import { useLevelsQuery } from '../queries/levels';
 import { useSpacesQuery } from '../queries/spaces';
 import { useUnitsQuery } from '../queries/units';
-import { colors, space } from '../theme';
+import { colors, linkTarget, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Screen } from '../ui/Screen';
@@ -133,7 +133,7 @@ export function FindingsListScreen({ jobId, initial }: { jobId: string; initial:
 }
 
 const styles = StyleSheet.create({
-  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  back: linkTarget,
   head: { gap: space.xs },
   list: { gap: space.sm },
 });

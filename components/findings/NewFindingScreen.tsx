@@ -8,7 +8,7 @@ import { useUnitModelQuery, useUnitRecordQuery } from '../queries/checks';
 import { useJobQuery } from '../queries/jobs';
 import { useLevelsQuery } from '../queries/levels';
 import { useSpacesQuery } from '../queries/spaces';
-import { colors, space } from '../theme';
+import { colors, linkTarget, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
@@ -96,6 +96,6 @@ export function NewFindingScreen({ jobId, params }: { jobId: string; params: New
 }
 
 const styles = StyleSheet.create({
-  back: { alignSelf: 'flex-start', paddingVertical: space.sm },
+  back: linkTarget,
   head: { gap: space.xs },
 });

@@ -5,7 +5,7 @@ import { ApiError } from '../api/client';
 import { BoardLink } from '../board/BoardLink';
 import { useJobQuery } from '../queries/jobs';
 import { READ_ONLY_SECTIONS, SETUP_SECTIONS, canEditSetup } from '../setup/SetupFrame';
-import { colors, radius, space } from '../theme';
+import { colors, linkTarget, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
 import { RoleBadge } from '../ui/RoleBadge';
@@ -136,7 +136,7 @@ const styles = StyleSheet.create({
     padding: space.lg,
     gap: space.xs,
   },
-  back: { alignSelf: 'flex-start', paddingVertical: space.xs },
+  back: linkTarget,
   head: { gap: space.xs },
   row: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.md, flexWrap: 'wrap', paddingVertical: space.xs },
 });

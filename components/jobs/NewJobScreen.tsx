@@ -2,7 +2,7 @@ import { Link, useRouter } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 import { useCreateJobMutation } from '../queries/jobs';
 import { useSessionQuery } from '../queries/session';
-import { colors, space } from '../theme';
+import { colors, linkTarget, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
 import { Screen } from '../ui/Screen';
@@ -51,6 +51,6 @@ export function NewJobScreen() {
 }
 
 const styles = StyleSheet.create({
-  back: { alignSelf: 'flex-start', paddingVertical: space.xs },
+  back: linkTarget,
   head: { gap: space.xs },
 });

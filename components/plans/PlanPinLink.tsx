@@ -1,6 +1,6 @@
 import { Link } from 'expo-router';
 import { StyleSheet } from 'react-native';
-import { colors, space } from '../theme';
+import { colors, linkTarget } from '../theme';
 import { AppText } from '../ui/AppText';
 import { links, type PlaceKind } from '../links';
 
@@ -48,5 +48,5 @@ export function LevelPlanLink({ jobId, levelId, levelName, testID }: { jobId: st
 }
 
 const styles = StyleSheet.create({
-  link: { alignSelf: 'flex-start', paddingVertical: space.xs },
+  link: linkTarget,
 });

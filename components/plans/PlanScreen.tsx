@@ -15,7 +15,7 @@ import {
   useUploadPlanMutation,
   type PinTarget,
 } from '../queries/plans';
-import { colors, space } from '../theme';
+import { colors, linkTarget, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
@@ -297,7 +297,7 @@ function Unplaced({ findings, units, onPlace }: { findings: FindingDto[]; units:
           <AppText style={styles.grow} numberOfLines={1}>
             {`${x.label} ${x.code} · ${x.title}${x.unitTag ? ` · ${x.unitTag}` : ''}`}
           </AppText>
-          <Button label="Place" tone="secondary" testID={`plan-place-finding-${x.number}`} onPress={() => onPlace('finding', x.id)} />
+          <Button label="Place" tone="secondary" aria-label={`Place finding ${x.label} on the plan`} testID={`plan-place-finding-${x.number}`} onPress={() => onPlace('finding', x.id)} />
         </View>
       ))}
       {u.map((x) => (
@@ -306,7 +306,7 @@ function Unplaced({ findings, units, onPlace }: { findings: FindingDto[]; units:
           <AppText style={styles.grow} numberOfLines={1}>
             {`Unit ${x.tag}${x.spaceName ? ` · ${x.spaceName}` : ''}`}
           </AppText>
-          <Button label="Place" tone="secondary" testID={`plan-place-unit-${x.tag}`} onPress={() => onPlace('unit', x.id)} />
+          <Button label="Place" tone="secondary" aria-label={`Place unit ${x.tag} on the plan`} testID={`plan-place-unit-${x.tag}`} onPress={() => onPlace('unit', x.id)} />
         </View>
       ))}
       {more > 0 ? <Button label={`Show ${more} more`} tone="quiet" testID="plan-unplaced-more" onPress={() => setAll(true)} /> : null}
@@ -315,7 +315,7 @@ function Unplaced({ findings, units, onPlace }: { findings: FindingDto[]; units:
 }
 
 const styles = StyleSheet.create({
-  back: { alignSelf: 'flex-start', paddingVertical: space.xs },
+  back: linkTarget,
   head: { gap: space.xs },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' },
   inlineLink: { alignSelf: 'flex-start' },

@@ -184,9 +184,10 @@ function CatalogueItemCard({ job, item, editor, onEdit }: { job: JobDetail; item
           {error ? <Notice tone="error">{error}</Notice> : null}
           {editor ? (
             <View style={styles.actions}>
-              <Button label="Edit" tone="secondary" testID={`catalogue-edit-${item.code}`} onPress={onEdit} />
+              <Button label="Edit" tone="secondary" aria-label={`Edit ${item.code} ${item.title}`} testID={`catalogue-edit-${item.code}`} onPress={onEdit} />
               <Button
                 label={retired ? 'Bring back' : 'Retire'}
+                aria-label={`${retired ? 'Bring back' : 'Retire'} ${item.code} ${item.title}`}
                 tone="quiet"
                 testID={`catalogue-retire-${item.code}`}
                 busy={update.isPending}

@@ -98,6 +98,7 @@ function CompanyCard({ job, company, editor }: { job: JobDetail; company: JobCom
           <View style={styles.actions}>
             <Button
               label="Edit trades"
+              aria-label={`Edit the trades of ${company.name}`}
               tone="quiet"
               testID={`company-edit-${company.name}`}
               onPress={() => {
@@ -108,6 +109,7 @@ function CompanyCard({ job, company, editor }: { job: JobDetail; company: JobCom
             {!company.isOwner ? (
               <Button
                 label="Remove"
+                aria-label={`Remove ${company.name} from the job`}
                 tone="quiet"
                 busy={remove.isPending}
                 onPress={() => {

@@ -213,9 +213,10 @@ function LevelRow({
             disabled={last || busy}
             onPress={() => onMove(1)}
           />
-          <Button label="Rename" tone="quiet" testID={`level-rename-${level.position}`} onPress={() => setEditing(true)} />
+          <Button label="Rename" tone="quiet" aria-label={`Rename ${level.name}`} testID={`level-rename-${level.position}`} onPress={() => setEditing(true)} />
           <Button
             label="Delete"
+            aria-label={`Delete ${level.name}`}
             tone="quiet"
             testID={`level-delete-${level.position}`}
             busy={remove.isPending}

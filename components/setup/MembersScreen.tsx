@@ -88,6 +88,7 @@ function MemberRow({ job, member, editor, isMe }: { job: JobDetail; member: Memb
           </View>
           <Button
             label="Remove"
+            aria-label={`Remove ${member.name} from the job`}
             tone="quiet"
             testID={`member-remove-${member.id}`}
             busy={remove.isPending}

@@ -88,9 +88,10 @@ function ModelCard({ job, model, editor, onEdit }: { job: JobDetail; model: Unit
         </View>
         {editor ? (
           <View style={styles.actions}>
-            <Button label="Edit" tone="quiet" testID={`model-edit-${model.name}`} onPress={onEdit} />
+            <Button label="Edit" tone="quiet" aria-label={`Edit model ${model.name}`} testID={`model-edit-${model.name}`} onPress={onEdit} />
             <Button
               label="Delete"
+              aria-label={`Delete model ${model.name}`}
               tone="quiet"
               busy={remove.isPending}
               onPress={() => {

@@ -4,7 +4,7 @@ import { StyleSheet, View } from 'react-native';
 import { ApiError } from '../api/client';
 import { links, type SetupSection } from '../links';
 import { useJobQuery, type JobDetail } from '../queries/jobs';
-import { colors, space } from '../theme';
+import { colors, linkTarget, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
 import { Screen } from '../ui/Screen';
@@ -94,6 +94,6 @@ export function SetupFrame({
 
 const styles = StyleSheet.create({
   head: { gap: space.xs },
-  back: { alignSelf: 'flex-start', paddingVertical: space.xs },
+  back: linkTarget,
   titleRow: { flexDirection: 'row', alignItems: 'center', gap: space.md, flexWrap: 'wrap' },
 });

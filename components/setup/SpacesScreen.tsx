@@ -131,9 +131,10 @@ function SpaceRow({ job, space: s, editor }: { job: JobDetail; space: SpaceDto; 
       </View>
       {editor ? (
         <View style={styles.actions}>
-          <Button label="Edit" tone="quiet" testID={`space-edit-${s.name}`} onPress={() => setEditing(true)} />
+          <Button label="Edit" tone="quiet" aria-label={`Edit space ${s.name}`} testID={`space-edit-${s.name}`} onPress={() => setEditing(true)} />
           <Button
             label="Delete"
+            aria-label={`Delete space ${s.name}`}
             tone="quiet"
             busy={remove.isPending}
             onPress={() => {

@@ -108,10 +108,11 @@ function SystemCard({ job, system, editor }: { job: JobDetail; system: SystemDto
             tone="secondary"
             onPress={() => setOpen((o) => !o)}
           />
-          {editor ? <Button label="Edit" tone="quiet" testID={`system-edit-${system.name}`} onPress={() => setEditing(true)} /> : null}
+          {editor ? <Button label="Edit" tone="quiet" aria-label={`Edit system ${system.name}`} testID={`system-edit-${system.name}`} onPress={() => setEditing(true)} /> : null}
           {editor ? (
             <Button
               label="Delete"
+              aria-label={`Delete system ${system.name}`}
               tone="quiet"
               busy={remove.isPending}
               onPress={() => {

@@ -142,7 +142,7 @@ function UnitTable({ job, rows, editor, onEdit }: { job: JobDetail; rows: UnitDt
       key: 'actions',
       title: '',
       flex: 0.8,
-      render: (u) => <Button label="Edit" tone="quiet" testID={`unit-edit-${u.tag}`} onPress={() => onEdit(u)} />,
+      render: (u) => <Button label="Edit" tone="quiet" aria-label={`Edit unit ${u.tag}`} testID={`unit-edit-${u.tag}`} onPress={() => onEdit(u)} />,
     });
   }
   return <Table columns={columns} rows={rows} rowKey={(u) => u.id} testID="units-table" rowTestID={(u) => `unit-row-${u.tag}`} />;
@@ -153,7 +153,7 @@ function UnitCard({ job, unit, editor, onEdit }: { job: JobDetail; unit: UnitDto
     <View style={styles.card} testID={`unit-row-${unit.tag}`}>
       <View style={styles.cardHead}>
         <AppText variant="heading">{unit.tag}</AppText>
-        {editor ? <Button label="Edit" tone="quiet" testID={`unit-edit-${unit.tag}`} onPress={onEdit} /> : null}
+        {editor ? <Button label="Edit" tone="quiet" aria-label={`Edit unit ${unit.tag}`} testID={`unit-edit-${unit.tag}`} onPress={onEdit} /> : null}
       </View>
       <AppText variant="small">
         {UNIT_KIND_LABELS[unit.kind]}

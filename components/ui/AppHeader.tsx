@@ -4,9 +4,10 @@ import { StyleSheet, View } from 'react-native';
 import { currentOutbox } from '../outbox';
 import { OfflineBanner, OutboxCountLink, SignOutConfirm } from '../outbox/HeaderParts';
 import { useSessionQuery, useSignOutMutation } from '../queries/session';
-import { colors, contentMaxWidth, space } from '../theme';
+import { colors, contentMaxWidth, linkTarget, space, touchTarget } from '../theme';
 import { AppText } from './AppText';
 import { Button } from './Button';
+import { useWide } from './useWide';
 import { Wordmark } from './Wordmark';
 import { links } from '../links';
 
@@ -14,6 +15,25 @@ export function AppHeader() {
   const session = useSessionQuery();
   const signOut = useSignOutMutation();
   const user = session.data?.user;
+  // A phone has no room beside the name: it goes to its own line, whole (a company name is never cut).
+  const wide = useWide();
+  const who = user ? (
+    <View style={wide ? styles.who : styles.whoNarrow} testID="header-who">
+      <AppText variant="label" testID="header-user-name">
+        {user.name}
+      </AppText>
+      <AppText variant="small" muted testID="header-company-name">
+        {user.company.name}
+      </AppText>
+    </View>
+  ) : null;
+  const preferences = user ? (
+    <Link href={links.preferences()} testID="header-preferences" style={styles.prefs}>
+      <AppText variant="label" style={styles.prefsText}>
+        Mail preferences
+      </AppText>
+    </Link>
+  ) : null;
   // Work not sent yet: signing out asks first (it is kept unless discarded explicitly).
   const [asking, setAsking] = useState(false);
   const requestSignOut = () => {
@@ -23,28 +43,13 @@ export function AppHeader() {
   return (
     <View style={styles.bar} testID="app-header">
       <View style={styles.inner}>
-        <Link href={links.home()} accessibilityLabel="Your jobs">
+        <Link href={links.home()} accessibilityLabel="Your jobs" style={styles.home} testID="header-home">
           <Wordmark compact />
         </Link>
         <View style={styles.right}>
           <OutboxCountLink />
-          {user ? (
-            <View style={styles.who}>
-              <AppText variant="label" numberOfLines={1} testID="header-user-name">
-                {user.name}
-              </AppText>
-              <AppText variant="small" muted numberOfLines={1}>
-                {user.company.name}
-              </AppText>
-            </View>
-          ) : null}
-          {user ? (
-            <Link href={links.preferences()} accessibilityLabel="Mail preferences" testID="header-preferences" style={styles.prefs}>
-              <AppText variant="label" style={styles.prefsText}>
-                Mail
-              </AppText>
-            </Link>
-          ) : null}
+          {wide ? who : null}
+          {wide ? preferences : null}
           <Button
             testID="sign-out"
             label="Sign out"
@@ -54,6 +59,12 @@ export function AppHeader() {
           />
         </View>
       </View>
+      {!wide && user ? (
+        <View style={[styles.inner, styles.second]}>
+          {who}
+          {preferences}
+        </View>
+      ) : null}
       {asking ? (
         <SignOutConfirm
           busy={signOut.isPending}
@@ -79,7 +90,10 @@ const styles = StyleSheet.create({
     gap: space.md,
   },
   right: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexShrink: 1 },
+  home: { minHeight: touchTarget, display: 'flex', alignItems: 'center' },
   who: { alignItems: 'flex-end', flexShrink: 1 },
-  prefs: { paddingHorizontal: space.sm, paddingVertical: space.sm },
+  whoNarrow: { flexShrink: 1, minWidth: 0 },
+  second: { paddingTop: 0, alignItems: 'center' },
+  prefs: { ...linkTarget, alignSelf: 'center', paddingHorizontal: space.sm },
   prefsText: { color: colors.spruce, textDecorationLine: 'underline' },
 });

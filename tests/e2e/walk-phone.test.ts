@@ -7,7 +7,7 @@
 import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
 import { chromium, type Browser, type BrowserContext, type Locator, type Page } from 'playwright-core';
-import { CatalogueItem, Company, JobCompany, UnitModel } from '../../server/models';
+import { CatalogueItem, Company, JobCompany, UnitModel, User } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_COMPANIES, DEMO_PASSWORD } from '../../server/seed/demo';
 import { buildLevel, buildSpace, buildSystem, buildUnit, copyCatalogue } from '../support/factories';
 import { PHONE, screenshotsDir, startBrowserHarness, type BrowserHarness } from '../support/browser';
@@ -26,6 +26,7 @@ const unitIds: Record<string, string> = {};
 let jobId = '';
 let levelId = '';
 const inspector = DEMO_ACCOUNTS.find((a) => a.role === 'inspector')!;
+let inspectorCompany = '';
 /** Ten items answered by one tap, and two measured ones, of a ceiling cassette. */
 const PLAIN = ['MT-01', 'MT-02', 'MT-03', 'MT-04', 'CL-05', 'DR-06', 'DR-07', 'DR-08', 'DR-09', 'PN-02'] as const;
 
@@ -35,6 +36,7 @@ beforeAll(async () => {
   await seedDemo(h.db);
   const job = await demoJob();
   jobId = job.id;
+  inspectorCompany = (await Company.findOne({ where: { id: (await User.findOne({ where: { email: inspector.email } }))!.companyId } }))!.name;
   if ((await CatalogueItem.count({ where: { jobId } })) === 0) await copyCatalogue(jobId);
   const mechanical = await Company.findOne({ where: { name: DEMO_COMPANIES.mechanical } });
   if (mechanical && !(await JobCompany.findOne({ where: { jobId, companyId: mechanical.id } }))) {
@@ -330,8 +332,17 @@ describe('the unit check on a phone', () => {
     // the level's units and the list of levels
     await page.goto(`${h.baseUrl}/jobs/${jobId}/levels/${levelId}/walk`);
     await page.getByTestId('level-walk-units').waitFor();
-    // the level's plan link is drawn by the plan screens' own component (still 27 px tall): not counted here
-    expect((await tooSmall(page, 'level-walk-screen')).filter((c) => !c.startsWith('level-walk-plan '))).toEqual([]);
+    // the level's plan link counted too
+    expect(await page.getByTestId('level-walk-plan').count()).toBe(1);
+    expect(await tooSmall(page, 'level-walk-screen')).toEqual([]);
+    // the app header: its controls, the company name whole (never cut), each link saying what it opens
+    expect(await tooSmall(page, 'app-header')).toEqual([]);
+    expect(await page.getByTestId('header-preferences').textContent()).toBe('Mail preferences');
+    const company = page.getByTestId('header-company-name');
+    expect(await company.textContent()).toBe(inspectorCompany);
+    expect(await company.evaluate((el) => el.scrollWidth <= el.clientWidth && getComputedStyle(el).textOverflow !== 'ellipsis')).toBe(true);
+    expect(await inView(page, company)).toBe(true);
+    await page.getByTestId('app-header').screenshot({ path: `${screenshotsDir}/walk-phone-06-header-390.png` });
     await page.getByTestId('level-walk-back').tap();
     await page.getByTestId('walk-levels').waitFor();
     expect(await tooSmall(page, 'walk-levels-screen')).toEqual([]);
