@@ -29,8 +29,10 @@ export interface FindingLinkFilters {
   status?: FindingStatus | string;
   severity?: Severity | string;
   overdue?: boolean;
+  /** Words in the title, note, code or tag (a "Something else" defect is known by its title). */
+  q?: string;
 }
-const FINDING_FILTER_ORDER: readonly (keyof FindingLinkFilters)[] = ['levelId', 'unitId', 'companyId', 'catalogueItemId', 'status', 'severity', 'overdue'];
+const FINDING_FILTER_ORDER: readonly (keyof FindingLinkFilters)[] = ['levelId', 'unitId', 'companyId', 'catalogueItemId', 'status', 'severity', 'overdue', 'q'];
 
 /** What the new-finding screen may be opened with (read by app/(app)/jobs/[jobId]/findings/new.tsx). */
 export interface NewFindingParams {

@@ -38,7 +38,7 @@ export function RecurringList({ jobId, data, wide }: { jobId: string; data: Recu
               <AppText variant="small" muted>
                 {r.code}
               </AppText>
-              <Link href={links.findings(jobId, { catalogueItemId: r.catalogueItemId })} testID={`recurring-link-${r.code}`}>
+              <Link href={links.findings(jobId, recurringFilters(r))} testID={`recurring-link-${r.code}`}>
                 <AppText variant="heading" style={styles.link}>
                   {r.title}
                 </AppText>
@@ -63,6 +63,11 @@ export function RecurringList({ jobId, data, wide }: { jobId: string; data: Recu
 }
 
 /** "on 6 of 30 looked-at units of its kinds" (checked, or the type was found on them). */
+/** The findings of one recurring defect: its type, and for "Something else" (one type, many defects) its title too. */
+function recurringFilters(r: RecurringDefect) {
+  return r.key === r.catalogueItemId ? { catalogueItemId: r.catalogueItemId } : { catalogueItemId: r.catalogueItemId, q: r.title };
+}
+
 function unitsText(r: RecurringDefect): string {
   return `on ${r.unitCount} of ${r.checkedUnits} looked-at unit${r.checkedUnits === 1 ? '' : 's'} of its kinds`;
 }
@@ -88,7 +93,7 @@ function columns(jobId: string): Column<RecurringDefect>[] {
       title: 'Defect type',
       flex: 2.4,
       render: (r) => (
-        <Link href={links.findings(jobId, { catalogueItemId: r.catalogueItemId })} testID={`recurring-link-${r.code}`}>
+        <Link href={links.findings(jobId, recurringFilters(r))} testID={`recurring-link-${r.code}`}>
           <AppText variant="label" style={styles.link}>
             <AppText variant="small" muted>
               {r.code}

@@ -71,6 +71,19 @@ const RECURRING: RecurringResponse = {
       byLevel: [{ levelId: L2, name: 'Level 2', count: 6 }],
       byCompany: [{ companyId: C1, name: 'Mech Co', count: 6 }],
     },
+    {
+      // "Something else": one other type, told apart by its title.
+      key: 'other:return grille hanging loose',
+      catalogueItemId: '00000000-0000-4000-8000-0000000000d9',
+      code: 'OTHER',
+      title: 'Return grille hanging loose',
+      unitCount: 4,
+      checkedUnits: 30,
+      share: 0.13,
+      recurringSince: '2026-11-29T10:00:00.000Z',
+      byLevel: [{ levelId: L2, name: 'Level 2', count: 4 }],
+      byCompany: [{ companyId: C1, name: 'Mech Co', count: 4 }],
+    },
   ],
   companyScope: null,
 };
@@ -195,6 +208,7 @@ describe('the levels board', () => {
     expect(hrefOf('board-cell-total-open')).toBe(`${F}?status=open`);
     expect(hrefOf(`board-level-${L2}`)).toBe(`/jobs/${JOB}/levels/${L2}`);
     expect(hrefOf(`recurring-link-CD-02`)).toBe(`${F}?catalogueItemId=00000000-0000-4000-8000-0000000000d1`);
+    expect(hrefOf(`recurring-link-OTHER`)).toBe(`${F}?catalogueItemId=00000000-0000-4000-8000-0000000000d9&q=Return%20grille%20hanging%20loose`);
     // Scorecards and readiness are one tap away for the GC.
     expect(hrefOf('board-tabs-scorecards')).toBe(`/jobs/${JOB}/scorecards`);
     expect(hrefOf('board-tabs-readiness')).toBe(`/jobs/${JOB}/readiness`);
