@@ -128,6 +128,31 @@ describe('FindingForm', () => {
     });
   });
 
+  it('logs something else: a title and a trade instead of a defect type, the company suggested from the trade', async () => {
+    const api = fakeApi([{ status: 201, body: { id: 'f2', label: '#2', code: 'OTHER', title: 'Return grille hanging loose', catalogueItemId: 'other' } }]);
+    const { onLogged } = renderForm();
+    fireEvent.press(await screen.findByTestId('finding-form-other'));
+    fireEvent.press(screen.getByTestId('finding-form-submit'));
+    expect(await screen.findByText('Say what is wrong, in a few words.')).toBeTruthy();
+    expect(api.sent()).toEqual([]);
+
+    fireEvent.changeText(screen.getByTestId('finding-form-title'), 'Return grille hanging loose');
+    fireEvent.press(screen.getByTestId('finding-form-trade'));
+    fireEvent.press(screen.getByText('Electrical'));
+    expect(screen.getByText('Bright Electric (suggested)')).toBeTruthy();
+    fireEvent.press(screen.getByTestId('finding-form-submit'));
+    await waitFor(() => expect(onLogged).toHaveBeenCalled());
+    expect(api.sent()[0]!.body).toEqual({
+      id: expect.any(String),
+      title: 'Return grille hanging loose',
+      trade: 'electrical',
+      unitId: UNIT,
+      severity: 'major',
+      companyId: ELEC.id,
+      dueOn: addDays(today, 7),
+    });
+  });
+
   it('keeps a typed due date when the severity changes', async () => {
     fakeApi([]);
     renderForm();
