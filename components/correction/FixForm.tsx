@@ -6,6 +6,7 @@ import type { UnitSystem } from '../../shared/catalogue/types';
 import { fixNeedsMeasurement, newMeasurementNeeded, noLimits, sameLimitResolver } from '../../shared/rules/remeasure';
 import { NOTE_MAX, submitFixSchema, type FindingDetail, type SubmitFixInput } from '../../shared/schemas/findings';
 import { writeErrorMessage } from '../api/writeErrors';
+import { isQueued } from '../outbox';
 import { MAX_PHOTOS } from '../findings/FindingForm';
 import type { PickedPhoto } from '../findings/PhotoPicker.types';
 import { submitFixWrite, useSubmitFixMutation } from '../queries/correction';
@@ -56,6 +57,7 @@ export function FixForm({
   const submit = useSubmitFixMutation(jobId, finding.id);
   const [slot] = useState(() => new ActionWrite());
   const [done, setDone] = useState(false);
+  const [queued, setQueued] = useState(false);
   const rule = finding.catalogue.rule;
   const resolver = useMemo(() => fixFormResolver(finding), [finding]);
   // The limit the finding was logged against; the server decides with the unit's limits where it had none.
@@ -74,8 +76,9 @@ export function FixForm({
   const send = handleSubmit(({ photos, ...values }) => {
     const write = slot.take(() => submitFixWrite(jobId, finding.id, values, photos));
     submit.mutate(write, {
-      onSuccess: () => {
+      onSuccess: (res) => {
         slot.settled();
+        setQueued(isQueued(res));
         setDone(true);
         reset({ note: '', measuredText: null, photos: [] });
       },
@@ -88,6 +91,15 @@ export function FixForm({
     });
   });
   const formError = formState.errors.root?.message;
+
+  // No signal: the fix is kept on this phone and says so; it is not with the inspector yet.
+  if (done && queued) {
+    return (
+      <Notice tone="caution" title="Fix saved on this phone, waiting to send" testID={`${testID}-waiting`}>
+        It is sent with its photos when the signal is back. The list of work waiting to send is at the top of the screen.
+      </Notice>
+    );
+  }
 
   if (done && finding.status === 'fix_submitted') {
     return (

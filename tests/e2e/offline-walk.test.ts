@@ -288,6 +288,7 @@ it('a fix waiting while its finding is voided on the server needs attention, wit
     await page.getByTestId('fix-form-submit').click();
   };
   await fix(`Re-hung on rod ${suffix}`, { r: 10, g: 200, b: 10 });
+  await page.getByTestId('fix-form-waiting').waitFor();
   await page.getByTestId('header-outbox').filter({ hasText: '1 waiting to send' }).waitFor();
   await page.goBack();
   await page.getByTestId(`inbox-card-${kept.number}`).click();
