@@ -340,7 +340,8 @@ describe('the unit check on a phone', () => {
     expect(await page.getByTestId('header-preferences').textContent()).toBe('Mail preferences');
     const company = page.getByTestId('header-company-name');
     expect(await company.textContent()).toBe(inspectorCompany);
-    expect(await company.evaluate((el) => el.scrollWidth <= el.clientWidth && getComputedStyle(el).textOverflow !== 'ellipsis')).toBe(true);
+    // cut text (an ellipsis, or clipped) is wider than its box
+    expect(await company.evaluate((el: { scrollWidth: number; clientWidth: number }) => el.scrollWidth <= el.clientWidth)).toBe(true);
     expect(await inView(page, company)).toBe(true);
     await page.getByTestId('app-header').screenshot({ path: `${screenshotsDir}/walk-phone-06-header-390.png` });
     await page.getByTestId('level-walk-back').tap();
