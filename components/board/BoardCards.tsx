@@ -6,7 +6,8 @@ import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
 import { links } from '../links';
 import { COUNT_LABELS, type BoardCountKey } from './counts';
-import { CeilingBadge, CountLink, CoverageBar } from './parts';
+import { CountLink, CoverageBar } from './parts';
+import { CeilingVerdict } from './CeilingVerdict';
 
 const TILES: BoardCountKey[] = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'overdue'];
 
@@ -38,7 +39,7 @@ function LevelCard({ jobId, row }: { jobId: string; row: BoardCounts | BoardLeve
         ) : (
           <AppText variant="title">All levels</AppText>
         )}
-        {level ? <CeilingBadge ready={level.ceilingReady} blockers={level.ceilingBlockers} testID={`board-ceiling-${id}`} /> : null}
+        {level ? <CeilingVerdict state={level.ceilingState} blockers={level.ceilingBlockers} unchecked={level.ceilingUnitsUnchecked} testID={`board-ceiling-${id}`} /> : null}
       </View>
       <View style={styles.tiles}>
         {TILES.map((k) => (

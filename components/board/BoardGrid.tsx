@@ -6,7 +6,8 @@ import { AppText } from '../ui/AppText';
 import { SeverityShape } from '../walk/SeverityMark';
 import { links } from '../links';
 import type { BoardCountKey } from './counts';
-import { CeilingBadge, CountLink, CoverageBar } from './parts';
+import { CountLink, CoverageBar } from './parts';
+import { CeilingVerdict } from './CeilingVerdict';
 
 interface Col {
   key: string;
@@ -87,7 +88,7 @@ function Row({ jobId, row, zebra, totals }: { jobId: string; row: BoardCounts | 
         } else if (c.key === 'ceilings') {
           content = level ? (
             <Link href={links.level(jobId, level.levelId)} testID={`board-ceiling-${id}`}>
-              <CeilingBadge ready={level.ceilingReady} blockers={level.ceilingBlockers} short />
+              <CeilingVerdict state={level.ceilingState} blockers={level.ceilingBlockers} unchecked={level.ceilingUnitsUnchecked} short />
             </Link>
           ) : null;
         }

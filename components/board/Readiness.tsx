@@ -9,7 +9,8 @@ import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
 import { SeverityMark } from '../walk/SeverityMark';
 import { links } from '../links';
-import { CeilingBadge, StartupBadge } from './parts';
+import { StartupBadge } from './parts';
+import { CeilingVerdict } from './CeilingVerdict';
 
 const SHOWN = 6;
 
@@ -109,7 +110,10 @@ export function SystemReadinessCard({ jobId, system }: { jobId: string; system: 
   );
 }
 
-/** A level: ready to close its ceilings when no unresolved finding on it needs access above the ceiling. */
+/**
+ * A level: ready to close its ceilings when every unit in or above the ceiling is checked and no
+ * unresolved finding on it needs access above the ceiling; each blocker under the rule it breaks.
+ */
 export function LevelReadinessCard({ jobId, level, linkName = true, title }: { jobId: string; level: LevelReadiness; linkName?: boolean; title?: string }) {
   const l = level;
   const name = (
@@ -127,16 +131,34 @@ export function LevelReadinessCard({ jobId, level, linkName = true, title }: { j
         ) : (
           name
         )}
-        <CeilingBadge ready={l.ceilingReady} blockers={l.blockersTotal ?? l.blockers.length} testID={`level-ceiling-${l.levelId}`} />
+        <CeilingVerdict state={l.ceilingState} blockers={l.blockersTotal ?? l.blockers.length} unchecked={l.ceilingUnitsUnchecked} testID={`level-ceiling-${l.levelId}`} />
       </View>
       {title ? null : (
         <AppText variant="small" muted>
           {l.unitsReady} of {l.unitsTotal} units ready for startup
         </AppText>
       )}
+      {l.ceilingState === 'no_ceiling_units' ? (
+        <AppText variant="small" muted testID={`level-ceiling-none-${l.levelId}`}>
+          No unit on this level sits in or above the ceiling, so there is nothing to check before closing it.
+        </AppText>
+      ) : (
+        <AppText variant="small" muted testID={`level-ceiling-units-${l.levelId}`}>
+          {l.ceilingUnits - l.ceilingUnitsUnchecked} of {l.ceilingUnits} units in or above the ceiling checked
+        </AppText>
+      )}
+      {l.ceilingUnitsUnchecked > 0 ? (
+        <View style={styles.units} testID={`level-unchecked-${l.levelId}`}>
+          <AppText variant="label">Rule: every unit in or above the ceiling is checked first</AppText>
+          <AppText variant="small">
+            Not checked yet: {l.uncheckedCeilingUnits.map((u) => u.tag).join(', ')}
+            {l.ceilingUnitsUnchecked > l.uncheckedCeilingUnits.length ? ` and ${l.ceilingUnitsUnchecked - l.uncheckedCeilingUnits.length} more` : ''}
+          </AppText>
+        </View>
+      ) : null}
       {l.blockers.length > 0 ? (
         <View style={styles.units}>
-          <AppText variant="label">Findings that need access above the ceiling</AppText>
+          <AppText variant="label">Rule: no unresolved finding needs access above the ceiling</AppText>
           {l.blockers.map((b) => (
             <BlockerRow key={b.findingId} jobId={jobId} blocker={b} />
           ))}

@@ -18,6 +18,7 @@
  */
 import { z } from 'zod';
 import type { Severity, UnitKindKey } from '../words';
+import type { CeilingState } from '../rules/ceilings';
 
 // ---------------------------------------------------------------------------------------------
 // Levels board
@@ -44,10 +45,18 @@ export interface BoardLevelRow extends BoardCounts {
   levelId: string;
   name: string;
   position: number;
-  /** Ready to close ceilings: no unresolved finding on the level whose defect type needs access above the ceiling. */
+  /**
+   * Whether the level's ceilings can close (shared/rules/ceilings.ts): every unit in or above the
+   * ceiling checked and no unresolved finding needing access above it; or no such unit at all.
+   */
+  ceilingState: CeilingState;
+  /** ceilingState === 'ready'. */
   ceilingReady: boolean;
   /** How many unresolved findings block closing the ceiling. */
   ceilingBlockers: number;
+  /** Units on the level in or above the ceiling, and those of them without a complete unit check. */
+  ceilingUnits: number;
+  ceilingUnitsUnchecked: number;
 }
 
 export interface BoardResponse {
@@ -114,8 +123,15 @@ export interface LevelReadiness {
   levelId: string;
   name: string;
   position: number;
-  /** Ready to close ceilings. */
+  /** Whether the ceilings can close, and why not (shared/rules/ceilings.ts). */
+  ceilingState: CeilingState;
+  /** ceilingState === 'ready'. */
   ceilingReady: boolean;
+  /** Units on the level in or above the ceiling, and those of them without a complete unit check. */
+  ceilingUnits: number;
+  ceilingUnitsUnchecked: number;
+  /** The unchecked ones by tag (at most READINESS_LEVEL_BLOCKERS_MAX). */
+  uncheckedCeilingUnits: { unitId: string; tag: string }[];
   /** Unresolved findings whose defect type needs access above the ceiling (by number; at most READINESS_LEVEL_BLOCKERS_MAX). */
   blockers: ReadinessBlocker[];
   /** How many there are in all: present only when `blockers` was cut to READINESS_LEVEL_BLOCKERS_MAX. */

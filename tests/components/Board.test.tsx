@@ -38,9 +38,9 @@ const zero = { open: 0, openCritical: 0, openMajor: 0, fixSubmitted: 0, closed: 
 // Sent out of building order on purpose: the board sorts by position.
 const BOARD: BoardResponse = {
   levels: [
-    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingReady: false, ceilingBlockers: 2 },
-    { ...zero, levelId: L1, name: 'Level 1', position: 1, open: 2, openCritical: 0, openMajor: 1, fixSubmitted: 1, closed: 6, overdue: 0, unitsTotal: 20, unitsChecked: 20, ceilingReady: true, ceilingBlockers: 0 },
-    { ...zero, levelId: L3, name: 'Roof', position: 3, unitsTotal: 4, ceilingReady: true, ceilingBlockers: 0 },
+    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingState: 'blocked', ceilingReady: false, ceilingBlockers: 2, ceilingUnits: 16, ceilingUnitsUnchecked: 3 },
+    { ...zero, levelId: L1, name: 'Level 1', position: 1, open: 2, openCritical: 0, openMajor: 1, fixSubmitted: 1, closed: 6, overdue: 0, unitsTotal: 20, unitsChecked: 20, ceilingState: 'ready', ceilingReady: true, ceilingBlockers: 0, ceilingUnits: 16, ceilingUnitsUnchecked: 0 },
+    { ...zero, levelId: L3, name: 'Roof', position: 3, unitsTotal: 4, ceilingState: 'no_ceiling_units', ceilingReady: false, ceilingBlockers: 0, ceilingUnits: 0, ceilingUnitsUnchecked: 0 },
   ],
   totals: { open: 7, openCritical: 1, openMajor: 4, fixSubmitted: 3, closed: 10, overdue: 2, unitsTotal: 44, unitsChecked: 35 },
   today: '2026-11-30',
@@ -124,7 +124,11 @@ const READINESS: ReadinessResponse = {
       levelId: L2,
       name: 'Level 2',
       position: 2,
+      ceilingState: 'blocked',
       ceilingReady: false,
+      ceilingUnits: 2,
+      ceilingUnitsUnchecked: 1,
+      uncheckedCeilingUnits: [{ unitId: 'u1', tag: 'IU-2-01' }],
       unitsTotal: 2,
       unitsReady: 0,
       blockers: [{ findingId: 'f-14', number: 14, code: 'CD-02', title: 'Drain not sloped', severity: 'critical', status: 'fix_submitted', unitId: 'u2', unitTag: 'IU-2-02' }],
@@ -179,8 +183,10 @@ describe('the levels board', () => {
     expect(within(screen.getByTestId(`board-cell-${L2}-openMajor`)).getByText('3')).toBeTruthy();
     expect(within(screen.getByTestId('board-cell-total-closed')).getByText('10')).toBeTruthy();
     expect(within(screen.getByTestId(`board-coverage-${L2}`)).getByText(/15 of 20/)).toBeTruthy();
-    expect(within(screen.getByTestId(`board-ceiling-${L2}`)).getByText('✕ 2 blocking')).toBeTruthy();
+    expect(within(screen.getByTestId(`board-ceiling-${L2}`)).getByText('✕ 2 blocking · 3 unchecked')).toBeTruthy();
     expect(within(screen.getByTestId(`board-ceiling-${L1}`)).getByText('✓ Can close')).toBeTruthy();
+    // A level without units in the ceiling says so: it is not "can close".
+    expect(within(screen.getByTestId(`board-ceiling-${L3}`)).getByText('No ceiling units')).toBeTruthy();
   });
 
   it('shows one card per level on a phone, totals first, with the same numbers', async () => {
@@ -336,7 +342,11 @@ describe('readiness and the level screen', () => {
     expect(within(sys).getByText(/0 of 2 units ready · 1 not checked · 1 blocking finding$/)).toBeTruthy();
     expect(hrefOf('blocker-12')).toBe(`/jobs/${JOB}/findings/f-12`);
     const level = screen.getByTestId(`level-readiness-${L2}`);
-    expect(within(level).getByText('✕ 1 blocking')).toBeTruthy();
+    expect(within(level).getByText('✕ 1 blocking · 1 unchecked')).toBeTruthy();
+    // Each blocker sits under the rule it breaks.
+    expect(within(level).getByText('Rule: every unit in or above the ceiling is checked first')).toBeTruthy();
+    expect(within(level).getByText('Not checked yet: IU-2-01')).toBeTruthy();
+    expect(within(level).getByText('Rule: no unresolved finding needs access above the ceiling')).toBeTruthy();
     expect(hrefOf('blocker-14')).toBe(`/jobs/${JOB}/findings/f-14`);
     expect(screen.getByTestId('readiness-systems-count').props.children).toEqual([0, ' of ', 1, ' systems ready for startup.']);
   });

@@ -4,10 +4,17 @@
  */
 import type { Sequelize } from 'sequelize';
 import type { BoardCounts, BoardLevelRow, BoardResponse } from '../../../shared/schemas/board';
+import { CEILING_UNIT_KINDS, ceilingState, type CeilingFacts } from '../../../shared/rules/ceilings';
 import { todayIn } from '../../../shared/rules/dates';
 import { cachedStat, readStatVersions, type StatVersions } from '../statCache';
 import type { FindingScope } from '../findingQueries';
 import { latestCheckJoin, loadTallies, loadUnresolvedFigures, num, select } from './common';
+
+/** The ceiling verdict of a level: its state, and "ready" as a flag for the screens that only need that. */
+export function ceilingOf(facts: CeilingFacts) {
+  const state = ceilingState(facts);
+  return { ceilingState: state, ceilingReady: state === 'ready' };
+}
 
 const COUNT_KEYS = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'overdue', 'unitsTotal', 'unitsChecked'] as const;
 
@@ -17,27 +24,48 @@ interface CoverageRow {
   position: number;
   units_total: number;
   units_checked: number;
+  /** Units in or above the ceiling (shared/rules/ceilings.ts), and those of them not checked. */
+  ceiling_units: number;
+  ceiling_unchecked: number;
 }
 
 /** The job's levels in building order with their units and checked units (cached on topic structure). */
 async function loadCoverage(sequelize: Sequelize, jobId: string, versions?: StatVersions): Promise<CoverageRow[]> {
-  return cachedStat(sequelize, jobId, ['structure'], 'coverage', async () => {
-    const rows = await select<{ level_id: string; name: string; position: number; units_total: string | null; units_checked: string | null }>(
+  return cachedStat(sequelize, jobId, ['structure'], 'coverage-with-ceiling-units', async () => {
+    const rows = await select<{
+      level_id: string;
+      name: string;
+      position: number;
+      units_total: string | null;
+      units_checked: string | null;
+      ceiling_units: string | null;
+      ceiling_unchecked: string | null;
+    }>(
       sequelize,
       `WITH uc AS (
-        SELECT u.level_id, count(*) AS units_total, count(*) FILTER (WHERE lc.complete) AS units_checked
+        SELECT u.level_id, count(*) AS units_total, count(*) FILTER (WHERE lc.complete) AS units_checked,
+               count(*) FILTER (WHERE u.kind = ANY ($2::text[])) AS ceiling_units,
+               count(*) FILTER (WHERE u.kind = ANY ($2::text[]) AND NOT coalesce(lc.complete, false)) AS ceiling_unchecked
           FROM units u
           ${latestCheckJoin('u')}
          WHERE u.job_id = $1
          GROUP BY u.level_id
       )
-      SELECT lv.id AS level_id, lv.name, lv.position, uc.units_total, uc.units_checked
+      SELECT lv.id AS level_id, lv.name, lv.position, uc.units_total, uc.units_checked, uc.ceiling_units, uc.ceiling_unchecked
         FROM levels lv LEFT JOIN uc ON uc.level_id = lv.id
        WHERE lv.job_id = $1
        ORDER BY lv.position, lv.id`,
-      [jobId],
+      [jobId, CEILING_UNIT_KINDS],
     );
-    return rows.map((r) => ({ level_id: r.level_id, name: r.name, position: r.position, units_total: num(r.units_total), units_checked: num(r.units_checked) }));
+    return rows.map((r) => ({
+      level_id: r.level_id,
+      name: r.name,
+      position: r.position,
+      units_total: num(r.units_total),
+      units_checked: num(r.units_checked),
+      ceiling_units: num(r.ceiling_units),
+      ceiling_unchecked: num(r.ceiling_unchecked),
+    }));
   }, versions);
 }
 
@@ -92,7 +120,9 @@ export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Prom
     unitsTotal: num(r.units_total),
     unitsChecked: num(r.units_checked),
     ceilingBlockers: num(r.ceiling_blockers),
-    ceilingReady: num(r.ceiling_blockers) === 0,
+    ceilingUnits: r.ceiling_units,
+    ceilingUnitsUnchecked: r.ceiling_unchecked,
+    ...ceilingOf({ ceilingUnits: r.ceiling_units, ceilingUnitsUnchecked: r.ceiling_unchecked, blockers: num(r.ceiling_blockers) }),
   }));
   const totals = Object.fromEntries(COUNT_KEYS.map((k) => [k, 0])) as unknown as BoardCounts;
   for (const l of levels) for (const k of COUNT_KEYS) totals[k] += l[k];

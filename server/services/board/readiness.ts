@@ -12,9 +12,11 @@ import {
   type SystemReadiness,
   type UnitReadiness,
 } from '../../../shared/schemas/board';
+import { CEILING_UNIT_KINDS } from '../../../shared/rules/ceilings';
 import type { UnitKindKey } from '../../../shared/words';
 import type { FindingScope } from '../findingQueries';
 import { Bind, companyCond, latestCheckJoin, num, select, selectTuned } from './common';
+import { ceilingOf } from './levels';
 
 /** JSON of one blocker row (aliases f, `item` = where code and title are, bu = the finding's unit). */
 const blockerJson = (item: string) => `json_build_object('findingId', f.id, 'number', f.number, 'code', ${item}.code, 'title', coalesce(f.title, ${item}.title),
@@ -44,6 +46,9 @@ interface LevelRow {
   position: number;
   units_total: string;
   units_ready: string;
+  ceiling_units: string;
+  ceiling_unchecked: string;
+  unchecked_units: { unitId: string; tag: string }[];
   blockers: ReadinessBlocker[];
   blockers_total: string | null;
 }
@@ -125,8 +130,14 @@ export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, q
      WHERE ${systemConds.join(' AND ')}
      GROUP BY s.id, s.name
      ORDER BY s.name, s.id`;
+  // The kinds are the code's own constants (shared/rules/ceilings.ts), never request values.
+  const ceilingKinds = `ARRAY[${CEILING_UNIT_KINDS.map((k) => `'${k}'`).join(', ')}]::text[]`;
   const levelsSql = `WITH ${unitState}, level_units AS (
-      SELECT us.level_id, count(*) AS units_total, count(*) FILTER (WHERE us.ready) AS units_ready
+      SELECT us.level_id, count(*) AS units_total, count(*) FILTER (WHERE us.ready) AS units_ready,
+             count(*) FILTER (WHERE us.kind = ANY (${ceilingKinds})) AS ceiling_units,
+             count(*) FILTER (WHERE us.kind = ANY (${ceilingKinds}) AND NOT us.checked) AS ceiling_unchecked,
+             (array_agg(json_build_object('unitId', us.unit_id, 'tag', us.tag) ORDER BY us.tag, us.unit_id)
+                FILTER (WHERE us.kind = ANY (${ceilingKinds}) AND NOT us.checked))[1:${READINESS_LEVEL_BLOCKERS_MAX}] AS unchecked_units
         FROM unit_state us
        GROUP BY us.level_id
     ), ceiling_items AS (
@@ -141,6 +152,8 @@ export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, q
     )
     SELECT lv.id AS level_id, lv.name, lv.position,
            coalesce(lu.units_total, 0) AS units_total, coalesce(lu.units_ready, 0) AS units_ready,
+           coalesce(lu.ceiling_units, 0) AS ceiling_units, coalesce(lu.ceiling_unchecked, 0) AS ceiling_unchecked,
+           coalesce(array_to_json(lu.unchecked_units), '[]'::json) AS unchecked_units,
            coalesce(cb.blockers, '[]'::json) AS blockers, cc.total AS blockers_total
       FROM levels lv
       LEFT JOIN level_units lu ON lu.level_id = lv.id
@@ -196,7 +209,10 @@ export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, q
     levelId: l.level_id,
     name: l.name,
     position: l.position,
-    ceilingReady: l.blockers.length === 0,
+    ...ceilingOf({ ceilingUnits: num(l.ceiling_units), ceilingUnitsUnchecked: num(l.ceiling_unchecked), blockers: num(l.blockers_total) }),
+    ceilingUnits: num(l.ceiling_units),
+    ceilingUnitsUnchecked: num(l.ceiling_unchecked),
+    uncheckedCeilingUnits: l.unchecked_units,
     blockers: l.blockers,
     ...(num(l.blockers_total) > l.blockers.length ? { blockersTotal: num(l.blockers_total) } : {}),
     unitsTotal: num(l.units_total),

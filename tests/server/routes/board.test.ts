@@ -17,13 +17,14 @@ import type { Database } from '../../../server/db';
 import { CatalogueItem, Finding, Job, UnitCheck } from '../../../server/models';
 import { DEMO_ACCOUNTS, DEMO_JOBS, DEMO_PASSWORD, seedDemo } from '../../../server/seed/demo';
 import { nextFindingNumber, recordFindingEvent } from '../../../server/services/findings';
-import type {
-  BoardResponse,
-  ReadinessBlocker,
-  ReadinessResponse,
-  RecurringResponse,
-  ScorecardsResponse,
-  TrendResponse,
+import {
+  READINESS_LEVEL_BLOCKERS_MAX,
+  type BoardResponse,
+  type ReadinessBlocker,
+  type ReadinessResponse,
+  type RecurringResponse,
+  type ScorecardsResponse,
+  type TrendResponse,
 } from '../../../shared/schemas/board';
 import type { FindingStatus, Severity } from '../../../shared/words';
 import { caller, jobPath, type Caller } from '../../support/api';
@@ -143,6 +144,18 @@ function visible(rows: Rows, companyId: string | null) {
 // Expected answers, in plain JS
 // ---------------------------------------------------------------------------------------------
 
+/**
+ * Kinds that sit in or above the ceiling: cassettes are set into the ceiling grid, ducted units
+ * hang above it (common practice). The level's ceilings can close only when each such unit has a
+ * complete unit check and no unresolved finding needs access above the ceiling; a level without
+ * such units (and without such findings) has nothing to close.
+ */
+const IN_OR_ABOVE_CEILING = /^(cassette|ducted)_/;
+function ceilingVerdict(ceilingUnits: number, unchecked: number, blockers: number) {
+  const ceilingState = ceilingUnits === 0 && blockers === 0 ? 'no_ceiling_units' : unchecked === 0 && blockers === 0 ? 'ready' : 'blocked';
+  return { ceilingState, ceilingReady: ceilingState === 'ready' } as const;
+}
+
 function expectedBoard(rows: Rows, companyId: string | null): BoardResponse {
   const today = dateIn(rows.timeZone, new Date());
   const checked = checkedUnitIds(rows);
@@ -164,13 +177,17 @@ function expectedBoard(rows: Rows, companyId: string | null): BoardResponse {
     .map((l) => {
       const mine = fs.filter((f) => f.level_id === l.id);
       const blockers = mine.filter((f) => unresolved(f.status) && ceilingItems.has(f.catalogue_item_id)).length;
+      const ceilingUnits = rows.units.filter((u) => u.level_id === l.id && IN_OR_ABOVE_CEILING.test(u.kind));
+      const unchecked = ceilingUnits.filter((u) => !checked.has(u.id)).length;
       return {
         levelId: l.id,
         name: l.name,
         position: l.position,
         ...counts(mine, rows.units.filter((u) => u.level_id === l.id)),
         ceilingBlockers: blockers,
-        ceilingReady: blockers === 0,
+        ceilingUnits: ceilingUnits.length,
+        ceilingUnitsUnchecked: unchecked,
+        ...ceilingVerdict(ceilingUnits.length, unchecked, blockers),
       };
     });
   return { levels, totals: counts(fs, rows.units), today, companyScope: companyId };
@@ -224,7 +241,20 @@ function expectedReadiness(rows: Rows, companyId: string | null): ReadinessRespo
     .map((l) => {
       const blockers = fs.filter((f) => f.level_id === l.id && items.get(f.catalogue_item_id)!.needs_ceiling_access).map(blocker);
       const mine = all.filter((u) => u.levelId === l.id);
-      return { levelId: l.id, name: l.name, position: l.position, ceilingReady: blockers.length === 0, blockers, unitsTotal: mine.length, unitsReady: mine.filter((u) => u.ready).length };
+      const ceilingUnits = mine.filter((u) => IN_OR_ABOVE_CEILING.test(u.kind));
+      const unchecked = ceilingUnits.filter((u) => !u.checked).sort((a, b) => (a.tag < b.tag ? -1 : a.tag > b.tag ? 1 : a.unitId < b.unitId ? -1 : 1));
+      return {
+        levelId: l.id,
+        name: l.name,
+        position: l.position,
+        ...ceilingVerdict(ceilingUnits.length, unchecked.length, blockers.length),
+        ceilingUnits: ceilingUnits.length,
+        ceilingUnitsUnchecked: unchecked.length,
+        uncheckedCeilingUnits: unchecked.slice(0, READINESS_LEVEL_BLOCKERS_MAX).map((u) => ({ unitId: u.unitId, tag: u.tag })),
+        blockers,
+        unitsTotal: mine.length,
+        unitsReady: mine.filter((u) => u.ready).length,
+      };
     });
   return { systems, levels, unitsWithoutSystem: all.filter((u) => u.systemId === null), companyScope: companyId } as ReadinessResponse;
 }
@@ -378,6 +408,9 @@ describe('the demo job', () => {
     const board = expectedBoard(rows, null);
     expect(board.totals.overdue).toBeGreaterThan(0);
     expect(board.levels.filter((l) => !l.ceilingReady).length).toBeGreaterThan(0);
+    // A level whose ceiling units are not all checked, with no finding blocking, is not ready: the
+    // case that used to show "can close".
+    expect(board.levels.some((l) => l.ceilingBlockers === 0 && l.ceilingUnitsUnchecked > 0 && l.ceilingState === 'blocked')).toBe(true);
     expect(expectedRecurring(rows, null).items.length).toBeGreaterThan(0);
   });
 
@@ -615,10 +648,12 @@ describe('a small hand-built job', () => {
     expect(res.status).toBe(200);
     expect(res.body.levels).toEqual([
       // F1, F2, F3 closed; F4 voided (never counted). U1, U5, U6 checked; U2's latest check is incomplete.
-      { levelId: L1.id, name: 'First', position: 1, ...zero, closed: 3, unitsTotal: 4, unitsChecked: 3, ceilingBlockers: 0, ceilingReady: true },
+      // Its four cassettes sit in the ceiling and U2's latest check is incomplete: the ceilings cannot
+      // close yet, although no finding blocks them.
+      { levelId: L1.id, name: 'First', position: 1, ...zero, closed: 3, unitsTotal: 4, unitsChecked: 3, ceilingBlockers: 0, ceilingUnits: 4, ceilingUnitsUnchecked: 1, ceilingState: 'blocked', ceilingReady: false },
       // F5 closed, F6 open critical and overdue, F7 fix submitted (past due, waiting for the inspector:
       // not overdue) and needs ceiling access.
-      { levelId: L2.id, name: 'Second', position: 2, ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 1, overdue: 1, unitsTotal: 2, unitsChecked: 2, ceilingBlockers: 1, ceilingReady: false },
+      { levelId: L2.id, name: 'Second', position: 2, ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 1, overdue: 1, unitsTotal: 2, unitsChecked: 2, ceilingBlockers: 1, ceilingUnits: 1, ceilingUnitsUnchecked: 0, ceilingState: 'blocked', ceilingReady: false },
     ]);
     expect(res.body.totals).toEqual({ ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 4, overdue: 1, unitsTotal: 6, unitsChecked: 5 });
     expect(res.body.companyScope).toBeNull();
@@ -630,7 +665,8 @@ describe('a small hand-built job', () => {
     // Company A has no ceiling blocker on level 2: for them, nothing of theirs holds the ceiling.
     const a = await subA.get(jobPath(crew.job.id, '/board'));
     expect(a.body.totals).toEqual({ ...zero, open: 1, openCritical: 1, closed: 3, overdue: 1, unitsTotal: 6, unitsChecked: 5 });
-    expect(a.body.levels[1]).toMatchObject({ ceilingBlockers: 0, ceilingReady: true });
+    expect(a.body.levels[1]).toMatchObject({ ceilingBlockers: 0, ceilingState: 'ready', ceilingReady: true });
+    expect(a.body.levels[0]).toMatchObject({ ceilingUnitsUnchecked: 1, ceilingState: 'blocked' });
   });
 
   it('scorecards: median of 2, 5 and 9 days is 5; first pass 2 of 3; returns go to the company responsible at the time', async () => {
@@ -678,8 +714,14 @@ describe('a small hand-built job', () => {
       ['U6', true, true],
     ]);
     expect(body.levels).toEqual([
-      { levelId: L1.id, name: 'First', position: 1, ceilingReady: true, blockers: [], unitsTotal: 4, unitsReady: 3 },
-      { levelId: L2.id, name: 'Second', position: 2, ceilingReady: false, blockers: [blockerF7], unitsTotal: 2, unitsReady: 1 },
+      {
+        levelId: L1.id, name: 'First', position: 1, ceilingState: 'blocked', ceilingReady: false, ceilingUnits: 4, ceilingUnitsUnchecked: 1,
+        uncheckedCeilingUnits: [{ unitId: u.U2!.id, tag: 'U2' }], blockers: [], unitsTotal: 4, unitsReady: 3,
+      },
+      {
+        levelId: L2.id, name: 'Second', position: 2, ceilingState: 'blocked', ceilingReady: false, ceilingUnits: 1, ceilingUnitsUnchecked: 0,
+        uncheckedCeilingUnits: [], blockers: [blockerF7], unitsTotal: 2, unitsReady: 1,
+      },
     ]);
     // Company B: F6 is not theirs, so nothing of B's holds U3 back; F7 is B's ceiling blocker.
     const b = (await subB.get(jobPath(crew.job.id, '/readiness'))).body as ReadinessResponse;
@@ -833,5 +875,18 @@ describe('a small hand-built job', () => {
       expect(res.body.error.fields).toBeDefined();
     }
     expect((await gc.get('/api/jobs/not-a-uuid/board')).status).toBe(400);
+  });
+
+  // Last: it adds a level the tests above do not expect.
+  it('a level with no unit in or above the ceiling says so instead of "can close"; one unchecked cassette blocks it', async () => {
+    const L3 = await buildLevel(crew.job.id, { name: 'Roof plant', position: 3 });
+    await buildUnit(crew.job.id, L3.id, { tag: 'W1', kind: 'wall_mounted' });
+    const board = (await gc.get(jobPath(crew.job.id, '/board'))).body as BoardResponse;
+    expect(board.levels.find((l) => l.levelId === L3.id)).toMatchObject({ ceilingUnits: 0, ceilingState: 'no_ceiling_units', ceilingReady: false });
+    const cassette = await buildUnit(crew.job.id, L3.id, { tag: 'C1', kind: 'cassette_2way' });
+    const readiness = (await gc.get(jobPath(crew.job.id, `/readiness?levelId=${L3.id}`))).body as ReadinessResponse;
+    expect(readiness.levels).toEqual([
+      expect.objectContaining({ levelId: L3.id, ceilingState: 'blocked', ceilingReady: false, ceilingUnits: 1, ceilingUnitsUnchecked: 1, uncheckedCeilingUnits: [{ unitId: cassette.id, tag: 'C1' }], blockers: [] }),
+    ]);
   });
 });
