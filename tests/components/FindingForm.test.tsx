@@ -96,7 +96,7 @@ describe('FindingForm', () => {
     const api = fakeApi([]);
     renderForm();
     fireEvent.press(await screen.findByTestId('finding-form-submit'));
-    expect(await screen.findByText('Choose the defect type, or log something else with a title.')).toBeTruthy();
+    expect(await screen.findByText('Choose a defect type.')).toBeTruthy();
     expect(within(screen.getByTestId('finding-form-error')).getByText('Check the fields marked below.')).toBeTruthy();
     expect(api.sent()).toEqual([]);
   });

@@ -36,7 +36,7 @@ export function refineSomethingElse(f: SomethingElseFields, ctx: z.RefinementCtx
     return;
   }
   if (f.title === undefined && f.trade === undefined) {
-    issue('catalogueItemId', 'Choose the defect type, or log something else with a title.');
+    issue('catalogueItemId', 'Choose a defect type.');
     return;
   }
   if (f.title === undefined) issue('title', 'Say what is wrong, in a few words.');
