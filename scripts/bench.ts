@@ -14,8 +14,9 @@
  * 4. Per read endpoint, the SQL the route itself sends (captured from one request, without the
  *    session / user / membership queries every request pays) is replayed directly on PostgreSQL;
  *    printed next to the API's latency with one client and under load, as ratios.
- * 5. Exports (scripts/lib/benchExport.ts when present), the web bundle size (gzip) and the time
- *    until the sign-in page is usable in headless chromium (BENCH_SKIP_WEB=1 skips these two).
+ * 5. Exports (scripts/lib/benchExport.ts when present), the web bundle size (gzip), the time
+ *    until the sign-in page is usable in headless chromium, and the local save of a finding with
+ *    2 photos with the CPU slowed 4x (scripts/lib/benchLocalSave.ts; BENCH_SKIP_WEB=1 skips these).
  * Results also go to .artifacts/bench.json.
  */
 import { type ChildProcess, spawn } from 'node:child_process';
@@ -28,6 +29,7 @@ import pg from 'pg';
 import { chromium } from 'playwright-core';
 import sharp from 'sharp';
 import { connect, migrate } from '../server/db';
+import { CPU_SLOWDOWN, localSaveBench, type LocalSaveResult } from './lib/benchLocalSave';
 import { BENCH_PASSWORD, seedBenchJob, type BenchJob, type BenchUser } from './lib/benchSeed';
 import { cookieFrom, multipart, newAgent, send, stats, type BenchClient, type Reply, type Stats } from './lib/benchHttp';
 import type { CaptureMessage, CapturedQuery } from './lib/benchServer';
@@ -648,6 +650,20 @@ async function main() {
     }
     const bundle = SKIP_WEB ? null : bundleSize();
     const usableMs = SKIP_WEB ? null : await signInPageUsable(server.url.origin);
+    let localSave: LocalSaveResult | null = null;
+    if (!SKIP_WEB) {
+      say(`local save of a finding with 2 photos, CPU ${CPU_SLOWDOWN}x slower (scripts/lib/benchLocalSave.ts) ...`);
+      try {
+        const inspector = job.users.find((u) => u.role === 'inspector')!;
+        const unitDb = new pg.Client({ connectionString: url });
+        await unitDb.connect();
+        const unit = await unitDb.query<{ id: string }>(`SELECT id FROM units WHERE job_id = $1 ORDER BY tag LIMIT 1`, [job.jobId]);
+        await unitDb.end();
+        localSave = await localSaveBench({ baseUrl: server.url.origin, email: inspector.email, password: BENCH_PASSWORD, jobId: job.jobId, unitId: unit.rows[0]!.id });
+      } catch (err) {
+        say(`local save benchmark failed: ${err instanceof Error ? err.message : String(err)}`);
+      }
+    }
 
     // ---- Report ----
     const totalRequests = [...load.byEndpoint.values()].reduce((s, e) => s + e.times.length, 0);
@@ -693,10 +709,17 @@ async function main() {
     } else if (exportResult) console.log(`\nExport: ${JSON.stringify(exportResult)}`);
     if (bundle) console.log(`\nweb bundle: ${(bundle.raw / 1024).toFixed(0)} KiB raw, ${(bundle.gzip / 1024).toFixed(0)} KiB gzip`);
     if (usableMs !== null) console.log(`sign-in page usable in headless chromium (median of 5): ${usableMs} ms`);
+    if (localSave) {
+      console.log(
+        `\nLocal save of a finding with 2 photos (phone-sized page, CPU ${localSave.cpuSlowdown}x slower through the DevTools protocol, no network, ${localSave.runs} runs):\n` +
+          `  tap on "Log finding" → the queued record in IndexedDB (outbox): p50 ${f1(localSave.save.p50)} ms, p95 ${f1(localSave.save.p95)} ms (includes up to one 10 ms poll)\n` +
+          `  2 photos of 4000×3000 picked → downscaled to 2560 px on the device and shown in the form: p50 ${f1(localSave.prepare.p50)} ms, p95 ${f1(localSave.prepare.p95)} ms`,
+      );
+    }
     fs.mkdirSync(path.join(root, '.artifacts'), { recursive: true });
     fs.writeFileSync(
       path.join(root, '.artifacts', 'bench.json'),
-      JSON.stringify({ at: new Date().toISOString(), clients: clients.length, seconds: load.elapsed, networkErrors: load.networkErrors, load: loadRows, reads, exportResult, bundle, usableMs }, null, 2),
+      JSON.stringify({ at: new Date().toISOString(), clients: clients.length, seconds: load.elapsed, networkErrors: load.networkErrors, load: loadRows, reads, exportResult, bundle, usableMs, localSave }, null, 2),
     );
   } finally {
     await server?.stop();

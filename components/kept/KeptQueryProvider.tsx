@@ -11,8 +11,8 @@
  * Nothing of the outbox lives here: paused mutations are not persisted.
  */
 import { createAsyncStoragePersister } from '@tanstack/query-async-storage-persister';
-import { hashKey, QueryClientProvider, type QueryClient, type QueryKey } from '@tanstack/react-query';
-import { PersistQueryClientProvider, persistQueryClientSave, type PersistQueryClientOptions } from '@tanstack/react-query-persist-client';
+import { dehydrate, hashKey, onlineManager, QueryClientProvider, type QueryClient, type QueryKey } from '@tanstack/react-query';
+import { PersistQueryClientProvider, type PersistQueryClientOptions } from '@tanstack/react-query-persist-client';
 import Constants from 'expo-constants';
 import { createContext, useContext, useEffect, useMemo, useState, type ReactNode } from 'react';
 import type { SessionResponse } from '../../shared/schemas/session';
@@ -74,12 +74,16 @@ export function keptRetry(failureCount: number, error: unknown): boolean {
   return !(error instanceof ApiError && error.status >= 400 && error.status < 500) && failureCount < 2;
 }
 
-/** Gives every kept key its defaults (never collected, kept retry); a key no longer kept gets none. */
+/**
+ * Gives every kept key its defaults (never collected; paused, not failed, while the browser is
+ * offline; kept retry); a key no longer kept gets none. A kept query must not end in an error:
+ * the screens show an error instead of data, and only fetched data is persisted.
+ */
 function applyKeptDefaults(client: QueryClient, applied: Map<string, QueryKey>) {
   const now = new Map<string, QueryKey>();
   for (const level of keptState().levels) for (const key of level.queryKeys) now.set(hashKey(key), key);
   for (const [hash, key] of applied) if (!now.has(hash)) client.setQueryDefaults(key, {});
-  for (const [hash, key] of now) if (!applied.has(hash)) client.setQueryDefaults(key, { gcTime: Infinity, retry: keptRetry });
+  for (const [hash, key] of now) if (!applied.has(hash)) client.setQueryDefaults(key, { gcTime: Infinity, retry: keptRetry, networkMode: 'online' });
   applied.clear();
   for (const [hash, key] of now) applied.set(hash, key);
 }
@@ -101,12 +105,20 @@ export function useKeptActions(): KeptActions | null {
  * of a walk that starts. Answers the actions and an unsubscribe.
  */
 export function connectKept(client: QueryClient, options: Omit<PersistQueryClientOptions, 'queryClient'>): { actions: KeptActions; disconnect: () => void } {
-  const save = () => persistQueryClientSave({ ...options, queryClient: client as never });
+  // Written at once, past the persister's throttle: a keep ends with its data on the device.
+  const save = async () => {
+    const clientState = dehydrate(client, options.dehydrateOptions as never);
+    await keptStores().cache.set(KEPT_CACHE_KEY, JSON.stringify({ buster: options.buster, timestamp: Date.now(), clientState }));
+  };
   const forget = () => forgetKept(client, () => Promise.resolve(options.persister.removeClient()));
   const actions: KeptActions = {
     keep: (input) => keepLevel(client, input, save),
     stop: (jobId, levelId) => stopKeeping(client, jobId, levelId, save),
   };
+  // react-query learns of the network from the online/offline events only; a page opened with no
+  // network never gets one, so it starts from what the browser says now.
+  const nav = (globalThis as { navigator?: { onLine?: boolean } }).navigator;
+  if (typeof nav?.onLine === 'boolean') onlineManager.setOnline(nav.onLine);
   const applied = new Map<string, QueryKey>();
   applyKeptDefaults(client, applied);
   const unsubscribeKept = subscribeKept(() => applyKeptDefaults(client, applied));
@@ -157,7 +169,9 @@ export function KeptQueryProvider({ client, children }: { client: QueryClient; c
   // The list of kept levels is read before the cache is restored, so the filter knows them.
   if (!loaded) return null;
   return (
-    <PersistQueryClientProvider client={client} persistOptions={options}>
+    // A session restored from the device is asked of the server again at once (when there is a
+    // network): if it has ended, what was kept goes before anyone sees it.
+    <PersistQueryClientProvider client={client} persistOptions={options} onSuccess={() => client.invalidateQueries({ queryKey: sessionKeys.all })}>
       <KeptContext.Provider value={actions}>{children}</KeptContext.Provider>
     </PersistQueryClientProvider>
   );

@@ -9,15 +9,16 @@
  * Limits: KEPT_BUDGET_BYTES for all kept levels together; over it, the level brought up to date
  * longest ago goes first. Nothing is kept when the device is nearly full (deviceStorage.ts).
  */
-import type { QueryClient, QueryKey } from '@tanstack/react-query';
+import { QueryObserver, type QueryClient, type QueryKey } from '@tanstack/react-query';
 import type { FindingDto, FindingListResponse, UnitChecksResponse, WalkDto, WalkUnitDto, WalkUnitsResponse } from '../../shared/schemas/findings';
 import type { SessionResponse } from '../../shared/schemas/session';
-import type { CatalogueItemDto, JobDetail, LevelDto, ListResponse, SpaceDto, SystemDto, UnitDto, UnitModelDto } from '../../shared/schemas/setup';
+import type { CatalogueItemDto, JobCompanyDto, JobDetail, LevelDto, ListResponse, SpaceDto, SystemDto, UnitDto, UnitModelDto } from '../../shared/schemas/setup';
 import { apiGet, apiGetBlob } from '../api/client';
 import { fetchAll, jobPath, queryString } from '../api/lists';
 import { askForPersistentStorage, checkRoomFor } from '../photos/deviceStorage';
 import { catalogueKeys } from '../queries/catalogue';
 import { checkKeys } from '../queries/checks';
+import { companyKeys } from '../queries/companies';
 import { FINDINGS_PAGE_SIZE, findingKeys } from '../queries/findings';
 import { jobKeys } from '../queries/jobs';
 import { levelKeys } from '../queries/levels';
@@ -81,10 +82,14 @@ function sizeOf(data: unknown): number {
 /**
  * Puts data in the cache under a screen's key so that it is never collected while kept: a query
  * nobody watches is otherwise dropped after 5 minutes, and with it from the persisted cache.
- * (fetchQuery rather than setQueryData: it also lifts the gcTime of a query that exists already.)
+ * setQueryData, not fetchQuery: an infinite list's query would take the data for one page. A
+ * disabled observer held for a moment lifts the query's gcTime (and clears a removal already
+ * scheduled with the old one).
  */
-async function seed(client: QueryClient, key: QueryKey, data: unknown): Promise<void> {
-  await client.fetchQuery({ queryKey: key, queryFn: () => data, staleTime: 0, gcTime: Infinity, retry: false });
+function seed(client: QueryClient, key: QueryKey, data: unknown): void {
+  client.setQueryData(key, data);
+  const hold = new QueryObserver(client, { queryKey: key, enabled: false, gcTime: Infinity });
+  hold.subscribe(() => undefined)();
 }
 
 export interface KeepInput {
@@ -96,13 +101,17 @@ export interface KeepInput {
 /** Everything one level's walk reads, fetched from the server: each entry a key and its data. */
 async function fetchLevel(input: KeepInput, progress: (done: number, total: number) => void) {
   const { jobId, levelId, userId } = input;
-  const [job, levels, spaces, systems, models, catalogue] = await Promise.all([
+  const [job, levels, spaces, allSpaces, systems, models, catalogue, withRetired, companies] = await Promise.all([
     apiGet<JobDetail>(jobPath(jobId)),
     fetchAll<LevelDto>(jobPath(jobId, 'levels')).then((l) => l.sort((a, b) => a.position - b.position)),
     fetchAll<SpaceDto>(jobPath(jobId, 'spaces'), { levelId }),
+    fetchAll<SpaceDto>(jobPath(jobId, 'spaces'), { levelId: undefined }),
     fetchAll<SystemDto>(jobPath(jobId, 'systems')),
     fetchAll<UnitModelDto>(jobPath(jobId, 'models'), { unitKind: undefined }),
     fetchAll<CatalogueItemDto>(jobPath(jobId, 'catalogue'), { unitKind: undefined, includeRetired: undefined }),
+    // The level's findings list filters by these (and names retired items of old findings).
+    fetchAll<CatalogueItemDto>(jobPath(jobId, 'catalogue'), { unitKind: undefined, includeRetired: 'true' }),
+    fetchAll<JobCompanyDto>(jobPath(jobId, 'companies')),
   ]);
   const level = levels.find((l) => l.id === levelId);
   if (!level) throw new KeepError('This level is not on the job any more.');
@@ -136,6 +145,9 @@ async function fetchLevel(input: KeepInput, progress: (done: number, total: numb
     [jobKeys.detail(jobId), job],
     [levelKeys.list(jobId), levels],
     [spaceKeys.list(jobId, levelId), spaces],
+    [spaceKeys.list(jobId), allSpaces],
+    [catalogueKeys.list(jobId, { includeRetired: true }), withRetired],
+    [companyKeys.list(jobId), companies],
     [systemKeys.list(jobId), systems],
     [modelKeys.list(jobId), models],
     [catalogueKeys.list(jobId, {}), catalogue],
@@ -214,8 +226,8 @@ async function keepNow(client: QueryClient, input: KeepInput, save: () => Promis
     const others = before.owner === userId ? keptState().levels.filter((l) => !(l.jobId === jobId && l.levelId === levelId)) : [];
     // The keys are listed before the data goes in, so every cache change from here on is persisted.
     await saveKeptState({ owner: userId, levels: [...others, kept] });
-    for (const [key, data] of entries) await seed(client, key, data);
-    if (session) await seed(client, sessionKeys.all, session);
+    for (const [key, data] of entries) seed(client, key, data);
+    if (session) seed(client, sessionKeys.all, session);
     await pruneKept(client, save, kept);
     await save();
     return keptLevelOf(jobId, levelId) ?? kept;

@@ -4,7 +4,7 @@
  * another person's session forgets everything kept, and over the budget the level brought up to
  * date longest ago goes first.
  */
-import { QueryClient, QueryClientProvider, QueryObserver } from '@tanstack/react-query';
+import { InfiniteQueryObserver, QueryClient, QueryClientProvider, QueryObserver } from '@tanstack/react-query';
 import { renderHook } from '@testing-library/react-native';
 import type { ReactNode } from 'react';
 import { forgetKept, keepLevel, pruneKept, stopKeeping } from '../../components/kept/keepLevel';
@@ -21,7 +21,7 @@ import { sessionKeys } from '../../components/queries/session';
 import { useSpacesQuery } from '../../components/queries/spaces';
 import { useSystemsQuery } from '../../components/queries/systems';
 import { useUnitsQuery } from '../../components/queries/units';
-import { announceWalkStarted, useLevelCoverageQuery, useOpenWalkQuery, useWalkUnitsQuery } from '../../components/queries/walks';
+import { announceWalkStarted, useLevelCoverageQuery, useOpenWalkQuery, useWalkUnitsQuery, walkKeys } from '../../components/queries/walks';
 import { useUnresolvedFindingsQuery, useWalkOrderQuery } from '../../components/walk/walkData';
 import { sampleJob, SAMPLE_JOB_ID } from '../support/components';
 
@@ -47,7 +47,7 @@ function api() {
     const p = url.pathname;
     if (p === `/api/jobs/${JOB}`) return sampleJob({ role: 'inspector' });
     if (p.endsWith('/levels')) return { items: [{ id: LEVEL, name: 'Level 3', position: 3 }, { id: OTHER_LEVEL, name: 'Level 4', position: 4 }], nextCursor: null };
-    if (p.endsWith('/spaces') || p.endsWith('/systems') || p.endsWith('/catalogue')) return { items: [], nextCursor: null };
+    if (p.endsWith('/spaces') || p.endsWith('/systems') || p.endsWith('/catalogue') || p.endsWith('/companies')) return { items: [], nextCursor: null };
     if (p.endsWith('/models')) return { items: [{ id: MODEL, name: 'CX-24', limits: {} }], nextCursor: null };
     if (p.endsWith('/walk-units')) return { items: [walkUnit], nextCursor: null, counts: { total: 1, checked: 0, notChecked: 1, inProgress: 0, withOpenFindings: 1 }, coverage };
     if (p.endsWith('/units')) return { items: [unit], nextCursor: null };
@@ -145,14 +145,24 @@ it('fills every query the walk screens of the level read, so each hook has its d
   client.clear();
 });
 
-it('a kept query is never collected, even when no screen watches it', async () => {
+it('a kept query is never collected, even when no screen watches it; a list a screen holds open gets its pages as they are', async () => {
   api();
   const client = newClient();
-  // A screen had the level's units open before keeping (a query with the usual 5-minute lifetime).
+  // Screens had the level open before keeping (queries with the usual 5-minute lifetime).
   const observer = new QueryObserver(client, { queryKey: ['walk', JOB, 'coverage', LEVEL], queryFn: async () => coverage });
   const off = observer.subscribe(() => undefined);
+  const list = new InfiniteQueryObserver(client, {
+    queryKey: walkKeys.units(JOB, LEVEL, {}),
+    queryFn: async () => ({ items: [], nextCursor: null }),
+    initialPageParam: null as string | null,
+    getNextPageParam: () => null,
+  });
+  const offList = list.subscribe(() => undefined);
   await keepLevel(client, { jobId: JOB, levelId: LEVEL, userId: USER }, save);
   off();
+  offList();
+  const pages = client.getQueryData<{ pages: { items: { tag: string }[] }[] }>(walkKeys.units(JOB, LEVEL, {}))?.pages;
+  expect(pages?.[0]?.items.map((u) => u.tag)).toEqual(['FC-301']);
   expect(client.getQueryCache().find({ queryKey: ['walk', JOB, 'coverage', LEVEL] })?.gcTime).toBe(Infinity);
   expect(client.getQueryCache().find({ queryKey: ['jobs', 'detail', JOB] })?.gcTime).toBe(Infinity);
   client.clear();
