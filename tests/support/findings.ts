@@ -5,9 +5,12 @@
  * second cassette without a model and a wall-mounted unit. Every call makes fresh rows.
  */
 import { QueryTypes } from 'sequelize';
+import type { AppOptions } from '../../server/app';
 import { CatalogueItem, Finding, UnitModel } from '../../server/models';
 import { nextFindingNumber, recordFindingEvent } from '../../server/services/findings';
 import type { FindingStatus, Severity } from '../../shared/words';
+import { buildTestApp, signIn } from './app';
+import { connectTestDb } from './db';
 import { addMember, buildJob, buildJobWithCrew, buildLevel, buildSpace, buildUnit, buildUnitModel, copyCatalogue, linkCompany } from './factories';
 
 /** The people of a crew, to put on another job (signing in is slow: real scrypt). */
@@ -107,4 +110,23 @@ export async function countRows(jobId: string) {
     { bind: [jobId], type: QueryTypes.SELECT },
   );
   return { findings: Number(row!.findings), photos: Number(row!.photos), events: Number(row!.events) };
+}
+
+/**
+ * A test app on a fresh walk job with its crew signed in: GC manager, inspector and the two
+ * subcontractors. `close` ends the app and the database connection.
+ */
+export async function startWalkApp(options: Partial<AppOptions> = {}) {
+  const db = await connectTestDb();
+  const trimout = buildTestApp(db, options);
+  const people = await buildWalkJob();
+  const gc = await signIn(trimout.app, people.gcManager.email);
+  const inspector = await signIn(trimout.app, people.inspector.email);
+  const subA = await signIn(trimout.app, people.subA.email);
+  const subB = await signIn(trimout.app, people.subB.email);
+  const close = async () => {
+    await trimout.close();
+    await db.close();
+  };
+  return { db, trimout, people, gc, inspector, subA, subB, close };
 }

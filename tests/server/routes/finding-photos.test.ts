@@ -5,19 +5,16 @@
  */
 import sharp from 'sharp';
 import type { TrimoutApp } from '../../../server/app';
-import type { Database } from '../../../server/db';
 import { UnitModel } from '../../../server/models';
 import { MAX_PHOTOS_PER_REQUEST, PHOTO_LIMITS } from '../../../shared/rules/photos';
-import { buildTestApp, signIn, type SignedIn } from '../../support/app';
-import { buildWalkJob, countRows, insertFinding, type People, type WalkJob } from '../../support/findings';
+import type { SignedIn } from '../../support/app';
+import { buildWalkJob, countRows, insertFinding, startWalkApp, type People, type WalkJob } from '../../support/findings';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
-import { connectTestDb } from '../../support/db';
 import request from 'supertest';
 import { csrfFor } from '../../support/app';
 
 jest.setTimeout(300_000);
 
-let db: Database;
 let trimout: TrimoutApp;
 let s3: FakeS3;
 let people: People;
@@ -28,22 +25,17 @@ let subB: SignedIn;
 let jpeg: Buffer;
 let jpeg2: Buffer;
 
+let api: Awaited<ReturnType<typeof startWalkApp>>;
+
 beforeAll(async () => {
-  db = await connectTestDb();
   s3 = await startFakeS3();
-  trimout = buildTestApp(db, { objectStore: s3.store });
+  api = await startWalkApp({ objectStore: s3.store });
+  ({ trimout, people, gc, inspector, subA, subB } = api);
   jpeg = await sharp({ create: { width: 120, height: 90, channels: 3, background: { r: 30, g: 90, b: 160 } } }).jpeg().toBuffer();
   jpeg2 = await sharp({ create: { width: 90, height: 120, channels: 3, background: { r: 160, g: 90, b: 30 } } }).jpeg().toBuffer();
-  const w = await buildWalkJob();
-  people = w;
-  gc = await signIn(trimout.app, w.gcManager.email);
-  inspector = await signIn(trimout.app, w.inspector.email);
-  subA = await signIn(trimout.app, w.subA.email);
-  subB = await signIn(trimout.app, w.subB.email);
 });
 afterAll(async () => {
-  await trimout.close();
-  await db.close();
+  await api.close();
   await s3.close();
 });
 

@@ -6,17 +6,15 @@
 import { parse } from 'csv-parse/sync';
 import request from 'supertest';
 import type { TrimoutApp } from '../../../server/app';
-import type { Database } from '../../../server/db';
 import { FINDINGS_CSV_HEADER } from '../../../server/services/csvFindings';
 import type { BoardResponse, RecurringResponse } from '../../../shared/schemas/board';
-import { buildTestApp, csrfFor, signIn, type SignedIn } from '../../support/app';
-import { connectTestDb } from '../../support/db';
+import { csrfFor, signIn, type SignedIn } from '../../support/app';
 import { buildUser } from '../../support/factories';
-import { buildWalkJob, countRows, type People, type WalkJob } from '../../support/findings';
+import { buildWalkJob, countRows, startWalkApp, type People, type WalkJob } from '../../support/findings';
 
 jest.setTimeout(180_000);
 
-let db: Database;
+let api: Awaited<ReturnType<typeof startWalkApp>>;
 let trimout: TrimoutApp;
 let people: People;
 let gc: SignedIn;
@@ -25,18 +23,11 @@ let subA: SignedIn;
 let outsider: SignedIn;
 
 beforeAll(async () => {
-  db = await connectTestDb();
-  trimout = buildTestApp(db);
-  people = await buildWalkJob();
-  gc = await signIn(trimout.app, people.gcManager.email);
-  inspector = await signIn(trimout.app, people.inspector.email);
-  subA = await signIn(trimout.app, people.subA.email);
+  api = await startWalkApp();
+  ({ trimout, people, gc, inspector, subA } = api);
   outsider = await signIn(trimout.app, (await buildUser()).email);
 });
-afterAll(async () => {
-  await trimout.close();
-  await db.close();
-});
+afterAll(() => api.close());
 
 function post(who: SignedIn, w: WalkJob, body: object) {
   return who.agent.post(`/api/jobs/${w.job.id}/findings`).set('X-CSRF-Token', who.csrf).send(body);
@@ -45,7 +36,7 @@ function post(who: SignedIn, w: WalkJob, body: object) {
 const loose = (w: WalkJob, over: object = {}) => ({ unitId: w.cassette.id, title: 'Return grille hanging loose', trade: 'ceilings', severity: 'minor', companyId: w.gcCompany.id, ...over });
 
 async function otherTypes(jobId: string) {
-  const [rows] = await db.sequelize.query(`SELECT id, code, unit_kinds FROM catalogue_items WHERE job_id = $1 AND is_other`, { bind: [jobId] });
+  const [rows] = await api.db.sequelize.query(`SELECT id, code, unit_kinds FROM catalogue_items WHERE job_id = $1 AND is_other`, { bind: [jobId] });
   return rows as { id: string; code: string; unit_kinds: string[] }[];
 }
 
@@ -145,7 +136,7 @@ describe('something else on the board, in the export and in the recurring defect
 
   it('recurs by its normalised title, not by the shared other type', async () => {
     const w = await buildWalkJob(people);
-    await db.sequelize.query(`UPDATE jobs SET recurring_thresholds = '{"minUnits": 2, "minShare": 0.01}' WHERE id = $1`, { bind: [w.job.id] });
+    await api.db.sequelize.query(`UPDATE jobs SET recurring_thresholds = '{"minUnits": 2, "minShare": 0.01}' WHERE id = $1`, { bind: [w.job.id] });
     await post(inspector, w, loose(w, { unitId: w.cassette.id, title: 'Return grille hanging loose' })).expect(201);
     await post(inspector, w, loose(w, { unitId: w.cassette2.id, title: '  return GRILLE   hanging loose ' })).expect(201);
     // Two other titles, each on one unit only: the shared type must not add them up.

@@ -3,35 +3,24 @@
  * finish answer): the findings logged within this walk by severity, and the level's units whose
  * current unit check is not complete, listed by tag.
  */
-import type { TrimoutApp } from '../../../server/app';
-import type { Database } from '../../../server/db';
 import type { WalkDetail } from '../../../shared/schemas/findings';
-import { buildTestApp, signIn, type SignedIn } from '../../support/app';
-import { connectTestDb } from '../../support/db';
+import type { SignedIn } from '../../support/app';
 import { buildUnit } from '../../support/factories';
-import { buildWalkJob, insertFinding, type People, type WalkJob } from '../../support/findings';
+import { buildWalkJob, insertFinding, startWalkApp, type People, type WalkJob } from '../../support/findings';
 
 jest.setTimeout(120_000);
 
-let db: Database;
-let trimout: TrimoutApp;
+let api: Awaited<ReturnType<typeof startWalkApp>>;
 let people: People;
 let gc: SignedIn;
 let inspector: SignedIn;
 let subA: SignedIn;
 
 beforeAll(async () => {
-  db = await connectTestDb();
-  trimout = buildTestApp(db);
-  people = await buildWalkJob();
-  gc = await signIn(trimout.app, people.gcManager.email);
-  inspector = await signIn(trimout.app, people.inspector.email);
-  subA = await signIn(trimout.app, people.subA.email);
+  api = await startWalkApp();
+  ({ people, gc, inspector, subA } = api);
 });
-afterAll(async () => {
-  await trimout.close();
-  await db.close();
-});
+afterAll(() => api.close());
 
 const post = (who: SignedIn, path: string, body: object) => who.agent.post(path).set('X-CSRF-Token', who.csrf).send(body);
 
