@@ -116,9 +116,11 @@ export function connectKept(client: QueryClient, options: Omit<PersistQueryClien
     stop: (jobId, levelId) => stopKeeping(client, jobId, levelId, save),
   };
   // react-query learns of the network from the online/offline events only; a page opened with no
-  // network never gets one, so it starts from what the browser says now.
+  // network never gets one. With a level kept, it starts from what the browser says, so the kept
+  // queries wait for the network instead of failing (a failed one would hide its data). With
+  // nothing kept, a read fails at once and the screen says there is no connection.
   const nav = (globalThis as { navigator?: { onLine?: boolean } }).navigator;
-  if (typeof nav?.onLine === 'boolean') onlineManager.setOnline(nav.onLine);
+  if (keptState().levels.length > 0 && nav?.onLine === false) onlineManager.setOnline(false);
   const applied = new Map<string, QueryKey>();
   applyKeptDefaults(client, applied);
   const unsubscribeKept = subscribeKept(() => applyKeptDefaults(client, applied));

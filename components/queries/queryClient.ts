@@ -20,9 +20,6 @@ export function makeQueryClient(): QueryClient {
         // A 4xx will not get better by asking again; network trouble might.
         retry: (count, error) => !(error instanceof ApiError && error.status >= 400 && error.status < 500) && count < 2,
         refetchOnWindowFocus: true,
-        // With no network a read fails at once and the screen says so; only a level kept on the
-        // phone waits for the network instead (components/kept: networkMode 'online' on its keys).
-        networkMode: 'always',
       },
     },
   });
