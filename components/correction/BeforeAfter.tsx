@@ -50,7 +50,8 @@ function Side({ title, photos, empty, label, testID }: { title: string; photos: 
   );
 }
 
-const styles = StyleSheet.create({
+/** Two panels side by side (before / after, fix / re-inspection), each half the width. */
+export const sideBySide = StyleSheet.create({
   row: { flexDirection: 'row', gap: space.sm },
   side: {
     flex: 1,
@@ -63,3 +64,4 @@ const styles = StyleSheet.create({
     padding: space.sm,
   },
 });
+const styles = sideBySide;

@@ -5,7 +5,7 @@ import { formatWhen } from '../findings/due';
 import { PhotoStrip } from '../findings/PhotoStrip';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
-import { latestFixPhotos } from './BeforeAfter';
+import { latestFixPhotos, sideBySide } from './BeforeAfter';
 
 /** The newest event of these kinds, or undefined. Events come oldest first. */
 function latest(events: readonly FindingEventDto[], kinds: readonly FindingEventDto['kind'][]): FindingEventDto | undefined {
@@ -47,7 +47,7 @@ export function FixAndReinspection({
       <AppText variant="title" role="heading">
         {W.heading}
       </AppText>
-      <View style={styles.row}>
+      <View style={sideBySide.row}>
         <Side
           title={W.fix}
           who={`${fix.actor.name}, ${formatWhen(fix.at, timeZone)}`}
@@ -89,7 +89,7 @@ function Side({
   testID: string;
 }) {
   return (
-    <View style={styles.side} testID={testID}>
+    <View style={sideBySide.side} testID={testID}>
       <AppText variant="label">{title}</AppText>
       <AppText variant="small" muted>
         {who}
@@ -119,17 +119,6 @@ function Side({
 
 const styles = StyleSheet.create({
   section: { gap: space.sm },
-  row: { flexDirection: 'row', gap: space.sm },
-  side: {
-    flex: 1,
-    minWidth: 0,
-    gap: space.xs,
-    backgroundColor: colors.surface,
-    borderWidth: 1,
-    borderColor: colors.line,
-    borderRadius: radius.md,
-    padding: space.sm,
-  },
   measured: { borderRadius: radius.sm, padding: space.xs, borderLeftWidth: 3, borderLeftColor: colors.line },
   pass: { backgroundColor: colors.goodSoft, borderLeftColor: colors.good },
   fail: { backgroundColor: colors.dangerSoft, borderLeftColor: colors.danger },
