@@ -5,8 +5,9 @@
  * the list's sort, so the export holds exactly the list's rows in the list's order (all pages:
  * `limit` and `cursor` are ignored). Streamed by csvStream.ts; cells made safe by csvSafe.ts.
  *
- * Dates are ISO 8601: instants in UTC (`2026-11-20T14:03:00Z`), due dates as calendar days
- * (`2026-11-27`). "Days open" counts calendar days in the job's time zone from logging to
+ * Dates are ISO 8601: instants on the job's clock with their offset from UTC
+ * (`2026-12-03T08:12:00-06:00`, the offset in force at that instant, so it changes with daylight
+ * saving; PostgreSQL's time-zone data decides it), due dates as calendar days (`2026-11-27`). "Days open" counts calendar days in the job's time zone from logging to
  * closing (the latest accept / close-on-walk / void event) or to today while unresolved.
  */
 import { formatQuantity } from '../../shared/calc/quantity';
@@ -42,6 +43,7 @@ export const FINDINGS_CSV_HEADER = [
   'Re-inspected by',
   'Re-inspected at',
   'Returns',
+  'Latest return reason',
   'Measured',
   'Limit',
   'Result',
@@ -74,6 +76,7 @@ export interface FindingCsvRow {
   reinspected_by: string | null;
   reinspected_at: string | null;
   return_count: number;
+  last_return_reason: string | null;
   measured_text: string | null;
   rule_result: RuleResult | null;
   quantity: QuantityKind | null;
@@ -82,8 +85,17 @@ export interface FindingCsvRow {
   photo_ids: string | null;
 }
 
-const ISO_UTC = `'YYYY-MM-DD"T"HH24:MI:SS"Z"'`;
-const iso = (expr: string) => `to_char(${expr} AT TIME ZONE 'UTC', ${ISO_UTC})`;
+/**
+ * An instant as ISO 8601 on the clock of the time zone `tz` (a bind placeholder) with its offset,
+ * `+00:00` for UTC itself. The offset is the local time minus UTC at that very instant; NULL stays
+ * NULL. (to_char's TZH:TZM would print the session's zone, not the job's.)
+ */
+export function isoInZoneSql(expr: string, tz: string): string {
+  const offset = `((${expr}) AT TIME ZONE ${tz} - (${expr}) AT TIME ZONE 'UTC')`;
+  return `(to_char((${expr}) AT TIME ZONE ${tz}, 'YYYY-MM-DD"T"HH24:MI:SS')
+    || CASE WHEN ${offset} < interval '0' THEN '-' ELSE '+' END
+    || to_char(CASE WHEN ${offset} < interval '0' THEN -${offset} ELSE ${offset} END, 'HH24:MI'))`;
+}
 
 /** The export statement: the list's FROM and WHERE, the list's ORDER BY, the export's columns. */
 export function findingsCsvSql(scope: FindingScope, filters: FindingFilters, sort: FindingSort): { sql: string; bind: unknown[] } {
@@ -91,6 +103,7 @@ export function findingsCsvSql(scope: FindingScope, filters: FindingFilters, sor
   const where = whereSql(p, scope, filters);
   const today = p.today();
   const tz = p.add(scope.timeZone);
+  const iso = (expr: string) => isoInZoneSql(expr, tz);
   // The per-finding facts (last fix, last verdict, closing, photos) come from one pass over the
   // job's fixes / events / photos each, hash-joined, rather than a lookup per row: a lookup per
   // row costs ~0.1 ms, i.e. seconds for 100,000 findings.
@@ -102,7 +115,7 @@ export function findingsCsvSql(scope: FindingScope, filters: FindingFilters, sor
          ${overdueSql(today)} AS overdue,
          ${iso('lastfix.at')} AS last_fix_at,
          ru.name AS reinspected_by, ${iso('ri.at')} AS reinspected_at,
-         f.return_count, f.measured_text, f.rule_result, ci.measured_rule->>'quantity' AS quantity,
+         f.return_count, lastreturn.reason AS last_return_reason, f.measured_text, f.rule_result, ci.measured_rule->>'quantity' AS quantity,
          f.note, f.voided_reason, ph.ids AS photo_ids
     ${FROM_SQL}
     LEFT JOIN systems sy ON sy.id = u.system_id
@@ -113,6 +126,10 @@ export function findingsCsvSql(scope: FindingScope, filters: FindingFilters, sor
                 ORDER BY e.finding_id, e.at DESC, e.id DESC) ri
            ON ri.finding_id = f.id
     LEFT JOIN users ru ON ru.id = ri.actor_id
+    LEFT JOIN (SELECT DISTINCT ON (e.finding_id) e.finding_id, e.reason FROM finding_events e
+                WHERE e.job_id = $1 AND e.kind = 'returned'
+                ORDER BY e.finding_id, e.at DESC, e.id DESC) lastreturn
+           ON lastreturn.finding_id = f.id
     LEFT JOIN (SELECT e.finding_id, max(e.at) AS at FROM finding_events e
                 WHERE e.job_id = $1 AND e.kind IN ('accepted', 'closed_on_walk', 'voided') GROUP BY e.finding_id) closing
            ON closing.finding_id = f.id AND f.status IN ('closed', 'voided')
@@ -171,6 +188,7 @@ export function findingCsvRecord(ctx: FindingsCsvContext, row: FindingCsvRow): C
     row.reinspected_by,
     row.reinspected_at,
     Number(row.return_count),
+    row.last_return_reason,
     row.measured_text,
     limitText(r, row.quantity, ctx.unitSystem),
     r?.pass === true ? 'Pass' : r?.pass === false ? 'Fail' : '',

@@ -18,6 +18,7 @@ import { FINDINGS_CSV_HEADER } from '../../../server/services/csvFindings';
 import { buildTestApp, signIn, type SignedIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser } from '../../support/factories';
+import { recordFindingEvent } from '../../../server/services/findings';
 import { buildWalkJob, insertFinding, type WalkJob } from '../../support/findings';
 
 jest.setTimeout(180_000);
@@ -89,7 +90,28 @@ function dayIn(at: Date, timeZone: string): string {
   return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(at);
 }
 const daysBetween = (a: string, b: string) => Math.round((Date.parse(`${b}T00:00:00Z`) - Date.parse(`${a}T00:00:00Z`)) / 86_400_000);
-const isoSeconds = (d: Date) => `${d.toISOString().slice(0, 19)}Z`;
+/**
+ * An instant as ISO 8601 on a time zone's clock with its offset, by Intl (ECMA-402
+ * Intl.DateTimeFormat, timeZoneName 'longOffset': "GMT-06:00", "GMT" for UTC; the runtime's ICU
+ * time-zone data), not by the export's SQL (PostgreSQL's own time-zone data).
+ */
+function isoIn(d: Date, timeZone: string): string {
+  const parts = new Intl.DateTimeFormat('en-CA', {
+    timeZone,
+    year: 'numeric',
+    month: '2-digit',
+    day: '2-digit',
+    hour: '2-digit',
+    minute: '2-digit',
+    second: '2-digit',
+    hourCycle: 'h23',
+    timeZoneName: 'longOffset',
+  }).formatToParts(d);
+  const get = (t: string) => parts.find((p) => p.type === t)!.value;
+  const gmt = get('timeZoneName');
+  const offset = gmt === 'GMT' ? '+00:00' : gmt.slice(3);
+  return `${get('year')}-${get('month')}-${get('day')}T${get('hour')}:${get('minute')}:${get('second')}${offset}`;
+}
 
 describe('findings.csv: access', () => {
   it('answers 401 signed out, 404 to a non-member and for an unknown job, 400 for a bad filter', async () => {
@@ -130,8 +152,8 @@ describe('findings.csv: the demo job', () => {
     const levels = new Map((await Level.findAll({ where: { jobId: demoJob.id } })).map((l) => [l.id, l.name]));
     const units = new Map((await Unit.findAll({ where: { jobId: demoJob.id } })).map((u) => [u.id, u]));
     const fixes = await Fix.findAll({ where: { jobId: demoJob.id } });
-    const verdicts = await db.sequelize.query<{ finding_id: string; actor_id: string; at: Date; kind: string }>(
-      `SELECT finding_id, actor_id, at, kind FROM finding_events WHERE job_id = $1 AND kind IN ('accepted', 'returned', 'closed_on_walk') ORDER BY at, id`,
+    const verdicts = await db.sequelize.query<{ finding_id: string; actor_id: string; at: Date; kind: string; reason: string | null }>(
+      `SELECT finding_id, actor_id, at, kind, reason FROM finding_events WHERE job_id = $1 AND kind IN ('accepted', 'returned', 'closed_on_walk') ORDER BY at, id`,
       { bind: [demoJob.id], type: QueryTypes.SELECT },
     );
     const today = dayIn(new Date(), demoJob.timeZone);
@@ -144,7 +166,7 @@ describe('findings.csv: the demo job', () => {
       expect(r['Unit tag']).toBe(f.unitId ? units.get(f.unitId)!.tag : '');
       expect(r.Company).toBe(companies.get(f.companyId));
       expect(r['Logged by']).toBe(users.get(f.loggedBy));
-      expect(r['Logged at']).toBe(isoSeconds(f.loggedAt));
+      expect(r['Logged at']).toBe(isoIn(f.loggedAt, demoJob.timeZone));
       expect(r['Due on']).toBe(f.dueOn);
       expect(r.Returns).toBe(String(f.returnCount));
       expect(r.Status).toBe(({ open: 'Open', fix_submitted: 'Fix submitted', closed: 'Closed', voided: 'Voided' } as Record<string, string>)[f.status]);
@@ -153,10 +175,12 @@ describe('findings.csv: the demo job', () => {
       // Overdue: open (new or returned) and past due; a fix waiting for re-inspection is not.
       expect(r.Overdue).toBe(f.status === 'open' && f.dueOn < today ? 'yes' : 'no');
       const myFixes = fixes.filter((x) => x.findingId === f.id).map((x) => x.submittedAt.getTime());
-      expect(r['Last fix submitted']).toBe(myFixes.length ? isoSeconds(new Date(Math.max(...myFixes))) : '');
+      expect(r['Last fix submitted']).toBe(myFixes.length ? isoIn(new Date(Math.max(...myFixes)), demoJob.timeZone) : '');
       const verdict = verdicts.filter((v) => v.finding_id === f.id).at(-1);
       expect(r['Re-inspected by']).toBe(verdict ? users.get(verdict.actor_id) : '');
-      expect(r['Re-inspected at']).toBe(verdict ? isoSeconds(new Date(verdict.at)) : '');
+      const lastReturn = verdicts.filter((v) => v.finding_id === f.id && v.kind === 'returned').at(-1);
+      expect(r['Latest return reason']).toBe(lastReturn?.reason ?? '');
+      expect(r['Re-inspected at']).toBe(verdict ? isoIn(new Date(verdict.at), demoJob.timeZone) : '');
       if (f.status === 'open' || f.status === 'fix_submitted') {
         expect(r['Days open']).toBe(String(daysBetween(dayIn(f.loggedAt, demoJob.timeZone), today)));
         checked.open += 1;
@@ -210,6 +234,48 @@ describe('findings.csv: the demo job', () => {
     expect(other.length).toBeGreaterThan(0);
     const theirs = await csv(demoMech, demoJob.id, `companyId=${other[0]!.company_id}`);
     expect(rowsOf(theirs.body as string)).toEqual([]);
+  });
+});
+
+describe("findings.csv: times on the job's clock", () => {
+  it('writes instants with the offset in force at each one, across the end of daylight saving, and the latest return reason', async () => {
+    const chicago = await buildWalkJob(w);
+    await Job.update({ timeZone: 'America/Chicago' }, { where: { id: chicago.job.id } });
+    // US daylight saving ends at 02:00 CDT on Sunday 1 November 2026 (07:00 UTC): the clock reads
+    // 01:30 twice, first at -05:00 (CDT), then at -06:00 (CST) (US Code 15 USC 260a).
+    const beforeEnd = new Date('2026-11-01T06:30:00Z');
+    const afterEnd = new Date('2026-11-01T07:30:00Z');
+    const a = await insertFinding(chicago, { loggedAt: beforeEnd, note: 'before' });
+    const b = await insertFinding(chicago, { loggedAt: afterEnd, note: 'after', status: 'open' });
+    await Finding.update({ returnCount: 2 }, { where: { id: b.id } });
+    await db.sequelize.transaction(async (transaction) => {
+      for (const [at, reason] of [
+        ['2026-11-05T15:00:00Z', 'Drain still holds water at the trap.'],
+        ['2026-11-09T16:00:00Z', 'Strap missing at the second hanger.'],
+      ] as const) {
+        await recordFindingEvent({ findingId: b.id, jobId: chicago.job.id, actorId: chicago.inspector.id, kind: 'returned', from: { status: 'fix_submitted' }, to: { status: 'open' }, reason, at: new Date(at) }, transaction);
+      }
+    });
+    const rows = rowsOf((await csv(gc, chicago.job.id, 'sort=loggedAt')).body as string);
+    expect(rows.map((r) => r['Finding id'])).toEqual([a.id, b.id]);
+    // The reference (Intl) and the literal agree, and so must the file.
+    expect(isoIn(beforeEnd, 'America/Chicago')).toBe('2026-11-01T01:30:00-05:00');
+    expect(isoIn(afterEnd, 'America/Chicago')).toBe('2026-11-01T01:30:00-06:00');
+    expect(rows[0]!['Logged at']).toBe('2026-11-01T01:30:00-05:00');
+    expect(rows[1]!['Logged at']).toBe('2026-11-01T01:30:00-06:00');
+    expect(rows[1]!['Re-inspected at']).toBe(isoIn(new Date('2026-11-09T16:00:00Z'), 'America/Chicago'));
+    expect(rows[1]!['Re-inspected at']).toBe('2026-11-09T10:00:00-06:00');
+    expect(rows[0]!['Latest return reason']).toBe('');
+    expect(rows[1]!.Returns).toBe('2');
+    expect(rows[1]!['Latest return reason']).toBe('Strap missing at the second hanger.');
+    // A job on UTC says +00:00; a zone east of UTC with a half-hour offset keeps its minutes.
+    await Job.update({ timeZone: 'Asia/Kolkata' }, { where: { id: chicago.job.id } });
+    const kolkata = rowsOf((await csv(gc, chicago.job.id, 'sort=loggedAt')).body as string);
+    expect(kolkata[0]!['Logged at']).toBe('2026-11-01T12:00:00+05:30');
+    expect(kolkata[0]!['Logged at']).toBe(isoIn(beforeEnd, 'Asia/Kolkata'));
+    await Job.update({ timeZone: 'UTC' }, { where: { id: chicago.job.id } });
+    const utc = rowsOf((await csv(gc, chicago.job.id, 'sort=loggedAt')).body as string);
+    expect(utc[0]!['Logged at']).toBe('2026-11-01T06:30:00+00:00');
   });
 });
 
