@@ -19,6 +19,7 @@ import type { FindingAction, FindingDetail, findingChangeSchema } from '../../sh
 import type { FindingStatus } from '../../shared/words';
 import { badRequest, type HttpError } from '../errors';
 import type { Finding } from '../models';
+import { checkDueOn } from '../services/dueOn';
 import { companyOnJob, recordFindingEvent, type CompanyRef } from '../services/findings';
 import { notifyCriticalAssignment, type Actor, type CommandContext } from './context';
 import { authorise, detailOf, lockFinding, saveChange, type Precondition } from './findingWrites';
@@ -105,7 +106,27 @@ function settingStep<K extends 'severity' | 'dueOn'>(
 
 export const severityStep = settingStep('severity', 'change_severity', 'severity_changed', (f) => `The severity is already ${f.severity}.`, 'That is the severity already.');
 
-export const dueOnStep = settingStep('dueOn', 'change_due', 'due_changed', (f) => `The finding is already due on ${f.dueOn}.`, 'That is the due date already.');
+const dueOnSetting = settingStep('dueOn', 'change_due', 'due_changed', (f) => `The finding is already due on ${f.dueOn}.`, 'That is the due date already.');
+
+type DueOnInput = NonNullable<FindingChange['dueOn']>;
+
+/**
+ * Another due date: a date before today on the job's clock is refused unless a GC manager
+ * back-dates it on purpose (services/dueOn.ts); a back-dated change says so in its event.
+ */
+export const dueOnStep: ChangeStep<DueOnInput, DueOnInput & { past: boolean }> = {
+  ...dueOnSetting,
+  async prepare(ctx, input, field) {
+    const { backdated } = checkDueOn(`${field}.to`, { dueOn: input.to, backdated: input.backdated }, ctx.actor.role, ctx.scope.timeZone, ctx.clock());
+    return { ...input, past: backdated };
+  },
+  async apply(ctx, finding, input) {
+    if (input.to === finding.dueOn) return false;
+    await event(ctx, finding, 'due_changed', { dueOn: finding.dueOn }, { dueOn: input.to, ...(input.past ? { backdated: true } : {}) }, input.reason);
+    finding.dueOn = input.to;
+    return true;
+  },
+};
 
 /**
  * A move of the status machine with an event and the words given: voiding and reopening take a

@@ -14,6 +14,7 @@ import type { Severity } from '../../shared/words';
 import { badRequest, conflict } from '../errors';
 import { CatalogueItem, Finding, Level, Photo, Space, Unit, UnitCheck, UnitModel, Walk, type Job } from '../models';
 import { companyOnJob, limitResolverFor, measure, nextFindingNumber, recordFindingEvent, suggestCompany, type CompanyRef, type Measurement } from '../services/findings';
+import { checkDueOn } from '../services/dueOn';
 import { findingDetail } from '../services/findingQueries';
 import { photoRowValues } from '../services/photos';
 import { otherDefectType } from '../services/somethingElse';
@@ -60,6 +61,8 @@ export interface NewFinding {
   measured: Measurement | null;
   severity: Severity;
   dueOn: string;
+  /** The due date is before today, back-dated by a GC manager on purpose (kept in the event). */
+  backdated: boolean;
 }
 
 /** Every refusal of a new finding (400 naming the field), before any photo is stored. */
@@ -92,8 +95,11 @@ export async function checkNewFinding(ctx: ReadContext, job: Job, body: CreateFi
   const measured = item && body.measuredText ? measure(item, body.measuredText, limitResolverFor(job, model), job, 'measuredText') : null;
   // The schema asks "Something else" for its severity: it has no type to take a default from.
   const severity: Severity = body.severity ?? item?.defaultSeverity ?? 'minor';
-  const dueOn = body.dueOn ?? dueOnFor(job, severity, ctx.clock());
-  return { body, item, place, company, measured, severity, dueOn };
+  const now = ctx.clock();
+  // A named date before today counts as overdue at once: only a GC manager may do that, on purpose.
+  const backdated = body.dueOn ? checkDueOn('dueOn', { dueOn: body.dueOn, backdated: body.backdated }, ctx.actor.role, job.timeZone, now).backdated : false;
+  const dueOn = body.dueOn ?? dueOnFor(job, severity, now);
+  return { body, item, place, company, measured, severity, dueOn, backdated };
 }
 
 /**
@@ -113,7 +119,7 @@ export async function findingAlreadyLogged(ctx: ReadContext, findingId: string):
 /** Writes the checked finding with its photos, number, event and mail; returns it as the caller sees it. */
 export async function logFinding(ctx: CommandContext, input: NewFinding, photos: NewPhotos): Promise<FindingDetail> {
   const { sequelize, transaction, actor, scope } = ctx;
-  const { body, item, place, company, measured, severity, dueOn } = input;
+  const { body, item, place, company, measured, severity, dueOn, backdated } = input;
   const jobId = scope.jobId;
   const type = item ?? (await otherDefectType(jobId, transaction));
   const number = await nextFindingNumber(sequelize, jobId, transaction);
@@ -165,6 +171,7 @@ export async function logFinding(ctx: CommandContext, input: NewFinding, photos:
         companyId: company.id,
         companyName: company.name,
         dueOn,
+        ...(backdated ? { backdated: true } : {}),
         ...(measured ? { measuredText: measured.measuredText, pass: measured.result.pass } : {}),
       },
       photoIds: photos.stored.map((p) => p.id),

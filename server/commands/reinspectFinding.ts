@@ -1,6 +1,7 @@
 /**
  * An inspector or the GC manager re-inspects a submitted fix: accept (→ closed) or return (→ open,
- * return count + 1, a reason), with their own photos and, for a measured defect, their own new
+ * return count + 1, a reason, and a new due date: today on the job's clock + the job's days for the
+ * finding's severity, kept in the "returned" event as from/to dueOn), with their own photos and, for a measured defect, their own new
  * measurement if they take one (judged by the same rule and limit as the finding as logged).
  * If-Match; in ONE transaction with its photo rows (stage `reinspection`) and its "accepted" /
  * "returned" event, which carries the photos and the measurement.
@@ -18,7 +19,8 @@ import type { z } from 'zod';
 import { decide } from '../../shared/findingStatus';
 import type { FindingDetail, reinspectionSchema } from '../../shared/schemas/findings';
 import { conflict } from '../errors';
-import { Fix, Photo } from '../models';
+import { daysToFix, dueOnFor } from '../../shared/rules/due';
+import { Fix, Job, Photo } from '../models';
 import { measurementEventFields, recordFindingEvent, remeasure } from '../services/findings';
 import { assertAllowed } from '../services/findingStatus';
 import { photoRowValues } from '../services/photos';
@@ -55,11 +57,22 @@ export async function reinspectFinding(
       throw conflict(`${whose} (${failing}) is outside the limit, so this finding cannot be closed: return the fix, or measure again.`, 'measurement_fails');
     }
   }
-  const from = { status: finding.status, returnCount: finding.returnCount };
-  finding.status = to;
-  if (input.verdict === 'return') finding.returnCount += 1;
-  await saveChange(ctx, finding);
   const at = ctx.clock();
+  const from: Record<string, unknown> = { status: finding.status, returnCount: finding.returnCount };
+  const after: Record<string, unknown> = {};
+  if (input.verdict === 'return') {
+    // The company gets the job's days for the severity again, counted from today on the job's
+    // clock: the old date has usually passed while the fix waited for the inspector.
+    const job = await Job.findByPk(finding.jobId, { attributes: ['id', 'timeZone', 'severityDueDays'], transaction });
+    const dueOn = dueOnFor({ timeZone: job?.timeZone ?? ctx.scope.timeZone, severityDueDays: job?.severityDueDays }, finding.severity, at);
+    from.dueOn = finding.dueOn;
+    after.dueOn = dueOn;
+    after.daysToFix = daysToFix({ severityDueDays: job?.severityDueDays }, finding.severity);
+    finding.returnCount += 1;
+    finding.dueOn = dueOn;
+  }
+  finding.status = to;
+  await saveChange(ctx, finding);
   if (photos.stored.length > 0) {
     await photos.claim(transaction);
     await Photo.bulkCreate(
@@ -77,7 +90,7 @@ export async function reinspectFinding(
       actorId: actor.id,
       kind: input.verdict === 'accept' ? 'accepted' : 'returned',
       from,
-      to: { status: to, returnCount: finding.returnCount, ...measurementEventFields(measured) },
+      to: { status: to, returnCount: finding.returnCount, ...after, ...measurementEventFields(measured) },
       reason: input.reason || null,
       photoIds: photos.stored.map((p) => p.id),
       at,

@@ -2,7 +2,8 @@
  * One change to many findings at once (POST /findings/bulk).
  */
 import { z } from 'zod';
-import { id, dateOnly, reason, optionalReason } from './fields';
+import { dueOnChange } from './change';
+import { id, reason } from './fields';
 import type { FindingDto } from './finding';
 
 export const BULK_FINDINGS_MAX = 200;
@@ -23,7 +24,7 @@ export const bulkChangeSchema = z
     change: z
       .object({
         reassign: z.object({ companyId: id('responsible company'), reason: reason('a reason for the reassignment') }).strict().optional(),
-        dueOn: z.object({ to: dateOnly, reason: optionalReason }).strict().optional(),
+        dueOn: dueOnChange.optional(),
       })
       .strict()
       .refine((c) => (c.reassign === undefined) !== (c.dueOn === undefined), {

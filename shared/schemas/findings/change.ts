@@ -6,12 +6,20 @@ import { SEVERITIES } from '../../words';
 import { id, dateOnly, note, pin, reason, optionalReason } from './fields';
 import type { FindingEventDto } from './finding';
 
+/** A new due date; `backdated: true` says a GC manager means a date before today (shared/rules/pastDue.ts). */
+export const dueOnChange = z
+  .object({ to: dateOnly, reason: optionalReason, backdated: z.boolean({ error: 'backdated is true or false.' }).optional() })
+  .strict();
+
 /**
  * PATCH /findings/:findingId → 200 FindingDetail (ETag). If-Match required. The body holds
  * exactly ONE change:
  *   { reassign: { companyId, reason } }           GC manager, inspector; open or fix-submitted
  *   { severity: { to, reason? } }                 GC manager, inspector; open or fix-submitted
- *   { dueOn: { to: 'YYYY-MM-DD', reason? } }      GC manager, inspector; open or fix-submitted
+ *   { dueOn: { to: 'YYYY-MM-DD', reason?, backdated? } }
+ *                                                 GC manager, inspector; open or fix-submitted; a date before today
+ *                                                 (job time zone) → 400 on dueOn.to unless a GC manager sends
+ *                                                 backdated: true (anyone else → 403 backdate_forbidden)
  *   { void: { reason } }                          GC manager, the inspector who logged it; open or fix-submitted
  *   { reopen: { reason } }                        GC manager; closed
  *   { close: { note? } }                          inspector ("closed on walk"); open
@@ -26,7 +34,7 @@ export const findingChangeSchema = z
       .object({ to: z.enum(SEVERITIES, { error: `One of ${SEVERITIES.join(', ')}.` }), reason: optionalReason })
       .strict()
       .optional(),
-    dueOn: z.object({ to: dateOnly, reason: optionalReason }).strict().optional(),
+    dueOn: dueOnChange.optional(),
     void: z.object({ reason: reason('a reason for voiding') }).strict().optional(),
     reopen: z.object({ reason: reason('a reason for reopening') }).strict().optional(),
     close: z.object({ note: note.optional() }).strict().optional(),

@@ -14,6 +14,8 @@ import { defectTitle, somethingElseTrade, refineSomethingElse } from './somethin
  * space; a levelId sent beside a unit or space must match it.
  * Omitted severity → the catalogue item's default; omitted companyId → the suggested company
  * (400 when none fits); omitted dueOn → today (job time zone) + the job's days for the severity.
+ * A dueOn before today (job time zone) → 400 on `dueOn`, unless `backdated: true` from a GC
+ * manager (the flag from anyone else → 403 `backdate_forbidden`): shared/rules/pastDue.ts.
  * `id`: optional, made on the phone (UUID) so later writes queued offline can name the finding before
  * it reaches the server. It is the idempotency of creation: the same id again from the same person on
  * the same job answers 200 with that finding (nothing new); an id already used otherwise → 409.
@@ -32,6 +34,8 @@ export const createFindingSchema = z
     severity: z.enum(SEVERITIES, { error: `One of ${SEVERITIES.join(', ')}.` }).optional(),
     companyId: id('responsible company').optional(),
     dueOn: dateOnly.optional(),
+    /** A GC manager back-dates the due date on purpose (only they may send it). */
+    backdated: z.boolean({ error: 'backdated is true or false.' }).optional(),
     note: note.optional(),
     /** For a defect type with a measured rule: the value as typed. */
     measuredText: measuredText.nullable().optional(),
