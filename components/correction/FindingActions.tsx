@@ -24,6 +24,9 @@ import { Card } from '../ui/Card';
 import { FormSelect, FormSeverity, FormText, setServerFieldErrors } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
 import { Segmented } from '../ui/Segmented';
+import { dueOnProblem } from '../../shared/rules/pastDue';
+import { BackdateChoice, backdatedFlag } from '../findings/BackdateChoice';
+import { todayIn } from '../findings/due';
 import { ReinspectControls } from './ReinspectControls';
 import { FINDING_WRITE_WORDS, isStale, mayDo } from './rules';
 
@@ -47,6 +50,7 @@ export function FindingActions({
   role,
   isLogger,
   system,
+  timeZone = 'UTC',
   onStale,
 }: {
   jobId: string;
@@ -55,6 +59,8 @@ export function FindingActions({
   isLogger: boolean;
   /** The job's unit system, for a new measurement at re-inspection. */
   system?: UnitSystem;
+  /** The job's time zone: "today" for a new due date. */
+  timeZone?: string;
   onStale: () => void;
 }) {
   const can = (a: FindingAction) => mayDo(a, finding.status, role, isLogger);
@@ -81,7 +87,7 @@ export function FindingActions({
         </Card>
       ) : null}
       {close ? <CloseOnWalk jobId={jobId} finding={finding} onStale={onStale} /> : null}
-      {changes.length ? <ChangePanel jobId={jobId} finding={finding} changes={changes} onStale={onStale} /> : null}
+      {changes.length ? <ChangePanel jobId={jobId} finding={finding} changes={changes} role={role} timeZone={timeZone} onStale={onStale} /> : null}
     </View>
   );
 }
@@ -158,11 +164,15 @@ function ChangePanel({
   jobId,
   finding,
   changes,
+  role,
+  timeZone,
   onStale,
 }: {
   jobId: string;
   finding: FindingDetail;
   changes: readonly { key: Change; label: string }[];
+  role: Role;
+  timeZone: string;
   onStale: () => void;
 }) {
   const write = useFindingWriteMutation(jobId);
@@ -170,11 +180,15 @@ function ChangePanel({
   const [which, setWhich] = useState<Change>(changes[0]!.key);
   const current = changes.some((c) => c.key === which) ? which : changes[0]!.key;
   const [saved, setSaved] = useState<string | null>(null);
+  // A GC manager's explicit "back-date on purpose" for a due date before today.
+  const [backdate, setBackdate] = useState(false);
+  const today = todayIn(timeZone);
   const typed = useRef<Typed>({ companyId: undefined, severity: finding.severity, dueOn: finding.dueOn, reason: '' });
-  const { control, handleSubmit, setError, reset, getValues, formState } = useForm<FindingChangeInput, unknown, FindingChangeParsed>({
+  const { control, handleSubmit, setError, reset, getValues, watch, formState } = useForm<FindingChangeInput, unknown, FindingChangeParsed>({
     resolver: zodResolver(findingChangeSchema),
     defaultValues: changeFor(current, typed.current),
   });
+  const dueTyped = watch('dueOn.to');
   // The form holds the body of the change shown; a finding whose status no longer allows the
   // chosen change shows the first one it allows.
   const key = BODY_KEY[current];
@@ -197,8 +211,17 @@ function ChangePanel({
       current === 'severity'
         ? { severity: { to: t.severity, reason: r || undefined } }
         : current === 'due'
-          ? { dueOn: { to: t.dueOn, reason: r || undefined } }
+          ? { dueOn: { to: t.dueOn, reason: r || undefined, ...backdatedFlag(backdate, t.dueOn, today) } }
           : changeFor(current, t);
+    if (current === 'due') {
+      // The server refuses a date before today on the job's clock; say so at the field first.
+      const problem = dueOnProblem({ dueOn: t.dueOn, backdated: backdate, role, today });
+      if (problem) {
+        setError('dueOn.to', { type: 'validate', message: problem.message });
+        setError('root', { message: 'Check the due date.' });
+        return;
+      }
+    }
     write.mutate(findingChangeWrite(jobId, finding.id, finding.version, input), {
       onSuccess: (res) => {
         typed.current = { ...t, reason: '' };
@@ -247,7 +270,10 @@ function ChangePanel({
           <FormSeverity control={control} name="severity.to" testID="finding-change-severity" />
         </View>
       ) : current === 'due' ? (
-        <FormText control={control} name="dueOn.to" label="Due on (YYYY-MM-DD)" testID="finding-change-due" autoCapitalize="none" compact />
+        <View>
+          <FormText control={control} name="dueOn.to" label="Due on (YYYY-MM-DD)" testID="finding-change-due" autoCapitalize="none" compact />
+          <BackdateChoice dueOn={dueTyped} today={today} role={role} value={backdate} onChange={setBackdate} testID="finding-change-backdate" />
+        </View>
       ) : null}
       <FormText
         key={key}

@@ -7,10 +7,11 @@ import type { RuleResult } from '../../shared/calc/rules';
 import type { MeasuredRule, UnitSystem } from '../../shared/catalogue/types';
 import { MAX_PHOTOS_PER_REQUEST } from '../../shared/rules/photos';
 import { noLimits, sameLimitResolver } from '../../shared/rules/remeasure';
-import { REASON_MAX, reinspectionSchema, type ReinspectionInput, type ReinspectionVerdict } from '../../shared/schemas/findings';
+import { REASON_MAX, reinspectionSchema, type FindingDetail, type ReinspectionInput, type ReinspectionVerdict } from '../../shared/schemas/findings';
 import { PHOTO_STAGE_LABELS } from '../../shared/words';
 import { writeErrorMessage } from '../api/writeErrors';
 import type { PickedPhoto } from '../findings/PhotoPicker.types';
+import { isQueued } from '../outbox';
 import { reinspectionWrite, useFindingWriteMutation } from '../queries/correction';
 import { space } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -47,7 +48,8 @@ export function ReinspectControls({
   /** The defect type's measured rule and the finding's own result: the inspector may measure again. */
   measured?: { rule: MeasuredRule; original: RuleResult | null; system: UnitSystem } | null;
   onStale: () => void;
-  onDone?: (verdict: ReinspectionVerdict) => void;
+  /** After the verdict is saved: the finding as the server holds it now (null: kept on this phone, waiting to send). */
+  onDone?: (verdict: ReinspectionVerdict, finding: FindingDetail | null) => void;
   testID?: string;
 }) {
   const write = useFindingWriteMutation(jobId);
@@ -71,10 +73,10 @@ export function ReinspectControls({
       const input: ReinspectionInput = { verdict, reason: reason || undefined, ...(measuredText ? { measuredText } : {}) };
       const w = slot.take(() => reinspectionWrite(jobId, finding.id, finding.version, input, photos));
       write.mutate(w, {
-        onSuccess: () => {
+        onSuccess: (res) => {
           slot.settled();
           reset({ verdict, reason: '', measuredText: null, photos: [] });
-          onDone?.(verdict);
+          onDone?.(verdict, isQueued(res) ? null : res);
         },
         onError: (err) => {
           slot.settled(err);

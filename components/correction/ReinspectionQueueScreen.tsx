@@ -2,7 +2,8 @@ import { Link } from 'expo-router';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { UnitSystem } from '../../shared/catalogue/types';
-import type { ReinspectionQueueItem, ReinspectionVerdict } from '../../shared/schemas/findings';
+import { dueAgainWords } from '../../shared/rules/dueAgain';
+import type { FindingDetail, ReinspectionQueueItem, ReinspectionVerdict } from '../../shared/schemas/findings';
 import { ApiError } from '../api/client';
 import { formatDay, formatWhen } from '../findings/due';
 import { findingPlace } from '../findings/FindingCard';
@@ -22,10 +23,16 @@ import { links } from '../links';
  * The inspector's re-inspection queue: fixes waiting, grouped by level so one walk clears them;
  * before and after photos side by side; accept, or return with a reason, in one tap.
  */
+/** "Due again on …" from the finding a return answered with (its latest event is the return). */
+function returnedDueWords(finding: FindingDetail | null): string | null {
+  const returned = finding ? [...finding.events].reverse().find((e) => e.kind === 'returned') : undefined;
+  return finding && returned ? dueAgainWords(returned.to, finding.severity, formatDay) : null;
+}
+
 export function ReinspectionQueueScreen({ jobId }: { jobId: string }) {
   const job = useJobQuery(jobId);
   const queue = useReinspectionQueueQuery(jobId);
-  const [last, setLast] = useState<{ label: string; verdict: ReinspectionVerdict } | null>(null);
+  const [last, setLast] = useState<{ label: string; verdict: ReinspectionVerdict; dueAgain: string | null } | null>(null);
   const failed = queue.isError ? queue.error : job.isError ? job.error : null;
   return (
     <Screen testID="reinspections-screen" maxWidth={900}>
@@ -47,7 +54,9 @@ export function ReinspectionQueueScreen({ jobId }: { jobId: string }) {
       </View>
       {last ? (
         <Notice tone={last.verdict === 'accept' ? 'success' : 'info'} testID="reinspections-done">
-          {last.verdict === 'accept' ? `${last.label} accepted and closed.` : `${last.label} returned to the subcontractor with your reason.`}
+          {last.verdict === 'accept'
+            ? `${last.label} accepted and closed.`
+            : `${last.label} returned to the subcontractor with your reason.${last.dueAgain ? ` ${last.dueAgain}.` : ''}`}
         </Notice>
       ) : null}
       {failed ? (
@@ -79,7 +88,7 @@ export function ReinspectionQueueScreen({ jobId }: { jobId: string }) {
                   timeZone={job.data.timeZone}
                   system={job.data.unitSystem}
                   onStale={() => void queue.refetch()}
-                  onDone={(verdict) => setLast({ label: item.finding.label, verdict })}
+                  onDone={(verdict, after) => setLast({ label: item.finding.label, verdict, dueAgain: returnedDueWords(after) })}
                 />
               ))}
             </View>
@@ -103,7 +112,7 @@ function QueueCard({
   timeZone: string;
   system: UnitSystem;
   onStale: () => void;
-  onDone: (verdict: ReinspectionVerdict) => void;
+  onDone: (verdict: ReinspectionVerdict, finding: FindingDetail | null) => void;
 }) {
   const f = item.finding;
   const fix = item.latestFix;

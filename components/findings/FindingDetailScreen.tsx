@@ -3,6 +3,7 @@ import type { ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
 import type { UnitSystem } from '../../shared/catalogue/types';
+import { dueAgainWords } from '../../shared/rules/dueAgain';
 import type { FindingDetail } from '../../shared/schemas/findings';
 import type { Role } from '../../shared/words';
 import { ApiError } from '../api/client';
@@ -104,6 +105,7 @@ function FindingBody({
   const fixPhotos = f.photos.filter((p) => p.fixId);
   const latestFix = latestFixPhotos(f.photos);
   const lastReturn = [...f.events].reverse().find((e) => e.kind === 'returned');
+  const dueAgain = lastReturn && f.status === 'open' ? dueAgainWords(lastReturn.to, f.severity, formatDay) : null;
   const sub = role === 'subcontractor';
   return (
     <>
@@ -123,7 +125,7 @@ function FindingBody({
 
       {f.status === 'open' && lastReturn?.reason ? (
         <Notice tone="error" title={`Returned ${f.returnCount === 1 ? 'once' : `${f.returnCount} times`}`} testID="finding-returned">
-          {`Returned: ${lastReturn.reason}`}
+          {`Returned: ${lastReturn.reason}${dueAgain ? `\n${dueAgain}.` : ''}`}
         </Notice>
       ) : null}
 
@@ -209,7 +211,7 @@ function FindingBody({
       {mayAddPhotos(f.status, role) ? <AddPhotosForm jobId={jobId} finding={f} onStale={reload} testID="finding-add-photos" /> : null}
 
       {/* Inspector and GC: the verdict and the changes right under the photos they compare. */}
-      {!sub ? <FindingActions jobId={jobId} finding={f} role={role} isLogger={isLogger} system={system} onStale={reload} /> : null}
+      {!sub ? <FindingActions jobId={jobId} finding={f} role={role} isLogger={isLogger} system={system} timeZone={timeZone} onStale={reload} /> : null}
 
       <Card>
         <AppText variant="label">About this defect type</AppText>

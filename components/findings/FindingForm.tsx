@@ -23,6 +23,8 @@ import { FormMeasured, FormPhotos, FormSelect, FormSeverity, FormText, withFormO
 import { Notice } from '../ui/Notice';
 import { ErrorState, LoadingState } from '../ui/States';
 import { ItemCaution } from '../walk/ItemCaution';
+import { dueOnProblem } from '../../shared/rules/pastDue';
+import { BackdateChoice, backdatedFlag } from './BackdateChoice';
 import { addDays, formatDay, suggestCompany, todayIn } from './due';
 import type { PickedPhoto } from './PhotoPicker.types';
 
@@ -107,6 +109,8 @@ function FindingFormBody({
   const today = todayIn(job.timeZone);
   const policyDue = (s: Severity) => addDays(today, job.severityDueDays[s]);
   const kept = useFindingDraft(draftKey);
+  // A GC manager's explicit "back-date on purpose" (a date before today is refused otherwise).
+  const [backdate, setBackdate] = useState(false);
   const initialSeverity: Severity = kept.initial.severity ?? fixedItem?.defaultSeverity ?? 'major';
   // "Something else" holds a title and a trade instead of a defect type (a kept draft says which it was).
   const [other, setOther] = useState<boolean>(!fixedItem && (kept.initial.title !== undefined || (Boolean(somethingElse) && !kept.initial.catalogueItemId)));
@@ -195,8 +199,16 @@ function FindingFormBody({
 
   const submit = handleSubmit(
     ({ photos, ...values }) => {
+      // The server refuses a date before today on the job's clock; say so at the field before sending.
+      const problem = values.dueOn ? dueOnProblem({ dueOn: values.dueOn, backdated: backdate, role: job.role, today }) : null;
+      if (problem) {
+        setError('dueOn', { type: 'validate', message: problem.message });
+        setError('root', { message: 'Check the fields marked below.' });
+        return;
+      }
       const input: CreateFindingInput = {
         ...values,
+        ...backdatedFlag(backdate, values.dueOn, today),
         note: values.note || undefined,
         measuredText: item?.measuredRule ? (values.measuredText ?? undefined) : undefined,
         ...(other ? { catalogueItemId: undefined } : { title: undefined, trade: undefined }),
@@ -312,6 +324,7 @@ function FindingFormBody({
         inputMode="numeric"
         compact
       />
+      <BackdateChoice dueOn={dueOn} today={today} role={job.role} value={backdate} onChange={setBackdate} testID={`${testID}-backdate`} />
 
       {item?.measuredRule && resolve ? (
         <FormMeasured control={control} name="measuredText" testID={`${testID}-measured`} rule={item.measuredRule} resolve={resolve} system={job.unitSystem} />

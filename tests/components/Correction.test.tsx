@@ -54,7 +54,7 @@ describe('ReinspectControls', () => {
     const { onDone } = renderControls();
     fireEvent.changeText(screen.getByTestId('reinspect-reason'), 'Washers missing.');
     fireEvent.press(screen.getByTestId('reinspect-return'));
-    await waitFor(() => expect(onDone).toHaveBeenCalledWith('return'));
+    await waitFor(() => expect(onDone).toHaveBeenCalledWith('return', expect.objectContaining({ id: FINDING, status: 'open', version: 4 })));
     const [path, init] = fetchSpy.mock.calls[0]!;
     expect(path).toBe(`/api/jobs/${JOB}/findings/${FINDING}/reinspections`);
     expect(init.method).toBe('POST');
@@ -67,7 +67,7 @@ describe('ReinspectControls', () => {
     const fetchSpy = fakeFetch(200, { id: FINDING, status: 'closed', version: 4 });
     const { onDone } = renderControls();
     fireEvent.press(screen.getByTestId('reinspect-accept'));
-    await waitFor(() => expect(onDone).toHaveBeenCalledWith('accept'));
+    await waitFor(() => expect(onDone).toHaveBeenCalledWith('accept', expect.objectContaining({ id: FINDING, status: 'closed' })));
     expect(JSON.parse(String(fetchSpy.mock.calls[0]![1].body))).toEqual({ verdict: 'accept' });
   });
 

@@ -8,6 +8,7 @@ import { BulkBar } from '../../components/correction/BulkBar';
 import { Comments } from '../../components/correction/Comments';
 import { FindingActions } from '../../components/correction/FindingActions';
 import { FixForm } from '../../components/correction/FixForm';
+import { addDays, todayIn } from '../../shared/rules/dates';
 import type { FindingDetail, FindingDto } from '../../shared/schemas/findings';
 import type { JobCompanyDto } from '../../shared/schemas/setup';
 import { refused, renderWithQueries } from '../support/components';
@@ -113,6 +114,32 @@ describe('FindingActions: change this finding', () => {
     expect(within(await screen.findByTestId('finding-change-due-error')).getByText('Not a real date.')).toBeTruthy();
     expect(within(screen.getByTestId('finding-change-error')).getByText('dueOn.to: Not a real date.')).toBeTruthy();
     expect(JSON.parse(String(api.writes()[0]![1]!.body))).toEqual({ dueOn: { to: '2030-02-01' } });
+  });
+
+  it('says at the due date that a date before today is refused; a GC manager may back-date on purpose', async () => {
+    const today = todayIn('UTC');
+    const past = addDays(today, -2);
+    const refusedMessage = `The due date is before today (${today} on this job's clock). Choose today or a later date.`;
+    const api = fakeApi([{ status: 200, body: { ...finding, dueOn: past, version: 4 } }]);
+    const inspector = renderWithQueries(<FindingActions jobId={JOB} finding={finding} role="inspector" isLogger={false} timeZone="UTC" onStale={jest.fn()} />);
+    fireEvent.press(await screen.findByTestId('finding-change-kind-due'));
+    fireEvent.changeText(screen.getByTestId('finding-change-due'), past);
+    expect(screen.queryByTestId('finding-change-backdate')).toBeNull();
+    fireEvent.press(screen.getByTestId('finding-change-submit'));
+    expect(within(await screen.findByTestId('finding-change-due-error')).getByText(refusedMessage)).toBeTruthy();
+    expect(api.writes()).toEqual([]);
+    inspector.unmount();
+
+    renderWithQueries(<FindingActions jobId={JOB} finding={finding} role="gc_manager" isLogger={false} timeZone="UTC" onStale={jest.fn()} />);
+    fireEvent.press(await screen.findByTestId('finding-change-kind-due'));
+    fireEvent.changeText(screen.getByTestId('finding-change-due'), past);
+    fireEvent.press(screen.getByTestId('finding-change-submit'));
+    expect(within(await screen.findByTestId('finding-change-due-error')).getByText(refusedMessage)).toBeTruthy();
+    expect(api.writes()).toEqual([]);
+    fireEvent.press(screen.getByTestId('finding-change-backdate-yes'));
+    fireEvent.press(screen.getByTestId('finding-change-submit'));
+    await screen.findByTestId('finding-change-saved');
+    expect(JSON.parse(String(api.writes()[0]![1]!.body))).toEqual({ dueOn: { to: past, backdated: true } });
   });
 });
 

@@ -73,12 +73,12 @@ function fakeApi(posts: Answer[]) {
   return { sent };
 }
 
-function renderForm() {
+function renderForm(role: JobDetail['role'] = 'inspector') {
   const onLogged = jest.fn();
   const client = new QueryClient({ defaultOptions: { queries: { retry: false, gcTime: Infinity }, mutations: { retry: false, gcTime: Infinity } } });
   render(
     <QueryClientProvider client={client}>
-      <FindingForm job={job} target={{ unitId: UNIT, levelId: LEVEL, label: 'Unit IU-3-07' }} walkId={null} onLogged={onLogged} />
+      <FindingForm job={{ ...job, role }} target={{ unitId: UNIT, levelId: LEVEL, label: 'Unit IU-3-07' }} walkId={null} onLogged={onLogged} />
     </QueryClientProvider>,
   );
   return { onLogged };
@@ -169,6 +169,33 @@ describe('FindingForm', () => {
     fireEvent.press(screen.getByTestId('finding-form-submit'));
     expect(await screen.findByText('Not a real date.')).toBeTruthy();
     expect(within(screen.getByTestId('finding-form-error')).getByText('dueOn: Not a real date.')).toBeTruthy();
+  });
+
+  it('says at the due date that a date before today is refused, and sends nothing; an inspector is not offered back-dating', async () => {
+    const api = fakeApi([]);
+    renderForm('inspector');
+    await chooseItem('MT-01 · Hanger on chain (Mounting and hanging)');
+    fireEvent.changeText(screen.getByTestId('finding-form-due'), addDays(today, -1));
+    expect(screen.queryByTestId('finding-form-backdate')).toBeNull();
+    fireEvent.press(screen.getByTestId('finding-form-submit'));
+    expect(await screen.findByText(`The due date is before today (${today} on this job's clock). Choose today or a later date.`)).toBeTruthy();
+    expect(within(screen.getByTestId('finding-form-error')).getByText('Check the fields marked below.')).toBeTruthy();
+    expect(api.sent()).toEqual([]);
+  });
+
+  it('lets a GC manager back-date on purpose, and says so in the body', async () => {
+    const api = fakeApi([{ status: 201, body: { id: 'f1', label: '#1', catalogueItemId: HANGER.id } }]);
+    const { onLogged } = renderForm('gc_manager');
+    await chooseItem('MT-01 · Hanger on chain (Mounting and hanging)');
+    expect(screen.queryByTestId('finding-form-backdate')).toBeNull(); // the policy's date is not in the past
+    fireEvent.changeText(screen.getByTestId('finding-form-due'), addDays(today, -3));
+    fireEvent.press(screen.getByTestId('finding-form-submit'));
+    expect(await screen.findByText(`The due date is before today (${today} on this job's clock). Choose today or a later date.`)).toBeTruthy();
+    expect(api.sent()).toEqual([]);
+    fireEvent.press(screen.getByTestId('finding-form-backdate-yes'));
+    fireEvent.press(screen.getByTestId('finding-form-submit'));
+    await waitFor(() => expect(onLogged).toHaveBeenCalled());
+    expect(api.sent()[0]!.body).toMatchObject({ dueOn: addDays(today, -3), backdated: true });
   });
 
   it('re-sends the same write after a lost answer, and a new one after a change', async () => {
