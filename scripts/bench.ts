@@ -16,7 +16,9 @@
  *    printed next to the API's latency with one client and under load, as ratios.
  * 5. Exports (scripts/lib/benchExport.ts when present), the web bundle size (gzip), the time
  *    until the sign-in page is usable in headless chromium, and the local save of a finding with
- *    2 photos with the CPU slowed 4x (scripts/lib/benchLocalSave.ts; BENCH_SKIP_WEB=1 skips these).
+ *    2 photos with the CPU slowed 4x (scripts/lib/benchLocalSave.ts), and the sync rate of
+ *    BENCH_SYNC_COUNT (50) findings with 1-2 photos queued offline in the outbox, next to the same
+ *    findings posted online one by one (scripts/lib/benchSync.ts); BENCH_SKIP_WEB=1 skips these.
  * Results also go to .artifacts/bench.json.
  */
 import { type ChildProcess, spawn } from 'node:child_process';
@@ -30,6 +32,7 @@ import { chromium } from 'playwright-core';
 import sharp from 'sharp';
 import { connect, migrate } from '../server/db';
 import { CPU_SLOWDOWN, localSaveBench, type LocalSaveResult } from './lib/benchLocalSave';
+import { syncRateBench, type SyncRateResult } from './lib/benchSync';
 import { BENCH_PASSWORD, seedBenchJob, type BenchJob, type BenchUser } from './lib/benchSeed';
 import { cookieFrom, multipart, newAgent, send, stats, type BenchClient, type Reply, type Stats } from './lib/benchHttp';
 import type { CaptureMessage, CapturedQuery } from './lib/benchServer';
@@ -46,6 +49,7 @@ const SQL_RUNS = Number(process.env.BENCH_SQL_RUNS ?? 100);
 /** Each endpoint's one-client and SQL runs stop early after this long (slow endpoints). */
 const COMPARE_BUDGET_MS = Number(process.env.BENCH_COMPARE_BUDGET_MS ?? 6000);
 const SKIP_WEB = process.env.BENCH_SKIP_WEB === '1';
+const SYNC_COUNT = Number(process.env.BENCH_SYNC_COUNT ?? 50);
 const TARGET = { readP95: 150, boardP95: 100, ratio: 3 };
 
 // ---------------------------------------------------------------------------------------------
@@ -664,6 +668,29 @@ async function main() {
         say(`local save benchmark failed: ${err instanceof Error ? err.message : String(err)}`);
       }
     }
+    let syncRate: SyncRateResult | null = null;
+    if (!SKIP_WEB) {
+      say(`sync rate of ${SYNC_COUNT} findings with photos queued offline, and posted online one by one (scripts/lib/benchSync.ts) ...`);
+      try {
+        const inspector = job.users.find((u) => u.role === 'inspector')!;
+        const unitDb = new pg.Client({ connectionString: url });
+        await unitDb.connect();
+        const units = await unitDb.query<{ id: string }>(`SELECT id FROM units WHERE job_id = $1 ORDER BY tag OFFSET 1 LIMIT $2`, [job.jobId, SYNC_COUNT]);
+        await unitDb.end();
+        syncRate = await syncRateBench({
+          baseUrl: server.url.origin,
+          databaseUrl: url,
+          email: inspector.email,
+          password: BENCH_PASSWORD,
+          jobId: job.jobId,
+          unitIds: units.rows.map((u) => u.id),
+          count: SYNC_COUNT,
+          log: say,
+        });
+      } catch (err) {
+        say(`sync rate benchmark failed: ${err instanceof Error ? err.message : String(err)}`);
+      }
+    }
 
     // ---- Report ----
     const totalRequests = [...load.byEndpoint.values()].reduce((s, e) => s + e.times.length, 0);
@@ -716,10 +743,19 @@ async function main() {
           `  2 photos of 4000×3000 picked → downscaled to 2560 px on the device and shown in the form: p50 ${f1(localSave.prepare.p50)} ms, p95 ${f1(localSave.prepare.p95)} ms`,
       );
     }
+    if (syncRate) {
+      console.log(
+        `\nSync of ${syncRate.findings} findings with ${syncRate.photos} photos (1-2 each, 640×480) queued offline in the outbox (phone-sized page):\n` +
+          `  back online → queue empty: ${syncRate.queued.seconds.toFixed(1)} s, ${f2(syncRate.queued.itemsPerSecond)} items/s ` +
+          `(in SQL: ${syncRate.queued.findingsStored} of ${syncRate.findings} findings, ${syncRate.queued.photosStored} of ${syncRate.photos} photos)\n` +
+          `  the same findings posted online one by one from the page: ${syncRate.online.seconds.toFixed(1)} s, ${f2(syncRate.online.itemsPerSecond)} items/s` +
+          (syncRate.online.refused ? ` (${syncRate.online.refused} refused)` : ''),
+      );
+    }
     fs.mkdirSync(path.join(root, '.artifacts'), { recursive: true });
     fs.writeFileSync(
       path.join(root, '.artifacts', 'bench.json'),
-      JSON.stringify({ at: new Date().toISOString(), clients: clients.length, seconds: load.elapsed, networkErrors: load.networkErrors, load: loadRows, reads, exportResult, bundle, usableMs, localSave }, null, 2),
+      JSON.stringify({ at: new Date().toISOString(), clients: clients.length, seconds: load.elapsed, networkErrors: load.networkErrors, load: loadRows, reads, exportResult, bundle, usableMs, localSave, syncRate }, null, 2),
     );
   } finally {
     await server?.stop();
