@@ -174,6 +174,8 @@ describe('the correction loop', () => {
     await insp.page.getByTestId(`reinspection-${no}-verdict-return`).click();
     await insp.page.getByTestId('reinspections-done').waitFor();
     expect(await text(insp.page, 'reinspections-done')).toContain(`${label} returned`);
+    // A return gives the company the job's days for the severity again, and says so.
+    expect(await text(insp.page, 'reinspections-done')).toMatch(/Due again on \w{3},? \d{1,2} \w{3} \d{4} \(\d+ days? for a (critical|major|minor) finding\)/);
     await insp.page.getByTestId(`reinspection-${no}`).waitFor({ state: 'detached' });
     await h.screenshot(insp.page, 'correction-08-returned-phone');
 
@@ -185,6 +187,7 @@ describe('the correction loop', () => {
     await sub.page.getByTestId(`inbox-card-${no}`).click();
     await sub.page.getByTestId('finding-returned').waitFor();
     expect(await text(sub.page, 'finding-returned')).toContain(reason);
+    expect(await text(sub.page, 'finding-returned')).toMatch(/Due again on \w{3},? \d{1,2} \w{3} \d{4} \(\d+ days? for a (critical|major|minor) finding\)/);
     await h.screenshot(sub.page, 'correction-10-detail-returned-phone');
     await sub.page.goto(`${h.baseUrl}/inbox`);
     await submitFix(sub.page, no, 'Added the missing washers above the nuts.', [70, 140, 90], 'correction-11-fix-again-phone');
