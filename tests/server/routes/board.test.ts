@@ -94,6 +94,8 @@ interface Rows {
     company_id: string;
     due_on: string;
     logged_at: Date;
+    /** A "Something else" finding's own title (null: the defect type's). */
+    title: string | null;
   }[];
   levels: { id: string; name: string; position: number }[];
   units: { id: string; tag: string; kind: string; level_id: string; system_id: string | null }[];
@@ -111,7 +113,7 @@ async function readRows(jobId: string): Promise<Rows> {
     timeZone: job!.time_zone,
     thresholds: job!.recurring_thresholds,
     findings: await q(
-      `SELECT id, number, level_id, unit_id, catalogue_item_id, severity, status, company_id, to_char(due_on, 'YYYY-MM-DD') AS due_on, logged_at
+      `SELECT id, number, level_id, unit_id, catalogue_item_id, title, severity, status, company_id, to_char(due_on, 'YYYY-MM-DD') AS due_on, logged_at
          FROM findings WHERE job_id = $1`,
     ),
     levels: await q(`SELECT id, name, position FROM levels WHERE job_id = $1`),
@@ -202,7 +204,7 @@ function expectedReadiness(rows: Rows, companyId: string | null): ReadinessRespo
     findingId: f.id,
     number: f.number,
     code: items.get(f.catalogue_item_id)!.code,
-    title: items.get(f.catalogue_item_id)!.title,
+    title: f.title ?? items.get(f.catalogue_item_id)!.title,
     severity: f.severity,
     status: f.status as 'open' | 'fix_submitted',
     unitId: f.unit_id,
