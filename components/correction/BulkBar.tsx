@@ -3,8 +3,12 @@ import { useEffect, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { REASON_MAX, bulkChangeSchema, type BulkChangeInput, type BulkChangeParsed, type FindingDto } from '../../shared/schemas/findings';
+import { dueOnProblem } from '../../shared/rules/pastDue';
 import type { JobCompanyDto } from '../../shared/schemas/setup';
+import type { Role } from '../../shared/words';
 import { ApiError } from '../api/client';
+import { BackdateChoice, backdatedFlag } from '../findings/BackdateChoice';
+import { todayIn } from '../findings/due';
 import { bulkChangeWrite, useBulkChangeMutation } from '../queries/correction';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -53,6 +57,8 @@ export function BulkBar({
   rows,
   companies,
   onClear,
+  role = 'inspector',
+  timeZone = 'UTC',
   testID = 'bulk',
 }: {
   jobId: string;
@@ -60,6 +66,10 @@ export function BulkBar({
   rows: readonly FindingDto[];
   companies: readonly JobCompanyDto[];
   onClear: () => void;
+  /** The caller's role on the job: a GC manager may back-date a due date on purpose. */
+  role?: Role;
+  /** The job's time zone: "today" for a new due date. */
+  timeZone?: string;
   testID?: string;
 }) {
   const bulk = useBulkChangeMutation(jobId);
@@ -67,6 +77,8 @@ export function BulkBar({
   const [kind, setKind] = useState<Kind>('reassign');
   const [refusal, setRefusal] = useState<{ message: string; labels: string[] } | null>(null);
   const [done, setDone] = useState<string | null>(null);
+  const [backdate, setBackdate] = useState(false);
+  const today = todayIn(timeZone);
   const typed = useRef<Typed>({ dueOn: '', reason: '' });
   const { control, handleSubmit, setValue, getValues, setError, reset, watch } = useForm<BulkChangeInput, unknown, BulkChangeParsed>({
     resolver: zodResolver(bulkChangeSchema),
@@ -97,9 +109,20 @@ export function BulkBar({
 
   const apply = handleSubmit(({ findingIds, change }) => {
       const t = typedFrom(change, typed.current);
+      if (kind === 'due') {
+        // The server refuses a date before today on the job's clock; say so at the field first.
+        const problem = dueOnProblem({ dueOn: t.dueOn, backdated: backdate, role, today });
+        if (problem) {
+          setError('change.dueOn.to', { type: 'validate', message: problem.message });
+          return;
+        }
+      }
       const input: BulkChangeInput = {
         findingIds,
-        change: kind === 'reassign' ? { reassign: { companyId: t.companyId as string, reason: t.reason } } : { dueOn: { to: t.dueOn, reason: t.reason || undefined } },
+        change:
+          kind === 'reassign'
+            ? { reassign: { companyId: t.companyId as string, reason: t.reason } }
+            : { dueOn: { to: t.dueOn, reason: t.reason || undefined, ...backdatedFlag(backdate, t.dueOn, today) } },
       };
       const w = slot.take(() => bulkChangeWrite(jobId, input));
       bulk.mutate(w, {
@@ -170,7 +193,10 @@ export function BulkBar({
               testID={`${testID}-company`}
             />
           ) : (
-            <FormText control={control} name="change.dueOn.to" label="Due on (YYYY-MM-DD)" autoCapitalize="none" testID={`${testID}-due`} />
+            <View>
+              <FormText control={control} name="change.dueOn.to" label="Due on (YYYY-MM-DD)" autoCapitalize="none" testID={`${testID}-due`} />
+              <BackdateChoice dueOn={watch('change.dueOn.to')} today={today} role={role} value={backdate} onChange={setBackdate} testID={`${testID}-backdate`} />
+            </View>
           )}
         </View>
         <View style={styles.field}>

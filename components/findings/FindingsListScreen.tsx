@@ -113,7 +113,15 @@ export function FindingsListScreen({ jobId, initial }: { jobId: string; initial:
       ) : (
         <View style={styles.list} testID="findings-list">
           {bulkAllowed ? (
-            <BulkBar jobId={jobId} selected={shownSelected} rows={rows} companies={companies.data ?? []} onClear={() => setSelected([])} />
+            <BulkBar
+              jobId={jobId}
+              selected={shownSelected}
+              rows={rows}
+              companies={companies.data ?? []}
+              role={job.data?.role}
+              timeZone={job.data?.timeZone}
+              onClear={() => setSelected([])}
+            />
           ) : null}
           {wide ? (
             <FindingsTable jobId={jobId} rows={rows} sort={sort} onSort={(s) => setFilters((f) => ({ ...f, sort: s }))} selection={selection} />

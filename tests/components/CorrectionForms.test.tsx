@@ -168,4 +168,21 @@ describe('BulkBar', () => {
       change: { reassign: { companyId: ELEC.id, reason: 'Wiring, not mechanical.' } },
     });
   });
+
+  it('says at the due date that a date before today is refused; a GC manager may back-date all on purpose', async () => {
+    const today = todayIn('UTC');
+    const past = addDays(today, -1);
+    const api = fakeApi([{ status: 200, body: { items: rows } }]);
+    const onClear = jest.fn();
+    renderWithQueries(<BulkBar jobId={JOB} selected={[FINDING, OTHER]} rows={rows} companies={[MECH, ELEC]} onClear={onClear} role="gc_manager" timeZone="UTC" />);
+    fireEvent.press(screen.getByTestId('bulk-kind-due'));
+    fireEvent.changeText(screen.getByTestId('bulk-due'), past);
+    fireEvent.press(screen.getByTestId('bulk-apply'));
+    expect(within(await screen.findByTestId('bulk-due-error')).getByText(`The due date is before today (${today} on this job's clock). Choose today or a later date.`)).toBeTruthy();
+    expect(api.writes()).toEqual([]);
+    fireEvent.press(screen.getByTestId('bulk-backdate-yes'));
+    fireEvent.press(screen.getByTestId('bulk-apply'));
+    await waitFor(() => expect(onClear).toHaveBeenCalled());
+    expect(JSON.parse(String(api.writes()[0]![1]!.body))).toEqual({ findingIds: [FINDING, OTHER], change: { dueOn: { to: past, backdated: true } } });
+  });
 });
