@@ -27,6 +27,8 @@ const FIELD_WORDS: Record<string, string> = {
   severity: 'Severity',
   companyName: 'Company',
   dueOn: 'Due',
+  backdated: 'Before today',
+  daysToFix: 'Days to fix',
   measuredText: 'Measured',
   pass: 'Measured result',
   verdict: 'Against the rule',
@@ -44,6 +46,7 @@ function word(k: string, v: unknown): string {
   if (k === 'severity' && typeof v === 'string') return SEVERITY_LABELS[v as Severity] ?? v;
   if (k === 'dueOn' && typeof v === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(v)) return formatDay(v);
   if (k === 'pass' && typeof v === 'boolean') return v ? 'pass' : 'fail';
+  if (k === 'backdated' && v === true) return 'back-dated on purpose by a GC manager';
   return typeof v === 'object' ? JSON.stringify(v) : String(v);
 }
 

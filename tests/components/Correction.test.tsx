@@ -127,6 +127,11 @@ describe('the timeline’s words', () => {
     ).toBe('Status: Fix submitted → Closed');
     expect(describeChange({ from: { companyId: 'a', companyName: 'Old Co' }, to: { companyId: 'b', companyName: 'New Co' } })).toBe('Company: Old Co → New Co');
     expect(describeChange({ from: null, to: { dueOn: '2026-12-04' } })).toBe('Due: Fri, 4 Dec 2026');
+    // a back-dated due date and a returned fix's new due date say so in the history
+    expect(describeChange({ from: { dueOn: '2026-12-04' }, to: { dueOn: '2026-11-30', backdated: true } })).toBe('Due: Fri, 4 Dec 2026 → Mon, 30 Nov 2026; Before today: back-dated on purpose by a GC manager');
+    expect(describeChange({ from: { status: 'fix_submitted', returnCount: 0, dueOn: '2026-11-20' }, to: { status: 'open', returnCount: 1, dueOn: '2026-12-10', daysToFix: 7 } })).toBe(
+      'Status: Fix submitted → Open; Due: Fri, 20 Nov 2026 → Thu, 10 Dec 2026; Days to fix: 7; Returns: 0 → 1',
+    );
     expect(describeChange({ from: null, to: null })).toBeNull();
   });
 });
