@@ -184,7 +184,8 @@ describe('walking a level on a phone', () => {
     expect(await text(page, 'unit-check-progress')).toMatch(/^(\d+) of \1 marked$/);
     await saveCheck(page, tags[0]);
     await exactText(page, 'level-coverage-count', '1 of 3 checked');
-    expect(await text(page, `walk-unit-${tags[0]}-state`)).toContain('Checked OK');
+    // The units list refreshes on its own after the save (the coverage above may come first).
+    await page.getByTestId(`walk-unit-${tags[0]}-state`).filter({ hasText: 'Checked OK' }).waitFor();
     await page.getByTestId('walk-open').waitFor();
     await h.screenshot(page, 'walk-04-first-unit-ok-phone');
 
@@ -250,8 +251,8 @@ describe('walking a level on a phone', () => {
     // 4. The level's coverage: all three checked, two with open findings, their worst severity shown.
     await exactText(page, 'level-coverage-count', '3 of 3 checked');
     expect(await text(page, 'level-coverage-detail')).toContain('2 with open findings');
-    expect(await text(page, `walk-unit-${tags[1]}-state`)).toBe('1 open · Critical');
-    expect(await text(page, `walk-unit-${tags[2]}-state`)).toBe('1 open · Major');
+    await exactText(page, `walk-unit-${tags[1]}-state`, '1 open · Critical');
+    await exactText(page, `walk-unit-${tags[2]}-state`, '1 open · Major');
     await h.screenshot(page, 'walk-07-level-coverage-phone');
 
     // 5. Both in the findings list (cards on a phone).
