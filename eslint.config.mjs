@@ -103,4 +103,16 @@ export default defineConfig(
       ],
     },
   },
+  {
+    files: ['tests/e2e/**', 'tests/support/**'],
+    rules: {
+      'no-restricted-properties': [
+        'error',
+        {
+          property: 'waitForFunction',
+          message: "The app's Content Security Policy refuses the page-side eval that waitForFunction uses: use pageHolds() from tests/support/browser.ts.",
+        },
+      ],
+    },
+  },
 );

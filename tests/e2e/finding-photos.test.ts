@@ -14,7 +14,7 @@ import { CatalogueItem, Company, Finding, Job, JobCompany, UnitModel, User } fro
 import { seedDemo, DEMO_ACCOUNTS, DEMO_COMPANIES, DEMO_PASSWORD } from '../../server/seed/demo';
 import { limitResolverFor, measure, nextFindingNumber, recordFindingEvent } from '../../server/services/findings';
 import { buildLevel, buildSpace, buildUnit, copyCatalogue } from '../support/factories';
-import { PHONE, screenshotsDir, startBrowserHarness, type BrowserHarness } from '../support/browser';
+import { pageHolds, PHONE, screenshotsDir, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
 
 jest.setTimeout(240_000);
@@ -126,7 +126,7 @@ async function text(page: Page, testID: string): Promise<string> {
 async function imagesLoaded(page: Page, testID: string) {
   // Runs in the page (a string: this file is type-checked without the DOM's types).
   const selector = JSON.stringify(`[data-testid="${testID}"] img`);
-  await page.waitForFunction(`(() => { const imgs = [...document.querySelectorAll(${selector})]; return imgs.length > 0 && imgs.every((i) => i.complete && i.naturalWidth > 0); })()`, undefined, {
+  await pageHolds(page, `(() => { const imgs = [...document.querySelectorAll(${selector})]; return imgs.length > 0 && imgs.every((i) => i.complete && i.naturalWidth > 0); })()`, {
     timeout: 15_000,
   });
 }

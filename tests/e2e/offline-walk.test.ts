@@ -10,12 +10,12 @@
  */
 import { createHash, randomUUID } from 'node:crypto';
 import sharp from 'sharp';
-import type { Page, Route } from 'playwright-core';
+import type { Route } from 'playwright-core';
 import { CatalogueItem, Company, Job, JobCompany, Photo, UnitModel } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_COMPANIES, DEMO_PASSWORD } from '../../server/seed/demo';
 import { signIn } from '../support/app';
 import { buildLevel, buildUnit, copyCatalogue } from '../support/factories';
-import { PHONE, startBrowserHarness, type BrowserHarness } from '../support/browser';
+import { PHONE, serviceWorkerControls, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
 
 jest.setTimeout(240_000);
@@ -70,11 +70,6 @@ async function storedSha(key: string): Promise<string> {
   const chunks: Buffer[] = [];
   for await (const c of obj.body) chunks.push(Buffer.from(c as Buffer));
   return sha(Buffer.concat(chunks));
-}
-
-async function controlled(page: Page) {
-  await page.evaluate('navigator.serviceWorker.ready.then(() => undefined)');
-  await page.waitForFunction('navigator.serviceWorker.controller !== null');
 }
 
 async function count(sql: string, bind: unknown[]): Promise<number> {
@@ -144,7 +139,7 @@ it('a walk offline: checks and findings with photos kept through a reload, then 
   const walkId = ((await started.json()) as { id: string }).id;
   await page.goto(`${h.baseUrl}/jobs/${jobId}/levels/${levelId}/walk`);
   await page.getByTestId('walk-open').waitFor();
-  await controlled(page);
+  await serviceWorkerControls(page);
   await page.getByTestId('kept-level-keep').click();
   await page.getByTestId('kept-level-status').waitFor();
 

@@ -10,7 +10,7 @@ import { QueryTypes } from 'sequelize';
 import type { Page } from 'playwright-core';
 import { Finding, Level } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/seed/demo';
-import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
+import { pageHolds, PHONE, startBrowserHarness, WIDE, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
 import { demoJob } from '../support/demo';
 
@@ -176,7 +176,7 @@ describe('plans and pins', () => {
     // The wheel zooms at the pointer.
     await page.mouse.move(viewport.x + viewport.width / 2, viewport.y + viewport.height / 2);
     await page.mouse.wheel(0, -400);
-    await page.waitForFunction(`document.querySelector('[data-testid="plan-zoom-level"]')?.textContent !== '100%'`);
+    await pageHolds(page, `document.querySelector('[data-testid="plan-zoom-level"]')?.textContent !== '100%'`);
     expect(Number((await zoomText(page)).replace('%', ''))).toBeGreaterThan(100);
     await h.screenshot(page, 'plans-07-wide-zoomed');
     expect(problems).toEqual([]);

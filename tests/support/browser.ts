@@ -14,6 +14,7 @@ import type { Database } from '../../server/db';
 import { buildTestApp, testEnv } from './app';
 import { connectTestDb } from './db';
 import { testMailService, type FakeSmtp } from './mail';
+import { waitFor, type WaitOptions } from './wait';
 import { startFakeS3 } from './storage';
 
 export const PHONE = { width: 390, height: 844 } as const;
@@ -134,4 +135,30 @@ export async function startBrowserHarness(options: Partial<AppOptions> & { smtp?
       await ownS3?.close();
     },
   };
+}
+
+/**
+ * Waits until a browser-side expression (a string: the test code is compiled without the DOM
+ * library) is truthy, polling with `page.evaluate`. Not `page.waitForFunction`: that evaluates its
+ * predicate with the page's own `eval`, which the app's Content Security Policy (script-src 'self')
+ * refuses. A page that is navigating between two polls is polled again, not failed.
+ */
+export async function pageHolds(page: Page, expression: string, options: WaitOptions = {}): Promise<void> {
+  await waitFor(
+    async () => {
+      try {
+        return Boolean(await page.evaluate(expression));
+      } catch (error) {
+        if (/Execution context was destroyed|navigat/i.test(String(error))) return false;
+        throw error;
+      }
+    },
+    { timeout: 30_000, interval: 100, ...options, what: options.what ?? expression.slice(0, 120) },
+  );
+}
+
+/** Waits until a service worker controls the page (the shell is then served with no network). */
+export async function serviceWorkerControls(page: Page): Promise<void> {
+  await page.evaluate('navigator.serviceWorker.ready.then(() => undefined)');
+  await pageHolds(page, 'navigator.serviceWorker.controller !== null', { what: 'a service worker to control the page' });
 }
