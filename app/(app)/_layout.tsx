@@ -1,5 +1,8 @@
 import { Redirect, Slot } from 'expo-router';
+import { useCallback, useEffect } from 'react';
 import { View } from 'react-native';
+import { ApiError } from '../../components/api/client';
+import { OfflineStart, rememberSignedIn } from '../../components/outbox/OfflineStart';
 import { OutboxProvider } from '../../components/outbox/OutboxProvider';
 import { useSessionQuery } from '../../components/queries/session';
 import { AppHeader } from '../../components/ui/AppHeader';
@@ -9,9 +12,19 @@ import { links } from '../../components/links';
 /** Guard: signed-out users go to sign-in. */
 export default function SignedInLayout() {
   const session = useSessionQuery();
+  const { refetch } = session;
+  const retry = useCallback(() => void refetch(), [refetch]);
+  const userId = session.data?.user?.id;
+  useEffect(() => {
+    if (userId) rememberSignedIn(userId);
+  }, [userId]);
   if (session.isPending) return <LoadingState />;
   // Offline with a level kept on the phone, the session kept with it stands until the network answers.
-  if (session.isError && !session.data) return <ErrorState message={session.error.message} onRetry={() => session.refetch()} />;
+  if (session.isError && !session.data) {
+    // No signal and no session kept on the phone: say so, and open by itself when the signal is back.
+    if (session.error instanceof ApiError && session.error.id === 'offline') return <OfflineStart message={session.error.message} onRetry={retry} />;
+    return <ErrorState message={session.error.message} onRetry={retry} />;
+  }
   if (!session.data.user) return <Redirect href={links.signIn()} />;
   // The signed-in person's outbox runs while they are signed in (sent on start, 'online', every minute).
   return (

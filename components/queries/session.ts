@@ -2,6 +2,7 @@ import { QueryClient, useMutation, useQuery, useQueryClient } from '@tanstack/re
 import type { SessionResponse, SignInInput } from '../../shared/schemas/session';
 import { apiGet, setCsrfToken } from '../api/client';
 import { newWrite, sendWrite } from '../api/mutations';
+import { forgetSignedIn } from '../outbox/OfflineStart';
 
 export const sessionKeys = { all: ['session'] as const };
 
@@ -40,6 +41,7 @@ export function useSignOutMutation() {
   return useMutation({
     mutationFn: () => sendWrite<void>(newWrite({ method: 'DELETE', path: '/api/session' })),
     onSettled: async () => {
+      forgetSignedIn();
       forgetEverythingButSession(queryClient);
       await queryClient.refetchQueries({ queryKey: sessionKeys.all });
     },

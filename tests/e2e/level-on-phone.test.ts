@@ -11,7 +11,7 @@ import type { Page } from 'playwright-core';
 import { CatalogueItem, Job, Photo, UnitModel } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/seed/demo';
 import { buildLevel, buildUnit, copyCatalogue } from '../support/factories';
-import { PHONE, startBrowserHarness, type BrowserHarness } from '../support/browser';
+import { pageHolds, PHONE, serviceWorkerControls, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
 
 jest.setTimeout(240_000);
@@ -66,12 +66,6 @@ async function logFinding(page: Page, unitId: string, code: string, note: string
   return (await res.json()) as { id: string; number: number };
 }
 
-/** Waits until a service worker controls the page (the shell is then served with no network). */
-async function controlled(page: Page) {
-  await page.evaluate('navigator.serviceWorker.ready.then(() => undefined)');
-  await page.waitForFunction('navigator.serviceWorker.controller !== null');
-}
-
 // Browser-side code is written as strings: the test code is compiled without the DOM library.
 const readKept = (key: string, db = 'trimout-kept', store = 'cache') => `new Promise((resolve, reject) => {
   const open = indexedDB.open(${JSON.stringify(db)});
@@ -87,7 +81,8 @@ const readKept = (key: string, db = 'trimout-kept', store = 'cache') => `new Pro
 
 /** Every image under the element has loaded; answers their addresses. */
 async function imagesLoaded(page: Page, testID: string): Promise<string[]> {
-  await page.waitForFunction(
+  await pageHolds(
+    page,
     `(() => { const imgs = [...document.querySelectorAll('[data-testid="${testID}"] img')]; return imgs.length > 0 && imgs.every((i) => i.complete && i.naturalWidth > 0); })()`,
   );
   return page.evaluate(`[...document.querySelectorAll('[data-testid="${testID}"] img')].map((i) => i.src)`);
@@ -103,7 +98,7 @@ it('keeps a level on the phone; offline after a reload its units, a unit check a
 
   await page.goto(`${h.baseUrl}/jobs/${jobId}/levels/${levelId}/walk`);
   await page.getByTestId('kept-level-none').waitFor();
-  await controlled(page);
+  await serviceWorkerControls(page);
   await page.getByTestId('kept-level-keep').click();
   const status = page.getByTestId('kept-level-status');
   const failed = page.getByTestId('kept-level-error');
@@ -112,7 +107,7 @@ it('keeps a level on the phone; offline after a reload its units, a unit check a
   expect(await status.textContent()).toMatch(new RegExp(`^${levelName} kept on this phone, \\d+(\\.\\d)? (KB|MB), updated \\d\\d:\\d\\d$`));
   await h.screenshot(page, 'level-on-phone-01-kept-phone');
   // Stored on the device: the list of kept levels names this one, the thumbnails are Blobs.
-  await page.waitForFunction(`${readKept('queries')}.then((v) => typeof v === 'string' && v.includes(${JSON.stringify(tags[2])}))`);
+  await pageHolds(page, `${readKept('queries')}.then((v) => typeof v === 'string' && v.includes(${JSON.stringify(tags[2])}))`);
   const registry = (await page.evaluate(readKept('registry'))) as { owner: string; levels: { levelId: string; photos: string[] }[] };
   expect(registry.levels.map((l) => l.levelId)).toEqual([levelId]);
   expect(registry.levels[0]!.photos).toHaveLength(2);
@@ -167,7 +162,7 @@ it('a second person signing in on the same browser profile sees nothing of the f
   expect(await page.evaluate(readKept('*', 'trimout-kept-photos', 'thumbnails'))).toHaveLength(2);
   await h.signIn(page, gc.email, DEMO_PASSWORD);
   // Everything the first person kept is gone from the device: the list, the thumbnails, the cache.
-  await page.waitForFunction(`${readKept('registry')}.then((v) => v === null)`);
+  await pageHolds(page, `${readKept('registry')}.then((v) => v === null)`);
   expect(await page.evaluate(readKept('*', 'trimout-kept-photos', 'thumbnails'))).toEqual([]);
   const cached = (await page.evaluate(readKept('queries'))) as string | null;
   expect(cached ?? '').not.toContain(tags[0]);
@@ -176,8 +171,10 @@ it('a second person signing in on the same browser profile sees nothing of the f
   // Offline, the level is not there for the second person.
   await context.setOffline(true);
   await page.reload();
-  await page.getByTestId('state-error').waitFor();
+  await page.getByTestId('offline-start').waitFor();
   expect(await page.getByTestId(`walk-unit-${tags[0]}`).count()).toBe(0);
+  // nor of the first one's queue: nothing is said to wait on this phone
+  expect(await page.getByTestId('offline-start-waiting').count()).toBe(0);
   await context.setOffline(false);
   await page.close();
 });
