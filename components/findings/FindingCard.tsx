@@ -1,5 +1,6 @@
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
+import { defectCodeWords } from '../../shared/rules/somethingElse';
 import type { FindingDto } from '../../shared/schemas/findings';
 import { FINDING_STATUS_LABELS, type FindingStatus } from '../../shared/words';
 import { KeptImage } from '../kept/KeptImage';
@@ -37,7 +38,7 @@ export function FindingCard({ jobId, finding }: { jobId: string; finding: Findin
         <View style={styles.main}>
           <View style={styles.top}>
             <AppText variant="label" muted>
-              {f.label} · {f.code}
+              {f.label} · {defectCodeWords(f.code)}
             </AppText>
             <StatusBadge status={f.status} />
           </View>

@@ -4,6 +4,7 @@ import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
 import type { UnitSystem } from '../../shared/catalogue/types';
 import { dueAgainWords } from '../../shared/rules/dueAgain';
+import { defectCodeWords } from '../../shared/rules/somethingElse';
 import type { FindingDetail } from '../../shared/schemas/findings';
 import type { Role } from '../../shared/words';
 import { ApiError } from '../api/client';
@@ -111,7 +112,7 @@ function FindingBody({
     <>
       <View style={styles.head}>
         <AppText variant="label" muted testID="finding-label">
-          {f.label} · {f.code}
+          {f.label} · {defectCodeWords(f.code)}
         </AppText>
         <AppText variant="display" role="heading" testID="finding-title">
           {f.title}

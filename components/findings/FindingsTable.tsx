@@ -1,6 +1,7 @@
 import { Link } from 'expo-router';
 import type { ReactNode } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
+import { defectCodeWords } from '../../shared/rules/somethingElse';
 import type { FindingDto, FindingSort } from '../../shared/schemas/findings';
 import { colors, radius, space, touchTarget } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -28,7 +29,7 @@ const COLUMNS: Col[] = [
     render: (f) => (
       <View>
         <AppText variant="small" muted>
-          {f.code}
+          {defectCodeWords(f.code)}
         </AppText>
         <AppText numberOfLines={2}>{f.title}</AppText>
       </View>

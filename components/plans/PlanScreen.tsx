@@ -3,6 +3,7 @@ import { useEffect, useMemo, useState } from 'react';
 import { StyleSheet, useWindowDimensions, View } from 'react-native';
 import type { FindingDto } from '../../shared/schemas/findings';
 import type { JobDetail, LevelDto, UnitDto } from '../../shared/schemas/setup';
+import { defectCodeWords } from '../../shared/rules/somethingElse';
 import { ApiError, isConflict } from '../api/client';
 import { useJobQuery } from '../queries/jobs';
 import { useLevelsQuery } from '../queries/levels';
@@ -109,7 +110,7 @@ function PlanBody({ job, level, place }: { job: JobDetail; level: LevelDto; plac
   const unplacedFindings = (pins.data?.findings ?? []).filter((f) => f.pinX === null && f.status !== 'closed');
   const unplacedUnits = (pins.data?.units ?? []).filter((u) => u.pinX === null);
 
-  const nameOf = (t: PinTarget) => (t.kind === 'finding' ? `${t.item.label} ${t.item.code}` : `Unit ${t.item.tag}`);
+  const nameOf = (t: PinTarget) => (t.kind === 'finding' ? `${t.item.label} ${defectCodeWords(t.item.code)}` : `Unit ${t.item.tag}`);
 
   const doPlace = (pin: { x: number; y: number } | null) => {
     if (!target || placePin.isPending) return;
@@ -295,7 +296,7 @@ function Unplaced({ findings, units, onPlace }: { findings: FindingDto[]; units:
         <View key={x.id} style={styles.unplacedRow}>
           {x.status !== 'voided' ? <FindingPinMark status={x.status} severity={x.severity} overdue={x.overdue} size={24} /> : null}
           <AppText style={styles.grow} numberOfLines={1}>
-            {`${x.label} ${x.code} · ${x.title}${x.unitTag ? ` · ${x.unitTag}` : ''}`}
+            {`${x.label} ${defectCodeWords(x.code)} · ${x.title}${x.unitTag ? ` · ${x.unitTag}` : ''}`}
           </AppText>
           <Button label="Place" tone="secondary" aria-label={`Place finding ${x.label} on the plan`} testID={`plan-place-finding-${x.number}`} onPress={() => onPlace('finding', x.id)} />
         </View>

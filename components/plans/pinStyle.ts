@@ -8,6 +8,7 @@
  * The finding's number is written inside every finding pin, so a pin can be named aloud.
  */
 import { FINDING_STATUS_LABELS, type FindingStatus, type Severity } from '../../shared/words';
+import { defectCodeWords } from '../../shared/rules/somethingElse';
 import { colors } from '../theme';
 
 export type PinShape = 'diamond' | 'square' | 'circle';
@@ -31,5 +32,5 @@ export const UNIT_PIN = { stroke: colors.spruce, fill: '#FFFFFF' } as const;
 /** The pin's spoken name: "Finding #12, DR-03, open, major, overdue". */
 export function findingPinLabel(f: { label: string; code: string; status: FindingStatus; severity: Severity; overdue: boolean }): string {
   const status = FINDING_STATUS_LABELS[f.status].toLowerCase();
-  return `Finding ${f.label}, ${f.code}, ${status}, ${f.severity}${f.overdue ? ', overdue' : ''}`;
+  return `Finding ${f.label}, ${defectCodeWords(f.code)}, ${status}, ${f.severity}${f.overdue ? ', overdue' : ''}`;
 }

@@ -19,3 +19,8 @@ export function normaliseDefectTitle(title: string): string {
 export function normalisedTitleSql(expr: string): string {
   return `lower(btrim(regexp_replace(${expr}, '\\s+', ' ', 'g')))`;
 }
+
+/** The code shown beside a finding's title: a Something else finding says so instead of its internal code. */
+export function defectCodeWords(code: string): string {
+  return code === OTHER_DEFECT_CODE ? OTHER_DEFECT_TITLE : code;
+}

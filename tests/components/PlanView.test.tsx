@@ -61,6 +61,8 @@ describe('pin scheme and legend', () => {
     expect(findingPinLabel({ label: '#12', code: 'DR-03', status: 'fix_submitted', severity: 'major', overdue: true })).toBe(
       'Finding #12, DR-03, fix submitted, major, overdue',
     );
+    // A defect the catalogue lacks is named in words, not by its internal code.
+    expect(findingPinLabel({ label: '#13', code: 'OTHER', status: 'open', severity: 'minor', overdue: false })).toBe('Finding #13, Something else, open, minor');
   });
 
   it('explains fills, shapes, the overdue halo and unit pins', () => {
