@@ -8,7 +8,9 @@
  * This module imports no screen, so any screen may import it without making an import loop.
  */
 import type { Href } from 'expo-router';
-import type { FindingStatus, Severity } from '../shared/words';
+import type { FindingStatus, Severity, UnitKindKey } from '../shared/words';
+import type { UnitWalkState } from '../shared/schemas/findings';
+import { DEFAULT_SCORECARD_SORT, type ScorecardSort } from './board/scorecardSort';
 
 const e = encodeURIComponent;
 
@@ -20,19 +22,86 @@ function query<T extends object>(params: T, order: readonly (keyof T)[]): string
   return parts.length ? `?${parts.join('&')}` : '';
 }
 
+/**
+ * The address values of a view, for links and for router.setParams: keys in the given order;
+ * empty values, and values equal to the view's default, left out (a plain link stays plain).
+ */
+function values<T extends object>(params: T, order: readonly (keyof T)[], defaults: Partial<T> = {}): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const k of order) {
+    const v = params[k];
+    if (v === undefined || v === null || v === '' || v === false || v === defaults[k]) continue;
+    out[String(k)] = String(v);
+  }
+  return out;
+}
+
+/** What the findings list shows when its address says nothing else (newest first). */
+export const DEFAULT_FINDING_SORT = '-number';
+
 /** The findings list's address filters (read back by components/findings/filterParams.ts). */
 export interface FindingLinkFilters {
   levelId?: string;
+  spaceId?: string;
   unitId?: string;
   companyId?: string;
   catalogueItemId?: string;
+  kind?: UnitKindKey | string;
   status?: FindingStatus | string;
   severity?: Severity | string;
-  overdue?: boolean;
+  /** true (or the list's own 'true'): only overdue findings. */
+  overdue?: boolean | 'true' | 'false';
   /** Words in the title, note, code or tag (a "Something else" defect is known by its title). */
   q?: string;
+  /** One of the list's sorts (FINDING_SORTS); newest first is the default and is left out. */
+  sort?: string;
 }
-const FINDING_FILTER_ORDER: readonly (keyof FindingLinkFilters)[] = ['levelId', 'unitId', 'companyId', 'catalogueItemId', 'status', 'severity', 'overdue', 'q'];
+const FINDING_FILTER_ORDER: readonly (keyof FindingLinkFilters)[] = [
+  'levelId',
+  'spaceId',
+  'unitId',
+  'companyId',
+  'catalogueItemId',
+  'kind',
+  'status',
+  'severity',
+  'overdue',
+  'q',
+  'sort',
+];
+
+/** The findings list's filters and sort as address values (links.findings and the list itself write the same). */
+export function findingParams(filters: FindingLinkFilters): Record<string, string> {
+  const overdue = filters.overdue === true || filters.overdue === 'true' ? true : undefined;
+  return values({ ...filters, overdue }, FINDING_FILTER_ORDER, { sort: DEFAULT_FINDING_SORT });
+}
+
+/** A level walk's unit filters in the address (read back by components/walk/walkParams.ts). */
+export interface WalkLinkFilters {
+  /** Part of a unit's tag. */
+  q?: string;
+  state?: UnitWalkState | string;
+  spaceId?: string;
+  systemId?: string;
+  kind?: UnitKindKey | string;
+}
+const WALK_FILTER_ORDER: readonly (keyof WalkLinkFilters)[] = ['q', 'state', 'spaceId', 'systemId', 'kind'];
+
+/** A level walk's filters as address values. */
+export function walkParams(filters: WalkLinkFilters): Record<string, string> {
+  return values(filters, WALK_FILTER_ORDER);
+}
+
+/** The scorecards' order as address values: `sort=name` (A→Z) or `sort=-open` (largest first); most overdue first is left out. */
+export function scorecardParams(sort: ScorecardSort): Record<string, string> {
+  const write = (s: ScorecardSort) => `${s.dir === 'desc' ? '-' : ''}${s.key}`;
+  return values({ sort: write(sort) }, ['sort'], { sort: write(DEFAULT_SCORECARD_SORT) });
+}
+
+/** `?a=1&b=2` from address values already in order. */
+function search(params: Record<string, string>): string {
+  return query(params, Object.keys(params));
+}
 
 /** What the new-finding screen may be opened with (read by app/(app)/jobs/[jobId]/findings/new.tsx). */
 export interface NewFindingParams {
@@ -74,8 +143,9 @@ export const links = {
 
   /** Pick a level to walk. */
   walk: (jobId: string): Href => href(`${job(jobId)}/walk`),
-  /** One level's walk; `saved` names the unit whose check was just saved. */
-  levelWalk: (jobId: string, levelId: string, saved?: string): Href => href(`${level(jobId, levelId)}/walk${query({ saved }, ['saved'])}`),
+  /** One level's walk; `saved` names the unit whose check was just saved; `filters` narrow its units. */
+  levelWalk: (jobId: string, levelId: string, saved?: string, filters: WalkLinkFilters = {}): Href =>
+    href(`${level(jobId, levelId)}/walk${search({ ...walkParams(filters), ...(saved ? { saved } : {}) })}`),
   /** One unit's check; `saved` names the unit whose check was just saved (Save and next unit). */
   unitCheck: (jobId: string, unitId: string, saved?: string): Href => href(`${job(jobId)}/units/${e(unitId)}/check${query({ saved }, ['saved'])}`),
   /** A level's plan, optionally opened to place a finding's or a unit's pin. */
@@ -83,7 +153,7 @@ export const links = {
     href(`${level(jobId, levelId)}/plan${place ? query({ place: place.kind, id: place.id }, ['place', 'id']) : ''}`),
 
   /** The findings list, already filtered. */
-  findings: (jobId: string, filters: FindingLinkFilters = {}): Href => href(`${job(jobId)}/findings${query(filters, FINDING_FILTER_ORDER)}`),
+  findings: (jobId: string, filters: FindingLinkFilters = {}): Href => href(`${job(jobId)}/findings${search(findingParams(filters))}`),
   newFinding: (jobId: string, params: NewFindingParams = {}): Href => href(`${job(jobId)}/findings/new${query(params, NEW_FINDING_ORDER)}`),
   finding: (jobId: string, findingId: string): Href => href(`${job(jobId)}/findings/${e(findingId)}`),
   reinspections: (jobId: string): Href => href(`${job(jobId)}/reinspections`),
@@ -93,5 +163,6 @@ export const links = {
   level: (jobId: string, levelId: string): Href => href(level(jobId, levelId)),
   /** Readiness of the job, or of one system. */
   readiness: (jobId: string, systemId?: string): Href => href(`${job(jobId)}/readiness${query({ systemId }, ['systemId'])}`),
-  scorecards: (jobId: string): Href => href(`${job(jobId)}/scorecards`),
+  /** Company scorecards, optionally in another order than most overdue first. */
+  scorecards: (jobId: string, sort: ScorecardSort = DEFAULT_SCORECARD_SORT): Href => href(`${job(jobId)}/scorecards${search(scorecardParams(sort))}`),
 } as const;

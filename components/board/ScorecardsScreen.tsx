@@ -1,5 +1,5 @@
 import { Link, type Href } from 'expo-router';
-import { useState, type ReactNode } from 'react';
+import type { ReactNode } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { CompanyScorecard } from '../../shared/schemas/board';
 import { TRADES } from '../../shared/words';
@@ -18,7 +18,7 @@ import { useWide } from '../ui/useWide';
 import { links } from '../links';
 import { percent } from './counts';
 import { BackLink, BoardTabs, maySeeScorecards } from './parts';
-import { DEFAULT_SCORECARD_SORT, nextSort, sortScorecards, type ScorecardKey, type ScorecardSort } from './scorecardSort';
+import { nextSort, sortScorecards, type ScorecardKey, type ScorecardSort } from './scorecardSort';
 
 /** The company's trades on the job as labels ("mechanical" → "Mechanical"). */
 function tradeLabel(c: Pick<CompanyScorecard, 'trade' | 'trades'>): string | null {
@@ -78,14 +78,16 @@ export const SCORECARD_MEANINGS: readonly { key: ScorecardKey; label: string; li
   { key: 'returns', label: 'Returns', line: 'fixes an inspector sent back while the finding was the company’s.' },
 ];
 
-/** Per company: open, overdue, fixes waiting, time to an accepted fix, first-pass acceptance and returns. */
-export function ScorecardsScreen({ jobId }: { jobId: string }) {
+/**
+ * Per company: open, overdue, fixes waiting, time to an accepted fix, first-pass acceptance and
+ * returns. The order comes from the route (it lives in the address: links.scorecards).
+ */
+export function ScorecardsScreen({ jobId, sort, onSortChange }: { jobId: string; sort: ScorecardSort; onSortChange: (next: ScorecardSort) => void }) {
   const wide = useWide();
   const job = useJobQuery(jobId);
   const role = job.data?.role;
   const allowed = role === undefined ? false : maySeeScorecards(role);
   const cards = useScorecardsQuery(jobId, allowed);
-  const [sort, setSort] = useState<ScorecardSort>(DEFAULT_SCORECARD_SORT);
   const forbidden = (job.data && !allowed) || (cards.error instanceof ApiError && cards.error.status === 403);
 
   return (
@@ -121,7 +123,7 @@ export function ScorecardsScreen({ jobId }: { jobId: string }) {
       ) : cards.data.companies.length === 0 ? (
         <EmptyState title="No companies yet" body="Companies appear here once findings are assigned to them." testID="scorecards-empty" />
       ) : wide ? (
-        <ScorecardsTable jobId={jobId} rows={sortScorecards(cards.data.companies, sort)} sort={sort} onSort={(k) => setSort((s) => nextSort(s, k))} />
+        <ScorecardsTable jobId={jobId} rows={sortScorecards(cards.data.companies, sort)} sort={sort} onSort={(k) => onSortChange(nextSort(sort, k))} />
       ) : (
         <ScorecardCards jobId={jobId} rows={sortScorecards(cards.data.companies, sort)} />
       )}

@@ -1,6 +1,7 @@
 import type { CompanyScorecard } from '../../shared/schemas/board';
 
-export type ScorecardKey = 'name' | 'open' | 'overdue' | 'fixesWaiting' | 'medianDaysToAccept' | 'firstPassRate' | 'returns';
+export const SCORECARD_KEYS = ['name', 'open', 'overdue', 'fixesWaiting', 'medianDaysToAccept', 'firstPassRate', 'returns'] as const;
+export type ScorecardKey = (typeof SCORECARD_KEYS)[number];
 export interface ScorecardSort {
   key: ScorecardKey;
   dir: 'asc' | 'desc';

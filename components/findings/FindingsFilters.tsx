@@ -62,9 +62,20 @@ export function FindingsFilters({
   const [more, setMore] = useState(false);
   const latest = useRef({ value, onChange });
   latest.current = { value, onChange };
+  // The search as last sent: a different one arriving in `value` (the address changed: Back, a
+  // link) replaces what is typed; our own coming back does not (typing goes on meanwhile).
+  const sent = useRef(value.q ?? '');
+  useEffect(() => {
+    if ((value.q ?? '') === sent.current) return;
+    sent.current = value.q ?? '';
+    setQ(value.q ?? '');
+  }, [value.q]);
   useEffect(() => {
     if ((latest.current.value.q ?? '') === q.trim()) return;
-    const t = setTimeout(() => latest.current.onChange({ ...latest.current.value, q: q.trim() || undefined }), FINDING_SEARCH_DELAY_MS);
+    const t = setTimeout(() => {
+      sent.current = q.trim();
+      latest.current.onChange({ ...latest.current.value, q: q.trim() || undefined });
+    }, FINDING_SEARCH_DELAY_MS);
     return () => clearTimeout(t);
   }, [q]);
   const statuses = split<FindingStatus>(value.status as string | undefined);

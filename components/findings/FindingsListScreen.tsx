@@ -22,16 +22,26 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { FindingCard } from './FindingCard';
 import { FindingsFilters } from './FindingsFilters';
 import { FindingsTable, type TableSelection } from './FindingsTable';
-import { links } from '../links';
+import { DEFAULT_FINDING_SORT, links } from '../links';
 
 /** The table takes over from cards at this width. */
 export const TABLE_BREAKPOINT = 1024;
 
-/** Findings of the job: cards on a phone, a sortable table on a wide screen; filtered, counted, paged by cursor. */
-export function FindingsListScreen({ jobId, initial }: { jobId: string; initial: FindingFilters }) {
+/**
+ * Findings of the job: cards on a phone, a sortable table on a wide screen; filtered, counted, paged
+ * by cursor. The filters and sort come from the route (they live in the address: links.findings).
+ */
+export function FindingsListScreen({
+  jobId,
+  filters,
+  onFiltersChange,
+}: {
+  jobId: string;
+  filters: FindingFilters;
+  onFiltersChange: (next: FindingFilters) => void;
+}) {
   const { width } = useWindowDimensions();
   const wide = width >= TABLE_BREAKPOINT;
-  const [filters, setFilters] = useState<FindingFilters>(initial);
   const job = useJobQuery(jobId);
   const findings = useFindingsQuery(jobId, filters);
   const levels = useLevelsQuery(jobId);
@@ -42,7 +52,7 @@ export function FindingsListScreen({ jobId, initial }: { jobId: string; initial:
   const first = findings.data?.pages[0];
   const rows = findings.data?.pages.flatMap((p) => p.items) ?? [];
   const filtered = Object.entries(filters).some(([k, v]) => k !== 'sort' && v !== undefined);
-  const sort: FindingSort = filters.sort ?? '-number';
+  const sort: FindingSort = filters.sort ?? DEFAULT_FINDING_SORT;
   const bulkAllowed = wide && mayBulkChange(job.data?.role);
   const [selected, setSelected] = useState<string[]>([]);
   // Only rows on screen stay selected (a filter change drops the others).
@@ -87,7 +97,7 @@ export function FindingsListScreen({ jobId, initial }: { jobId: string; initial:
       ) : null}
       <FindingsFilters
         value={filters}
-        onChange={setFilters}
+        onChange={onFiltersChange}
         counts={first?.counts}
         levels={levels.data ?? []}
         spaces={spaces.data ?? []}
@@ -124,7 +134,7 @@ export function FindingsListScreen({ jobId, initial }: { jobId: string; initial:
             />
           ) : null}
           {wide ? (
-            <FindingsTable jobId={jobId} rows={rows} sort={sort} onSort={(s) => setFilters((f) => ({ ...f, sort: s }))} selection={selection} />
+            <FindingsTable jobId={jobId} rows={rows} sort={sort} onSort={(s) => onFiltersChange({ ...filters, sort: s })} selection={selection} />
           ) : (
             rows.map((f) => <FindingCard key={f.id} jobId={jobId} finding={f} />)
           )}

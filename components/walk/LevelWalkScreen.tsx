@@ -3,7 +3,6 @@ import { links } from '../links';
 import { Link } from 'expo-router';
 import { LevelWaiting, UnitWaiting, useSavedCheckWords } from '../outbox/Waiting';
 import { LevelPlanLink } from '../plans/PlanPinLink';
-import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { Coverage, WalkUnitDto } from '../../shared/schemas/findings';
 import type { JobDetail } from '../../shared/schemas/setup';
@@ -30,7 +29,20 @@ import { WalkFilters } from './WalkFilters';
 
 
 /** One level's walk: coverage, the inspector's walk, and the units with their state at a glance. */
-export function LevelWalkScreen({ jobId, levelId, saved }: { jobId: string; levelId: string; saved?: string }) {
+export function LevelWalkScreen({
+  jobId,
+  levelId,
+  saved,
+  filters,
+  onFiltersChange,
+}: {
+  jobId: string;
+  levelId: string;
+  saved?: string;
+  /** The unit filters, from the route (they live in the address: links.levelWalk). */
+  filters: WalkUnitFilters;
+  onFiltersChange: (next: WalkUnitFilters) => void;
+}) {
   const job = useJobQuery(jobId);
   const levels = useLevelsQuery(jobId);
   const level = levels.data?.find((l) => l.id === levelId);
@@ -54,7 +66,7 @@ export function LevelWalkScreen({ jobId, levelId, saved }: { jobId: string; leve
       ) : job.data.role === 'subcontractor' ? (
         <InspectorsOnly jobId={jobId} />
       ) : (
-        <LevelWalkBody job={job.data} levelId={level.id} levelName={level.name} saved={saved} />
+        <LevelWalkBody job={job.data} levelId={level.id} levelName={level.name} saved={saved} filters={filters} onFiltersChange={onFiltersChange} />
       )}
     </Screen>
   );
@@ -76,8 +88,21 @@ export function InspectorsOnly({ jobId }: { jobId: string }) {
   );
 }
 
-function LevelWalkBody({ job, levelId, levelName, saved }: { job: JobDetail; levelId: string; levelName: string; saved?: string }) {
-  const [filters, setFilters] = useState<WalkUnitFilters>({});
+function LevelWalkBody({
+  job,
+  levelId,
+  levelName,
+  saved,
+  filters,
+  onFiltersChange,
+}: {
+  job: JobDetail;
+  levelId: string;
+  levelName: string;
+  saved?: string;
+  filters: WalkUnitFilters;
+  onFiltersChange: (next: WalkUnitFilters) => void;
+}) {
   const units = useWalkUnitsQuery(job.id, levelId, filters);
   const savedWords = useSavedCheckWords(job.id, saved);
   const spaces = useSpacesQuery(job.id, levelId);
@@ -105,7 +130,7 @@ function LevelWalkBody({ job, levelId, levelName, saved }: { job: JobDetail; lev
       <WalkBanner job={job} levelId={levelId} />
       <LevelWaiting jobId={job.id} unitTags={new Map(rows.map((u) => [u.id, u.tag]))} />
       <KeptLevelCard jobId={job.id} levelId={levelId} levelName={levelName} timeZone={job.timeZone} />
-      <WalkFilters value={filters} onChange={setFilters} spaces={spaces.data ?? []} systems={systems.data ?? []} />
+      <WalkFilters value={filters} onChange={onFiltersChange} spaces={spaces.data ?? []} systems={systems.data ?? []} />
       {units.isPending ? (
         <LoadingState label="Loading the units…" />
       ) : units.isError ? (

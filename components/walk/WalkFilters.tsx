@@ -31,9 +31,20 @@ export function WalkFilters({
   const [more, setMore] = useState(Boolean(value.spaceId || value.systemId || value.kind));
   const latest = useRef({ value, onChange });
   latest.current = { value, onChange };
+  // The search as last sent: a different one arriving in `value` (the address changed: Back, a
+  // link) replaces what is typed; our own coming back does not (typing goes on meanwhile).
+  const sent = useRef(value.q ?? '');
+  useEffect(() => {
+    if ((value.q ?? '') === sent.current) return;
+    sent.current = value.q ?? '';
+    setQ(value.q ?? '');
+  }, [value.q]);
   useEffect(() => {
     if ((latest.current.value.q ?? '') === q.trim()) return;
-    const t = setTimeout(() => latest.current.onChange({ ...latest.current.value, q: q.trim() || undefined }), TAG_SEARCH_DELAY_MS);
+    const t = setTimeout(() => {
+      sent.current = q.trim();
+      latest.current.onChange({ ...latest.current.value, q: q.trim() || undefined });
+    }, TAG_SEARCH_DELAY_MS);
     return () => clearTimeout(t);
   }, [q]);
   const extra = [value.spaceId, value.systemId, value.kind].filter(Boolean).length;

@@ -5,11 +5,12 @@
  * address), the trend chart's text summary, and the scorecards' sortable headers.
  */
 import { fireEvent, screen, within } from '@testing-library/react-native';
+import { useState } from 'react';
 import { BoardScreen } from '../../components/board/BoardScreen';
 import { LevelDetailScreen } from '../../components/board/LevelDetailScreen';
 import { ReadinessScreen } from '../../components/board/ReadinessScreen';
 import { ScorecardsScreen } from '../../components/board/ScorecardsScreen';
-import { nextSort, sortScorecards } from '../../components/board/scorecardSort';
+import { DEFAULT_SCORECARD_SORT, nextSort, sortScorecards, type ScorecardSort } from '../../components/board/scorecardSort';
 import { niceTicks, trendSummary } from '../../components/board/TrendChart';
 import { boardCellFilters } from '../../components/board/counts';
 import { links } from '../../components/links';
@@ -270,6 +271,12 @@ describe('the trend chart', () => {
   });
 });
 
+/** The scorecards with their order held here, as the route holds it in the address. */
+function Scorecards() {
+  const [sort, setSort] = useState<ScorecardSort>(DEFAULT_SCORECARD_SORT);
+  return <ScorecardsScreen jobId={JOB} sort={sort} onSortChange={setSort} />;
+}
+
 describe('company scorecards', () => {
   beforeEach(() => {
     mockWide = true;
@@ -279,7 +286,7 @@ describe('company scorecards', () => {
 
   it('sorts by a header and turns the order round on a second press (aria-sort follows)', async () => {
     fakeApi('gc_manager');
-    renderWithQueries(<ScorecardsScreen jobId={JOB} />);
+    renderWithQueries(<Scorecards />);
     await screen.findByTestId('scorecards-table');
     // Most overdue first by default.
     expect(nameText()).toEqual(['Amp Electric', 'Mech Co', 'Ceil Co']);
@@ -299,7 +306,7 @@ describe('company scorecards', () => {
 
   it('says in one line what each figure measures, one line per column', async () => {
     fakeApi('gc_manager');
-    renderWithQueries(<ScorecardsScreen jobId={JOB} />);
+    renderWithQueries(<Scorecards />);
     await screen.findByTestId('scorecards-table');
     const columns = screen.getAllByTestId(/^scorecards-col-/).map((c) => String(c.props.testID).replace('scorecards-col-', '')).filter((k) => k !== 'name');
     expect(screen.getAllByTestId(/^scorecards-meaning-/).map((m) => String(m.props.testID).replace('scorecards-meaning-', ''))).toEqual(columns);
@@ -316,7 +323,7 @@ describe('company scorecards', () => {
   it('shows cards on a phone', async () => {
     mockWide = false;
     fakeApi('inspector');
-    renderWithQueries(<ScorecardsScreen jobId={JOB} />);
+    renderWithQueries(<Scorecards />);
     await screen.findByTestId('scorecards-cards');
     expect(screen.queryByTestId('scorecards-table')).toBeNull();
     expect(within(screen.getByTestId('scorecards-card-0')).getByText('Amp Electric')).toBeTruthy();
@@ -324,7 +331,7 @@ describe('company scorecards', () => {
 
   it('does not ask for them as a subcontractor and says who sees them', async () => {
     const fetchSpy = fakeApi('subcontractor');
-    renderWithQueries(<ScorecardsScreen jobId={JOB} />);
+    renderWithQueries(<Scorecards />);
     expect(await screen.findByTestId('scorecards-forbidden')).toBeTruthy();
     expect(fetchSpy.mock.calls.map((c) => c[0])).not.toContain(`/api/jobs/${JOB}/scorecards`);
   });

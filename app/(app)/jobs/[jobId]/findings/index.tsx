@@ -1,10 +1,11 @@
 import { useLocalSearchParams } from 'expo-router';
 import { FindingsListScreen } from '../../../../../components/findings/FindingsListScreen';
-import { findingFiltersFromParams, filtersKey } from '../../../../../components/findings/filterParams';
+import { FINDINGS_VIEW } from '../../../../../components/findings/filterParams';
+import { useAddressView } from '../../../../../components/useAddressView';
 
-/** Filters may arrive in the address (from a level's walk: ?levelId=…; from the levels board: ?levelId&status&severity&overdue …). */
+/** The filters and sort live in the address (links from a level's walk, the levels board, readiness, a sent address); changing them rewrites it. */
 export default function FindingsRoute() {
-  const { jobId, ...params } = useLocalSearchParams<Record<string, string>>();
-  const initial = findingFiltersFromParams(params);
-  return <FindingsListScreen key={filtersKey(initial)} jobId={String(jobId ?? '')} initial={initial} />;
+  const { jobId } = useLocalSearchParams<{ jobId: string }>();
+  const [filters, setFilters] = useAddressView(FINDINGS_VIEW);
+  return <FindingsListScreen jobId={String(jobId ?? '')} filters={filters} onFiltersChange={setFilters} />;
 }
