@@ -20,6 +20,10 @@ export class Unit extends Model<InferAttributes<Unit>, InferCreationAttributes<U
   /** Pin on the level's plan: fractions of its width and height (0..1), both set or both null. */
   declare pinX: CreationOptional<number | null>;
   declare pinY: CreationOptional<number | null>;
+  /** Excluded from the ceiling rule by a GC manager (all three set, or all null): commands/ceilingExclusion.ts. */
+  declare ceilingExcludedReason: CreationOptional<string | null>;
+  declare ceilingExcludedBy: CreationOptional<string | null>;
+  declare ceilingExcludedAt: CreationOptional<Date | null>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -42,6 +46,9 @@ export class Unit extends Model<InferAttributes<Unit>, InferCreationAttributes<U
         systemId: { type: DataTypes.UUID, allowNull: true },
         pinX: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
         pinY: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
+        ceilingExcludedReason: { type: DataTypes.TEXT, allowNull: true, defaultValue: null },
+        ceilingExcludedBy: { type: DataTypes.UUID, allowNull: true, defaultValue: null },
+        ceilingExcludedAt: { type: DataTypes.DATE, allowNull: true, defaultValue: null },
         version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

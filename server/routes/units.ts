@@ -7,11 +7,14 @@
  * GET    /jobs/:jobId/units/:unitId                                         all roles
  * PATCH  /jobs/:jobId/units/:unitId                                         GC manager (If-Match); also pinX/pinY (plan pin)
  * DELETE /jobs/:jobId/units/:unitId                                         GC manager (If-Match)
+ * PUT    /jobs/:jobId/units/:unitId/ceiling-exclusion { reason }           GC manager (If-Match); excluded from the ceiling rule
+ * DELETE /jobs/:jobId/units/:unitId/ceiling-exclusion                      GC manager (If-Match); counted again
  * Reads and writes: server/services/units.ts; the import: services/unitImport.ts.
  */
 import express, { Router } from 'express';
 import type { z } from 'zod';
-import { createUnitSchema, unitListQuerySchema, unitParamsSchema, updateUnitSchema } from '../../shared/schemas/setup';
+import { ceilingExclusionSchema, createUnitSchema, unitListQuerySchema, unitParamsSchema, updateUnitSchema } from '../../shared/schemas/setup';
+import { excludeFromCeilingRule, liftCeilingExclusion, type CeilingExclusionContext } from '../commands/ceilingExclusion';
 import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
 import { presentUnit } from '../presenters/unit';
@@ -23,6 +26,11 @@ import { exportUnits } from '../services/unitExport';
 import { importRequestOf, importUnitsOrRefuse } from '../services/unitImport';
 import { changeUnit, createUnit, deleteUnit, listUnits, loadUnit, unitsForExport } from '../services/units';
 import { setEtag } from '../services/versioning';
+
+/** The context of the ceiling-exclusion commands from a GC manager's request. */
+function exclusionContext(req: express.Request, transaction: CeilingExclusionContext['transaction']): CeilingExclusionContext {
+  return { ...setupWrite(req, transaction), actor: { id: req.user!.id, name: req.user!.name }, clock: () => new Date() };
+}
 
 const IMPORT_BODY_LIMIT = '3mb';
 
@@ -38,6 +46,26 @@ export function unitImportBodyParsers(): Router {
     express.json({ limit: IMPORT_BODY_LIMIT, strict: true }),
     express.raw({ type: 'text/csv', limit: IMPORT_BODY_LIMIT }),
   );
+  router.put(
+    '/jobs/:jobId/units/:unitId/ceiling-exclusion',
+    policy.jobMember(['gc_manager']),
+    validate({ params: unitParamsSchema, body: ceilingExclusionSchema }),
+    async (req, res) => {
+      const { unitId } = valid<z.infer<typeof unitParamsSchema>>(req.valid.params);
+      const { reason } = valid<z.infer<typeof ceilingExclusionSchema>>(req.valid.body);
+      const result = await inTransaction(req, (transaction) => excludeFromCeilingRule(exclusionContext(req, transaction), unitId, reason));
+      setEtag(res, result.version);
+      res.json(result);
+    },
+  );
+
+  router.delete('/jobs/:jobId/units/:unitId/ceiling-exclusion', policy.jobMember(['gc_manager']), validate({ params: unitParamsSchema }), async (req, res) => {
+    const { unitId } = valid<z.infer<typeof unitParamsSchema>>(req.valid.params);
+    const result = await inTransaction(req, (transaction) => liftCeilingExclusion(exclusionContext(req, transaction), unitId));
+    setEtag(res, result.version);
+    res.json(result);
+  });
+
   return router;
 }
 

@@ -54,14 +54,24 @@ export interface BoardLevelRow extends BoardCounts {
   ceilingReady: boolean;
   /** How many unresolved findings block closing the ceiling. */
   ceilingBlockers: number;
-  /** Units on the level in or above the ceiling, and those of them without a complete unit check. */
+  /** Units on the level in or above the ceiling, and those of them without a complete unit check (not counting excluded ones). */
   ceilingUnits: number;
   ceilingUnitsUnchecked: number;
+  /** Units in or above the ceiling without a complete unit check that a GC manager excluded from the rule. */
+  ceilingUnitsExcluded: number;
+  /**
+   * Days the oldest fix on the level has waited for the inspector (from the day its latest fix was
+   * submitted to today, on the job's clock: shared/rules/waiting.ts); null when none waits.
+   * `fixSubmitted` is how many wait.
+   */
+  longestWaitDays: number | null;
 }
 
 export interface BoardResponse {
   levels: BoardLevelRow[];
   totals: BoardCounts;
+  /** The longest wait for the inspector in the job (in the caller's scope), as on the rows; null when none waits. */
+  longestWaitDays: number | null;
   /** Today in the job's time zone (YYYY-MM-DD): the date "overdue" was judged on. */
   today: string;
   /** Set (to the caller's company) when the counts cover only that company's findings: a subcontractor. */
@@ -127,17 +137,31 @@ export interface LevelReadiness {
   ceilingState: CeilingState;
   /** ceilingState === 'ready'. */
   ceilingReady: boolean;
-  /** Units on the level in or above the ceiling, and those of them without a complete unit check. */
+  /** Units on the level in or above the ceiling, and those of them without a complete unit check (not counting excluded ones). */
   ceilingUnits: number;
   ceilingUnitsUnchecked: number;
-  /** The unchecked ones by tag (at most READINESS_LEVEL_BLOCKERS_MAX). */
-  uncheckedCeilingUnits: { unitId: string; tag: string }[];
+  /** The unchecked ones by tag (at most READINESS_LEVEL_BLOCKERS_MAX), with the unit's version for If-Match. */
+  uncheckedCeilingUnits: { unitId: string; tag: string; version: number }[];
+  /** Units without a complete unit check that a GC manager excluded from the rule, and the first of them by tag (at most READINESS_LEVEL_BLOCKERS_MAX). */
+  ceilingUnitsExcluded: number;
+  excludedCeilingUnits: ExcludedCeilingUnit[];
   /** Unresolved findings whose defect type needs access above the ceiling (by number; at most READINESS_LEVEL_BLOCKERS_MAX). */
   blockers: ReadinessBlocker[];
   /** How many there are in all: present only when `blockers` was cut to READINESS_LEVEL_BLOCKERS_MAX. */
   blockersTotal?: number;
   unitsTotal: number;
   unitsReady: number;
+}
+
+/** A unit excluded from the ceiling rule: why, by whom and when (PUT /units/:unitId/ceiling-exclusion). */
+export interface ExcludedCeilingUnit {
+  unitId: string;
+  tag: string;
+  version: number;
+  reason: string;
+  by: { id: string; name: string };
+  /** ISO date-time. */
+  at: string;
 }
 
 /** Readiness lists at most this many blockers per unit / per level (the first by number); `blockersTotal` then gives the full count. */
@@ -173,6 +197,8 @@ export interface CompanyScorecard {
   overdue: number;
   /** Fix submitted, waiting for re-inspection. */
   fixesWaiting: number;
+  /** Days the company's oldest waiting fix has waited for the inspector (job's clock); null when none waits. */
+  longestWaitDays: number | null;
   /** Findings closed by an accepted fix. */
   accepted: number;
   /** Of those, accepted on their first re-inspection (never returned). */

@@ -24,3 +24,4 @@ export * from './setup/units';
 export * from './setup/companies';
 export * from './setup/members';
 export * from './setup/catalogue';
+export * from './setup/ceilingExclusions';

@@ -124,3 +124,34 @@ export async function loadTallies(
   );
   return rows.map((r) => ({ ...r, n: Number(r.n) }));
 }
+
+/** Fixes waiting for re-inspection per level and company: how many, and when the oldest was submitted. */
+export interface WaitingFixes {
+  levelId: string;
+  companyId: string;
+  count: number;
+  /** The earliest of their latest fixes' submission times. */
+  oldestSubmittedAt: Date;
+}
+
+/**
+ * The job's findings waiting for re-inspection, grouped by level and company, with the oldest
+ * wait (the latest fix of each, since a returned finding waits again from its new fix). Not cached:
+ * the days are counted from it on the job's clock at each request (shared/rules/waiting.ts), and
+ * it reads only fix-submitted findings and one index probe each into fixes.
+ */
+export async function loadWaitingFixes(sequelize: Sequelize, jobId: string): Promise<WaitingFixes[]> {
+  const rows = await select<{ level_id: string; company_id: string; n: string; oldest: Date }>(
+    sequelize,
+    `SELECT f.level_id, f.company_id, count(*) AS n, min(lf.submitted_at) AS oldest
+       FROM findings f
+       -- The latest fix_submitted event (finding_events_finding_at, read backwards): the history is
+       -- the record of when the fix was submitted, for every way a finding reached this status.
+       JOIN LATERAL (SELECT e.at AS submitted_at FROM finding_events e
+                      WHERE e.finding_id = f.id AND e.kind = 'fix_submitted' ORDER BY e.at DESC LIMIT 1) lf ON true
+      WHERE f.job_id = $1 AND f.status = 'fix_submitted'
+      GROUP BY f.level_id, f.company_id`,
+    [jobId],
+  );
+  return rows.map((r) => ({ levelId: r.level_id, companyId: r.company_id, count: num(r.n), oldestSubmittedAt: new Date(r.oldest) }));
+}

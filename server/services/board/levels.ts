@@ -6,9 +6,10 @@ import type { Sequelize } from 'sequelize';
 import type { BoardCounts, BoardLevelRow, BoardResponse } from '../../../shared/schemas/board';
 import { CEILING_UNIT_KINDS, ceilingState, type CeilingFacts } from '../../../shared/rules/ceilings';
 import { todayIn } from '../../../shared/rules/dates';
+import { daysWaiting } from '../../../shared/rules/waiting';
 import { cachedStat, readStatVersions, type StatVersions } from '../statCache';
 import type { FindingScope } from '../findingQueries';
-import { latestCheckJoin, loadTallies, loadUnresolvedFigures, num, select } from './common';
+import { latestCheckJoin, loadTallies, loadUnresolvedFigures, loadWaitingFixes, num, select } from './common';
 
 /** The ceiling verdict of a level: its state, and "ready" as a flag for the screens that only need that. */
 export function ceilingOf(facts: CeilingFacts) {
@@ -24,14 +25,15 @@ interface CoverageRow {
   position: number;
   units_total: number;
   units_checked: number;
-  /** Units in or above the ceiling (shared/rules/ceilings.ts), and those of them not checked. */
+  /** Units in or above the ceiling (shared/rules/ceilings.ts), those of them not checked (nor excluded), and those excluded instead. */
   ceiling_units: number;
   ceiling_unchecked: number;
+  ceiling_excluded: number;
 }
 
 /** The job's levels in building order with their units and checked units (cached on topic structure). */
 async function loadCoverage(sequelize: Sequelize, jobId: string, versions?: StatVersions): Promise<CoverageRow[]> {
-  return cachedStat(sequelize, jobId, ['structure'], 'coverage-with-ceiling-units', async () => {
+  return cachedStat(sequelize, jobId, ['structure'], 'coverage-with-ceiling-exclusions', async () => {
     const rows = await select<{
       level_id: string;
       name: string;
@@ -40,18 +42,20 @@ async function loadCoverage(sequelize: Sequelize, jobId: string, versions?: Stat
       units_checked: string | null;
       ceiling_units: string | null;
       ceiling_unchecked: string | null;
+      ceiling_excluded: string | null;
     }>(
       sequelize,
       `WITH uc AS (
         SELECT u.level_id, count(*) AS units_total, count(*) FILTER (WHERE lc.complete) AS units_checked,
                count(*) FILTER (WHERE u.kind = ANY ($2::text[])) AS ceiling_units,
-               count(*) FILTER (WHERE u.kind = ANY ($2::text[]) AND NOT coalesce(lc.complete, false)) AS ceiling_unchecked
+               count(*) FILTER (WHERE u.kind = ANY ($2::text[]) AND NOT coalesce(lc.complete, false) AND u.ceiling_excluded_reason IS NULL) AS ceiling_unchecked,
+               count(*) FILTER (WHERE u.kind = ANY ($2::text[]) AND NOT coalesce(lc.complete, false) AND u.ceiling_excluded_reason IS NOT NULL) AS ceiling_excluded
           FROM units u
           ${latestCheckJoin('u')}
          WHERE u.job_id = $1
          GROUP BY u.level_id
       )
-      SELECT lv.id AS level_id, lv.name, lv.position, uc.units_total, uc.units_checked, uc.ceiling_units, uc.ceiling_unchecked
+      SELECT lv.id AS level_id, lv.name, lv.position, uc.units_total, uc.units_checked, uc.ceiling_units, uc.ceiling_unchecked, uc.ceiling_excluded
         FROM levels lv LEFT JOIN uc ON uc.level_id = lv.id
        WHERE lv.job_id = $1
        ORDER BY lv.position, lv.id`,
@@ -65,6 +69,7 @@ async function loadCoverage(sequelize: Sequelize, jobId: string, versions?: Stat
       units_checked: num(r.units_checked),
       ceiling_units: num(r.ceiling_units),
       ceiling_unchecked: num(r.ceiling_unchecked),
+      ceiling_excluded: num(r.ceiling_excluded),
     }));
   }, versions);
 }
@@ -77,13 +82,25 @@ async function loadCoverage(sequelize: Sequelize, jobId: string, versions?: Stat
  * against counts made from the findings themselves.
  */
 export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Promise<BoardResponse> {
-  const today = todayIn(scope.timeZone);
+  const now = new Date();
+  const today = todayIn(scope.timeZone, now);
   const versions = await readStatVersions(sequelize, scope.jobId);
-  const [coverage, tallies, unresolved] = await Promise.all([
+  const [coverage, tallies, unresolved, waiting] = await Promise.all([
     loadCoverage(sequelize, scope.jobId, versions),
     loadTallies(sequelize, scope.jobId, scope.companyId),
     loadUnresolvedFigures(sequelize, scope.jobId, today, versions),
+    loadWaitingFixes(sequelize, scope.jobId),
   ]);
+  // The oldest fix waiting for the inspector per level (in the caller's scope), and in the job.
+  const oldestByLevel = new Map<string, Date>();
+  let oldest: Date | null = null;
+  for (const w of waiting) {
+    if (scope.companyId && w.companyId !== scope.companyId) continue;
+    const prev = oldestByLevel.get(w.levelId);
+    if (!prev || w.oldestSubmittedAt < prev) oldestByLevel.set(w.levelId, w.oldestSubmittedAt);
+    if (!oldest || w.oldestSubmittedAt < oldest) oldest = w.oldestSubmittedAt;
+  }
+  const waitedDays = (since: Date | null | undefined) => (since ? daysWaiting(since, scope.timeZone, now) : null);
   const zero = () => ({ open: 0, open_critical: 0, open_major: 0, fix_submitted: 0, closed: 0, overdue: 0, ceiling_blockers: 0 });
   const perLevel = new Map<string, ReturnType<typeof zero>>();
   const at = (levelId: string) => {
@@ -122,9 +139,11 @@ export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Prom
     ceilingBlockers: num(r.ceiling_blockers),
     ceilingUnits: r.ceiling_units,
     ceilingUnitsUnchecked: r.ceiling_unchecked,
+    ceilingUnitsExcluded: r.ceiling_excluded,
+    longestWaitDays: waitedDays(oldestByLevel.get(r.level_id)),
     ...ceilingOf({ ceilingUnits: r.ceiling_units, ceilingUnitsUnchecked: r.ceiling_unchecked, blockers: num(r.ceiling_blockers) }),
   }));
   const totals = Object.fromEntries(COUNT_KEYS.map((k) => [k, 0])) as unknown as BoardCounts;
   for (const l of levels) for (const k of COUNT_KEYS) totals[k] += l[k];
-  return { levels, totals, today, companyScope: scope.companyId };
+  return { levels, totals, longestWaitDays: waitedDays(oldest), today, companyScope: scope.companyId };
 }

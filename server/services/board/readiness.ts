@@ -3,6 +3,7 @@
  */
 import type { Sequelize } from 'sequelize';
 import {
+  type ExcludedCeilingUnit,
   type LevelReadiness,
   type ReadinessBlocker,
   type ReadinessQuery,
@@ -48,7 +49,9 @@ interface LevelRow {
   units_ready: string;
   ceiling_units: string;
   ceiling_unchecked: string;
-  unchecked_units: { unitId: string; tag: string }[];
+  ceiling_excluded: string;
+  unchecked_units: { unitId: string; tag: string; version: number }[];
+  excluded_units: ExcludedCeilingUnit[];
   blockers: ReadinessBlocker[];
   blockers_total: string | null;
 }
@@ -86,7 +89,8 @@ export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, q
       SELECT u.id AS unit_id, u.tag, u.kind, u.level_id, u.system_id,
              coalesce(lc.complete, false) AS checked,
              (ub.unit_id IS NOT NULL) AS blocked,
-             (coalesce(lc.complete, false) AND ub.unit_id IS NULL) AS ready
+             (coalesce(lc.complete, false) AND ub.unit_id IS NULL) AS ready,
+             u.version, u.ceiling_excluded_reason, u.ceiling_excluded_by, u.ceiling_excluded_at
         FROM units u
         ${latestCheckJoin('u')}
         LEFT JOIN unit_blockers ub ON ub.unit_id = u.id
@@ -135,10 +139,17 @@ export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, q
   const levelsSql = `WITH ${unitState}, level_units AS (
       SELECT us.level_id, count(*) AS units_total, count(*) FILTER (WHERE us.ready) AS units_ready,
              count(*) FILTER (WHERE us.kind = ANY (${ceilingKinds})) AS ceiling_units,
-             count(*) FILTER (WHERE us.kind = ANY (${ceilingKinds}) AND NOT us.checked) AS ceiling_unchecked,
-             (array_agg(json_build_object('unitId', us.unit_id, 'tag', us.tag) ORDER BY us.tag, us.unit_id)
-                FILTER (WHERE us.kind = ANY (${ceilingKinds}) AND NOT us.checked))[1:${READINESS_LEVEL_BLOCKERS_MAX}] AS unchecked_units
+             count(*) FILTER (WHERE us.kind = ANY (${ceilingKinds}) AND NOT us.checked AND us.ceiling_excluded_reason IS NULL) AS ceiling_unchecked,
+             count(*) FILTER (WHERE us.kind = ANY (${ceilingKinds}) AND NOT us.checked AND us.ceiling_excluded_reason IS NOT NULL) AS ceiling_excluded,
+             (array_agg(json_build_object('unitId', us.unit_id, 'tag', us.tag, 'version', us.version) ORDER BY us.tag, us.unit_id)
+                FILTER (WHERE us.kind = ANY (${ceilingKinds}) AND NOT us.checked AND us.ceiling_excluded_reason IS NULL))[1:${READINESS_LEVEL_BLOCKERS_MAX}] AS unchecked_units,
+             (array_agg(json_build_object('unitId', us.unit_id, 'tag', us.tag, 'version', us.version, 'reason', us.ceiling_excluded_reason,
+                                          'by', json_build_object('id', ex.id, 'name', ex.name),
+                                          'at', to_char(us.ceiling_excluded_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"'))
+                        ORDER BY us.tag, us.unit_id)
+                FILTER (WHERE us.kind = ANY (${ceilingKinds}) AND NOT us.checked AND us.ceiling_excluded_reason IS NOT NULL))[1:${READINESS_LEVEL_BLOCKERS_MAX}] AS excluded_units
         FROM unit_state us
+        LEFT JOIN users ex ON ex.id = us.ceiling_excluded_by
        GROUP BY us.level_id
     ), ceiling_items AS (
       SELECT ci.id FROM catalogue_items ci WHERE ci.job_id = $1 AND ci.needs_ceiling_access
@@ -153,7 +164,9 @@ export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, q
     SELECT lv.id AS level_id, lv.name, lv.position,
            coalesce(lu.units_total, 0) AS units_total, coalesce(lu.units_ready, 0) AS units_ready,
            coalesce(lu.ceiling_units, 0) AS ceiling_units, coalesce(lu.ceiling_unchecked, 0) AS ceiling_unchecked,
+           coalesce(lu.ceiling_excluded, 0) AS ceiling_excluded,
            coalesce(array_to_json(lu.unchecked_units), '[]'::json) AS unchecked_units,
+           coalesce(array_to_json(lu.excluded_units), '[]'::json) AS excluded_units,
            coalesce(cb.blockers, '[]'::json) AS blockers, cc.total AS blockers_total
       FROM levels lv
       LEFT JOIN level_units lu ON lu.level_id = lv.id
@@ -213,6 +226,8 @@ export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, q
     ceilingUnits: num(l.ceiling_units),
     ceilingUnitsUnchecked: num(l.ceiling_unchecked),
     uncheckedCeilingUnits: l.unchecked_units,
+    ceilingUnitsExcluded: num(l.ceiling_excluded),
+    excludedCeilingUnits: l.excluded_units,
     blockers: l.blockers,
     ...(num(l.blockers_total) > l.blockers.length ? { blockersTotal: num(l.blockers_total) } : {}),
     unitsTotal: num(l.units_total),

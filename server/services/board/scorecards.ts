@@ -5,9 +5,10 @@
 import type { Sequelize } from 'sequelize';
 import type { CompanyScorecard, ScorecardsResponse } from '../../../shared/schemas/board';
 import { todayIn } from '../../../shared/rules/dates';
+import { daysWaiting } from '../../../shared/rules/waiting';
 import { cachedStat, readStatVersions } from '../statCache';
 import type { FindingScope } from '../findingQueries';
-import { Bind, companyCond, loadTallies, loadUnresolvedFigures, num, selectTuned } from './common';
+import { Bind, companyCond, loadTallies, loadUnresolvedFigures, loadWaitingFixes, num, selectTuned } from './common';
 
 interface ScorecardRow {
   company_id: string;
@@ -32,13 +33,21 @@ interface ScorecardRow {
  * Voided findings are left out.
  */
 export async function loadScorecards(sequelize: Sequelize, scope: FindingScope): Promise<ScorecardsResponse> {
-  const today = todayIn(scope.timeZone);
+  const clock = new Date();
+  const today = todayIn(scope.timeZone, clock);
   const versions = await readStatVersions(sequelize, scope.jobId);
-  const [hist, tallies, unresolved] = await Promise.all([
+  const [hist, tallies, unresolved, waiting] = await Promise.all([
     cachedStat(sequelize, scope.jobId, ['structure', 'shape', 'history'], `scorecards|${scope.companyId ?? '*'}`, () => loadScorecardHistory(sequelize, scope), versions),
     loadTallies(sequelize, scope.jobId, scope.companyId),
     loadUnresolvedFigures(sequelize, scope.jobId, today, versions),
+    loadWaitingFixes(sequelize, scope.jobId),
   ]);
+  // The oldest fix of each company still waiting for the inspector.
+  const oldestByCompany = new Map<string, Date>();
+  for (const w of waiting) {
+    const prev = oldestByCompany.get(w.companyId);
+    if (!prev || w.oldestSubmittedAt < prev) oldestByCompany.set(w.companyId, w.oldestSubmittedAt);
+  }
   const live = new Map<string, { open: number; overdue: number; fixesWaiting: number }>();
   const at = (companyId: string) => {
     let c = live.get(companyId);
@@ -62,6 +71,7 @@ export async function loadScorecards(sequelize: Sequelize, scope: FindingScope):
       open: now?.open ?? 0,
       overdue: now?.overdue ?? 0,
       fixesWaiting: now?.fixesWaiting ?? 0,
+      longestWaitDays: oldestByCompany.has(r.company_id) ? daysWaiting(oldestByCompany.get(r.company_id)!, scope.timeZone, clock) : null,
       accepted,
       acceptedFirstPass: firstPass,
       firstPassRate: accepted === 0 ? null : firstPass / accepted,

@@ -98,7 +98,17 @@ interface Rows {
     title: string | null;
   }[];
   levels: { id: string; name: string; position: number }[];
-  units: { id: string; tag: string; kind: string; level_id: string; system_id: string | null }[];
+  units: {
+    id: string;
+    tag: string;
+    kind: string;
+    level_id: string;
+    system_id: string | null;
+    version: number;
+    ceiling_excluded_reason: string | null;
+    ceiling_excluded_at: Date | null;
+    excluded_by: { id: string; name: string } | null;
+  }[];
   systems: { id: string; name: string }[];
   checks: { id: string; unit_id: string; checked_at: Date; complete: boolean }[];
   items: { id: string; code: string; title: string; unit_kinds: string[]; needs_ceiling_access: boolean }[];
@@ -117,7 +127,11 @@ async function readRows(jobId: string): Promise<Rows> {
          FROM findings WHERE job_id = $1`,
     ),
     levels: await q(`SELECT id, name, position FROM levels WHERE job_id = $1`),
-    units: await q(`SELECT id, tag, kind, level_id, system_id FROM units WHERE job_id = $1`),
+    units: await q(
+      `SELECT u.id, u.tag, u.kind, u.level_id, u.system_id, u.version, u.ceiling_excluded_reason, u.ceiling_excluded_at,
+              CASE WHEN x.id IS NULL THEN NULL ELSE json_build_object('id', x.id, 'name', x.name) END AS excluded_by
+         FROM units u LEFT JOIN users x ON x.id = u.ceiling_excluded_by WHERE u.job_id = $1`,
+    ),
     systems: await q(`SELECT id, name FROM systems WHERE job_id = $1`),
     checks: await q(`SELECT id, unit_id, checked_at, complete FROM unit_checks WHERE job_id = $1`),
     items: await q(`SELECT id, code, title, unit_kinds, needs_ceiling_access FROM catalogue_items WHERE job_id = $1`),
@@ -138,6 +152,22 @@ function checkedUnitIds(rows: Rows): Set<string> {
 }
 
 const unresolved = (s: FindingStatus) => s === 'open' || s === 'fix_submitted';
+
+/**
+ * The longest wait for the inspector among `findings` (those waiting for re-inspection): calendar
+ * days on the job's clock from the day of each one's latest fix_submitted event to today; null when none waits.
+ */
+function longestWait(rows: Rows, findings: Rows['findings']): number | null {
+  const today = dateIn(rows.timeZone, new Date());
+  let longest: number | null = null;
+  for (const f of findings.filter((x) => x.status === 'fix_submitted')) {
+    const latest = Math.max(...rows.events.filter((e) => e.finding_id === f.id && e.kind === 'fix_submitted').map((e) => e.at.getTime()));
+    const since = dateIn(rows.timeZone, new Date(latest));
+    const days = Math.round((Date.parse(`${today}T00:00:00Z`) - Date.parse(`${since}T00:00:00Z`)) / DAY);
+    longest = Math.max(longest ?? 0, days);
+  }
+  return longest;
+}
 function visible(rows: Rows, companyId: string | null) {
   return rows.findings.filter((f) => f.status !== 'voided' && (!companyId || f.company_id === companyId));
 }
@@ -180,7 +210,9 @@ function expectedBoard(rows: Rows, companyId: string | null): BoardResponse {
       const mine = fs.filter((f) => f.level_id === l.id);
       const blockers = mine.filter((f) => unresolved(f.status) && ceilingItems.has(f.catalogue_item_id)).length;
       const ceilingUnits = rows.units.filter((u) => u.level_id === l.id && IN_OR_ABOVE_CEILING.test(u.kind));
-      const unchecked = ceilingUnits.filter((u) => !checked.has(u.id)).length;
+      // A unit a GC manager excluded from the rule (with a reason) does not count as unchecked.
+      const unchecked = ceilingUnits.filter((u) => !checked.has(u.id) && u.ceiling_excluded_reason === null).length;
+      const excluded = ceilingUnits.filter((u) => !checked.has(u.id) && u.ceiling_excluded_reason !== null).length;
       return {
         levelId: l.id,
         name: l.name,
@@ -189,10 +221,12 @@ function expectedBoard(rows: Rows, companyId: string | null): BoardResponse {
         ceilingBlockers: blockers,
         ceilingUnits: ceilingUnits.length,
         ceilingUnitsUnchecked: unchecked,
+        ceilingUnitsExcluded: excluded,
+        longestWaitDays: longestWait(rows, mine),
         ...ceilingVerdict(ceilingUnits.length, unchecked, blockers),
       };
     });
-  return { levels, totals: counts(fs, rows.units), today, companyScope: companyId };
+  return { levels, totals: counts(fs, rows.units), longestWaitDays: longestWait(rows, fs), today, companyScope: companyId };
 }
 
 function expectedReadiness(rows: Rows, companyId: string | null): ReadinessResponse {
@@ -244,7 +278,10 @@ function expectedReadiness(rows: Rows, companyId: string | null): ReadinessRespo
       const blockers = fs.filter((f) => f.level_id === l.id && items.get(f.catalogue_item_id)!.needs_ceiling_access).map(blocker);
       const mine = all.filter((u) => u.levelId === l.id);
       const ceilingUnits = mine.filter((u) => IN_OR_ABOVE_CEILING.test(u.kind));
-      const unchecked = ceilingUnits.filter((u) => !u.checked).sort((a, b) => (a.tag < b.tag ? -1 : a.tag > b.tag ? 1 : a.unitId < b.unitId ? -1 : 1));
+      const byTag = (a: { tag: string; unitId: string }, b: { tag: string; unitId: string }) => (a.tag < b.tag ? -1 : a.tag > b.tag ? 1 : a.unitId < b.unitId ? -1 : 1);
+      const row = (u: { unitId: string }) => units.get(u.unitId)!;
+      const unchecked = ceilingUnits.filter((u) => !u.checked && row(u).ceiling_excluded_reason === null).sort(byTag);
+      const excluded = ceilingUnits.filter((u) => !u.checked && row(u).ceiling_excluded_reason !== null).sort(byTag);
       return {
         levelId: l.id,
         name: l.name,
@@ -252,7 +289,16 @@ function expectedReadiness(rows: Rows, companyId: string | null): ReadinessRespo
         ...ceilingVerdict(ceilingUnits.length, unchecked.length, blockers.length),
         ceilingUnits: ceilingUnits.length,
         ceilingUnitsUnchecked: unchecked.length,
-        uncheckedCeilingUnits: unchecked.slice(0, READINESS_LEVEL_BLOCKERS_MAX).map((u) => ({ unitId: u.unitId, tag: u.tag })),
+        uncheckedCeilingUnits: unchecked.slice(0, READINESS_LEVEL_BLOCKERS_MAX).map((u) => ({ unitId: u.unitId, tag: u.tag, version: row(u).version })),
+        ceilingUnitsExcluded: excluded.length,
+        excludedCeilingUnits: excluded.slice(0, READINESS_LEVEL_BLOCKERS_MAX).map((u) => ({
+          unitId: u.unitId,
+          tag: u.tag,
+          version: row(u).version,
+          reason: row(u).ceiling_excluded_reason!,
+          by: row(u).excluded_by!,
+          at: row(u).ceiling_excluded_at!.toISOString(),
+        })),
         blockers,
         unitsTotal: mine.length,
         unitsReady: mine.filter((u) => u.ready).length,
@@ -297,6 +343,7 @@ function expectedDemoScorecards(rows: Rows): ScorecardsResponse {
       open: mine.filter((f) => f.status === 'open').length,
       overdue: mine.filter((f) => f.status === 'open' && f.due_on < today).length,
       fixesWaiting: mine.filter((f) => f.status === 'fix_submitted').length,
+      longestWaitDays: longestWait(rows, mine),
       accepted: days.length,
       acceptedFirstPass: firstPass,
       firstPassRate: days.length === 0 ? null : firstPass / days.length,
@@ -652,10 +699,10 @@ describe('a small hand-built job', () => {
       // F1, F2, F3 closed; F4 voided (never counted). U1, U5, U6 checked; U2's latest check is incomplete.
       // Its four cassettes sit in the ceiling and U2's latest check is incomplete: the ceilings cannot
       // close yet, although no finding blocks them.
-      { levelId: L1.id, name: 'First', position: 1, ...zero, closed: 3, unitsTotal: 4, unitsChecked: 3, ceilingBlockers: 0, ceilingUnits: 4, ceilingUnitsUnchecked: 1, ceilingState: 'blocked', ceilingReady: false },
+      { levelId: L1.id, name: 'First', position: 1, ...zero, closed: 3, unitsTotal: 4, unitsChecked: 3, ceilingBlockers: 0, ceilingUnits: 4, ceilingUnitsUnchecked: 1, ceilingUnitsExcluded: 0, longestWaitDays: null, ceilingState: 'blocked', ceilingReady: false },
       // F5 closed, F6 open critical and overdue, F7 fix submitted (past due, waiting for the inspector:
       // not overdue) and needs ceiling access.
-      { levelId: L2.id, name: 'Second', position: 2, ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 1, overdue: 1, unitsTotal: 2, unitsChecked: 2, ceilingBlockers: 1, ceilingUnits: 1, ceilingUnitsUnchecked: 0, ceilingState: 'blocked', ceilingReady: false },
+      { levelId: L2.id, name: 'Second', position: 2, ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 1, overdue: 1, unitsTotal: 2, unitsChecked: 2, ceilingBlockers: 1, ceilingUnits: 1, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 0, longestWaitDays: 6, ceilingState: 'blocked', ceilingReady: false },
     ]);
     expect(res.body.totals).toEqual({ ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 4, overdue: 1, unitsTotal: 6, unitsChecked: 5 });
     expect(res.body.companyScope).toBeNull();
@@ -680,14 +727,15 @@ describe('a small hand-built job', () => {
     // no return since A took it. F4 (voided) does not count. F6 open and overdue.
     expect(byId.get(A)).toEqual({
       companyId: A, name: expect.any(String), trade: 'mechanical', trades: ['mechanical'],
-      open: 1, overdue: 1, fixesWaiting: 0, accepted: 3, acceptedFirstPass: 2, firstPassRate: 2 / 3, medianDaysToAccept: 5, returns: 1,
+      open: 1, overdue: 1, fixesWaiting: 0, longestWaitDays: null, accepted: 3, acceptedFirstPass: 2, firstPassRate: 2 / 3, medianDaysToAccept: 5, returns: 1,
     });
     // B: F5 logged day 0 at 16:00, accepted day 2 at 12:00 (1 5/6 days), reopened day 4 and accepted
     // again day 7 (3 days): median (1.833 + 3) / 2 = 2.417 → 2.4 (one decimal). F3's return on day 2
     // was B's (before the reassignment). F7 waits for re-inspection.
     expect(byId.get(B)).toEqual({
       companyId: B, name: expect.any(String), trade: 'electrical', trades: ['electrical', 'controls'],
-      open: 0, overdue: 0, fixesWaiting: 1, accepted: 2, acceptedFirstPass: 2, firstPassRate: 1, medianDaysToAccept: 2.4, returns: 1,
+      // F7's fix was submitted on day 9 of 15: it has waited 6 days for the inspector.
+      open: 0, overdue: 0, fixesWaiting: 1, longestWaitDays: 6, accepted: 2, acceptedFirstPass: 2, firstPassRate: 1, medianDaysToAccept: 2.4, returns: 1,
     });
     expect(byId.get(crew.gcCompany.id)).toMatchObject({ open: 0, accepted: 0, firstPassRate: null, medianDaysToAccept: null, returns: 0 });
     expect((await subA.get(jobPath(crew.job.id, '/scorecards'))).status).toBe(403);
@@ -718,11 +766,11 @@ describe('a small hand-built job', () => {
     expect(body.levels).toEqual([
       {
         levelId: L1.id, name: 'First', position: 1, ceilingState: 'blocked', ceilingReady: false, ceilingUnits: 4, ceilingUnitsUnchecked: 1,
-        uncheckedCeilingUnits: [{ unitId: u.U2!.id, tag: 'U2' }], blockers: [], unitsTotal: 4, unitsReady: 3,
+        uncheckedCeilingUnits: [{ unitId: u.U2!.id, tag: 'U2', version: 1 }], ceilingUnitsExcluded: 0, excludedCeilingUnits: [], blockers: [], unitsTotal: 4, unitsReady: 3,
       },
       {
         levelId: L2.id, name: 'Second', position: 2, ceilingState: 'blocked', ceilingReady: false, ceilingUnits: 1, ceilingUnitsUnchecked: 0,
-        uncheckedCeilingUnits: [], blockers: [blockerF7], unitsTotal: 2, unitsReady: 1,
+        uncheckedCeilingUnits: [], ceilingUnitsExcluded: 0, excludedCeilingUnits: [], blockers: [blockerF7], unitsTotal: 2, unitsReady: 1,
       },
     ]);
     // Company B: F6 is not theirs, so nothing of B's holds U3 back; F7 is B's ceiling blocker.
@@ -888,7 +936,7 @@ describe('a small hand-built job', () => {
     const cassette = await buildUnit(crew.job.id, L3.id, { tag: 'C1', kind: 'cassette_2way' });
     const readiness = (await gc.get(jobPath(crew.job.id, `/readiness?levelId=${L3.id}`))).body as ReadinessResponse;
     expect(readiness.levels).toEqual([
-      expect.objectContaining({ levelId: L3.id, ceilingState: 'blocked', ceilingReady: false, ceilingUnits: 1, ceilingUnitsUnchecked: 1, uncheckedCeilingUnits: [{ unitId: cassette.id, tag: 'C1' }], blockers: [] }),
+      expect.objectContaining({ levelId: L3.id, ceilingState: 'blocked', ceilingReady: false, ceilingUnits: 1, ceilingUnitsUnchecked: 1, uncheckedCeilingUnits: [{ unitId: cassette.id, tag: 'C1', version: 1 }], blockers: [] }),
     ]);
   });
 });
