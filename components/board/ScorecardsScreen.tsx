@@ -210,7 +210,9 @@ function ScorecardCards({ jobId, rows }: { jobId: string; rows: readonly Company
     <View style={styles.cards} testID="scorecards-cards">
       {rows.map((r, i) => (
         <Card key={r.companyId} testID={`scorecards-card-${i}`}>
-          <AppText variant="title">{r.name}</AppText>
+          <AppText variant="title" testID="scorecard-name">
+            {r.name}
+          </AppText>
           {tradeLabel(r) ? (
             <AppText variant="small" muted>
               {tradeLabel(r)}
