@@ -11,6 +11,7 @@ import { connect, migrate } from '../server/db';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../server/seed/demo';
 import { startServer } from '../server/index';
 import { envSchema } from '../server/env';
+import { createObjectStore } from '../server/storage';
 import { startLocalObjectStore, type LocalObjectStore } from '../server/storage/local';
 import { ensureDatabase, startCluster } from './lib/postgres';
 import { say } from './lib/run';
@@ -54,13 +55,7 @@ async function main() {
     const db = connect(databaseUrl);
     const ran = await migrate(db.sequelize);
     if (ran.length) say(`ran ${ran.length} migration(s).`);
-    const { created } = await seedDemo(db);
-    if (created) say('demo data created.');
-    await db.close();
-
-    await buildWebIfStale(path.join(root, 'dist'));
-    ensurePdfTools();
-
+    // Photo storage first: the demo seed stores its fix photos there, like uploads.
     const s3 = envSchema.pick({ S3_ENDPOINT: true, S3_PORT: true, S3_BUCKET: true }).parse(process.env);
     if (!s3.S3_ENDPOINT) {
       photoStorage = await startLocalObjectStore({
@@ -70,6 +65,17 @@ async function main() {
         log: say,
       });
     }
+    const storageEnv = envSchema
+      .pick({ NODE_ENV: true, S3_ENDPOINT: true, S3_BUCKET: true, S3_REGION: true, S3_ACCESS_KEY_ID: true, S3_SECRET_ACCESS_KEY: true, S3_FORCE_PATH_STYLE: true, S3_PORT: true, STORAGE_DISK_DIR: true })
+      .parse({ NODE_ENV: 'development', ...process.env, ...photoStorage?.env });
+    const seedStore = photoStorage?.store ?? createObjectStore(storageEnv);
+    const { created } = await seedDemo(db, { store: seedStore });
+    if (created) say('demo data created.');
+    await db.close();
+
+    await buildWebIfStale(path.join(root, 'dist'));
+    ensurePdfTools();
+
     say(`photos are stored in ${photoStorage ? `${photoStorage.store.location} (data in ${path.relative(root, photoStorage.directory)})` : `s3://${s3.S3_BUCKET} at ${s3.S3_ENDPOINT}`}.`);
 
     const server = await startServer({

@@ -7,6 +7,8 @@ import { hashPassword } from '../auth/passwords';
 import type { Role } from '../../shared/words';
 import { DEMO_COMPANY_TRADES, seedDemoSetup } from './demoSetup';
 import { seedDemoFindings } from './demoFindings';
+import { seedDemoFixPhotos } from './demoPhotos';
+import type { ObjectStore } from '../storage/types';
 
 export { DEMO_COMPANY_TRADES, DEMO_MODELS, DEMO_SYSTEMS } from './demoSetup';
 
@@ -52,7 +54,16 @@ export const DEMO_JOBS = [
   },
 ] as const;
 
-export async function seedDemo(db: Database): Promise<{ created: boolean }> {
+export interface SeedDemoOptions {
+  /**
+   * Where the demo's fix photos are stored: the server's own object store. Without one (tests
+   * that only need the rows) no photos are made; a later run with a store adds them to every fix
+   * that has none.
+   */
+  store?: ObjectStore;
+}
+
+export async function seedDemo(db: Database, options: SeedDemoOptions = {}): Promise<{ created: boolean }> {
   if (process.env.NODE_ENV === 'production') {
     throw new Error('The demo seed never runs in production: it creates accounts with a published password.');
   }
@@ -65,6 +76,7 @@ export async function seedDemo(db: Database): Promise<{ created: boolean }> {
   }
   // Job set-up (levels, spaces, systems, models, units, companies on the job, catalogue): each
   // part only when missing, so a database seeded before set-up existed gets it too.
+  let mainJobId: string | null = null;
   const setUp = await db.sequelize.transaction(async (transaction) => {
     const companies = {} as Record<CompanyKey, string>;
     for (const [key, name] of Object.entries(DEMO_COMPANIES) as [CompanyKey, string][]) {
@@ -78,6 +90,7 @@ export async function seedDemo(db: Database): Promise<{ created: boolean }> {
       if (!job) return false;
       ids[spec.key] = job.id;
     }
+    mainJobId = ids.main!;
     const others = DEMO_JOBS.filter((j) => j.key !== 'main').map((j) => ids[j.key]!);
     const setupCreated = await seedDemoSetup(db, { main: ids.main!, others }, companies, transaction);
     // Walks, unit checks and findings in every status with their histories; only when the job has none.
@@ -101,7 +114,10 @@ export async function seedDemo(db: Database): Promise<{ created: boolean }> {
     );
     return setupCreated || findingsCreated;
   });
-  return { created: created || setUp };
+  // Photos after the rows are committed: stored like uploads (pending keys, claimed in their own
+  // transaction), never inside the long seed transaction.
+  const photos = options.store && mainJobId ? await seedDemoFixPhotos(db, mainJobId, options.store) : 0;
+  return { created: created || setUp || photos > 0 };
 }
 
 async function seedAccountsAndJobs(db: Database): Promise<void> {
