@@ -12,6 +12,7 @@ import { ApiError } from '../api/client';
 import type { Write } from '../api/mutations';
 import { applyApiError } from '../auth/formErrors';
 import { useFindingDraft, useKeepFindingDraft } from '../drafts/findingDraft';
+import { keepNow } from '../outbox';
 import { useCatalogueQuery } from '../queries/catalogue';
 import { useJobCompaniesQuery } from '../queries/companies';
 import { createFindingWrite, useCreateFindingMutation, type LoggedFinding } from '../queries/findings';
@@ -197,8 +198,11 @@ function FindingFormBody({
     if (!next.measuredRule) setValue('measuredText', null, revalidate);
   }
 
+  // A press being kept on the phone: a second press meanwhile does nothing (the button is not busy yet).
+  const keeping = useRef(false);
   const submit = handleSubmit(
-    ({ photos, ...values }) => {
+    async ({ photos, ...values }) => {
+      if (keeping.current) return;
       // The server refuses a date before today on the job's clock; say so at the field before sending.
       const problem = values.dueOn ? dueOnProblem({ dueOn: values.dueOn, backdated: backdate, role: job.role, today }) : null;
       if (problem) {
@@ -215,6 +219,13 @@ function FindingFormBody({
       };
       const w = write.current ?? createFindingWrite(job.id, input, photos, target.label);
       write.current = w;
+      // Kept on the phone first, before anything re-renders: saved means saved, and quickly.
+      keeping.current = true;
+      try {
+        await keepNow(w);
+      } finally {
+        keeping.current = false;
+      }
       create.mutate(w, {
         onSuccess: (finding) => {
           write.current = null;

@@ -24,6 +24,7 @@
  */
 import { ApiError } from '../api/client';
 import { newClientId, type Write } from '../api/mutations';
+import { markKept } from './marks';
 import { bytesOf, keepWrite, writeOf, type OutboxItem, type OutboxKind, type OutboxStorage } from './storage';
 
 /** What a submit answers when the write is kept to be sent later. */
@@ -94,6 +95,7 @@ export function backoffMs(attempts: number, random: () => number = Math.random):
 
 const SENT_KEPT = 50;
 
+
 interface Waiter {
   resolve: (v: unknown) => void;
   reject: (e: unknown) => void;
@@ -111,6 +113,10 @@ export class Outbox {
   private stopped = false;
   private lastSeq = 0;
   private waiters = new Map<string, Waiter>();
+  /** Answers of writes sent before their form asked (kept early, then a pass ran): for submitKept. */
+  private answered = new Map<string, unknown>();
+  /** Writes kept by `keep` whose submitKept has not come yet. */
+  private early = new Set<string>();
   private listeners = new Set<() => void>();
   private snap: OutboxSnapshot = { loaded: false, items: [], sent: [], status: 'idle' };
   private timer: unknown = null;
@@ -175,9 +181,13 @@ export class Outbox {
 
   // ---- adding ------------------------------------------------------------------------------
 
-  /** Keeps the write on the phone (IndexedDB) and returns the kept item; sending starts after. */
+  /**
+   * Keeps the write on the phone (IndexedDB) and returns the kept item once it is written; sending
+   * starts after. With the queue already read, the record is handed to IndexedDB in the same turn
+   * as the call (no await before it): a screen re-rendering meanwhile cannot hold the save back.
+   */
   async add(write: Write, meta: WriteMeta): Promise<OutboxItem> {
-    await this.load();
+    if (!this.loaded) await this.load();
     const kept = keepWrite(write);
     this.lastSeq = Math.max(this.now() * 1000, this.lastSeq + 1);
     const item: OutboxItem = {
@@ -197,6 +207,8 @@ export class Outbox {
       bytes: bytesOf(kept),
     };
     await this.deps.storage.put(item);
+    // On the device from here (a reload keeps it): the moment the bench times "saved".
+    markKept();
     this.items.set(item.id, item);
     this.notify();
     return item;
@@ -208,8 +220,29 @@ export class Outbox {
    * rejects with the ApiError when the server refused this very write (it leaves the outbox: the
    * form it came from shows why).
    */
-  async submit<T>(write: Write, meta: WriteMeta): Promise<T | Queued> {
+  /** `add`, for a write whose submitKept follows (the form keeps it first, then hands it on). */
+  async keep(write: Write, meta: WriteMeta): Promise<OutboxItem> {
     const item = await this.add(write, meta);
+    this.early.add(item.id);
+    return item;
+  }
+
+  async submit<T>(write: Write, meta: WriteMeta): Promise<T | Queued> {
+    return this.submitKept<T>(await this.add(write, meta));
+  }
+
+  /**
+   * Sends a write already kept by `add` (a form keeps it at the press, before its screen changes),
+   * with the same answers as `submit`. If a pass sent it meanwhile, that answer comes back.
+   */
+  submitKept<T>(item: OutboxItem): Promise<T | Queued> {
+    this.early.delete(item.id);
+    if (this.answered.has(item.id)) {
+      const answer = this.answered.get(item.id);
+      this.answered.delete(item.id);
+      return Promise.resolve(answer as T);
+    }
+    if (!this.items.has(item.id)) return Promise.resolve({ queued: true, itemId: item.id });
     const answer = new Promise<unknown>((resolve, reject) => this.waiters.set(item.id, { resolve, reject }));
     void this.sync(true);
     return answer as Promise<T | Queued>;
@@ -387,7 +420,10 @@ export class Outbox {
     this.sent = [{ id: item.id, jobId: item.jobId, kind: item.kind, label: item.label, record: item.record, sentAt: this.now() }, ...this.sent].slice(0, SENT_KEPT);
     this.notify();
     this.deps.onSent?.(sending, answer);
-    this.waiters.get(item.id)?.resolve(answer);
+    const waiter = this.waiters.get(item.id);
+    if (waiter) waiter.resolve(answer);
+    else if (this.early.has(item.id)) this.answered.set(item.id, answer);
+    this.early.delete(item.id);
     this.waiters.delete(item.id);
     return 'next';
   }

@@ -31,11 +31,41 @@ export function labelWrite(write: Write, label: string): Write {
   return write;
 }
 
+/** Writes kept on the phone at the press (keepNow), waiting for their submitWrite. */
+const keptEarly = new WeakMap<Write, { outbox: Outbox; item: Promise<OutboxItem> }>();
+
+/**
+ * Keeps the write on the phone now, before the screen reacts to the press: resolves once it is in
+ * IndexedDB (a reload keeps it). The same write handed to submitWrite after is sent, not kept
+ * twice; pressing again while it is being kept keeps it once. Without an outbox it does nothing.
+ */
+export async function keepNow(write: Write, label?: string): Promise<void> {
+  if (!current) return;
+  let early = keptEarly.get(write);
+  if (!early || early.outbox !== current) {
+    early = { outbox: current, item: current.keep(write, describeWrite(write, label ?? labels.get(write))) };
+    keptEarly.set(write, early);
+  }
+  // A write that could not be kept here is tried again by submitWrite, whose failure the form shows.
+  await early.item.then(
+    () => undefined,
+    () => undefined,
+  );
+}
+
 /**
  * Keeps the write in the outbox and sends it: the server's answer, or Queued when it waits.
  * `label` names what it is about on the sync screen ("unit IU-L3-04", "#214").
  */
-export function submitWrite<T>(write: Write, label?: string): Promise<T | Queued> {
+export async function submitWrite<T>(write: Write, label?: string): Promise<T | Queued> {
+  const early = keptEarly.get(write);
+  if (early) {
+    keptEarly.delete(write);
+    const item = await early.item.catch(() => null);
+    // Kept for a person who has since left: it stays theirs, in their queue.
+    if (item && early.outbox !== current) return { queued: true, itemId: item.id };
+    if (item) return early.outbox.submitKept<T>(item);
+  }
   return current ? current.submit<T>(write, describeWrite(write, label ?? labels.get(write))) : sendWrite<T>(write);
 }
 

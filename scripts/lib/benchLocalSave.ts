@@ -7,7 +7,10 @@
  * - prepare: the 2 photos picked (4000×3000 JPEGs) until both are downscaled on the device and
  *   shown in the form (components/photos: decode, 2560 px, JPEG, room check);
  * - save: the tap on "Log finding" until the queued record is in IndexedDB (the outbox's database
- *   `trimout-outbox`, store `writes`, polled every 10 ms: the figure includes up to one poll).
+ *   `trimout-outbox`, store `writes`): the outbox sets a User Timing mark (KEPT_MARK) the moment
+ *   its write transaction completes, read from the page afterwards (no polling on the page while
+ *   it saves: a poll opening IndexedDB every few ms on a slowed CPU held the save back itself).
+ *   The record is then counted in IndexedDB to check it is there.
  * Each run opens the form online (its lists load), then cuts the network; between runs the
  * network comes back and the queue sends itself.
  */
@@ -16,6 +19,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { chromium, type Page } from 'playwright-core';
 import sharp from 'sharp';
+import { KEPT_MARK } from '../../components/outbox/marks';
 import { stats, type Stats } from './benchHttp';
 
 export const CPU_SLOWDOWN = 4;
@@ -119,17 +123,16 @@ export async function localSaveBench(options: {
       // save: tap → the queued record is on the device
       const before = await page.evaluate<number>(OUTBOX_COUNT);
       await page.evaluate(`(() => {
-        window.__benchSaved = null;
+        window.__benchTapped = null;
+        performance.clearMarks(${JSON.stringify(KEPT_MARK)});
         const button = document.querySelector('[data-testid="finding-form-submit"]');
-        button.addEventListener('click', () => {
-          const tapped = performance.now();
-          const poll = () => ${OUTBOX_COUNT}.then((n) => { if (n > ${before}) window.__benchSaved = performance.now() - tapped; else setTimeout(poll, 10); });
-          poll();
-        }, { capture: true, once: true });
+        button.addEventListener('click', () => { window.__benchTapped = performance.now(); }, { capture: true, once: true });
       })()`);
       await page.getByTestId('finding-form-submit').tap().catch(() => page.getByTestId('finding-form-submit').click());
-      if (!(await until(page, 'window.__benchSaved !== null', 120_000))) throw new Error('The finding was not queued on the device.');
-      save.push(await page.evaluate<number>('window.__benchSaved'));
+      const kept = `performance.getEntriesByName(${JSON.stringify(KEPT_MARK)}).filter((m) => window.__benchTapped !== null && m.startTime >= window.__benchTapped)`;
+      if (!(await until(page, `${kept}.length > 0`, 120_000))) throw new Error('The finding was not kept on the device.');
+      if ((await page.evaluate<number>(OUTBOX_COUNT)) !== before + 1) throw new Error('The kept finding is not in IndexedDB.');
+      save.push(await page.evaluate<number>(`${kept}[0].startTime - window.__benchTapped`));
     }
     await cdp.send('Emulation.setCPUThrottlingRate', { rate: 1 });
     await context.setOffline(false);

@@ -8,6 +8,7 @@ import 'fake-indexeddb/auto';
 import { ApiError } from '../../components/api/client';
 import type { Write } from '../../components/api/mutations';
 import { backoffMs, isQueued, Outbox, type OutboxDeps } from '../../components/outbox/engine';
+import { keepNow, setCurrentOutbox, submitWrite } from '../../components/outbox';
 import { indexedDbStorage, keepWrite, memoryOutboxStorage, writeOf, type OutboxStorage } from '../../components/outbox/storage';
 
 let dbCount = 0;
@@ -236,5 +237,56 @@ describe('outbox', () => {
       ['b.png', 'image/png', 2],
     ]);
     expect([...new Uint8Array(await photos[0]!.arrayBuffer())]).toEqual([1, 2, 3, 4]);
+  });
+
+  it('a write kept at the press is on the device before it is handed on, and sent once, not kept twice', async () => {
+    const f = fake();
+    f.behave.set('/k', () => {
+      throw offline();
+    });
+    const box = new Outbox('u1', f.deps);
+    await box.load();
+    setCurrentOutbox(box);
+    try {
+      const write = w('/k');
+      // The record is handed to IndexedDB in the same turn as the press (no await before the put).
+      let put = 0;
+      const realPut = storage.put;
+      storage.put = (item) => {
+        put += 1;
+        return realPut(item);
+      };
+      const first = keepNow(write, 'unit IU-1');
+      expect(put).toBe(1);
+      // A second press while it is being kept keeps nothing more.
+      await Promise.all([first, keepNow(write, 'unit IU-1')]);
+      expect(put).toBe(1);
+      expect((await storage.list('u1')).map((i) => [i.write.idempotencyKey, i.label])).toEqual([['key-/k', 'unit IU-1']]);
+      const answer = await submitWrite(write);
+      expect(isQueued(answer)).toBe(true);
+      expect((await storage.list('u1')).map((i) => i.write.idempotencyKey)).toEqual(['key-/k']);
+      f.behave.delete('/k');
+      await box.sync(true);
+      expect(f.sent.map((s) => s.idempotencyKey)).toEqual(['key-/k']);
+      expect(await storage.list('u1')).toEqual([]);
+    } finally {
+      setCurrentOutbox(null);
+    }
+  });
+
+  it('a write kept at the press and sent by a pass before its form hands it on gets the server’s answer', async () => {
+    const f = fake();
+    const box = new Outbox('u1', f.deps);
+    setCurrentOutbox(box);
+    try {
+      const write = w('/early');
+      await keepNow(write);
+      await box.sync(true);
+      expect(f.sent.map((s) => s.path)).toEqual(['/early']);
+      expect(await submitWrite(write)).toEqual({ ok: '/early' });
+      expect(f.sent).toHaveLength(1);
+    } finally {
+      setCurrentOutbox(null);
+    }
   });
 });
