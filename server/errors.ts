@@ -27,8 +27,8 @@ export const invalidCursor = () => {
   return new HttpError(400, 'invalid_cursor', message, { cursor: message });
 };
 export const unauthorized = (message = 'Sign in to continue.') => new HttpError(401, 'unauthorized', message);
-export const forbidden = (message = 'You are not allowed to do that.', id = 'forbidden') => new HttpError(403, id, message);
-export const notFound = (message = 'Not found.') => new HttpError(404, 'not_found', message);
+export const forbidden = (message = 'Your role on this job does not allow that. Ask a GC manager on the job if it needs doing.', id = 'forbidden') => new HttpError(403, id, message);
+export const notFound = (message = 'That is not here: it may have been removed, or the link is not complete.') => new HttpError(404, 'not_found', message);
 export const conflict = (message: string, id = 'conflict') => new HttpError(409, id, message);
 export const preconditionFailed = (message: string) => new HttpError(412, 'stale', message);
 export const payloadTooLarge = (message: string) => new HttpError(413, 'too_large', message);
@@ -59,12 +59,12 @@ interface BodyParserError extends Error {
 function classify(err: unknown): HttpError {
   if (err instanceof HttpError) return err;
   if (err instanceof UniqueConstraintError) {
-    return conflict('That already exists.', 'duplicate');
+    return conflict('That already exists. Change the name or tag so it is different, or use the one there.', 'duplicate');
   }
   if (err instanceof SequelizeValidationError) {
     const fields: FieldErrors = {};
     for (const item of err.errors) if (item.path) fields[item.path] = item.message;
-    return badRequest('Some fields are not valid.', fields);
+    return badRequest('Check the fields marked below.', fields);
   }
   if (err instanceof ConnectionError) {
     return serviceUnavailable('The database is not reachable right now. Try again in a moment.');
@@ -82,10 +82,10 @@ function classify(err: unknown): HttpError {
       return unsupportedMediaType('The request body encoding is not supported.');
     }
     if (typeof e.status === 'number' && e.status >= 400 && e.status < 500 && e.expose) {
-      return new HttpError(e.status, 'bad_request', 'The request could not be read.');
+      return new HttpError(e.status, 'bad_request', 'The app sent something the server could not read. Reload the page and try again.');
     }
   }
-  return new HttpError(500, 'internal', 'Something went wrong on our side. It has been logged.');
+  return new HttpError(500, 'internal', 'Something went wrong on our side; it has been logged. Try again in a moment.');
 }
 
 export function errorHandler(log: (msg: string, err: unknown) => void): ErrorRequestHandler {

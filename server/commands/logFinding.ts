@@ -10,7 +10,8 @@
  */
 import type { CreateFindingParsed, FindingDetail } from '../../shared/schemas/findings';
 import { dueOnFor } from '../../shared/rules/due';
-import type { Severity } from '../../shared/words';
+import { DEFECT_TYPE_CHOICE } from '../../shared/schemas/findings/somethingElse';
+import { unitKindLabel, type Severity } from '../../shared/words';
 import { badRequest, conflict } from '../errors';
 import { CatalogueItem, Finding, Level, Photo, Space, Unit, UnitCheck, UnitModel, Walk, type Job } from '../models';
 import { companyOnJob, limitResolverFor, measure, nextFindingNumber, recordFindingEvent, suggestCompany, type CompanyRef, type Measurement } from '../services/findings';
@@ -70,11 +71,11 @@ export async function checkNewFinding(ctx: ReadContext, job: Job, body: CreateFi
   const { sequelize } = ctx;
   // "Something else" (no defect type named): the job's other type, made when the finding is written.
   const item = body.catalogueItemId ? await CatalogueItem.findOne({ where: { id: body.catalogueItemId, jobId: job.id, isOther: false } }) : null;
-  if (body.catalogueItemId && !item) refuse('catalogueItemId', 'Not a defect type of this job.');
-  if (item?.retiredAt) refuse('catalogueItemId', `${item.code} ${item.title} is retired from this job's catalogue.`);
+  if (body.catalogueItemId && !item) refuse('catalogueItemId', DEFECT_TYPE_CHOICE);
+  if (item?.retiredAt) refuse('catalogueItemId', `${item.code} ${item.title} is retired from this job's catalogue. ${DEFECT_TYPE_CHOICE}`);
   const place = await placementOf(job.id, body);
   if (item && place.unit && !item.unitKinds.includes(place.unit.kind)) {
-    refuse('catalogueItemId', `${item.code} ${item.title} does not apply to this unit's kind (${place.unit.kind}).`);
+    refuse('catalogueItemId', `${item.code} ${item.title} does not apply to this unit's kind (${unitKindLabel(place.unit.kind)}). ${DEFECT_TYPE_CHOICE}`);
   }
   const trade = item?.trade ?? body.trade!;
   const company = body.companyId ? await companyOnJob(sequelize, job.id, body.companyId) : await suggestCompany(sequelize, job.id, trade);

@@ -9,7 +9,7 @@
 import type { Sequelize, Transaction } from 'sequelize';
 import { unitLimitResolver } from '../../shared/rules/limits';
 import type { RecordCheckInput, UnitCheckDto } from '../../shared/schemas/findings';
-import type { CheckMark } from '../../shared/words';
+import { unitKindLabel, type CheckMark } from '../../shared/words';
 import { badRequest, conflict, notFound } from '../errors';
 import { CatalogueItem, Unit, UnitCheck, UnitCheckItem, UnitModel, type Job } from '../models';
 import { checkDto, proposalsFor, unresolvedFindingsOn } from '../services/checks';
@@ -44,14 +44,15 @@ export async function recordUnitCheck(ctx: RecordUnitCheckContext, unitId: strin
     const field = `items.${index}`;
     const entry = byId.get(item.catalogueItemId);
     if (!entry) {
-      throw badRequest(`${field}.catalogueItemId: Not a defect type of this job.`, { [`${field}.catalogueItemId`]: 'Not a defect type of this job.' });
+      const msg = 'This item is no longer in the job\'s defect catalogue. Reload the unit check and mark the items shown.';
+      throw badRequest(`${field}.catalogueItemId: ${msg}`, { [`${field}.catalogueItemId`]: msg });
     }
     if (entry.retiredAt) {
-      const msg = `${entry.code} ${entry.title} is retired from this job's catalogue.`;
+      const msg = `${entry.code} ${entry.title} is retired from this job's catalogue. Reload the unit check and mark the items shown.`;
       throw badRequest(`${field}.catalogueItemId: ${msg}`, { [`${field}.catalogueItemId`]: msg });
     }
     if (!entry.unitKinds.includes(unit.kind)) {
-      const msg = `${entry.code} ${entry.title} does not apply to this unit's kind (${unit.kind}).`;
+      const msg = `${entry.code} ${entry.title} does not apply to this unit's kind (${unitKindLabel(unit.kind)}). Reload the unit check and mark the items shown.`;
       throw badRequest(`${field}.catalogueItemId: ${msg}`, { [`${field}.catalogueItemId`]: msg });
     }
     let mark: CheckMark = item.mark;

@@ -42,7 +42,8 @@ function tag(name: string, fn: RequestHandler): PolicyHandler {
   return Object.assign(fn, { policy: name });
 }
 
-export const uuidSchema = z.string().uuid('Not a valid id.');
+const NOT_A_JOB = 'This link does not name a job: open the job from its list.';
+export const uuidSchema = z.string().uuid('This link does not name a record: open it from its list.');
 
 export const policy = {
   public: () => tag('public', (_req, _res, next) => next()),
@@ -57,7 +58,7 @@ export const policy = {
     tag(`jobMember:${roles.join(',')}`, async (req: Request, _res: Response, next: NextFunction) => {
       if (!req.user) return next(unauthorized());
       const jobId = uuidSchema.safeParse(req.params.jobId);
-      if (!jobId.success) return next(badRequest('jobId: Not a valid id.', { jobId: 'Not a valid id.' }));
+      if (!jobId.success) return next(badRequest(`jobId: ${NOT_A_JOB}`, { jobId: NOT_A_JOB }));
       // Read with the user in this request (server/auth/passport.ts) when the path named this job.
       const pre = req.preloadedMembership?.jobId === jobId.data ? req.preloadedMembership : undefined;
       const member = pre

@@ -11,7 +11,7 @@ import { badRequest } from '../errors';
 export function toBaseOrThrow(text: string, kind: QuantityKind, field: string, options: { defaultUnit?: string } = {}): number {
   const parsed = parseQuantity(text, kind, options);
   if (!parsed.ok) throw badRequest(`${field}: ${parsed.error}`, { [field]: parsed.error });
-  if (!(parsed.value > 0)) throw badRequest(`${field}: must be more than zero.`, { [field]: 'Must be more than zero.' });
+  if (!(parsed.value > 0)) throw badRequest(`${field}: Type a value more than zero.`, { [field]: 'Type a value more than zero.' });
   return parsed.value;
 }
 

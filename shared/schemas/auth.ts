@@ -4,6 +4,7 @@
  */
 import { z } from 'zod';
 import { ROLES, type Role } from '../words';
+import { id } from './fields';
 import { emailFor, emailSchema, newPasswordSchema } from './session';
 
 export const personNameSchema = z
@@ -55,7 +56,7 @@ export const invitationCreateSchema = z
 export type InvitationCreateInput = z.infer<typeof invitationCreateSchema>;
 
 export const invitationParamsSchema = z
-  .object({ jobId: z.string().uuid('Not a valid id.'), invitationId: z.string().uuid('Not a valid id.') })
+  .object({ jobId: id('job id'), invitationId: id('invitation id') })
   .strict();
 
 export const invitationListQuerySchema = z

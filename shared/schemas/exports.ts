@@ -5,6 +5,7 @@
  *   GET /scorecards.csv no query (GC manager, inspector)
  */
 import { z } from 'zod';
+import './plainWords';
 
 /** Exports that take no query parameters: any parameter is refused (400), like every strict schema. */
 export const noExportQuerySchema = z.object({}).strict();

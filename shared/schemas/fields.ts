@@ -4,11 +4,25 @@
  * same way. Not re-exported by the barrels: only the schemas built from them are.
  */
 import { z } from 'zod';
+import './plainWords';
 
 /** The most rows one list page holds, on every list. */
 export const LIST_LIMIT_MAX = 200;
 
-export const id = (label = 'id') => z.string({ error: `Choose a ${label}.` }).uuid(`Not a valid ${label}.`);
+const article = (word: string) => (/^[aeio]/i.test(word) ? `an ${word}` : `a ${word}`);
+
+/**
+ * A record's id. In a body it comes from a list the form offers ("Choose a unit from the list.");
+ * a label ending in " id" is a path or filter value, which comes from a link. `invalid` words a
+ * mistake the person can act on better (a defect type may also be "Something else").
+ */
+export const id = (label = 'id', invalid?: string) => {
+  const what = label === 'id' ? 'record' : label.replace(/ id$/, '');
+  const fromLink = label.endsWith(' id');
+  return z
+    .string({ error: `Choose ${article(what)}.` })
+    .uuid(invalid ?? (fromLink ? `This link does not name ${article(what)}: open the ${what} from its list.` : `Choose ${article(what)} from the list.`));
+};
 
 export const dateOnly = z
   .string({ error: 'Enter a date (YYYY-MM-DD).' })
@@ -31,3 +45,23 @@ export const pageQuery = {
 
 /** A point on a level's plan: a fraction of the plan image's width or height, 0..1. */
 export const planFraction = () => z.number({ error: 'A number from 0 to 1.' }).min(0, 'From 0 to 1.').max(1, 'From 0 to 1.');
+
+/**
+ * The length limit of a text a person types (a note, a reason, a comment): the one number the
+ * schema checks and the text box counts down to (components/ui TextField `limit`), and the words
+ * said when the text is longer, in both places. `tooLong` takes the length typed (trimmed, as sent).
+ */
+export interface TextLimit {
+  max: number;
+  tooLong: (length: number) => string;
+}
+
+export function textLimit(max: number, subject: string): TextLimit {
+  const n = (x: number) => x.toLocaleString('en-US');
+  return { max, tooLong: (length) => `${subject} is at most ${n(max)} characters: shorten it by ${n(Math.max(length - max, 1))}.` };
+}
+
+/** The schema's check of a TextLimit, worded by the limit itself. */
+export function limited<S extends z.ZodString>(schema: S, limit: TextLimit): S {
+  return schema.max(limit.max, { error: (issue) => limit.tooLong(typeof issue.input === 'string' ? issue.input.length : limit.max + 1) }) as S;
+}

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import './plainWords';
 import { ROLES } from '../words';
 
 /** OWASP ASVS 6.2: at least 8 characters (15 recommended), at least 64 allowed, no composition rules. */

@@ -8,7 +8,7 @@ import type { FindingEventDto } from './finding';
 
 /** A new due date; `backdated: true` says a GC manager means a date before today (shared/rules/pastDue.ts). */
 export const dueOnChange = z
-  .object({ to: dateOnly, reason: optionalReason, backdated: z.boolean({ error: 'backdated is true or false.' }).optional() })
+  .object({ to: dateOnly, reason: optionalReason, backdated: z.boolean({ error: 'Say yes or no to back-dating.' }).optional() })
   .strict();
 
 /**
@@ -31,7 +31,7 @@ export const findingChangeSchema = z
   .object({
     reassign: z.object({ companyId: id('responsible company'), reason: reason('a reason for the reassignment') }).strict().optional(),
     severity: z
-      .object({ to: z.enum(SEVERITIES, { error: `One of ${SEVERITIES.join(', ')}.` }), reason: optionalReason })
+      .object({ to: z.enum(SEVERITIES, { error: 'Choose the severity: critical, major or minor.' }), reason: optionalReason })
       .strict()
       .optional(),
     dueOn: dueOnChange.optional(),

@@ -12,7 +12,7 @@ import type { WalkUnitDto } from './walkUnits';
 export const checkItemInputSchema = z
   .object({
     catalogueItemId: id('catalogue item'),
-    mark: z.enum(CHECK_MARKS, { error: `One of ${CHECK_MARKS.join(', ')}.` }),
+    mark: z.enum(CHECK_MARKS, { error: 'Mark the item OK, defect or not applicable.' }),
     /** Only for items with a measured rule: "34 in", "4' 10-1/2\"", "1486 mm", or yes / no. */
     measuredText: measuredText.nullable().optional(),
   })

@@ -2,9 +2,11 @@
  * Comments on a finding.
  */
 import { z } from 'zod';
+import { limited, textLimit } from '../fields';
 import type { FindingEventDto } from './finding';
 
 export const COMMENT_MAX = 2000;
+export const COMMENT_LIMIT = textLimit(COMMENT_MAX, 'A comment');
 
 /**
  * POST /findings/:findingId/comments (everyone who can see the finding) → 201 FindingEventDto
@@ -13,11 +15,7 @@ export const COMMENT_MAX = 2000;
  */
 export const commentSchema = z
   .object({
-    text: z
-      .string({ error: 'Write a comment.' })
-      .trim()
-      .min(1, 'Write a comment.')
-      .max(COMMENT_MAX, `A comment is at most ${COMMENT_MAX} characters.`),
+    text: limited(z.string({ error: 'Write a comment.' }).trim().min(1, 'Write a comment.'), COMMENT_LIMIT),
   })
   .strict();
 export type CommentInput = z.input<typeof commentSchema>;

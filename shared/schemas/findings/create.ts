@@ -4,7 +4,9 @@
 import { z } from 'zod';
 import { SEVERITIES } from '../../words';
 import { id, dateOnly, measuredText, note, pin } from './fields';
-import { defectTitle, somethingElseTrade, refineSomethingElse } from './somethingElse';
+import { DEFECT_TYPE_CHOICE, defectTitle, somethingElseTrade, refineSomethingElse } from './somethingElse';
+
+export { DEFECT_TITLE_LIMIT, DEFECT_TYPE_CHOICE } from './somethingElse';
 
 /**
  * POST /findings → 201 FindingDetail. Idempotency-Key honoured (a retry returns the first answer).
@@ -24,18 +26,18 @@ export const createFindingSchema = z
   .object({
     id: id('finding id').optional(),
     /** The defect type; leave it out for "Something else" (title and trade instead). */
-    catalogueItemId: id('defect type').optional(),
+    catalogueItemId: id('defect type', DEFECT_TYPE_CHOICE).optional(),
     /** "Something else": the defect in the inspector's words, and the trade that usually fixes it. */
     title: defectTitle.optional(),
     trade: somethingElseTrade.optional(),
     unitId: id('unit').nullable().optional(),
     spaceId: id('space').nullable().optional(),
     levelId: id('level').nullable().optional(),
-    severity: z.enum(SEVERITIES, { error: `One of ${SEVERITIES.join(', ')}.` }).optional(),
+    severity: z.enum(SEVERITIES, { error: 'Choose the severity: critical, major or minor.' }).optional(),
     companyId: id('responsible company').optional(),
     dueOn: dateOnly.optional(),
     /** A GC manager back-dates the due date on purpose (only they may send it). */
-    backdated: z.boolean({ error: 'backdated is true or false.' }).optional(),
+    backdated: z.boolean({ error: 'Say yes or no to back-dating.' }).optional(),
     note: note.optional(),
     /** For a defect type with a measured rule: the value as typed. */
     measuredText: measuredText.nullable().optional(),

@@ -3,8 +3,8 @@
  * shared/schemas/findings.ts: only the schemas built from them are.
  */
 import { z } from 'zod';
-import { planFraction } from '../fields';
-import { NOTE_MAX, MEASURED_TEXT_MAX, REASON_MAX } from './common';
+import { limited, planFraction } from '../fields';
+import { MEASURED_TEXT_MAX, NOTE_LIMIT, REASON_LIMIT } from './common';
 
 export { booleanQuery, dateOnly, id, pageQuery } from '../fields';
 
@@ -33,19 +33,12 @@ export const measuredText = z
   .min(1, 'Type the measured value with its unit (e.g. 34 in).')
   .max(MEASURED_TEXT_MAX, `A measured value is at most ${MEASURED_TEXT_MAX} characters.`);
 
-export const note = z
-  .string({ error: 'The note must be text.' })
-  .trim()
-  .max(NOTE_MAX, `The note is at most ${NOTE_MAX} characters.`);
+export const note = limited(z.string({ error: 'Type the note as text.' }).trim(), NOTE_LIMIT);
 
 /** A plan pin: a fraction of the plan image's width / height, 0..1. */
 export const pin = planFraction;
 
 export const reason = (what = 'a reason') =>
-  z
-    .string({ error: `Give ${what}.` })
-    .trim()
-    .min(1, `Give ${what}.`)
-    .max(REASON_MAX, `The reason is at most ${REASON_MAX} characters.`);
+  limited(z.string({ error: `Give ${what}.` }).trim().min(1, `Give ${what}.`), REASON_LIMIT);
 
-export const optionalReason = z.string({ error: 'The reason must be text.' }).trim().max(REASON_MAX, `The reason is at most ${REASON_MAX} characters.`).optional();
+export const optionalReason = limited(z.string({ error: 'Type the reason as text.' }).trim(), REASON_LIMIT).optional();

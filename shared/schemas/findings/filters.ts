@@ -27,7 +27,7 @@ export const findingListQuerySchema = z
     levelId: id('level id').optional(),
     spaceId: id('space id').optional(),
     unitId: id('unit id').optional(),
-    kind: z.enum(UNIT_KIND_KEYS, { error: 'Not a unit kind.' }).optional(),
+    kind: z.enum(UNIT_KIND_KEYS, { error: 'Choose a unit kind from the list.' }).optional(),
     status: enumList(FINDING_STATUSES).optional(),
     severity: enumList(SEVERITIES).optional(),
     companyId: id('company id').optional(),

@@ -3,7 +3,8 @@
  */
 import { z } from 'zod';
 import type { RuleResult } from '../../calc/rules';
-import { NOTE_MAX, type PersonRef } from './common';
+import { limited } from '../fields';
+import { NOTE_LIMIT, type PersonRef } from './common';
 import { measuredText } from './fields';
 import type { PhotoDto, FindingDetail } from './finding';
 
@@ -18,11 +19,7 @@ import type { PhotoDto, FindingDetail } from './finding';
  */
 export const submitFixSchema = z
   .object({
-    note: z
-      .string({ error: 'Say what was fixed.' })
-      .trim()
-      .min(1, 'Say what was fixed.')
-      .max(NOTE_MAX, `The note is at most ${NOTE_MAX} characters.`),
+    note: limited(z.string({ error: 'Say what was fixed.' }).trim().min(1, 'Say what was fixed.'), NOTE_LIMIT),
     measuredText: measuredText.nullable().optional(),
   })
   .strict();

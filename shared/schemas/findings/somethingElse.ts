@@ -5,13 +5,16 @@
  */
 import { z } from 'zod';
 import { DEFECT_TITLE_MAX } from '../../rules/somethingElse';
+import { limited, textLimit } from '../fields';
 import { TRADE_KEYS } from '../../words';
 
-export const defectTitle = z
-  .string({ error: 'Say what is wrong, in a few words.' })
-  .trim()
-  .min(1, 'Say what is wrong, in a few words.')
-  .max(DEFECT_TITLE_MAX, `At most ${DEFECT_TITLE_MAX} characters.`);
+/** Said when the defect type is missing or not one the job has: the list, or Something else. */
+export const DEFECT_TYPE_CHOICE = 'Choose the defect from the list, or describe it under Something else.';
+
+/** What the Something else title box counts down to. */
+export const DEFECT_TITLE_LIMIT = textLimit(DEFECT_TITLE_MAX, 'The title');
+
+export const defectTitle = limited(z.string({ error: 'Say what is wrong, in a few words.' }).trim().min(1, 'Say what is wrong, in a few words.'), DEFECT_TITLE_LIMIT);
 
 export const somethingElseTrade = z.enum(TRADE_KEYS, { error: 'Choose the trade that usually fixes it.' });
 
@@ -36,7 +39,7 @@ export function refineSomethingElse(f: SomethingElseFields, ctx: z.RefinementCtx
     return;
   }
   if (f.title === undefined && f.trade === undefined) {
-    issue('catalogueItemId', 'Choose a defect type.');
+    issue('catalogueItemId', DEFECT_TYPE_CHOICE);
     return;
   }
   if (f.title === undefined) issue('title', 'Say what is wrong, in a few words.');

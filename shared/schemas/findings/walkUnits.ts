@@ -27,7 +27,7 @@ export const walkUnitsQuerySchema = z
   .object({
     spaceId: id('space id').optional(),
     systemId: id('system id').optional(),
-    kind: z.enum(UNIT_KIND_KEYS, { error: 'Not a unit kind.' }).optional(),
+    kind: z.enum(UNIT_KIND_KEYS, { error: 'Choose a unit kind from the list.' }).optional(),
     /** Tag contains (case-insensitive). */
     q: z.string().trim().max(40, 'At most 40 characters.').optional(),
     state: z.enum(UNIT_WALK_STATES, { error: `One of ${UNIT_WALK_STATES.join(', ')}.` }).optional(),

@@ -5,7 +5,15 @@ import { z } from 'zod';
 import { CATALOGUE_GROUPS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type CatalogueGroup, type Comparison, type JobSettingKey, type ModelLimitKey } from '../../catalogue/types';
 import { CODE_LIMIT_VARIANTS } from '../../calc/limits';
 import { SEVERITIES, TRADE_KEYS, UNIT_KIND_KEYS, type Severity, type TradeKey, type UnitKindKey } from '../../words';
+import { textLimit } from '../fields';
 import { text, optionalText, pageQuery, booleanQuery } from './fields';
+
+/** What the catalogue's long text boxes count down to (components/ui TextField `limit`). */
+export const CATALOGUE_TEXT_LIMITS = {
+  description: textLimit(2000, 'A description'),
+  fixGuidance: textLimit(2000, 'Fix guidance'),
+  caution: textLimit(1000, 'Caution'),
+} as const;
 
 const limitRefSchema = z.discriminatedUnion('from', [
   z.object({ from: z.literal('model'), key: z.enum(MODEL_LIMITS.map((m) => m.key) as [ModelLimitKey, ...ModelLimitKey[]]) }).strict(),
@@ -57,17 +65,17 @@ const catalogueFields = {
     .pipe(z.string().regex(CATALOGUE_CODE_PATTERN, 'A code is two letters, a dash and two or three digits (e.g. DR-41).')),
   group: z.enum(CATALOGUE_GROUP_KEYS, { error: 'Choose a group.' }),
   title: text('a title', 160),
-  description: text('a description', 2000),
+  description: text('a description', CATALOGUE_TEXT_LIMITS.description),
   unitKinds: z
-    .array(z.enum(UNIT_KIND_KEYS, { error: 'Not a unit kind.' }))
+    .array(z.enum(UNIT_KIND_KEYS, { error: 'Choose a unit kind from the list.' }))
     .min(1, 'Choose at least one unit kind.')
     .refine((k) => new Set(k).size === k.length, 'A unit kind appears twice.'),
   defaultSeverity: z.enum(SEVERITIES, { error: 'Choose a severity.' }),
   trade: z.enum(TRADE_KEYS, { error: 'Choose the usual trade.' }),
   measuredRule: measuredRuleSchema.nullable().optional(),
-  fixGuidance: text('fix guidance', 2000),
-  caution: optionalText('Caution', 1000),
-  needsCeilingAccess: z.boolean({ error: 'needsCeilingAccess: true or false.' }),
+  fixGuidance: text('fix guidance', CATALOGUE_TEXT_LIMITS.fixGuidance),
+  caution: optionalText('Caution', CATALOGUE_TEXT_LIMITS.caution),
+  needsCeilingAccess: z.boolean({ error: 'Say whether the fix needs the ceiling open.' }),
 };
 /** POST /catalogue: a job-specific defect type. */
 export const createCatalogueItemSchema = z.object(catalogueFields).strict();
@@ -91,8 +99,8 @@ export const updateCatalogueItemSchema = z
 export type UpdateCatalogueItemInput = z.input<typeof updateCatalogueItemSchema>;
 export const catalogueListQuerySchema = z
   .object({
-    unitKind: z.enum(UNIT_KIND_KEYS, { error: 'Not a unit kind.' }).optional(),
-    group: z.enum(CATALOGUE_GROUP_KEYS, { error: 'Not a catalogue group.' }).optional(),
+    unitKind: z.enum(UNIT_KIND_KEYS, { error: 'Choose a unit kind from the list.' }).optional(),
+    group: z.enum(CATALOGUE_GROUP_KEYS, { error: 'Choose a group from the list.' }).optional(),
     includeRetired: booleanQuery.optional(),
     ...pageQuery,
   })

@@ -6,7 +6,7 @@ import { TRADE_KEYS, type TradeKey } from '../../words';
 import { id, text, pageQuery } from './fields';
 
 const tradesSchema = z
-  .array(z.enum(TRADE_KEYS, { error: 'Not a trade.' }))
+  .array(z.enum(TRADE_KEYS, { error: 'Choose trades from the list.' }))
   .max(TRADE_KEYS.length)
   .refine((t) => new Set(t).size === t.length, 'A trade appears twice.');
 

@@ -53,11 +53,16 @@ export const DEFAULT_SEVERITY_DUE_DAYS: SeverityDueDays = { critical: 2, major: 
  * docs/api-board.md). Default 3 units and 10 %. `minShare` may be left out (the default applies);
  * `windowDays` was the earlier rule's window: still accepted from older clients, never used.
  */
+const MIN_UNITS = 'Minimum units: a whole number from 2 to 1000.';
+/** Sent as a fraction, typed as a percent on the settings screen: the words name the percent. */
+const MIN_SHARE = 'Minimum share: from 0 to 100 % of the checked units.';
+const WINDOW_DAYS = 'Days counted: a whole number from 1 to 365.';
+
 export const recurringThresholdsSchema = z
   .object({
-    minUnits: z.number().int('minUnits: a whole number.').min(2, 'minUnits: at least 2.').max(1000, 'minUnits: at most 1000.'),
-    minShare: z.number('minShare: a number from 0 to 1.').min(0, 'minShare: at least 0.').max(1, 'minShare: at most 1 (100 %).').optional(),
-    windowDays: z.number().int('windowDays: a whole number.').min(1, 'windowDays: at least 1.').max(365, 'windowDays: at most 365.').optional(),
+    minUnits: z.number(MIN_UNITS).int(MIN_UNITS).min(2, MIN_UNITS).max(1000, MIN_UNITS),
+    minShare: z.number(MIN_SHARE).min(0, MIN_SHARE).max(1, MIN_SHARE).optional(),
+    windowDays: z.number(WINDOW_DAYS).int(WINDOW_DAYS).min(1, WINDOW_DAYS).max(365, WINDOW_DAYS).optional(),
   })
   .strict();
 export type RecurringThresholdsInput = z.infer<typeof recurringThresholdsSchema>;

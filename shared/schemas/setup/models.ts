@@ -25,7 +25,7 @@ export const updateModelSchema = z
   .strict();
 export type UpdateModelInput = z.input<typeof updateModelSchema>;
 export const modelListQuerySchema = z
-  .object({ unitKind: z.enum(UNIT_KIND_KEYS, { error: 'Not a unit kind.' }).optional(), ...pageQuery })
+  .object({ unitKind: z.enum(UNIT_KIND_KEYS, { error: 'Choose a unit kind from the list.' }).optional(), ...pageQuery })
   .strict();
 
 export interface UnitModelDto {

@@ -17,7 +17,7 @@ const spaceFields = {
   ceilingHeight: quantityText('length', 'Ceiling height').nullable().optional(),
   occupancy: z.enum(OCCUPANCIES, { error: 'Choose general or institutional.' }).optional(),
   /** An enclosed occupied space counts for the refrigerant check. Default true. */
-  enclosed: z.boolean({ error: 'enclosed: true or false.' }).optional(),
+  enclosed: z.boolean({ error: 'Say whether the space is enclosed.' }).optional(),
   /**
    * Spaces joined to this one by a permanent opening (they count as one volume in the
    * refrigerant check). Replaces the whole set of this space's links; links are symmetric.

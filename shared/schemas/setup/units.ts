@@ -43,7 +43,7 @@ export const unitListQuerySchema = z
     levelId: id('level id').optional(),
     spaceId: id('space id').optional(),
     systemId: id('system id').optional(),
-    kind: z.enum(UNIT_KIND_KEYS, { error: 'Not a unit kind.' }).optional(),
+    kind: z.enum(UNIT_KIND_KEYS, { error: 'Choose a unit kind from the list.' }).optional(),
     /** Tag contains (case-insensitive). */
     q: z.string().trim().max(40, 'q: at most 40 characters.').optional(),
     ...pageQuery,

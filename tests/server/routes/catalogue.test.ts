@@ -66,7 +66,7 @@ describe('catalogue', () => {
     expect(group.body.items.every((i: { group: string }) => i.group === 'drainage')).toBe(true);
     const bad = await crew.insp.get(jobPath(job.id, '/catalogue?group=plumbing'));
     expect(bad.status).toBe(400);
-    expect(bad.body.error.message).toBe('query.group: Not a catalogue group.');
+    expect(bad.body.error.message).toBe('query.group: Choose a group from the list.');
   });
 
   it('adds a job-specific type with a validated measured rule; a duplicate code is 409', async () => {

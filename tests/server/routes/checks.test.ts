@@ -157,12 +157,12 @@ describe('POST /api/jobs/:jobId/units/:unitId/checks', () => {
     expect(await send({ items: [ok(w, 'MT-01')] })).toBe('complete: Send complete: true or false.');
     expect(await send({ items: [ok(w, 'MT-01'), ok(w, 'MT-01')], complete: true })).toBe('items: A catalogue item appears twice.');
     expect(await send({ items: [{ ...ok(w, 'MT-01'), mark: 'good' }], complete: true })).toBe(
-      'items.0.mark: One of ok, defect, not_applicable.',
+      'items.0.mark: Mark the item OK, defect or not applicable.',
     );
     expect(await send({ items: [ok(w, 'MT-01')], complete: true, inspector: 'me' })).toMatch(/inspector|Unrecognized/);
-    expect(await send({ items: [ok(other, 'MT-01')], complete: true })).toBe('items.0.catalogueItemId: Not a defect type of this job.');
+    expect(await send({ items: [ok(other, 'MT-01')], complete: true })).toBe("items.0.catalogueItemId: This item is no longer in the job's defect catalogue. Reload the unit check and mark the items shown.");
     expect(await send({ items: [ok(w, 'MT-01'), { catalogueItemId: w.notForCassettes.id, mark: 'ok' }], complete: true })).toBe(
-      `items.1.catalogueItemId: ${w.notForCassettes.code} ${w.notForCassettes.title} does not apply to this unit's kind (cassette_4way).`,
+      `items.1.catalogueItemId: ${w.notForCassettes.code} ${w.notForCassettes.title} does not apply to this unit's kind (Ceiling cassette, four-way). Reload the unit check and mark the items shown.`,
     );
     expect(await send({ items: [{ ...ok(w, 'MT-01'), measuredText: '3 in' }], complete: true })).toMatch(
       /^items\.0\.measuredText: MT-01 .* has no measured rule, so it takes no measured value\.$/,
@@ -175,7 +175,7 @@ describe('POST /api/jobs/:jobId/units/:unitId/checks', () => {
     ).toBe('items.0.measuredText: An item marked not applicable takes no measured value.');
     await CatalogueItem.update({ retiredAt: new Date() }, { where: { id: w.byCode('MT-02').id } });
     expect(await send({ items: [ok(w, 'MT-02')], complete: true })).toBe(
-      `items.0.catalogueItemId: MT-02 ${w.byCode('MT-02').title} is retired from this job's catalogue.`,
+      `items.0.catalogueItemId: MT-02 ${w.byCode('MT-02').title} is retired from this job's catalogue. Reload the unit check and mark the items shown.`,
     );
     const walk = (await inspector.agent.post(`/api/jobs/${w.job.id}/walks`).set('X-CSRF-Token', inspector.csrf).send({ levelId: w.otherLevel.id }).expect(201))
       .body;

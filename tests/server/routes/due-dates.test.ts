@@ -91,7 +91,7 @@ describe('logging a finding with a due date', () => {
     const logged = (await events(w, res.body)).find((e) => e.kind === 'logged')!;
     expect(logged.to).toMatchObject({ dueOn: past, backdated: true });
     const bad = await post(gc, w, { ...dr03(w), dueOn: past, backdated: 'yes' }).expect(400);
-    expect(bad.body.error.fields).toEqual({ backdated: 'backdated is true or false.' });
+    expect(bad.body.error.fields).toEqual({ backdated: 'Say yes or no to back-dating.' });
   });
 });
 

@@ -89,7 +89,7 @@ describe('GET /events', () => {
     await subB.agent.get(path(w, f.id, '/events')).expect(404);
     await outsider.agent.get(path(w, f.id, '/events')).expect(404);
     const bad = await gc.agent.get(`/api/jobs/${w.job.id}/findings/42/events`).expect(400);
-    expect(bad.body.error.message).toBe('params.findingId: Not a valid finding id.');
+    expect(bad.body.error.message).toBe('params.findingId: This link does not name a finding: open the finding from its list.');
     const send = (who: SignedIn, body: object, version: number) =>
       who.agent.patch(path(w, f.id)).set('X-CSRF-Token', who.csrf).set('If-Match', `"v${version}"`).send(body).expect(200);
     const started = Date.now();

@@ -121,7 +121,7 @@ describe('findings.csv: access', () => {
     expect((await gc.agent.get(`/api/jobs/00000000-0000-4000-8000-000000000000/findings.csv`)).status).toBe(404);
     const bad = await gc.agent.get(`/api/jobs/${w.job.id}/findings.csv?kind=window_unit`);
     expect(bad.status).toBe(400);
-    expect(bad.body.error.message).toBe('query.kind: Not a unit kind.');
+    expect(bad.body.error.message).toBe('query.kind: Choose a unit kind from the list.');
     expect((await gc.agent.get(`/api/jobs/${w.job.id}/findings.csv?evil=1`)).status).toBe(400);
   });
 

@@ -182,16 +182,16 @@ describe('POST /api/jobs/:jobId/findings', () => {
     const before = await snapshot(w);
     const send = async (body: unknown) => (await postJson(inspector, w, body).expect(400)).body.error.message as string;
     expect(await send({ catalogueItemId: w.byCode('DR-03').id })).toBe('unitId: Attach the finding to a unit, a space or a level.');
-    expect(await send({ unitId: w.cassette.id })).toBe('catalogueItemId: Choose a defect type.');
-    expect(await send({ ...dr03(w), severity: 'urgent' })).toBe('severity: One of critical, major, minor.');
+    expect(await send({ unitId: w.cassette.id })).toBe('catalogueItemId: Choose the defect from the list, or describe it under Something else.');
+    expect(await send({ ...dr03(w), severity: 'urgent' })).toBe('severity: Choose the severity: critical, major or minor.');
     expect(await send({ ...dr03(w), dueOn: '2026-02-30' })).toBe('dueOn: Not a real date.');
     expect(await send({ ...dr03(w), pinX: 0.5 })).toBe('pinX: Send both pinX and pinY, or neither.');
     expect(await send({ ...dr03(w), title: 'x' })).toMatch(/title|Unrecognized/);
-    expect(await send({ ...dr03(w), note: 'x'.repeat(2001) })).toBe('note: The note is at most 2000 characters.');
+    expect(await send({ ...dr03(w), note: 'x'.repeat(2001) })).toBe('note: The note is at most 2,000 characters: shorten it by 1.');
     expect(await send({ ...dr03(w), unitId: other.cassette.id })).toBe('unitId: That unit is not on this job.');
-    expect(await send({ catalogueItemId: other.byCode('DR-03').id, unitId: w.cassette.id })).toBe('catalogueItemId: Not a defect type of this job.');
+    expect(await send({ catalogueItemId: other.byCode('DR-03').id, unitId: w.cassette.id })).toBe('catalogueItemId: Choose the defect from the list, or describe it under Something else.');
     expect(await send({ catalogueItemId: w.notForCassettes.id, unitId: w.cassette.id })).toBe(
-      `catalogueItemId: ${w.notForCassettes.code} ${w.notForCassettes.title} does not apply to this unit's kind (cassette_4way).`,
+      `catalogueItemId: ${w.notForCassettes.code} ${w.notForCassettes.title} does not apply to this unit's kind (Ceiling cassette, four-way). Choose the defect from the list, or describe it under Something else.`,
     );
     expect(await send({ ...dr03(w), companyId: other.gcCompany.id === w.gcCompany.id ? MISSING : MISSING })).toBe(
       'companyId: That company is not on this job.',
@@ -258,7 +258,7 @@ describe('POST /api/jobs/:jobId/findings', () => {
     await request(trimout.app).get(p1.url).expect(401);
     await gc.agent.get(`/api/jobs/${w.job.id}/photos/${MISSING}`).expect(404);
     const bad = await gc.agent.get(`/api/jobs/${w.job.id}/photos/nope`).expect(400);
-    expect(bad.body.error.message).toBe('params.photoId: Not a valid photo id.');
+    expect(bad.body.error.message).toBe('params.photoId: This link does not name a photo: open the photo from its list.');
     // Another job's URL with this photo's id: not found.
     const other = await buildWalkJob(people);
     await gc.agent.get(`/api/jobs/${other.job.id}/photos/${p1.id}`).expect(404);
@@ -302,7 +302,7 @@ describe('POST /api/jobs/:jobId/findings', () => {
         .expect(400);
       expect(extra.body.error.message).toBe('severity: Unknown form field; send the finding as JSON in "data".');
       const invalid = await postMultipart(inspector, w, { unitId: w.cassette.id }, [{ buffer: jpeg, name: 'a.jpg' }]).expect(400);
-      expect(invalid.body.error.message).toBe('catalogueItemId: Choose a defect type.');
+      expect(invalid.body.error.message).toBe('catalogueItemId: Choose the defect from the list, or describe it under Something else.');
       expect(await snapshot(w)).toEqual(before);
     });
 
@@ -516,7 +516,7 @@ describe('GET /api/jobs/:jobId/findings', () => {
     expect(await bad('sort=note')).toBe('query.sort: One of number, -number, dueOn, -dueOn, loggedAt, -loggedAt, severity, -severity.');
     expect(await bad('status=open,lost')).toBe('query.status: Use one or more of open, fix_submitted, closed, voided, separated by commas.');
     expect(await bad('limit=201')).toBe('query.limit: At most 200.');
-    expect(await bad('levelId=3')).toBe('query.levelId: Not a valid level id.');
+    expect(await bad('levelId=3')).toBe('query.levelId: This link does not name a level: open the level from its list.');
     expect(await bad('order=number')).toMatch(/order|Unrecognized/);
     expect(await bad('cursor=abc')).toBe('This list position is not valid any more; start again from the first page.');
     await outsider.agent.get(`/api/jobs/${w.job.id}/findings`).expect(404);
@@ -539,7 +539,7 @@ describe('GET /api/jobs/:jobId/findings/:findingId', () => {
     await outsider.agent.get(`/api/jobs/${w.job.id}/findings/${created.body.id}`).expect(404);
     await gc.agent.get(`/api/jobs/${w.job.id}/findings/${MISSING}`).expect(404);
     const bad = await gc.agent.get(`/api/jobs/${w.job.id}/findings/42`).expect(400);
-    expect(bad.body.error.message).toBe('params.findingId: Not a valid finding id.');
+    expect(bad.body.error.message).toBe('params.findingId: This link does not name a finding: open the finding from its list.');
     await request(trimout.app).get(`/api/jobs/${w.job.id}/findings/${created.body.id}`).expect(401);
     const other = await buildWalkJob(people);
     await gc.agent.get(`/api/jobs/${other.job.id}/findings/${created.body.id}`).expect(404);

@@ -58,7 +58,7 @@ describe('GET /api/jobs/:jobId', () => {
     const crew = await buildJobWithCrew();
     const { agent } = await signIn(trimout.app, crew.gcManager.email);
     const res = await agent.get('/api/jobs/not-a-uuid').expect(400);
-    expect(res.body.error.fields).toEqual({ jobId: 'Not a valid id.' });
+    expect(res.body.error.fields).toEqual({ jobId: 'This link does not name a job: open the job from its list.' });
   });
 
   it('reads membership on every request: removing the member takes effect at once', async () => {

@@ -69,7 +69,7 @@ describe('POST /findings: something else', () => {
     expect(list.body.items.map((i: { code: string }) => i.code)).not.toContain('OTHER');
     await gc.agent.get(`/api/jobs/${w.job.id}/catalogue/${type!.id}`).expect(404);
     const byId = await post(inspector, w, { unitId: w.cassette.id, catalogueItemId: type!.id }).expect(400);
-    expect(byId.body.error.fields).toEqual({ catalogueItemId: 'Not a defect type of this job.' });
+    expect(byId.body.error.fields).toEqual({ catalogueItemId: 'Choose the defect from the list, or describe it under Something else.' });
   });
 
   it.each([
@@ -79,8 +79,8 @@ describe('POST /findings: something else', () => {
     ['no severity', (w: WalkJob) => ({ unitId: w.cassette.id, title: 'Loose grille', trade: 'ceilings' }), { severity: 'Choose the severity.' }],
     ['a title beside a defect type', (w: WalkJob) => ({ ...loose(w), catalogueItemId: w.byCode('DR-03').id, trade: undefined }), { title: 'A defect type from the catalogue has its own title; leave this out.' }],
     ['a measured value', (w: WalkJob) => ({ ...loose(w), measuredText: '3 in' }), { measuredText: 'Something else takes no measured value.' }],
-    ['neither a type nor a title', (w: WalkJob) => ({ unitId: w.cassette.id, severity: 'minor' }), { catalogueItemId: 'Choose a defect type.' }],
-    ['a title too long', (w: WalkJob) => ({ ...loose(w), title: 'x'.repeat(161) }), { title: 'At most 160 characters.' }],
+    ['neither a type nor a title', (w: WalkJob) => ({ unitId: w.cassette.id, severity: 'minor' }), { catalogueItemId: 'Choose the defect from the list, or describe it under Something else.' }],
+    ['a title too long', (w: WalkJob) => ({ ...loose(w), title: 'x'.repeat(161) }), { title: 'The title is at most 160 characters: shorten it by 1.' }],
   ])('400 with the field named for %s, nothing written', async (_what, body, fields) => {
     const w = await buildWalkJob(people);
     const before = await countRows(w.job.id);

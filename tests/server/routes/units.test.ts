@@ -71,7 +71,7 @@ describe('units: read', () => {
     expect(await tags('q=%25')).toEqual([]);
     const bad = await crew.insp.get(jobPath(s.job.id, '/units?kind=window_unit'));
     expect(bad.status).toBe(400);
-    expect(bad.body.error.message).toBe('query.kind: Not a unit kind.');
+    expect(bad.body.error.message).toBe('query.kind: Choose a unit kind from the list.');
     expect((await crew.insp.get(jobPath(s.job.id, '/units?sort=tag'))).status).toBe(400);
   });
 
@@ -126,8 +126,8 @@ describe('units: write', () => {
     [{ capacity: '36000' }, /^capacity: "36000" is a bare number/],
     [{ tag: '' }, /^tag: Enter a tag\./],
     [{ kind: 'window' }, /^kind: Choose a unit kind\./],
-    [{ levelId: 'nope' }, /^levelId: Not a valid level\./],
-    [{ colour: 'red' }, /Unrecognized key/],
+    [{ levelId: 'nope' }, /^levelId: Choose a level from the list\./],
+    [{ colour: 'red' }, /Leave out colour/],
   ])('answers 400 with a message for %j', async (change, message) => {
     const s = await setUpJob();
     const res = await crew.gc.post(jobPath(s.job.id, '/units'), { tag: 'IU-1', kind: 'cassette_4way', levelId: s.l1.id, ...change });
