@@ -8,6 +8,7 @@ import { links } from '../links';
 import { COUNT_LABELS, type BoardCountKey } from './counts';
 import { CountLink, CoverageBar } from './parts';
 import { CeilingVerdict } from './CeilingVerdict';
+import { waitingSummary } from '../../shared/rules/waiting';
 
 const TILES: BoardCountKey[] = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'overdue'];
 
@@ -16,15 +17,15 @@ export function BoardCards({ jobId, board }: { jobId: string; board: BoardRespon
   const levels = [...board.levels].sort((a, b) => a.position - b.position);
   return (
     <View style={styles.list} testID="board-cards">
-      <LevelCard jobId={jobId} row={board.totals} />
+      <LevelCard jobId={jobId} row={board.totals} longestWaitDays={board.longestWaitDays} />
       {levels.map((l) => (
-        <LevelCard key={l.levelId} jobId={jobId} row={l} />
+        <LevelCard key={l.levelId} jobId={jobId} row={l} longestWaitDays={l.longestWaitDays} />
       ))}
     </View>
   );
 }
 
-function LevelCard({ jobId, row }: { jobId: string; row: BoardCounts | BoardLevelRow }) {
+function LevelCard({ jobId, row, longestWaitDays }: { jobId: string; row: BoardCounts | BoardLevelRow; longestWaitDays: number | null }) {
   const level = 'levelId' in row ? row : null;
   const id = level ? level.levelId : 'total';
   return (
@@ -39,7 +40,15 @@ function LevelCard({ jobId, row }: { jobId: string; row: BoardCounts | BoardLeve
         ) : (
           <AppText variant="title">All levels</AppText>
         )}
-        {level ? <CeilingVerdict state={level.ceilingState} blockers={level.ceilingBlockers} unchecked={level.ceilingUnitsUnchecked} testID={`board-ceiling-${id}`} /> : null}
+        {level ? (
+          <CeilingVerdict
+            state={level.ceilingState}
+            blockers={level.ceilingBlockers}
+            unchecked={level.ceilingUnitsUnchecked}
+            excluded={level.ceilingUnitsExcluded}
+            testID={`board-ceiling-${id}`}
+          />
+        ) : null}
       </View>
       <View style={styles.tiles}>
         {TILES.map((k) => (
@@ -51,6 +60,12 @@ function LevelCard({ jobId, row }: { jobId: string; row: BoardCounts | BoardLeve
           </View>
         ))}
       </View>
+      {row.fixSubmitted > 0 ? (
+        // Fixes submitted wait on the inspector, not on the company (never overdue): how long the oldest has waited.
+        <AppText variant="small" muted testID={`board-waiting-${id}`}>
+          {waitingSummary(row.fixSubmitted, longestWaitDays)}
+        </AppText>
+      ) : null}
       <View style={styles.cov}>
         <AppText variant="label">Units checked</AppText>
         <CoverageBar checked={row.unitsChecked} total={row.unitsTotal} testID={`board-coverage-${id}`} />

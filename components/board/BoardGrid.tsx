@@ -8,6 +8,7 @@ import { links } from '../links';
 import type { BoardCountKey } from './counts';
 import { CountLink, CoverageBar } from './parts';
 import { CeilingVerdict } from './CeilingVerdict';
+import { waitingSummary } from '../../shared/rules/waiting';
 
 interface Col {
   key: string;
@@ -56,14 +57,26 @@ export function BoardGrid({ jobId, board }: { jobId: string; board: BoardRespons
         ))}
       </View>
       {levels.map((l, i) => (
-        <Row key={l.levelId} jobId={jobId} row={l} zebra={i % 2 === 1} />
+        <Row key={l.levelId} jobId={jobId} row={l} zebra={i % 2 === 1} longestWaitDays={l.longestWaitDays} />
       ))}
-      <Row jobId={jobId} row={board.totals} totals />
+      <Row jobId={jobId} row={board.totals} totals longestWaitDays={board.longestWaitDays} />
     </View>
   );
 }
 
-function Row({ jobId, row, zebra, totals }: { jobId: string; row: BoardCounts | BoardLevelRow; zebra?: boolean; totals?: boolean }) {
+function Row({
+  jobId,
+  row,
+  zebra,
+  totals,
+  longestWaitDays,
+}: {
+  jobId: string;
+  row: BoardCounts | BoardLevelRow;
+  zebra?: boolean;
+  totals?: boolean;
+  longestWaitDays: number | null;
+}) {
   const level = 'levelId' in row ? row : null;
   const id = level ? level.levelId : 'total';
   const place = level ? level.name : 'all levels';
@@ -81,6 +94,16 @@ function Row({ jobId, row, zebra, totals }: { jobId: string; row: BoardCounts | 
           ) : (
             <AppText variant="heading">All levels</AppText>
           );
+        } else if (c.count === 'fixSubmitted' && row.fixSubmitted > 0 && longestWaitDays !== null) {
+          // Waiting on the inspector, not the company: the count and how long the oldest has waited.
+          content = (
+            <View>
+              <CountLink jobId={jobId} levelId={level?.levelId} countKey={c.count} value={row[c.count]} place={place} testID={`board-cell-${id}-${c.count}`} />
+              <AppText variant="small" muted testID={`board-waiting-${id}`} accessibilityLabel={waitingSummary(row.fixSubmitted, longestWaitDays)}>
+                {longestWaitDays <= 0 ? 'since today' : `longest ${longestWaitDays} d`}
+              </AppText>
+            </View>
+          );
         } else if (c.count) {
           content = <CountLink jobId={jobId} levelId={level?.levelId} countKey={c.count} value={row[c.count]} place={place} testID={`board-cell-${id}-${c.count}`} />;
         } else if (c.key === 'coverage') {
@@ -88,7 +111,7 @@ function Row({ jobId, row, zebra, totals }: { jobId: string; row: BoardCounts | 
         } else if (c.key === 'ceilings') {
           content = level ? (
             <Link href={links.level(jobId, level.levelId)} testID={`board-ceiling-${id}`}>
-              <CeilingVerdict state={level.ceilingState} blockers={level.ceilingBlockers} unchecked={level.ceilingUnitsUnchecked} short />
+              <CeilingVerdict state={level.ceilingState} blockers={level.ceilingBlockers} unchecked={level.ceilingUnitsUnchecked} excluded={level.ceilingUnitsExcluded} short />
             </Link>
           ) : null;
         }

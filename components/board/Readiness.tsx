@@ -11,6 +11,7 @@ import { SeverityMark } from '../walk/SeverityMark';
 import { links } from '../links';
 import { StartupBadge } from './parts';
 import { CeilingVerdict } from './CeilingVerdict';
+import { ExcludedCeilingUnitRow, UncheckedCeilingUnit } from './CeilingExclusions';
 
 const SHOWN = 6;
 
@@ -111,10 +112,26 @@ export function SystemReadinessCard({ jobId, system }: { jobId: string; system: 
 }
 
 /**
- * A level: ready to close its ceilings when every unit in or above the ceiling is checked and no
- * unresolved finding on it needs access above the ceiling; each blocker under the rule it breaks.
+ * A level: ready to close its ceilings when every unit in or above the ceiling is checked (or
+ * excluded by a GC manager, with a reason) and no unresolved finding on it needs access above the
+ * ceiling; each blocker under the rule it breaks. `canExclude` (a GC manager) offers "Exclude from
+ * the ceiling rule" on each unchecked unit and "Count it again" on each excluded one.
  */
-export function LevelReadinessCard({ jobId, level, linkName = true, title }: { jobId: string; level: LevelReadiness; linkName?: boolean; title?: string }) {
+export function LevelReadinessCard({
+  jobId,
+  level,
+  linkName = true,
+  title,
+  canExclude = false,
+  timeZone = 'UTC',
+}: {
+  jobId: string;
+  level: LevelReadiness;
+  linkName?: boolean;
+  title?: string;
+  canExclude?: boolean;
+  timeZone?: string;
+}) {
   const l = level;
   const name = (
     <AppText variant="title" style={linkName ? styles.link : null}>
@@ -131,7 +148,13 @@ export function LevelReadinessCard({ jobId, level, linkName = true, title }: { j
         ) : (
           name
         )}
-        <CeilingVerdict state={l.ceilingState} blockers={l.blockersTotal ?? l.blockers.length} unchecked={l.ceilingUnitsUnchecked} testID={`level-ceiling-${l.levelId}`} />
+        <CeilingVerdict
+          state={l.ceilingState}
+          blockers={l.blockersTotal ?? l.blockers.length}
+          unchecked={l.ceilingUnitsUnchecked}
+          excluded={l.ceilingUnitsExcluded}
+          testID={`level-ceiling-${l.levelId}`}
+        />
       </View>
       {title ? null : (
         <AppText variant="small" muted>
@@ -144,16 +167,46 @@ export function LevelReadinessCard({ jobId, level, linkName = true, title }: { j
         </AppText>
       ) : (
         <AppText variant="small" muted testID={`level-ceiling-units-${l.levelId}`}>
-          {l.ceilingUnits - l.ceilingUnitsUnchecked} of {l.ceilingUnits} units in or above the ceiling checked
+          {l.ceilingUnits - l.ceilingUnitsUnchecked - l.ceilingUnitsExcluded} of {l.ceilingUnits} units in or above the ceiling checked
+          {l.ceilingUnitsExcluded > 0 ? ` · ${l.ceilingUnitsExcluded} excluded by a GC manager` : ''}
         </AppText>
       )}
-      {l.ceilingUnitsUnchecked > 0 ? (
+      {l.ceilingUnitsUnchecked > 0 || l.ceilingUnitsExcluded > 0 ? (
         <View style={styles.units} testID={`level-unchecked-${l.levelId}`}>
-          <AppText variant="label">Rule: every unit in or above the ceiling is checked first</AppText>
-          <AppText variant="small">
-            Not checked yet: {l.uncheckedCeilingUnits.map((u) => u.tag).join(', ')}
-            {l.ceilingUnitsUnchecked > l.uncheckedCeilingUnits.length ? ` and ${l.ceilingUnitsUnchecked - l.uncheckedCeilingUnits.length} more` : ''}
-          </AppText>
+          <AppText variant="label">Rule: every unit in or above the ceiling is checked first (or excluded by a GC manager, with a reason)</AppText>
+          {l.ceilingUnitsUnchecked > 0 ? (
+            canExclude ? (
+              <>
+                <AppText variant="small">Not checked yet:</AppText>
+                {l.uncheckedCeilingUnits.map((u) => (
+                  <UncheckedCeilingUnit key={u.unitId} jobId={jobId} unit={u} canExclude />
+                ))}
+                {l.ceilingUnitsUnchecked > l.uncheckedCeilingUnits.length ? (
+                  <AppText variant="small" muted>
+                    and {l.ceilingUnitsUnchecked - l.uncheckedCeilingUnits.length} more
+                  </AppText>
+                ) : null}
+              </>
+            ) : (
+              <AppText variant="small">
+                Not checked yet: {l.uncheckedCeilingUnits.map((u) => u.tag).join(', ')}
+                {l.ceilingUnitsUnchecked > l.uncheckedCeilingUnits.length ? ` and ${l.ceilingUnitsUnchecked - l.uncheckedCeilingUnits.length} more` : ''}
+              </AppText>
+            )
+          ) : null}
+          {l.ceilingUnitsExcluded > 0 ? (
+            <View style={styles.units} testID={`level-excluded-${l.levelId}`}>
+              <AppText variant="small">Excluded from the rule by a GC manager:</AppText>
+              {l.excludedCeilingUnits.map((u) => (
+                <ExcludedCeilingUnitRow key={u.unitId} jobId={jobId} unit={u} timeZone={timeZone} canExclude={canExclude} />
+              ))}
+              {l.ceilingUnitsExcluded > l.excludedCeilingUnits.length ? (
+                <AppText variant="small" muted>
+                  and {l.ceilingUnitsExcluded - l.excludedCeilingUnits.length} more
+                </AppText>
+              ) : null}
+            </View>
+          ) : null}
         </View>
       ) : null}
       {l.blockers.length > 0 ? (

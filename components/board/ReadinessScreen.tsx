@@ -38,7 +38,8 @@ export function ReadinessScreen({ jobId, systemId }: { jobId: string; systemId?:
         </AppText>
         <AppText muted>
           A unit is ready for startup when it has a complete unit check and no unresolved critical or major finding; a system when all its
-          units are. A level can close its ceilings when no unresolved finding on it needs access above the ceiling.
+          units are. A level can close its ceilings when every unit in or above the ceiling is checked (or excluded by a GC manager, with a
+          reason) and no unresolved finding on it needs access above the ceiling.
         </AppText>
       </View>
       {systemId ? null : <BoardTabs jobId={jobId} role={job.data?.role} current="readiness" />}
@@ -97,7 +98,7 @@ export function ReadinessScreen({ jobId, systemId }: { jobId: string; systemId?:
                   .sort((a, b) => a.position - b.position)
                   .map((l) => (
                     <View key={l.levelId} style={wide ? styles.half : null}>
-                      <LevelReadinessCard jobId={jobId} level={l} />
+                      <LevelReadinessCard jobId={jobId} level={l} canExclude={job.data?.role === 'gc_manager'} timeZone={job.data?.timeZone} />
                     </View>
                   ))}
               </View>

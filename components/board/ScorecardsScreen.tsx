@@ -62,7 +62,7 @@ const COLS: Col[] = [
   },
   { key: 'open', title: 'Open', flex: 0.8, render: (c) => String(c.open) },
   { key: 'overdue', title: 'Overdue', flex: 0.9, render: (c) => String(c.overdue) },
-  { key: 'fixesWaiting', title: 'Fixes waiting', flex: 1, render: (c) => String(c.fixesWaiting) },
+  { key: 'fixesWaiting', title: 'Fixes waiting', flex: 1, render: (c) => fixesWaitingText(c) },
   { key: 'medianDaysToAccept', title: 'Median days to accepted fix', flex: 1.4, render: (c) => days(c.medianDaysToAccept) },
   { key: 'firstPassRate', title: 'First-pass acceptance', flex: 1.5, render: (c) => rate(c) },
   { key: 'returns', title: 'Returns', flex: 0.8, render: (c) => String(c.returns) },
@@ -72,7 +72,7 @@ const COLS: Col[] = [
 export const SCORECARD_MEANINGS: readonly { key: ScorecardKey; label: string; line: string }[] = [
   { key: 'open', label: 'Open', line: 'findings assigned to the company that still need their work (new or returned).' },
   { key: 'overdue', label: 'Overdue', line: 'open findings past their due date; a fix waiting for re-inspection is not counted.' },
-  { key: 'fixesWaiting', label: 'Fixes waiting', line: 'fixes the company submitted that wait for an inspector.' },
+  { key: 'fixesWaiting', label: 'Fixes waiting', line: 'fixes the company submitted that wait for an inspector, and how long the oldest has waited (days on the job’s clock).' },
   { key: 'medianDaysToAccept', label: 'Median days to accepted fix', line: 'the middle value of the days from assignment to the company until its fix was accepted.' },
   { key: 'firstPassRate', label: 'First-pass acceptance', line: 'of the fixes accepted, the share accepted at their first re-inspection.' },
   { key: 'returns', label: 'Returns', line: 'fixes an inspector sent back while the finding was the company’s.' },
@@ -225,7 +225,7 @@ function ScorecardCards({ jobId, rows }: { jobId: string; rows: readonly Company
             <Fact label="Overdue">
               <CompanyCount jobId={jobId} row={r} which="overdue" />
             </Fact>
-            <Fact label="Fixes waiting">{String(r.fixesWaiting)}</Fact>
+            <Fact label="Fixes waiting">{fixesWaitingText(r)}</Fact>
             <Fact label="Returns">{String(r.returns)}</Fact>
             <Fact label="Median days to accepted fix">{days(r.medianDaysToAccept)}</Fact>
             <Fact label="First-pass acceptance">{rate(r)}</Fact>
@@ -262,3 +262,9 @@ const styles = StyleSheet.create({
   facts: { flexDirection: 'row', flexWrap: 'wrap', rowGap: space.sm },
   fact: { width: '50%', gap: 2, paddingRight: space.sm },
 });
+
+/** "2 · longest 5 d": fixes waiting for the inspector (never overdue against the company) and the oldest wait. */
+export function fixesWaitingText(c: Pick<CompanyScorecard, 'fixesWaiting' | 'longestWaitDays'>): string {
+  if (c.fixesWaiting === 0 || c.longestWaitDays === null || c.longestWaitDays === undefined) return String(c.fixesWaiting);
+  return `${c.fixesWaiting} · ${c.longestWaitDays <= 0 ? 'since today' : `longest ${c.longestWaitDays} d`}`;
+}

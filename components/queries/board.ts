@@ -1,4 +1,4 @@
-import { useQuery } from '@tanstack/react-query';
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type {
   BoardResponse,
   ReadinessQuery,
@@ -8,8 +8,10 @@ import type {
   TrendQuery,
   TrendResponse,
 } from '../../shared/schemas/board';
+import type { CeilingExclusionInput, CeilingExclusionResult } from '../../shared/schemas/setup';
 import { apiGet } from '../api/client';
-import { jobPath, queryString } from '../api/lists';
+import { jobPath, queryString, versionTag } from '../api/lists';
+import { newWrite, sendWrite, type Write } from '../api/mutations';
 import { walkKeys } from './walks';
 
 /**
@@ -67,5 +69,27 @@ export function useTrendQuery(jobId: string, query: TrendQuery = {}) {
     queryKey: boardKeys.trend(jobId, query),
     queryFn: () => apiGet<TrendResponse>(`${jobPath(jobId, 'trend')}${queryString({ ...query })}`),
     enabled: Boolean(jobId),
+  });
+}
+
+/** PUT /units/:unitId/ceiling-exclusion: a GC manager excludes a unit from the ceiling rule, with the version they saw. */
+export function ceilingExclusionWrite(jobId: string, unitId: string, version: number, input: CeilingExclusionInput): Write {
+  return newWrite({ method: 'PUT', path: jobPath(jobId, 'units', unitId, 'ceiling-exclusion'), body: input, ifMatch: versionTag(version) });
+}
+
+/** DELETE /units/:unitId/ceiling-exclusion: "Count it again". */
+export function liftCeilingExclusionWrite(jobId: string, unitId: string, version: number): Write {
+  return newWrite({ method: 'DELETE', path: jobPath(jobId, 'units', unitId, 'ceiling-exclusion'), ifMatch: versionTag(version) });
+}
+
+/**
+ * Both ceiling-exclusion writes: sent at once (a GC manager's office decision, not field work kept
+ * in the outbox); the board and readiness are read again after either, refused or not.
+ */
+export function useCeilingExclusionMutation(jobId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (write: Write) => sendWrite<CeilingExclusionResult>(write),
+    onSettled: () => queryClient.invalidateQueries({ queryKey: boardKeys.all(jobId) }),
   });
 }

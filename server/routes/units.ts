@@ -46,26 +46,6 @@ export function unitImportBodyParsers(): Router {
     express.json({ limit: IMPORT_BODY_LIMIT, strict: true }),
     express.raw({ type: 'text/csv', limit: IMPORT_BODY_LIMIT }),
   );
-  router.put(
-    '/jobs/:jobId/units/:unitId/ceiling-exclusion',
-    policy.jobMember(['gc_manager']),
-    validate({ params: unitParamsSchema, body: ceilingExclusionSchema }),
-    async (req, res) => {
-      const { unitId } = valid<z.infer<typeof unitParamsSchema>>(req.valid.params);
-      const { reason } = valid<z.infer<typeof ceilingExclusionSchema>>(req.valid.body);
-      const result = await inTransaction(req, (transaction) => excludeFromCeilingRule(exclusionContext(req, transaction), unitId, reason));
-      setEtag(res, result.version);
-      res.json(result);
-    },
-  );
-
-  router.delete('/jobs/:jobId/units/:unitId/ceiling-exclusion', policy.jobMember(['gc_manager']), validate({ params: unitParamsSchema }), async (req, res) => {
-    const { unitId } = valid<z.infer<typeof unitParamsSchema>>(req.valid.params);
-    const result = await inTransaction(req, (transaction) => liftCeilingExclusion(exclusionContext(req, transaction), unitId));
-    setEtag(res, result.version);
-    res.json(result);
-  });
-
   return router;
 }
 
@@ -127,6 +107,26 @@ export function unitsRouter(): Router {
     const { unitId } = valid<z.infer<typeof unitParamsSchema>>(req.valid.params);
     await inTransaction(req, (transaction) => deleteUnit(setupWrite(req, transaction), unitId));
     res.status(204).end();
+  });
+
+  router.put(
+    '/jobs/:jobId/units/:unitId/ceiling-exclusion',
+    policy.jobMember(['gc_manager']),
+    validate({ params: unitParamsSchema, body: ceilingExclusionSchema }),
+    async (req, res) => {
+      const { unitId } = valid<z.infer<typeof unitParamsSchema>>(req.valid.params);
+      const { reason } = valid<z.infer<typeof ceilingExclusionSchema>>(req.valid.body);
+      const result = await inTransaction(req, (transaction) => excludeFromCeilingRule(exclusionContext(req, transaction), unitId, reason));
+      setEtag(res, result.version);
+      res.json(result);
+    },
+  );
+
+  router.delete('/jobs/:jobId/units/:unitId/ceiling-exclusion', policy.jobMember(['gc_manager']), validate({ params: unitParamsSchema }), async (req, res) => {
+    const { unitId } = valid<z.infer<typeof unitParamsSchema>>(req.valid.params);
+    const result = await inTransaction(req, (transaction) => liftCeilingExclusion(exclusionContext(req, transaction), unitId));
+    setEtag(res, result.version);
+    res.json(result);
   });
 
   return router;

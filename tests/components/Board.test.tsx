@@ -4,7 +4,7 @@
  * filtered to exactly the findings it counts (and the list reads those filters back from the
  * address), the trend chart's text summary, and the scorecards' sortable headers.
  */
-import { fireEvent, screen, within } from '@testing-library/react-native';
+import { fireEvent, screen, waitFor, within } from '@testing-library/react-native';
 import { useState } from 'react';
 import { BoardScreen } from '../../components/board/BoardScreen';
 import { LevelDetailScreen } from '../../components/board/LevelDetailScreen';
@@ -39,11 +39,12 @@ const zero = { open: 0, openCritical: 0, openMajor: 0, fixSubmitted: 0, closed: 
 // Sent out of building order on purpose: the board sorts by position.
 const BOARD: BoardResponse = {
   levels: [
-    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingState: 'blocked', ceilingReady: false, ceilingBlockers: 2, ceilingUnits: 16, ceilingUnitsUnchecked: 3 },
-    { ...zero, levelId: L1, name: 'Level 1', position: 1, open: 2, openCritical: 0, openMajor: 1, fixSubmitted: 1, closed: 6, overdue: 0, unitsTotal: 20, unitsChecked: 20, ceilingState: 'ready', ceilingReady: true, ceilingBlockers: 0, ceilingUnits: 16, ceilingUnitsUnchecked: 0 },
-    { ...zero, levelId: L3, name: 'Roof', position: 3, unitsTotal: 4, ceilingState: 'no_ceiling_units', ceilingReady: false, ceilingBlockers: 0, ceilingUnits: 0, ceilingUnitsUnchecked: 0 },
+    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingState: 'blocked', ceilingReady: false, ceilingBlockers: 2, ceilingUnits: 16, ceilingUnitsUnchecked: 3, ceilingUnitsExcluded: 0, longestWaitDays: 4 },
+    { ...zero, levelId: L1, name: 'Level 1', position: 1, open: 2, openCritical: 0, openMajor: 1, fixSubmitted: 1, closed: 6, overdue: 0, unitsTotal: 20, unitsChecked: 20, ceilingState: 'ready', ceilingReady: true, ceilingBlockers: 0, ceilingUnits: 16, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 1, longestWaitDays: 0 },
+    { ...zero, levelId: L3, name: 'Roof', position: 3, unitsTotal: 4, ceilingState: 'no_ceiling_units', ceilingReady: false, ceilingBlockers: 0, ceilingUnits: 0, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 0, longestWaitDays: null },
   ],
   totals: { open: 7, openCritical: 1, openMajor: 4, fixSubmitted: 3, closed: 10, overdue: 2, unitsTotal: 44, unitsChecked: 35 },
+  longestWaitDays: 4,
   today: '2026-11-30',
   companyScope: null,
 };
@@ -89,10 +90,10 @@ const RECURRING: RecurringResponse = {
   companyScope: null,
 };
 function card(c: Partial<CompanyScorecard> & { companyId: string; name: string }): CompanyScorecard {
-  return { trade: null, trades: [], open: 0, overdue: 0, fixesWaiting: 0, accepted: 0, acceptedFirstPass: 0, firstPassRate: null, medianDaysToAccept: null, returns: 0, ...c };
+  return { trade: null, trades: [], open: 0, overdue: 0, fixesWaiting: 0, longestWaitDays: null, accepted: 0, acceptedFirstPass: 0, firstPassRate: null, medianDaysToAccept: null, returns: 0, ...c };
 }
 const CARDS: CompanyScorecard[] = [
-  card({ companyId: C1, name: 'Mech Co', trade: 'mechanical', trades: ['mechanical', 'controls'], open: 4, overdue: 1, fixesWaiting: 2, accepted: 4, acceptedFirstPass: 3, firstPassRate: 0.75, medianDaysToAccept: 3.5, returns: 1 }),
+  card({ companyId: C1, name: 'Mech Co', trade: 'mechanical', trades: ['mechanical', 'controls'], open: 4, overdue: 1, fixesWaiting: 2, longestWaitDays: 5, accepted: 4, acceptedFirstPass: 3, firstPassRate: 0.75, medianDaysToAccept: 3.5, returns: 1 }),
   card({ companyId: C2, name: 'Amp Electric', open: 1, overdue: 3, fixesWaiting: 0, accepted: 2, acceptedFirstPass: 2, firstPassRate: 1, medianDaysToAccept: 1, returns: 0 }),
   card({ companyId: C3, name: 'Ceil Co', open: 2, overdue: 0 }),
 ];
@@ -129,7 +130,11 @@ const READINESS: ReadinessResponse = {
       ceilingReady: false,
       ceilingUnits: 2,
       ceilingUnitsUnchecked: 1,
-      uncheckedCeilingUnits: [{ unitId: 'u1', tag: 'IU-2-01' }],
+      uncheckedCeilingUnits: [{ unitId: 'u1', tag: 'IU-2-01', version: 3 }],
+      ceilingUnitsExcluded: 1,
+      excludedCeilingUnits: [
+        { unitId: 'u9', tag: 'IU-2-09', version: 2, reason: 'Owner furnished; tile stays removable.', by: { id: 'g1', name: 'Gail Manager' }, at: '2026-11-28T15:00:00.000Z' },
+      ],
       unitsTotal: 2,
       unitsReady: 0,
       blockers: [{ findingId: 'f-14', number: 14, code: 'CD-02', title: 'Drain not sloped', severity: 'critical', status: 'fix_submitted', unitId: 'u2', unitTag: 'IU-2-02' }],
@@ -185,7 +190,13 @@ describe('the levels board', () => {
     expect(within(screen.getByTestId('board-cell-total-closed')).getByText('10')).toBeTruthy();
     expect(within(screen.getByTestId(`board-coverage-${L2}`)).getByText(/15 of 20/)).toBeTruthy();
     expect(within(screen.getByTestId(`board-ceiling-${L2}`)).getByText('✕ 2 blocking · 3 unchecked')).toBeTruthy();
-    expect(within(screen.getByTestId(`board-ceiling-${L1}`)).getByText('✓ Can close')).toBeTruthy();
+    // Level 1 can close with one unit excluded by a GC manager: the verdict says what it rests on.
+    expect(within(screen.getByTestId(`board-ceiling-${L1}`)).getByText('✓ Can close (1 excluded)')).toBeTruthy();
+    // Fixes submitted wait for the inspector: the count and the longest wait.
+    expect(within(screen.getByTestId(`board-waiting-${L2}`)).getByText('longest 4 d')).toBeTruthy();
+    expect(screen.getByTestId(`board-waiting-${L2}`).props.accessibilityLabel).toBe('2 waiting for the inspector, longest 4 days');
+    expect(within(screen.getByTestId(`board-waiting-${L1}`)).getByText('since today')).toBeTruthy();
+    expect(within(screen.getByTestId('board-waiting-total')).getByText('longest 4 d')).toBeTruthy();
     // A level without units in the ceiling says so: it is not "can close".
     expect(within(screen.getByTestId(`board-ceiling-${L3}`)).getByText('No ceiling units')).toBeTruthy();
   });
@@ -198,6 +209,9 @@ describe('the levels board', () => {
     expect(screen.queryByTestId('board-grid')).toBeNull();
     const cards = screen.getAllByTestId(/^board-card-/).map((c) => c.props.testID);
     expect(cards).toEqual(['board-card-total', `board-card-${L1}`, `board-card-${L2}`, `board-card-${L3}`]);
+    expect(screen.getByTestId(`board-waiting-${L2}`)).toHaveTextContent('2 waiting for the inspector, longest 4 days');
+    expect(screen.getByTestId('board-waiting-total')).toHaveTextContent('3 waiting for the inspector, longest 4 days');
+    expect(screen.queryByTestId(`board-waiting-${L3}`)).toBeNull();
     expect(within(screen.getByTestId(`board-cell-${L2}-overdue`)).getByText('2')).toBeTruthy();
     expect(hrefOf(`board-cell-${L2}-overdue`)).toBe(`${F}?levelId=${L2}&overdue=true`);
   });
@@ -302,6 +316,8 @@ describe('company scorecards', () => {
     expect(nameText()).toEqual(['Amp Electric', 'Ceil Co', 'Mech Co']);
     expect(screen.getByTestId('scorecards-col-name').props['aria-sort']).toBe('ascending');
     expect(screen.getByText('75% (3 of 4)')).toBeTruthy();
+    // Mech Co's two fixes wait for the inspector, the oldest 5 days.
+    expect(screen.getByText('2 · longest 5 d')).toBeTruthy();
   });
 
   it('says in one line what each figure measures, one line per column', async () => {
@@ -351,8 +367,13 @@ describe('readiness and the level screen', () => {
     const level = screen.getByTestId(`level-readiness-${L2}`);
     expect(within(level).getByText('✕ 1 blocking · 1 unchecked')).toBeTruthy();
     // Each blocker sits under the rule it breaks.
-    expect(within(level).getByText('Rule: every unit in or above the ceiling is checked first')).toBeTruthy();
-    expect(within(level).getByText('Not checked yet: IU-2-01')).toBeTruthy();
+    expect(within(level).getByText('Rule: every unit in or above the ceiling is checked first (or excluded by a GC manager, with a reason)')).toBeTruthy();
+    expect(within(level).getByText('Not checked yet:')).toBeTruthy();
+    expect(within(level).getByTestId('ceiling-unchecked-IU-2-01')).toHaveTextContent(/IU-2-01/);
+    // The excluded unit: why, who and when (on the job's clock, UTC here).
+    const excluded = within(level).getByTestId('ceiling-excluded-IU-2-09');
+    expect(excluded).toHaveTextContent(/Owner furnished; tile stays removable\./);
+    expect(excluded).toHaveTextContent(/Excluded by Gail Manager · 28 Nov 2026, 15:00/);
     expect(within(level).getByText('Rule: no unresolved finding needs access above the ceiling')).toBeTruthy();
     expect(hrefOf('blocker-14')).toBe(`/jobs/${JOB}/findings/f-14`);
     expect(screen.getByTestId('readiness-systems-count').props.children).toEqual([0, ' of ', 1, ' systems ready for startup.']);
@@ -368,5 +389,46 @@ describe('readiness and the level screen', () => {
     expect(hrefOf('level-cell-openCritical')).toBe(`${F}?levelId=${L2}&status=open&severity=critical`);
     expect(await screen.findByTestId(`level-readiness-${L2}`)).toBeTruthy();
     expect(await screen.findByTestId('trend-summary')).toBeTruthy();
+  });
+});
+
+describe('excluding a unit from the ceiling rule', () => {
+  it('a GC manager excludes with a reason (checked before sending) and counts it again, each with the version seen', async () => {
+    mockWide = true;
+    const fetchSpy = fakeApi('gc_manager', {
+      [`/api/jobs/${JOB}/units/u1/ceiling-exclusion`]: [200, { unitId: 'u1', tag: 'IU-2-01', version: 4, ceilingExclusion: null }],
+      [`/api/jobs/${JOB}/units/u9/ceiling-exclusion`]: [200, { unitId: 'u9', tag: 'IU-2-09', version: 3, ceilingExclusion: null }],
+    });
+    renderWithQueries(<ReadinessScreen jobId={JOB} />);
+    fireEvent.press(await screen.findByTestId('ceiling-exclude-IU-2-01'));
+    fireEvent.changeText(screen.getByTestId('ceiling-exclude-reason-IU-2-01'), ' x ');
+    fireEvent.press(screen.getByTestId('ceiling-exclude-send-IU-2-01'));
+    expect(await screen.findByText(/at least 3 characters/)).toBeTruthy();
+    const calls = () => fetchSpy.mock.calls as unknown as [string, RequestInit | undefined][];
+    const writes = () => calls().filter(([, init]) => init?.method !== undefined && init.method !== 'GET');
+    expect(writes()).toHaveLength(0);
+    fireEvent.changeText(screen.getByTestId('ceiling-exclude-reason-IU-2-01'), 'Abandoned in place, capped.');
+    fireEvent.press(screen.getByTestId('ceiling-exclude-send-IU-2-01'));
+    await screen.findByTestId('ceiling-exclude-IU-2-01');
+    fireEvent.press(screen.getByTestId('ceiling-count-again-IU-2-09'));
+    await waitFor(() => expect(writes()).toHaveLength(2));
+    const [put, del] = writes() as [string, RequestInit][] as [[string, RequestInit], [string, RequestInit]];
+    expect(put[0]).toBe(`/api/jobs/${JOB}/units/u1/ceiling-exclusion`);
+    expect(put[1].method).toBe('PUT');
+    expect(JSON.parse(String(put[1].body))).toEqual({ reason: 'Abandoned in place, capped.' });
+    expect((put[1].headers as Record<string, string>)['If-Match']).toBe('"v3"');
+    expect(del[1].method).toBe('DELETE');
+    expect((del[1].headers as Record<string, string>)['If-Match']).toBe('"v2"');
+  });
+
+  it('an inspector sees the unchecked and excluded units but is offered neither action', async () => {
+    mockWide = false;
+    fakeApi('inspector');
+    renderWithQueries(<ReadinessScreen jobId={JOB} />);
+    const level = await screen.findByTestId(`level-readiness-${L2}`);
+    expect(within(level).getByText('Not checked yet: IU-2-01')).toBeTruthy();
+    expect(within(level).getByTestId('ceiling-excluded-IU-2-09')).toBeTruthy();
+    expect(screen.queryByTestId('ceiling-exclude-IU-2-01')).toBeNull();
+    expect(screen.queryByTestId('ceiling-count-again-IU-2-09')).toBeNull();
   });
 });

@@ -288,6 +288,16 @@ export const CASES: Record<string, RouteCase> = {
   'DELETE /api/jobs/:jobId/units/:unitId': {
     setup: async (w) => ({ path: J(w, `/units/${(await buildUnit(w.job.id, w.level.id)).id}`), headers: IF_MATCH }),
   },
+  'PUT /api/jobs/:jobId/units/:unitId/ceiling-exclusion': {
+    setup: async (w) => ({ path: J(w, `/units/${(await buildUnit(w.job.id, w.level.id)).id}/ceiling-exclusion`), body: { reason: 'Owner furnished, tile stays removable.' }, headers: IF_MATCH }),
+  },
+  'DELETE /api/jobs/:jobId/units/:unitId/ceiling-exclusion': {
+    setup: async (w) => {
+      const unit = await buildUnit(w.job.id, w.level.id);
+      await unit.update({ ceilingExcludedReason: 'Owner furnished.', ceilingExcludedBy: w.gcManager.id, ceilingExcludedAt: new Date() });
+      return { path: J(w, `/units/${unit.id}/ceiling-exclusion`), headers: IF_MATCH };
+    },
+  },
   'GET /api/companies/known': { setup: async () => ({ path: '/api/companies/known' }) },
   'GET /api/jobs/:jobId/companies': { setup: async (w) => ({ path: J(w, '/companies') }) },
   'POST /api/jobs/:jobId/companies': { setup: async (w) => ({ path: J(w, '/companies'), body: { name: `Co ${uniq()}`, trades: ['insulation'] } }) },

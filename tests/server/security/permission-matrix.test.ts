@@ -112,6 +112,8 @@ export const EXPECTED: Record<string, Row> = {
   'POST /api/jobs/:jobId/units/import': gcOnly(200), // dryRun: true
   'PATCH /api/jobs/:jobId/units/:unitId': gcOnly(200),
   'DELETE /api/jobs/:jobId/units/:unitId': gcOnly(204),
+  'PUT /api/jobs/:jobId/units/:unitId/ceiling-exclusion': gcOnly(200), // excluded from the ceiling rule with a reason
+  'DELETE /api/jobs/:jobId/units/:unitId/ceiling-exclusion': gcOnly(200), // counted again
   'POST /api/jobs/:jobId/companies': gcOnly(201),
   'PATCH /api/jobs/:jobId/companies/:companyId': gcOnly(200),
   'DELETE /api/jobs/:jobId/companies/:companyId': gcOnly(204),
