@@ -14,6 +14,7 @@ import {
   type PreferencesDto,
   type PreferencesForm,
 } from '../../shared/schemas/preferences';
+import { digestScheduleSentence } from '../../shared/digestSchedule';
 import type { Write } from '../api/mutations';
 import { timeZoneOptions } from '../jobs/JobForm';
 import { newDigestNowWrite, useDigestNowMutation, usePreferencesQuery, useSavePreferencesMutation } from '../queries/preferences';
@@ -96,6 +97,10 @@ function PreferencesEditor({ prefs, saved, onSaved }: { prefs: PreferencesDto; s
   return (
     <Card testID="preferences-form">
       <AppText variant="title">Digest</AppText>
+      {/* The saved schedule, in the words the digest mail itself uses. */}
+      <AppText testID="preferences-schedule">
+        {digestScheduleSentence({ frequency: prefs.digestFrequency, weekday: prefs.digestWeekday, hour: prefs.digestHour, timeZone: prefs.timeZone })}
+      </AppText>
       <Controller
         control={control}
         name="digestFrequency"

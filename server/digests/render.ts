@@ -3,6 +3,7 @@
  * in the HTML goes through escapeHtml (attributes included); links are built from encoded path parts
  * on the public origin. No remote images, no scripts, inline styles only: our own simple design.
  */
+import { digestName, digestScheduleSentence, type DigestSchedule } from '../../shared/digestSchedule';
 import { SEVERITY_LABELS } from '../../shared/words';
 import { escapeHtml, headerSafe } from '../mail/safe';
 import type { MailMessage } from '../mail/outbox';
@@ -20,6 +21,8 @@ export interface RenderOptions {
   unsubscribeToken: string;
   /** "Sent because you asked" (the button) or the schedule. */
   trigger: 'scheduled' | 'now';
+  /** The recipient's saved schedule: named in the subject, the first line and the footer. */
+  schedule: DigestSchedule;
 }
 
 const COLORS = { ink: '#1A1F1C', muted: '#56605A', line: '#DAD5C9', paper: '#F4F1EA', brand: '#1E3B34', accent: '#E0A23B', late: '#9C2B1F', ok: '#2F6B4F' };
@@ -192,8 +195,7 @@ function unsubscribeHeaders(origin: string, token: string): Record<string, strin
   return { 'List-Unsubscribe': `<${oneClick}>`, 'List-Unsubscribe-Post': 'List-Unsubscribe=One-Click' };
 }
 
-export function digestSubject(content: DigestContent): string {
-  const word = content.period === 'weekly' ? 'Weekly' : 'Daily';
+export function digestSubject(content: DigestContent, schedule: DigestSchedule): string {
   const subs = content.subcontractorJobs;
   const mgr = content.managerJobs;
   const parts: string[] = [];
@@ -208,18 +210,22 @@ export function digestSubject(content: DigestContent): string {
     parts.push(`${now} unresolved on your jobs (${signed(change)})`);
   }
   if (parts.length === 0) parts.push('no jobs to report');
-  return headerSafe(`${word} Trimout digest: ${parts.join('; ')}`);
+  return headerSafe(`${digestName(content.period, schedule).subjectLead}: ${parts.join('; ')}`);
 }
 
 export function renderDigest(content: DigestContent, options: RenderOptions): MailMessage {
   const { origin, timeZone } = options;
   const periodWord = content.period === 'weekly' ? 'a week ago' : 'yesterday';
-  const title = `${content.period === 'weekly' ? 'Weekly' : 'Daily'} digest for ${content.user.name}`;
+  const title = digestName(content.period, options.schedule).heading(content.user.name);
   const since = formatWhen(content.since, timeZone);
   const until = formatWhen(content.until, timeZone);
   const { page } = unsubscribeUrls(origin, options.unsubscribeToken);
   const prefs = `${origin}/preferences`;
-  const why = options.trigger === 'now' ? 'You asked for this digest with "Send me a digest now".' : `You get this ${content.period} digest because of your Trimout mail preferences.`;
+  const schedule = digestScheduleSentence(options.schedule);
+  const why =
+    options.trigger === 'now'
+      ? `You asked for this digest with "Send me a digest now". ${schedule}`
+      : `You get this digest because of your Trimout mail preferences. ${schedule}`;
 
   const text = [
     title,
@@ -242,7 +248,7 @@ export function renderDigest(content: DigestContent, options: RenderOptions): Ma
   const html = frame(title, `${e(content.company.name)} · from ${e(since)} to ${e(until)} (${e(timeZone)})`, body, footer);
   return {
     to: { name: content.user.name, address: content.user.email },
-    subject: digestSubject(content),
+    subject: digestSubject(content, options.schedule),
     text,
     html,
     headers: unsubscribeHeaders(origin, options.unsubscribeToken),
@@ -258,7 +264,7 @@ export interface CriticalAssignment {
   how: 'logged' | 'reassigned';
 }
 
-export function renderCriticalAssignment(a: CriticalAssignment, options: Omit<RenderOptions, 'trigger' | 'timeZone'>): MailMessage {
+export function renderCriticalAssignment(a: CriticalAssignment, options: Omit<RenderOptions, 'trigger' | 'timeZone' | 'schedule'>): MailMessage {
   const { origin } = options;
   const f = a.finding;
   const url = `${origin}${f.path}`;

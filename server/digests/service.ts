@@ -13,6 +13,7 @@
  */
 import type { Request } from 'express';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import type { DigestSchedule } from '../../shared/digestSchedule';
 import type { Env } from '../env';
 import type { MailService } from '../mail';
 import type { MailMessage } from '../mail/outbox';
@@ -20,6 +21,11 @@ import { buildDigestContent, companyFindings, findingsCounted, findingPath, type
 import { loadDigestRecipients, loadPreferences, type EffectivePreferences } from './preferences';
 import { renderCriticalAssignment, renderDigest } from './render';
 import { signUnsubscribeToken } from './unsubscribeToken';
+
+/** The saved schedule a digest names (shared/digestSchedule.ts words it). */
+export function scheduleOf(p: Pick<EffectivePreferences, 'digestFrequency' | 'digestWeekday' | 'digestHour' | 'timeZone'>): DigestSchedule {
+  return { frequency: p.digestFrequency, weekday: p.digestWeekday, hour: p.digestHour, timeZone: p.timeZone };
+}
 
 export interface DueDigest {
   userId: string;
@@ -222,6 +228,7 @@ export function createDigestService(options: DigestServiceOptions): DigestServic
       timeZone: prefs.timeZone,
       unsubscribeToken: service.unsubscribeToken(prefs.userId, 'digest'),
       trigger,
+      schedule: scheduleOf(prefs),
     });
     return { message, findings: findingsCounted(content) };
   }

@@ -136,8 +136,18 @@ it('send me a digest now → caught mail → finding link → unsubscribe link �
   await wide.page.getByTestId('digest-now-send').click();
   await wide.page.getByTestId('digest-now-sent').waitFor();
   const weekly = await smtp.waitFor((m) => m.to.includes(EMAIL) && /digest/i.test(m.subject));
-  expect(weekly.subject).toMatch(/^Weekly Trimout digest: /);
+  expect(weekly.subject).toMatch(/^Weekly Trimout digest \(Fridays\): /);
   await h.screenshot(wide.page, 'digest-now-weekly-wide');
+  // The screen and the mail say the same schedule (shared/digestSchedule.ts), never daily.
+  const sentence = /Your digest comes once a week, every Friday at 06:00 \(/;
+  expect(await wide.page.getByTestId('preferences-schedule').textContent()).toMatch(sentence);
+  expect(weekly.text).toMatch(sentence);
+  expect(weekly.text.split('\n')[0]).toMatch(/^Weekly digest for .+ \(Fridays\)$/);
+  expect(`${weekly.subject}\n${weekly.text}`).not.toMatch(/\bdaily\b|every day/i);
+  const weeklyView = await h.newPage(WIDE);
+  await weeklyView.page.setContent(weekly.html, { waitUntil: 'load' });
+  await h.screenshot(weeklyView.page, 'digest-mail-html-weekly-wide');
+  await weeklyView.context.close().catch(() => undefined);
 
   expect(problems).toEqual([]);
   expect(anon.problems).toEqual([]);

@@ -213,7 +213,7 @@ describe('escaping', () => {
       await Finding.update({ returnCount: 1 }, { where: { id: f.id }, transaction });
     });
     const content = (await buildDigestContent(db.sequelize, w.subA.id, 'daily'))!;
-    const message = renderDigest(content, { origin: 'https://punch.example.org', timeZone: 'UTC', unsubscribeToken: digests.unsubscribeToken(w.subA.id, 'digest'), trigger: 'now' });
+    const message = renderDigest(content, { origin: 'https://punch.example.org', timeZone: 'UTC', unsubscribeToken: digests.unsubscribeToken(w.subA.id, 'digest'), trigger: 'now', schedule: { frequency: 'daily', weekday: 1, hour: 7, timeZone: 'UTC' } });
     expect(message.html).not.toContain('<script>');
     expect(message.html).not.toContain('<img');
     expect(message.html).not.toContain('onerror=alert(1)>');

@@ -229,6 +229,55 @@ describe('"Send me a digest now"', () => {
   });
 });
 
+describe('the digest names the schedule the person chose', () => {
+  const version = (res: { headers: Record<string, unknown> }) => Number(/"v(\d+)"/.exec(String(res.headers.etag))![1]);
+  const firstLine = (text: string) => text.split('\n')[0]!;
+
+  it('weekly on Thursday: subject, first line and schedule sentence say weekly and Thursday (button and schedule alike); daily says daily', async () => {
+    const current = await gc.get('/api/me/preferences');
+    const saved = await gc.patch('/api/me/preferences', { digestFrequency: 'weekly', digestWeekday: 4, digestHour: 7 }, ifMatch(version(current)));
+    expect(saved.status).toBe(200);
+    let latest = saved;
+    try {
+      // "Send me a digest now", caught by the fake SMTP server.
+      smtp.clear();
+      const res = await gc.post('/api/me/digest', {}, { 'Idempotency-Key': `thursday-now-${Math.random().toString(36).slice(2)}` });
+      expect(res.status).toBe(202);
+      const now = await smtp.waitFor((m) => m.to.includes(w.gcManager.email));
+      expect(now.subject).toMatch(/^Weekly Trimout digest \(Thursdays\): /);
+      expect(firstLine(now.text)).toMatch(/^Weekly digest for .+ \(Thursdays\)$/);
+      expect(now.text).toMatch(/Your digest comes once a week, every Thursday at 07:00 \([A-Za-z_/]+\)\./);
+      expect(now.html).toMatch(/<h1[^>]*>Weekly digest for .+ \(Thursdays\)<\/h1>/);
+      expect(now.html).toContain('Your digest comes once a week, every Thursday at 07:00');
+      for (const part of [now.subject, now.text, now.html]) expect(part).not.toMatch(/\bdaily\b|every day/i);
+
+      // The scheduled send says the same.
+      smtp.clear();
+      const sent = await digests.sendScheduled({ userId: w.gcManager.id, period: 'weekly', periodKey: `weekly:named-${Math.random().toString(36).slice(2)}` }, 'test');
+      expect(sent.sent).toBe(true);
+      const scheduled = await smtp.waitFor((m) => m.to.includes(w.gcManager.email));
+      expect(scheduled.subject).toMatch(/^Weekly Trimout digest \(Thursdays\): /);
+      expect(firstLine(scheduled.text)).toMatch(/^Weekly digest for .+ \(Thursdays\)$/);
+      expect(scheduled.text).toMatch(/because of your Trimout mail preferences\. Your digest comes once a week, every Thursday at 07:00/);
+      for (const part of [scheduled.subject, scheduled.text, scheduled.html]) expect(part).not.toMatch(/\bdaily\b|every day/i);
+
+      // Back to daily at 06:00: daily everywhere, no weekday.
+      latest = await gc.patch('/api/me/preferences', { digestFrequency: 'daily', digestHour: 6 }, ifMatch(version(saved)));
+      expect(latest.status).toBe(200);
+      smtp.clear();
+      const again = await gc.post('/api/me/digest', {}, { 'Idempotency-Key': `daily-now-${Math.random().toString(36).slice(2)}` });
+      expect(again.status).toBe(202);
+      const daily = await smtp.waitFor((m) => m.to.includes(w.gcManager.email));
+      expect(daily.subject).toMatch(/^Daily Trimout digest: /);
+      expect(firstLine(daily.text)).toMatch(/^Daily digest for [^()]+$/);
+      expect(daily.text).toMatch(/Your digest comes every day at 06:00 \([A-Za-z_/]+\)\./);
+      for (const part of [daily.subject, daily.text, daily.html]) expect(part).not.toMatch(/weekly|Thursday|once a week/i);
+    } finally {
+      await gc.patch('/api/me/preferences', { digestFrequency: 'daily', digestHour: 7, digestWeekday: 1 }, ifMatch(version(latest)));
+    }
+  });
+});
+
 describe('unsubscribe links', () => {
   async function digestToken(signed: SignedIn, address: string): Promise<string> {
     smtp.clear();
