@@ -18,6 +18,7 @@ import { SeverityMark } from '../walk/SeverityMark';
 import { BeforeAfter } from './BeforeAfter';
 import { ReinspectControls } from './ReinspectControls';
 import { links } from '../links';
+import { daysWaiting, waitingWords } from '../../shared/rules/waiting';
 
 /**
  * The inspector's re-inspection queue: fixes waiting, grouped by level so one walk clears them;
@@ -143,6 +144,10 @@ function QueueCard({
         <View style={styles.fix} testID={`reinspection-${f.number}-fix`}>
           <AppText variant="small" muted>
             Fix by {fix.submittedBy.name}, {formatWhen(fix.submittedAt, timeZone)}
+          </AppText>
+          {/* Waiting on the inspector, not the company: never overdue, but how long it has waited shows. */}
+          <AppText variant="label" testID={`reinspection-${f.number}-waiting`}>
+            {waitingWords(daysWaiting(fix.submittedAt, timeZone))}
           </AppText>
           <AppText>“{fix.note}”</AppText>
         </View>
