@@ -1,9 +1,11 @@
 /**
- * A walk without signal, at phone size (390×844): the inspector keeps the level on the phone, goes
- * offline, checks units and logs findings with two photos each; everything is kept in the outbox
- * (IndexedDB) and shown as waiting to send, survives a reload while offline, and reaches the server
- * once back online, exactly once each, even with the network cut after the third request of the
- * sync (its answer lost after the server did the work). Photos are compared by SHA-256 as stored.
+ * A walk without signal, at phone size (390×844): the inspector starts a walk and keeps the level on
+ * the phone online, goes offline, returns a fixed finding with a reason (the re-inspection screen),
+ * checks 10 units (All OK where nothing is wrong) and logs 5 findings with two photos each;
+ * everything is kept in the outbox (IndexedDB) and shown as waiting to send, survives a reload while
+ * offline, and reaches the server once back online, exactly once each, even with the network cut
+ * after the third request of the sync (its answer lost after the server did the work). Counted in
+ * SQL; photos compared by SHA-256 as stored (the same bytes posted again online re-encode the same).
  * Then: a fix that waits while its finding is voided on the server needs attention, shown with both
  * versions, while the other queued fix goes through; and a second person signed in on the same
  * browser profile never sees nor sends the first one's queue.
@@ -27,10 +29,16 @@ let levelId = '';
 let mechanicalId = '';
 const suffix = randomUUID().slice(0, 4).toUpperCase();
 const levelName = `No signal ${suffix}`;
-const tags = [`IU-N${suffix}-01`, `IU-N${suffix}-02`, `IU-N${suffix}-03`, `IU-N${suffix}-04`] as const;
+/** The 10 units the walk checks. */
+const tags = Array.from({ length: 10 }, (_, i) => `IU-N${suffix}-${String(i + 1).padStart(2, '0')}`);
 const unitIds: string[] = [];
-/** The defect logged on the first three units (the fourth is checked with nothing wrong). */
-const DEFECTS = ['MT-01', 'MT-02', 'MT-04'] as const;
+/** The defect logged on each of the first five units (the other five are checked with nothing wrong). */
+const DEFECTS = ['MT-01', 'MT-02', 'MT-04', 'MT-01', 'MT-02'] as const;
+/** One more unit on the level, whose finding has a fix waiting for re-inspection (returned offline). */
+const fixedTag = `IU-N${suffix}-FX`;
+let fixed = { id: '', number: 0 };
+/** A unit checked with nothing wrong (the last test saves its check again). */
+const allOk = tags.length - 1;
 const inspector = DEMO_ACCOUNTS.find((a) => a.role === 'inspector')!;
 const gc = DEMO_ACCOUNTS.find((a) => a.role === 'gc_manager')!;
 const mechanical = DEMO_ACCOUNTS.find((a) => a.role === 'subcontractor' && a.company === 'mechanical')!;
@@ -52,6 +60,23 @@ beforeAll(async () => {
   levelId = level.id;
   const model = await UnitModel.create({ jobId, name: `Cassette NX-${suffix}`, modelNumber: null, unitKind: 'cassette_4way', nominalCapacity: null });
   for (const tag of tags) unitIds.push((await buildUnit(jobId, level.id, { tag, kind: 'cassette_4way', modelId: model.id })).id);
+  // A finding with a fix submitted, through the API: logged by the inspector, fixed with a photo by the mechanical sub.
+  const fixedUnit = await buildUnit(jobId, level.id, { tag: fixedTag, kind: 'cassette_4way', modelId: model.id });
+  const inspectorApi = await signIn(h.trimout.app, inspector.email, DEMO_PASSWORD);
+  const item = await CatalogueItem.findOne({ where: { jobId, code: 'MT-03' } });
+  const logged = await inspectorApi.agent
+    .post(`/api/jobs/${jobId}/findings`)
+    .set('X-CSRF-Token', inspectorApi.csrf)
+    .send({ catalogueItemId: item!.id, unitId: fixedUnit.id, companyId: mechanicalId, note: `Fixed before the walk ${suffix}` });
+  if (logged.status !== 201) throw new Error(`The finding was refused: ${logged.status} ${JSON.stringify(logged.body)}`);
+  fixed = logged.body as { id: string; number: number };
+  const sub = await signIn(h.trimout.app, mechanical.email, DEMO_PASSWORD);
+  const fix = await sub.agent
+    .post(`/api/jobs/${jobId}/findings/${fixed.id}/fixes`)
+    .set('X-CSRF-Token', sub.csrf)
+    .field('data', JSON.stringify({ note: `Bracing added ${suffix}` }))
+    .attach('photos', await jpeg({ r: 20, g: 20, b: 200 }), { filename: 'fixed.jpg', contentType: 'image/jpeg' });
+  if (fix.status !== 201) throw new Error(`The fix was refused: ${fix.status} ${JSON.stringify(fix.body)}`);
 });
 afterAll(async () => {
   await h?.close();
@@ -125,7 +150,7 @@ interface KeptItem {
   photos: string[];
 }
 
-it('a walk offline: checks and findings with photos kept through a reload, then sent once each, even with the network cut mid-sync', async () => {
+it('a walk offline: a return, 10 unit checks and 5 findings with 2 photos each kept through a reload, then sent once each, even with the network cut mid-sync', async () => {
   const { page, context, problems } = await h.newPage(PHONE);
   page.on('dialog', (d) => void d.accept());
   await h.signIn(page, inspector.email, DEMO_PASSWORD);
@@ -142,10 +167,20 @@ it('a walk offline: checks and findings with photos kept through a reload, then 
   await serviceWorkerControls(page);
   await page.getByTestId('kept-level-keep').click();
   await page.getByTestId('kept-level-status').waitFor();
+  // The fixed finding opened online (in the app's memory: a finding's page is not kept with the level).
+  await page.goto(`${h.baseUrl}/jobs/${jobId}/findings/${fixed.id}`);
+  await page.getByTestId('finding-reinspect').waitFor();
 
-  // No signal from here.
+  // No signal from here. The fix is returned with a reason through the re-inspection screen.
   await context.setOffline(true);
   await page.getByTestId('offline-banner').waitFor();
+  const reason = `Bracing still loose at the second rod ${suffix}.`;
+  await page.getByTestId('reinspect-reason').fill(reason);
+  await page.getByTestId('reinspect-return').click();
+  await page.getByTestId('header-outbox').filter({ hasText: '1 waiting to send' }).waitFor();
+  // The walk screen opens offline from the service worker, with the level kept on the phone.
+  await page.goto(`${h.baseUrl}/jobs/${jobId}/levels/${levelId}/walk`);
+  await page.getByTestId(`walk-unit-${tags[0]}`).waitFor();
   const photos: Buffer[] = [];
   for (const [i, tag] of tags.entries()) {
     await page.getByTestId(`walk-unit-${tag}`).click();
@@ -172,8 +207,8 @@ it('a walk offline: checks and findings with photos kept through a reload, then 
     await page.getByTestId(`walk-unit-${tag}-waiting`).waitFor();
   }
   // Saved on the phone, and said so: nothing pretends to be on the server.
-  expect(await page.getByTestId('level-walk-saved').textContent()).toBe(`Unit check of ${tags[3]} saved on this phone, waiting to send.`);
-  const expected = tags.length + DEFECTS.length;
+  expect(await page.getByTestId('level-walk-saved').textContent()).toBe(`Unit check of ${tags[allOk]} saved on this phone, waiting to send.`);
+  const expected = 1 + tags.length + DEFECTS.length;
   expect(await page.getByTestId('header-outbox').textContent()).toBe(`${expected} waiting to send`);
   expect(await page.getByTestId('offline-banner').textContent()).toContain(`${expected} waiting to send`);
   await page.getByTestId('level-walk-waiting').waitFor();
@@ -181,10 +216,12 @@ it('a walk offline: checks and findings with photos kept through a reload, then 
 
   // Kept on the device: one record per write, the photos as Blobs, the finding ids made on the phone.
   const kept = (await page.evaluate(READ_OUTBOX)) as KeptItem[];
-  expect(kept.map((k) => k.kind).sort()).toEqual([...Array(tags.length).fill('check'), ...Array(DEFECTS.length).fill('finding')].sort());
+  expect(kept.map((k) => k.kind).sort()).toEqual([...Array(tags.length).fill('check'), ...Array(DEFECTS.length).fill('finding'), 'reinspection'].sort());
+  expect(kept.find((k) => k.kind === 'reinspection')?.path).toBe(`/api/jobs/${jobId}/findings/${fixed.id}/reinspections`);
   const keptFindings = kept.filter((k) => k.kind === 'finding');
   expect(keptFindings.every((k) => k.photos.length === 2 && /^[0-9a-f-]{36}$/.test(k.data.id ?? ''))).toBe(true);
   expect(await count(`SELECT count(*) AS n FROM findings WHERE note LIKE $1`, [`Offline ${suffix}%`])).toBe(0);
+  expect(await count(`SELECT count(*) AS n FROM finding_events WHERE finding_id = $1 AND kind = 'returned'`, [fixed.id])).toBe(0);
 
   // A reload with no signal: the app opens from the service worker, the queue is intact and shown.
   await page.reload();
@@ -230,6 +267,11 @@ it('a walk offline: checks and findings with photos kept through a reload, then 
   const byPhoneId = await count(`SELECT count(*) AS n FROM findings WHERE id = ANY($1::uuid[])`, [keptFindings.map((k) => k.data.id)]);
   console.log(`offline walk synced: ${findings} findings, ${photoRows} photos, ${checks} unit checks (${onWalk} on the walk); ${posts} POSTs for ${expected} writes (the cut one sent again)`);
   expect({ findings, photoRows, checks, onWalk, byPhoneId }).toEqual({ findings: DEFECTS.length, photoRows: 2 * DEFECTS.length, checks: tags.length, onWalk: tags.length, byPhoneId: DEFECTS.length });
+  // The return: once, with the reason typed offline; the finding is open again, returned once.
+  const returned = await count(`SELECT count(*) AS n FROM finding_events WHERE finding_id = $1 AND kind = 'returned'`, [fixed.id]);
+  const withReason = await count(`SELECT count(*) AS n FROM finding_events WHERE finding_id = $1 AND kind = 'returned' AND reason = $2`, [fixed.id, reason]);
+  const reopened = await count(`SELECT count(*) AS n FROM findings WHERE id = $1 AND status = 'open' AND return_count = 1`, [fixed.id]);
+  expect({ returned, withReason, reopened }).toEqual({ returned: 1, withReason: 1, reopened: 1 });
 
   // The photos as stored: the same bytes as the kept Blobs posted again online (the server's re-encoding
   // is the same for the same bytes), compared by SHA-256.
@@ -328,13 +370,13 @@ it('a second person signed in on the same browser profile never sees nor sends t
   await context.clearCookies();
   await h.signIn(page, inspector.email, DEMO_PASSWORD);
   await page.goto(`${h.baseUrl}/jobs/${jobId}/levels/${levelId}/walk`);
-  await page.getByTestId(`walk-unit-${tags[3]}`).click();
+  await page.getByTestId(`walk-unit-${tags[allOk]}`).click();
   // Checked before (all OK): saved again as it is, a new unit check.
   await page.getByTestId('unit-check-save').waitFor();
   await context.setOffline(true);
   await page.getByTestId('unit-check-save').click();
   await page.getByTestId('header-outbox').filter({ hasText: '1 waiting to send' }).waitFor();
-  const before = await count(`SELECT count(*) AS n FROM unit_checks WHERE unit_id = $1`, [unitIds[3]]);
+  const before = await count(`SELECT count(*) AS n FROM unit_checks WHERE unit_id = $1`, [unitIds[allOk]]);
 
   // The inspector's session ends without signing out; the GC manager signs in on the same profile.
   await context.clearCookies();
@@ -346,13 +388,13 @@ it('a second person signed in on the same browser profile never sees nor sends t
   // Still on the device, still the inspector's, never sent with the GC manager's session.
   const kept = (await page.evaluate(READ_OUTBOX)) as KeptItem[];
   expect(kept.map((k) => k.kind)).toEqual(['check']);
-  expect(await count(`SELECT count(*) AS n FROM unit_checks WHERE unit_id = $1`, [unitIds[3]])).toBe(before);
+  expect(await count(`SELECT count(*) AS n FROM unit_checks WHERE unit_id = $1`, [unitIds[allOk]])).toBe(before);
 
   // The inspector signs in again: their check goes, once.
   await context.clearCookies();
   await h.signIn(page, inspector.email, DEMO_PASSWORD);
-  await until(async () => (await count(`SELECT count(*) AS n FROM unit_checks WHERE unit_id = $1`, [unitIds[3]])) === before + 1, 'the inspector’s check to be sent');
+  await until(async () => (await count(`SELECT count(*) AS n FROM unit_checks WHERE unit_id = $1`, [unitIds[allOk]])) === before + 1, 'the inspector’s check to be sent');
   await until(async () => ((await page.evaluate(READ_OUTBOX)) as KeptItem[]).length === 0, 'the outbox to be empty');
-  expect(await count(`SELECT count(*) AS n FROM unit_checks WHERE unit_id = $1`, [unitIds[3]])).toBe(before + 1);
+  expect(await count(`SELECT count(*) AS n FROM unit_checks WHERE unit_id = $1`, [unitIds[allOk]])).toBe(before + 1);
   await page.close();
 });
