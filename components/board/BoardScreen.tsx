@@ -16,6 +16,7 @@ import { links } from '../links';
 import { BackLink, BoardTabs } from './parts';
 import { RecurringList } from './RecurringList';
 import { TrendChart } from './TrendChart';
+import { usePointerWords } from '../ui/usePointerWords';
 
 /**
  * The levels board: the GC's first look at a job. Wide screen: a grid of levels against counts;
@@ -23,6 +24,7 @@ import { TrendChart } from './TrendChart';
  */
 export function BoardScreen({ jobId }: { jobId: string }) {
   const wide = useWide();
+  const { Press } = usePointerWords();
   const job = useJobQuery(jobId);
   const board = useBoardQuery(jobId);
   const trend = useTrendQuery(jobId, {});
@@ -38,7 +40,7 @@ export function BoardScreen({ jobId }: { jobId: string }) {
         </AppText>
         {board.data ? (
           <AppText muted testID="board-today">
-            Open, fix submitted and closed findings per level; overdue as of {formatDay(board.data.today)}. Tap a number to see its findings.
+            Open, fix submitted and closed findings per level; overdue as of {formatDay(board.data.today)}. {Press} a number to see its findings.
           </AppText>
         ) : null}
       </View>

@@ -3,7 +3,7 @@ import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { MAX_PHOTOS_PER_REQUEST } from '../../shared/rules/photos';
-import { addFindingPhotosSchema, NOTE_MAX, type AddFindingPhotosInput, type FindingDetail } from '../../shared/schemas/findings';
+import { addFindingPhotosSchema, NOTE_LIMIT, type AddFindingPhotosInput, type FindingDetail } from '../../shared/schemas/findings';
 import { FIX_AND_REINSPECTION_WORDS, PHOTO_STAGE_LABELS } from '../../shared/words';
 import { writeErrorMessage } from '../api/writeErrors';
 import { isQueued } from '../outbox';
@@ -12,6 +12,7 @@ import { addFindingPhotosWrite, useAddFindingPhotosMutation } from '../queries/c
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
+import { FormBanner } from '../ui/FormBanner';
 import { FormPhotos, FormText, setServerFieldErrors, withFormOnly } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
 import { ActionWrite, FINDING_WRITE_WORDS, isStale } from './rules';
@@ -38,7 +39,7 @@ export function AddPhotosForm({ jobId, finding, onStale, testID = 'add-photos' }
   const [slot] = useState(() => new ActionWrite());
   const [added, setAdded] = useState<{ count: number; waiting: boolean } | null>(null);
   const room = photoRoom(finding);
-  const { control, handleSubmit, setError, reset, watch, formState } = useForm<Values, unknown, Parsed>({
+  const { control, handleSubmit, setError, reset, watch } = useForm<Values, unknown, Parsed>({
     resolver: addPhotosResolver,
     defaultValues: { note: '', photos: [] },
   });
@@ -64,7 +65,6 @@ export function AddPhotosForm({ jobId, finding, onStale, testID = 'add-photos' }
       },
     });
   });
-  const formError = formState.errors.root?.message;
 
   return (
     <Card testID={testID}>
@@ -91,12 +91,8 @@ export function AddPhotosForm({ jobId, finding, onStale, testID = 'add-photos' }
             max={room}
             tooMany={`${finding.label} takes ${room} more photo${room === 1 ? '' : 's'} at most.`}
           />
-          <FormText control={control} name="note" label="What they show (optional)" maxLength={NOTE_MAX} testID={`${testID}-note`} compact />
-          {formError ? (
-            <Notice tone="error" testID={`${testID}-error`}>
-              {formError}
-            </Notice>
-          ) : null}
+          <FormText control={control} name="note" label="What they show (optional)" limit={NOTE_LIMIT} testID={`${testID}-note`} compact />
+          <FormBanner control={control} testID={`${testID}-error`} />
           <Button
             label={count ? `Add ${count} photo${count === 1 ? '' : 's'} to ${finding.label}` : `Add photos to ${finding.label}`}
             busy={add.isPending}

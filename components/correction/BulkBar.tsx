@@ -2,7 +2,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { REASON_MAX, bulkChangeSchema, type BulkChangeInput, type BulkChangeParsed, type FindingDto } from '../../shared/schemas/findings';
+import { REASON_LIMIT, bulkChangeSchema, type BulkChangeInput, type BulkChangeParsed, type FindingDto } from '../../shared/schemas/findings';
 import { dueOnProblem } from '../../shared/rules/pastDue';
 import type { JobCompanyDto } from '../../shared/schemas/setup';
 import type { Role } from '../../shared/words';
@@ -205,7 +205,7 @@ export function BulkBar({
             control={control}
             name={kind === 'reassign' ? 'change.reassign.reason' : 'change.dueOn.reason'}
             label={kind === 'reassign' ? 'Reason' : 'Reason (optional)'}
-            maxLength={REASON_MAX}
+            limit={REASON_LIMIT}
             testID={`${testID}-reason`}
           />
         </View>

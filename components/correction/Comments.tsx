@@ -1,14 +1,14 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { COMMENT_MAX, commentSchema } from '../../shared/schemas/findings';
+import { COMMENT_LIMIT, commentSchema } from '../../shared/schemas/findings';
 import { writeErrorMessage } from '../api/writeErrors';
 import { formatWhen } from '../findings/due';
 import { commentWrite, useAddCommentMutation, useCommentsQuery } from '../queries/correction';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
-import { Notice } from '../ui/Notice';
+import { FormBanner } from '../ui/FormBanner';
 import { FormText, setServerFieldErrors } from '../ui/FormFields';
 import { ErrorState, LoadingState } from '../ui/States';
 import { FINDING_WRITE_WORDS } from './rules';
@@ -17,7 +17,7 @@ import { FINDING_WRITE_WORDS } from './rules';
 export function Comments({ jobId, findingId, timeZone }: { jobId: string; findingId: string; timeZone: string }) {
   const comments = useCommentsQuery(jobId, findingId);
   const add = useAddCommentMutation(jobId, findingId);
-  const { control, handleSubmit, reset, setError, formState } = useForm({
+  const { control, handleSubmit, reset, setError } = useForm({
     resolver: zodResolver(commentSchema),
     defaultValues: { text: '' },
   });
@@ -61,15 +61,11 @@ export function Comments({ jobId, findingId, timeZone }: { jobId: string; findin
         label="Add a comment"
         multiline
         style={multilineStyle}
-        maxLength={COMMENT_MAX}
+        limit={COMMENT_LIMIT}
         testID="finding-comment-text"
         compact
       />
-      {formState.errors.root?.message ? (
-        <Notice tone="error" testID="finding-comment-send-error">
-          {formState.errors.root.message}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="finding-comment-send-error" />
       <Button label="Add comment" tone="secondary" busy={add.isPending} onPress={send} testID="finding-comment-send" />
     </View>
   );

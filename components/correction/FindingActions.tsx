@@ -4,8 +4,8 @@ import { useEffect, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import {
-  NOTE_MAX,
-  REASON_MAX,
+  NOTE_LIMIT,
+  REASON_LIMIT,
   findingChangeSchema,
   type FindingAction,
   type FindingChangeInput,
@@ -21,6 +21,7 @@ import { space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
+import { FormBanner } from '../ui/FormBanner';
 import { FormSelect, FormSeverity, FormText, setServerFieldErrors } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
 import { Segmented } from '../ui/Segmented';
@@ -94,7 +95,7 @@ export function FindingActions({
 
 function CloseOnWalk({ jobId, finding, onStale }: { jobId: string; finding: FindingDetail; onStale: () => void }) {
   const write = useFindingWriteMutation(jobId);
-  const { control, handleSubmit, setError, reset, formState } = useForm<FindingChangeInput, unknown, FindingChangeParsed>({
+  const { control, handleSubmit, setError, reset } = useForm<FindingChangeInput, unknown, FindingChangeParsed>({
     resolver: zodResolver(findingChangeSchema),
     defaultValues: { close: { note: '' } },
   });
@@ -109,16 +110,11 @@ function CloseOnWalk({ jobId, finding, onStale }: { jobId: string; finding: Find
       },
     });
   });
-  const error = formState.errors.root?.message;
   return (
     <Card testID="finding-close">
       <AppText variant="heading">Found fixed on this walk?</AppText>
-      <FormText control={control} name="close.note" label="Note (optional)" maxLength={NOTE_MAX} testID="finding-close-note" compact />
-      {error ? (
-        <Notice tone="error" testID="finding-close-error">
-          {error}
-        </Notice>
-      ) : null}
+      <FormText control={control} name="close.note" label="Note (optional)" limit={NOTE_LIMIT} testID="finding-close-note" compact />
+      <FormBanner control={control} testID="finding-close-error" />
       <Button label="Close (fixed on walk)" tone="secondary" busy={write.isPending} onPress={send} testID="finding-close-submit" />
     </Card>
   );
@@ -184,7 +180,7 @@ function ChangePanel({
   const [backdate, setBackdate] = useState(false);
   const today = todayIn(timeZone);
   const typed = useRef<Typed>({ companyId: undefined, severity: finding.severity, dueOn: finding.dueOn, reason: '' });
-  const { control, handleSubmit, setError, reset, getValues, watch, formState } = useForm<FindingChangeInput, unknown, FindingChangeParsed>({
+  const { control, handleSubmit, setError, reset, getValues, watch } = useForm<FindingChangeInput, unknown, FindingChangeParsed>({
     resolver: zodResolver(findingChangeSchema),
     defaultValues: changeFor(current, typed.current),
   });
@@ -240,7 +236,6 @@ function ChangePanel({
 
   const reasonRequired = current === 'reassign' || current === 'void' || current === 'reopen';
   const others = (companies.data ?? []).filter((c) => c.id !== finding.companyId);
-  const formError = formState.errors.root?.message;
   return (
     <Card testID="finding-change">
       <AppText variant="title" role="heading">
@@ -280,15 +275,11 @@ function ChangePanel({
         control={control}
         name={`${key}.reason`}
         label={reasonRequired ? 'Reason' : 'Reason (optional)'}
-        maxLength={REASON_MAX}
+        limit={REASON_LIMIT}
         testID="finding-change-reason"
         compact
       />
-      {formError ? (
-        <Notice tone="error" testID="finding-change-error">
-          {formError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="finding-change-error" />
       {saved ? (
         <Notice tone="success" testID="finding-change-saved">
           {saved}

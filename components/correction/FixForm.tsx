@@ -4,7 +4,7 @@ import { useEffect, useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import type { UnitSystem } from '../../shared/catalogue/types';
 import { fixNeedsMeasurement, newMeasurementNeeded, noLimits, sameLimitResolver } from '../../shared/rules/remeasure';
-import { NOTE_MAX, submitFixSchema, type FindingDetail, type SubmitFixInput } from '../../shared/schemas/findings';
+import { NOTE_LIMIT, submitFixSchema, type FindingDetail, type SubmitFixInput } from '../../shared/schemas/findings';
 import { writeErrorMessage } from '../api/writeErrors';
 import { isQueued } from '../outbox';
 import { MAX_PHOTOS } from '../findings/FindingForm';
@@ -13,6 +13,7 @@ import { submitFixWrite, useSubmitFixMutation } from '../queries/correction';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
+import { FormBanner } from '../ui/FormBanner';
 import { FormMeasured, FormPhotos, FormText, setServerFieldErrors, withFormOnly } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
 import { ActionWrite, FINDING_WRITE_WORDS, isStale } from './rules';
@@ -62,7 +63,7 @@ export function FixForm({
   const resolver = useMemo(() => fixFormResolver(finding), [finding]);
   // The limit the finding was logged against; the server decides with the unit's limits where it had none.
   const resolve = useMemo(() => (rule ? sameLimitResolver(rule, finding.ruleResult, noLimits) : noLimits), [rule, finding.ruleResult]);
-  const { control, handleSubmit, setError, reset, watch, formState } = useForm<FixFormValues, unknown, FixFormParsed>({
+  const { control, handleSubmit, setError, reset, watch } = useForm<FixFormValues, unknown, FixFormParsed>({
     resolver,
     defaultValues: { note: '', measuredText: null, photos: [] },
   });
@@ -90,7 +91,6 @@ export function FixForm({
       },
     });
   });
-  const formError = formState.errors.root?.message;
 
   // No signal: the fix is kept on this phone and says so; it is not with the inspector yet.
   if (done && queued) {
@@ -125,7 +125,7 @@ export function FixForm({
         label="What was fixed"
         multiline
         style={multilineStyle}
-        maxLength={NOTE_MAX}
+        limit={NOTE_LIMIT}
         placeholder="e.g. Replaced the chain with threaded rod, nuts and washers above and below."
         testID={`${testID}-note`}
         compact
@@ -145,11 +145,7 @@ export function FixForm({
         max={MAX_PHOTOS}
         tooMany={`At most ${MAX_PHOTOS} photos with a fix.`}
       />
-      {formError ? (
-        <Notice tone="error" testID={`${testID}-error`}>
-          {formError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID={`${testID}-error`} />
       <Button
         label={photoCount ? `Submit fix with ${photoCount} photo${photoCount === 1 ? '' : 's'}` : 'Submit fix'}
         busy={submit.isPending}

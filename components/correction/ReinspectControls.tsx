@@ -7,7 +7,7 @@ import type { RuleResult } from '../../shared/calc/rules';
 import type { MeasuredRule, UnitSystem } from '../../shared/catalogue/types';
 import { MAX_PHOTOS_PER_REQUEST } from '../../shared/rules/photos';
 import { noLimits, sameLimitResolver } from '../../shared/rules/remeasure';
-import { REASON_MAX, reinspectionSchema, type FindingDetail, type ReinspectionInput, type ReinspectionVerdict } from '../../shared/schemas/findings';
+import { REASON_LIMIT, reinspectionSchema, type FindingDetail, type ReinspectionInput, type ReinspectionVerdict } from '../../shared/schemas/findings';
 import { PHOTO_STAGE_LABELS } from '../../shared/words';
 import { writeErrorMessage } from '../api/writeErrors';
 import type { PickedPhoto } from '../findings/PhotoPicker.types';
@@ -16,8 +16,8 @@ import { reinspectionWrite, useFindingWriteMutation } from '../queries/correctio
 import { space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
+import { FormBanner } from '../ui/FormBanner';
 import { FormMeasured, FormPhotos, FormText, setServerFieldErrors, withFormOnly } from '../ui/FormFields';
-import { Notice } from '../ui/Notice';
 import { ActionWrite, FINDING_WRITE_WORDS, isStale } from './rules';
 
 type ReinspectValues = ReinspectionInput & { photos: PickedPhoto[] };
@@ -55,7 +55,7 @@ export function ReinspectControls({
   const write = useFindingWriteMutation(jobId);
   const [slot] = useState(() => new ActionWrite());
   const [pending, setPending] = useState<ReinspectionVerdict | null>(null);
-  const { control, handleSubmit, setValue, getValues, setError, reset, watch, formState } = useForm<ReinspectValues, unknown, ReinspectParsed>({
+  const { control, handleSubmit, setValue, getValues, setError, reset, watch } = useForm<ReinspectValues, unknown, ReinspectParsed>({
     resolver,
     defaultValues: { verdict: 'accept', reason: '', measuredText: null, photos: [] },
   });
@@ -88,7 +88,6 @@ export function ReinspectControls({
       });
     })();
   }
-  const error = formState.errors.root?.message;
 
   return (
     <View style={styles.wrap} testID={testID}>
@@ -111,16 +110,12 @@ export function ReinspectControls({
         control={control}
         name="reason"
         label={`Reason (needed to return ${finding.label})`}
-        maxLength={REASON_MAX}
+        limit={REASON_LIMIT}
         placeholder="e.g. Drain still falls back toward the unit."
         testID={`${testID}-reason`}
         compact
       />
-      {error ? (
-        <Notice tone="error" testID={`${testID}-error`}>
-          {error}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID={`${testID}-error`} />
       <View style={styles.row}>
         <Button
           label="✓ Accept fix"

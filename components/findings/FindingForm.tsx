@@ -5,7 +5,7 @@ import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { LimitResolver } from '../../shared/calc/rules';
 import { CATALOGUE_GROUPS } from '../../shared/catalogue/types';
-import { createFindingSchema, type CreateFindingInput, type CreateFindingParsed } from '../../shared/schemas/findings';
+import { createFindingSchema, DEFECT_TITLE_LIMIT, NOTE_LIMIT, type CreateFindingInput, type CreateFindingParsed } from '../../shared/schemas/findings';
 import type { CatalogueItemDto, JobDetail } from '../../shared/schemas/setup';
 import { SEVERITY_LABELS, SOMETHING_ELSE, TRADES, type Severity, type TradeKey, type UnitKindKey } from '../../shared/words';
 import { ApiError } from '../api/client';
@@ -20,8 +20,8 @@ import { space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
+import { FormBanner } from '../ui/FormBanner';
 import { FormMeasured, FormPhotos, FormSelect, FormSeverity, FormText, withFormOnly } from '../ui/FormFields';
-import { Notice } from '../ui/Notice';
 import { ErrorState, LoadingState } from '../ui/States';
 import { ItemCaution } from '../walk/ItemCaution';
 import { dueOnProblem } from '../../shared/rules/pastDue';
@@ -241,7 +241,6 @@ function FindingFormBody({
     },
     () => setError('root', { message: 'Check the fields marked below.' }),
   );
-  const formError = formState.errors.root?.message;
 
   return (
     <View style={styles.form} testID={testID}>
@@ -264,6 +263,7 @@ function FindingFormBody({
               label={SOMETHING_ELSE.titleLabel}
               testID={`${testID}-title`}
               placeholder="e.g. Return grille hanging loose"
+              limit={DEFECT_TITLE_LIMIT}
               hint="A few words, the same each time: findings with the same words count together as a recurring defect."
               compact
             />
@@ -347,6 +347,7 @@ function FindingFormBody({
         label="Note (optional)"
         testID={`${testID}-note`}
         placeholder="Where exactly, what you saw"
+        limit={NOTE_LIMIT}
         multiline
         numberOfLines={3}
         style={styles.note}
@@ -355,11 +356,7 @@ function FindingFormBody({
 
       <FormPhotos control={control} name="photos" label="Photos" testID={testID} max={MAX_PHOTOS} tooMany={`At most ${MAX_PHOTOS} photos per finding.`} />
 
-      {formError ? (
-        <Notice tone="error" testID={`${testID}-error`}>
-          {formError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID={`${testID}-error`} />
       <Button label={photoCount ? `Log finding with ${photoCount} photo${photoCount === 1 ? '' : 's'}` : 'Log finding'} testID={`${testID}-submit`} busy={create.isPending} onPress={submit} />
       {onCancel ? (
         <Button

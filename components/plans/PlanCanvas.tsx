@@ -11,6 +11,7 @@ import { FindingPinMark, UnitPinMark } from './PinMark';
 import { findingPinLabel } from './pinStyle';
 import { toViewport, type Size, type ViewState } from './planView';
 import type { PlanViewerProps } from './PlanViewer.types';
+import { usePointerWords } from '../ui/usePointerWords';
 
 const FINDING_PIN = 34;
 const UNIT_PIN = 22;
@@ -34,6 +35,7 @@ export const PlanCanvas = forwardRef<View, PlanCanvasProps>(function PlanCanvas(
   const w = base.w * view.scale;
   const h = base.h * view.scale;
   const showTags = view.scale >= 2;
+  const { press } = usePointerWords();
   return (
     <View style={styles.frame}>
       <View style={[styles.border, placing && styles.placing]}>
@@ -42,7 +44,7 @@ export const PlanCanvas = forwardRef<View, PlanCanvasProps>(function PlanCanvas(
           onLayout={(e) => onLayoutWidth(e.nativeEvent.layout.width)}
           style={[styles.viewport, { height: viewport.h }]}
           testID="plan-viewport"
-          accessibilityLabel={placing ? 'Plan: tap where the item is' : 'Plan'}
+          accessibilityLabel={placing ? `Plan: ${press} where the item is` : 'Plan'}
           {...gestureProps}
         >
           {viewport.w > 0 ? (

@@ -23,6 +23,7 @@ import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { usePointerWords } from '../ui/usePointerWords';
 import { useWide } from '../ui/useWide';
 import { FindingPinMark, UnitPinMark } from './PinMark';
 import { PlanFilePicker } from './PlanFilePicker';
@@ -76,6 +77,7 @@ function PlanBody({ job, level, place }: { job: JobDetail; level: LevelDto; plac
   const [placed, setPlaced] = useState<{ kind: PlaceKind; id: string; name: string } | null>(null);
   const [pickError, setPickError] = useState<string | null>(null);
   const [confirmRemove, setConfirmRemove] = useState(false);
+  const { Press } = usePointerWords();
   const canUpload = job.role === 'gc_manager' || job.role === 'inspector';
   const canPinFindings = canUpload;
   const canPinUnits = job.role === 'gc_manager';
@@ -181,7 +183,7 @@ function PlanBody({ job, level, place }: { job: JobDetail; level: LevelDto; plac
               {missingTarget
                 ? 'That item is not on this level (or not yours to see). Pick another below.'
                 : target
-                  ? `Tap the plan where it is${target.item.pinX !== null ? ' (it moves from where it is now)' : ''}. Pinch or use + and − to zoom first.`
+                  ? `${Press} the plan where it is${target.item.pinX !== null ? ' (it moves from where it is now)' : ''}. Pinch or use + and − to zoom first.`
                   : 'Loading…'}
             </Notice>
           ) : null}
@@ -195,7 +197,7 @@ function PlanBody({ job, level, place }: { job: JobDetail; level: LevelDto; plac
           ) : null}
           {placePin.isError ? (
             <Notice tone="error" testID="plan-place-error">
-              {isConflict(placePin.error) ? 'Someone changed it meanwhile; the plan has been reloaded. Tap again.' : placePin.error.message}
+              {isConflict(placePin.error) ? `Someone changed it meanwhile; the plan has been reloaded. ${Press} again.` : placePin.error.message}
             </Notice>
           ) : null}
           {placed ? (
@@ -234,7 +236,7 @@ function PlanBody({ job, level, place }: { job: JobDetail; level: LevelDto; plac
           <AppText variant="small" muted testID="plan-counts">
             {pins.isPending
               ? 'Loading the pins…'
-              : `${findingPins.length} finding${findingPins.length === 1 ? '' : 's'} and ${unitPins.length} unit${unitPins.length === 1 ? '' : 's'} on the plan. Tap a pin to open it.`}
+              : `${findingPins.length} finding${findingPins.length === 1 ? '' : 's'} and ${unitPins.length} unit${unitPins.length === 1 ? '' : 's'} on the plan. ${Press} a pin to open it.`}
           </AppText>
           {wide ? null : (
             <Card>

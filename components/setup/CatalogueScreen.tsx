@@ -6,6 +6,7 @@ import type { z } from 'zod';
 import { CODE_LIMITS } from '../../shared/calc/limits';
 import { CATALOGUE_GROUPS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type LimitRef } from '../../shared/catalogue/types';
 import {
+  CATALOGUE_TEXT_LIMITS,
   createCatalogueItemSchema,
   updateCatalogueItemSchema,
   type CatalogueItemDto,
@@ -23,6 +24,7 @@ import { Card } from '../ui/Card';
 import { Notice, SafetyCaution } from '../ui/Notice';
 import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
+import { FormBanner } from '../ui/FormBanner';
 import { FormChips, FormSegmented, FormSelect, FormText, preparedFor } from '../ui/FormFields';
 import { useWide } from '../ui/useWide';
 import { TRADE_LABEL } from './CompaniesScreen';
@@ -368,11 +370,7 @@ function CatalogueForm({ job, existing, onDone }: { job: JobDetail; existing?: C
   return (
     <Card testID="catalogue-form">
       <AppText variant="heading">{existing ? `Edit ${existing.code}` : 'New defect type'}</AppText>
-      {errors.root?.message ? (
-        <Notice tone="error" testID="catalogue-form-error">
-          {errors.root.message}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="catalogue-form-error" />
       <View style={pair}>
         {!existing ? (
           <View style={styles.cell}>
@@ -384,7 +382,7 @@ function CatalogueForm({ job, existing, onDone }: { job: JobDetail; existing?: C
         </View>
       </View>
       <FormText control={control} name="title" label="Title" testID="catalogue-title-input" />
-      <FormText control={control} name="description" label="Description" testID="catalogue-description-input" multiline style={styles.multi} />
+      <FormText control={control} name="description" label="Description" testID="catalogue-description-input" limit={CATALOGUE_TEXT_LIMITS.description} multiline style={styles.multi} />
       <FormChips control={control} name="unitKinds" label="Applies to" options={UNIT_KINDS.map((k) => ({ value: k.key, label: k.label }))} testID="catalogue-kinds-input" />
       <View style={pair}>
         <View style={styles.cell}>
@@ -400,12 +398,13 @@ function CatalogueForm({ job, existing, onDone }: { job: JobDetail; existing?: C
           <FormSelect control={control} name="trade" label="Usual trade" testID="catalogue-trade-input" options={TRADES.map((t) => ({ value: t.key, label: t.label }))} />
         </View>
       </View>
-      <FormText control={control} name="fixGuidance" label="How to fix" testID="catalogue-fix-input" multiline style={styles.multi} />
+      <FormText control={control} name="fixGuidance" label="How to fix" testID="catalogue-fix-input" limit={CATALOGUE_TEXT_LIMITS.fixGuidance} multiline style={styles.multi} />
       <FormText
         control={control}
         name="caution"
         label="Caution (optional)"
         testID="catalogue-caution-input"
+        limit={CATALOGUE_TEXT_LIMITS.caution}
         multiline
         style={styles.multi}
         hint="For hazardous work: electrical, refrigerant, brazing, lifting, overhead."

@@ -10,6 +10,7 @@ import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
+import { FormBanner } from '../ui/FormBanner';
 import { FormChips, FormSelect, FormText } from '../ui/FormFields';
 import { Notice } from '../ui/Notice';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
@@ -172,7 +173,7 @@ const addCompanyResolver: Resolver<AddCompanyValues, unknown, AddJobCompanyInput
 function AddCompany({ job, onDone, existing }: { job: JobDetail; onDone: () => void; existing: JobCompanyDto[] }) {
   const add = useAddCompanyMutation(job.id);
   const known = useKnownCompaniesQuery(true);
-  const { control, handleSubmit, setError, watch, formState } = useForm<AddCompanyValues, unknown, AddJobCompanyInput>({
+  const { control, handleSubmit, setError, watch } = useForm<AddCompanyValues, unknown, AddJobCompanyInput>({
     resolver: addCompanyResolver,
     defaultValues: { companyId: undefined, name: '', trades: [] },
   });
@@ -192,11 +193,7 @@ function AddCompany({ job, onDone, existing }: { job: JobDetail; onDone: () => v
   return (
     <Card testID="company-form">
       <AppText variant="heading">Add a company</AppText>
-      {formState.errors.root?.message ? (
-        <Notice tone="error" testID="company-form-error">
-          {formState.errors.root.message}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="company-form-error" />
       {knownOptions.length > 0 ? (
         <FormSelect control={control} name="companyId" label="A company you already work with" testID="company-known-input" placeholder="— a new company —" options={knownOptions} />
       ) : null}

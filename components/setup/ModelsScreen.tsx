@@ -15,6 +15,7 @@ import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
+import { FormBanner } from '../ui/FormBanner';
 import { FormQuantity, FormSelect, FormText, preparedFor } from '../ui/FormFields';
 import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
@@ -163,7 +164,7 @@ function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitM
   const update = useUpdateModelMutation(job.id);
   const metric = job.unitSystem === 'metric';
   const [resolver] = useState(() => modelResolver(existing));
-  const { control, handleSubmit, setError, formState } = useForm<ModelFormValues, unknown, ModelFormParsed>({
+  const { control, handleSubmit, setError } = useForm<ModelFormValues, unknown, ModelFormParsed>({
     resolver,
     defaultValues: {
       name: existing?.name ?? '',
@@ -195,11 +196,7 @@ function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitM
   return (
     <Card testID="model-form">
       <AppText variant="heading">{existing ? `Edit ${existing.name}` : 'New unit model'}</AppText>
-      {formState.errors.root?.message ? (
-        <Notice tone="error" testID="model-form-error">
-          {formState.errors.root.message}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="model-form-error" />
       <View style={wide ? styles.pair : null}>
         <View style={styles.cell}>
           <FormText control={control} name="name" label="Model name" testID="model-name-input" placeholder="e.g. Cassette 24" />

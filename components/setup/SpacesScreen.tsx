@@ -13,11 +13,11 @@ import { Badge } from '../ui/Badge';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
 import { Chips } from '../ui/Chips';
-import { Notice } from '../ui/Notice';
 import { Segmented } from '../ui/Segmented';
 import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
+import { FormBanner } from '../ui/FormBanner';
 import { FormQuantity, FormSelect, FormText } from '../ui/FormFields';
 import { writeErrorMessage } from '../api/writeErrors';
 import { showServerErrors } from './formErrors';
@@ -157,7 +157,7 @@ function SpaceForm({ job, levelId, existing, onDone }: { job: JobDetail; levelId
   const metric = job.unitSystem === 'metric';
   const siblings = useSpacesQuery(job.id, levelId);
   const others = (siblings.data ?? []).filter((x) => x.id !== existing?.id);
-  const { control, handleSubmit, reset, setError, formState } = useForm({
+  const { control, handleSubmit, reset, setError } = useForm({
     resolver: zodResolver(createSpaceSchema),
     defaultValues: {
       levelId,
@@ -185,11 +185,7 @@ function SpaceForm({ job, levelId, existing, onDone }: { job: JobDetail; levelId
   return (
     <Card testID={existing ? `space-form-${existing.name}` : 'space-add'}>
       <AppText variant="heading">{existing ? `Edit ${existing.name}` : 'Add a space'}</AppText>
-      {formState.errors.root?.message ? (
-        <Notice tone="error" testID="space-form-error">
-          {formState.errors.root.message}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="space-form-error" />
       <FormText control={control} name="name" label="Space name" testID="space-name-input" placeholder="e.g. Office 301, Corridor" />
       <View style={wide ? styles.pair : null}>
         <View style={styles.cell}>

@@ -24,6 +24,7 @@ import { Notice } from '../ui/Notice';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
 import { CONCENTRATION_STATUS, ConcentrationResultView } from './ConcentrationResult';
+import { FormBanner } from '../ui/FormBanner';
 import { FormQuantity, FormSelect, FormText, preparedFor } from '../ui/FormFields';
 import { showServerErrors, writeErrorMessage } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
@@ -174,7 +175,7 @@ function SystemForm({ job, existing, onDone }: { job: JobDetail; existing?: Syst
   const create = useCreateSystemMutation(job.id);
   const update = useUpdateSystemMutation(job.id);
   const metric = job.unitSystem === 'metric';
-  const { control, handleSubmit, setError, formState, watch } = useForm<SystemFormValues, unknown, CreateSystemParsed>({
+  const { control, handleSubmit, setError, watch } = useForm<SystemFormValues, unknown, CreateSystemParsed>({
     resolver: systemResolver,
     defaultValues: {
       name: existing?.name ?? '',
@@ -205,11 +206,7 @@ function SystemForm({ job, existing, onDone }: { job: JobDetail; existing?: Syst
   return (
     <Card testID={existing ? `system-form-${existing.name}` : 'system-form'}>
       <AppText variant="heading">{existing ? `Edit ${existing.name}` : 'New system'}</AppText>
-      {formState.errors.root?.message ? (
-        <Notice tone="error" testID="system-form-error">
-          {formState.errors.root.message}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="system-form-error" />
       <View style={wide ? styles.pair : null}>
         <View style={styles.cell}>
           <FormText control={control} name="name" label="System name" testID="system-name-input" placeholder="e.g. VRF-3 (north)" />

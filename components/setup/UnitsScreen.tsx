@@ -27,6 +27,7 @@ import { Notice } from '../ui/Notice';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { Table, type Column } from '../ui/Table';
 import { useWide } from '../ui/useWide';
+import { FormBanner } from '../ui/FormBanner';
 import { FormQuantity, FormSelect, FormText } from '../ui/FormFields';
 import { writeErrorMessage } from '../api/writeErrors';
 import { showServerErrors } from './formErrors';
@@ -186,7 +187,7 @@ function UnitForm({
   const remove = useDeleteUnitMutation(job.id);
   const [removeError, setRemoveError] = useState<string | null>(null);
   const metric = job.unitSystem === 'metric';
-  const { control, handleSubmit, setError, formState, watch, reset, getValues, setValue } = useForm({
+  const { control, handleSubmit, setError, watch, reset, getValues, setValue } = useForm({
     resolver: zodResolver(createUnitSchema),
     defaultValues: {
       tag: existing?.tag ?? '',
@@ -233,11 +234,7 @@ function UnitForm({
   return (
     <Card testID="unit-form">
       <AppText variant="heading">{existing ? `Edit ${existing.tag}` : 'Add a unit'}</AppText>
-      {formState.errors.root?.message ? (
-        <Notice tone="error" testID="unit-form-error">
-          {formState.errors.root.message}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="unit-form-error" />
       {removeError ? <Notice tone="error">{removeError}</Notice> : null}
       <View style={pair}>
         <View style={styles.cell}>

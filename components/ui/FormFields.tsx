@@ -18,6 +18,7 @@ import {
 import { StyleSheet, View, type TextInput, type TextInputProps } from 'react-native';
 import type { LimitResolver } from '../../shared/calc/rules';
 import type { MeasuredRule, UnitSystem } from '../../shared/catalogue/types';
+import type { TextLimit } from '../../shared/schemas/fields';
 import type { Severity } from '../../shared/words';
 import { ApiError } from '../api/client';
 import { CameraCapture } from '../findings/CameraCapture';
@@ -29,6 +30,7 @@ import { colors, space } from '../theme';
 import { MeasuredField } from '../walk/MeasuredField';
 import { AppText } from './AppText';
 import { Chips } from './Chips';
+import { useFieldLabel } from './FormBanner';
 import { Segmented } from './Segmented';
 import { Select, type SelectOption } from './Select';
 import { TextField } from './TextField';
@@ -43,7 +45,11 @@ interface Base<T extends FieldValues> {
   hint?: string;
 }
 
-/** Text; an emptied optional field is sent as null (cleared), not as "". */
+/**
+ * Text; an emptied optional field is sent as null (cleared), not as "". A text with a length limit
+ * takes the schema's `limit` (never maxLength, which cuts a paste without a word): the box counts
+ * down near it, and text past it is kept and marked with the schema's own message.
+ */
 export function FormText<T extends FieldValues>({
   control,
   name,
@@ -52,12 +58,18 @@ export function FormText<T extends FieldValues>({
   hint,
   nullable,
   inputRef,
+  limit,
   ...input
-}: Base<T> & { nullable?: boolean; inputRef?: Ref<TextInput>; compact?: boolean } & Omit<TextInputProps, 'value' | 'onChangeText' | 'testID'>) {
+}: Base<T> & { nullable?: boolean; inputRef?: Ref<TextInput>; compact?: boolean; limit?: TextLimit } & Omit<
+    TextInputProps,
+    'value' | 'onChangeText' | 'testID' | 'maxLength'
+  >) {
   const { field, fieldState } = useController({ control, name });
+  useFieldLabel(control, name, label);
   return (
     <TextField
       {...input}
+      limit={limit}
       ref={inputRef}
       testID={testID}
       label={label}
@@ -90,6 +102,7 @@ export function FormSelect<T extends FieldValues>({
   onChosen?: (value: string) => void;
 }) {
   const { field, fieldState } = useController({ control, name });
+  useFieldLabel(control, name, label);
   return (
     <Select
       testID={testID}
@@ -131,6 +144,7 @@ export function FormQuantity<T extends FieldValues>({
   const [unit, setUnit] = useState(defaultUnit);
   const [raw, setRaw] = useState<string | null>(null);
   const { field, fieldState } = useController({ control, name });
+  useFieldLabel(control, name, label);
   const toValue = (text: string, u: string) => (text.trim() === '' ? null : withUnit(text, u));
   const current = typeof field.value === 'string' ? field.value : null;
   // What was typed, while it still stands for the form's value (a reset clears it).
@@ -177,6 +191,7 @@ export function FormSegmented<T extends FieldValues, V extends string>({
   onChosen,
 }: Base<T> & { options: readonly { value: V; label: string }[]; onChosen?: (value: V) => void }) {
   const { field, fieldState } = useController({ control, name });
+  useFieldLabel(control, name, label);
   return (
     <View>
       <Segmented<V>
@@ -203,6 +218,7 @@ export function FormChips<T extends FieldValues, V extends string>({
   options,
 }: Base<T> & { options: readonly { value: V; label: string }[] }) {
   const { field, fieldState } = useController({ control, name });
+  useFieldLabel(control, name, label);
   return (
     <Chips<V>
       label={label}
@@ -223,6 +239,7 @@ export function FormSeverity<T extends FieldValues>({
   onChosen,
 }: Omit<Base<T>, 'label'> & { onChosen?: (value: Severity) => void }) {
   const { field, fieldState } = useController({ control, name });
+  useFieldLabel(control, name, 'Severity');
   return (
     <View>
       <SeverityPicker
@@ -251,6 +268,7 @@ export function FormMeasured<T extends FieldValues>({
   system,
 }: Omit<Base<T>, 'label'> & { rule: MeasuredRule; resolve: LimitResolver; system: UnitSystem }) {
   const { field, fieldState } = useController({ control, name });
+  useFieldLabel(control, name, 'Measured value');
   return (
     <View>
       <MeasuredField
@@ -282,6 +300,7 @@ export function FormPhotos<T extends FieldValues>({
 }: Base<T> & { max: number; tooMany: string; photoLabel?: string }) {
   const [problem, setProblem] = useState<string | null>(null);
   const { field, fieldState } = useController({ control, name });
+  useFieldLabel(control, name, label);
   const photos: PickedPhoto[] = Array.isArray(field.value) ? (field.value as PickedPhoto[]) : [];
   const add = (more: PickedPhoto[]) => {
     const room = Math.max(max - photos.length, 0);

@@ -11,6 +11,7 @@ import { ItemCaution } from './ItemCaution';
 import { MeasuredField } from './MeasuredField';
 import type { MeasurementView } from './measure';
 import { SeverityMark } from './SeverityMark';
+import { usePointerWords } from '../ui/usePointerWords';
 
 const STATE_TEXT: Record<CheckMark | 'none', string> = {
   none: 'Not marked',
@@ -46,6 +47,7 @@ export const CheckItemRow = forwardRef<View, {
   ref,
 ) {
   const [open, setOpen] = useState(false);
+  const { press } = usePointerWords();
   const testID = `check-item-${item.code}`;
   const name = `${item.code} ${item.title}`;
   const toggle = (m: CheckMark) => onMark(mark === m ? undefined : m);
@@ -126,7 +128,7 @@ export const CheckItemRow = forwardRef<View, {
               style={[styles.na, mark === 'not_applicable' ? styles.naOn : null]}
             >
               <AppText style={mark === 'not_applicable' ? styles.naTextOn : styles.naText}>
-                {mark === 'not_applicable' ? '– Not applicable (tap to clear)' : 'Not applicable to this unit'}
+                {mark === 'not_applicable' ? `– Not applicable (${press} to clear)` : 'Not applicable to this unit'}
               </AppText>
             </Pressable>
           ) : null}

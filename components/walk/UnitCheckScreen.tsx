@@ -34,6 +34,7 @@ import { InspectorsOnly } from './LevelWalkScreen';
 import { limitResolverFor, measure } from './measure';
 import { UnitStateBadge } from './UnitStateBadge';
 import { nextUnitAfter, useUnresolvedFindingsQuery, useWalkOrderQuery } from './walkData';
+import { usePointerWords } from '../ui/usePointerWords';
 
 /** Section names short enough for the jump bar's chips. */
 const SHORT_GROUP: Record<string, string> = {
@@ -152,6 +153,7 @@ function UnitCheckBody({
   saved?: string;
 }) {
   const router = useRouter();
+  const { press, Press } = usePointerWords();
   const openWalk = useOpenWalkQuery(job.id, unit.levelId, userId);
   const savedWords = useSavedCheckWords(job.id, saved);
   const order = useWalkOrderQuery(job.id, unit.levelId);
@@ -316,7 +318,7 @@ function UnitCheckBody({
     setError(null);
     const marked = items.filter((i) => marks[i.id]);
     if (marked.length === 0) {
-      setError('Mark at least one item, or tap “All OK for the rest”.');
+      setError(`Mark at least one item, or ${press} “All OK for the rest”.`);
       return;
     }
     const bad = marked.find((i) => i.measuredRule && (texts[i.id] ?? '').trim() && measure(i.measuredRule, texts[i.id] ?? '', resolve, job.unitSystem).kind === 'parse_error');
@@ -340,7 +342,7 @@ function UnitCheckBody({
       setWarnedUnlogged(unloggedKey);
       setError(
         `${unlogged.length === 1 ? 'This item is' : 'These items are'} marked Defect with no finding logged: ${unloggedKey}. ` +
-          'Tap “Log finding” on each, or tap Save again to save the check without them.',
+          `${Press} “Log finding” on each, or ${press} Save again to save the check without them.`,
       );
       return;
     }

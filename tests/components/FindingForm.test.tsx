@@ -96,8 +96,8 @@ describe('FindingForm', () => {
     const api = fakeApi([]);
     renderForm();
     fireEvent.press(await screen.findByTestId('finding-form-submit'));
-    expect(await screen.findByText('Choose a defect type.')).toBeTruthy();
-    expect(within(screen.getByTestId('finding-form-error')).getByText('Check the fields marked below.')).toBeTruthy();
+    expect(await screen.findByText('Choose the defect from the list, or describe it under Something else.')).toBeTruthy();
+    expect(within(screen.getByTestId('finding-form-error')).getByText('Check 1 field: Defect type.')).toBeTruthy();
     expect(api.sent()).toEqual([]);
   });
 
@@ -179,7 +179,7 @@ describe('FindingForm', () => {
     expect(screen.queryByTestId('finding-form-backdate')).toBeNull();
     fireEvent.press(screen.getByTestId('finding-form-submit'));
     expect(await screen.findByText(`The due date is before today (${today} on this job's clock). Choose today or a later date.`)).toBeTruthy();
-    expect(within(screen.getByTestId('finding-form-error')).getByText('Check the fields marked below.')).toBeTruthy();
+    expect(within(screen.getByTestId('finding-form-error')).getByText('Check 1 field: Due date.')).toBeTruthy();
     expect(api.sent()).toEqual([]);
   });
 

@@ -110,7 +110,7 @@ describe('JobSettingsScreen (GC manager)', () => {
     expect(await screen.findByText('Share: at most 100 %.')).toBeTruthy();
     fireEvent.changeText(screen.getByTestId('settings-recurring-share'), '15');
     fireEvent.press(screen.getByTestId('settings-submit'));
-    expect(await screen.findByText('minUnits: at least 2.')).toBeTruthy();
+    expect(await screen.findByText('Minimum units: a whole number from 2 to 1000.')).toBeTruthy();
     expect(api.patches()).toHaveLength(0);
   });
 

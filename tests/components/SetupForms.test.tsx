@@ -51,7 +51,7 @@ describe('adding a company', () => {
     fireEvent.press(screen.getByTestId('company-trades-input-mechanical'));
     fireEvent.press(screen.getByTestId('company-submit'));
     expect(await screen.findByText('Choose at least one trade.')).toBeTruthy();
-    expect(within(screen.getByTestId('company-form-error')).getByText('Check the fields marked below.')).toBeTruthy();
+    expect(within(screen.getByTestId('company-form-error')).getByText('Check 1 field: Trades it covers on this job.')).toBeTruthy();
     expect(sent[0]!.body).toEqual({ name: 'Quarry Mechanical', trades: ['mechanical'] });
   });
 });
