@@ -140,7 +140,9 @@ export function createDigestService(options: DigestServiceOptions): DigestServic
     async sendScheduled(due, claimedBy, now = new Date()) {
       const prefs = await loadPreferences(sequelize, due.userId);
       const empty = { sent: false, claimed: false, to: prefs?.email ?? '', subject: '', findings: 0 };
-      if (!prefs || prefs.digestFrequency === 'off') return empty;
+      // Changed since the hourly job listed it (say weekly to daily): the mail would name a schedule
+      // that is no longer chosen. Nothing is claimed; the next hourly run lists the new choice.
+      if (!prefs || prefs.digestFrequency !== due.period) return empty;
       const claim = await sequelize.transaction(async (transaction) =>
         sequelize.query<{ id: string }>(
           `INSERT INTO digest_sends (id, user_id, period_key, claimed_at, claimed_by)

@@ -278,6 +278,26 @@ describe('the digest names the schedule the person chose', () => {
   });
 });
 
+describe('a digest listed before the person changed their choice', () => {
+  it('is not sent under the old schedule and claims nothing (the next hourly run lists the new one)', async () => {
+    const current = await gc.get('/api/me/preferences');
+    const saved = await gc.patch('/api/me/preferences', { digestFrequency: 'weekly', digestWeekday: 4 }, ifMatch(Number(/"v(\d+)"/.exec(String(current.headers.etag))![1])));
+    expect(saved.status).toBe(200);
+    try {
+      smtp.clear();
+      const periodKey = `daily:stale-${Math.random().toString(36).slice(2)}`;
+      const r = await digests.sendScheduled({ userId: w.gcManager.id, period: 'daily', periodKey }, 'test');
+      expect(r).toMatchObject({ sent: false, claimed: false });
+      const claims = await db.sequelize.query(`SELECT 1 FROM digest_sends WHERE user_id = $1 AND period_key = $2`, { bind: [w.gcManager.id, periodKey], type: QueryTypes.SELECT });
+      expect(claims).toEqual([]);
+      await settle();
+      expect(mailsTo(w.gcManager.email)).toEqual([]);
+    } finally {
+      await gc.patch('/api/me/preferences', { digestFrequency: 'daily', digestWeekday: 1 }, ifMatch(Number(/"v(\d+)"/.exec(String(saved.headers.etag))![1])));
+    }
+  });
+});
+
 describe('unsubscribe links', () => {
   async function digestToken(signed: SignedIn, address: string): Promise<string> {
     smtp.clear();
