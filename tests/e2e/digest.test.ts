@@ -141,6 +141,8 @@ it('send me a digest now → caught mail → finding link → unsubscribe link �
   // The screen and the mail say the same schedule (shared/digestSchedule.ts), never daily.
   const sentence = /Your digest comes once a week, every Friday at 06:00 \(/;
   expect(await wide.page.getByTestId('preferences-schedule').textContent()).toMatch(sentence);
+  await wide.page.getByTestId('preferences-schedule').scrollIntoViewIfNeeded();
+  await h.screenshot(wide.page, 'digest-preferences-schedule-weekly-wide');
   expect(weekly.text).toMatch(sentence);
   expect(weekly.text.split('\n')[0]).toMatch(/^Weekly digest for .+ \(Fridays\)$/);
   expect(`${weekly.subject}\n${weekly.text}`).not.toMatch(/\bdaily\b|every day/i);
