@@ -13,6 +13,7 @@ import { unitKindLabel } from '../../shared/words';
 import { conflict } from '../errors';
 import { Unit, User } from '../models';
 import { lockVersioned } from '../services/records';
+import { recordUnitEvent, type UnitEventKind } from '../services/unitEvents';
 import type { Actor } from './context';
 
 export interface CeilingExclusionContext {
@@ -47,11 +48,8 @@ async function lockCeilingUnit(ctx: CeilingExclusionContext, unitId: string): Pr
   return unit;
 }
 
-async function record(ctx: CeilingExclusionContext, unit: Unit, kind: 'ceiling_excluded' | 'ceiling_exclusion_lifted', reason: string | null, at: Date) {
-  await Unit.sequelize!.query(
-    `INSERT INTO unit_events (id, job_id, unit_id, actor_id, at, kind, reason) VALUES (gen_random_uuid(), $1, $2, $3, $4, $5, $6)`,
-    { bind: [ctx.jobId, unit.id, ctx.actor.id, at, kind, reason], transaction: ctx.transaction },
-  );
+function record(ctx: CeilingExclusionContext, unit: Unit, kind: UnitEventKind, reason: string | null, at: Date) {
+  return recordUnitEvent(ctx.transaction, { jobId: ctx.jobId, unitId: unit.id, actorId: ctx.actor.id, kind, reason, at });
 }
 
 /** Excludes the unit (or changes the reason of its exclusion: the new reason, who and when replace the old). */

@@ -97,7 +97,7 @@ export function unitsRouter(): Router {
     async (req, res) => {
       const { unitId } = valid<z.infer<typeof unitParamsSchema>>(req.valid.params);
       const body = valid<z.infer<typeof updateUnitSchema>>(req.valid.body);
-      const unit = await inTransaction(req, (transaction) => changeUnit(setupWrite(req, transaction), unitId, body));
+      const unit = await inTransaction(req, (transaction) => changeUnit(setupWrite(req, transaction), unitId, body, req.user!.id));
       setEtag(res, unit.version);
       res.json(presentUnit(unit));
     },

@@ -11,6 +11,8 @@ import { presentUnit } from '../presenters/unit';
 import { afterCursor, finishPage, type PageRequest } from './paging';
 import { optionalQuantity } from './quantities';
 import { destroyOrConflict, likeContains, lockVersioned, type SetupWrite } from './records';
+import { recordUnitEvent } from './unitEvents';
+import { isCeilingUnitKind } from '../../shared/rules/ceilings';
 
 export const UNIT_INCLUDES = [
   { model: Level, as: 'level' },
@@ -135,8 +137,13 @@ export async function createUnit({ transaction, jobId }: SetupWrite, input: Crea
   }
 }
 
-/** Changes a unit (If-Match); moving it to another level clears its plan pin. */
-export async function changeUnit({ transaction, jobId, ifMatch }: SetupWrite, unitId: string, input: UpdateUnitInput): Promise<Unit> {
+/**
+ * Changes a unit (If-Match); moving it to another level clears its plan pin. A GC manager's
+ * exclusion from the ceiling rule was decided for that unit on that level: a kind the rule does
+ * not cover, or another level, ends it, kept in unit_events as a lift by whoever changed the unit
+ * with the reason it ended (changing to another ceiling kind on the same level keeps it).
+ */
+export async function changeUnit({ transaction, jobId, ifMatch }: SetupWrite, unitId: string, input: UpdateUnitInput, actorId: string, now: Date = new Date()): Promise<Unit> {
   const capacity = optionalQuantity(input.capacity, 'capacity', 'capacity');
   try {
     const present = async (u: Unit) => presentUnit(await loadUnit(jobId, u.id, transaction));
@@ -145,6 +152,7 @@ export async function changeUnit({ transaction, jobId, ifMatch }: SetupWrite, un
       if (await tagTaken(jobId, input.tag, unit.id, transaction)) throw duplicateTag(input.tag);
       unit.tag = input.tag;
     }
+    const before = { kind: unit.kind, levelId: unit.levelId };
     if (input.kind !== undefined) unit.kind = input.kind;
     if (input.levelId !== undefined && input.levelId !== unit.levelId) {
       unit.levelId = input.levelId;
@@ -165,13 +173,32 @@ export async function changeUnit({ transaction, jobId, ifMatch }: SetupWrite, un
       { kind: unit.kind, levelId: unit.levelId, spaceId: unit.spaceId, systemId: unit.systemId, modelId: unit.modelId },
       transaction,
     );
+    const exclusionEnds = unit.ceilingExcludedReason ? await exclusionEndReason(unit, before, transaction) : null;
+    if (exclusionEnds) {
+      unit.ceilingExcludedReason = null;
+      unit.ceilingExcludedBy = null;
+      unit.ceilingExcludedAt = null;
+    }
     unit.version += 1;
     await unit.save({ transaction });
+    if (exclusionEnds) await recordUnitEvent(transaction, { jobId, unitId: unit.id, actorId, kind: 'ceiling_exclusion_lifted', reason: exclusionEnds, at: now });
     return await loadUnit(jobId, unit.id, transaction);
   } catch (err) {
     if (err instanceof UniqueConstraintError && input.tag) throw duplicateTag(input.tag);
     throw err;
   }
+}
+
+/** Why a changed unit's ceiling exclusion ends (the words kept in unit_events), or null when it still holds. */
+async function exclusionEndReason(unit: Unit, before: { kind: string; levelId: string }, transaction: Transaction): Promise<string | null> {
+  if (!isCeilingUnitKind(unit.kind)) {
+    return `Kind changed from ${kindLabel(before.kind).toLowerCase()} to ${kindLabel(unit.kind).toLowerCase()}: the ceiling rule does not count it, so its exclusion ended.`;
+  }
+  if (unit.levelId !== before.levelId) {
+    const [from, to] = await Promise.all([Level.findByPk(before.levelId, { transaction }), Level.findByPk(unit.levelId, { transaction })]);
+    return `Moved from ${from?.name ?? 'its level'} to ${to?.name ?? 'another level'}: the exclusion was decided for ${from?.name ?? 'its old level'}, so it ended.`;
+  }
+  return null;
 }
 
 export async function deleteUnit({ transaction, jobId, ifMatch }: SetupWrite, unitId: string): Promise<void> {

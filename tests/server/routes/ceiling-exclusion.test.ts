@@ -178,4 +178,49 @@ describe('ceiling exclusion: the figures', () => {
     const del = await crew.gc.del(jobPath(s.job.id, `/units/${s.c1.id}`), ifMatch(2));
     expect({ status: del.status, id: del.body.error?.id }).toEqual({ status: 409, id: 'referenced' });
   });
+
+  it('a unit changed to a kind below the ceiling, or moved to another level, is no longer excluded; another ceiling kind on the same level stays excluded', async () => {
+    const s = await setUp();
+    const other = await buildLevel(s.job.id, { name: 'Level 5' });
+    const unitPath = (unitId: string) => jobPath(s.job.id, `/units/${unitId}`);
+    for (const u of [s.c1, s.c2]) await send(as.gc, 'put', s.path(u.id), { reason: REASON }, ifMatch(1)).then((r) => expect(r.status).toBe(200));
+
+    // Another ceiling kind, same level: the exclusion holds and nothing is added to the history.
+    const ducted = await crew.gc.patch(unitPath(s.c1.id), { kind: 'ducted_high' }, ifMatch(2));
+    expect(ducted.status).toBe(200);
+    expect((await levelReadiness(s.job.id)).excludedCeilingUnits.map((u) => u.tag)).toEqual(['C-401', 'C-402']);
+
+    // Wall-mounted: not counted by the rule, and the exclusion ended.
+    const wall = await crew.gc.patch(unitPath(s.c1.id), { kind: 'wall_mounted' }, ifMatch(3));
+    expect(wall.status).toBe(200);
+    // Moved to Level 5: the exclusion was decided for Level 4, so C-402 counts as unchecked on Level 5.
+    const moved = await crew.gc.patch(unitPath(s.c2.id), { levelId: other.id }, ifMatch(2));
+    expect(moved.status).toBe(200);
+    const rows = await db.sequelize.query<{ tag: string; ceiling_excluded_reason: string | null; ceiling_excluded_by: string | null; ceiling_excluded_at: Date | null }>(
+      `SELECT tag, ceiling_excluded_reason, ceiling_excluded_by, ceiling_excluded_at FROM units WHERE id IN ($1, $2) ORDER BY tag`,
+      { bind: [s.c1.id, s.c2.id], type: QueryTypes.SELECT },
+    );
+    expect(rows).toEqual([
+      { tag: 'C-401', ceiling_excluded_reason: null, ceiling_excluded_by: null, ceiling_excluded_at: null },
+      { tag: 'C-402', ceiling_excluded_reason: null, ceiling_excluded_by: null, ceiling_excluded_at: null },
+    ]);
+    const board = (await crew.gc.get(jobPath(s.job.id, '/board'))).body as BoardResponse;
+    const byName = Object.fromEntries(board.levels.map((l) => [l.name, l]));
+    expect(byName['Level 4']).toMatchObject({ ceilingUnits: 0, ceilingUnitsExcluded: 0 });
+    expect(byName['Level 5']).toMatchObject({ ceilingUnits: 1, ceilingUnitsUnchecked: 1, ceilingUnitsExcluded: 0, ceilingState: 'blocked' });
+
+    // The history says who ended each exclusion and why.
+    expect(await events(s.c1.id)).toEqual([
+      { kind: 'ceiling_excluded', reason: REASON, actor_id: crew.gcManager.id },
+      {
+        kind: 'ceiling_exclusion_lifted',
+        reason: 'Kind changed from ducted, high static to wall-mounted: the ceiling rule does not count it, so its exclusion ended.',
+        actor_id: crew.gcManager.id,
+      },
+    ]);
+    expect(await events(s.c2.id)).toEqual([
+      { kind: 'ceiling_excluded', reason: REASON, actor_id: crew.gcManager.id },
+      { kind: 'ceiling_exclusion_lifted', reason: 'Moved from Level 4 to Level 5: the exclusion was decided for Level 4, so it ended.', actor_id: crew.gcManager.id },
+    ]);
+  });
 });
