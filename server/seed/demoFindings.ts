@@ -253,6 +253,7 @@ export async function seedDemoFindings(
       returnReason: () => say(`${item.code}:return`, text.returns),
       voidReason: () => pick(VOID_REASONS),
       comment: n % 8 === 5,
+      waitingDays: 1 + (n % 4),
     });
   }
 
@@ -276,6 +277,7 @@ export async function seedDemoFindings(
     returnReason: () => '',
     voidReason: () => '',
     comment: false,
+    waitingDays: 2,
   });
   return true;
 
@@ -295,6 +297,8 @@ export async function seedDemoFindings(
     returnReason: () => string;
     voidReason: () => string;
     comment: boolean;
+    /** Days a fix still waiting for re-inspection has waited (at most). */
+    waitingDays: number;
   }
 
   /** One finding and its history, one event at a time. */
@@ -339,8 +343,14 @@ export async function seedDemoFindings(
     await event('logged', users.inspector, null, { status: 'open', severity, companyId, dueOn }, null, loggedAt);
     let status: FindingStatus = 'open';
     let version = 1;
-    const submitFix = async () => {
-      const when = later(FIX_HOURS[sub]);
+    const submitFix = async (last = false) => {
+      let when = later(FIX_HOURS[sub]);
+      // A fix still waiting for its re-inspection was sent in the last few days: inspectors do not
+      // leave fixes for weeks, and the scorecards' "longest waiting" should look like a real job.
+      if (last && story.end === 'fix_submitted' && when.getTime() < now - s.waitingDays * day) {
+        at = now - s.waitingDays * day;
+        when = new Date(at);
+      }
       const fix = await Fix.create({ jobId, findingId: finding.id, submittedBy: subUser, note: s.fixNote(), submittedAt: when }, { transaction });
       await event('fix_submitted', subUser, { status: 'open' }, { status: 'fix_submitted', fixId: fix.id, note: fix.note }, null, when);
       status = 'fix_submitted';
@@ -355,7 +365,7 @@ export async function seedDemoFindings(
       version += 1;
     }
     let voidedReason: string | null = null;
-    if (story.end === 'fix_submitted' || story.end === 'accepted') await submitFix();
+    if (story.end === 'fix_submitted' || story.end === 'accepted') await submitFix(true);
     if (story.end === 'accepted') {
       await event('accepted', users.inspector, { status: 'fix_submitted', returnCount: returns }, { status: 'closed', returnCount: returns }, null, later(VERDICT_HOURS));
       status = 'closed';

@@ -132,6 +132,14 @@ it('the scorecards tell the companies apart: first-pass acceptance and days to a
   expect(mechanical.firstPassRate!).toBeGreaterThan(ceilings.firstPassRate! + 0.1);
   expect(electrical.medianDaysToAccept!).toBeLessThan(mechanical.medianDaysToAccept!);
   expect(mechanical.medianDaysToAccept!).toBeLessThan(ceilings.medianDaysToAccept!);
+
+  // Fixes waiting for re-inspection were sent in the last few days, not weeks ago.
+  const [waiting] = await rows<{ oldest_days: number }>(
+    `SELECT max(extract(epoch FROM now() - fx.submitted_at) / 86400)::float AS oldest_days
+       FROM findings f JOIN LATERAL (SELECT submitted_at FROM fixes WHERE finding_id = f.id ORDER BY submitted_at DESC LIMIT 1) fx ON true
+      WHERE f.job_id = $1 AND f.status = 'fix_submitted' AND f.logged_by = (SELECT id FROM users WHERE email = 'inspector@demo.trimout.example')`,
+  );
+  expect(waiting!.oldest_days).toBeLessThan(5);
 });
 
 it('one "Something else" finding under the job\'s other defect type, with its own title, fixed with a photo', async () => {
