@@ -29,6 +29,7 @@ import { ItemCaution } from '../walk/ItemCaution';
 import { SeverityMark } from '../walk/SeverityMark';
 import { formatDay, formatWhen } from './due';
 import { StatusBadge } from './FindingCard';
+import { FixWaiting } from './FixWaiting';
 import { PhotoStrip } from './PhotoStrip';
 import { PlanPinLink } from '../plans/PlanPinLink';
 import { links } from '../links';
@@ -121,6 +122,7 @@ function FindingBody({
           <StatusBadge status={f.status} testID="finding-status" />
           <SeverityMark severity={f.severity} testID="finding-severity" />
           {f.overdue ? <AppText style={styles.overdue}>⚠ Overdue</AppText> : null}
+          <FixWaiting finding={f} timeZone={timeZone} testID="finding-waiting" />
         </View>
       </View>
 
