@@ -11,6 +11,7 @@ import { FormText } from '../ui/FormFields';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
 import { links } from '../links';
+import { FormBanner } from '../ui/FormBanner';
 
 /** A GC new to Trimout: their company and first account; the address is confirmed by mail. */
 export function SignUpScreen() {
@@ -18,7 +19,7 @@ export function SignUpScreen() {
   const nameRef = useRef<TextInput>(null);
   const emailRef = useRef<TextInput>(null);
   const passwordRef = useRef<TextInput>(null);
-  const { control, handleSubmit, formState, setError } = useForm<SignUpInput>({
+  const { control, handleSubmit, setError } = useForm<SignUpInput>({
     resolver: zodResolver(signUpSchema),
     defaultValues: { companyName: '', name: '', email: '', password: '' },
   });
@@ -41,8 +42,6 @@ export function SignUpScreen() {
       </AuthFrame>
     );
   }
-
-  const rootError = formState.errors.root?.message;
   return (
     <AuthFrame
       testID="sign-up-screen"
@@ -50,11 +49,7 @@ export function SignUpScreen() {
       intro="For a GC new to Trimout: your company and your own account. Others join a job by invitation from its GC manager."
       footer={footer}
     >
-      {rootError ? (
-        <Notice tone="error" testID="sign-up-error">
-          {rootError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="sign-up-error" />
       <FormText
         control={control}
         name="companyName"

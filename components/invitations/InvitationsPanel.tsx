@@ -17,6 +17,7 @@ import { Segmented } from '../ui/Segmented';
 import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { TextField } from '../ui/TextField';
+import { FormBanner } from '../ui/FormBanner';
 
 /**
  * For GC managers on the members screen: invite someone by e-mail with a role and company, and
@@ -39,7 +40,7 @@ function InviteForm({ jobId }: { jobId: string }) {
   const [sentTo, setSentTo] = useState<string | null>(null);
   // One write per user action: a retry of the same submit reuses its Idempotency-Key.
   const [pending, setPending] = useState<{ key: string; write: ReturnType<typeof inviteWrite> } | null>(null);
-  const { control, handleSubmit, formState, setError, reset, watch } = useForm<InvitationFormInput>({
+  const { control, handleSubmit, setError, reset, watch } = useForm<InvitationFormInput>({
     resolver: zodResolver(invitationFormSchema),
     defaultValues: EMPTY,
   });
@@ -74,7 +75,6 @@ function InviteForm({ jobId }: { jobId: string }) {
   });
 
   const companyOptions = (companies.data ?? []).map((c) => ({ value: c.id, label: c.name }));
-  const rootError = formState.errors.root?.message;
   return (
     <Card testID="invite-form">
       <AppText variant="heading" role="heading">
@@ -89,11 +89,7 @@ function InviteForm({ jobId }: { jobId: string }) {
           {`Invitation sent to ${sentTo}.`}
         </Notice>
       ) : null}
-      {rootError ? (
-        <Notice tone="error" testID="invite-form-error">
-          {rootError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="invite-form-error" />
       <View style={styles.fields}>
         <View style={styles.field}>
           <Controller

@@ -7,8 +7,8 @@ import { FormSelect, FormText } from '../ui/FormFields';
 import { showServerErrors } from '../setup/formErrors';
 import { space } from '../theme';
 import { Button } from '../ui/Button';
-import { Notice } from '../ui/Notice';
 import { useWide } from '../ui/useWide';
+import { FormBanner } from '../ui/FormBanner';
 
 const FALLBACK_ZONES = [
   'UTC',
@@ -60,7 +60,7 @@ export function JobForm({
 }) {
   const wide = useWide();
   const zones = useMemo(() => timeZoneOptions(), []);
-  const { control, handleSubmit, formState, setError } = useForm({
+  const { control, handleSubmit, setError } = useForm({
     resolver: zodResolver(createJobSchema),
     defaultValues: initial,
   });
@@ -71,15 +71,10 @@ export function JobForm({
       showServerErrors(err, setError, FIELDS);
     }
   });
-  const rootError = formState.errors.root?.message;
   const pair = wide ? styles.pair : null;
   return (
     <View testID={testID}>
-      {rootError ? (
-        <Notice tone="error" testID={`${testID}-error`}>
-          {rootError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID={`${testID}-error`} />
       <FormText control={control} name="name" label="Job name" testID="job-name-input" placeholder="e.g. Harbour Street Offices" />
       <View style={pair}>
         <View style={styles.cell}>

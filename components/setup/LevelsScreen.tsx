@@ -22,6 +22,7 @@ import { FormText } from '../ui/FormFields';
 import { writeErrorMessage } from '../api/writeErrors';
 import { showServerErrors } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
+import { FormBanner } from '../ui/FormBanner';
 
 export function LevelsScreen({ jobId }: { jobId: string }) {
   return (
@@ -86,7 +87,7 @@ function LevelsBody({ jobId, editor }: { jobId: string; editor: boolean }) {
 function AddLevel({ jobId }: { jobId: string }) {
   const wide = useWide();
   const create = useCreateLevelMutation(jobId);
-  const { control, handleSubmit, reset, setError, formState } = useForm({
+  const { control, handleSubmit, reset, setError } = useForm({
     resolver: zodResolver(createLevelSchema),
     defaultValues: { name: '' },
   });
@@ -101,7 +102,7 @@ function AddLevel({ jobId }: { jobId: string }) {
   return (
     <Card testID="level-add">
       <AppText variant="heading">Add a level</AppText>
-      {formState.errors.root?.message ? <Notice tone="error">{formState.errors.root.message}</Notice> : null}
+      <FormBanner control={control} testID="level-form-error" />
       <View style={styles.addRow}>
         <View style={styles.grow}>
           <FormText
@@ -141,7 +142,7 @@ function LevelRow({
   const rename = useRenameLevelMutation(jobId);
   const remove = useDeleteLevelMutation(jobId);
   const [rowError, setRowError] = useState<string | null>(null);
-  const { control, handleSubmit, setError, formState, reset } = useForm({
+  const { control, handleSubmit, setError, reset } = useForm({
     resolver: zodResolver(updateLevelSchema),
     defaultValues: { name: level.name },
   });
@@ -164,7 +165,7 @@ function LevelRow({
       </View>
       {editing ? (
         <View style={styles.grow}>
-          {formState.errors.root?.message ? <Notice tone="error">{formState.errors.root.message}</Notice> : null}
+          <FormBanner control={control} testID={`level-rename-error-${level.position}`} />
           <FormText control={control} name="name" label="New name" testID={`level-rename-input-${level.position}`} onSubmitEditing={save} autoFocus />
           <View style={styles.actions}>
             <Button testID={`level-rename-save-${level.position}`} label="Save" onPress={save} busy={rename.isPending} />
