@@ -100,7 +100,7 @@ function Row({
             <View>
               <CountLink jobId={jobId} levelId={level?.levelId} countKey={c.count} value={row[c.count]} place={place} testID={`board-cell-${id}-${c.count}`} />
               <AppText variant="small" muted testID={`board-waiting-${id}`} accessibilityLabel={waitingSummary(row.fixSubmitted, longestWaitDays)}>
-                {longestWaitDays <= 0 ? 'since today' : `longest ${longestWaitDays} d`}
+                {longestWaitDays <= 0 ? 'since today' : `longest ${longestWaitDays} day${longestWaitDays === 1 ? '' : 's'}`}
               </AppText>
             </View>
           );

@@ -193,10 +193,10 @@ describe('the levels board', () => {
     // Level 1 can close with one unit excluded by a GC manager: the verdict says what it rests on.
     expect(within(screen.getByTestId(`board-ceiling-${L1}`)).getByText('✓ Can close (1 excluded)')).toBeTruthy();
     // Fixes submitted wait for the inspector: the count and the longest wait.
-    expect(within(screen.getByTestId(`board-waiting-${L2}`)).getByText('longest 4 d')).toBeTruthy();
+    expect(within(screen.getByTestId(`board-waiting-${L2}`)).getByText('longest 4 days')).toBeTruthy();
     expect(screen.getByTestId(`board-waiting-${L2}`).props.accessibilityLabel).toBe('2 waiting for the inspector, longest 4 days');
     expect(within(screen.getByTestId(`board-waiting-${L1}`)).getByText('since today')).toBeTruthy();
-    expect(within(screen.getByTestId('board-waiting-total')).getByText('longest 4 d')).toBeTruthy();
+    expect(within(screen.getByTestId('board-waiting-total')).getByText('longest 4 days')).toBeTruthy();
     // A level without units in the ceiling says so: it is not "can close".
     expect(within(screen.getByTestId(`board-ceiling-${L3}`)).getByText('No ceiling units')).toBeTruthy();
   });

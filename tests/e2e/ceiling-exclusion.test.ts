@@ -182,7 +182,8 @@ describe.each([
     const waiting = page.getByTestId(`board-waiting-${w.level.id}`);
     await waiting.waitFor();
     if (size === 'wide') {
-      // The grid's cell is narrow: the short form shows, the whole sentence is read out.
+      // Under the count in the grid's column: the longest wait shows, the whole sentence is read out.
+      expect(await text(page, `board-waiting-${w.level.id}`)).toBe('longest 5 days');
       expect(await waiting.getAttribute('aria-label')).toBe('1 waiting for the inspector, longest 5 days');
     } else {
       expect(await text(page, `board-waiting-${w.level.id}`)).toBe('1 waiting for the inspector, longest 5 days');
