@@ -104,7 +104,7 @@ export function SystemReadinessCard({ jobId, system }: { jobId: string; system: 
       <AppText variant="small" muted>
         {s.unitsTotal === 0
           ? 'No units on this system yet.'
-          : `${s.unitsReady} of ${s.unitsTotal} units ready · ${s.unitsUnchecked} not checked · ${blockers} blocking finding${blockers === 1 ? '' : 's'}`}
+          : `${s.unitsReady} of ${s.unitsTotal} ${s.unitsTotal === 1 ? 'unit' : 'units'} ready · ${s.unitsUnchecked} not checked · ${blockers} blocking finding${blockers === 1 ? '' : 's'}`}
       </AppText>
       <UnitsNotReady jobId={jobId} units={s.units} testID={`system-blocks-${s.systemId}`} />
     </Card>
@@ -158,7 +158,7 @@ export function LevelReadinessCard({
       </View>
       {title ? null : (
         <AppText variant="small" muted>
-          {l.unitsReady} of {l.unitsTotal} units ready for startup
+          {l.unitsReady} of {l.unitsTotal} {l.unitsTotal === 1 ? 'unit' : 'units'} ready for startup
         </AppText>
       )}
       {l.ceilingState === 'no_ceiling_units' ? (
@@ -167,7 +167,7 @@ export function LevelReadinessCard({
         </AppText>
       ) : (
         <AppText variant="small" muted testID={`level-ceiling-units-${l.levelId}`}>
-          {l.ceilingUnits - l.ceilingUnitsUnchecked - l.ceilingUnitsExcluded} of {l.ceilingUnits} units in or above the ceiling checked
+          {l.ceilingUnits - l.ceilingUnitsUnchecked - l.ceilingUnitsExcluded} of {l.ceilingUnits} {l.ceilingUnits === 1 ? 'unit' : 'units'} in or above the ceiling checked
           {l.ceilingUnitsExcluded > 0 ? ` · ${l.ceilingUnitsExcluded} excluded by a GC manager` : ''}
         </AppText>
       )}

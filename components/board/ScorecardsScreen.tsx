@@ -263,8 +263,8 @@ const styles = StyleSheet.create({
   fact: { width: '50%', gap: 2, paddingRight: space.sm },
 });
 
-/** "2 · longest 5 d": fixes waiting for the inspector (never overdue against the company) and the oldest wait. */
+/** "2 · longest 5 days": fixes waiting for the inspector (never overdue against the company) and the oldest wait. */
 export function fixesWaitingText(c: Pick<CompanyScorecard, 'fixesWaiting' | 'longestWaitDays'>): string {
   if (c.fixesWaiting === 0 || c.longestWaitDays === null || c.longestWaitDays === undefined) return String(c.fixesWaiting);
-  return `${c.fixesWaiting} · ${c.longestWaitDays <= 0 ? 'since today' : `longest ${c.longestWaitDays} d`}`;
+  return `${c.fixesWaiting} · ${c.longestWaitDays <= 0 ? 'since today' : `longest ${c.longestWaitDays} ${c.longestWaitDays === 1 ? 'day' : 'days'}`}`;
 }

@@ -317,7 +317,7 @@ describe('company scorecards', () => {
     expect(screen.getByTestId('scorecards-col-name').props['aria-sort']).toBe('ascending');
     expect(screen.getByText('75% (3 of 4)')).toBeTruthy();
     // Mech Co's two fixes wait for the inspector, the oldest 5 days.
-    expect(screen.getByText('2 · longest 5 d')).toBeTruthy();
+    expect(screen.getByText('2 · longest 5 days')).toBeTruthy();
   });
 
   it('says in one line what each figure measures, one line per column', async () => {
