@@ -8,11 +8,12 @@ import { FormText } from '../ui/FormFields';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
 import { links } from '../links';
+import { FormBanner } from '../ui/FormBanner';
 
 /** /forgot-password: ask for a reset link. The answer is the same whether the address has an account. */
 export function ForgotPasswordScreen() {
   const requestReset = usePasswordResetRequestMutation();
-  const { control, handleSubmit, formState, setError } = useForm<PasswordResetRequestInput>({
+  const { control, handleSubmit, setError } = useForm<PasswordResetRequestInput>({
     resolver: zodResolver(passwordResetRequestSchema),
     defaultValues: { email: '' },
   });
@@ -33,7 +34,6 @@ export function ForgotPasswordScreen() {
       </AuthFrame>
     );
   }
-  const rootError = formState.errors.root?.message;
   return (
     <AuthFrame
       testID="forgot-screen"
@@ -41,11 +41,7 @@ export function ForgotPasswordScreen() {
       intro="Enter the e-mail address of your account. We send it a link to choose a new password."
       footer={footer}
     >
-      {rootError ? (
-        <Notice tone="error" testID="forgot-error">
-          {rootError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="forgot-error" />
       <FormText
         control={control}
         name="email"

@@ -18,6 +18,7 @@ import { TextField } from '../ui/TextField';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
 import { links } from '../links';
+import { FormBanner } from '../ui/FormBanner';
 
 /** /invite/<token>: see the job and role, choose a password (or sign in), and land on the job. */
 export function InvitationScreen({ token }: { token: string }) {
@@ -82,7 +83,7 @@ function NewAccountForm({ token, invite }: { token: string; invite: InvitationPr
   const accept = useAcceptInvitationMutation(token);
   const land = useLandOnJob();
   const passwordRef = useRef<TextInput>(null);
-  const { control, handleSubmit, formState, setError } = useForm<InvitationNewAccountInput>({
+  const { control, handleSubmit, setError } = useForm<InvitationNewAccountInput>({
     resolver: zodResolver(invitationNewAccountSchema),
     defaultValues: { name: invite.name ?? '', password: '' },
   });
@@ -94,15 +95,10 @@ function NewAccountForm({ token, invite }: { token: string; invite: InvitationPr
       applyApiError(err, setError, ['name', 'password'], 'That did not work. Try again.');
     }
   });
-  const rootError = formState.errors.root?.message;
   return (
     <>
       <AppText muted>Choose your name as others will see it, and a password. You are signed in straight away.</AppText>
-      {rootError ? (
-        <Notice tone="error" testID="invite-accept-error">
-          {rootError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="invite-accept-error" />
       <TextField
         testID="invite-email"
         label="E-mail (from the invitation)"
@@ -143,7 +139,7 @@ type ExistingInput = { password: string };
 function ExistingAccountForm({ token, invite }: { token: string; invite: InvitationPreview }) {
   const accept = useAcceptInvitationMutation(token);
   const land = useLandOnJob();
-  const { control, handleSubmit, formState, setError } = useForm<ExistingInput>({
+  const { control, handleSubmit, setError } = useForm<ExistingInput>({
     resolver: zodResolver(existingSchema),
     defaultValues: { password: '' },
   });
@@ -155,17 +151,12 @@ function ExistingAccountForm({ token, invite }: { token: string; invite: Invitat
       applyApiError(err, setError, ['password'], 'That did not work. Try again.');
     }
   });
-  const rootError = formState.errors.root?.message;
   return (
     <>
       <Notice tone="info" testID="invite-existing">
         {`${invite.email} already has a Trimout account. Sign in with its password to add this job to it.`}
       </Notice>
-      {rootError ? (
-        <Notice tone="error" testID="invite-accept-error">
-          {rootError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="invite-accept-error" />
       <FormText
         control={control}
         name="password"

@@ -12,13 +12,14 @@ import { FormText } from '../ui/FormFields';
 import { AuthFrame, AuthLink } from './AuthFrame';
 import { applyApiError } from './formErrors';
 import { links } from '../links';
+import { FormBanner } from '../ui/FormBanner';
 
 /** /reset/<token>: choose a new password; every other session ends and this one is signed in. */
 export function ResetPasswordScreen({ token }: { token: string }) {
   const preview = usePasswordResetPreviewQuery(token);
   const reset = useResetPasswordMutation(token);
   const router = useRouter();
-  const { control, handleSubmit, formState, setError } = useForm<PasswordResetInput>({
+  const { control, handleSubmit, setError } = useForm<PasswordResetInput>({
     resolver: zodResolver(passwordResetSchema),
     defaultValues: { password: '' },
   });
@@ -54,15 +55,10 @@ export function ResetPasswordScreen({ token }: { token: string }) {
       </AuthFrame>
     );
   }
-  const rootError = formState.errors.root?.message;
   return (
     <AuthFrame testID="reset-screen" title="Choose a new password" footer={footer}>
       <AppText muted>Setting a new password signs you out on every other device.</AppText>
-      {rootError ? (
-        <Notice tone="error" testID="reset-submit-error">
-          {rootError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="reset-submit-error" />
       <FormText
         control={control}
         name="password"

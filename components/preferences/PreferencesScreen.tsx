@@ -29,6 +29,7 @@ import { Notice } from '../ui/Notice';
 import { Screen } from '../ui/Screen';
 import { Segmented } from '../ui/Segmented';
 import { ErrorState, LoadingState } from '../ui/States';
+import { FormBanner } from '../ui/FormBanner';
 
 const FIELDS = ['digestFrequency', 'digestWeekday', 'digestHour', 'timeZone', 'criticalAssignmentMail'] as const;
 type FormInput = z.input<typeof preferencesFormSchema>;
@@ -78,7 +79,7 @@ function toForm(p: PreferencesDto): FormInput {
 function PreferencesEditor({ prefs, saved, onSaved }: { prefs: PreferencesDto; saved: boolean; onSaved: (version: number) => void }) {
   const save = useSavePreferencesMutation();
   const zones = useMemo(() => timeZoneOptions(), []);
-  const { control, handleSubmit, setError, formState } = useForm<FormInput, unknown, PreferencesForm>({
+  const { control, handleSubmit, setError } = useForm<FormInput, unknown, PreferencesForm>({
     resolver: zodResolver(preferencesFormSchema),
     defaultValues: toForm(prefs),
   });
@@ -93,7 +94,6 @@ function PreferencesEditor({ prefs, saved, onSaved }: { prefs: PreferencesDto; s
       showServerErrors(err, setError, FIELDS);
     }
   });
-  const rootError = formState.errors.root?.message;
   return (
     <Card testID="preferences-form">
       <AppText variant="title">Digest</AppText>
@@ -151,11 +151,7 @@ function PreferencesEditor({ prefs, saved, onSaved }: { prefs: PreferencesDto; s
         For subcontractors: sent to each person of the company on that job.
       </AppText>
       {/* Next to the button: on a phone the top of the form is out of sight by now. */}
-      {rootError ? (
-        <Notice tone="error" testID="preferences-save-error">
-          {rootError}
-        </Notice>
-      ) : null}
+      <FormBanner control={control} testID="preferences-save-error" />
       {saved ? (
         <Notice tone="success" testID="preferences-saved">
           Saved.
