@@ -61,7 +61,7 @@ const COLS: Col[] = [
     ),
   },
   { key: 'open', title: 'Open', flex: 0.8, render: (c) => String(c.open) },
-  { key: 'overdue', title: 'Overdue', flex: 0.9, render: (c) => String(c.overdue) },
+  { key: 'overdue', title: 'Overdue, of open', flex: 1, render: (c) => overdueShare(c) },
   { key: 'fixesWaiting', title: 'Fixes waiting', flex: 1, render: (c) => fixesWaitingText(c) },
   { key: 'medianDaysToAccept', title: 'Median days to accepted fix', flex: 1.4, render: (c) => days(c.medianDaysToAccept) },
   { key: 'firstPassRate', title: 'First-pass acceptance', flex: 1.5, render: (c) => rate(c) },
@@ -71,7 +71,7 @@ const COLS: Col[] = [
 /** What each figure measures, in one line each, shown under the title (the same order as the columns). */
 export const SCORECARD_MEANINGS: readonly { key: ScorecardKey; label: string; line: string }[] = [
   { key: 'open', label: 'Open', line: 'findings assigned to the company that still need their work (new or returned).' },
-  { key: 'overdue', label: 'Overdue', line: 'open findings past their due date; a fix waiting for re-inspection is not counted.' },
+  { key: 'overdue', label: 'Overdue, of open', line: 'how many of the open findings are past their due date; a fix waiting for re-inspection is not counted.' },
   { key: 'fixesWaiting', label: 'Fixes waiting', line: 'fixes the company submitted that wait for an inspector, and how long the oldest has waited (days on the job’s clock).' },
   { key: 'medianDaysToAccept', label: 'Median days to accepted fix', line: 'the middle value of the days from assignment to the company until its fix was accepted.' },
   { key: 'firstPassRate', label: 'First-pass acceptance', line: 'of the fixes accepted, the share accepted at their first re-inspection.' },
@@ -186,12 +186,16 @@ export function ScorecardsTable({
   );
 }
 
+/** Overdue is a share of the open findings, never a status beside them: "5 of 50". */
+export function overdueShare(row: Pick<CompanyScorecard, 'overdue' | 'open'>): string {
+  return `${row.overdue} of ${row.open}`;
+}
+
 /** Open and overdue open the company's findings. */
 function CompanyCount({ jobId, row, which }: { jobId: string; row: CompanyScorecard; which: 'open' | 'overdue' }) {
   const href = links.findings(jobId, which === 'open' ? { companyId: row.companyId, status: 'open' } : { companyId: row.companyId, overdue: true });
-  return (
-    <LinkText href={href} label={`${row[which]}`} a11y={`${which === 'open' ? 'Open' : 'Overdue'} findings of ${row.name}: ${row[which]}`} />
-  );
+  if (which === 'open') return <LinkText href={href} label={`${row.open}`} a11y={`Open findings of ${row.name}: ${row.open}`} />;
+  return <LinkText href={href} label={overdueShare(row)} a11y={`Overdue findings of ${row.name}: ${row.overdue} of ${row.open} open`} />;
 }
 
 function LinkText({ href, label, a11y }: { href: Href; label: string; a11y: string }) {
@@ -222,7 +226,7 @@ function ScorecardCards({ jobId, rows }: { jobId: string; rows: readonly Company
             <Fact label="Open">
               <CompanyCount jobId={jobId} row={r} which="open" />
             </Fact>
-            <Fact label="Overdue">
+            <Fact label="Overdue, of open">
               <CompanyCount jobId={jobId} row={r} which="overdue" />
             </Fact>
             <Fact label="Fixes waiting">{fixesWaitingText(r)}</Fact>

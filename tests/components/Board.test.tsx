@@ -93,8 +93,8 @@ function card(c: Partial<CompanyScorecard> & { companyId: string; name: string }
   return { trade: null, trades: [], open: 0, overdue: 0, fixesWaiting: 0, longestWaitDays: null, accepted: 0, acceptedFirstPass: 0, firstPassRate: null, medianDaysToAccept: null, returns: 0, ...c };
 }
 const CARDS: CompanyScorecard[] = [
-  card({ companyId: C1, name: 'Mech Co', trade: 'mechanical', trades: ['mechanical', 'controls'], open: 4, overdue: 1, fixesWaiting: 2, longestWaitDays: 5, accepted: 4, acceptedFirstPass: 3, firstPassRate: 0.75, medianDaysToAccept: 3.5, returns: 1 }),
-  card({ companyId: C2, name: 'Amp Electric', open: 1, overdue: 3, fixesWaiting: 0, accepted: 2, acceptedFirstPass: 2, firstPassRate: 1, medianDaysToAccept: 1, returns: 0 }),
+  card({ companyId: C1, name: 'Mech Co', trade: 'mechanical', trades: ['mechanical', 'controls'], open: 6, overdue: 1, fixesWaiting: 2, longestWaitDays: 5, accepted: 4, acceptedFirstPass: 3, firstPassRate: 0.75, medianDaysToAccept: 3.5, returns: 1 }),
+  card({ companyId: C2, name: 'Amp Electric', open: 3, overdue: 3, fixesWaiting: 0, accepted: 2, acceptedFirstPass: 2, firstPassRate: 1, medianDaysToAccept: 1, returns: 0 }),
   card({ companyId: C3, name: 'Ceil Co', open: 2, overdue: 0 }),
 ];
 const READINESS: ReadinessResponse = {
@@ -305,12 +305,15 @@ describe('company scorecards', () => {
     // Most overdue first by default.
     expect(nameText()).toEqual(['Amp Electric', 'Mech Co', 'Ceil Co']);
     expect(screen.getByTestId('scorecards-col-overdue').props['aria-sort']).toBe('descending');
+    // Overdue is a share of the open findings, never a figure beside them: "1 of 6".
+    expect(screen.getByText('1 of 6')).toBeTruthy();
+    expect(screen.getByText('3 of 3')).toBeTruthy();
     fireEvent.press(screen.getByTestId('scorecards-sort-open'));
-    expect(nameText()).toEqual(['Mech Co', 'Ceil Co', 'Amp Electric']);
+    expect(nameText()).toEqual(['Mech Co', 'Amp Electric', 'Ceil Co']);
     expect(screen.getByTestId('scorecards-col-open').props['aria-sort']).toBe('descending');
     expect(screen.getByTestId('scorecards-col-overdue').props['aria-sort']).toBe('none');
     fireEvent.press(screen.getByTestId('scorecards-sort-open'));
-    expect(nameText()).toEqual(['Amp Electric', 'Ceil Co', 'Mech Co']);
+    expect(nameText()).toEqual(['Ceil Co', 'Amp Electric', 'Mech Co']);
     expect(screen.getByTestId('scorecards-col-open').props['aria-sort']).toBe('ascending');
     fireEvent.press(screen.getByTestId('scorecards-sort-name'));
     expect(nameText()).toEqual(['Amp Electric', 'Ceil Co', 'Mech Co']);
