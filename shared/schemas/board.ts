@@ -34,7 +34,17 @@ export interface BoardCounts {
   /** Status fix submitted (waiting for re-inspection). */
   fixSubmitted: number;
   closed: number;
-  /** Unresolved (open or fix submitted) and past due. */
+  /**
+   * Every finding counted here: open + fixSubmitted + closed = total (the three statuses partition
+   * it; voided findings are outside it, never counted).
+   */
+  total: number;
+  /** Open or fix submitted: open + fixSubmitted. */
+  unresolved: number;
+  /**
+   * Status open (new or returned) and past due: a share of `open` (a fix waiting for re-inspection
+   * waits on the inspector and is never overdue), so the screens show it as "3 of 8 overdue".
+   */
   overdue: number;
   /** Units on the level, and those with a complete unit check. */
   unitsTotal: number;

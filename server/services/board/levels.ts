@@ -1,6 +1,7 @@
 /**
- * The levels board: per level in building order, open / critical / major / fix submitted / closed /
- * overdue counts, units checked and ceiling blockers, and the job's totals (docs/api-board.md).
+ * The levels board: per level in building order, open / critical / major / fix submitted / closed
+ * counts and their total (the three statuses partition it), unresolved and overdue, units checked
+ * and ceiling blockers, and the job's totals (docs/api-board.md).
  */
 import type { Sequelize } from 'sequelize';
 import type { BoardCounts, BoardLevelRow, BoardResponse } from '../../../shared/schemas/board';
@@ -17,7 +18,7 @@ export function ceilingOf(facts: CeilingFacts) {
   return { ceilingState: state, ceilingReady: state === 'ready' };
 }
 
-const COUNT_KEYS = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'overdue', 'unitsTotal', 'unitsChecked'] as const;
+const COUNT_KEYS = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'total', 'unresolved', 'overdue', 'unitsTotal', 'unitsChecked'] as const;
 
 interface CoverageRow {
   level_id: string;
@@ -101,7 +102,7 @@ export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Prom
     if (!oldest || w.oldestSubmittedAt < oldest) oldest = w.oldestSubmittedAt;
   }
   const waitedDays = (since: Date | null | undefined) => (since ? daysWaiting(since, scope.timeZone, now) : null);
-  const zero = () => ({ open: 0, open_critical: 0, open_major: 0, fix_submitted: 0, closed: 0, overdue: 0, ceiling_blockers: 0 });
+  const zero = () => ({ open: 0, open_critical: 0, open_major: 0, fix_submitted: 0, closed: 0, total: 0, overdue: 0, ceiling_blockers: 0 });
   const perLevel = new Map<string, ReturnType<typeof zero>>();
   const at = (levelId: string) => {
     let c = perLevel.get(levelId);
@@ -110,6 +111,9 @@ export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Prom
   };
   for (const t of tallies) {
     const c = at(t.level_id);
+    // The total counts every status but voided by itself (not as the sum of the three below), so a
+    // status outside open / fix submitted / closed would show as a row that does not add up.
+    if (t.status !== 'voided') c.total += t.n;
     if (t.status === 'open') {
       c.open += t.n;
       if (t.severity === 'critical') c.open_critical += t.n;
@@ -133,6 +137,8 @@ export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Prom
     openMajor: num(r.open_major),
     fixSubmitted: num(r.fix_submitted),
     closed: num(r.closed),
+    total: num(r.total),
+    unresolved: num(r.open) + num(r.fix_submitted),
     overdue: num(r.overdue),
     unitsTotal: num(r.units_total),
     unitsChecked: num(r.units_checked),

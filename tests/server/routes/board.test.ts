@@ -199,6 +199,9 @@ function expectedBoard(rows: Rows, companyId: string | null): BoardResponse {
     openMajor: list.filter((f) => f.status === 'open' && f.severity === 'major').length,
     fixSubmitted: list.filter((f) => f.status === 'fix_submitted').length,
     closed: list.filter((f) => f.status === 'closed').length,
+    // Every finding read that is not voided (visible() dropped those), counted as a whole.
+    total: list.length,
+    unresolved: list.filter((f) => unresolved(f.status)).length,
     // Overdue: open (new or returned) and past due; a fix waiting for re-inspection is not.
     overdue: list.filter((f) => f.status === 'open' && f.due_on < today).length,
     unitsTotal: units.length,
@@ -480,6 +483,31 @@ describe('the demo job', () => {
     expect(mine.totals.open).toBeLessThan(all.totals.open);
   });
 
+  it('board: open + fix submitted + closed = total on every row and the totals; overdue is a share of open', async () => {
+    const rows = await readRows(jobId);
+    for (const [who, companyId] of [
+      [gc, null],
+      [mech, mechCompany],
+    ] as const) {
+      const board = (await who.get(jobPath(jobId, '/board'))).body as BoardResponse;
+      const fs = visible(rows, companyId);
+      for (const row of [...board.levels, board.totals]) {
+        const place = 'levelId' in row ? row.name : 'all levels';
+        const mine = 'levelId' in row ? fs.filter((f) => f.level_id === row.levelId) : fs;
+        expect({ place, sum: row.open + row.fixSubmitted + row.closed, unresolved: row.open + row.fixSubmitted }).toEqual({
+          place,
+          sum: row.total,
+          unresolved: row.unresolved,
+        });
+        // The total is every finding on the row that is not voided, counted from the rows read here.
+        expect({ place, total: row.total }).toEqual({ place, total: mine.length });
+        expect(row.overdue).toBeLessThanOrEqual(row.open);
+      }
+      // Voided findings exist and sit outside the partition.
+      expect(rows.findings.some((f) => f.status === 'voided' && (!companyId || f.company_id === companyId))).toBe(true);
+    }
+  });
+
   it("board: overdue agrees with the findings list's overdue filter, level by level", async () => {
     for (const who of [gc, mech]) {
       const board = (await who.get(jobPath(jobId, '/board'))).body as BoardResponse;
@@ -690,7 +718,7 @@ describe('a small hand-built job', () => {
     subB = caller(await signIn(trimout.app, crew.subB.email));
   });
 
-  const zero = { open: 0, openCritical: 0, openMajor: 0, fixSubmitted: 0, closed: 0, overdue: 0 };
+  const zero = { open: 0, openCritical: 0, openMajor: 0, fixSubmitted: 0, closed: 0, total: 0, unresolved: 0, overdue: 0 };
 
   it('board: by hand', async () => {
     const res = await gc.get(jobPath(crew.job.id, '/board'));
@@ -699,21 +727,21 @@ describe('a small hand-built job', () => {
       // F1, F2, F3 closed; F4 voided (never counted). U1, U5, U6 checked; U2's latest check is incomplete.
       // Its four cassettes sit in the ceiling and U2's latest check is incomplete: the ceilings cannot
       // close yet, although no finding blocks them.
-      { levelId: L1.id, name: 'First', position: 1, ...zero, closed: 3, unitsTotal: 4, unitsChecked: 3, ceilingBlockers: 0, ceilingUnits: 4, ceilingUnitsUnchecked: 1, ceilingUnitsExcluded: 0, longestWaitDays: null, ceilingState: 'blocked', ceilingReady: false },
+      { levelId: L1.id, name: 'First', position: 1, ...zero, closed: 3, total: 3, unitsTotal: 4, unitsChecked: 3, ceilingBlockers: 0, ceilingUnits: 4, ceilingUnitsUnchecked: 1, ceilingUnitsExcluded: 0, longestWaitDays: null, ceilingState: 'blocked', ceilingReady: false },
       // F5 closed, F6 open critical and overdue, F7 fix submitted (past due, waiting for the inspector:
       // not overdue) and needs ceiling access.
-      { levelId: L2.id, name: 'Second', position: 2, ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 1, overdue: 1, unitsTotal: 2, unitsChecked: 2, ceilingBlockers: 1, ceilingUnits: 1, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 0, longestWaitDays: 6, ceilingState: 'blocked', ceilingReady: false },
+      { levelId: L2.id, name: 'Second', position: 2, ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 1, total: 3, unresolved: 2, overdue: 1, unitsTotal: 2, unitsChecked: 2, ceilingBlockers: 1, ceilingUnits: 1, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 0, longestWaitDays: 6, ceilingState: 'blocked', ceilingReady: false },
     ]);
-    expect(res.body.totals).toEqual({ ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 4, overdue: 1, unitsTotal: 6, unitsChecked: 5 });
+    expect(res.body.totals).toEqual({ ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 4, total: 6, unresolved: 2, overdue: 1, unitsTotal: 6, unitsChecked: 5 });
     expect(res.body.companyScope).toBeNull();
     // Company B sees only F5 and F7 (F3 now belongs to A).
     const b = await subB.get(jobPath(crew.job.id, '/board'));
-    expect(b.body.totals).toEqual({ ...zero, fixSubmitted: 1, closed: 1, unitsTotal: 6, unitsChecked: 5 });
+    expect(b.body.totals).toEqual({ ...zero, fixSubmitted: 1, closed: 1, total: 2, unresolved: 1, unitsTotal: 6, unitsChecked: 5 });
     expect(b.body.levels[1]).toMatchObject({ ceilingBlockers: 1, ceilingReady: false });
     expect(b.body.companyScope).toBe(B);
     // Company A has no ceiling blocker on level 2: for them, nothing of theirs holds the ceiling.
     const a = await subA.get(jobPath(crew.job.id, '/board'));
-    expect(a.body.totals).toEqual({ ...zero, open: 1, openCritical: 1, closed: 3, overdue: 1, unitsTotal: 6, unitsChecked: 5 });
+    expect(a.body.totals).toEqual({ ...zero, open: 1, openCritical: 1, closed: 3, total: 4, unresolved: 1, overdue: 1, unitsTotal: 6, unitsChecked: 5 });
     expect(a.body.levels[1]).toMatchObject({ ceilingBlockers: 0, ceilingState: 'ready', ceilingReady: true });
     expect(a.body.levels[0]).toMatchObject({ ceilingUnitsUnchecked: 1, ceilingState: 'blocked' });
   });
