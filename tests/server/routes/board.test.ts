@@ -19,6 +19,7 @@ import { DEMO_ACCOUNTS, DEMO_JOBS, DEMO_PASSWORD, seedDemo } from '../../../serv
 import { nextFindingNumber, recordFindingEvent } from '../../../server/services/findings';
 import {
   READINESS_LEVEL_BLOCKERS_MAX,
+  type BoardCounts,
   type BoardResponse,
   type ReadinessBlocker,
   type ReadinessResponse,
@@ -491,9 +492,12 @@ describe('the demo job', () => {
     ] as const) {
       const board = (await who.get(jobPath(jobId, '/board'))).body as BoardResponse;
       const fs = visible(rows, companyId);
-      for (const row of [...board.levels, board.totals]) {
-        const place = 'levelId' in row ? row.name : 'all levels';
-        const mine = 'levelId' in row ? fs.filter((f) => f.level_id === row.levelId) : fs;
+      const rowsAndTotals: [place: string, row: BoardCounts, levelId: string | null][] = [
+        ...board.levels.map((l) => [l.name, l, l.levelId] as [string, BoardCounts, string]),
+        ['all levels', board.totals, null],
+      ];
+      for (const [place, row, levelId] of rowsAndTotals) {
+        const mine = levelId ? fs.filter((f) => f.level_id === levelId) : fs;
         expect({ place, sum: row.open + row.fixSubmitted + row.closed, unresolved: row.open + row.fixSubmitted }).toEqual({
           place,
           sum: row.total,
