@@ -1,12 +1,12 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { z } from 'zod';
-import { useEffect, useMemo, useState } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import type { UnitSystem } from '../../shared/catalogue/types';
 import { fixNeedsMeasurement, newMeasurementNeeded, noLimits, sameLimitResolver } from '../../shared/rules/remeasure';
 import { NOTE_LIMIT, submitFixSchema, type FindingDetail, type SubmitFixInput } from '../../shared/schemas/findings';
 import { writeErrorMessage } from '../api/writeErrors';
-import { isQueued } from '../outbox';
+import { isQueued, keepNow, labelWrite } from '../outbox';
 import { MAX_PHOTOS } from '../findings/FindingForm';
 import type { PickedPhoto } from '../findings/PhotoPicker.types';
 import { submitFixWrite, useSubmitFixMutation } from '../queries/correction';
@@ -74,8 +74,15 @@ export function FixForm({
   }, [watch, slot]);
   const photoCount = watch('photos').length;
 
-  const send = handleSubmit(({ photos, ...values }) => {
-    const write = slot.take(() => submitFixWrite(jobId, finding.id, values, photos));
+  // A press being kept and sent: another press meanwhile keeps and sends nothing more (the button
+  // is not busy until the screen re-renders).
+  const pressed = useRef(false);
+  const send = handleSubmit(async ({ photos, ...values }) => {
+    if (pressed.current) return;
+    pressed.current = true;
+    const write = slot.take(() => labelWrite(submitFixWrite(jobId, finding.id, values, photos), finding.label));
+    // Kept on the phone first, before anything re-renders: saved means saved, with its photos.
+    await keepNow(write);
     submit.mutate(write, {
       onSuccess: (res) => {
         slot.settled();
@@ -88,6 +95,9 @@ export function FixForm({
         setServerFieldErrors(err, setError, ['note', 'measuredText', 'photos']);
         setError('root', { message: writeErrorMessage(err, FINDING_WRITE_WORDS) });
         if (isStale(err)) onStale();
+      },
+      onSettled: () => {
+        pressed.current = false;
       },
     });
   });

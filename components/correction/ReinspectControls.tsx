@@ -1,5 +1,5 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useEffect, useMemo, useState } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { z } from 'zod';
@@ -11,7 +11,7 @@ import { REASON_LIMIT, reinspectionSchema, type FindingDetail, type Reinspection
 import { PHOTO_STAGE_LABELS } from '../../shared/words';
 import { writeErrorMessage } from '../api/writeErrors';
 import type { PickedPhoto } from '../findings/PhotoPicker.types';
-import { isQueued } from '../outbox';
+import { isQueued, keepNow, labelWrite } from '../outbox';
 import { reinspectionWrite, useFindingWriteMutation } from '../queries/correction';
 import { space } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -66,12 +66,21 @@ export function ReinspectControls({
     return () => sub.unsubscribe();
   }, [watch, slot]);
 
+  // A verdict being kept and sent: another press meanwhile (either button, before they are
+  // disabled) keeps and sends nothing more.
+  const pressed = useRef(false);
   function send(verdict: ReinspectionVerdict) {
+    if (pressed.current) return;
     if (getValues('verdict') !== verdict) setValue('verdict', verdict);
-    void handleSubmit(({ reason, measuredText, photos }) => {
-      setPending(verdict);
+    void handleSubmit(async ({ reason, measuredText, photos }) => {
+      if (pressed.current) return;
+      pressed.current = true;
       const input: ReinspectionInput = { verdict, reason: reason || undefined, ...(measuredText ? { measuredText } : {}) };
-      const w = slot.take(() => reinspectionWrite(jobId, finding.id, finding.version, input, photos));
+      const w = slot.take(() => labelWrite(reinspectionWrite(jobId, finding.id, finding.version, input, photos), finding.label));
+      // Kept on the phone first (handed to IndexedDB in this turn), then the buttons show it.
+      const kept = keepNow(w);
+      setPending(verdict);
+      await kept;
       write.mutate(w, {
         onSuccess: (res) => {
           slot.settled();
@@ -84,7 +93,10 @@ export function ReinspectControls({
           setError('root', { message: writeErrorMessage(err, FINDING_WRITE_WORDS) });
           if (isStale(err)) onStale();
         },
-        onSettled: () => setPending(null),
+        onSettled: () => {
+          pressed.current = false;
+          setPending(null);
+        },
       });
     })();
   }

@@ -9,9 +9,10 @@ import type { SessionResponse } from '../../shared/schemas/session';
 import { apiGet, setCsrfToken } from '../api/client';
 import { readCurrent, sendWrite } from '../api/mutations';
 import { correctionKeys } from '../queries/correction';
+import { findingKeys } from '../queries/findings';
 import { refreshWalkData } from '../queries/walks';
 import { Outbox } from './engine';
-import { setCurrentOutbox } from './index';
+import { setCurrentOutbox, setFindingLabelLookup } from './index';
 import { defaultOutboxStorage } from './storage';
 
 const MINUTE = 60_000;
@@ -36,6 +37,8 @@ export function OutboxProvider({ userId, children }: { userId: string; children:
       clearTimer: (h) => clearTimeout(h as ReturnType<typeof setTimeout>),
     });
     setCurrentOutbox(outbox);
+    // A write on a finding made on its page names it on the sync screen by the label shown there.
+    setFindingLabelLookup((jobId, findingId) => queryClient.getQueryData<{ label?: unknown }>(findingKeys.detail(jobId, findingId))?.label as string | undefined);
     void outbox.load().then(() => outbox.sync(true));
     const online = () => void outbox.sync(true);
     const target = globalThis as { addEventListener?: (t: string, f: () => void) => void; removeEventListener?: (t: string, f: () => void) => void };
@@ -47,6 +50,7 @@ export function OutboxProvider({ userId, children }: { userId: string; children:
       clearInterval(minute);
       target.removeEventListener?.('online', online);
       outbox.stop();
+      setFindingLabelLookup(null);
       setCurrentOutbox(null);
     };
   }, [userId, queryClient]);

@@ -29,6 +29,35 @@ const FINDING_CHANGES: Record<string, string> = {
   dueOn: 'Due date',
 };
 
+/**
+ * The words of a write on a finding, naming it where its label is known ("#12"): what waits on the
+ * sync screen says which finding it is about, not only what kind of write it is.
+ */
+function findingWords(kind: OutboxKind, body: Record<string, unknown> | null, finding: string | undefined): string {
+  const of = finding ? ` of finding ${finding}` : '';
+  const on = finding ? ` on finding ${finding}` : '';
+  switch (kind) {
+    case 'fix':
+      return `Fix${of}`;
+    case 'photos':
+      return `Photos${of}`;
+    case 'comment':
+      return `Comment${on}`;
+    case 'pin':
+      return finding ? `Pin of finding ${finding} on the plan` : KIND_WORDS.pin;
+    case 'reinspection':
+      if (body?.verdict === 'accept') return finding ? `Fix accepted, finding ${finding}` : 'Fix accepted';
+      if (body?.verdict === 'return') return finding ? `Return of finding ${finding}` : 'Fix returned';
+      return `${KIND_WORDS.reinspection}${of}`;
+    case 'change': {
+      const change = Object.keys(body ?? {}).find((k) => FINDING_CHANGES[k]);
+      return `${change ? FINDING_CHANGES[change]! : KIND_WORDS.change}${of}`;
+    }
+    default:
+      return `${KIND_WORDS[kind]}${of}`;
+  }
+}
+
 /** The JSON of a write's body: the body itself, or the `data` field of a multipart form. */
 export function bodyJson(write: Write): Record<string, unknown> | null {
   const b = write.body;
@@ -65,14 +94,23 @@ export function describeWrite(write: Write, label?: string): WriteMeta {
     return { jobId, kind: 'finding', label: label ? `${KIND_WORDS.finding} · ${label}` : KIND_WORDS.finding, record: null, readPath: null };
   }
   if (resource === 'findings' && id && id !== 'bulk') {
-    if (!sub && write.method === 'PATCH') {
-      const body = bodyJson(write) ?? {};
-      if ('pin' in body) return findingMeta(id, 'pin', KIND_WORDS.pin);
-      const change = Object.keys(body).find((k) => FINDING_CHANGES[k]);
-      return findingMeta(id, 'change', change ? FINDING_CHANGES[change]! : KIND_WORDS.change);
-    }
-    const kind: OutboxKind = sub === 'fixes' ? 'fix' : sub === 'reinspections' ? 'reinspection' : sub === 'comments' ? 'comment' : sub === 'photos' ? 'photos' : 'other';
-    return findingMeta(id, kind, KIND_WORDS[kind]);
+    const body = bodyJson(write);
+    const kind: OutboxKind =
+      !sub && write.method === 'PATCH'
+        ? body && 'pin' in body
+          ? 'pin'
+          : 'change'
+        : sub === 'fixes'
+          ? 'fix'
+          : sub === 'reinspections'
+            ? 'reinspection'
+            : sub === 'comments'
+              ? 'comment'
+              : sub === 'photos'
+                ? 'photos'
+                : 'other';
+    // The label given with a write on a finding is the finding's own ("#12"): the words name it.
+    return { jobId, kind, label: findingWords(kind, body, label), record: `finding:${id}`, readPath: `${job}/findings/${enc(id)}` };
   }
   if (resource === 'units' && id && sub === 'checks') {
     return {

@@ -31,6 +31,29 @@ export function labelWrite(write: Write, label: string): Write {
   return write;
 }
 
+/** Where the label of a finding already on the screen is read from ("#12"); set by OutboxProvider. */
+type FindingLabelLookup = (jobId: string, findingId: string) => string | undefined;
+let findingLabels: FindingLabelLookup = () => undefined;
+
+export function setFindingLabelLookup(lookup: FindingLabelLookup | null) {
+  findingLabels = lookup ?? (() => undefined);
+}
+
+/**
+ * The label a write goes into the outbox with: the one given, else the one it was made with
+ * (labelWrite), else for a write on a finding the finding's label as the screens hold it, so the
+ * sync screen names the finding whichever form made the write.
+ */
+function labelOf(write: Write, label: string | undefined): string | undefined {
+  const given = label ?? labels.get(write);
+  if (given !== undefined) return given;
+  const [api, jobs, jobId, resource, findingId] = write.path.split('?')[0]!.split('/').filter(Boolean).map(decodeURIComponent);
+  if (api !== 'api' || jobs !== 'jobs' || !jobId || resource !== 'findings' || !findingId || findingId === 'bulk') return undefined;
+  const known = findingLabels(jobId, findingId);
+  // Only a number the server gave ("#12"): a finding still waiting to send has none yet.
+  return known && /^#\d+$/.test(known) ? known : undefined;
+}
+
 /** Writes kept on the phone at the press (keepNow), waiting for their submitWrite. */
 const keptEarly = new WeakMap<Write, { outbox: Outbox; item: Promise<OutboxItem> }>();
 
@@ -43,7 +66,7 @@ export async function keepNow(write: Write, label?: string): Promise<void> {
   if (!current) return;
   let early = keptEarly.get(write);
   if (!early || early.outbox !== current) {
-    early = { outbox: current, item: current.keep(write, describeWrite(write, label ?? labels.get(write))) };
+    early = { outbox: current, item: current.keep(write, describeWrite(write, labelOf(write, label))) };
     keptEarly.set(write, early);
   }
   // A write that could not be kept here is tried again by submitWrite, whose failure the form shows.
@@ -66,7 +89,7 @@ export async function submitWrite<T>(write: Write, label?: string): Promise<T | 
     if (item && early.outbox !== current) return { queued: true, itemId: item.id };
     if (item) return early.outbox.submitKept<T>(item);
   }
-  return current ? current.submit<T>(write, describeWrite(write, label ?? labels.get(write))) : sendWrite<T>(write);
+  return current ? current.submit<T>(write, describeWrite(write, labelOf(write, label))) : sendWrite<T>(write);
 }
 
 const EMPTY: OutboxSnapshot = { loaded: false, items: [], sent: [], status: 'idle' };
