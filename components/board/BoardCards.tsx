@@ -6,13 +6,18 @@ import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
 import { links } from '../links';
 import { COUNT_LABELS, type BoardCountKey } from './counts';
-import { CountLink, CoverageBar } from './parts';
+import { CountLink, CoverageBar, OverdueShare } from './parts';
 import { CeilingVerdict } from './CeilingVerdict';
 import { waitingSummary } from '../../shared/rules/waiting';
 
-const TILES: BoardCountKey[] = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'overdue'];
+/** The statuses that partition the total, then the total they add up to. */
+const TILES: BoardCountKey[] = ['open', 'fixSubmitted', 'closed', 'total'];
 
-/** The levels board on a phone: the job's totals, then one card per level with the same numbers and links. */
+/**
+ * The levels board on a phone: the job's totals, then one card per level with the same numbers and
+ * links. Open, fix submitted and closed add up to the total tile beside them; under them, the parts
+ * of the open findings: how many are overdue ("2 of 5 overdue"), critical and major.
+ */
 export function BoardCards({ jobId, board }: { jobId: string; board: BoardResponse }) {
   const levels = [...board.levels].sort((a, b) => a.position - b.position);
   return (
@@ -28,6 +33,7 @@ export function BoardCards({ jobId, board }: { jobId: string; board: BoardRespon
 function LevelCard({ jobId, row, longestWaitDays }: { jobId: string; row: BoardCounts | BoardLevelRow; longestWaitDays: number | null }) {
   const level = 'levelId' in row ? row : null;
   const id = level ? level.levelId : 'total';
+  const place = level ? level.name : 'all levels';
   return (
     <Card testID={`board-card-${id}`} style={level ? null : styles.totals}>
       <View style={styles.top}>
@@ -52,14 +58,26 @@ function LevelCard({ jobId, row, longestWaitDays }: { jobId: string; row: BoardC
       </View>
       <View style={styles.tiles}>
         {TILES.map((k) => (
-          <View key={k} style={styles.tile}>
-            <AppText variant="small" muted numberOfLines={1} style={styles.tileLabel}>
-              {COUNT_LABELS[k]}
+          <View key={k} style={[styles.tile, k === 'total' ? styles.totalTile : null]}>
+            <AppText variant="small" muted style={styles.tileLabel}>
+              {k === 'total' ? '= Total' : COUNT_LABELS[k]}
             </AppText>
-            <CountLink jobId={jobId} levelId={level?.levelId} countKey={k} value={row[k]} place={level ? level.name : 'all levels'} testID={`board-cell-${id}-${k}`} big />
+            <CountLink jobId={jobId} levelId={level?.levelId} countKey={k} value={row[k]} place={place} testID={`board-cell-${id}-${k}`} big />
           </View>
         ))}
       </View>
+      {row.open > 0 ? (
+        <View style={styles.ofOpen} testID={`board-of-open-${id}`}>
+          <AppText variant="small" muted style={styles.tileLabel}>
+            Of the {row.open} open:
+          </AppText>
+          <View style={styles.ofOpenRow}>
+            <OverdueShare jobId={jobId} levelId={level?.levelId} open={row.open} overdue={row.overdue} place={place} testID={`board-cell-${id}-overdue`} />
+            <CountLink jobId={jobId} levelId={level?.levelId} countKey="openCritical" value={row.openCritical} place={place} testID={`board-cell-${id}-openCritical`} word="critical" />
+            <CountLink jobId={jobId} levelId={level?.levelId} countKey="openMajor" value={row.openMajor} place={place} testID={`board-cell-${id}-openMajor`} word="major" />
+          </View>
+        </View>
+      ) : null}
       {row.fixSubmitted > 0 ? (
         // Fixes submitted wait on the inspector, not on the company (never overdue): how long the oldest has waited.
         <AppText variant="small" muted testID={`board-waiting-${id}`}>
@@ -80,7 +98,10 @@ const styles = StyleSheet.create({
   top: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', flexWrap: 'wrap', gap: space.sm },
   levelName: { color: colors.spruce },
   tiles: { flexDirection: 'row', flexWrap: 'wrap', rowGap: space.xs },
-  tile: { width: '33.33%', gap: 2 },
+  tile: { width: '25%', gap: 2 },
+  totalTile: { borderLeftWidth: 1, borderLeftColor: colors.line },
   tileLabel: { paddingLeft: space.sm },
+  ofOpen: { gap: 2 },
+  ofOpenRow: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.xs },
   cov: { gap: space.xs },
 });

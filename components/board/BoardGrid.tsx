@@ -6,34 +6,40 @@ import { AppText } from '../ui/AppText';
 import { SeverityShape } from '../walk/SeverityMark';
 import { links } from '../links';
 import type { BoardCountKey } from './counts';
-import { CountLink, CoverageBar } from './parts';
+import { CountLink, CoverageBar, OverdueShare } from './parts';
 import { CeilingVerdict } from './CeilingVerdict';
 import { waitingSummary } from '../../shared/rules/waiting';
 
 interface Col {
   key: string;
   title: string;
+  /** A second line under the title: what the column counts, in relation to the others. */
+  caption?: string;
   flex: number;
   count?: BoardCountKey;
   shape?: 'critical' | 'major';
+  /** A rule on the left: the partition (open, fix submitted, closed) and its total read as one group. */
+  ruled?: boolean;
 }
 
 const COLS: Col[] = [
-  { key: 'level', title: 'Level', flex: 1.4 },
-  { key: 'open', title: 'Open', flex: 0.8, count: 'open' },
-  { key: 'openCritical', title: 'Critical', flex: 0.9, count: 'openCritical', shape: 'critical' },
-  { key: 'openMajor', title: 'Major', flex: 0.9, count: 'openMajor', shape: 'major' },
-  { key: 'fixSubmitted', title: 'Fix submitted', flex: 1, count: 'fixSubmitted' },
-  { key: 'closed', title: 'Closed', flex: 0.8, count: 'closed' },
-  { key: 'overdue', title: 'Overdue', flex: 0.9, count: 'overdue' },
-  { key: 'coverage', title: 'Units checked', flex: 1.3 },
+  { key: 'level', title: 'Level', flex: 1.3 },
+  { key: 'open', title: 'Open', caption: 'new or returned', flex: 1.2, count: 'open', ruled: true },
+  { key: 'openCritical', title: 'Critical', caption: 'of open', flex: 0.75, count: 'openCritical', shape: 'critical' },
+  { key: 'openMajor', title: 'Major', caption: 'of open', flex: 0.75, count: 'openMajor', shape: 'major' },
+  { key: 'fixSubmitted', title: 'Fix submitted', flex: 1, count: 'fixSubmitted', ruled: true },
+  { key: 'closed', title: 'Closed', flex: 0.75, count: 'closed', ruled: true },
+  { key: 'total', title: 'Total', caption: '= open + fix submitted + closed', flex: 1.05, count: 'total', ruled: true },
+  { key: 'coverage', title: 'Units checked', flex: 1.2, ruled: true },
   { key: 'ceilings', title: 'Ceilings', flex: 1.3 },
 ];
 
 /**
  * The levels board on a wide screen: one row per level in building order, a column per count,
  * and the job's totals last. Each count opens the findings behind it, already filtered.
- * Critical and major are the open findings of that severity (part of "Open").
+ * Open, fix submitted and closed partition the total, which is shown; critical and major are the
+ * open findings of that severity (parts of "Open", captioned so), and overdue is a share of the
+ * open findings under Open ("2 of 5 overdue"), never a column beside the statuses.
  */
 export function BoardGrid({ jobId, board }: { jobId: string; board: BoardResponse }) {
   const levels = [...board.levels].sort((a, b) => a.position - b.position);
@@ -41,16 +47,16 @@ export function BoardGrid({ jobId, board }: { jobId: string; board: BoardRespons
     <View style={styles.table} role="table" testID="board-grid" aria-label="Levels board">
       <View style={[styles.row, styles.head]} role="row">
         {COLS.map((c) => (
-          <View key={c.key} style={[styles.cell, { flex: c.flex }]} role="columnheader">
+          <View key={c.key} style={[styles.cell, styles.headCell, { flex: c.flex }, c.ruled ? styles.ruled : null]} role="columnheader" testID={`board-head-${c.key}`}>
             <View style={styles.headInner}>
               {c.shape ? <SeverityShape severity={c.shape} size={12} /> : null}
               <AppText variant="label" muted>
                 {c.title}
               </AppText>
             </View>
-            {c.shape ? (
+            {c.caption ? (
               <AppText variant="small" muted>
-                open
+                {c.caption}
               </AppText>
             ) : null}
           </View>
@@ -104,6 +110,14 @@ function Row({
               </AppText>
             </View>
           );
+        } else if (c.count === 'open') {
+          // Overdue is a share of the open findings, under them: not a status of its own.
+          content = (
+            <View>
+              <CountLink jobId={jobId} levelId={level?.levelId} countKey="open" value={row.open} place={place} testID={`board-cell-${id}-open`} />
+              <OverdueShare jobId={jobId} levelId={level?.levelId} open={row.open} overdue={row.overdue} place={place} testID={`board-cell-${id}-overdue`} />
+            </View>
+          );
         } else if (c.count) {
           content = <CountLink jobId={jobId} levelId={level?.levelId} countKey={c.count} value={row[c.count]} place={place} testID={`board-cell-${id}-${c.count}`} />;
         } else if (c.key === 'coverage') {
@@ -116,7 +130,7 @@ function Row({
           ) : null;
         }
         return (
-          <View key={c.key} style={[styles.cell, { flex: c.flex }]} role={c.key === 'level' ? 'rowheader' : 'cell'}>
+          <View key={c.key} style={[styles.cell, { flex: c.flex }, c.ruled ? styles.ruled : null, c.key === 'total' ? styles.total : null]} role={c.key === 'level' ? 'rowheader' : 'cell'}>
             {content}
           </View>
         );
@@ -132,6 +146,9 @@ const styles = StyleSheet.create({
   headInner: { flexDirection: 'row', alignItems: 'center', gap: 4 },
   zebra: { backgroundColor: '#FAF8F3' },
   totals: { backgroundColor: colors.spruceSoft, borderTopWidth: 2, borderTopColor: colors.spruce, borderBottomWidth: 0 },
-  cell: { paddingHorizontal: space.sm, paddingVertical: space.sm, minWidth: 0 },
+  cell: { paddingHorizontal: space.sm, paddingVertical: space.sm, minWidth: 0, alignSelf: 'stretch', justifyContent: 'center' },
+  headCell: { justifyContent: 'flex-end' },
+  ruled: { borderLeftWidth: 1, borderLeftColor: colors.line },
+  total: { backgroundColor: 'rgba(0,0,0,0.03)' },
   levelName: { color: colors.spruce, textDecorationLine: 'underline' },
 });

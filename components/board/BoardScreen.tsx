@@ -40,7 +40,8 @@ export function BoardScreen({ jobId }: { jobId: string }) {
         </AppText>
         {board.data ? (
           <AppText muted testID="board-today">
-            Open, fix submitted and closed findings per level; overdue as of {formatDay(board.data.today)}. {Press} a number to see its findings.
+            Open, fix submitted and closed add up to the total on each level; voided findings are not counted. Overdue: open findings (new or
+            returned) past their due date as of {formatDay(board.data.today)}. {Press} a number to see its findings.
           </AppText>
         ) : null}
       </View>

@@ -6,7 +6,7 @@ import type { BoardCounts } from '../../shared/schemas/board';
 import type { FindingLinkFilters } from '../links';
 
 /** The board's count columns that open the findings list (coverage is a fraction, not a list). */
-export type BoardCountKey = 'open' | 'openCritical' | 'openMajor' | 'fixSubmitted' | 'closed' | 'overdue';
+export type BoardCountKey = 'open' | 'openCritical' | 'openMajor' | 'fixSubmitted' | 'closed' | 'total' | 'overdue';
 
 /**
  * Which findings stand behind each board count, as the findings list filters them. The same
@@ -19,6 +19,8 @@ export const BOARD_CELL_FILTERS: Record<BoardCountKey, FindingLinkFilters> = {
   openMajor: { status: 'open', severity: 'major' },
   fixSubmitted: { status: 'fix_submitted' },
   closed: { status: 'closed' },
+  // The three statuses the total partitions: the list without a status filter would add voided ones.
+  total: { status: 'open,fix_submitted,closed' },
   overdue: { overdue: true },
 };
 
@@ -34,8 +36,19 @@ export const COUNT_LABELS: Record<BoardCountKey, string> = {
   openMajor: 'Major open',
   fixSubmitted: 'Fix submitted',
   closed: 'Closed',
+  total: 'Total',
   overdue: 'Overdue',
 };
+
+/**
+ * Overdue as a share of the open findings (new or returned), never a status beside them: only an
+ * open finding can be overdue (a fix waiting for re-inspection waits on the inspector).
+ * "2 of 5 overdue", and the same in words for a screen reader.
+ */
+export function overdueShare(c: Pick<BoardCounts, 'overdue' | 'open'>, place: string): { text: string; label: string } {
+  const noun = c.open === 1 ? 'open finding' : 'open findings';
+  return { text: `${c.overdue} of ${c.open} overdue`, label: `${c.overdue} of ${c.open} ${noun} overdue on ${place}. Show the overdue findings.` };
+}
 
 /** "12 of 20 units checked" and the share (0..1; 0 for a level without units). */
 export function coverage(c: Pick<BoardCounts, 'unitsChecked' | 'unitsTotal'>): { share: number; text: string } {

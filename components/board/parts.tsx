@@ -7,7 +7,7 @@ import { Badge } from '../ui/Badge';
 import { Tabs, type TabItem } from '../ui/Tabs';
 import { SeverityShape } from '../walk/SeverityMark';
 import { links } from '../links';
-import { COUNT_LABELS, boardCellFilters, coverage, percent, type BoardCountKey } from './counts';
+import { COUNT_LABELS, boardCellFilters, coverage, overdueShare, percent, type BoardCountKey } from './counts';
 
 /** Who sees company scorecards (the server answers 403 to anyone else). */
 export function maySeeScorecards(role: Role | undefined): boolean {
@@ -47,10 +47,13 @@ export function CountLink({
   place,
   testID,
   big,
+  word,
 }: {
   jobId: string;
   levelId?: string;
   countKey: BoardCountKey;
+  /** A word after the number where no column or tile title names it ("3 major"). */
+  word?: string;
   value: number;
   /** "Level 3" or "all levels", for the link's label. */
   place: string;
@@ -74,6 +77,40 @@ export function CountLink({
           style={{ color: value === 0 ? colors.inkFaint : alarm ? colors.danger : colors.spruce, textDecorationLine: value === 0 ? 'none' : 'underline' }}
         >
           {value}
+          {word ? ` ${word}` : null}
+        </AppText>
+      </Pressable>
+    </Link>
+  );
+}
+
+/**
+ * Overdue as a share of the open findings, shown under Open ("2 of 5 overdue"), linked to the
+ * overdue findings. Nothing when nothing is open: then nothing can be overdue.
+ */
+export function OverdueShare({
+  jobId,
+  levelId,
+  open,
+  overdue,
+  place,
+  testID,
+}: {
+  jobId: string;
+  levelId?: string;
+  open: number;
+  overdue: number;
+  place: string;
+  testID: string;
+}) {
+  if (open === 0) return null;
+  const share = overdueShare({ open, overdue }, place);
+  const alarm = overdue > 0;
+  return (
+    <Link href={links.findings(jobId, boardCellFilters('overdue', levelId))} asChild>
+      <Pressable accessibilityRole="link" accessibilityLabel={share.label} testID={testID} style={StyleSheet.flatten([styles.share, alarm ? styles.alarm : null])}>
+        <AppText variant="small" style={{ color: alarm ? colors.danger : colors.inkMuted, textDecorationLine: 'underline' }}>
+          {share.text}
         </AppText>
       </Pressable>
     </Link>
@@ -127,6 +164,7 @@ const styles = StyleSheet.create({
     borderRadius: radius.sm,
   },
   countBig: { minHeight: 44 },
+  share: { alignSelf: 'flex-start', justifyContent: 'center', minHeight: 36, paddingHorizontal: space.sm, borderRadius: radius.sm },
   alarm: { backgroundColor: colors.dangerSoft },
   coverage: { gap: 4, minWidth: 0 },
   track: { height: 6, borderRadius: 3, backgroundColor: colors.line, overflow: 'hidden' },

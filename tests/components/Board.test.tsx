@@ -35,15 +35,15 @@ const C1 = '00000000-0000-4000-8000-0000000000c1';
 const C2 = '00000000-0000-4000-8000-0000000000c2';
 const C3 = '00000000-0000-4000-8000-0000000000c3';
 
-const zero = { open: 0, openCritical: 0, openMajor: 0, fixSubmitted: 0, closed: 0, overdue: 0, unitsTotal: 0, unitsChecked: 0 };
+const zero = { open: 0, openCritical: 0, openMajor: 0, fixSubmitted: 0, closed: 0, total: 0, unresolved: 0, overdue: 0, unitsTotal: 0, unitsChecked: 0 };
 // Sent out of building order on purpose: the board sorts by position.
 const BOARD: BoardResponse = {
   levels: [
-    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingState: 'blocked', ceilingReady: false, ceilingBlockers: 2, ceilingUnits: 16, ceilingUnitsUnchecked: 3, ceilingUnitsExcluded: 0, longestWaitDays: 4 },
-    { ...zero, levelId: L1, name: 'Level 1', position: 1, open: 2, openCritical: 0, openMajor: 1, fixSubmitted: 1, closed: 6, overdue: 0, unitsTotal: 20, unitsChecked: 20, ceilingState: 'ready', ceilingReady: true, ceilingBlockers: 0, ceilingUnits: 16, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 1, longestWaitDays: 0 },
+    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, total: 11, unresolved: 7, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingState: 'blocked', ceilingReady: false, ceilingBlockers: 2, ceilingUnits: 16, ceilingUnitsUnchecked: 3, ceilingUnitsExcluded: 0, longestWaitDays: 4 },
+    { ...zero, levelId: L1, name: 'Level 1', position: 1, open: 2, openCritical: 0, openMajor: 1, fixSubmitted: 1, closed: 6, total: 9, unresolved: 3, overdue: 0, unitsTotal: 20, unitsChecked: 20, ceilingState: 'ready', ceilingReady: true, ceilingBlockers: 0, ceilingUnits: 16, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 1, longestWaitDays: 0 },
     { ...zero, levelId: L3, name: 'Roof', position: 3, unitsTotal: 4, ceilingState: 'no_ceiling_units', ceilingReady: false, ceilingBlockers: 0, ceilingUnits: 0, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 0, longestWaitDays: null },
   ],
-  totals: { open: 7, openCritical: 1, openMajor: 4, fixSubmitted: 3, closed: 10, overdue: 2, unitsTotal: 44, unitsChecked: 35 },
+  totals: { open: 7, openCritical: 1, openMajor: 4, fixSubmitted: 3, closed: 10, total: 20, unresolved: 10, overdue: 2, unitsTotal: 44, unitsChecked: 35 },
   longestWaitDays: 4,
   today: '2026-11-30',
   companyScope: null,
@@ -201,6 +201,40 @@ describe('the levels board', () => {
     expect(within(screen.getByTestId(`board-ceiling-${L3}`)).getByText('No ceiling units')).toBeTruthy();
   });
 
+  it('shows the partition on the grid: open + fix submitted + closed = total, overdue as a share of open', async () => {
+    fakeApi('gc_manager');
+    renderWithQueries(<BoardScreen jobId={JOB} />);
+    const grid = await screen.findByTestId('board-grid');
+    // No Overdue column beside the statuses; critical and major are captioned as parts of open.
+    const heads = within(grid)
+      .getAllByTestId(/^board-head-/)
+      .map((h) => String(h.props.testID).replace('board-head-', ''));
+    expect(heads).toEqual(['level', 'open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'total', 'coverage', 'ceilings']);
+    expect(screen.getByTestId('board-head-open')).toHaveTextContent('Opennew or returned');
+    expect(screen.getByTestId('board-head-openCritical')).toHaveTextContent('Criticalof open');
+    expect(screen.getByTestId('board-head-openMajor')).toHaveTextContent('Majorof open');
+    expect(screen.getByTestId('board-head-total')).toHaveTextContent('Total= open + fix submitted + closed');
+    for (const [id, total] of [
+      [L1, '9'],
+      [L2, '11'],
+      [L3, '0'],
+      ['total', '20'],
+    ] as const) {
+      expect(within(screen.getByTestId(`board-cell-${id}-total`)).getByText(total)).toBeTruthy();
+    }
+    // Overdue under Open, as a share of the open findings, linked to the overdue list.
+    expect(screen.getByTestId(`board-cell-${L2}-overdue`)).toHaveTextContent('2 of 5 overdue');
+    expect(screen.getByTestId(`board-cell-${L2}-overdue`).props.accessibilityLabel).toBe('2 of 5 open findings overdue on Level 2. Show the overdue findings.');
+    expect(hrefOf(`board-cell-${L2}-overdue`)).toBe(`${F}?levelId=${L2}&overdue=true`);
+    expect(screen.getByTestId(`board-cell-${L1}-overdue`)).toHaveTextContent('0 of 2 overdue');
+    expect(screen.getByTestId('board-cell-total-overdue')).toHaveTextContent('2 of 7 overdue');
+    expect(hrefOf('board-cell-total-overdue')).toBe(`${F}?overdue=true`);
+    // Nothing open on the roof: nothing can be overdue there.
+    expect(screen.queryByTestId(`board-cell-${L3}-overdue`)).toBeNull();
+    // The note says what adds up and what is left out.
+    expect(screen.getByTestId('board-today')).toHaveTextContent(/Open, fix submitted and closed add up to the total on each level; voided findings are not counted/);
+  });
+
   it('shows one card per level on a phone, totals first, with the same numbers', async () => {
     mockWide = false;
     fakeApi('gc_manager');
@@ -212,8 +246,17 @@ describe('the levels board', () => {
     expect(screen.getByTestId(`board-waiting-${L2}`)).toHaveTextContent('2 waiting for the inspector, longest 4 days');
     expect(screen.getByTestId('board-waiting-total')).toHaveTextContent('3 waiting for the inspector, longest 4 days');
     expect(screen.queryByTestId(`board-waiting-${L3}`)).toBeNull();
-    expect(within(screen.getByTestId(`board-cell-${L2}-overdue`)).getByText('2')).toBeTruthy();
+    // The statuses and the total they add up to; overdue, critical and major as parts of open.
+    const tiles = within(screen.getByTestId(`board-card-${L2}`))
+      .getAllByTestId(/^board-cell-/)
+      .map((c) => String(c.props.testID).replace(`board-cell-${L2}-`, ''));
+    expect(tiles).toEqual(['open', 'fixSubmitted', 'closed', 'total', 'overdue', 'openCritical', 'openMajor']);
+    expect(within(screen.getByTestId(`board-cell-${L2}-total`)).getByText('11')).toBeTruthy();
+    expect(screen.getByTestId(`board-of-open-${L2}`)).toHaveTextContent('Of the 5 open:2 of 5 overdue1 critical3 major');
+    expect(screen.getByTestId(`board-cell-${L2}-overdue`).props.accessibilityLabel).toBe('2 of 5 open findings overdue on Level 2. Show the overdue findings.');
     expect(hrefOf(`board-cell-${L2}-overdue`)).toBe(`${F}?levelId=${L2}&overdue=true`);
+    expect(within(screen.getByTestId('board-card-total')).getByTestId('board-cell-total-total')).toHaveTextContent('20');
+    expect(screen.queryByTestId(`board-of-open-${L3}`)).toBeNull();
   });
 
   it('links each count to the findings list filtered to what it counts', async () => {
@@ -225,6 +268,8 @@ describe('the levels board', () => {
     expect(hrefOf(`board-cell-${L2}-openMajor`)).toBe(`${F}?levelId=${L2}&status=open&severity=major`);
     expect(hrefOf(`board-cell-${L2}-fixSubmitted`)).toBe(`${F}?levelId=${L2}&status=fix_submitted`);
     expect(hrefOf(`board-cell-${L2}-closed`)).toBe(`${F}?levelId=${L2}&status=closed`);
+    // The total is the three statuses (without a status filter the list would add voided findings).
+    expect(Object.fromEntries(new URLSearchParams(hrefOf(`board-cell-${L2}-total`).split('?')[1]))).toEqual({ levelId: L2, status: 'open,fix_submitted,closed' });
     expect(hrefOf(`board-cell-${L2}-overdue`)).toBe(`${F}?levelId=${L2}&overdue=true`);
     expect(hrefOf('board-cell-total-open')).toBe(`${F}?status=open`);
     expect(hrefOf(`board-level-${L2}`)).toBe(`/jobs/${JOB}/levels/${L2}`);
