@@ -233,6 +233,14 @@ it('an inspector returns a fixed finding with a reason offline, reloads offline,
   await page.getByTestId('header-outbox').tap();
   await page.getByTestId('sync-screen').waitFor();
   await until(async () => (await page.getByTestId('sync-item-waiting').count()) === 1, 'the sync screen to list the verdict', 10_000);
+  // It names the finding, and every button and link on the screen is a touch target at phone size.
+  expect(await page.getByTestId('sync-item-waiting').textContent()).toContain(`Return of finding #${finding.number}`);
+  const targets = page.getByTestId('sync-screen').locator('[role="button"], button, a');
+  expect(await targets.count()).toBeGreaterThanOrEqual(2);
+  for (const target of await targets.all()) {
+    const box = await target.boundingBox();
+    expect([await target.textContent(), (box?.height ?? 0) >= 44]).toEqual([await target.textContent(), true]);
+  }
   await h.screenshot(page, 'offline-fixes-03-return-waiting-after-offline-reload');
   expect(((await page.evaluate(READ_OUTBOX)) as KeptItem[]).map((k) => k.key)).toEqual(kept.map((k) => k.key));
 
