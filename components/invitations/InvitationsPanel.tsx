@@ -17,7 +17,7 @@ import { Segmented } from '../ui/Segmented';
 import { Select } from '../ui/Select';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { TextField } from '../ui/TextField';
-import { FormBanner } from '../ui/FormBanner';
+import { FormBanner, useFieldLabel } from '../ui/FormBanner';
 
 /**
  * For GC managers on the members screen: invite someone by e-mail with a role and company, and
@@ -75,6 +75,11 @@ function InviteForm({ jobId }: { jobId: string }) {
   });
 
   const companyOptions = (companies.data ?? []).map((c) => ({ value: c.id, label: c.name }));
+  // These fields are drawn here (the e-mail clears the sent note, the company list may be loading), so they tell the banner their labels themselves.
+  useFieldLabel(control, 'email', 'E-mail');
+  useFieldLabel(control, 'name', 'Name');
+  useFieldLabel(control, 'role', 'Role');
+  useFieldLabel(control, 'companyId', 'Company');
   return (
     <Card testID="invite-form">
       <AppText variant="heading" role="heading">
