@@ -71,8 +71,8 @@ function LevelCard({ jobId, row, longestWaitDays }: { jobId: string; row: BoardC
           <AppText variant="small" muted style={styles.tileLabel}>
             Of the {row.open} open:
           </AppText>
+          <OverdueShare jobId={jobId} levelId={level?.levelId} open={row.open} overdue={row.overdue} place={place} testID={`board-cell-${id}-overdue`} big />
           <View style={styles.ofOpenRow}>
-            <OverdueShare jobId={jobId} levelId={level?.levelId} open={row.open} overdue={row.overdue} place={place} testID={`board-cell-${id}-overdue`} />
             <CountLink jobId={jobId} levelId={level?.levelId} countKey="openCritical" value={row.openCritical} place={place} testID={`board-cell-${id}-openCritical`} word="critical" />
             <CountLink jobId={jobId} levelId={level?.levelId} countKey="openMajor" value={row.openMajor} place={place} testID={`board-cell-${id}-openMajor`} word="major" />
           </View>
@@ -98,7 +98,8 @@ const styles = StyleSheet.create({
   top: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', flexWrap: 'wrap', gap: space.sm },
   levelName: { color: colors.spruce },
   tiles: { flexDirection: 'row', flexWrap: 'wrap', rowGap: space.xs },
-  tile: { width: '25%', gap: 2 },
+  // Equal heights in a row; the number at the foot, so a label on two lines does not push one number down.
+  tile: { width: '25%', gap: 2, justifyContent: 'space-between' },
   totalTile: { borderLeftWidth: 1, borderLeftColor: colors.line },
   tileLabel: { paddingLeft: space.sm },
   ofOpen: { gap: 2 },

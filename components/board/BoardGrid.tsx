@@ -23,13 +23,13 @@ interface Col {
 }
 
 const COLS: Col[] = [
-  { key: 'level', title: 'Level', flex: 1.3 },
+  { key: 'level', title: 'Level', flex: 1.1 },
   { key: 'open', title: 'Open', caption: 'new or returned', flex: 1.2, count: 'open', ruled: true },
   { key: 'openCritical', title: 'Critical', caption: 'of open', flex: 0.75, count: 'openCritical', shape: 'critical' },
   { key: 'openMajor', title: 'Major', caption: 'of open', flex: 0.75, count: 'openMajor', shape: 'major' },
   { key: 'fixSubmitted', title: 'Fix submitted', flex: 1, count: 'fixSubmitted', ruled: true },
   { key: 'closed', title: 'Closed', flex: 0.75, count: 'closed', ruled: true },
-  { key: 'total', title: 'Total', caption: '= open + fix submitted + closed', flex: 1.05, count: 'total', ruled: true },
+  { key: 'total', title: 'Total', caption: '= open + fix submitted + closed', flex: 1.25, count: 'total', ruled: true },
   { key: 'coverage', title: 'Units checked', flex: 1.2, ruled: true },
   { key: 'ceilings', title: 'Ceilings', flex: 1.3 },
 ];

@@ -95,6 +95,7 @@ export function OverdueShare({
   overdue,
   place,
   testID,
+  big,
 }: {
   jobId: string;
   levelId?: string;
@@ -102,6 +103,8 @@ export function OverdueShare({
   overdue: number;
   place: string;
   testID: string;
+  /** As large as the counts beside it (the phone's "of the open" line), not a caption under a count. */
+  big?: boolean;
 }) {
   if (open === 0) return null;
   const share = overdueShare({ open, overdue }, place);
@@ -109,7 +112,7 @@ export function OverdueShare({
   return (
     <Link href={links.findings(jobId, boardCellFilters('overdue', levelId))} asChild>
       <Pressable accessibilityRole="link" accessibilityLabel={share.label} testID={testID} style={StyleSheet.flatten([styles.share, alarm ? styles.alarm : null])}>
-        <AppText variant="small" style={{ color: alarm ? colors.danger : colors.inkMuted, textDecorationLine: 'underline' }}>
+        <AppText variant={big ? 'heading' : 'small'} style={{ color: alarm ? colors.danger : colors.inkMuted, textDecorationLine: 'underline' }}>
           {share.text}
         </AppText>
       </Pressable>

@@ -53,6 +53,14 @@ async function cell(page: Page, testID: string): Promise<number> {
   return Number((await text(page, testID)).replace(/[^0-9]/g, ''));
 }
 
+/** "2 of 5 overdue" under Open: overdue as a share of the open findings; none shown when nothing is open. */
+async function overdueShare(page: Page, testID: string): Promise<{ overdue: number; open: number } | null> {
+  if ((await page.getByTestId(testID).count()) === 0) return null;
+  const m = /^(\d+) of (\d+) overdue$/.exec(await text(page, testID));
+  expect(m).not.toBeNull();
+  return { overdue: Number(m![1]), open: Number(m![2]) };
+}
+
 /** The findings list's total ("3 findings match the filters"). */
 async function listTotal(page: Page): Promise<number> {
   const total = page.getByTestId('findings-total');
@@ -87,12 +95,22 @@ describe('the levels board', () => {
       expect(await cell(page, `board-cell-${l.id}-openMajor`)).toBe(await countFindings({ levelId: l.id, status: 'open', severity: 'major' }));
       expect(await cell(page, `board-cell-${l.id}-fixSubmitted`)).toBe(await countFindings({ levelId: l.id, status: 'fix_submitted' }));
       expect(await cell(page, `board-cell-${l.id}-closed`)).toBe(await countFindings({ levelId: l.id, status: 'closed' }));
-      expect(await cell(page, `board-cell-${l.id}-overdue`)).toBe(
-        // Overdue: open and past due; a fix waiting for re-inspection is not overdue against the company.
-        await countFindings({ levelId: l.id, status: 'open', dueOn: { [Op.lt]: today } }),
-      );
+      // Open + fix submitted + closed = total, shown; the total is every finding but voided ones.
+      const total = await cell(page, `board-cell-${l.id}-total`);
+      expect(total).toBe(await countFindings({ levelId: l.id }));
+      expect(
+        (await cell(page, `board-cell-${l.id}-open`)) + (await cell(page, `board-cell-${l.id}-fixSubmitted`)) + (await cell(page, `board-cell-${l.id}-closed`)),
+      ).toBe(total);
+      // Overdue under Open, as a share of it: open and past due; a fix waiting for re-inspection is
+      // not overdue against the company. A level with nothing open shows no share.
+      const open = await countFindings({ levelId: l.id, status: 'open' });
+      const overdue = await countFindings({ levelId: l.id, status: 'open', dueOn: { [Op.lt]: today } });
+      expect(await overdueShare(page, `board-cell-${l.id}-overdue`)).toEqual(open === 0 ? null : { overdue, open });
     }
     expect(await cell(page, 'board-cell-total-open')).toBe(await countFindings({ status: 'open' }));
+    expect(await cell(page, 'board-cell-total-total')).toBe(await countFindings({}));
+    // No Overdue column beside the statuses.
+    expect(await page.getByTestId('board-head-overdue').count()).toBe(0);
     await h.screenshot(page, 'board-01-grid-wide');
     await page.getByTestId('trend-chart').locator('svg').waitFor();
     expect(await page.getByTestId('trend-chart').locator('svg').count()).toBe(1);
@@ -116,10 +134,11 @@ describe('the levels board', () => {
     // The job's overdue total opens the overdue findings, as many.
     await page.goBack();
     await page.getByTestId('board-grid').waitFor();
-    const overdue = await cell(page, 'board-cell-total-overdue');
+    const share = await overdueShare(page, 'board-cell-total-overdue');
+    expect(share!.overdue).toBeGreaterThan(0);
     await page.getByTestId('board-cell-total-overdue').click();
     await page.waitForURL(/overdue=true/);
-    expect(await listTotal(page)).toBe(overdue);
+    expect(await listTotal(page)).toBe(share!.overdue);
     expect(await page.getByTestId('findings-filters-overdue').getAttribute('aria-checked')).toBe('true');
     expect(problems).toEqual([]);
   });
@@ -141,6 +160,15 @@ describe('the levels board', () => {
     await page.waitForURL(/status=fix_submitted/);
     expect(await listTotal(page)).toBe(waiting);
     await h.screenshot(page, 'board-07-fix-submitted-findings-phone');
+
+    // The total tile opens the level's findings in the three statuses it adds up: as many.
+    await page.goBack();
+    await page.getByTestId('board-cards').waitFor();
+    const total = await cell(page, `board-cell-${level.id}-total`);
+    expect(total).toBe(await countFindings({ levelId: level.id }));
+    await page.getByTestId(`board-cell-${level.id}-total`).click();
+    await page.waitForURL(/status=open%2Cfix_submitted%2Cclosed|status=open,fix_submitted,closed/);
+    expect(await listTotal(page)).toBe(total);
 
     await page.goto(`${h.baseUrl}/jobs/${jobId}/board`);
     await page.getByTestId('trend-chart').locator('svg').waitFor();
