@@ -5,13 +5,10 @@ import { colors, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Card } from '../ui/Card';
 import { links } from '../links';
-import { COUNT_LABELS, type BoardCountKey } from './counts';
-import { CountLink, CoverageBar, OverdueShare } from './parts';
+import { CoverageBar, StatusTiles } from './parts';
 import { CeilingVerdict } from './CeilingVerdict';
 import { waitingSummary } from '../../shared/rules/waiting';
 
-/** The statuses that partition the total, then the total they add up to. */
-const TILES: BoardCountKey[] = ['open', 'fixSubmitted', 'closed', 'total'];
 
 /**
  * The levels board on a phone: the job's totals, then one card per level with the same numbers and
@@ -56,28 +53,7 @@ function LevelCard({ jobId, row, longestWaitDays }: { jobId: string; row: BoardC
           />
         ) : null}
       </View>
-      <View style={styles.tiles}>
-        {TILES.map((k) => (
-          <View key={k} style={[styles.tile, k === 'total' ? styles.totalTile : null]}>
-            <AppText variant="small" muted style={styles.tileLabel}>
-              {k === 'total' ? '= Total' : COUNT_LABELS[k]}
-            </AppText>
-            <CountLink jobId={jobId} levelId={level?.levelId} countKey={k} value={row[k]} place={place} testID={`board-cell-${id}-${k}`} big />
-          </View>
-        ))}
-      </View>
-      {row.open > 0 ? (
-        <View style={styles.ofOpen} testID={`board-of-open-${id}`}>
-          <AppText variant="small" muted style={styles.tileLabel}>
-            Of the {row.open} open:
-          </AppText>
-          <OverdueShare jobId={jobId} levelId={level?.levelId} open={row.open} overdue={row.overdue} place={place} testID={`board-cell-${id}-overdue`} big />
-          <View style={styles.ofOpenRow}>
-            <CountLink jobId={jobId} levelId={level?.levelId} countKey="openCritical" value={row.openCritical} place={place} testID={`board-cell-${id}-openCritical`} word="critical" />
-            <CountLink jobId={jobId} levelId={level?.levelId} countKey="openMajor" value={row.openMajor} place={place} testID={`board-cell-${id}-openMajor`} word="major" />
-          </View>
-        </View>
-      ) : null}
+      <StatusTiles jobId={jobId} levelId={level?.levelId} row={row} place={place} cellTestID={(k) => `board-cell-${id}-${k}`} ofOpenTestID={`board-of-open-${id}`} />
       {row.fixSubmitted > 0 ? (
         // Fixes submitted wait on the inspector, not on the company (never overdue): how long the oldest has waited.
         <AppText variant="small" muted testID={`board-waiting-${id}`}>
@@ -97,12 +73,5 @@ const styles = StyleSheet.create({
   totals: { backgroundColor: colors.spruceSoft, borderColor: colors.spruce },
   top: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', flexWrap: 'wrap', gap: space.sm },
   levelName: { color: colors.spruce },
-  tiles: { flexDirection: 'row', flexWrap: 'wrap', rowGap: space.xs },
-  // Equal heights in a row; the number at the foot, so a label on two lines does not push one number down.
-  tile: { width: '25%', gap: 2, justifyContent: 'space-between' },
-  totalTile: { borderLeftWidth: 1, borderLeftColor: colors.line },
-  tileLabel: { paddingLeft: space.sm },
-  ofOpen: { gap: 2 },
-  ofOpenRow: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.xs },
   cov: { gap: space.xs },
 });

@@ -11,12 +11,9 @@ import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { useWide } from '../ui/useWide';
 import { links } from '../links';
-import { COUNT_LABELS, type BoardCountKey } from './counts';
-import { BackLink, CountLink, CoverageBar } from './parts';
+import { BackLink, CoverageBar, StatusTiles } from './parts';
 import { LevelReadinessCard, UnitsNotReady } from './Readiness';
 import { TrendChart } from './TrendChart';
-
-const COUNTS: BoardCountKey[] = ['open', 'openCritical', 'openMajor', 'fixSubmitted', 'closed', 'overdue'];
 
 /** One level: its numbers from the board, whether its ceilings can close (and what blocks them), its trend, and the way to walk it or see its plan. */
 export function LevelDetailScreen({ jobId, levelId }: { jobId: string; levelId: string }) {
@@ -70,16 +67,7 @@ export function LevelDetailScreen({ jobId, levelId }: { jobId: string; levelId: 
             </Link>
           </View>
           <Card testID="level-counts">
-            <View style={styles.tiles}>
-              {COUNTS.map((k) => (
-                <View key={k} style={[styles.tile, wide ? styles.tileWide : null]}>
-                  <AppText variant="small" muted numberOfLines={1} style={styles.tileLabel}>
-                    {COUNT_LABELS[k]}
-                  </AppText>
-                  <CountLink jobId={jobId} levelId={levelId} countKey={k} value={row[k]} place={row.name} testID={`level-cell-${k}`} big />
-                </View>
-              ))}
-            </View>
+            <StatusTiles jobId={jobId} levelId={levelId} row={row} place={row.name} cellTestID={(k) => `level-cell-${k}`} ofOpenTestID="level-of-open" />
             <AppText variant="label">Units checked</AppText>
             <CoverageBar checked={row.unitsChecked} total={row.unitsTotal} testID="level-coverage" />
           </Card>
@@ -124,9 +112,5 @@ const styles = StyleSheet.create({
   head: { gap: space.xs },
   actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
   grow: { flexGrow: 1, flexBasis: 160 },
-  tiles: { flexDirection: 'row', flexWrap: 'wrap', rowGap: space.sm },
-  tile: { width: '33.33%', gap: 2 },
-  tileWide: { width: '16.66%' },
-  tileLabel: { paddingLeft: space.sm },
   more: { color: colors.spruce },
 });

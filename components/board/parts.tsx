@@ -1,5 +1,6 @@
 import { Link, type Href } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
+import type { BoardCounts } from '../../shared/schemas/board';
 import type { Role } from '../../shared/words';
 import { colors, linkTarget, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -120,6 +121,57 @@ export function OverdueShare({
   );
 }
 
+/** The statuses that partition the total, then the total they add up to. */
+const STATUS_TILES: BoardCountKey[] = ['open', 'fixSubmitted', 'closed', 'total'];
+
+/**
+ * A level's (or the job's) counts as tiles: open, fix submitted and closed, and the total they add
+ * up to; under them the parts of the open findings: how many are overdue ("2 of 5 overdue"),
+ * critical and major. The phone's board cards and the level page show the same.
+ */
+export function StatusTiles({
+  jobId,
+  levelId,
+  row,
+  place,
+  cellTestID,
+  ofOpenTestID,
+}: {
+  jobId: string;
+  levelId?: string;
+  row: Pick<BoardCounts, BoardCountKey>;
+  place: string;
+  cellTestID: (key: BoardCountKey) => string;
+  ofOpenTestID: string;
+}) {
+  return (
+    <>
+      <View style={styles.tiles}>
+        {STATUS_TILES.map((k) => (
+          <View key={k} style={[styles.tile, k === 'total' ? styles.totalTile : null]}>
+            <AppText variant="small" muted style={styles.tileLabel}>
+              {k === 'total' ? '= Total' : COUNT_LABELS[k]}
+            </AppText>
+            <CountLink jobId={jobId} levelId={levelId} countKey={k} value={row[k]} place={place} testID={cellTestID(k)} big />
+          </View>
+        ))}
+      </View>
+      {row.open > 0 ? (
+        <View style={styles.ofOpen} testID={ofOpenTestID}>
+          <AppText variant="small" muted style={styles.tileLabel}>
+            Of the {row.open} open:
+          </AppText>
+          <OverdueShare jobId={jobId} levelId={levelId} open={row.open} overdue={row.overdue} place={place} testID={cellTestID('overdue')} big />
+          <View style={styles.ofOpenRow}>
+            <CountLink jobId={jobId} levelId={levelId} countKey="openCritical" value={row.openCritical} place={place} testID={cellTestID('openCritical')} word="critical" />
+            <CountLink jobId={jobId} levelId={levelId} countKey="openMajor" value={row.openMajor} place={place} testID={cellTestID('openMajor')} word="major" />
+          </View>
+        </View>
+      ) : null}
+    </>
+  );
+}
+
 /** Units checked of units, with a small bar (the words carry the number; the bar only supports it). */
 export function CoverageBar({ checked, total, testID }: { checked: number; total: number; testID?: string }) {
   const c = coverage({ unitsChecked: checked, unitsTotal: total });
@@ -169,6 +221,13 @@ const styles = StyleSheet.create({
   countBig: { minHeight: 44 },
   share: { alignSelf: 'flex-start', justifyContent: 'center', minHeight: 36, paddingHorizontal: space.sm, borderRadius: radius.sm },
   alarm: { backgroundColor: colors.dangerSoft },
+  tiles: { flexDirection: 'row', flexWrap: 'wrap', rowGap: space.xs },
+  // Equal heights in a row; the number at the foot, so a label on two lines does not push one number down.
+  tile: { width: '25%', gap: 2, justifyContent: 'space-between' },
+  totalTile: { borderLeftWidth: 1, borderLeftColor: colors.line },
+  tileLabel: { paddingLeft: space.sm },
+  ofOpen: { gap: 2 },
+  ofOpenRow: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.xs },
   coverage: { gap: 4, minWidth: 0 },
   track: { height: 6, borderRadius: 3, backgroundColor: colors.line, overflow: 'hidden' },
   fill: { height: 6, borderRadius: 3 },

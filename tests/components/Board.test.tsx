@@ -435,6 +435,10 @@ describe('readiness and the level screen', () => {
     expect(hrefOf('level-walk')).toBe(`/jobs/${JOB}/levels/${L2}/walk`);
     expect(hrefOf('level-plan')).toBe(`/jobs/${JOB}/levels/${L2}/plan`);
     expect(hrefOf('level-cell-openCritical')).toBe(`${F}?levelId=${L2}&status=open&severity=critical`);
+    // The same partition as the board: the statuses, their total, and overdue as a share of open.
+    expect(within(screen.getByTestId('level-cell-total')).getByText('11')).toBeTruthy();
+    expect(screen.getByTestId('level-of-open')).toHaveTextContent('Of the 5 open:2 of 5 overdue1 critical3 major');
+    expect(hrefOf('level-cell-overdue')).toBe(`${F}?levelId=${L2}&overdue=true`);
     expect(await screen.findByTestId(`level-readiness-${L2}`)).toBeTruthy();
     expect(await screen.findByTestId('trend-summary')).toBeTruthy();
   });

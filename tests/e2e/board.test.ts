@@ -217,6 +217,7 @@ describe('the levels board', () => {
     expect(await text(page, 'level-name')).toBe(level.name);
     expect(await page.getByTestId('level-plan').getAttribute('href')).toBe(`/jobs/${jobId}/levels/${level.id}/plan`);
     expect(await cell(page, 'level-cell-open')).toBe(await countFindings({ levelId: level.id, status: 'open' }));
+    expect(await cell(page, 'level-cell-total')).toBe(await countFindings({ levelId: level.id }));
     await page.getByTestId('level-trend').waitFor();
     await h.screenshot(page, 'board-13-level-wide');
     expect(problems).toEqual([]);
