@@ -11,22 +11,24 @@ import { Job } from '../../../server/models';
 import { DEMO_COMPANIES, seedDemo } from '../../../server/seed/demo';
 import { DEMO_DEFECT_TEXT, DEMO_SOMETHING_ELSE } from '../../../server/seed/demoText';
 import { loadScorecards } from '../../../server/services/board';
-import { connectTestDb } from '../../support/db';
+import { connectOwnDb } from '../../support/db';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
 
 jest.setTimeout(180_000);
 
 let db: Database;
+let drop: () => Promise<void>;
 let s3: FakeS3;
 let jobId: string;
 beforeAll(async () => {
-  db = await connectTestDb();
+  // Its own database: other test files add levels, fixes and photos to the shared demo job.
+  ({ db, drop } = await connectOwnDb('demo_trust'));
   s3 = await startFakeS3();
   await seedDemo(db, { store: s3.store });
   jobId = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!.id;
 });
 afterAll(async () => {
-  await db.close();
+  await drop();
   await s3.close();
 });
 
