@@ -42,7 +42,7 @@ export function Tabs({ items, current, testID }: { items: readonly TabItem[]; cu
 const styles = StyleSheet.create({
   row: { gap: space.xs, paddingVertical: 2 },
   tab: {
-    minHeight: touchTarget - 4,
+    minHeight: touchTarget,
     justifyContent: 'center',
     paddingHorizontal: space.md,
     borderRadius: radius.md,
