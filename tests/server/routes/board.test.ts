@@ -366,8 +366,21 @@ function expectedRecurring(rows: Rows, companyId: string | null): RecurringRespo
   const names = new Map(rows.companies.map((c) => [c.id, c.name]));
   const fs = visible(rows, companyId).filter((f) => f.unit_id !== null);
   const items = [];
+  // A catalogue type recurs as itself; "Something else" findings (their own title) recur by their
+  // normalised title (case and repeated white space aside), each title a defect of its own.
+  const groups: { key: string; item: Rows['items'][number]; mine: typeof fs }[] = [];
   for (const item of rows.items) {
-    const mine = fs.filter((f) => f.catalogue_item_id === item.id);
+    const own = fs.filter((f) => f.catalogue_item_id === item.id);
+    const plain = own.filter((f) => f.title === null);
+    if (plain.length) groups.push({ key: item.id, item, mine: plain });
+    const byTitle = new Map<string, typeof fs>();
+    for (const f of own.filter((x) => x.title !== null)) {
+      const k = `other:${f.title!.trim().replace(/\s+/g, ' ').toLowerCase()}`;
+      byTitle.set(k, [...(byTitle.get(k) ?? []), f]);
+    }
+    for (const [key, mine] of byTitle) groups.push({ key, item, mine });
+  }
+  for (const { key, item, mine } of groups) {
     const firstAt = new Map<string, Date>();
     for (const f of mine) {
       const prev = firstAt.get(f.unit_id!);
@@ -384,11 +397,12 @@ function expectedRecurring(rows: Rows, companyId: string | null): RecurringRespo
     for (const unitId of firstAt.keys()) perLevel.set(units.get(unitId)!.level_id, (perLevel.get(units.get(unitId)!.level_id) ?? 0) + 1);
     const perCompany = new Map<string, Set<string>>();
     for (const f of mine) perCompany.set(f.company_id, (perCompany.get(f.company_id) ?? new Set()).add(f.unit_id!));
+    const shown = key === item.id ? item.title : [...mine].sort((a, b) => a.logged_at.getTime() - b.logged_at.getTime() || a.unit_id!.localeCompare(b.unit_id!))[0]!.title!;
     items.push({
-      key: item.id,
+      key,
       catalogueItemId: item.id,
       code: item.code,
-      title: item.title,
+      title: shown,
       unitCount,
       checkedUnits,
       share,
@@ -399,13 +413,13 @@ function expectedRecurring(rows: Rows, companyId: string | null): RecurringRespo
       byCompany: [...perCompany.entries()].map(([id, set]) => ({ companyId: id, name: names.get(id)!, count: set.size })).sort(byKey('companyId')),
     });
   }
-  return { thresholds, items: items.sort(byKey('catalogueItemId')), companyScope: companyId };
+  return { thresholds, items: items.sort(byKey('key')), companyScope: companyId };
 }
 
 function normaliseRecurring(r: RecurringResponse): RecurringResponse {
   return {
     ...r,
-    items: [...r.items].sort(byKey('catalogueItemId')).map((i) => ({ ...i, share: Math.round(i.share * 1e9) / 1e9, byCompany: [...i.byCompany].sort(byKey('companyId')) })),
+    items: [...r.items].sort(byKey('key')).map((i) => ({ ...i, share: Math.round(i.share * 1e9) / 1e9, byCompany: [...i.byCompany].sort(byKey('companyId')) })),
   };
 }
 
