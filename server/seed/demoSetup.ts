@@ -27,7 +27,13 @@ export const DEMO_COMPANY_TRADES: Record<CompanyKey, TradeKey[]> = {
   ceilings: ['ceilings', 'drywall'],
 };
 
-const COMMON_PRACTICE = 'Invented demo model. Figure is common practice for this kind of unit, not from a real manual: enter the value from the installation manual.';
+/**
+ * Every demo limit is an invented round figure for an invented model, not any real product's
+ * rating and not a trade rule: a real job enters each value from its model's installation manual.
+ */
+function inventedSource(modelNumber: string, page: number): string {
+  return `Invented demo model ${modelNumber}, invented installation manual p. ${page}: not a real product's rating. Enter the value from the model's own installation manual.`;
+}
 
 interface ModelSpec {
   name: string;
@@ -37,7 +43,7 @@ interface ModelSpec {
   limits: Partial<Record<ModelLimitKey, string>>;
 }
 
-/** Invented unit models. Limits are typed the way the trade writes them. */
+/** Invented unit models. Limits are invented round figures, typed the way the trade writes them. */
 export const DEMO_MODELS: ModelSpec[] = [
   { name: 'Cassette 4-way 18', modelNumber: 'TC4-18', unitKind: 'cassette_4way', capacity: '18000 Btu/h', limits: { max_pump_lift: '30 in' } },
   { name: 'Compact cassette 12', modelNumber: 'CC4-12', unitKind: 'cassette_compact', capacity: '12000 Btu/h', limits: { max_pump_lift: '30 in' } },
@@ -49,19 +55,19 @@ export const DEMO_MODELS: ModelSpec[] = [
     modelNumber: 'DL-24',
     unitKind: 'ducted_low',
     capacity: '24000 Btu/h',
-    limits: { max_pump_lift: '39-3/8 in', max_drain_horizontal_run: '11-3/4 in' },
+    limits: { max_pump_lift: '24 in', max_drain_horizontal_run: '10 in' },
   },
   {
     name: 'Ducted high static 36',
     modelNumber: 'DH-36',
     unitKind: 'ducted_high',
     capacity: '3 tons',
-    limits: { max_pump_lift: '39-3/8 in', max_drain_horizontal_run: '11-3/4 in' },
+    limits: { max_pump_lift: '24 in', max_drain_horizontal_run: '10 in' },
   },
   { name: 'Ducted very high static 48', modelNumber: 'DV-48', unitKind: 'ducted_very_high', capacity: '4 tons', limits: {} },
   { name: 'Floor console 12', modelNumber: 'FC-12', unitKind: 'floor_console', capacity: '12000 Btu/h', limits: {} },
   { name: 'Floor/ceiling 18', modelNumber: 'FF-18', unitKind: 'floor_ceiling', capacity: '18000 Btu/h', limits: {} },
-  { name: 'Air-handler coil kit 60', modelNumber: 'AK-60', unitKind: 'ahu_coil_kit', capacity: '5 tons', limits: { max_valve_kit_pipe_length: '78-3/4 in' } },
+  { name: 'Air-handler coil kit 60', modelNumber: 'AK-60', unitKind: 'ahu_coil_kit', capacity: '5 tons', limits: { max_valve_kit_pipe_length: '6 ft' } },
 ];
 
 const MODEL_QUANTITY: Record<ModelLimitKey, 'length' | 'angle'> = {
@@ -199,7 +205,7 @@ export async function seedDemoSetup(
   for (const m of DEMO_MODELS) {
     const limits: Partial<Record<ModelLimitKey, StatedLimitDto>> = {};
     for (const [key, text] of Object.entries(m.limits) as [ModelLimitKey, string][]) {
-      limits[key] = statedLimit({ value: text, source: COMMON_PRACTICE }, MODEL_QUANTITY[key], key);
+      limits[key] = statedLimit({ value: text, source: inventedSource(m.modelNumber, 4) }, MODEL_QUANTITY[key], key);
     }
     const [value, unit] = m.capacity.split(' ') as [string, string];
     const model = await UnitModel.create(

@@ -35,7 +35,7 @@ const FALLBACK_UNIT: Record<QuantityKind, string> = {
 
 const SYMBOLS: Record<string, string> = { '"': 'in', "'": 'ft' };
 
-/** The unit a value was stated in: the one given, else the last unit typed ("39-3/8 in" → in). */
+/** The unit a value was stated in: the one given, else the last unit typed ("27-1/2 in" → in). */
 function statedUnit(text: string, kind: QuantityKind, given?: string): string {
   if (given && unitKind(given) === kind) return given;
   const trailing = /\d\s*([^\d\s][^\d]*)$/.exec(text.trim())?.[1]?.trim();
@@ -46,7 +46,7 @@ function statedUnit(text: string, kind: QuantityKind, given?: string): string {
   return FALLBACK_UNIT[kind];
 }
 
-/** A limit as entered ({ value: "39-3/8 in", source }) → stored form with its base value. */
+/** A limit as entered ({ value: "27-1/2 in", source }) → stored form with its base value. */
 export function statedLimit(input: StatedLimitInput, kind: QuantityKind, field: string): StatedLimitDto {
   const value = toBaseOrThrow(input.value, kind, field);
   const unit = statedUnit(input.value, kind, input.unit);

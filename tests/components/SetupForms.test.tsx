@@ -93,7 +93,7 @@ describe('a unit model’s limits', () => {
     renderWithQueries(<ModelsScreen jobId={JOB} />);
     fireEvent.press(await screen.findByTestId('model-add'));
     fireEvent.changeText(screen.getByTestId('model-name-input'), 'Cassette 24');
-    fireEvent.changeText(screen.getByTestId('model-limit-max_pump_lift-value'), '27-9/16 in');
+    fireEvent.changeText(screen.getByTestId('model-limit-max_pump_lift-value'), '27-1/2 in');
     fireEvent.press(screen.getByTestId('model-submit'));
     expect(await screen.findByTestId('model-limit-max_pump_lift-source-error')).toBeTruthy();
     expect(within(screen.getByTestId('model-form-error')).getByText('Check the limits marked below.')).toBeTruthy();
@@ -102,7 +102,7 @@ describe('a unit model’s limits', () => {
     fireEvent.changeText(screen.getByTestId('model-limit-max_pump_lift-source'), 'Installation manual, p. 12');
     fireEvent.press(screen.getByTestId('model-submit'));
     await waitFor(() => expect(sent).toHaveLength(1));
-    expect(sent[0]!.body).toMatchObject({ name: 'Cassette 24', limits: { max_pump_lift: { value: '27-9/16 in', source: 'Installation manual, p. 12' } } });
+    expect(sent[0]!.body).toMatchObject({ name: 'Cassette 24', limits: { max_pump_lift: { value: '27-1/2 in', source: 'Installation manual, p. 12' } } });
     expect(Object.keys((sent[0]!.body as { limits: object }).limits)).toEqual(['max_pump_lift']);
   });
 });

@@ -7,7 +7,7 @@ import { unitKind } from '../../calc/quantity';
 import { quantityText } from './common';
 import { text } from './fields';
 
-/** A limit as entered: the value typed with its unit ("39-3/8 in"), and where it came from. */
+/** A limit as entered: the value typed with its unit ("27-1/2 in"), and where it came from. */
 export function statedLimitInput(kind: QuantityKind, label: string) {
   return z
     .object({

@@ -37,8 +37,9 @@ describe('unit models', () => {
       unitKind: 'ducted_low',
       nominalCapacity: '36000 Btu/h',
       limits: {
-        max_pump_lift: { value: '39-3/8 in', source: 'Installation manual p. 9 (invented; common practice figure)' },
-        max_drain_horizontal_run: { value: '11-3/4 in', source: 'Installation manual p. 9' },
+        // Invented round figures for an invented model; the source says so (no real product's rating).
+        max_pump_lift: { value: '27-1/2 in', source: 'Invented demo model DL-36, manual p. 9' },
+        max_drain_horizontal_run: { value: '10 in', source: 'Invented demo model DL-36, manual p. 9' },
         min_clearance_top: { value: `1' 2"`, unit: 'in', source: 'Installation manual p. 5' },
         max_sensor_angle: { value: '45°', source: 'Installation manual p. 12' },
       },
@@ -46,13 +47,13 @@ describe('unit models', () => {
     expect(res.status).toBe(201);
     expect(res.headers.etag).toBe('"v1"');
     expect(res.body.limits.max_pump_lift).toEqual({
-      value: 1000.125,
-      stated: 39.375,
+      value: 698.5, // 27.5 × 25.4 mm exactly
+      stated: 27.5,
       unit: 'in',
-      text: '39-3/8 in',
-      source: 'Installation manual p. 9 (invented; common practice figure)',
+      text: '27-1/2 in',
+      source: 'Invented demo model DL-36, manual p. 9',
     });
-    expect(res.body.limits.max_drain_horizontal_run.value).toBeCloseTo(298.45, 9);
+    expect(res.body.limits.max_drain_horizontal_run.value).toBeCloseTo(254, 9); // 10 × 25.4 mm
     expect(res.body.limits.min_clearance_top).toMatchObject({ value: 355.6, stated: 14, unit: 'in' });
     expect(res.body.limits.max_sensor_angle).toMatchObject({ value: 45, unit: '°' });
     expect(res.body.nominalCapacity).toBeCloseTo(10550.5585262, 6);

@@ -75,14 +75,16 @@ describe('demo seed: job set-up', () => {
     expect(r32.a2lFloorArea.every((row) => row.result.status === 'pass')).toBe(true);
   });
 
-  it('gives the unit models their limits with a source that says they are invented / common practice', async () => {
+  it('gives the unit models invented round limits with a source that says they are invented', async () => {
     await seedDemo(db);
     const job = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!;
     const ducted = (await UnitModel.findOne({ where: { jobId: job.id, modelNumber: 'DL-24' } }))!;
-    expect(ducted.limits.max_pump_lift).toMatchObject({ value: 1000.125, stated: 39.375, unit: 'in' });
-    expect(ducted.limits.max_drain_horizontal_run!.value).toBeCloseTo(298.45, 9);
-    expect(ducted.limits.max_pump_lift!.source).toMatch(/common practice/);
+    // Invented demo figures (no real product's rating): 24 in lift, 10 in horizontal run, 6 ft kit pipe.
+    expect(ducted.limits.max_pump_lift).toMatchObject({ value: 609.6, stated: 24, unit: 'in' });
+    expect(ducted.limits.max_drain_horizontal_run).toMatchObject({ value: 254, stated: 10, unit: 'in' });
+    expect(ducted.limits.max_pump_lift!.source).toMatch(/^Invented demo model DL-24, invented installation manual p\. 4: not a real product's rating/);
     const kit = (await UnitModel.findOne({ where: { jobId: job.id, modelNumber: 'AK-60' } }))!;
-    expect(kit.limits.max_valve_kit_pipe_length).toMatchObject({ value: 2000.25, stated: 78.75, unit: 'in' });
+    expect(kit.limits.max_valve_kit_pipe_length).toMatchObject({ value: 1828.8, stated: 6, unit: 'ft' });
+    expect(kit.limits.max_valve_kit_pipe_length!.source).toMatch(/^Invented demo model AK-60/);
   });
 });

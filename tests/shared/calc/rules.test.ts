@@ -1,7 +1,7 @@
 /**
- * The measured-rule engine. Model limits below are example installation-manual values:
- * "common practice, no published source" — they stand for what a GC manager enters from a
- * model's manual, not for any particular manufacturer's figure.
+ * The measured-rule engine. Model limits below are invented round figures for an invented
+ * model (VX-24, DX-48): they stand for what a GC manager enters from a model's installation
+ * manual, and none is a real product's rating or a trade rule.
  */
 import fc from 'fast-check';
 import type { MeasuredRule, ModelLimitKey, QuantityKind, ResolvedLimit, StatedLimit } from '../../../shared/catalogue/types';
@@ -15,18 +15,20 @@ function q(text: string, kind: QuantityKind): number {
   return r.value;
 }
 
+// Source of every value: invented example model VX-24's invented manual (not a real product).
 const modelLimits: Partial<Record<ModelLimitKey, StatedLimit>> = {
-  max_pump_lift: { value: 30, unit: 'in', source: 'installation manual, p. 12' }, // cassette pump lift about 30 in: common practice, no published source
-  max_drain_horizontal_run: { value: 11.75, unit: 'in', source: 'installation manual, p. 14' }, // ducted unit max horizontal run 11-3/4 in: common practice, no published source
-  min_clearance_top: { value: 6, unit: 'in' }, // ≥ 6 in above a wall-mounted unit: common practice, no published source
-  min_mount_height: { value: 8, unit: 'ft' }, // recommended > 8 ft from floor: common practice, no published source
-  min_distance_to_wall: { value: 1500, unit: 'mm' }, // nearly 5 ft cassette to wall: common practice, no published source
-  min_clearance_side: { value: 2, unit: 'ft' }, // ~2 ft each side for floor/ceiling service: common practice, no published source
-  max_valve_kit_pipe_length: { value: 78.75, unit: 'in' }, // ≤ 78-3/4 in valve box to coil: common practice, no published source
-  max_sensor_angle: { value: 30, unit: 'deg' }, // coil sensor within 30° of the pipe centre line: common practice, no published source
+  max_pump_lift: { value: 30, unit: 'in', source: 'installation manual, p. 12' }, // invented: 30 in
+  max_drain_horizontal_run: { value: 10, unit: 'in', source: 'installation manual, p. 14' }, // invented: 10 in
+  min_clearance_top: { value: 6, unit: 'in' }, // invented: 6 in
+  min_mount_height: { value: 8, unit: 'ft' }, // invented: 8 ft
+  min_distance_to_wall: { value: 1200, unit: 'mm' }, // invented: 1200 mm
+  min_clearance_side: { value: 2, unit: 'ft' }, // invented: 2 ft
+  max_valve_kit_pipe_length: { value: 6, unit: 'ft' }, // invented: 6 ft
+  max_sensor_angle: { value: 30, unit: 'deg' }, // invented: 30°
 };
+// Invented example model DX-48 (not a real product): pump lift 24 in.
 const ducted: Partial<Record<ModelLimitKey, StatedLimit>> = {
-  max_pump_lift: { value: 39.375, unit: 'in' }, // ducted unit pump lift 39-3/8 in: common practice, no published source
+  max_pump_lift: { value: 24, unit: 'in' },
 };
 
 const resolver = makeLimitResolver({ model: { name: 'VX-24', limits: modelLimits } });
@@ -35,25 +37,25 @@ function rule(measure: string, quantity: QuantityKind, comparison: MeasuredRule[
   return { measure, quantity, comparison, limit: { from: 'model', key } };
 }
 
-describe('model limits from an installation manual (example values: common practice, no published source)', () => {
+describe('model limits from an installation manual (invented example model VX-24, not a real product)', () => {
   it.each([
     // [measure, kind, comparison, key, measured text, status, margin text or null]
-    ['Pump lift', 'length', 'at_most', 'max_pump_lift', '30"', 'pass', 0], // cassette ~30 in
+    ['Pump lift', 'length', 'at_most', 'max_pump_lift', '30"', 'pass', 0], // VX-24 invented 30 in
     ['Pump lift', 'length', 'at_most', 'max_pump_lift', '29-1/2"', 'pass', 12.7],
     ['Pump lift', 'length', 'at_most', 'max_pump_lift', '30-1/16"', 'fail', -1.5875],
-    ['Horizontal drain run', 'length', 'at_most', 'max_drain_horizontal_run', '11-3/4"', 'pass', 0], // ducted 11-3/4 in
-    ['Horizontal drain run', 'length', 'at_most', 'max_drain_horizontal_run', '1\' 0"', 'fail', -6.35],
-    ['Clearance above', 'length', 'at_least', 'min_clearance_top', '6"', 'pass', 0], // wall-mounted ≥ 6 in
+    ['Horizontal drain run', 'length', 'at_most', 'max_drain_horizontal_run', '10"', 'pass', 0], // VX-24 invented 10 in
+    ['Horizontal drain run', 'length', 'at_most', 'max_drain_horizontal_run', '1\' 0"', 'fail', -50.8],
+    ['Clearance above', 'length', 'at_least', 'min_clearance_top', '6"', 'pass', 0], // VX-24 invented 6 in
     ['Clearance above', 'length', 'at_least', 'min_clearance_top', '5-7/8"', 'fail', -3.175],
-    ['Mounting height', 'length', 'at_least', 'min_mount_height', "8' 0\"", 'pass', 0], // > 8 ft
+    ['Mounting height', 'length', 'at_least', 'min_mount_height', "8' 0\"", 'pass', 0], // VX-24 invented 8 ft
     ['Mounting height', 'length', 'at_least', 'min_mount_height', "7' 11\"", 'fail', -25.4],
-    ['Cassette to wall', 'length', 'at_least', 'min_distance_to_wall', '1500 mm', 'pass', 0], // nearly 5 ft
-    ['Cassette to wall', 'length', 'at_least', 'min_distance_to_wall', "5' 0\"", 'pass', 24],
-    ['Cassette to wall', 'length', 'at_least', 'min_distance_to_wall', '1.45 m', 'fail', -50],
-    ['Service side clearance', 'length', 'at_least', 'min_clearance_side', "2' 0\"", 'pass', 0], // ~2 ft each side
-    ['Valve kit to coil pipe', 'length', 'at_most', 'max_valve_kit_pipe_length', '78-3/4"', 'pass', 0], // ≤ 78-3/4 in
-    ['Valve kit to coil pipe', 'length', 'at_most', 'max_valve_kit_pipe_length', '2001 mm', 'fail', -0.75],
-    ['Coil sensor angle', 'angle', 'at_most', 'max_sensor_angle', '30°', 'pass', 0], // within 30°
+    ['Cassette to wall', 'length', 'at_least', 'min_distance_to_wall', '1200 mm', 'pass', 0], // VX-24 invented 1200 mm
+    ['Cassette to wall', 'length', 'at_least', 'min_distance_to_wall', "4' 0\"", 'pass', 19.2],
+    ['Cassette to wall', 'length', 'at_least', 'min_distance_to_wall', '1.15 m', 'fail', -50],
+    ['Service side clearance', 'length', 'at_least', 'min_clearance_side', "2' 0\"", 'pass', 0], // VX-24 invented 2 ft
+    ['Valve kit to coil pipe', 'length', 'at_most', 'max_valve_kit_pipe_length', "6' 0\"", 'pass', 0], // VX-24 invented 6 ft
+    ['Valve kit to coil pipe', 'length', 'at_most', 'max_valve_kit_pipe_length', '1830 mm', 'fail', -1.2],
+    ['Coil sensor angle', 'angle', 'at_most', 'max_sensor_angle', '30°', 'pass', 0], // VX-24 invented 30°
     ['Coil sensor angle', 'angle', 'at_most', 'max_sensor_angle', '31°', 'fail', -1],
   ] as const)('%s %s %s (%s): %s → %s, margin %p', (measure, kind, comparison, key, text, status, margin) => {
     const r = evaluateRule(rule(measure, kind, comparison, key), q(text, kind), resolver);
@@ -76,16 +78,16 @@ describe('model limits from an installation manual (example values: common pract
     expect(r.message).toMatch(/exactly at the maximum.*inclusive/);
   });
 
-  it('a ducted model with 39-3/8 in lift passes 39-3/8 in and fails 39-7/16 in (common practice, no published source)', () => {
+  it('a ducted model with 24 in lift passes 24 in and fails 24-1/16 in (invented example model DX-48)', () => {
     const d = makeLimitResolver({ model: { name: 'DX-48', limits: ducted } });
     const rl = rule('Pump lift', 'length', 'at_most', 'max_pump_lift');
-    expect(evaluateRule(rl, q('39-3/8"', 'length'), d).pass).toBe(true);
-    expect(evaluateRule(rl, q('39-7/16"', 'length'), d).pass).toBe(false);
+    expect(evaluateRule(rl, q('24"', 'length'), d).pass).toBe(true);
+    expect(evaluateRule(rl, q('24-1/16"', 'length'), d).pass).toBe(false);
   });
 
   it('metric messages for a metric job', () => {
-    const r = evaluateRule(rule('Cassette to wall', 'length', 'at_least', 'min_distance_to_wall'), q('1.45 m', 'length'), resolver, { system: 'metric' });
-    expect(r.message).toBe('Cassette to wall: 1450 mm is 50 mm below the minimum 1500 mm (Model VX-24 installation manual).');
+    const r = evaluateRule(rule('Cassette to wall', 'length', 'at_least', 'min_distance_to_wall'), q('1.15 m', 'length'), resolver, { system: 'metric' });
+    expect(r.message).toBe('Cassette to wall: 1150 mm is 50 mm below the minimum 1200 mm (Model VX-24 installation manual).');
   });
 });
 
