@@ -1,5 +1,6 @@
 import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
+import type { A2lAreaResult, A2lAreaStatus } from '../../shared/calc/refrigerant';
 import type { UnitSystem } from '../../shared/catalogue/types';
 import type { SystemDetail } from '../../shared/schemas/setup';
 import { colors, space } from '../theme';
@@ -14,6 +15,24 @@ export const CONCENTRATION_STATUS: Record<SystemDetail['concentration']['status'
   not_measured: { label: 'Not checked yet', tone: 'info' },
   invalid: { label: 'Cannot check yet', tone: 'warn' },
 };
+
+/**
+ * The A2L floor-area check's own words: below m1 there is nothing to check, and above m2 the
+ * answer is neither a pass nor a fail but a question for the design (additional measures).
+ */
+export const A2L_AREA_STATUS: Record<A2lAreaStatus, { label: string; tone: 'good' | 'bad' | 'warn' | 'info' }> = {
+  pass: { label: 'Enough floor area', tone: 'good' },
+  fail: { label: 'Room too small', tone: 'bad' },
+  additional_measures: { label: 'Design must show additional measures', tone: 'warn' },
+  limit_not_set: { label: 'LFL not set', tone: 'warn' },
+  not_measured: { label: 'Floor area not entered', tone: 'info' },
+  invalid: { label: 'Cannot check yet', tone: 'warn' },
+};
+
+function a2lLabel(result: A2lAreaResult): { label: string; tone: 'good' | 'bad' | 'warn' | 'info' } {
+  if (result.band === 'below_m1') return { label: 'Below m1: no room-area requirement', tone: 'good' };
+  return A2L_AREA_STATUS[result.status];
+}
 
 /**
  * A system's refrigerant concentration check in plain words: which space (or joined spaces)
@@ -52,18 +71,30 @@ export function ConcentrationResultView({ detail, unitSystem }: { detail: System
       {detail.a2lFloorArea.length > 0 ? (
         <View style={styles.a2l}>
           <AppText variant="label">Minimum room floor area (A2L refrigerant, IEC 60335-2-40 Annex GG)</AppText>
-          {detail.a2lFloorArea.map((a) => (
-            <AppText key={a.unitId} variant="small">
-              {a.tag}
-              {a.spaceName ? ` in ${a.spaceName}` : ''}: {a.result.message}
-            </AppText>
-          ))}
+          {detail.a2lFloorArea.map((a) => {
+            const word = a2lLabel(a.result);
+            return (
+              <View key={a.unitId} style={styles.a2lRow} testID={`a2l-${a.tag}`}>
+                <Badge label={word.label} tone={word.tone} testID={`a2l-status-${a.tag}`} />
+                <AppText variant="small" style={styles.a2lText}>
+                  {a.tag}
+                  {a.spaceName ? ` in ${a.spaceName}` : ''} ({MOUNT_WORDS[a.mount]}): {a.result.message}
+                </AppText>
+              </View>
+            );
+          })}
         </View>
       ) : null}
       <SafetyCaution text="Refrigerant work (charging, recovery, brazing) is hazardous and regulated." />
     </View>
   );
 }
+
+const MOUNT_WORDS: Record<SystemDetail['a2lFloorArea'][number]['mount'], string> = {
+  floor: 'floor-standing',
+  wall: 'wall-mounted',
+  ceiling: 'ceiling-mounted',
+};
 
 function Fact({ label, value, testID }: { label: string; value: string; testID?: string }) {
   return (
@@ -84,4 +115,6 @@ const styles = StyleSheet.create({
   facts: { flexDirection: 'row', flexWrap: 'wrap', gap: space.lg },
   fact: { minWidth: 140, flexShrink: 1 },
   a2l: { gap: 2 },
+  a2lRow: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: space.sm },
+  a2lText: { flexShrink: 1 },
 });

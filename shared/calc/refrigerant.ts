@@ -308,6 +308,19 @@ export const LFL: Partial<Record<Refrigerant, { value: number; source: string }>
 /** Release heights h0 of Annex GG, m: floor-standing 0.6, wall-mounted 1.8, ceiling-mounted 2.2. */
 export const RELEASE_HEIGHTS = { floor: 0.6, wall: 1.8, ceiling: 2.2 } as const;
 export type MountPosition = keyof typeof RELEASE_HEIGHTS;
+/** The mounting positions a model or unit may record (the keys of RELEASE_HEIGHTS). */
+export const MOUNT_POSITIONS = ['floor', 'wall', 'ceiling'] as const satisfies readonly MountPosition[];
+
+/**
+ * Charge thresholds of IEC 60335-2-40:2018 Annex GG for A2L refrigerants, as room volumes times
+ * the LFL: m1 = 6 m³ × LFL (about 1.84 kg for R-32), m2 = 26 m³ × LFL (about 7.98 kg for R-32).
+ * From memory, confirm the clause (GG.1 and the A2L factor on m1) in the adopted edition.
+ */
+export const A2L_CHARGE_FACTORS = {
+  m1: 6,
+  m2: 26,
+  source: 'IEC 60335-2-40:2018 Annex GG.1 (m1 = 6 m³ × LFL for A2L, m2 = 26 m³ × LFL; from memory, confirm the clause)',
+} as const;
 
 /**
  * A_min = (m / (2.5 × LFL^(5/4) × h0))², m², for charge m in kg, LFL in kg/m³, h0 in m.
@@ -321,15 +334,33 @@ export function a2lMinFloorArea(chargeKg: number, mount: MountPosition | number,
   return (chargeKg / (2.5 * lfl ** 1.25 * h0)) ** 2;
 }
 
+/**
+ * The third outcome beside pass and fail: above m2 the standard asks for other measures
+ * (ventilation, leak detection, shut-off) that Trimout cannot judge from a floor area.
+ */
+export type A2lAreaStatus = RuleStatus | 'additional_measures';
+
+/** Which charge band of Annex GG the system falls in. */
+export type A2lChargeBand = 'below_m1' | 'm1_to_m2' | 'above_m2';
+
 export interface A2lAreaResult {
-  status: RuleStatus;
+  status: A2lAreaStatus;
+  /** null for additional_measures: neither a pass nor a fail. */
   pass: boolean | null;
+  band: A2lChargeBand | null;
+  /** kg */
+  m1: number | null;
+  /** kg */
+  m2: number | null;
+  /** m², only between m1 and m2 (where A_min applies). */
   minArea: number | null;
   margin: number | null;
+  /** m, the release height used (from the mounting position). */
+  releaseHeight: number;
   message: string;
 }
 
-/** Room floor area (m²) against A_min for the charge and mounting position. */
+/** Room floor area (m²) against IEC 60335-2-40 Annex GG for the charge and mounting position. */
 export function checkA2lFloorArea(input: {
   refrigerant: Refrigerant;
   chargeKg: number;
@@ -339,22 +370,69 @@ export function checkA2lFloorArea(input: {
   lfl?: number;
   system?: UnitSystem;
 }): A2lAreaResult {
+  const releaseHeight = RELEASE_HEIGHTS[input.mount];
+  const none = { band: null, m1: null, m2: null, minArea: null, margin: null, releaseHeight };
   const lfl = input.lfl ?? LFL[input.refrigerant]?.value;
   if (lfl === undefined) {
-    return { status: 'limit_not_set', pass: null, minArea: null, margin: null, message: `No LFL is stored for ${input.refrigerant}: enter it with its source.` };
+    return { ...none, status: 'limit_not_set', pass: null, message: `No LFL is stored for ${input.refrigerant}: enter it with its source.` };
+  }
+  if (!(input.chargeKg >= 0) || !(lfl > 0)) {
+    return { ...none, status: 'invalid', pass: null, message: 'The charge must be zero or more and the LFL above zero.' };
+  }
+  const sys = input.system ?? 'metric';
+  const m1 = A2L_CHARGE_FACTORS.m1 * lfl;
+  const m2 = A2L_CHARGE_FACTORS.m2 * lfl;
+  const charge = `${input.refrigerant} ${formatQuantity(input.chargeKg, 'mass', sys)}`;
+  const bands = `m1 ${formatQuantity(m1, 'mass', sys)}, m2 ${formatQuantity(m2, 'mass', sys)}; ${A2L_CHARGE_FACTORS.source}`;
+  // At exactly m1 the charge is not above it: no area requirement (the band is "above m1").
+  if (roundToResolution(input.chargeKg - m1) <= 0) {
+    return {
+      ...none,
+      m1,
+      m2,
+      band: 'below_m1',
+      status: 'pass',
+      pass: true,
+      message: `${charge} is below m1: no room-area requirement (${bands}).`,
+    };
+  }
+  if (roundToResolution(input.chargeKg - m2) > 0) {
+    return {
+      ...none,
+      m1,
+      m2,
+      band: 'above_m2',
+      status: 'additional_measures',
+      pass: null,
+      message: `${charge} is above m2: design must show additional measures (ventilation, leak detection, shut-off); a floor area alone neither passes nor fails it (${bands}).`,
+    };
   }
   const minArea = a2lMinFloorArea(input.chargeKg, input.mount, lfl);
-  const sys = input.system ?? 'metric';
+  // The standard states h0 in metres; shown as it states it.
+  const where = `${input.mount}-mounted (release height h0 ${releaseHeight} m)`;
   if (input.floorArea === null) {
-    return { status: 'not_measured', pass: null, minArea, margin: null, message: `Room floor area not entered; ${formatQuantity(minArea, 'area', sys)} is needed.` };
+    return {
+      ...none,
+      m1,
+      m2,
+      band: 'm1_to_m2',
+      minArea,
+      status: 'not_measured',
+      pass: null,
+      message: `Room floor area not entered; ${charge}, ${where}, needs ${formatQuantity(minArea, 'area', sys)} (A_min, IEC 60335-2-40:2018 Annex GG.2).`,
+    };
   }
   const margin = roundToResolution(input.floorArea - minArea);
   const pass = margin >= 0;
   return {
-    status: pass ? 'pass' : 'fail',
-    pass,
+    ...none,
+    m1,
+    m2,
+    band: 'm1_to_m2',
     minArea,
     margin,
-    message: `${input.refrigerant} ${formatQuantity(input.chargeKg, 'mass', sys)}, ${input.mount}-mounted, needs ${formatQuantity(minArea, 'area', sys)} of floor (IEC 60335-2-40:2018 Annex GG); the room has ${formatQuantity(input.floorArea, 'area', sys)}.`,
+    status: pass ? 'pass' : 'fail',
+    pass,
+    message: `${charge}, ${where}, is between m1 and m2 and needs ${formatQuantity(minArea, 'area', sys)} of floor (A_min, IEC 60335-2-40:2018 Annex GG.2); the room has ${formatQuantity(input.floorArea, 'area', sys)}.`,
   };
 }

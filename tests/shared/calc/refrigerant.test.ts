@@ -227,17 +227,60 @@ describe('A2L minimum floor area (IEC 60335-2-40:2018 Annex GG.2; check values: 
     expect(() => a2lMinFloorArea(1, 0)).toThrow(/release height/);
   });
 
-  it('room check: at or above A_min passes', () => {
-    expect(checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 1.84, floorArea: 30, mount: 'floor' }).status).toBe('pass');
-    expect(checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 1.84, floorArea: 25, mount: 'floor' }).status).toBe('fail');
-    const exact = a2lMinFloorArea(1.84, 'wall');
-    expect(checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 1.84, floorArea: exact, mount: 'wall' }).status).toBe('pass');
-    expect(checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 1.84, floorArea: null, mount: 'wall' }).status).toBe('not_measured');
+  it('room check between m1 and m2: at or above A_min passes', () => {
+    // 2.0 kg R-32 is above m1 (1.842 kg) and below m2 (7.982 kg): A_min applies (34.04 m² floor-standing).
+    const above = checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 2.0, floorArea: 35, mount: 'floor' });
+    expect(above).toMatchObject({ status: 'pass', pass: true, band: 'm1_to_m2', releaseHeight: 0.6 });
+    expect(checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 2.0, floorArea: 30, mount: 'floor' })).toMatchObject({ status: 'fail', pass: false });
+    const exact = a2lMinFloorArea(2.0, 'wall');
+    expect(checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 2.0, floorArea: exact, mount: 'wall' }).status).toBe('pass');
+    expect(checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 2.0, floorArea: null, mount: 'wall' }).status).toBe('not_measured');
   });
 
   it('R-454B: no LFL stored, so the job must enter it', () => {
     const r = checkA2lFloorArea({ refrigerant: 'R-454B', chargeKg: 2, floorArea: 30, mount: 'floor' });
     expect(r.status).toBe('limit_not_set');
     expect(r.message).toMatch(/No LFL is stored for R-454B/);
+  });
+});
+
+// m1 = 6 m³ × LFL and m2 = 26 m³ × LFL (IEC 60335-2-40:2018 Annex GG.1, from memory: confirm the
+// clause); R-32 LFL 0.307 kg/m³ (IEC 60335-2-40:2018 Annex BB) → m1 1.842 kg, m2 7.982 kg.
+describe('A2L charge bands (IEC 60335-2-40:2018 Annex GG.1, m1 and m2 from memory)', () => {
+  it('1.5 kg of R-32 in a 15 m² room passes: below m1, no room-area requirement', () => {
+    const r = checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 1.5, floorArea: 15, mount: 'ceiling' });
+    expect(r).toMatchObject({ status: 'pass', pass: true, band: 'below_m1', minArea: null });
+    expect(r.m1).toBeCloseTo(1.842, 9);
+    expect(r.m2).toBeCloseTo(7.982, 9);
+    expect(r.message).toMatch(/below m1: no room-area requirement/);
+    expect(r.message).toMatch(/from memory, confirm the clause/);
+  });
+
+  it.each([
+    // [charge kg, floor area m², status, band]
+    [1.842, 1, 'pass', 'below_m1'], // exactly m1: not above it
+    [1.843, 1, 'fail', 'm1_to_m2'], // just above m1: A_min applies
+    [7.982, 1000, 'pass', 'm1_to_m2'], // exactly m2: still A_min
+    [7.983, 1000, 'additional_measures', 'above_m2'],
+  ] as const)('R-32 %p kg in %p m² → %s (%s)', (charge, area, status, band) => {
+    const r = checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: charge, floorArea: area, mount: 'wall' });
+    expect(r.status).toBe(status);
+    expect(r.band).toBe(band);
+  });
+
+  it('above m2 is neither pass nor fail: the design must show additional measures', () => {
+    const r = checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 9, floorArea: 500, mount: 'ceiling' });
+    expect(r.status).toBe('additional_measures');
+    expect(r.pass).toBeNull();
+    expect(r.minArea).toBeNull();
+    expect(r.message).toMatch(/design must show additional measures \(ventilation, leak detection, shut-off\)/);
+  });
+
+  it('the release height follows the mounting position (Annex GG: floor 0.6 m, wall 1.8 m, ceiling 2.2 m)', () => {
+    const floor = checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 3, floorArea: 20, mount: 'floor' });
+    const ceiling = checkA2lFloorArea({ refrigerant: 'R-32', chargeKg: 3, floorArea: 20, mount: 'ceiling' });
+    expect(floor).toMatchObject({ status: 'fail', releaseHeight: 0.6 });
+    expect(floor.minArea).toBeCloseTo(76.6, 1);
+    expect(ceiling).toMatchObject({ status: 'pass', releaseHeight: 2.2 });
   });
 });
