@@ -1,7 +1,7 @@
 /**
  * Keeping a level on the phone: everything the walk screens of that level read (the level's
  * units, spaces, systems, unit models with their limits, the catalogue, the job and its settings,
- * each unit's checks and unresolved findings, the level's findings list) is fetched once and put
+ * each unit's checks and unresolved findings with their own pages, the level's findings list) is fetched once and put
  * in the query cache under the screens' own keys, with the open findings' thumbnails as Blobs.
  * The persisted cache (persistence.tsx) then holds exactly those keys, so the screens open with no
  * network after a reload, and measured checks evaluate on the phone (shared/calc).
@@ -10,7 +10,7 @@
  * longest ago goes first. Nothing is kept when the device is nearly full (deviceStorage.ts).
  */
 import { QueryObserver, type QueryClient, type QueryKey } from '@tanstack/react-query';
-import type { FindingDto, FindingListResponse, UnitChecksResponse, WalkDto, WalkUnitDto, WalkUnitsResponse } from '../../shared/schemas/findings';
+import type { FindingDetail, FindingDto, FindingListResponse, UnitChecksResponse, WalkDto, WalkUnitDto, WalkUnitsResponse } from '../../shared/schemas/findings';
 import type { SessionResponse } from '../../shared/schemas/session';
 import type { CatalogueItemDto, JobCompanyDto, JobDetail, LevelDto, ListResponse, SpaceDto, SystemDto, UnitDto, UnitModelDto } from '../../shared/schemas/setup';
 import { apiGet, apiGetBlob } from '../api/client';
@@ -135,11 +135,20 @@ async function fetchLevel(input: KeepInput, progress: (done: number, total: numb
   const units: UnitDto[] = register.pages.flatMap((p) => p.items);
   const open: FindingDto[] = unresolved.pages.flatMap((p) => p.items);
   const listed: FindingDto[] = findingList.pages.flatMap((p) => p.items);
-  const photos = [...new Set([...open, ...listed].map((f) => f.thumbUrl).filter((u): u is string => Boolean(u)))];
-  const total = units.length + photos.length;
+  const cardThumbs = [...open, ...listed].map((f) => f.thumbUrl).filter((u): u is string => Boolean(u));
+  // Each unresolved finding's own page is kept too, so a fix can be returned or accepted, or a
+  // comment added, with no signal after a reload. Its photos' thumbnails come with it.
+  let total = units.length + open.length + cardThumbs.length;
   let done = 0;
   const tick = () => progress(++done, total);
   const checks = await inParallel(units, (u) => apiGet<UnitChecksResponse>(`${jobPath(jobId, 'units', u.id, 'checks')}${queryString({ limit: 10 })}`), tick);
+  const details = await inParallel(
+    open,
+    (f) => apiGet<FindingDetail>(jobPath(jobId, 'findings', f.id)).catch(() => null), // resolved or gone meanwhile: not kept
+    tick,
+  );
+  const photos = [...new Set([...cardThumbs, ...details.flatMap((d) => (d ? d.photos.map((p) => p.thumbUrl) : []))])];
+  total = units.length + open.length + photos.length;
 
   const entries: [QueryKey, unknown][] = [
     [jobKeys.detail(jobId), job],
@@ -165,6 +174,7 @@ async function fetchLevel(input: KeepInput, progress: (done: number, total: numb
     entries.push([checkKeys.unit(jobId, u.id), checks[i]]);
     entries.push([walkDataKeys.unresolved(jobId, u.id), open.filter((f) => f.unitId === u.id)]);
   });
+  for (const d of details) if (d) entries.push([findingKeys.detail(jobId, d.id), d]);
   return { level, entries, photos, tick };
 }
 

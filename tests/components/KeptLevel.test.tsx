@@ -14,7 +14,7 @@ import { keptState, loadKeptState, saveKeptState } from '../../components/kept/r
 import { memoryStore, setKeptStores, keptStores } from '../../components/kept/storage';
 import { useCatalogueQuery } from '../../components/queries/catalogue';
 import { useUnitChecksQuery, useUnitModelQuery, useUnitRecordQuery } from '../../components/queries/checks';
-import { useFindingsQuery } from '../../components/queries/findings';
+import { useFindingQuery, useFindingsQuery } from '../../components/queries/findings';
 import { useJobQuery } from '../../components/queries/jobs';
 import { useLevelsQuery } from '../../components/queries/levels';
 import { sessionKeys } from '../../components/queries/session';
@@ -33,6 +33,8 @@ const MODEL = '00000000-0000-4000-8000-0000000000d1';
 const FINDING = '00000000-0000-4000-8000-0000000000e1';
 const USER = '00000000-0000-4000-8000-0000000000f1';
 const THUMB = `/api/jobs/${JOB}/photos/p1/thumb`;
+/** A photo sent with the fix: on the finding's own page only, not on its card. */
+const FIX_THUMB = `/api/jobs/${JOB}/photos/p2/thumb`;
 
 const unit = { id: UNIT, tag: 'FC-301', kind: 'ceiling_cassette', levelId: LEVEL, modelId: MODEL, spaceId: null, systemId: null, version: 1 };
 const walkUnit = { id: UNIT, tag: 'FC-301', kind: 'ceiling_cassette', state: 'not_checked', openFindings: 1, worstSeverity: 'major', lastCheck: null };
@@ -52,6 +54,7 @@ function api() {
     if (p.endsWith('/walk-units')) return { items: [walkUnit], nextCursor: null, counts: { total: 1, checked: 0, notChecked: 1, inProgress: 0, withOpenFindings: 1 }, coverage };
     if (p.endsWith('/units')) return { items: [unit], nextCursor: null };
     if (p.endsWith('/findings')) return { items: [finding], nextCursor: null, total: 1 };
+    if (p === `/api/jobs/${JOB}/findings/${FINDING}`) return { ...finding, photos: [{ id: 'p1', thumbUrl: THUMB }, { id: 'p2', thumbUrl: FIX_THUMB }], events: [] };
     if (p.endsWith('/walks')) return { items: [], nextCursor: null };
     if (p.endsWith('/checks')) return { state: 'not_checked', current: null, history: [], nextCursor: null };
     throw new Error(`unexpected ${path}`);
@@ -61,6 +64,7 @@ function api() {
     asked.push(String(path));
     if (!online) throw new TypeError('Failed to fetch');
     if (String(path) === THUMB) return { ok: true, status: 200, headers: new Map(), blob: async () => ({ size: 4_000, kind: 'thumb' }) };
+    if (String(path) === FIX_THUMB) return { ok: true, status: 200, headers: new Map(), blob: async () => ({ size: 3_000, kind: 'fix thumb' }) };
     const body = answer(String(path));
     return { ok: true, status: 200, headers: { get: () => null }, json: async () => body };
   });
@@ -87,8 +91,9 @@ it('fills every query the walk screens of the level read, so each hook has its d
   const client = newClient();
   const kept = await keepLevel(client, { jobId: JOB, levelId: LEVEL, userId: USER }, save);
   expect(kept.levelName).toBe('Level 3');
-  expect(kept.photos).toEqual([THUMB]);
-  expect(kept.photoBytes).toBe(4_000);
+  expect(kept.photos).toEqual([THUMB, FIX_THUMB]);
+  expect(kept.photoBytes).toBe(7_000);
+  expect(await keptStores().photos.get(FIX_THUMB)).toEqual({ size: 3_000, kind: 'fix thumb' });
   expect(await keptStores().photos.get(THUMB)).toEqual({ size: 4_000, kind: 'thumb' });
   expect(save).toHaveBeenCalled();
 
@@ -112,6 +117,7 @@ it('fills every query the walk screens of the level read, so each hook has its d
       unresolved: useUnresolvedFindingsQuery(JOB, UNIT),
       findings: useFindingsQuery(JOB, { levelId: LEVEL }),
       register: useUnitsQuery(JOB, { levelId: LEVEL }, 200),
+      detail: useFindingQuery(JOB, FINDING),
     }),
     { wrapper },
   );
@@ -132,6 +138,7 @@ it('fills every query the walk screens of the level read, so each hook has its d
   expect(r.unresolved.data?.map((f) => f.id)).toEqual([FINDING]);
   expect(r.findings.data?.pages[0]?.items[0]?.thumbUrl).toBe(THUMB);
   expect(r.register.data?.pages[0]?.items[0]?.id).toBe(UNIT);
+  expect(r.detail.data?.photos.map((p) => p.thumbUrl)).toEqual([THUMB, FIX_THUMB]);
   // Every one of those keys is persisted; a query of another level is not.
   const persisted = client
     .getQueryCache()

@@ -3,7 +3,7 @@
  * with a photo for three findings of their company with no network, reloads while still offline
  * (the queue is kept in IndexedDB), and back online each fix reaches the server exactly once, with
  * its photo. An inspector with the level kept on the phone returns a fixed finding with a reason
- * offline (a re-inspection verdict kept in the outbox), reloads offline (the queue is shown), and back
+ * offline on the finding's page opened cold from the kept level (a re-inspection verdict kept in the outbox), reloads offline (the queue is shown), and back
  * online there is one return and the finding is open again with that reason. Counted in SQL.
  */
 import { randomUUID } from 'node:crypto';
@@ -14,7 +14,7 @@ import { seedDemo, DEMO_ACCOUNTS, DEMO_COMPANIES, DEMO_PASSWORD } from '../../se
 import { signIn } from '../support/app';
 import { demoJob } from '../support/demo';
 import { buildLevel, buildUnit, copyCatalogue } from '../support/factories';
-import { PHONE, serviceWorkerControls, startBrowserHarness, type BrowserHarness } from '../support/browser';
+import { PHONE, pageHolds, serviceWorkerControls, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
 
 jest.setTimeout(240_000);
@@ -215,11 +215,16 @@ it('an inspector returns a fixed finding with a reason offline, reloads offline,
   await serviceWorkerControls(page);
   await page.getByTestId('kept-level-keep').tap();
   await page.getByTestId('kept-level-status').waitFor();
+  // No signal, and the finding opened cold (a reload, nothing in memory): its page is kept with
+  // the level, with the fix's photo.
+  await context.setOffline(true);
   await page.goto(`${h.baseUrl}/jobs/${jobId}/findings/${finding.id}`);
   await page.getByTestId('finding-reinspect').waitFor();
+  expect(await page.getByTestId('finding-label').textContent()).toContain(`#${finding.number}`);
+  await pageHolds(page, `Array.from(document.querySelectorAll('img')).some((i) => i.complete && i.naturalWidth > 0 && i.src.startsWith('blob:'))`, { what: 'a kept photo shown' });
+  await h.screenshot(page, 'offline-fixes-03a-finding-opened-offline');
 
-  // No signal: the verdict is kept on the phone.
-  await context.setOffline(true);
+  // The verdict is kept on the phone.
   const reason = `Drain still falls back toward the unit ${suffix}.`;
   await page.getByTestId('reinspect-reason').fill(reason);
   await page.getByTestId('reinspect-return').tap();
