@@ -8,7 +8,7 @@
  * "Office 3-12", 10 × 10 ft with an 8 ft ceiling: 800 ft³ × 26 lb per 1,000 ft³ allows 20.8 lb.
  */
 import type { Transaction } from 'sequelize';
-import type { ModelLimitKey } from '../../shared/catalogue/types';
+import { MODEL_LIMITS, type ModelLimitKey, type QuantityKind } from '../../shared/catalogue/types';
 import { toBase } from '../../shared/calc/quantity';
 import type { StatedLimitDto } from '../../shared/schemas/setup';
 import type { Refrigerant, TradeKey, UnitKindKey } from '../../shared/words';
@@ -70,19 +70,8 @@ export const DEMO_MODELS: ModelSpec[] = [
   { name: 'Air-handler coil kit 60', modelNumber: 'AK-60', unitKind: 'ahu_coil_kit', capacity: '5 tons', limits: { max_valve_kit_pipe_length: '6 ft' } },
 ];
 
-const MODEL_QUANTITY: Record<ModelLimitKey, 'length' | 'angle'> = {
-  max_pump_lift: 'length',
-  max_drain_horizontal_run: 'length',
-  min_clearance_top: 'length',
-  min_clearance_side: 'length',
-  min_clearance_front: 'length',
-  min_clearance_below: 'length',
-  min_distance_to_wall: 'length',
-  min_mount_height: 'length',
-  max_valve_kit_pipe_length: 'length',
-  max_sensor_angle: 'angle',
-  max_level_deviation: 'length',
-};
+/** The quantity each model limit is stated in (the one list in shared/catalogue/types.ts). */
+const MODEL_QUANTITY = Object.fromEntries(MODEL_LIMITS.map((m) => [m.key, m.quantity])) as Record<ModelLimitKey, QuantityKind>;
 
 interface SystemSpec {
   name: string;

@@ -3,11 +3,11 @@
  * writes of routes/catalogue.ts. Items are retired, never deleted (findings refer to them).
  */
 import { Op, UniqueConstraintError, type Transaction } from 'sequelize';
-import { BUILTIN_CATALOGUE } from '../../shared/catalogue';
+import { BUILTIN_CATALOGUE, CAUTION_REQUIRED, needsCaution } from '../../shared/catalogue';
 import type { CatalogueGroup, MeasuredRule } from '../../shared/catalogue/types';
 import type { CatalogueItemDto, CreateCatalogueItemInput, UpdateCatalogueItemInput } from '../../shared/schemas/setup';
 import type { UnitKindKey } from '../../shared/words';
-import { conflict, notFound } from '../errors';
+import { badRequest, conflict, notFound } from '../errors';
 import { CatalogueItem } from '../models';
 import { presentCatalogueItem } from '../presenters/catalogue';
 import { afterCursor, finishPage, type PageRequest } from './paging';
@@ -121,6 +121,11 @@ export async function changeCatalogueItem({ transaction, jobId, ifMatch }: Setup
   if (input.needsCeilingAccess !== undefined) item.needsCeilingAccess = input.needsCeilingAccess;
   if (input.retired === true && !item.retiredAt) item.retiredAt = new Date();
   if (input.retired === false) item.retiredAt = null;
+  // An edit leaves hazardous work with its caution, whatever field it changed (the item as it would
+  // be after the change is checked). Retiring or bringing back alone is no edit: an item copied
+  // before this rule can still be retired.
+  const edits = Object.entries(input).some(([key, value]) => key !== 'retired' && value !== undefined);
+  if (edits && needsCaution(item) && !item.caution) throw badRequest(`caution: ${CAUTION_REQUIRED}`, { caution: CAUTION_REQUIRED });
   item.version += 1;
   await item.save({ transaction });
   return item;

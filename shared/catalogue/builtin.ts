@@ -22,52 +22,89 @@ import type { CatalogueItem } from './types';
 // ---------------------------------------------------------------------------------------------
 
 const CASSETTES: readonly UnitKindKey[] = ['cassette_4way', 'cassette_2way', 'cassette_compact'];
+/** Cassettes that blow four ways: an outlet may be blanked off, which needs a setting changed. */
+const FOUR_WAY: readonly UnitKindKey[] = ['cassette_4way', 'cassette_compact'];
 const DUCTED: readonly UnitKindKey[] = ['ducted_low', 'ducted_high', 'ducted_very_high'];
-const ALL_KINDS: readonly UnitKindKey[] = [
-  ...CASSETTES,
-  'wall_mounted',
-  'floor_console',
-  'floor_ceiling',
-  ...DUCTED,
-  'ahu_coil_kit',
-];
-/** Kinds that hang from the structure on rods (a floor/ceiling unit when ceiling-hung). */
-const HUNG: readonly UnitKindKey[] = [...CASSETTES, 'floor_ceiling', ...DUCTED, 'ahu_coil_kit'];
+/** Ductless kinds: the drain rule for ductless mini-splits (check valve or trap) applies to them. */
+const DUCTLESS: readonly UnitKindKey[] = [...CASSETTES, 'wall_mounted', 'floor_console', 'floor_ceiling'];
+const ALL_KINDS: readonly UnitKindKey[] = [...DUCTLESS, ...DUCTED, 'ahu_coil_kit'];
+/**
+ * Kinds that hang from the structure on rods: cassettes, ducted units, and a floor/ceiling unit
+ * when it is ceiling-hung (standing on the floor, its rod checks are not applicable). Not the
+ * coil kit (it sits on its air handler, on a platform or the floor) nor the floor console.
+ */
+const HUNG: readonly UnitKindKey[] = [...CASSETTES, 'floor_ceiling', ...DUCTED];
 /** Kinds fixed to a wall or standing on the floor. */
 const WALL_OR_FLOOR: readonly UnitKindKey[] = ['wall_mounted', 'floor_console', 'floor_ceiling'];
+/** Floor-standing kinds (a floor/ceiling unit may also stand on the floor). */
+const FLOOR_UNITS: readonly UnitKindKey[] = ['floor_console', 'floor_ceiling'];
 /** Kinds hidden in a ceiling space, attic or closet and reached through an access opening. */
 const CONCEALED: readonly UnitKindKey[] = [...DUCTED, 'ahu_coil_kit'];
-/** Kinds with a built-in condensate pump (or a pump kit the manual rates). */
+/** Kinds with a built-in condensate pump (or a pump kit the manual rates) and its float switch. */
 const PUMPED: readonly UnitKindKey[] = [...CASSETTES, ...DUCTED];
-/** Kinds whose manual asks for a drain that runs free, with no trap. */
-const UNTRAPPED: readonly UnitKindKey[] = [...CASSETTES, 'wall_mounted', 'floor_console', 'floor_ceiling'];
+/** Kinds that take an accessory condensate pump where the drain cannot fall away by gravity. */
+const ACCESSORY_PUMPED: readonly UnitKindKey[] = ['wall_mounted', 'floor_console', 'floor_ceiling'];
+/** Kinds that may sit above a ceiling used as a return-air plenum. */
+const IN_PLENUM: readonly UnitKindKey[] = [...CASSETTES, ...DUCTED, 'ahu_coil_kit'];
 
 // ---------------------------------------------------------------------------------------------
 // Cautions: every caution ends by deferring to the manual, the codes and licensed practice
 // ---------------------------------------------------------------------------------------------
 
-type Hazard = 'electrical' | 'refrigerant' | 'brazing' | 'pressure' | 'lifting' | 'overhead';
+type Hazard =
+  | 'electrical'
+  | 'refrigerant'
+  | 'brazing'
+  | 'pressure'
+  | 'lifting'
+  | 'overhead'
+  | 'drilling'
+  | 'attic'
+  | 'fan';
 
-const HAZARD_TEXT: Record<Hazard, string> = {
+const HAZARD_TEXT: Record<Hazard | 'a2l' | 'nitrogen', string> = {
   electrical:
     "Electrical work: isolate and lock out the supply, and prove it dead, before opening the unit's electrical box or its disconnect.",
   refrigerant:
     'Refrigerant work: only certified technicians open the circuit; recover the charge, never vent it, and wear eye and hand protection.',
+  a2l:
+    'Flammable (A2L) refrigerants such as R-32 and R-454B: keep ignition sources away from the work, use recovery machines, vacuum pumps and detectors rated for A2L refrigerants, ventilate the space, and leak-check the joints before the unit runs.',
   brazing:
     'Hot work: braze with nitrogen flowing through the pipe, under a hot-work permit where the site requires one, with a fire watch and an extinguisher at hand.',
   pressure:
     'Pressure testing: use a regulator on the nitrogen cylinder, never go above the test pressure the manual sets, and keep people clear of joints under test.',
+  nitrogen:
+    'Nitrogen displaces oxygen: in a closet, attic, shaft or other enclosed space keep it ventilated, vent the purge outside the space, and use an oxygen monitor where the site requires one.',
   lifting:
     "Lifting: take the unit's weight on a lift or with enough people before loosening a hanger nut or lifting it off its fixings.",
   overhead:
     'Overhead work: use a rated ladder or lift, keep the area below clear, and wear head and eye protection.',
+  drilling:
+    'Drilling an outside wall: find live cables, gas and water lines in and behind the wall with drawings and a detector before drilling, and hold the drill by its insulated grips.',
+  attic:
+    'Attic work: step only on framing or a walkway, watch for heat, roofing nails and exposed wiring, and keep the way out clear.',
+  fan: 'Rotating fans: isolate the unit before reaching past a filter, grille or panel; under automatic control a fan can start on its own.',
 };
 
 const GOVERNS = "The manufacturer's installation manual, local codes and licensed practice govern.";
 
+/**
+ * The caution for the hazards named. Opening the circuit brings the flammable-refrigerant text
+ * (a job's systems may use an A2L refrigerant); brazing and pressure testing bring the nitrogen
+ * text (both fill the pipe with nitrogen, which can collect in an enclosed space).
+ */
 function caution(...hazards: Hazard[]): string {
-  return [...hazards.map((h) => HAZARD_TEXT[h]), GOVERNS].join(' ');
+  const texts: string[] = [];
+  for (const h of hazards) {
+    texts.push(HAZARD_TEXT[h]);
+    if (h === 'refrigerant') texts.push(HAZARD_TEXT.a2l);
+  }
+  if (hazards.includes('brazing') || hazards.includes('pressure')) texts.push(HAZARD_TEXT.nitrogen);
+  return [...texts, GOVERNS].join(' ');
 }
+
+/** Moving a unit: pipework cut and rebrazed, pressure-tested, rewired and the unit lifted. */
+const RELOCATE: Hazard[] = ['refrigerant', 'brazing', 'pressure', 'electrical', 'lifting'];
 
 // ---------------------------------------------------------------------------------------------
 // The catalogue
@@ -176,8 +213,8 @@ const ITEMS: CatalogueItem[] = [
     group: 'mounting',
     title: 'Unit mounted too low',
     description:
-      "The unit is closer to the floor than the model's minimum mounting height, putting moving louvres and air outlets within reach and spoiling the air throw.",
-    unitKinds: ['wall_mounted', 'floor_ceiling'],
+      "The wall unit is closer to the floor than the model's minimum mounting height, putting moving louvres and air outlets within reach and spoiling the air throw. (A floor-standing unit has no minimum mounting height.)",
+    unitKinds: ['wall_mounted'],
     defaultSeverity: 'major',
     trade: 'mechanical',
     measuredRule: {
@@ -188,8 +225,50 @@ const ITEMS: CatalogueItem[] = [
     },
     fixGuidance:
       'Raise the unit to at least the minimum height, keeping the clearance it needs above it, reroute piping, drain and cable to suit, and recheck the drain fall afterwards.',
-    caution: caution('lifting', 'electrical', 'refrigerant'),
+    caution: caution(...RELOCATE),
     needsCeilingAccess: false,
+  },
+  {
+    code: 'MT-08',
+    group: 'mounting',
+    title: 'Wall unit not latched on its plate',
+    description:
+      "The wall unit is hooked over the top of its mounting plate but its bottom edge is not clipped onto the plate's latches, or the bottom fixing screws the manual shows are missing, so the unit can be lifted or knocked off the plate.",
+    unitKinds: ['wall_mounted'],
+    defaultSeverity: 'critical',
+    trade: 'mechanical',
+    fixGuidance:
+      'Press the bottom of the unit onto the plate until both latches click, fit the bottom fixing screws the manual shows, and check the unit cannot be lifted off by hand.',
+    caution: caution('lifting', 'electrical'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'MT-09',
+    group: 'mounting',
+    title: 'Coil kit fixing points not all used',
+    description:
+      "The coil kit is not fixed to its air handler or cabinet at every point the kit's manual shows: screws, brackets or rails are missing, so the coil can shift, strain its piping and leak air around the coil.",
+    unitKinds: ['ahu_coil_kit'],
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    fixGuidance:
+      "Fit every screw, bracket and rail the kit's manual shows, with the coil seated square in the cabinet, and seal the gaps the manual names so air cannot bypass the coil.",
+    caution: caution('lifting', 'electrical'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'MT-10',
+    group: 'mounting',
+    title: 'Duct connection not sealed or supported',
+    description:
+      "A supply or return duct joins the ducted unit with open or untaped seams, or hangs its weight on the unit's flanges instead of its own supports, so air leaks into the ceiling and the flanges bend.",
+    unitKinds: DUCTED,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    fixGuidance:
+      'Seal each duct connection with the sealant, tape or gasket the design specifies, fit a flexible connector where the manual or design shows one, and carry the duct on its own hangers so the unit takes no duct weight.',
+    caution: caution('overhead', 'attic'),
+    needsCeilingAccess: true,
   },
 
   // ---- Clearances and access (CL) ----------------------------------------------------------
@@ -210,7 +289,7 @@ const ITEMS: CatalogueItem[] = [
     },
     fixGuidance:
       'Lower the unit (still at or above its minimum mounting height) or remove the obstruction, then recheck the drain fall from the new position.',
-    caution: caution('lifting', 'electrical', 'refrigerant'),
+    caution: caution(...RELOCATE),
     needsCeilingAccess: false,
   },
   {
@@ -230,6 +309,7 @@ const ITEMS: CatalogueItem[] = [
     },
     fixGuidance:
       'Move the obstruction, or move the unit, until each side has at least the minimum gap.',
+    caution: caution(...RELOCATE),
     needsCeilingAccess: false,
   },
   {
@@ -249,7 +329,7 @@ const ITEMS: CatalogueItem[] = [
     },
     fixGuidance:
       "Relocate the unit; or, where the design accepts it, close off the outlet facing the wall with the maker's blanking kit and make the matching setting.",
-    caution: caution('lifting', 'overhead'),
+    caution: caution(...RELOCATE, 'overhead'),
     needsCeilingAccess: true,
   },
   {
@@ -269,7 +349,7 @@ const ITEMS: CatalogueItem[] = [
     },
     fixGuidance:
       'Clear the service side to the minimum distance: move the obstruction, or turn or move the unit where the obstruction cannot go.',
-    caution: caution('overhead'),
+    caution: caution('overhead', 'attic'),
     needsCeilingAccess: true,
   },
   {
@@ -303,7 +383,41 @@ const ITEMS: CatalogueItem[] = [
     },
     fixGuidance:
       'Clear or enlarge the space in front of the service side to at least the code depth by moving stored material or other services; change framing only with the designer.',
-    caution: caution('overhead'),
+    caution: caution('overhead', 'attic'),
+    needsCeilingAccess: true,
+  },
+  {
+    code: 'CL-07',
+    group: 'clearance',
+    title: 'Too little space below a floor console',
+    description:
+      "The gap under the floor console is less than the model's minimum, so the air it draws in at its base is starved and the floor below cannot be cleaned.",
+    unitKinds: ['floor_console'],
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'Gap from the finished floor to the underside of the console',
+      quantity: 'length',
+      comparison: 'at_least',
+      limit: { from: 'model', key: 'min_clearance_below' },
+    },
+    fixGuidance:
+      'Raise the console on its wall fixings or legs to at least the minimum gap, and recheck the drain fall afterwards.',
+    caution: caution(...RELOCATE),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'CL-08',
+    group: 'clearance',
+    title: 'Filter cannot be reached',
+    description:
+      "The ducted unit's filter, or the filter grille on its return, cannot be taken out without cutting the ceiling, moving ductwork or another trade's work, so it will not be cleaned.",
+    unitKinds: DUCTED,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    fixGuidance:
+      "Give the filter the access the manual shows: an access panel or filter grille directly at the filter's slide-out side, with room to pull it out full length.",
+    caution: caution('fan', 'overhead', 'attic'),
     needsCeilingAccess: true,
   },
 
@@ -425,14 +539,14 @@ const ITEMS: CatalogueItem[] = [
   {
     code: 'DR-07',
     group: 'drainage',
-    title: 'Trap where none belongs',
+    title: 'Trap where the manual says none',
     description:
-      'The drain has a trap, or a dip that acts as one, where the manual says the drain must run free, so it air-locks, gurgles or overflows the pan.',
-    unitKinds: UNTRAPPED,
+      "The model's installation manual says its drain runs without a trap (a check valve meets the code's check valve or trap instead), but a trap, or a dip that holds water like one, has been fitted, so the drain can air-lock, gurgle or overflow the pan. Common practice, not a code rule: the manual decides.",
+    unitKinds: DUCTLESS,
     defaultSeverity: 'major',
     trade: 'mechanical',
     fixGuidance:
-      'Take out the trap or dip and give the drain a continuous fall; any trap the plumbing design needs belongs where that design shows it, not at the unit.',
+      'Follow the manual: where it says no trap, take the trap or dip out, give the drain a continuous fall, and fit the in-line check valve the manual allows so the drain still has a check valve or a trap.',
     caution: caution('overhead'),
     needsCeilingAccess: true,
   },
@@ -441,8 +555,8 @@ const ITEMS: CatalogueItem[] = [
     group: 'drainage',
     title: 'Trap or check valve missing',
     description:
-      'A drain the manual says needs a trap (the fan pulls air through the pan) or a check valve (a pumped drain joining a shared main) has none, so air is drawn up the drain or other units\' water runs back into this one.',
-    unitKinds: [...PUMPED, 'ahu_coil_kit'],
+      "A ducted unit's or air handler's drain that the manual says needs a trap (the fan pulls air through the pan) or a check valve (a pumped drain joining a shared main) has none, so air is drawn up the drain or other units' water runs back into this one.",
+    unitKinds: CONCEALED,
     defaultSeverity: 'major',
     trade: 'mechanical',
     fixGuidance:
@@ -481,7 +595,7 @@ const ITEMS: CatalogueItem[] = [
     },
     fixGuidance:
       'Fit a pan at least the code depth, larger than the unit by at least the code amount, with its own drain to a place where people will notice water or a water-level switch that stops the unit.',
-    caution: caution('lifting', 'overhead'),
+    caution: caution('lifting', 'overhead', 'attic'),
     needsCeilingAccess: true,
   },
   {
@@ -495,8 +609,97 @@ const ITEMS: CatalogueItem[] = [
     trade: 'mechanical',
     fixGuidance:
       "Fit the switch in the pan or drain at the height the maker shows, wire it to stop the unit's cooling on high water, and test it by raising the water level.",
-    caution: caution('electrical', 'overhead'),
+    caution: caution('electrical', 'overhead', 'attic'),
     needsCeilingAccess: true,
+  },
+  {
+    code: 'DR-12',
+    group: 'drainage',
+    title: 'No check valve or trap on a ductless drain',
+    description:
+      "A ductless unit's condensate drain has neither an in-line check valve nor a trap. IMC 2018 Section 307.2.4.1 asks for one or the other on ductless mini-split drains; the manual says which.",
+    unitKinds: DUCTLESS,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'In-line check valve or trap on the drain',
+      quantity: 'boolean',
+      comparison: 'yes_no',
+      expected: true,
+      codeCheck: 'ductless_check_valve_or_trap',
+    },
+    fixGuidance:
+      'Fit the in-line check valve or the trap the manual allows, the right way round and where it can be reached, then water-test the drain.',
+    caution: caution('overhead'),
+    needsCeilingAccess: true,
+  },
+  {
+    code: 'DR-13',
+    group: 'drainage',
+    title: 'Float switch bypassed',
+    description:
+      "The unit's float (high-water) switch is unplugged, jumpered out or taped down, so the pan can overflow into the ceiling without the unit stopping.",
+    unitKinds: PUMPED,
+    defaultSeverity: 'critical',
+    trade: 'mechanical',
+    fixGuidance:
+      'Reconnect the float switch on its own plug, remove any jumper, and test it by filling the pan until the unit stops with a water fault.',
+    caution: caution('electrical', 'overhead'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'DR-14',
+    group: 'drainage',
+    title: 'Accessory pump lift too high',
+    description:
+      'Where an accessory condensate pump is fitted, the drain rises higher above it than the pump is rated to lift, so the pump runs without emptying and the unit overflows.',
+    unitKinds: ACCESSORY_PUMPED,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'Height of the top of the pump\'s discharge above the pump',
+      quantity: 'length',
+      comparison: 'at_most',
+      limit: { from: 'model', key: 'max_accessory_pump_lift' },
+    },
+    fixGuidance:
+      "Bring the top of the lift within the pump's rating and fall from there, or fit a pump rated for the lift; not applicable where no pump is fitted.",
+    caution: caution('electrical'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'DR-15',
+    group: 'drainage',
+    title: 'Accessory pump alarm does not stop the unit',
+    description:
+      "The accessory pump's high-water (alarm) switch is not wired, or only sounds an alarm, so the unit keeps making water when the pump fails.",
+    unitKinds: ACCESSORY_PUMPED,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'Lifting the pump\'s float stops the unit',
+      quantity: 'boolean',
+      comparison: 'yes_no',
+      expected: true,
+    },
+    fixGuidance:
+      "Wire the pump's alarm contacts to the unit's terminals the manual names so high water stops the unit, and test it by lifting the float.",
+    caution: caution('electrical'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'DR-16',
+    group: 'drainage',
+    title: 'Drain not to an approved point',
+    description:
+      'The drain ends somewhere the code or the design does not accept as a place of disposal: onto a walkway or roof surface, into a planter, a vent or a sink without an air gap.',
+    unitKinds: ALL_KINDS,
+    defaultSeverity: 'major',
+    trade: 'plumbing',
+    fixGuidance:
+      'Run the drain to the disposal point the design shows, with the air gap or indirect connection the plumbing code asks for there.',
+    caution: caution('drilling', 'overhead'),
+    needsCeilingAccess: false,
   },
 
   // ---- Wall and roof penetrations (PN) -----------------------------------------------------
@@ -509,8 +712,15 @@ const ITEMS: CatalogueItem[] = [
     unitKinds: WALL_OR_FLOOR,
     defaultSeverity: 'major',
     trade: 'mechanical',
+    measuredRule: {
+      measure: 'Fall of the wall hole from the room side to the outside, over the wall thickness',
+      quantity: 'slope',
+      comparison: 'at_least',
+      limit: { from: 'model', key: 'min_pipe_hole_slope' },
+    },
     fixGuidance:
       'Rework the opening or its sleeve so it falls to the outside by the amount the manual shows, then seal it again inside and out.',
+    caution: caution('drilling'),
     needsCeilingAccess: false,
   },
   {
@@ -538,7 +748,7 @@ const ITEMS: CatalogueItem[] = [
     trade: 'mechanical',
     fixGuidance:
       'Fit sleeves sized for the insulated pipe, protect the insulation where it passes through, and seal the gap around it as the wall or floor requires.',
-    caution: caution('overhead'),
+    caution: caution('drilling', 'overhead'),
     needsCeilingAccess: true,
   },
   {
@@ -596,8 +806,140 @@ const ITEMS: CatalogueItem[] = [
     trade: 'mechanical',
     fixGuidance:
       'Fit clean filters of the right type and size the right way round; if the unit ran without filters during dusty work, clean the coil and fan before startup.',
-    caution: caution('electrical'),
+    caution: caution('electrical', 'fan'),
     needsCeilingAccess: false,
+  },
+  {
+    code: 'PG-04',
+    group: 'panels',
+    title: 'Cassette body at the wrong height',
+    description:
+      "The cassette body sits higher or lower above the ceiling than the model's range, so the panel cannot seat: it leaves gaps, bows the ceiling or will not latch.",
+    unitKinds: CASSETTES,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'Height from the underside of the ceiling to the underside of the cassette body',
+      quantity: 'length',
+      comparison: 'between',
+      limit: { from: 'model', key: 'min_body_to_ceiling' },
+      upper: { from: 'model', key: 'max_body_to_ceiling' },
+    },
+    fixGuidance:
+      "Lower or raise the body on its hanger nuts to within the model's height, check it with the installation gauge the maker supplies, level it and lock the nuts.",
+    caution: caution('lifting', 'overhead'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'PG-05',
+    group: 'panels',
+    title: 'Panel harness or louvre connector not plugged in',
+    description:
+      "The decorative panel's harness or its louvre motor connector is unplugged, half-seated, or pinched between the panel and the body, so the louvres do not move or the unit shows a fault.",
+    unitKinds: CASSETTES,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    fixGuidance:
+      'Plug every panel connector fully home, route the harness through the clips the manual shows so the panel cannot pinch it, then refit the panel and check the louvres swing.',
+    caution: caution('electrical', 'fan', 'overhead'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'PG-06',
+    group: 'panels',
+    title: 'Ceiling opening the wrong size',
+    description:
+      "The hole cut in the ceiling for the cassette is larger or smaller than the model's opening, so the panel does not cover its edge or the body cannot pass.",
+    unitKinds: CASSETTES,
+    defaultSeverity: 'major',
+    trade: 'ceilings',
+    measuredRule: {
+      measure: 'Length of each side of the ceiling opening (the one furthest from the model\'s size)',
+      quantity: 'length',
+      comparison: 'between',
+      limit: { from: 'model', key: 'min_ceiling_opening' },
+      upper: { from: 'model', key: 'max_ceiling_opening' },
+    },
+    fixGuidance:
+      "Recut or patch the opening to the size the model's manual or paper template gives, square to the body.",
+    caution: caution('overhead'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'PG-07',
+    group: 'panels',
+    title: 'Knockout used where the model does not allow it',
+    description:
+      'A fresh-air or branch-duct knockout of the cassette is opened where the model has none of that kind, beyond the air volume or duct size the model allows, or without the insulation and flange the manual calls for, so it sweats or upsets the airflow.',
+    unitKinds: CASSETTES,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    fixGuidance:
+      "Use only the knockouts the model's manual allows, with its flange, insulation and the setting it names; close any other opening with the maker's part.",
+    caution: caution('electrical', 'overhead'),
+    needsCeilingAccess: true,
+  },
+  {
+    code: 'PG-08',
+    group: 'panels',
+    title: 'Outlet blanked without the matching setting',
+    description:
+      'An outlet of the four-way cassette is closed off with a blanking kit, but the airflow setting the manual asks for with it was not made, so the coil can freeze or the fan runs against the block.',
+    unitKinds: FOUR_WAY,
+    defaultSeverity: 'major',
+    trade: 'controls',
+    fixGuidance:
+      'Make the outlet setting the manual gives for the number of outlets in use, from the controller or on the board, and record it.',
+    caution: caution('electrical', 'fan'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'PG-09',
+    group: 'panels',
+    title: 'Compact cassette does not fit the grid cell',
+    description:
+      'The compact cassette should drop into one standard ceiling grid cell (the 600 mm or 2 ft module its manual names) with the panel lying on the tees; here a main runner or cross tee was cut or moved, or the panel does not cover the cell.',
+    unitKinds: ['cassette_compact'],
+    defaultSeverity: 'major',
+    trade: 'ceilings',
+    measuredRule: {
+      measure: 'Fits one standard grid cell with no main runner cut',
+      quantity: 'boolean',
+      comparison: 'yes_no',
+      expected: true,
+    },
+    fixGuidance:
+      'Restore the grid around the unit to one full cell with uncut main runners, support the unit from structure as the manual shows, and seat the panel on the tees.',
+    caution: caution('overhead'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'PG-10',
+    group: 'panels',
+    title: 'Front panel or its screws not refitted',
+    description:
+      'The front panel or the side covers of the floor or floor/ceiling unit are off, loose or missing screws after piping and wiring, leaving the electrical box and fan within reach.',
+    unitKinds: FLOOR_UNITS,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    fixGuidance:
+      'Refit the front panel and every cover with all the screws the manual shows, with no cable or pipe trapped under an edge.',
+    caution: caution('electrical', 'fan'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'PG-11',
+    group: 'panels',
+    title: 'Return opening left open or plenum missing',
+    description:
+      "The ducted unit's unused return opening (rear or bottom) is left open instead of closed with its cover, or the return plenum or filter box the design shows is missing, so the unit draws dusty ceiling air past the filter.",
+    unitKinds: DUCTED,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    fixGuidance:
+      'Close the unused return opening with the cover plate the unit came with, sealed, and fit the return plenum or filter box the design shows.',
+    caution: caution('fan', 'overhead'),
+    needsCeilingAccess: true,
   },
 
   // ---- Wiring, harnesses and terminals (EL) ------------------------------------------------
@@ -723,6 +1065,40 @@ const ITEMS: CatalogueItem[] = [
     caution: caution('electrical'),
     needsCeilingAccess: false,
   },
+  {
+    code: 'EL-09',
+    group: 'wiring',
+    title: 'Disconnect not readily accessible',
+    description:
+      "The unit's disconnect can be seen but not reached without a ladder, moving stored material or ceiling tiles, or unlocking a room, as within sight and readily accessible asks (NFPA 70 Section 440.14; from memory, confirm in the job's edition).",
+    unitKinds: ALL_KINDS,
+    defaultSeverity: 'critical',
+    trade: 'electrical',
+    measuredRule: {
+      measure: 'Disconnect reachable without a ladder, tools or moving anything',
+      quantity: 'boolean',
+      comparison: 'yes_no',
+      expected: true,
+    },
+    fixGuidance:
+      'Move the disconnect to where it can be reached quickly without climbing or moving anything, still within sight of the unit, and label it.',
+    caution: caution('electrical'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'EL-10',
+    group: 'wiring',
+    title: 'Disconnect fixed on an access panel',
+    description:
+      "The disconnect is fastened to a panel that must come off to service the unit, or covers the unit's nameplate, which the code does not allow (NFPA 70 Section 440.14; from memory, confirm in the job's edition).",
+    unitKinds: ALL_KINDS,
+    defaultSeverity: 'major',
+    trade: 'electrical',
+    fixGuidance:
+      'Move the disconnect onto fixed structure or a part of the unit the manual allows, clear of the access panels and the nameplate.',
+    caution: caution('electrical'),
+    needsCeilingAccess: false,
+  },
 
   // ---- Sensors (SN) ------------------------------------------------------------------------
   {
@@ -771,6 +1147,20 @@ const ITEMS: CatalogueItem[] = [
     fixGuidance:
       'Move the sensor to an inside wall in the occupied zone at the height the design shows, away from drafts and heat, and seal the cable hole behind it.',
     caution: caution('electrical'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'SN-04',
+    group: 'sensors',
+    title: 'Coil kit air sensor out of place',
+    description:
+      "A return-air or discharge-air sensor of the coil kit is not where the kit's manual puts it in the air handler: left coiled in the box, in the wrong air stream, or touching the coil.",
+    unitKinds: ['ahu_coil_kit'],
+    defaultSeverity: 'major',
+    trade: 'controls',
+    fixGuidance:
+      "Fix each sensor at the position the kit's manual shows, in the air stream it names, clear of the coil and heaters, with its cable secured.",
+    caution: caution('electrical', 'fan'),
     needsCeilingAccess: false,
   },
 
@@ -909,6 +1299,69 @@ const ITEMS: CatalogueItem[] = [
     caution: caution('refrigerant', 'brazing', 'pressure', 'overhead'),
     needsCeilingAccess: true,
   },
+  {
+    code: 'RP-09',
+    group: 'piping',
+    title: "Coil volume outside the kit's range",
+    description:
+      "The air handler's coil holds more or less refrigerant volume than the range the coil kit's manual allows, so the kit cannot control it.",
+    unitKinds: ['ahu_coil_kit'],
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'Internal volume of the coil, from the coil maker\'s data',
+      quantity: 'volume',
+      comparison: 'between',
+      limit: { from: 'model', key: 'min_coil_internal_volume' },
+      upper: { from: 'model', key: 'max_coil_internal_volume' },
+    },
+    fixGuidance:
+      "Pair the kit with a coil inside its volume range, as the kit's selection table gives; where the coil is outside it, the design needs another kit or coil.",
+    caution: caution('refrigerant', 'brazing', 'pressure'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'RP-10',
+    group: 'piping',
+    title: 'Factory metering device left in the coil',
+    description:
+      "The coil's own expansion valve or piston is left in place where the kit's valve replaces it, so two devices throttle the flow in series.",
+    unitKinds: ['ahu_coil_kit'],
+    defaultSeverity: 'critical',
+    trade: 'mechanical',
+    fixGuidance:
+      "Recover the charge, remove the coil's metering device as the kit's manual shows, remake the joint with nitrogen flowing, then pressure-test, evacuate and recharge.",
+    caution: caution('refrigerant', 'brazing', 'pressure'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'RP-11',
+    group: 'piping',
+    title: 'Valve box upside down or out of reach',
+    description:
+      "The coil kit's valve box is fixed in an orientation the manual does not allow, or where its cover cannot be opened for service.",
+    unitKinds: ['ahu_coil_kit'],
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    fixGuidance:
+      'Refix the valve box the way up the manual shows, with room to open its cover and reach the valve, rebrazing with nitrogen flowing where the piping must move.',
+    caution: caution('refrigerant', 'brazing', 'pressure', 'attic'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'RP-12',
+    group: 'piping',
+    title: 'Materials in a return-air plenum not plenum-rated',
+    description:
+      'Plastic drain pipe, cable, pipe insulation or tape runs through a ceiling used as a return-air plenum without the flame-spread and smoke rating the mechanical code asks of plenum materials.',
+    unitKinds: IN_PLENUM,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    fixGuidance:
+      'Replace the material with a plenum-rated one (or enclose it as the code allows) and keep its rating label where it can be seen.',
+    caution: caution('overhead'),
+    needsCeilingAccess: true,
+  },
 
   // ---- Controls and addressing (CT) --------------------------------------------------------
   {
@@ -952,6 +1405,94 @@ const ITEMS: CatalogueItem[] = [
       'Rewire the group to match the drawing, linked unit to unit as the manual shows, and check each controller runs exactly its own units.',
     caution: caution('electrical', 'overhead'),
     needsCeilingAccess: true,
+  },
+  {
+    code: 'CT-04',
+    group: 'controls',
+    title: 'Static pressure outside the low static range',
+    description:
+      'The external static pressure measured across the low-static ducted unit is outside the range the model is rated for, or does not match the static pressure setting chosen for the duct design, so airflow is short and the coil may freeze or the fan overload.',
+    unitKinds: ['ducted_low'],
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'Measured external static pressure within the low-static model\'s rated range and the setting chosen',
+      quantity: 'boolean',
+      comparison: 'yes_no',
+      expected: true,
+    },
+    fixGuidance:
+      "Measure the static pressure at the unit's supply and return as the manual shows, set the static pressure setting the duct design calls for, and where the reading stays outside the model's range, rework the ductwork.",
+    caution: caution('electrical', 'fan', 'overhead'),
+    needsCeilingAccess: true,
+  },
+  {
+    code: 'CT-05',
+    group: 'controls',
+    title: 'Static pressure outside the high static range',
+    description:
+      'The external static pressure measured across the high-static ducted unit is outside the range the model is rated for, or does not match the static pressure setting chosen for the duct design, so airflow is short and the coil may freeze or the fan overload.',
+    unitKinds: ['ducted_high'],
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'Measured external static pressure within the high-static model\'s rated range and the setting chosen',
+      quantity: 'boolean',
+      comparison: 'yes_no',
+      expected: true,
+    },
+    fixGuidance:
+      "Measure the static pressure at the unit's supply and return as the manual shows, set the static pressure setting the duct design calls for, and where the reading stays outside the model's range, rework the ductwork.",
+    caution: caution('electrical', 'fan', 'overhead'),
+    needsCeilingAccess: true,
+  },
+  {
+    code: 'CT-06',
+    group: 'controls',
+    title: 'Static pressure outside the very high static range',
+    description:
+      'The external static pressure measured across the very high-static ducted unit is outside the range the model is rated for, or does not match the static pressure setting chosen for the duct design, so airflow is short and the coil may freeze or the fan overload.',
+    unitKinds: ['ducted_very_high'],
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'Measured external static pressure within the very high-static model\'s rated range and the setting chosen',
+      quantity: 'boolean',
+      comparison: 'yes_no',
+      expected: true,
+    },
+    fixGuidance:
+      "Measure the static pressure at the unit's supply and return as the manual shows, set the static pressure setting the duct design calls for, and where the reading stays outside the model's range, rework the ductwork.",
+    caution: caution('electrical', 'fan', 'overhead'),
+    needsCeilingAccess: true,
+  },
+  {
+    code: 'CT-07',
+    group: 'controls',
+    title: 'Capacity setting does not match the coil',
+    description:
+      "The coil kit's capacity setting (switches or address setting) does not match the capacity of the coil it serves, so the system sizes its refrigerant flow wrongly.",
+    unitKinds: ['ahu_coil_kit'],
+    defaultSeverity: 'major',
+    trade: 'controls',
+    fixGuidance:
+      "Set the capacity code the kit's manual gives for this coil, restart the kit as the manual says, and record the setting.",
+    caution: caution('electrical'),
+    needsCeilingAccess: false,
+  },
+  {
+    code: 'CT-08',
+    group: 'controls',
+    title: 'Air handler interlock not wired',
+    description:
+      "The control wiring between the coil kit and the air handler is missing or wrong: the fan is not called when the kit calls, or the heater and defrost interlocks the kit's manual shows are not connected.",
+    unitKinds: ['ahu_coil_kit'],
+    defaultSeverity: 'critical',
+    trade: 'controls',
+    fixGuidance:
+      "Wire the kit to the air handler's fan, heater and alarm terminals exactly as the kit's manual shows, and test each interlock with the system running.",
+    caution: caution('electrical', 'fan'),
+    needsCeilingAccess: false,
   },
 
   // ---- Labelling (LB) ----------------------------------------------------------------------

@@ -41,3 +41,19 @@ export function groupPrefix(group: CatalogueGroup): string {
   if (!found) throw new Error(`Unknown catalogue group: ${group}`);
   return found.prefix;
 }
+
+/**
+ * Groups whose work is hazardous by nature (lifting, overhead, electrical, refrigerant, brazing,
+ * drilling, rotating fans): every item in them carries a caution. Labelling is the one group that
+ * is not; a labelling item that needs the ceiling open is overhead work and needs one too.
+ */
+export const HAZARDOUS_GROUPS: readonly CatalogueGroup[] = CATALOGUE_GROUPS.map((g) => g.key).filter((g) => g !== 'labelling');
+
+/** Whether a defect type must carry a caution: a hazardous group, or a fix above the ceiling. */
+export function needsCaution(item: Pick<CatalogueItem, 'group' | 'needsCeilingAccess'>): boolean {
+  return HAZARDOUS_GROUPS.includes(item.group) || item.needsCeilingAccess;
+}
+
+/** What a defect type that needs a caution is told when it has none (the form and the server say the same). */
+export const CAUTION_REQUIRED =
+  "This defect type's work is hazardous: give a caution that names the hazard and says the manufacturer's installation manual, local codes and licensed practice govern.";

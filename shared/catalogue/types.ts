@@ -38,6 +38,14 @@ export const MODEL_LIMITS = [
   { key: 'max_valve_kit_pipe_length', label: 'Maximum pipe length from expansion-valve kit to coil', quantity: 'length' },
   { key: 'max_sensor_angle', label: 'Maximum coil-sensor angle from the pipe centre line', quantity: 'angle' },
   { key: 'max_level_deviation', label: 'Maximum deviation from level across the unit', quantity: 'length' },
+  { key: 'min_pipe_hole_slope', label: 'Minimum fall of the wall pipe hole to the outside', quantity: 'slope' },
+  { key: 'max_accessory_pump_lift', label: 'Maximum lift of the accessory condensate pump', quantity: 'length' },
+  { key: 'min_body_to_ceiling', label: 'Minimum height of the cassette body above the ceiling', quantity: 'length' },
+  { key: 'max_body_to_ceiling', label: 'Maximum height of the cassette body above the ceiling', quantity: 'length' },
+  { key: 'min_ceiling_opening', label: 'Smallest ceiling opening side for the cassette', quantity: 'length' },
+  { key: 'max_ceiling_opening', label: 'Largest ceiling opening side for the cassette', quantity: 'length' },
+  { key: 'min_coil_internal_volume', label: 'Smallest coil internal volume the coil kit controls', quantity: 'volume' },
+  { key: 'max_coil_internal_volume', label: 'Largest coil internal volume the coil kit controls', quantity: 'volume' },
 ] as const;
 export type ModelLimitKey = (typeof MODEL_LIMITS)[number]['key'];
 
@@ -66,7 +74,16 @@ export interface MeasuredRule {
   tolerance?: number;
   /** yes_no: the answer that passes. */
   expected?: boolean;
+  /**
+   * yes_no: a code calculation in shared/calc that decides the answer and names its source with
+   * the job's edition (e.g. IMC 307.2.4.1 for a ductless drain's check valve or trap).
+   */
+  codeCheck?: CodeCheckKey;
 }
+
+/** Code calculations a yes/no rule may be decided by (shared/calc/rules.ts evaluateRule). */
+export const CODE_CHECKS = ['ductless_check_valve_or_trap'] as const;
+export type CodeCheckKey = (typeof CODE_CHECKS)[number];
 
 export interface CatalogueItem {
   /** Our own scheme: a group prefix and a number, e.g. "DR-03" (drainage, third). */

@@ -7,7 +7,9 @@ import {
   QUANTITY_KINDS,
   findItem,
   groupPrefix,
+  HAZARDOUS_GROUPS,
   itemsForKind,
+  needsCaution,
   itemsInGroup,
   type CatalogueItem,
   type LimitRef,
@@ -15,6 +17,7 @@ import {
   type QuantityKind,
 } from '../../shared/catalogue';
 import { CODE_LIMITS } from '../../shared/calc/limits';
+import { evaluateRule } from '../../shared/calc/rules';
 import { SEVERITIES, TRADE_KEYS, UNIT_KIND_KEYS } from '../../shared/words';
 
 /**
@@ -24,8 +27,6 @@ import { SEVERITIES, TRADE_KEYS, UNIT_KIND_KEYS } from '../../shared/words';
  */
 
 const GOVERNS_PHRASES = ["manufacturer's installation manual", 'local codes', 'licensed practice'];
-/** Groups whose work is electrical, refrigerant, brazing, lifting or overhead by nature. */
-const HAZARDOUS_GROUPS = new Set(['wiring', 'piping', 'mounting']);
 
 const items = BUILTIN_CATALOGUE;
 const rules = items.filter((i): i is CatalogueItem & { measuredRule: MeasuredRule } => !!i.measuredRule);
@@ -198,8 +199,7 @@ describe('built-in defect catalogue', () => {
 
   test('items touching hazardous work carry a caution that defers to the manual, codes and licensed practice', () => {
     for (const item of items) {
-      const needsCaution = HAZARDOUS_GROUPS.has(item.group) || item.needsCeilingAccess;
-      if (needsCaution && !item.caution) throw new Error(`${item.code} needs a caution`);
+      if (needsCaution(item) && !item.caution) throw new Error(`${item.code} needs a caution`);
       if (item.caution) {
         for (const phrase of GOVERNS_PHRASES) {
           if (!item.caution.includes(phrase)) throw new Error(`${item.code} caution lacks "${phrase}"`);
@@ -220,6 +220,162 @@ describe('built-in defect catalogue', () => {
     const top = byModelKey('min_clearance_top');
     expect(top.length).toBeGreaterThan(0);
     for (const item of top) expect(item.unitKinds).toEqual(['wall_mounted']);
+  });
+
+  test('every group but labelling is hazardous; a labelling fix above the ceiling needs a caution too', () => {
+    expect([...HAZARDOUS_GROUPS].sort()).toEqual(CATALOGUE_GROUPS.map((g) => g.key).filter((g) => g !== 'labelling').sort());
+    expect(needsCaution({ group: 'labelling', needsCeilingAccess: false })).toBe(false);
+    expect(needsCaution({ group: 'labelling', needsCeilingAccess: true })).toBe(true);
+    expect(needsCaution({ group: 'penetrations', needsCeilingAccess: false })).toBe(true);
+  });
+
+  test.each([
+    ['drilling an outside wall near live lines', /live cables, gas and water lines/, ['PN-01', 'PN-03']],
+    ['relocating a unit: refrigerant, brazing, pressure, electrical, lifting', /Refrigerant work.*Hot work.*Pressure testing.*Electrical work.*Lifting/, ['MT-07', 'CL-01', 'CL-02', 'CL-03']],
+    ['flammable (A2L) refrigerant: ignition sources, suitable tools, leak check', /A2L.*ignition sources.*rated for A2L refrigerants.*leak-check/, ['RP-01', 'RP-03', 'RP-10']],
+    ['nitrogen in enclosed spaces', /Nitrogen displaces oxygen/, ['RP-01', 'RP-07', 'RP-10']],
+    ['attic work', /Attic work/, ['CL-06', 'DR-10', 'MT-10']],
+    ['rotating fans', /Rotating fans/, ['PG-03', 'CL-08', 'CT-04']],
+  ])('the caution for %s is on the items it concerns', (_what, text, codes) => {
+    for (const code of codes) {
+      const item = findItem(code);
+      if (!item?.caution || !text.test(item.caution)) throw new Error(`${code} lacks the caution ${String(text)}`);
+    }
+  });
+
+  test('every refrigerant caution carries the flammable (A2L) refrigerant text', () => {
+    for (const item of items) {
+      if (item.caution?.includes('Refrigerant work') && !item.caution.includes('A2L')) throw new Error(`${item.code} lacks the A2L text`);
+    }
+  });
+
+  test('no two unit kinds share an identical list of checks', () => {
+    const lists = UNIT_KIND_KEYS.map((kind) => ({ kind, codes: itemsForKind(kind).map((i) => i.code).join(' ') }));
+    const seen = new Map<string, string>();
+    for (const { kind, codes } of lists) {
+      const twin = seen.get(codes);
+      if (twin) throw new Error(`${kind} has the same checks as ${twin}`);
+      seen.set(codes, kind);
+    }
+  });
+
+  /** Codes only that kind has: what sets it apart from every other kind. */
+  const ownCodes = (kind: (typeof UNIT_KIND_KEYS)[number]) =>
+    itemsForKind(kind)
+      .filter((i) => i.unitKinds.length === 1)
+      .map((i) => i.code);
+
+  test.each([
+    ['cassette_compact', ['PG-09']],
+    ['wall_mounted', ['MT-07', 'MT-08', 'CL-01']],
+    ['floor_console', ['CL-07']],
+    ['ducted_low', ['CT-04']],
+    ['ducted_high', ['CT-05']],
+    ['ducted_very_high', ['CT-06']],
+    ['ahu_coil_kit', ['MT-09', 'SN-02', 'SN-04', 'RP-08', 'RP-09', 'RP-10', 'RP-11', 'CT-07', 'CT-08']],
+  ] as const)('%s has checks of its own: %j', (kind, codes) => {
+    expect(ownCodes(kind)).toEqual(codes);
+  });
+
+  test('the three ducted kinds differ exactly in their static pressure check', () => {
+    const codes = (kind: 'ducted_low' | 'ducted_high' | 'ducted_very_high') => itemsForKind(kind).map((i) => i.code);
+    const shared = codes('ducted_low').filter((c) => c !== 'CT-04');
+    expect(codes('ducted_high').filter((c) => c !== 'CT-05')).toEqual(shared);
+    expect(codes('ducted_very_high').filter((c) => c !== 'CT-06')).toEqual(shared);
+    expect(findItem('CT-04')!.title).toMatch(/low static/);
+    expect(findItem('CT-06')!.title).toMatch(/very high static/);
+  });
+
+  test('cassettes: body height and ceiling opening measured per model; four-way outlets; the compact fits a grid cell', () => {
+    for (const kind of ['cassette_4way', 'cassette_2way', 'cassette_compact'] as const) {
+      const codes = itemsForKind(kind).map((i) => i.code);
+      expect(codes).toEqual(expect.arrayContaining(['PG-04', 'PG-05', 'PG-06', 'PG-07', 'DR-13']));
+    }
+    expect(findItem('PG-04')!.measuredRule).toMatchObject({ comparison: 'between', limit: { from: 'model', key: 'min_body_to_ceiling' }, upper: { from: 'model', key: 'max_body_to_ceiling' } });
+    expect(findItem('PG-06')!.measuredRule).toMatchObject({ comparison: 'between', limit: { from: 'model', key: 'min_ceiling_opening' } });
+    expect(findItem('PG-08')!.unitKinds).toEqual(['cassette_4way', 'cassette_compact']);
+  });
+
+  test('coil kit: coil internal volume within the kit range, a volume measured against the model', () => {
+    expect(findItem('RP-09')!.measuredRule).toMatchObject({ quantity: 'volume', comparison: 'between', limit: { from: 'model', key: 'min_coil_internal_volume' }, upper: { from: 'model', key: 'max_coil_internal_volume' } });
+  });
+
+  test('wall unit: the pipe hole falls to the outside by at least the model slope', () => {
+    expect(findItem('PN-01')!.measuredRule).toMatchObject({ quantity: 'slope', comparison: 'at_least', limit: { from: 'model', key: 'min_pipe_hole_slope' } });
+    expect(findItem('PN-01')!.unitKinds).toContain('wall_mounted');
+  });
+
+  test('hanging-rod checks only on kinds that hang: not the coil kit, not the floor console', () => {
+    for (const code of ['MT-01', 'MT-02', 'MT-03', 'MT-04', 'MT-05']) {
+      const kinds = findItem(code)!.unitKinds;
+      expect(kinds).not.toContain('ahu_coil_kit');
+      expect(kinds).not.toContain('floor_console');
+      expect(kinds).not.toContain('wall_mounted');
+    }
+  });
+
+  test('a minimum mounting height applies to no floor-standing unit', () => {
+    const mount = rules.filter((i) => i.measuredRule.limit?.key === 'min_mount_height');
+    expect(mount.map((i) => i.code)).toEqual(['MT-07']);
+    for (const item of mount) {
+      expect(item.unitKinds).not.toContain('floor_console');
+      expect(item.unitKinds).not.toContain('floor_ceiling');
+    }
+  });
+
+  test('every model limit key is used by a measured rule (no unused keys)', () => {
+    const used = new Set(rules.flatMap((i) => [i.measuredRule.limit, i.measuredRule.upper]).filter((r) => r?.from === 'model').map((r) => r!.key));
+    expect(MODEL_LIMITS.map((m) => m.key).filter((k) => !used.has(k))).toEqual([]);
+  });
+
+  describe('drain traps on ductless units', () => {
+    const ductless = ['cassette_4way', 'cassette_2way', 'cassette_compact', 'wall_mounted', 'floor_console', 'floor_ceiling'] as const;
+    const codeItem = findItem('DR-12')!;
+
+    test('every ductless kind records what the code asks: a check valve or a trap', () => {
+      expect([...codeItem.unitKinds].sort()).toEqual([...ductless].sort());
+      expect(codeItem.measuredRule).toMatchObject({ comparison: 'yes_no', expected: true, codeCheck: 'ductless_check_valve_or_trap' });
+    });
+
+    test('the rule is decided by the IMC 307.2.4.1 calculation, with the job edition as its source', () => {
+      const rule = codeItem.measuredRule!;
+      // IMC 2018 Section 307.2.4.1: ductless mini-split drains have a check valve or a trap.
+      const yes = evaluateRule(rule, true, () => undefined);
+      expect(yes).toMatchObject({ status: 'pass', limitSource: 'IMC 2018 Section 307.2.4.1' });
+      const no = evaluateRule(rule, false, () => undefined, { editions: { IMC: '2021' } });
+      expect(no).toMatchObject({ status: 'fail', pass: false, limitSource: 'IMC 2021 Section 307.2.4.1' });
+      expect(evaluateRule(rule, null, () => undefined).status).toBe('not_measured');
+      // The same rule without the code check names only the source it was given.
+      const plain = evaluateRule({ ...rule, codeCheck: undefined }, true, () => undefined, { source: 'DR-12' });
+      expect(plain.limitSource).toBe('DR-12');
+    });
+
+    test('"trap where the manual says none" stays a separate practice item that defers to the manual', () => {
+      const practice = findItem('DR-07')!;
+      expect([...practice.unitKinds].sort()).toEqual([...ductless].sort());
+      expect(practice.measuredRule).toBeUndefined();
+      expect(practice.description).toMatch(/manual/);
+      expect(practice.description).toMatch(/not a code rule/);
+      expect(practice.title).toBe('Trap where the manual says none');
+    });
+
+    test('no item calls a trap a defect on a ductless unit except the practice item', () => {
+      const trapDefects = items.filter((i) => /trap/i.test(i.title) && i.code !== 'DR-12' && i.code !== 'DR-07');
+      for (const item of trapDefects) for (const kind of ductless) expect(item.unitKinds).not.toContain(kind);
+    });
+  });
+
+  describe('disconnect (NFPA 70 440.14)', () => {
+    test.each(['EL-01', 'EL-02', 'EL-09', 'EL-10'])('%s applies to every kind', (code) => {
+      expect([...findItem(code)!.unitKinds].sort()).toEqual([...UNIT_KIND_KEYS].sort());
+    });
+    test('readily accessible, and not fastened to an access panel', () => {
+      expect(findItem('EL-09')!.title).toMatch(/readily accessible/);
+      expect(findItem('EL-09')!.measuredRule).toMatchObject({ comparison: 'yes_no', expected: true });
+      expect(findItem('EL-10')!.title).toMatch(/access panel/);
+      // Marked as memory until confirmed against the job's edition.
+      for (const code of ['EL-09', 'EL-10']) expect(findItem(code)!.description).toMatch(/440\.14; from memory, confirm/);
+    });
   });
 
   test('the catalogue cannot be changed at run time', () => {

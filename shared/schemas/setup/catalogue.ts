@@ -2,8 +2,9 @@
  * The defect catalogue of a job.
  */
 import { z } from 'zod';
-import { CATALOGUE_GROUPS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type CatalogueGroup, type Comparison, type JobSettingKey, type ModelLimitKey } from '../../catalogue/types';
+import { CATALOGUE_GROUPS, CODE_CHECKS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type CatalogueGroup, type Comparison, type JobSettingKey, type ModelLimitKey } from '../../catalogue/types';
 import { CODE_LIMIT_VARIANTS } from '../../calc/limits';
+import { CAUTION_REQUIRED, needsCaution } from '../../catalogue';
 import { SEVERITIES, TRADE_KEYS, UNIT_KIND_KEYS, type Severity, type TradeKey, type UnitKindKey } from '../../words';
 import { textLimit } from '../fields';
 import { text, optionalText, pageQuery, booleanQuery } from './fields';
@@ -36,6 +37,7 @@ export const measuredRuleSchema = z
     upper: limitRefSchema.optional(),
     tolerance: z.number().nonnegative().optional(),
     expected: z.boolean().optional(),
+    codeCheck: z.enum(CODE_CHECKS).optional(),
   })
   .strict()
   .superRefine((r, ctx) => {
@@ -46,8 +48,10 @@ export const measuredRuleSchema = z
     if (c === 'yes_no') {
       need(r.quantity === 'boolean', 'quantity', 'A yes/no rule measures a boolean.');
       need(r.expected !== undefined, 'expected', 'A yes/no rule needs the answer that passes.');
+      if (r.codeCheck) need(r.expected === true, 'expected', 'A rule the code decides passes on yes.');
     } else {
       need(r.quantity !== 'boolean', 'quantity', 'Only yes/no rules measure a boolean.');
+      need(r.codeCheck === undefined, 'codeCheck', 'Only a yes/no rule is decided by a code check.');
       need(r.limit !== undefined, 'limit', 'Say where the limit comes from.');
       if (c === 'between') need(r.upper !== undefined, 'upper', 'A range needs an upper limit.');
       if (c === 'equal_within') need(r.tolerance !== undefined, 'tolerance', 'Give the allowed deviation.');
@@ -77,8 +81,13 @@ const catalogueFields = {
   caution: optionalText('Caution', CATALOGUE_TEXT_LIMITS.caution),
   needsCeilingAccess: z.boolean({ error: 'Say whether the fix needs the ceiling open.' }),
 };
-/** POST /catalogue: a job-specific defect type. */
-export const createCatalogueItemSchema = z.object(catalogueFields).strict();
+/** POST /catalogue: a job-specific defect type; hazardous work needs its caution (shared/catalogue needsCaution). */
+export const createCatalogueItemSchema = z
+  .object(catalogueFields)
+  .strict()
+  .superRefine((item, ctx) => {
+    if (needsCaution(item) && !item.caution) ctx.addIssue({ code: 'custom', path: ['caution'], message: CAUTION_REQUIRED });
+  });
 export type CreateCatalogueItemInput = z.input<typeof createCatalogueItemSchema>;
 /** PATCH /catalogue/:itemId (If-Match). `retired: false` brings a retired item back. The code never changes. */
 export const updateCatalogueItemSchema = z

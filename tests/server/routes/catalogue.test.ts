@@ -2,7 +2,7 @@ import request from 'supertest';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
 import { CatalogueItem } from '../../../server/models';
-import { BUILTIN_CATALOGUE } from '../../../shared/catalogue';
+import { BUILTIN_CATALOGUE, CAUTION_REQUIRED } from '../../../shared/catalogue';
 import { ifMatch, jobPath, newJobFor, signInCrew, type SignedCrew } from '../../support/api';
 import { buildTestApp } from '../../support/app';
 import { connectTestDb } from '../../support/db';
@@ -40,7 +40,8 @@ const ownItem = {
   trade: 'mechanical',
   measuredRule: { measure: 'Overflow switch wired', quantity: 'boolean', comparison: 'yes_no', expected: true },
   fixGuidance: 'Land the overflow switch on the terminals the manual names and test it by lifting the float.',
-  caution: null,
+  caution:
+    "Electrical work: isolate the supply before opening the unit's electrical box. The manufacturer's installation manual, local codes and licensed practice govern.",
   needsCeilingAccess: true,
 };
 
@@ -92,6 +93,45 @@ describe('catalogue', () => {
     const res = await crew.gc.post(jobPath(job.id, '/catalogue'), { ...ownItem, ...change });
     expect(res.status).toBe(400);
     expect(res.body.error.message).toMatch(message);
+  });
+
+  it.each([
+    ['a hazardous group with no caution', { caution: null, needsCeilingAccess: false }],
+    ['a blank caution', { caution: '   ', needsCeilingAccess: false }],
+    ['a labelling type whose fix needs the ceiling open', { group: 'labelling', code: 'LB-41', caution: null, needsCeilingAccess: true }],
+  ])('refuses a new type with %s: 400 naming the caution field', async (_what, change) => {
+    const job = await newJobFor(crew);
+    const res = await crew.gc.post(jobPath(job.id, '/catalogue'), { ...ownItem, ...change });
+    expect(res.status).toBe(400);
+    expect(res.body.error).toMatchObject({ id: 'bad_request', fields: { caution: CAUTION_REQUIRED } });
+    expect(await CatalogueItem.count({ where: { jobId: job.id } })).toBe(0);
+  });
+
+  it('takes a labelling type without a caution: labelling work outside the ceiling is not hazardous', async () => {
+    const job = await newJobFor(crew);
+    const res = await crew.gc.post(jobPath(job.id, '/catalogue'), { ...ownItem, code: 'LB-42', group: 'labelling', measuredRule: null, caution: null, needsCeilingAccess: false });
+    expect(res.status).toBe(201);
+    expect(res.body.caution).toBeNull();
+  });
+
+  it('refuses an edit that leaves hazardous work without a caution; retiring alone is no edit', async () => {
+    const job = await jobWithCatalogue();
+    const label = (await CatalogueItem.findOne({ where: { jobId: job.id, code: 'LB-01' } }))!;
+    const labelPath = jobPath(job.id, `/catalogue/${label.id}`);
+    // Moving a caution-less labelling type into a hazardous group needs a caution too.
+    const moved = await crew.gc.patch(labelPath, { group: 'wiring' }, ifMatch(1));
+    expect(moved.status).toBe(400);
+    expect(moved.body.error.fields).toEqual({ caution: CAUTION_REQUIRED });
+    const wiring = (await CatalogueItem.findOne({ where: { jobId: job.id, code: 'EL-01' } }))!;
+    const path = jobPath(job.id, `/catalogue/${wiring.id}`);
+    const cleared = await crew.gc.patch(path, { caution: null }, ifMatch(1));
+    expect(cleared.status).toBe(400);
+    expect(cleared.body.error.fields).toEqual({ caution: CAUTION_REQUIRED });
+    expect((await CatalogueItem.findByPk(wiring.id))!).toMatchObject({ version: 1, caution: wiring.caution });
+    // An item saved without a caution before the rule (written here straight to the table) can still be retired.
+    await wiring.update({ caution: null });
+    expect((await crew.gc.patch(path, { retired: true }, ifMatch(1))).status).toBe(200);
+    expect((await crew.gc.patch(path, { title: 'Disconnect out of sight' }, ifMatch(2))).status).toBe(400);
   });
 
   it('edits with If-Match (428 / 412 / 200); the code cannot change', async () => {
