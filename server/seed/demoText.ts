@@ -34,7 +34,7 @@ export const DEMO_DEFECT_TEXT: Readonly<Record<string, DefectText>> = {
   'MT-05': {
     notes: [
       'Unit falls toward the piping side; the bubble is well off centre.',
-      'Cassette body out of level front to back; the panel will not sit square.',
+      'Unit body out of level front to back; the drain end sits high.',
       'Unit hangs low at the drain end instead of level.',
     ],
     fixes: [
@@ -84,19 +84,19 @@ export const DEMO_DEFECT_TEXT: Readonly<Record<string, DefectText>> = {
   },
   'DR-07': {
     notes: [
-      'Field trap added under a unit with a pump; the manual says no trap.',
-      'Drain loops down and up behind the grid and holds water like a trap.',
-      'Trap fitted on the pump discharge.',
+      'Field trap fitted under the unit; its manual says this drain runs without a trap and a check valve is already in.',
+      'Trap added at the unit outlet where the manual shows a check valve only; the drain gurgles when the pump runs.',
+      'Second trap fitted on the pump discharge; the manual shows the discharge with a check valve, no trap.',
     ],
     fixes: [
-      'Removed the field trap and ran the drain straight with a fall.',
-      'Straightened the loop so nothing holds water.',
-      'Removed the trap on the pump discharge and re-piped it as the manual shows.',
+      'Removed the field trap as the manual shows; the check valve stays, and the drain falls all the way.',
+      'Took out the trap and fitted the in-line check valve the manual names.',
+      'Removed the trap on the pump discharge; the check valve already on it is kept.',
     ],
     returns: [
-      'Trap removed but the new section rises at the coupling.',
-      'Still holds water at the low point on a second test fill.',
-      'Loop straightened on the unit next door; this one is unchanged.',
+      'Trap removed, but the check valve went with it: the drain now has neither.',
+      'Check valve fitted the wrong way round; the arrow points at the unit.',
+      'Trap removed on the unit next door; this one still has it.',
     ],
   },
   'PG-01': {
