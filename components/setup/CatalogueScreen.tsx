@@ -4,7 +4,8 @@ import { useForm, type Resolver } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { z } from 'zod';
 import { CODE_LIMITS } from '../../shared/calc/limits';
-import { CATALOGUE_GROUPS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type LimitRef } from '../../shared/catalogue/types';
+import { HAZARDOUS_GROUPS } from '../../shared/catalogue';
+import { CATALOGUE_GROUPS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type CodeCheckKey, type LimitRef } from '../../shared/catalogue/types';
 import {
   CATALOGUE_TEXT_LIMITS,
   createCatalogueItemSchema,
@@ -14,7 +15,7 @@ import {
   type JobDetail,
   type UpdateCatalogueItemInput,
 } from '../../shared/schemas/setup';
-import { SEVERITIES, SEVERITY_LABELS, TRADES, UNIT_KINDS, type Severity, type TradeKey, type UnitKindKey } from '../../shared/words';
+import { SEVERITIES, SEVERITY_LABELS, TRADES, UNIT_KINDS, unitKindLabel, type Severity, type TradeKey, type UnitKindKey } from '../../shared/words';
 import { useCatalogueQuery, useCreateCatalogueItemMutation, useUpdateCatalogueItemMutation } from '../queries/catalogue';
 import { colors, radius, severityColors, space } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -95,6 +96,7 @@ function CatalogueBody({ job }: { job: JobDetail }) {
         {editor && !form ? <Button testID="catalogue-add" label="Add a defect type" tone="secondary" onPress={() => setForm({})} /> : null}
       </View>
       {form && editor ? <CatalogueForm key={form.item?.id ?? 'new'} job={job} existing={form.item} onDone={() => setForm(null)} /> : null}
+      {unitKind && items.isSuccess && items.data.length > 0 ? <KindSummary kind={unitKind} items={items.data} /> : null}
       {items.isPending ? (
         <LoadingState label="Loading the catalogue…" />
       ) : items.isError ? (
@@ -119,13 +121,28 @@ function CatalogueBody({ job }: { job: JobDetail }) {
                   </AppText>
                 </AppText>
                 {inGroup.map((item) => (
-                  <CatalogueItemCard key={item.id} job={job} item={item} editor={editor} onEdit={() => setForm({ item })} />
+                  <CatalogueItemCard key={item.id} job={job} item={item} kind={unitKind || null} editor={editor} onEdit={() => setForm({ item })} />
                 ))}
               </View>
             );
           })}
         </View>
       )}
+    </View>
+  );
+}
+
+/** What the picked kind is checked for: how many types, how many measured, how many its own. */
+function KindSummary({ kind, items }: { kind: UnitKindKey; items: readonly CatalogueItemDto[] }) {
+  const measured = items.filter((i) => i.measuredRule).length;
+  const own = items.filter((i) => i.unitKinds.length === 1).length;
+  const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
+  return (
+    <View style={styles.summary} testID="catalogue-kind-summary">
+      <AppText variant="heading">{unitKindLabel(kind)}</AppText>
+      <AppText>
+        {plural(items.length, 'check applies', 'checks apply')}: {measured} measured, {plural(own, 'check', 'checks')} for this kind only.
+      </AppText>
     </View>
   );
 }
@@ -141,7 +158,20 @@ function SeverityBadge({ severity }: { severity: Severity }) {
   );
 }
 
-function CatalogueItemCard({ job, item, editor, onEdit }: { job: JobDetail; item: CatalogueItemDto; editor: boolean; onEdit: () => void }) {
+function CatalogueItemCard({
+  job,
+  item,
+  kind,
+  editor,
+  onEdit,
+}: {
+  job: JobDetail;
+  item: CatalogueItemDto;
+  /** The kind the list is narrowed to, if any: a type only that kind has says so. */
+  kind: UnitKindKey | null;
+  editor: boolean;
+  onEdit: () => void;
+}) {
   const [open, setOpen] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const update = useUpdateCatalogueItemMutation(job.id);
@@ -158,6 +188,7 @@ function CatalogueItemCard({ job, item, editor, onEdit }: { job: JobDetail; item
             <SeverityBadge severity={item.defaultSeverity} />
             <Badge label={TRADE_LABEL[item.trade]} />
             {item.measuredRule ? <Badge label="Measured" tone="info" /> : null}
+            {kind && item.unitKinds.length === 1 && item.unitKinds[0] === kind ? <Badge label="This kind only" tone="neutral" /> : null}
             {item.caution ? <Badge label="Caution" tone="warn" /> : null}
             {!item.builtin ? <Badge label="Added for this job" tone="neutral" /> : null}
             {retired ? <Badge label="Retired" tone="bad" /> : null}
@@ -247,6 +278,8 @@ interface Draft {
     upper: string;
     tolerance: string;
     expected: 'yes' | 'no';
+    /** Kept from the item: a yes/no rule a code calculation decides (not edited here). */
+    codeCheck?: CodeCheckKey;
   };
 }
 
@@ -272,6 +305,7 @@ function draftOf(item?: CatalogueItemDto): Draft {
       upper: fromRef(r?.upper),
       tolerance: r?.tolerance !== undefined ? String(r.tolerance) : '',
       expected: r?.expected === false ? 'no' : 'yes',
+      codeCheck: r?.codeCheck,
     },
   };
 }
@@ -289,6 +323,7 @@ function bodyOf(d: Draft, withCode: boolean): CreateCatalogueItemInput {
           ...(r.comparison === 'between' ? { upper: toRef(r.upper) } : {}),
           ...(r.comparison === 'equal_within' ? { tolerance: Number(r.tolerance) } : {}),
           ...(r.comparison === 'yes_no' ? { expected: r.expected === 'yes' } : {}),
+          ...(r.comparison === 'yes_no' && r.expected === 'yes' && r.codeCheck ? { codeCheck: r.codeCheck } : {}),
         }
       : null;
   return {
@@ -352,6 +387,7 @@ function CatalogueForm({ job, existing, onDone }: { job: JobDetail; existing?: C
     defaultValues: draftOf(existing),
   });
   const hasRule = watch('hasRule');
+  const cautionNeeded = (HAZARDOUS_GROUPS as readonly string[]).includes(watch('group')) || watch('needsCeilingAccess') === 'yes';
   const comparison = watch('measuredRule.comparison');
 
   const submit = handleSubmit(async (body) => {
@@ -402,12 +438,16 @@ function CatalogueForm({ job, existing, onDone }: { job: JobDetail; existing?: C
       <FormText
         control={control}
         name="caution"
-        label="Caution (optional)"
+        label={cautionNeeded ? 'Caution' : 'Caution (optional)'}
         testID="catalogue-caution-input"
         limit={CATALOGUE_TEXT_LIMITS.caution}
         multiline
         style={styles.multi}
-        hint="For hazardous work: electrical, refrigerant, brazing, lifting, overhead."
+        hint={
+          cautionNeeded
+            ? "Needed: this group's work, or a fix above the ceiling, is hazardous. Name the hazard and end with: the manufacturer's installation manual, local codes and licensed practice govern."
+            : 'For hazardous work: electrical, refrigerant, brazing, lifting, overhead.'
+        }
       />
       <FormSegmented
         control={control}
@@ -506,5 +546,6 @@ const styles = StyleSheet.create({
   pair: { flexDirection: 'row', gap: space.lg },
   cell: { flex: 1, minWidth: 0 },
   multi: { minHeight: 90, paddingTop: space.sm, textAlignVertical: 'top' },
+  summary: { gap: space.xs, borderLeftWidth: 3, borderLeftColor: colors.spruce, paddingLeft: space.md },
   rule: { borderLeftWidth: 3, borderLeftColor: colors.spruceSoft, paddingLeft: space.md },
 });

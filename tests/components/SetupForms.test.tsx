@@ -11,6 +11,9 @@ import { CompaniesScreen } from '../../components/setup/CompaniesScreen';
 import { ModelsScreen } from '../../components/setup/ModelsScreen';
 import { SystemsScreen } from '../../components/setup/SystemsScreen';
 import { refused, renderWithQueries, SAMPLE_JOB_ID, sampleJob } from '../support/components';
+import { CAUTION_REQUIRED } from '../../shared/catalogue';
+
+const CAUTION_TEXT = "Lifting: take the unit's weight first. The manufacturer's installation manual, local codes and licensed practice govern.";
 
 jest.setTimeout(30_000);
 
@@ -124,7 +127,10 @@ describe('a defect type’s measured rule', () => {
     fireEvent.press(screen.getByTestId('catalogue-submit'));
     expect(await screen.findByText('Say where the limit comes from.')).toBeTruthy();
     expect(screen.getByText('A range needs an upper limit.')).toBeTruthy();
+    // Mounting work is hazardous: the type needs a caution, as the server would say.
+    expect(screen.getByText(CAUTION_REQUIRED)).toBeTruthy();
     expect(sent).toEqual([]);
+    fireEvent.changeText(screen.getByTestId('catalogue-caution-input'), CAUTION_TEXT);
 
     fireEvent.press(screen.getByTestId('catalogue-limit-input'));
     fireEvent.press(screen.getAllByText('Unit model: Minimum clearance above the unit')[0]!);
@@ -142,7 +148,7 @@ describe('a defect type’s measured rule', () => {
         limit: { from: 'model', key: 'min_clearance_top' },
         upper: { from: 'model', key: 'max_pump_lift' },
       },
-      caution: null,
+      caution: CAUTION_TEXT,
       needsCeilingAccess: false,
     });
   });

@@ -312,6 +312,8 @@ describe('a GC manager sets up a job from empty (wide, 1280x800)', () => {
     await page.getByTestId('catalogue-description-input').fill('The condensate pump discharge tube is kinked or crushed where it leaves the unit.');
     await page.getByTestId('catalogue-kinds-input-wall_mounted').click();
     await page.getByTestId('catalogue-fix-input').fill('Re-route the tube in a smooth curve and support it.');
+    // Drainage work is hazardous: the type needs its caution.
+    await page.getByTestId('catalogue-caution-input').fill("Electrical work: isolate the pump's supply first. The manufacturer's installation manual, local codes and licensed practice govern.");
     await shot(page, 'setup-15a-catalogue-form-wide');
     await page.getByTestId('catalogue-submit').click();
     await seeText(page, 'catalogue-item-DR-90', 'Pump discharge line kinked');
