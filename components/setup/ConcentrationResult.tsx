@@ -1,6 +1,6 @@
 import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
-import type { A2lAreaResult, A2lAreaStatus } from '../../shared/calc/refrigerant';
+import type { A2lAreaResult, A2lAreaStatus, MountPosition, MountSource } from '../../shared/calc/refrigerant';
 import type { UnitSystem } from '../../shared/catalogue/types';
 import type { SystemDetail } from '../../shared/schemas/setup';
 import { colors, space } from '../theme';
@@ -78,7 +78,7 @@ export function ConcentrationResultView({ detail, unitSystem }: { detail: System
                 <Badge label={word.label} tone={word.tone} testID={`a2l-status-${a.tag}`} />
                 <AppText variant="small" style={styles.a2lText}>
                   {a.tag}
-                  {a.spaceName ? ` in ${a.spaceName}` : ''} ({MOUNT_WORDS[a.mount]}): {a.result.message}
+                  {a.spaceName ? ` in ${a.spaceName}` : ''} ({mountWords(a.mount, a.mountFrom)}): {a.result.message}
                 </AppText>
               </View>
             );
@@ -90,11 +90,17 @@ export function ConcentrationResultView({ detail, unitSystem }: { detail: System
   );
 }
 
-const MOUNT_WORDS: Record<SystemDetail['a2lFloorArea'][number]['mount'], string> = {
+const MOUNT_WORDS: Record<MountPosition, string> = {
   floor: 'floor-standing',
   wall: 'wall-mounted',
   ceiling: 'ceiling-mounted',
 };
+const MOUNT_FROM: Record<MountSource, string> = { unit: 'set on the unit', model: "from its model", kind: 'from its kind' };
+
+function mountWords(mount: MountPosition | null, from: MountSource | null): string {
+  if (mount === null) return 'mounting position not recorded';
+  return `${MOUNT_WORDS[mount]}, ${from ? MOUNT_FROM[from] : ''}`.replace(/, $/, '');
+}
 
 function Fact({ label, value, testID }: { label: string; value: string; testID?: string }) {
   return (

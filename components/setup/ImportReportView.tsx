@@ -16,6 +16,7 @@ const FIELD_LABEL: Record<string, string> = {
   level: 'Level',
   space: 'Space',
   system: 'System',
+  mount: 'Mounting',
 };
 
 /** "Level: Unknown level …", without saying the field twice when the reason already names it. */
@@ -83,6 +84,7 @@ export function ImportReportView({ report, unitSystem }: { report: UnitImportRep
                 {r.capacity !== null ? ` · ${formatQuantity(r.capacity, 'capacity', unitSystem)}` : ''} · {r.levelName}
                 {r.spaceName ? ` · ${r.spaceName}` : ''}
                 {r.systemName ? ` · ${r.systemName}` : ''}
+                {r.mountPosition ? ` · ${r.mountPosition}-mounted` : ''}
               </AppText>
             </View>
           ))}

@@ -25,6 +25,7 @@ const FIELD_LABEL: Record<UnitImportField, string> = {
   level: 'Level',
   space: 'Space',
   system: 'System',
+  mount: 'Mounting (floor, wall, ceiling)',
 };
 
 export function ImportUnitsScreen({ jobId }: { jobId: string }) {

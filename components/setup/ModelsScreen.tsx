@@ -4,6 +4,7 @@ import { useForm, type Path } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { z } from 'zod';
 import { formatQuantity } from '../../shared/calc/format';
+import { MOUNT_POSITION_LABELS, MOUNT_POSITIONS } from '../../shared/calc/refrigerant';
 import { MODEL_LIMITS, type ModelLimitKey } from '../../shared/catalogue/types';
 import { createModelSchema, type CreateModelInput, type JobDetail, type StatedLimitInput, type UnitModelDto } from '../../shared/schemas/setup';
 import { UNIT_KINDS } from '../../shared/words';
@@ -85,6 +86,7 @@ function ModelCard({ job, model, editor, onEdit }: { job: JobDetail; model: Unit
             {KIND_LABEL[model.unitKind]}
             {model.nominalCapacity !== null ? ` · ${formatQuantity(model.nominalCapacity, 'capacity', job.unitSystem)}` : ''} · {model.unitCount} unit
             {model.unitCount === 1 ? '' : 's'}
+            {model.mountPosition ? ` · ${MOUNT_POSITION_LABELS[model.mountPosition]}` : ''}
           </AppText>
         </View>
         {editor ? (
@@ -142,6 +144,7 @@ const FIELDS = [
   'modelNumber',
   'unitKind',
   'nominalCapacity',
+  'mountPosition',
   ...MODEL_LIMITS.flatMap((l) => [`limits.${l.key}.value`, `limits.${l.key}.source`]),
 ] as Path<ModelFormValues>[];
 
@@ -172,6 +175,7 @@ function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitM
       unitKind: existing?.unitKind ?? 'cassette_4way',
       nominalCapacity:
         existing?.nominalCapacity != null ? formatQuantity(existing.nominalCapacity, 'capacity', job.unitSystem).replace(/,/g, '') : null,
+      mountPosition: existing?.mountPosition ?? null,
       limits: Object.fromEntries(
         MODEL_LIMITS.map((l) => [l.key, { value: existing?.limits[l.key]?.text ?? '', source: existing?.limits[l.key]?.source ?? '' }]),
       ) as Record<ModelLimitKey, LimitDraft>,
@@ -220,9 +224,19 @@ function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitM
           />
         </View>
       </View>
+      <FormSelect
+        control={control}
+        name="mountPosition"
+        label="Installation position (optional)"
+        hint="As the manual installs it; sets the refrigerant release height for the A2L floor-area check. A unit may record its own."
+        testID="model-mount-input"
+        placeholder="Not recorded"
+        nullable
+        options={MOUNT_POSITIONS.map((m) => ({ value: m, label: MOUNT_POSITION_LABELS[m] }))}
+      />
       <AppText variant="label">Limits from the installation manual</AppText>
       <AppText variant="small" muted>
-        Type each value with the unit the manual states it in (e.g. 27-9/16 in, 700 mm, 30°) and say where it came from (document,
+        Type each value with the unit the manual states it in (e.g. 27-1/2 in, 700 mm, 30°) and say where it came from (document,
         page). Leave both empty for limits the manual does not give.
       </AppText>
       {MODEL_LIMITS.map((def) => (
@@ -233,7 +247,7 @@ function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitM
               name={`limits.${def.key}.value`}
               label={def.label}
               testID={`model-limit-${def.key}-value`}
-              placeholder={def.quantity === 'angle' ? 'e.g. 30°' : 'e.g. 27-9/16 in'}
+              placeholder={def.quantity === 'angle' ? 'e.g. 30°' : 'e.g. 27-1/2 in'}
             />
           </View>
           <View style={styles.cell}>

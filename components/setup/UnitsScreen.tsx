@@ -4,6 +4,7 @@ import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
+import { MOUNT_POSITION_LABELS, MOUNT_POSITIONS } from '../../shared/calc/refrigerant';
 import { createUnitSchema, type JobDetail, type UnitDto } from '../../shared/schemas/setup';
 import { UNIT_KINDS, UNIT_KIND_LABELS, type UnitKindKey } from '../../shared/words';
 import { exportUrls } from '../api/exports';
@@ -163,12 +164,13 @@ function UnitCard({ job, unit, editor, onEdit }: { job: JobDetail; unit: UnitDto
       <AppText variant="small" muted>
         {unit.levelName}
         {unit.spaceName ? ` · ${unit.spaceName}` : ''} · {unit.systemName ? `system ${unit.systemName}` : 'no system'}
+        {unit.effectiveMount ? ` · ${unit.effectiveMount.mount}-mounted` : ''}
       </AppText>
     </View>
   );
 }
 
-const FIELDS = ['tag', 'kind', 'modelId', 'capacity', 'levelId', 'spaceId', 'systemId'] as const;
+const FIELDS = ['tag', 'kind', 'modelId', 'capacity', 'levelId', 'spaceId', 'systemId', 'mountPosition'] as const;
 
 function UnitForm({
   job,
@@ -197,6 +199,7 @@ function UnitForm({
       levelId: existing?.levelId ?? levels[0]?.id ?? '',
       spaceId: existing?.spaceId ?? null,
       systemId: existing?.systemId ?? null,
+      mountPosition: existing?.mountPosition ?? null,
     },
   });
   const levelId = watch('levelId');
@@ -295,6 +298,16 @@ function UnitForm({
           />
         </View>
       </View>
+      <FormSelect
+        control={control}
+        name="mountPosition"
+        label="Mounting position (optional)"
+        hint="Leave it to the model's installation position unless this unit is installed otherwise (e.g. an air handler standing in a closet). Sets the release height for the A2L floor-area check."
+        testID="unit-mount-input"
+        placeholder="As its model (or its kind)"
+        nullable
+        options={MOUNT_POSITIONS.map((m) => ({ value: m, label: MOUNT_POSITION_LABELS[m] }))}
+      />
       <View style={styles.actions}>
         <Button testID="unit-submit" label={existing ? 'Save unit' : 'Add unit'} onPress={submit} busy={create.isPending || update.isPending} />
         <Button label={existing ? 'Cancel' : 'Done'} tone="quiet" testID="unit-form-close" onPress={onDone} />

@@ -39,6 +39,7 @@ const SYNONYMS: Record<UnitImportField, string[]> = {
   level: ['level', 'floor', 'storey', 'story'],
   space: ['space', 'room', 'area', 'location'],
   system: ['system', 'circuit', 'refrigerantsystem', 'outdoorunit', 'odu'],
+  mount: ['mount', 'mounting', 'mountposition', 'mountingposition', 'installationposition'],
 };
 
 /** A first guess at which field each header holds, by its name. Each field is used once. */

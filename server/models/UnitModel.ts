@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import type { MountPosition } from '../../shared/calc/refrigerant';
 import type { ModelLimitKey } from '../../shared/catalogue/types';
 import type { StatedLimitDto } from '../../shared/schemas/setup';
 import type { UnitKindKey } from '../../shared/words';
@@ -13,6 +14,8 @@ export class UnitModel extends Model<InferAttributes<UnitModel>, InferCreationAt
   declare unitKind: UnitKindKey;
   declare nominalCapacity: number | null;
   declare limits: CreationOptional<Partial<Record<ModelLimitKey, StatedLimitDto>>>;
+  /** Installation position from the manual (A2L release height); null when not recorded. */
+  declare mountPosition: CreationOptional<MountPosition | null>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -27,6 +30,7 @@ export class UnitModel extends Model<InferAttributes<UnitModel>, InferCreationAt
         unitKind: { type: DataTypes.STRING(40), allowNull: false },
         nominalCapacity: { type: DataTypes.DOUBLE, allowNull: true },
         limits: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
+        mountPosition: { type: DataTypes.STRING(10), allowNull: true, defaultValue: null },
         version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

@@ -10,6 +10,7 @@ export function presentUnitModel(model: UnitModel, unitCount: number): UnitModel
     unitKind: model.unitKind,
     nominalCapacity: model.nominalCapacity,
     limits: model.limits ?? {},
+    mountPosition: model.mountPosition ?? null,
     unitCount,
     version: model.version,
   };

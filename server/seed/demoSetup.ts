@@ -10,6 +10,7 @@
 import type { Transaction } from 'sequelize';
 import { MODEL_LIMITS, type ModelLimitKey, type QuantityKind } from '../../shared/catalogue/types';
 import { toBase } from '../../shared/calc/quantity';
+import type { MountPosition } from '../../shared/calc/refrigerant';
 import type { StatedLimitDto } from '../../shared/schemas/setup';
 import type { Refrigerant, TradeKey, UnitKindKey } from '../../shared/words';
 import type { Database } from '../db';
@@ -41,6 +42,8 @@ interface ModelSpec {
   unitKind: UnitKindKey;
   capacity: string;
   limits: Partial<Record<ModelLimitKey, string>>;
+  /** Installation position (A2L release height); left out where the kind can be either way up. */
+  mountPosition?: MountPosition;
 }
 
 /** Invented unit models. Limits are invented round figures, typed the way the trade writes them. */
@@ -55,6 +58,7 @@ export const DEMO_MODELS: ModelSpec[] = [
     modelNumber: 'DL-24',
     unitKind: 'ducted_low',
     capacity: '24000 Btu/h',
+    mountPosition: 'ceiling',
     limits: { max_pump_lift: '24 in', max_drain_horizontal_run: '10 in' },
   },
   {
@@ -62,12 +66,13 @@ export const DEMO_MODELS: ModelSpec[] = [
     modelNumber: 'DH-36',
     unitKind: 'ducted_high',
     capacity: '3 tons',
+    mountPosition: 'ceiling',
     limits: { max_pump_lift: '24 in', max_drain_horizontal_run: '10 in' },
   },
-  { name: 'Ducted very high static 48', modelNumber: 'DV-48', unitKind: 'ducted_very_high', capacity: '4 tons', limits: {} },
+  { name: 'Ducted very high static 48', modelNumber: 'DV-48', unitKind: 'ducted_very_high', capacity: '4 tons', limits: {}, mountPosition: 'ceiling' },
   { name: 'Floor console 12', modelNumber: 'FC-12', unitKind: 'floor_console', capacity: '12000 Btu/h', limits: {} },
   { name: 'Floor/ceiling 18', modelNumber: 'FF-18', unitKind: 'floor_ceiling', capacity: '18000 Btu/h', limits: {} },
-  { name: 'Air-handler coil kit 60', modelNumber: 'AK-60', unitKind: 'ahu_coil_kit', capacity: '5 tons', limits: { max_valve_kit_pipe_length: '6 ft' } },
+  { name: 'Air-handler coil kit 60', modelNumber: 'AK-60', unitKind: 'ahu_coil_kit', capacity: '5 tons', limits: { max_valve_kit_pipe_length: '6 ft' }, mountPosition: 'floor' },
 ];
 
 /** The quantity each model limit is stated in (the one list in shared/catalogue/types.ts). */
@@ -198,7 +203,7 @@ export async function seedDemoSetup(
     }
     const [value, unit] = m.capacity.split(' ') as [string, string];
     const model = await UnitModel.create(
-      { jobId, name: m.name, modelNumber: m.modelNumber, unitKind: m.unitKind, nominalCapacity: toBase(Number(value), unit), limits },
+      { jobId, name: m.name, modelNumber: m.modelNumber, unitKind: m.unitKind, nominalCapacity: toBase(Number(value), unit), limits, mountPosition: m.mountPosition ?? null },
       { transaction },
     );
     models.set(m.modelNumber, model.id);

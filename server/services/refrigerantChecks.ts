@@ -3,25 +3,24 @@
  * - concentration (shared/calc checkRefrigerantConcentration): total charge against the smallest
  *   enclosed space (or group of spaces joined by permanent openings) its units serve;
  * - for A2L refrigerants with a stored LFL (R-32): the IEC 60335-2-40 Annex GG minimum floor area
- *   per unit, at the release height of its mounting (from the unit kind).
+ *   per unit, at the release height of its mounting position (the unit's own, else its model's
+ *   installation position, else what its kind can only be; shared/calc mountPositionOf).
  * Spaces marked not enclosed do not count as served spaces. Trimout records; it does not certify.
  */
 import { Op, type Transaction } from 'sequelize';
-import { checkA2lFloorArea, checkRefrigerantConcentration, LFL, type MountPosition } from '../../shared/calc/refrigerant';
+import { checkA2lFloorArea, checkRefrigerantConcentration, LFL, mountPositionOf } from '../../shared/calc/refrigerant';
 import type { SystemDetail } from '../../shared/schemas/setup';
-import type { UnitKindKey } from '../../shared/words';
-import { Job, Space, SpaceLink, System, Unit } from '../models';
+import { Job, Space, SpaceLink, System, Unit, UnitModel } from '../models';
 import { presentSystem } from '../presenters/system';
 
-/** Mounting position of a unit kind, for the A2L release height. */
-export function mountOf(kind: UnitKindKey): MountPosition {
-  if (kind === 'wall_mounted') return 'wall';
-  if (kind === 'floor_console' || kind === 'floor_ceiling') return 'floor';
-  return 'ceiling';
-}
 
 export async function systemDetail(job: Job, system: System, transaction?: Transaction): Promise<SystemDetail> {
-  const units = await Unit.findAll({ where: { jobId: job.id, systemId: system.id }, order: [['tag', 'ASC']], transaction });
+  const units = await Unit.findAll({
+    where: { jobId: job.id, systemId: system.id },
+    include: [{ model: UnitModel, as: 'model', attributes: ['id', 'mountPosition'] }],
+    order: [['tag', 'ASC']],
+    transaction,
+  });
   const unitSpaceIds = [...new Set(units.map((u) => u.spaceId).filter((id): id is string => id !== null))];
   const spaces = unitSpaceIds.length > 0 ? await Space.findAll({ where: { jobId: job.id, id: unitSpaceIds }, transaction }) : [];
   const served = spaces.filter((s) => s.enclosed).map((s) => s.id);
@@ -75,13 +74,14 @@ export async function systemDetail(job: Job, system: System, transaction?: Trans
       ? []
       : units.map((u) => {
           const space = u.spaceId ? known.get(u.spaceId) : undefined;
-          const mount = mountOf(u.kind);
+          const { mount, from } = mountPositionOf({ kind: u.kind, unit: u.mountPosition, model: u.model?.mountPosition });
           return {
             unitId: u.id,
             tag: u.tag,
             spaceId: space?.id ?? null,
             spaceName: space?.name ?? null,
             mount,
+            mountFrom: from,
             result: checkA2lFloorArea({
               refrigerant: system.refrigerant,
               chargeKg: factoryCharge + fieldCharge,

@@ -6,6 +6,7 @@
 import { parse } from 'csv-parse/sync';
 import { UniqueConstraintError, type Transaction } from 'sequelize';
 import { parseQuantity, unitKind } from '../../shared/calc/quantity';
+import { parseMountPosition, type MountPosition } from '../../shared/calc/refrigerant';
 import {
   IMPORT_MAX_ROWS,
   TAG_PATTERN,
@@ -47,6 +48,11 @@ const HEADER_ALIASES: Record<string, UnitImportField> = {
   room: 'space',
   system: 'system',
   refrigerantsystem: 'system',
+  mount: 'mount',
+  mounting: 'mount',
+  mountposition: 'mount',
+  mountingposition: 'mount',
+  installationposition: 'mount',
 };
 
 function normaliseHeader(header: string): string {
@@ -258,6 +264,13 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
       else capacity = parsed.value;
     }
 
+    const mountText = cell('mount');
+    let mountPosition: MountPosition | null = null;
+    if (mountText !== '') {
+      mountPosition = parseMountPosition(mountText);
+      if (!mountPosition) bad('mount', `Mounting position "${mountText}" is not floor, wall or ceiling.`);
+    }
+
     if (rowErrors.length > 0 || !kind || !level) {
       errors.push(...rowErrors);
       continue;
@@ -271,6 +284,7 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
       levelName: level.name,
       spaceName: spaceId ? (spaces.find((s) => s.id === spaceId)?.name ?? null) : null,
       systemName: systemId ? (systems.find((s) => s.id === systemId)?.name ?? null) : null,
+      mountPosition,
       levelId: level.id,
       spaceId,
       systemId,
@@ -291,6 +305,7 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
         levelId: g.levelId,
         spaceId: g.spaceId,
         systemId: g.systemId,
+        mountPosition: g.mountPosition,
       })),
       { transaction },
     );
@@ -303,7 +318,7 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
     goodRows: good.length,
     badRows: badLines.size,
     errors,
-    preview: good.slice(0, PREVIEW_MAX).map(({ line, tag, kind, modelName, capacity, levelName, spaceName, systemName }) => ({
+    preview: good.slice(0, PREVIEW_MAX).map(({ line, tag, kind, modelName, capacity, levelName, spaceName, systemName, mountPosition }) => ({
       line,
       tag,
       kind,
@@ -312,6 +327,7 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
       levelName,
       spaceName,
       systemName,
+      mountPosition,
     })),
     created: commit ? good.length : 0,
   };

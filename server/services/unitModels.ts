@@ -68,7 +68,7 @@ export async function createUnitModel({ transaction, jobId }: SetupWrite, input:
   const limits = mergeLimits({}, input.limits);
   if (await UnitModel.findOne({ where: { jobId, ...lowerEquals('name', input.name) }, transaction })) throw duplicateName(input.name);
   return UnitModel.create(
-    { jobId, name: input.name, modelNumber: input.modelNumber ?? null, unitKind: input.unitKind, nominalCapacity, limits },
+    { jobId, name: input.name, modelNumber: input.modelNumber ?? null, unitKind: input.unitKind, nominalCapacity, limits, mountPosition: input.mountPosition ?? null },
     { transaction },
   );
 }
@@ -97,6 +97,7 @@ export async function changeUnitModel(
     if (input.modelNumber !== undefined) model.modelNumber = input.modelNumber;
     if (nominalCapacity !== undefined) model.nominalCapacity = nominalCapacity;
     if (input.limits !== undefined) model.limits = mergeLimits(model.limits ?? {}, input.limits);
+    if (input.mountPosition !== undefined) model.mountPosition = input.mountPosition;
     model.version += 1;
     await model.save({ transaction });
     return unitModelDto(model, transaction);

@@ -129,7 +129,7 @@ export async function createUnit({ transaction, jobId }: SetupWrite, input: Crea
   try {
     await checkUnitRefs(jobId, refs, transaction);
     if (await tagTaken(jobId, input.tag, null, transaction)) throw duplicateTag(input.tag);
-    const created = await Unit.create({ jobId, tag: input.tag, capacity, ...refs }, { transaction });
+    const created = await Unit.create({ jobId, tag: input.tag, capacity, mountPosition: input.mountPosition ?? null, ...refs }, { transaction });
     return await loadUnit(jobId, created.id, transaction);
   } catch (err) {
     if (err instanceof UniqueConstraintError) throw duplicateTag(input.tag);
@@ -168,6 +168,7 @@ export async function changeUnit({ transaction, jobId, ifMatch }: SetupWrite, un
     if (input.systemId !== undefined) unit.systemId = input.systemId;
     if (input.modelId !== undefined) unit.modelId = input.modelId;
     if (capacity !== undefined) unit.capacity = capacity;
+    if (input.mountPosition !== undefined) unit.mountPosition = input.mountPosition;
     await checkUnitRefs(
       jobId,
       { kind: unit.kind, levelId: unit.levelId, spaceId: unit.spaceId, systemId: unit.systemId, modelId: unit.modelId },

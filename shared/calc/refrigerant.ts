@@ -16,7 +16,7 @@
  * `limit_not_set` until the job enters the limit with its source (`override`).
  */
 import type { EditionChoice, UnitSystem } from '../catalogue/types';
-import type { Refrigerant } from '../words';
+import type { Refrigerant, UnitKindKey } from '../words';
 import type { CodeDocument } from '../catalogue/types';
 import { DEFAULT_EDITIONS } from './limits';
 import type { Provenance } from './limits';
@@ -311,6 +311,49 @@ export type MountPosition = keyof typeof RELEASE_HEIGHTS;
 /** The mounting positions a model or unit may record (the keys of RELEASE_HEIGHTS). */
 export const MOUNT_POSITIONS = ['floor', 'wall', 'ceiling'] as const satisfies readonly MountPosition[];
 
+/** Each mounting position in words, with its release height (IEC 60335-2-40:2018 Annex GG). */
+export const MOUNT_POSITION_LABELS: Record<MountPosition, string> = {
+  floor: 'Floor-standing (release height 0.6 m)',
+  wall: 'Wall-mounted (release height 1.8 m)',
+  ceiling: 'Ceiling-mounted (release height 2.2 m)',
+};
+
+/** Where a recorded mounting position came from: the unit's own field wins over its model's. */
+export type MountSource = 'unit' | 'model' | 'kind';
+
+/**
+ * The mounting position of a unit for its release height: the unit's own field, else its
+ * model's installation position, else what its kind can only be (a wall-mounted unit is on a
+ * wall, a cassette in a ceiling, a floor console on the floor). A ducted unit, a coil kit and a
+ * floor/ceiling unit may be either way up, so without a recorded position the answer is null.
+ */
+export function mountPositionOf(input: {
+  kind: UnitKindKey;
+  unit?: MountPosition | null;
+  model?: MountPosition | null;
+}): { mount: MountPosition | null; from: MountSource | null } {
+  if (input.unit) return { mount: input.unit, from: 'unit' };
+  if (input.model) return { mount: input.model, from: 'model' };
+  const byKind = KIND_MOUNT[input.kind];
+  return byKind ? { mount: byKind, from: 'kind' } : { mount: null, from: null };
+}
+
+/** "floor", "Wall-mounted", "ceiling mounted", "floor-standing" → the position; null for anything else. */
+export function parseMountPosition(text: string): MountPosition | null {
+  const t = text.trim().toLowerCase().replace(/[\s_-]+/g, ' ');
+  const m = /^(floor|wall|ceiling)( (mounted|standing|hung))?$/.exec(t);
+  return m ? (m[1] as MountPosition) : null;
+}
+
+/** Kinds whose mounting position follows from the kind itself (common practice: what the kind is). */
+const KIND_MOUNT: Partial<Record<UnitKindKey, MountPosition>> = {
+  wall_mounted: 'wall',
+  cassette_4way: 'ceiling',
+  cassette_2way: 'ceiling',
+  cassette_compact: 'ceiling',
+  floor_console: 'floor',
+};
+
 /**
  * Charge thresholds of IEC 60335-2-40:2018 Annex GG for A2L refrigerants, as room volumes times
  * the LFL: m1 = 6 m³ × LFL (about 1.84 kg for R-32), m2 = 26 m³ × LFL (about 7.98 kg for R-32).
@@ -355,8 +398,8 @@ export interface A2lAreaResult {
   /** m², only between m1 and m2 (where A_min applies). */
   minArea: number | null;
   margin: number | null;
-  /** m, the release height used (from the mounting position). */
-  releaseHeight: number;
+  /** m, the release height used (from the mounting position); null when the position is not recorded. */
+  releaseHeight: number | null;
   message: string;
 }
 
@@ -365,12 +408,13 @@ export function checkA2lFloorArea(input: {
   refrigerant: Refrigerant;
   chargeKg: number;
   floorArea: number | null;
-  mount: MountPosition;
+  /** null: not recorded (only matters between m1 and m2, where A_min depends on it). */
+  mount: MountPosition | null;
   /** kg/m³; required for refrigerants without a stored LFL. */
   lfl?: number;
   system?: UnitSystem;
 }): A2lAreaResult {
-  const releaseHeight = RELEASE_HEIGHTS[input.mount];
+  const releaseHeight = input.mount === null ? null : RELEASE_HEIGHTS[input.mount];
   const none = { band: null, m1: null, m2: null, minArea: null, margin: null, releaseHeight };
   const lfl = input.lfl ?? LFL[input.refrigerant]?.value;
   if (lfl === undefined) {
@@ -407,9 +451,20 @@ export function checkA2lFloorArea(input: {
       message: `${charge} is above m2: design must show additional measures (ventilation, leak detection, shut-off); a floor area alone neither passes nor fails it (${bands}).`,
     };
   }
+  if (input.mount === null) {
+    return {
+      ...none,
+      m1,
+      m2,
+      band: 'm1_to_m2',
+      status: 'not_measured',
+      pass: null,
+      message: `${charge} is between m1 and m2, so A_min depends on the release height: record whether the unit is floor-standing, wall-mounted or ceiling-mounted (on the unit or its model).`,
+    };
+  }
   const minArea = a2lMinFloorArea(input.chargeKg, input.mount, lfl);
   // The standard states h0 in metres; shown as it states it.
-  const where = `${input.mount}-mounted (release height h0 ${releaseHeight} m)`;
+  const where = `${input.mount}-mounted (release height h0 ${RELEASE_HEIGHTS[input.mount]} m)`;
   if (input.floorArea === null) {
     return {
       ...none,

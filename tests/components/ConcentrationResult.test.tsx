@@ -35,6 +35,7 @@ function detail(chargeKg: number, rows: Array<{ tag: string; area: number; mount
       spaceId: 'a',
       spaceName: 'Room',
       mount: r.mount,
+      mountFrom: 'unit' as const,
       result: checkA2lFloorArea({ refrigerant: 'R-32', chargeKg, floorArea: r.area, mount: r.mount, system: 'metric' }),
     })),
   };

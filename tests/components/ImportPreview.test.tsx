@@ -17,6 +17,7 @@ function report(overrides: Partial<UnitImportReport> = {}): UnitImportReport {
     levelName: 'Level 1',
     spaceName: 'Lobby',
     systemName: 'VRF-1',
+    mountPosition: null,
   }));
   return {
     dryRun: true,

@@ -110,6 +110,26 @@ describe('a unit model’s limits', () => {
   });
 });
 
+describe('a unit model’s installation position', () => {
+  it('sends the position chosen (it sets the A2L release height), and null when not recorded', async () => {
+    const sent = fakeApi([{ status: 201, body: {} }, { status: 201, body: {} }]);
+    renderWithQueries(<ModelsScreen jobId={JOB} />);
+    fireEvent.press(await screen.findByTestId('model-add'));
+    fireEvent.changeText(screen.getByTestId('model-name-input'), 'Air handler 36');
+    fireEvent.press(screen.getByTestId('model-submit'));
+    await waitFor(() => expect(sent).toHaveLength(1));
+    expect(sent[0]!.body).toMatchObject({ name: 'Air handler 36', mountPosition: null });
+
+    fireEvent.press(await screen.findByTestId('model-add'));
+    fireEvent.changeText(screen.getByTestId('model-name-input'), 'Air handler 48');
+    fireEvent.press(screen.getByTestId('model-mount-input'));
+    fireEvent.press(screen.getByText('Floor-standing (release height 0.6 m)'));
+    fireEvent.press(screen.getByTestId('model-submit'));
+    await waitFor(() => expect(sent).toHaveLength(2));
+    expect(sent[1]!.body).toMatchObject({ name: 'Air handler 48', mountPosition: 'floor' });
+  });
+});
+
 describe('a defect type’s measured rule', () => {
   it('puts the rule’s messages under its fields, then sends the rule with its limits', async () => {
     const sent = fakeApi([{ status: 201, body: {} }]);

@@ -3,10 +3,12 @@
  */
 import { z } from 'zod';
 import type { ModelLimitKey } from '../../catalogue/types';
+import type { MountPosition } from '../../calc/refrigerant';
 import { UNIT_KIND_KEYS, type UnitKindKey } from '../../words';
 import { quantityText } from './common';
 import { text, optionalText, pageQuery } from './fields';
 import { type StatedLimitDto, modelLimitsInputSchema } from './limits';
+import { mountPositionSchema } from './units';
 
 const modelFields = {
   name: text('a model name', 120),
@@ -16,6 +18,8 @@ const modelFields = {
   nominalCapacity: quantityText('capacity', 'Nominal capacity').nullable().optional(),
   /** Per-model limits from the installation manual, by MODEL_LIMITS key. */
   limits: modelLimitsInputSchema.optional(),
+  /** Installation position from the manual (floor, wall, ceiling); null: not recorded. */
+  mountPosition: mountPositionSchema.nullable().optional(),
 };
 export const createModelSchema = z.object(modelFields).strict();
 export type CreateModelInput = z.input<typeof createModelSchema>;
@@ -36,6 +40,7 @@ export interface UnitModelDto {
   /** W */
   nominalCapacity: number | null;
   limits: Partial<Record<ModelLimitKey, StatedLimitDto>>;
+  mountPosition: MountPosition | null;
   unitCount: number;
   version: number;
 }

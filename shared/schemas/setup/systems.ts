@@ -2,7 +2,7 @@
  * Systems (refrigerant circuits) and their refrigerant checks.
  */
 import { z } from 'zod';
-import type { A2lAreaResult, ConcentrationResult, MountPosition } from '../../calc/refrigerant';
+import type { A2lAreaResult, ConcentrationResult, MountPosition, MountSource } from '../../calc/refrigerant';
 import { REFRIGERANTS, type Refrigerant } from '../../words';
 import { quantityText } from './common';
 import { text, optionalText, pageQuery } from './fields';
@@ -62,7 +62,9 @@ export interface SystemDetail extends SystemDto {
     tag: string;
     spaceId: string | null;
     spaceName: string | null;
-    mount: MountPosition;
+    /** The position that applies (unit, else model, else kind); null when not recorded for a kind that can be either way up. */
+    mount: MountPosition | null;
+    mountFrom: MountSource | null;
     result: A2lAreaResult;
   }>;
 }

@@ -2,12 +2,16 @@
  * Units, and their CSV import.
  */
 import { z } from 'zod';
+import { MOUNT_POSITIONS, type MountPosition, type MountSource } from '../../calc/refrigerant';
 import { UNIT_KIND_KEYS, type UnitKindKey } from '../../words';
 import { IMPORT_MAX_BYTES, quantityText } from './common';
 import { id, text, pageQuery, booleanQuery, planFraction } from './fields';
 
 export const TAG_PATTERN = /^[A-Za-z0-9][A-Za-z0-9 ._/#-]*$/;
 const tagSchema = text('a tag', 40).regex(TAG_PATTERN, 'A tag uses letters, digits, spaces and . _ / # - (e.g. IU-L3-07).');
+
+/** floor, wall or ceiling (sets the A2L release height: IEC 60335-2-40 Annex GG). */
+export const mountPositionSchema = z.enum(MOUNT_POSITIONS, { error: 'Choose floor, wall or ceiling.' });
 
 const unitFields = {
   tag: tagSchema,
@@ -18,6 +22,8 @@ const unitFields = {
   levelId: id('level'),
   spaceId: id('space').nullable().optional(),
   systemId: id('system').nullable().optional(),
+  /** The unit's own mounting position; null or left out: its model's (or its kind's) decides. */
+  mountPosition: mountPositionSchema.nullable().optional(),
 };
 export const createUnitSchema = z.object(unitFields).strict();
 export type CreateUnitInput = z.input<typeof createUnitSchema>;
@@ -65,6 +71,10 @@ export interface UnitDto {
   spaceName: string | null;
   systemId: string | null;
   systemName: string | null;
+  /** The unit's own mounting position (null: not recorded on the unit). */
+  mountPosition: MountPosition | null;
+  /** The position that applies (unit, else model, else kind) and where it came from; null when none. */
+  effectiveMount: { mount: MountPosition; from: MountSource } | null;
   /** Pin on the level's plan (fractions 0..1 of its width / height); both null when not placed. */
   pinX: number | null;
   pinY: number | null;
@@ -72,7 +82,7 @@ export interface UnitDto {
 }
 
 /** Fields a CSV column can map to. Level, space, system and model are matched by name. */
-export const UNIT_IMPORT_FIELDS = ['tag', 'kind', 'model', 'capacity', 'level', 'space', 'system'] as const;
+export const UNIT_IMPORT_FIELDS = ['tag', 'kind', 'model', 'capacity', 'level', 'space', 'system', 'mount'] as const;
 export type UnitImportField = (typeof UNIT_IMPORT_FIELDS)[number];
 /** Columns every import needs (mapped or found by header name). */
 export const UNIT_IMPORT_REQUIRED: readonly UnitImportField[] = ['tag', 'kind', 'level'];
@@ -111,6 +121,7 @@ export interface UnitImportPreviewRow {
   levelName: string;
   spaceName: string | null;
   systemName: string | null;
+  mountPosition: MountPosition | null;
 }
 
 /**

@@ -107,14 +107,61 @@ describe('systems', () => {
     await buildUnit(job.id, level.id, { tag: 'C', spaceId: room.id, systemId: system.id, kind: 'ducted_low' });
     await buildUnit(job.id, level.id, { tag: 'D', systemId: system.id, kind: 'floor_ceiling' });
     const res = await crew.insp.get(jobPath(job.id, `/systems/${system.id}`));
-    const rows = res.body.a2lFloorArea as Array<{ tag: string; mount: string; result: { status: string; minArea: number } }>;
-    expect(rows.map((r) => [r.tag, r.mount, r.result.status])).toEqual([
-      ['A', 'wall', 'pass'],
-      ['B', 'floor', 'fail'],
-      ['C', 'ceiling', 'pass'],
-      ['D', 'floor', 'not_measured'],
+    const rows = res.body.a2lFloorArea as Array<{ tag: string; mount: string | null; mountFrom: string | null; result: { status: string; minArea: number; message: string } }>;
+    // 3.5 kg R-32 is between m1 (1.84 kg) and m2 (7.98 kg): A_min applies, by release height.
+    // A ducted unit or a floor/ceiling unit with no position recorded is not guessed as ceiling-mounted.
+    expect(rows.map((r) => [r.tag, r.mount, r.mountFrom, r.result.status])).toEqual([
+      ['A', 'wall', 'kind', 'pass'],
+      ['B', 'floor', 'kind', 'fail'],
+      ['C', null, null, 'not_measured'],
+      ['D', null, null, 'not_measured'],
     ]);
     expect(rows[0]!.result.minArea).toBeCloseTo(a2lMinFloorArea(3.5, 'wall'), 12);
+    expect(rows[2]!.result.message).toMatch(/record whether the unit is floor-standing, wall-mounted or ceiling-mounted/);
+  });
+
+  it("takes the release height from the unit's mounting position, else its model's installation position (IEC 60335-2-40 Annex GG)", async () => {
+    const job = await newJobFor(crew);
+    const level = await buildLevel(job.id);
+    // 30 m²: 3.5 kg needs 104 m² floor-standing (h0 0.6 m) and 7.8 m² ceiling-mounted (h0 2.2 m).
+    const room = await buildSpace(job.id, level.id, { name: 'Closet and flat', floorArea: 30, ceilingHeight: 2700 });
+    const system = await buildSystem(job.id, { refrigerant: 'R-32', factoryCharge: 3, fieldCharge: 0.5 });
+    const kit = await crew.gc.post(jobPath(job.id, '/models'), { name: 'Kit 36', unitKind: 'ahu_coil_kit', mountPosition: 'floor' });
+    expect(kit.status).toBe(201);
+    expect(kit.body.mountPosition).toBe('floor');
+    const ducted = await crew.gc.post(jobPath(job.id, '/models'), { name: 'Ducted 24', unitKind: 'ducted_low', mountPosition: 'ceiling' });
+    const post = (body: object) => crew.gc.post(jobPath(job.id, '/units'), { levelId: level.id, spaceId: room.id, systemId: system.id, ...body });
+    expect((await post({ tag: 'AHU-1', kind: 'ahu_coil_kit', modelId: kit.body.id })).status).toBe(201);
+    expect((await post({ tag: 'DU-1', kind: 'ducted_low', modelId: ducted.body.id })).status).toBe(201);
+    const closet = await post({ tag: 'DU-2', kind: 'ducted_low', modelId: ducted.body.id, mountPosition: 'floor' });
+    expect(closet.status).toBe(201);
+    expect(closet.body).toMatchObject({ mountPosition: 'floor', effectiveMount: { mount: 'floor', from: 'unit' } });
+
+    const res = await crew.insp.get(jobPath(job.id, `/systems/${system.id}`));
+    const rows = res.body.a2lFloorArea as Array<{ tag: string; mount: string; mountFrom: string; result: { status: string; minArea: number } }>;
+    expect(rows.map((r) => [r.tag, r.mount, r.mountFrom, r.result.status])).toEqual([
+      ['AHU-1', 'floor', 'model', 'fail'],
+      ['DU-1', 'ceiling', 'model', 'pass'],
+      ['DU-2', 'floor', 'unit', 'fail'],
+    ]);
+    expect(rows[0]!.result.minArea).toBeCloseTo(a2lMinFloorArea(3.5, 0.6), 12);
+
+    // The unit's own field cleared: its model's position applies again.
+    const unit = await crew.gc.get(jobPath(job.id, `/units/${closet.body.id}`));
+    const cleared = await crew.gc.patch(jobPath(job.id, `/units/${closet.body.id}`), { mountPosition: null }, ifMatch(unit.body.version));
+    expect(cleared.status).toBe(200);
+    expect(cleared.body).toMatchObject({ mountPosition: null, effectiveMount: { mount: 'ceiling', from: 'model' } });
+  });
+
+  it('refuses a mounting position other than floor, wall or ceiling (400 naming the field)', async () => {
+    const job = await newJobFor(crew);
+    const level = await buildLevel(job.id);
+    const unit = await crew.gc.post(jobPath(job.id, '/units'), { tag: 'X-1', kind: 'ducted_low', levelId: level.id, mountPosition: 'roof' });
+    expect(unit.status).toBe(400);
+    expect(unit.body.error.fields).toMatchObject({ mountPosition: 'Choose floor, wall or ceiling.' });
+    const model = await crew.gc.post(jobPath(job.id, '/models'), { name: 'M', unitKind: 'ducted_low', mountPosition: 'suspended' });
+    expect(model.status).toBe(400);
+    expect(model.body.error.fields).toMatchObject({ mountPosition: 'Choose floor, wall or ceiling.' });
   });
 
   it('asks for an entered limit for R-454B, and uses it once entered with its source', async () => {

@@ -270,6 +270,26 @@ describe('units: CSV import', () => {
     expect(commit.status).toBe(201);
   });
 
+  it('reads a mounting position column (floor, wall, ceiling, "Floor-standing" ...) and reports any other value with its line', async () => {
+    const s = await setUpJob();
+    const bad = `Tag,Kind,Level,Mounting position\nAHU-1,ahu_coil_kit,Level 1,Floor-standing\nAHU-2,ahu_coil_kit,Level 1,roof\n`;
+    const refused = await crew.gc.post(jobPath(s.job.id, '/units/import'), { csv: bad });
+    expect(refused.status).toBe(200);
+    expect(refused.body.committed).toBe(false);
+    expect(refused.body.errors).toEqual([{ line: 3, field: 'mount', reason: 'Mounting position "roof" is not floor, wall or ceiling.' }]);
+    const good = `Tag,Kind,Level,Mounting position\nAHU-1,ahu_coil_kit,Level 1,Floor-standing\nDU-1,ducted_low,Level 1,ceiling\nDU-2,ducted_low,Level 1,\n`;
+    const res = await crew.gc.post(jobPath(s.job.id, '/units/import'), { csv: good });
+    expect(res.status).toBe(201);
+    expect(res.body.mapping).toMatchObject({ 'Mounting position': 'mount' });
+    expect(res.body.preview.map((r: { tag: string; mountPosition: string | null }) => [r.tag, r.mountPosition])).toEqual([
+      ['AHU-1', 'floor'],
+      ['DU-1', 'ceiling'],
+      ['DU-2', null],
+    ]);
+    const list = await crew.gc.get(jobPath(s.job.id, '/units?q=AHU-1'));
+    expect(list.body.items[0]).toMatchObject({ tag: 'AHU-1', mountPosition: 'floor', effectiveMount: { mount: 'floor', from: 'unit' } });
+  });
+
   it('refuses a file that is not UTF-8 with a clear 400', async () => {
     const s = await setUpJob();
     const latin1 = Buffer.from('Tag,Kind,Level\nIU-1,cassette_4way,Caf\xe9\n', 'latin1');

@@ -12,6 +12,8 @@
 import {
   a2lMinFloorArea,
   checkA2lFloorArea,
+  mountPositionOf,
+  parseMountPosition,
   checkRefrigerantConcentration,
   CONCENTRATION_LIMITS,
   groupConnectedSpaces,
@@ -282,5 +284,31 @@ describe('A2L charge bands (IEC 60335-2-40:2018 Annex GG.1, m1 and m2 from memor
     expect(floor).toMatchObject({ status: 'fail', releaseHeight: 0.6 });
     expect(floor.minArea).toBeCloseTo(76.6, 1);
     expect(ceiling).toMatchObject({ status: 'pass', releaseHeight: 2.2 });
+  });
+});
+
+describe('mounting position for the release height (unit, else model, else what the kind can only be)', () => {
+  it.each([
+    // [kind, unit field, model field, mount, from]
+    ['ducted_low', null, null, null, null], // a ducted unit may hang or stand: not guessed
+    ['ahu_coil_kit', null, 'floor', 'floor', 'model'], // an air handler standing in a closet
+    ['ahu_coil_kit', 'ceiling', 'floor', 'ceiling', 'unit'], // the unit's own field wins
+    ['floor_ceiling', null, null, null, null],
+    ['wall_mounted', null, null, 'wall', 'kind'],
+    ['cassette_compact', null, null, 'ceiling', 'kind'],
+    ['floor_console', null, null, 'floor', 'kind'],
+  ] as const)('%s, unit %p, model %p → %p (%p)', (kind, unit, model, mount, from) => {
+    expect(mountPositionOf({ kind, unit, model })).toEqual({ mount, from });
+  });
+
+  it.each([
+    ['floor', 'floor'],
+    ['Floor-standing', 'floor'],
+    [' wall mounted ', 'wall'],
+    ['CEILING_MOUNTED', 'ceiling'],
+    ['roof', null],
+    ['', null],
+  ] as const)('reads %p as %p', (text, mount) => {
+    expect(parseMountPosition(text)).toBe(mount);
   });
 });
