@@ -455,7 +455,7 @@ const ITEMS: CatalogueItem[] = [
       measure: 'Longest span between drain pipe supports',
       quantity: 'length',
       comparison: 'at_most',
-      limit: { from: 'job', key: 'max_hanger_rod_spacing' },
+      limit: { from: 'job', key: 'max_drain_support_spacing' },
     },
     fixGuidance:
       'Add hangers so no span is longer than the job spacing, with the drain on its own supports and its fall kept.',

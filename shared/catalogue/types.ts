@@ -52,7 +52,7 @@ export type ModelLimitKey = (typeof MODEL_LIMITS)[number]['key'];
 /** Job settings a measured rule may read its limit from. */
 export const JOB_SETTINGS = [
   { key: 'min_drain_slope', label: 'Minimum condensate drain slope (job setting)', quantity: 'slope' },
-  { key: 'max_hanger_rod_spacing', label: 'Maximum hanger rod spacing (job setting)', quantity: 'length' },
+  { key: 'max_drain_support_spacing', label: 'Maximum span between condensate drain supports (job setting)', quantity: 'length' },
 ] as const;
 export type JobSettingKey = (typeof JOB_SETTINGS)[number]['key'];
 

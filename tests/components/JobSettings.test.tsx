@@ -175,22 +175,22 @@ describe('JobSettingsScreen (GC manager)', () => {
   it('sends a job limit with its source, refuses one without, and removes one emptied', async () => {
     const slope = { value: 1 / 96, stated: 0.125, unit: 'in/ft', text: '1/8 in/ft', source: 'Job spec 23 05 00' };
     const saved = job({ settings: { min_drain_slope: slope }, version: 4 });
-    const api = fakeApi([job({ settings: { max_hanger_rod_spacing: { value: 1219.2, stated: 4, unit: 'ft', text: "4'", source: 'Spec' } } }), saved], [{ status: 200, body: saved }]);
+    const api = fakeApi([job({ settings: { max_drain_support_spacing: { value: 1219.2, stated: 4, unit: 'ft', text: "4'", source: 'Spec' } } }), saved], [{ status: 200, body: saved }]);
     renderScreen();
     await screen.findByTestId('settings-form');
-    expect(value('settings-limit-max_hanger_rod_spacing-value')).toBe("4'");
+    expect(value('settings-limit-max_drain_support_spacing-value')).toBe("4'");
     fireEvent.changeText(screen.getByTestId('settings-limit-min_drain_slope-value'), '1/8 in/ft');
     fireEvent.press(screen.getByTestId('settings-submit'));
     // statedLimitInput's message (shared/schemas/setup.ts).
     expect(await screen.findByText('Enter where the value came from (e.g. installation manual, page).')).toBeTruthy();
     expect(api.patches()).toHaveLength(0);
     fireEvent.changeText(screen.getByTestId('settings-limit-min_drain_slope-source'), 'Job spec 23 05 00');
-    fireEvent.changeText(screen.getByTestId('settings-limit-max_hanger_rod_spacing-value'), '');
-    fireEvent.changeText(screen.getByTestId('settings-limit-max_hanger_rod_spacing-source'), '');
+    fireEvent.changeText(screen.getByTestId('settings-limit-max_drain_support_spacing-value'), '');
+    fireEvent.changeText(screen.getByTestId('settings-limit-max_drain_support_spacing-source'), '');
     fireEvent.press(screen.getByTestId('settings-submit'));
     await screen.findByTestId('settings-saved');
     expect(api.patches()[0]!.body).toEqual({
-      settings: { min_drain_slope: { value: '1/8 in/ft', source: 'Job spec 23 05 00' }, max_hanger_rod_spacing: null },
+      settings: { min_drain_slope: { value: '1/8 in/ft', source: 'Job spec 23 05 00' }, max_drain_support_spacing: null },
     });
   });
 

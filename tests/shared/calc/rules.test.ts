@@ -193,7 +193,7 @@ describe('between, equal_within, yes_no', () => {
     expect(evaluateRule(between, 150, fixed(200, 100)).status).toBe('invalid');
   });
 
-  const within: MeasuredRule = { measure: 'Hanger drop', quantity: 'length', comparison: 'equal_within', limit: { from: 'job', key: 'max_hanger_rod_spacing' }, tolerance: 0.1 };
+  const within: MeasuredRule = { measure: 'Drain support span', quantity: 'length', comparison: 'equal_within', limit: { from: 'job', key: 'max_drain_support_spacing' }, tolerance: 0.1 };
   const target: LimitResolver = () => ({ value: 1, quantity: 'length', source: 'T' });
   it.each([
     [1.1, 'pass'], // |1.1 − 1| = 0.10000000000000009 in binary; the 1e-9 resolution treats it as 0.1

@@ -20,7 +20,7 @@ describe('listLimit', () => {
 
 describe('unitLimitResolver', () => {
   const model = { name: 'Cassette 24k', limits: { max_pump_lift: inches(20, 'Cassette manual p. 12') } };
-  const job = { settings: { max_hanger_rod_spacing: inches(48, 'Job specification') }, codeEditions: { ...DEFAULT_EDITIONS } };
+  const job = { settings: { max_drain_support_spacing: inches(48, 'Job specification') }, codeEditions: { ...DEFAULT_EDITIONS } };
 
   it("takes the model's limit in base units, named by its source", () => {
     const found = unitLimitResolver({ model, job })({ from: 'model', key: 'max_pump_lift' });
@@ -28,7 +28,7 @@ describe('unitLimitResolver', () => {
   });
 
   it("takes the job's setting", () => {
-    const found = unitLimitResolver({ model: null, job })({ from: 'job', key: 'max_hanger_rod_spacing' });
+    const found = unitLimitResolver({ model: null, job })({ from: 'job', key: 'max_drain_support_spacing' });
     expect(found).toMatchObject({ value: 48 * 25.4, quantity: 'length' });
   });
 
@@ -40,7 +40,7 @@ describe('unitLimitResolver', () => {
   it("resolves exactly as the phone's resolver does", () => {
     const refs = [
       { from: 'model', key: 'max_pump_lift' },
-      { from: 'job', key: 'max_hanger_rod_spacing' },
+      { from: 'job', key: 'max_drain_support_spacing' },
       { from: 'model', key: 'min_clearance_top' },
     ] as const;
     const shared = unitLimitResolver({ model, job });
