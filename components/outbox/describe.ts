@@ -121,6 +121,17 @@ export function describeWrite(write: Write, label?: string): WriteMeta {
       readPath: `${job}/units/${enc(id)}/checks`,
     };
   }
-  if (resource === 'walks') return { jobId, kind: 'walk', label: label ? `${KIND_WORDS.walk} · ${label}` : KIND_WORDS.walk, record: write.path, readPath: null };
+  if (resource === 'walks') {
+    // A walk's start and its end are writes on one record: the end waits behind the start.
+    const walkId = id ?? (typeof bodyJson(write)?.id === 'string' ? (bodyJson(write)!.id as string) : null);
+    const words = sub === 'finish' ? 'End of a walk' : id ? KIND_WORDS.walk : 'Start of a walk';
+    return {
+      jobId,
+      kind: 'walk',
+      label: label ? `${words} · ${label}` : words,
+      record: walkId ? `walk:${walkId}` : write.path,
+      readPath: walkId ? `${job}/walks/${enc(walkId)}` : null,
+    };
+  }
   return { jobId, kind: 'other', label: label ?? KIND_WORDS.other, record: write.path, readPath: null };
 }

@@ -3,7 +3,7 @@
  * check saved with no signal still belongs to it (every check belongs to a walk). Kept in the
  * draft store under the person's own key.
  */
-import { readEntry, storeKey, writeEntry } from '../drafts/store';
+import { readEntry, removeEntry, storeKey, writeEntry } from '../drafts/store';
 
 const key = (userId: string, jobId: string, levelId: string) => storeKey('outbox', userId, jobId, 'walk', levelId);
 const isId = (d: unknown): d is string => typeof d === 'string' && d.length > 0;
@@ -14,4 +14,9 @@ export function rememberOpenWalk(userId: string, jobId: string, levelId: string,
 
 export function rememberedOpenWalk(userId: string, jobId: string, levelId: string): string | null {
   return readEntry(key(userId, jobId, levelId), isId)?.data ?? null;
+}
+
+/** The walk ended (or is ending, waiting to send): the next check on the level starts another. */
+export function forgetOpenWalk(userId: string, jobId: string, levelId: string): void {
+  removeEntry(key(userId, jobId, levelId));
 }

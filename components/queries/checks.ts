@@ -1,11 +1,14 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type { RecordCheckInput, UnitCheckDto, UnitChecksResponse, WalkDetail, WalkDto } from '../../shared/schemas/findings';
-import type { ListResponse, UnitDto, UnitModelDto } from '../../shared/schemas/setup';
+import type { SessionResponse } from '../../shared/schemas/session';
+import type { LevelDto, ListResponse, UnitDto, UnitModelDto } from '../../shared/schemas/setup';
 import { ApiError, apiGet } from '../api/client';
 import { jobPath, queryString } from '../api/lists';
-import { newWrite, sendWrite, type Write } from '../api/mutations';
+import { newClientId, newWrite, sendWrite, type Write } from '../api/mutations';
 import { labelWrite, submitWrite } from '../outbox';
 import { rememberedOpenWalk, rememberOpenWalk } from '../outbox/walks';
+import { levelKeys } from './levels';
+import { sessionKeys } from './session';
 import { setupKeys } from './setupKeys';
 import { announceWalkStarted, refreshWalkData, walkKeys } from './walks';
 
@@ -53,16 +56,38 @@ export function recordCheckWrite(jobId: string, unitId: string, input: RecordChe
  * The inspector's open walk on the level, started if there is none: every unit check belongs to
  * a walk (one inspector's pass over a level) without an extra tap.
  */
-export async function ensureWalk(jobId: string, levelId: string, inspectorId: string): Promise<string> {
+export async function ensureWalk(jobId: string, levelId: string, inspectorId: string, client?: QueryClient): Promise<string> {
   try {
     const id = await openOrStartWalk(jobId, levelId, inspectorId);
     rememberOpenWalk(inspectorId, jobId, levelId, id);
     return id;
   } catch (err) {
+    if (!(err instanceof ApiError && err.status === 0)) throw err;
     // No signal: the walk this phone last knew open on the level (the check waits to send with it).
-    const kept = err instanceof ApiError && err.status === 0 ? rememberedOpenWalk(inspectorId, jobId, levelId) : null;
+    const kept = rememberedOpenWalk(inspectorId, jobId, levelId);
     if (kept) return kept;
-    throw err;
+    // None known: the walk starts on the phone, named by an id made here, and waits to send ahead
+    // of the checks that name it (the outbox sends in the order of saving).
+    const id = newClientId();
+    const level = client?.getQueryData<LevelDto[]>(levelKeys.list(jobId))?.find((l) => l.id === levelId);
+    const write = newWrite({ method: 'POST', path: jobPath(jobId, 'walks'), body: { levelId, id } });
+    await submitWrite(level ? labelWrite(write, level.name) : write);
+    rememberOpenWalk(inspectorId, jobId, levelId, id);
+    // The walk screen shows it open (with "Finish walk") until the server's own answer replaces it.
+    if (client) {
+      const me = client.getQueryData<SessionResponse>(sessionKeys.all)?.user;
+      const walk: WalkDto = {
+        id,
+        levelId,
+        levelName: level?.name ?? '',
+        inspector: { id: inspectorId, name: me?.name ?? '' },
+        startedAt: new Date().toISOString(),
+        finishedAt: null,
+        checkCount: 0,
+      };
+      client.setQueryData(walkKeys.open(jobId, levelId, inspectorId), walk);
+    }
+    return id;
   }
 }
 

@@ -4,7 +4,8 @@ import type { ListResponse } from '../../shared/schemas/setup';
 import { apiGet } from '../api/client';
 import { jobPath, queryString } from '../api/lists';
 import { newWrite, sendWrite } from '../api/mutations';
-import { rememberOpenWalk } from '../outbox/walks';
+import { submitWrite } from '../outbox';
+import { forgetOpenWalk, rememberOpenWalk } from '../outbox/walks';
 
 /** The level's units as filtered on the walk screen (no paging fields). */
 export type WalkUnitFilters = Omit<WalkUnitsQuery, 'limit' | 'cursor'>;
@@ -90,10 +91,20 @@ export function useStartWalkMutation(jobId: string) {
   });
 }
 
+/**
+ * Ends a walk through the outbox: with no signal the end waits on the phone, and the walk is over
+ * here at once (the next check on the level starts another walk, sent after this end).
+ */
 export function useFinishWalkMutation(jobId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (walkId: string) => sendWrite<WalkDetail>(newWrite({ method: 'POST', path: jobPath(jobId, 'walks', walkId, 'finish'), body: {} })),
+    networkMode: 'always',
+    mutationFn: (walk: Pick<WalkDto, 'id' | 'levelId' | 'levelName'> & { inspectorId: string }) =>
+      submitWrite<WalkDetail>(newWrite({ method: 'POST', path: jobPath(jobId, 'walks', walk.id, 'finish'), body: {} }), walk.levelName || undefined),
+    onSuccess: (_answer, walk) => {
+      forgetOpenWalk(walk.inspectorId, jobId, walk.levelId);
+      queryClient.setQueryData(walkKeys.open(jobId, walk.levelId, walk.inspectorId), null);
+    },
     onSettled: () => refreshWalkData(queryClient, jobId),
   });
 }

@@ -2,6 +2,7 @@ import { Link } from 'expo-router';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { WalkDetail, WalkDto } from '../../shared/schemas/findings';
+import { ApiError } from '../api/client';
 import type { JobDetail } from '../../shared/schemas/setup';
 import { SEVERITIES, SEVERITY_LABELS } from '../../shared/words';
 import { links } from '../links';
@@ -39,12 +40,18 @@ function WalkSummaryCard({ job, walk, onKeepWalking }: { job: JobDetail; walk: W
   const finish = useFinishWalkMutation(job.id);
   const d = detail.data;
   const found = d ? findingsBySeverityText(d.summary.findingsBySeverity) : null;
+  // No signal: the query waits paused (or failed on the network), and a summary read earlier is not shown as now.
+  const offline = !d && (detail.fetchStatus === 'paused' || (detail.error instanceof ApiError && detail.error.status === 0));
   return (
     <Card testID="walk-summary">
       <AppText variant="heading" role="heading">
         {`Finish your walk on ${walk.levelName}?`}
       </AppText>
-      {detail.isPending ? (
+      {offline ? (
+        <Notice tone="info" testID="walk-summary-offline">
+          No signal: the walk's summary cannot be read now. Ending the walk is kept on this phone and sent with the rest of your work.
+        </Notice>
+      ) : detail.isPending ? (
         <LoadingState label="Reading the walk…" testID="walk-summary-loading" />
       ) : detail.isError || !d ? (
         <ErrorState message={detail.error?.message ?? 'That did not load.'} onRetry={() => void detail.refetch()} testID="walk-summary-error" />
@@ -86,7 +93,7 @@ function WalkSummaryCard({ job, walk, onKeepWalking }: { job: JobDetail; walk: W
         </Notice>
       ) : null}
       <View style={styles.actions}>
-        <Button label="End the walk" testID="walk-summary-end" busy={finish.isPending} onPress={() => finish.mutate(walk.id)} style={styles.action} />
+        <Button label="End the walk" testID="walk-summary-end" busy={finish.isPending} onPress={() => finish.mutate({ id: walk.id, levelId: walk.levelId, levelName: walk.levelName, inspectorId: walk.inspector.id })} style={styles.action} />
         <Button label="Keep walking" tone="secondary" testID="walk-summary-keep" disabled={finish.isPending} onPress={onKeepWalking} style={styles.action} />
       </View>
     </Card>

@@ -1,6 +1,7 @@
 import { OTHER_DEFECT_CODE } from '../../shared/rules/somethingElse';
 import { SOMETHING_ELSE, unitKindLabel } from '../../shared/words';
 import { links } from '../links';
+import { useQueryClient } from '@tanstack/react-query';
 import { useRouter } from 'expo-router';
 import { UnitWaiting, useSavedCheckWords } from '../outbox/Waiting';
 import { PlanPinLink } from '../plans/PlanPinLink';
@@ -158,6 +159,7 @@ function UnitCheckBody({
   const savedWords = useSavedCheckWords(job.id, saved);
   const order = useWalkOrderQuery(job.id, unit.levelId);
   const record = useRecordCheckMutation(job.id);
+  const queryClient = useQueryClient();
   const canCheck = job.role === 'inspector' || job.role === 'gc_manager';
   const items = useMemo(() => catalogue.filter((i) => i.unitKinds.includes(unit.kind) && !i.retiredAt), [catalogue, unit.kind]);
   const resolve = useMemo(() => limitResolverFor(model, job), [model, job]);
@@ -266,7 +268,7 @@ function UnitCheckBody({
     setError(null);
     setOpening(item?.id ?? 'other');
     let walkId: string | null = openWalk.data?.id ?? null;
-    if (!walkId && canCheck) walkId = await ensureWalk(job.id, unit.levelId, userId).catch(() => null);
+    if (!walkId && canCheck) walkId = await ensureWalk(job.id, unit.levelId, userId, queryClient).catch(() => null);
     setOpening(null);
     setMode({ kind: 'finding', item, walkId });
     scrollRef.current?.scrollTo({ y: 0, animated: false });
@@ -352,7 +354,7 @@ function UnitCheckBody({
       return { catalogueItemId: i.id, mark: marks[i.id]!, measuredText: i.measuredRule && t ? t : undefined };
     });
     try {
-      const walkId = await ensureWalk(job.id, unit.levelId, userId);
+      const walkId = await ensureWalk(job.id, unit.levelId, userId, queryClient);
       await record.mutateAsync(recordCheckWrite(job.id, unit.id, { walkId, complete: marked.length === items.length, items: sent }, unit.tag));
       done.current = true;
       clearCheckDraft(draftKey);

@@ -1,6 +1,6 @@
 /**
  * Walks: one inspector's pass over a level, and the level's units with their state.
- * POST /jobs/:jobId/walks                        inspector, GC manager (Idempotency-Key) → 201 WalkDetail
+ * POST /jobs/:jobId/walks                        inspector, GC manager (Idempotency-Key; optional id made on the phone) → 201 WalkDetail
  * GET  /jobs/:jobId/walks                        inspector, GC manager; filters levelId, inspectorId, open
  * GET  /jobs/:jobId/walks/:walkId                inspector, GC manager → WalkDetail (with coverage)
  * POST /jobs/:jobId/walks/:walkId/finish         the walk's inspector or a GC manager → WalkDetail
@@ -29,7 +29,7 @@ export function walksRouter(): Router {
     const body = valid<z.infer<typeof createWalkSchema>>(req.valid.body);
     const { job, role } = req.membership!;
     await idempotentWrite(req, res, async (transaction) => {
-      const detail = await startWalk({ sequelize: sequelizeOf(req), transaction, jobId: job.id, actor: { id: req.user!.id, role } }, body.levelId);
+      const detail = await startWalk({ sequelize: sequelizeOf(req), transaction, jobId: job.id, actor: { id: req.user!.id, role } }, body.levelId, body.id);
       return { status: 201, body: detail };
     });
   });

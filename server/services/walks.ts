@@ -104,10 +104,23 @@ export interface WalkWrite {
 }
 
 /** The actor starts a walk on a level of the job (400 when the level is not on it). */
-export async function startWalk({ sequelize, transaction, jobId, actor, clock }: WalkWrite, levelId: string): Promise<WalkDetail> {
+export async function startWalk({ sequelize, transaction, jobId, actor, clock }: WalkWrite, levelId: string, walkId?: string): Promise<WalkDetail> {
+  if (walkId) {
+    // A walk started on the phone with no signal names itself: sent again, it is that walk.
+    const found = await Walk.findByPk(walkId, { attributes: ['id', 'jobId', 'levelId', 'inspectorId'], transaction });
+    if (found) {
+      if (found.jobId !== jobId || found.inspectorId !== actor.id || found.levelId !== levelId) {
+        throw conflict('This walk id is already used. Start the walk again to give it a new id.', 'walk_id_taken');
+      }
+      return (await walkDetail(sequelize, jobId, found.id, transaction))!;
+    }
+  }
   const level = await Level.findOne({ where: { id: levelId, jobId }, transaction });
   if (!level) throw badRequest('levelId: That level is not on this job.', { levelId: 'That level is not on this job.' });
-  const walk = await Walk.create({ jobId, levelId: level.id, inspectorId: actor.id, startedAt: (clock ?? (() => new Date()))() }, { transaction });
+  const walk = await Walk.create(
+    { ...(walkId ? { id: walkId } : {}), jobId, levelId: level.id, inspectorId: actor.id, startedAt: (clock ?? (() => new Date()))() },
+    { transaction },
+  );
   return (await walkDetail(sequelize, jobId, walk.id, transaction))!;
 }
 

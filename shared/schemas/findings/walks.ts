@@ -6,8 +6,13 @@ import type { Severity } from '../../words';
 import type { PersonRef } from './common';
 import { id, pageQuery, booleanQuery } from './fields';
 
-/** POST /walks (inspector, GC manager) → 201 WalkDetail. Idempotency-Key honoured. */
-export const createWalkSchema = z.object({ levelId: id('level') }).strict();
+/**
+ * POST /walks (inspector, GC manager) → 201 WalkDetail. Idempotency-Key honoured.
+ * `id`: optional, made on the phone (UUID) when a walk starts with no signal, so the unit checks
+ * queued after it can name it; the same id from the same person on the same level is that walk
+ * again, an id naming anything else is refused (409).
+ */
+export const createWalkSchema = z.object({ levelId: id('level'), id: id('walk id').optional() }).strict();
 export type CreateWalkInput = z.input<typeof createWalkSchema>;
 
 /** POST /walks/:walkId/finish (the walk's inspector or a GC manager), no body → 200 WalkDetail. */
