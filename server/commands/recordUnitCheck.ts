@@ -5,14 +5,20 @@
  * An item with an unresolved finding on this unit cannot be saved as OK (409
  * `open_finding_on_item`, naming the finding): the finding says otherwise until it is closed or
  * voided. One transaction; returns the check as the screen shows it.
+ *
+ * Completeness is the server's: the check is complete when every item of the job's catalogue that
+ * applies to the unit's kind (job-added items too; retired items and the "Something else" type
+ * never) has a mark in it. The phone's `complete` is kept as sent and otherwise ignored, in both
+ * directions; the answer lists the applicable items left without a mark (`missing`). A partial
+ * check is still saved (201): the marks are the inspector's work and may arrive from the outbox.
  */
 import type { Sequelize, Transaction } from 'sequelize';
 import { unitLimitResolver } from '../../shared/rules/limits';
-import type { RecordCheckInput, UnitCheckDto } from '../../shared/schemas/findings';
+import type { RecordCheckInput, RecordedCheckDto } from '../../shared/schemas/findings';
 import { unitKindLabel, type CheckMark } from '../../shared/words';
 import { badRequest, conflict, notFound } from '../errors';
 import { CatalogueItem, Unit, UnitCheck, UnitCheckItem, UnitModel, type Job } from '../models';
-import { checkDto, proposalsFor, unresolvedFindingsOn } from '../services/checks';
+import { applicableItems, checkDto, proposalsFor, unresolvedFindingsOn } from '../services/checks';
 import { measure } from '../services/findings';
 import { usableWalk } from '../services/walks';
 
@@ -27,7 +33,7 @@ export interface RecordUnitCheckContext {
 
 const STATUS_WORDS = { open: 'open', fix_submitted: 'waiting for re-inspection (fix submitted)' } as Record<string, string>;
 
-export async function recordUnitCheck(ctx: RecordUnitCheckContext, unitId: string, input: RecordCheckInput): Promise<UnitCheckDto> {
+export async function recordUnitCheck(ctx: RecordUnitCheckContext, unitId: string, input: RecordCheckInput): Promise<RecordedCheckDto> {
   const { sequelize, transaction, job, actor } = ctx;
   const unit = await Unit.findOne({ where: { id: unitId, jobId: job.id }, transaction });
   if (!unit) throw notFound('Unit not found.');
@@ -87,13 +93,26 @@ export async function recordUnitCheck(ctx: RecordUnitCheckContext, unitId: strin
     );
   }
 
+  const marked = new Set(rows.map((r) => r.catalogueItemId));
+  const missing = (await applicableItems(job.id, unit.kind, transaction))
+    .filter((c) => !marked.has(c.id))
+    .map((c) => ({ catalogueItemId: c.id, code: c.code, title: c.title }));
   const check = await UnitCheck.create(
-    { jobId: job.id, unitId: unit.id, walkId, checkedBy: actor.id, checkedAt: (ctx.clock ?? (() => new Date()))(), complete: input.complete },
+    {
+      jobId: job.id,
+      unitId: unit.id,
+      walkId,
+      checkedBy: actor.id,
+      checkedAt: (ctx.clock ?? (() => new Date()))(),
+      complete: missing.length === 0,
+      completeSent: input.complete ?? null,
+    },
     { transaction },
   );
   await UnitCheckItem.bulkCreate(
     rows.map((r) => ({ ...r, unitCheckId: check.id })),
     { transaction },
   );
-  return checkDto(sequelize, check.id, proposalsFor(sequelize, job, unit, catalogue, transaction), transaction);
+  const dto = await checkDto(sequelize, check.id, proposalsFor(sequelize, job, unit, catalogue, transaction), transaction);
+  return { ...dto, missing };
 }

@@ -12,7 +12,10 @@ export class UnitCheck extends Model<InferAttributes<UnitCheck>, InferCreationAt
   declare walkId: ForeignKey<Walk['id']> | null;
   declare checkedBy: ForeignKey<User['id']>;
   declare checkedAt: Date;
+  /** Decided by the server from the job's catalogue when the check is saved (commands/recordUnitCheck.ts). */
   declare complete: boolean;
+  /** What the phone said (never trusted); null when it said nothing. */
+  declare completeSent: CreationOptional<boolean | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -26,6 +29,7 @@ export class UnitCheck extends Model<InferAttributes<UnitCheck>, InferCreationAt
         checkedBy: { type: DataTypes.UUID, allowNull: false },
         checkedAt: { type: DataTypes.DATE, allowNull: false },
         complete: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        completeSent: { type: DataTypes.BOOLEAN, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

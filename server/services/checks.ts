@@ -6,7 +6,7 @@ import { Op, QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { CheckItemDto, ProposedFinding, UnitCheckDto, UnitChecksResponse } from '../../shared/schemas/findings';
 import { decide } from '../../shared/findingStatus';
 import { dueOnFor } from '../../shared/rules/due';
-import { FINDING_STATUSES, type FindingStatus } from '../../shared/words';
+import { FINDING_STATUSES, type FindingStatus, type UnitKindKey } from '../../shared/words';
 import { notFound } from '../errors';
 import { CatalogueItem, Finding, Unit, type Job } from '../models';
 import { presentCheck, presentCheckItem, type CheckItemRow, type CheckRow } from '../presenters/check';
@@ -46,6 +46,20 @@ export async function unresolvedFindingsOn(
   const items = await CatalogueItem.findAll({ where: { id: [...new Set(rows.map((f) => f.catalogueItemId))] }, attributes: ['id', 'title'], transaction });
   const title = new Map(items.map((i) => [i.id, i.title]));
   return rows.map((f) => ({ id: f.id, number: f.number, catalogueItemId: f.catalogueItemId, title: title.get(f.catalogueItemId) ?? '', status: f.status }));
+}
+
+/**
+ * The catalogue items a check of a unit of this kind must mark to be complete, in catalogue order:
+ * the job's items (built-in copies and its own) that apply to the kind, not retired, not the
+ * "Something else" type. The same list the unit check screen shows.
+ */
+export async function applicableItems(jobId: string, kind: UnitKindKey, transaction?: Transaction): Promise<CatalogueItem[]> {
+  return CatalogueItem.findAll({
+    where: { jobId, isOther: false, retiredAt: null, unitKinds: { [Op.contains]: [kind] } },
+    attributes: ['id', 'code', 'title', 'position'],
+    order: [['position', 'ASC'], ['code', 'ASC']],
+    transaction,
+  });
 }
 
 const CHECK_SELECT = `

@@ -227,9 +227,12 @@ export const CODE_LIMIT_VARIANTS: Readonly<Record<string, readonly CodeLimit[]>>
       provenance: 'from memory',
     }),
   ],
+  // IMC Table 305.4 lists each material and form on its own row (pipe apart from tubing, sizes
+  // apart where the table splits them). The copper_support keys are the copper TUBING rows: the
+  // refrigerant line sets and copper drains Trimout checks are tubing, sold by outside diameter.
   'imc.copper_support.horizontal_small': [
     entry('imc.copper_support.horizontal_small', {
-      label: 'Copper or copper-alloy pipe or tubing, 1-1/4 in and smaller: maximum horizontal support spacing',
+      label: 'Copper or copper-alloy tubing, 1-1/4 in diameter and smaller: maximum horizontal support spacing',
       document: 'IMC',
       editions: IMC_EDITIONS,
       section: 'Table 305.4',
@@ -242,7 +245,7 @@ export const CODE_LIMIT_VARIANTS: Readonly<Record<string, readonly CodeLimit[]>>
   ],
   'imc.copper_support.horizontal_large': [
     entry('imc.copper_support.horizontal_large', {
-      label: 'Copper or copper-alloy pipe or tubing, 1-1/2 in and larger: maximum horizontal support spacing',
+      label: 'Copper or copper-alloy tubing, 1-1/2 in diameter and larger: maximum horizontal support spacing',
       document: 'IMC',
       editions: IMC_EDITIONS,
       section: 'Table 305.4',
@@ -255,7 +258,7 @@ export const CODE_LIMIT_VARIANTS: Readonly<Record<string, readonly CodeLimit[]>>
   ],
   'imc.copper_support.vertical': [
     entry('imc.copper_support.vertical', {
-      label: 'Copper or copper-alloy pipe or tubing: maximum vertical support spacing',
+      label: 'Copper or copper-alloy tubing (either size row): maximum vertical support spacing',
       document: 'IMC',
       editions: IMC_EDITIONS,
       section: 'Table 305.4',
@@ -264,6 +267,171 @@ export const CODE_LIMIT_VARIANTS: Readonly<Record<string, readonly CodeLimit[]>>
       value: 10,
       unit: 'ft',
       provenance: 'issue text',
+    }),
+  ],
+  'imc.copper_pipe_support.horizontal': [
+    entry('imc.copper_pipe_support.horizontal', {
+      label: 'Copper or copper-alloy pipe: maximum horizontal support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 12,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
+    }),
+  ],
+  'imc.copper_pipe_support.vertical': [
+    entry('imc.copper_pipe_support.vertical', {
+      label: 'Copper or copper-alloy pipe: maximum vertical support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 10,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
+    }),
+  ],
+  'imc.pvc_support.horizontal': [
+    entry('imc.pvc_support.horizontal', {
+      label: 'PVC pipe (a plastic condensate drain): maximum horizontal support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 4,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
+    }),
+  ],
+  'imc.pvc_support.vertical': [
+    entry('imc.pvc_support.vertical', {
+      label: 'PVC pipe (a plastic condensate drain): maximum vertical support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 10,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition. The table adds a mid-story guide for sizes 2 in and smaller (footnote, from memory).',
+    }),
+  ],
+  'imc.cpvc_support.horizontal_small': [
+    entry('imc.cpvc_support.horizontal_small', {
+      label: 'CPVC pipe or tubing, 1 in and smaller: maximum horizontal support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 3,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
+    }),
+  ],
+  'imc.cpvc_support.horizontal_large': [
+    entry('imc.cpvc_support.horizontal_large', {
+      label: 'CPVC pipe or tubing, 1-1/4 in and larger: maximum horizontal support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 4,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
+    }),
+  ],
+  'imc.cpvc_support.vertical': [
+    entry('imc.cpvc_support.vertical', {
+      label: 'CPVC pipe or tubing: maximum vertical support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 10,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition. The table adds a mid-story guide for sizes 2 in and smaller (footnote, from memory).',
+    }),
+  ],
+  'imc.abs_support.horizontal': [
+    entry('imc.abs_support.horizontal', {
+      label: 'ABS pipe: maximum horizontal support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 4,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
+    }),
+  ],
+  'imc.abs_support.vertical': [
+    entry('imc.abs_support.vertical', {
+      label: 'ABS pipe: maximum vertical support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 10,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition. The table adds a mid-story guide for sizes 2 in and smaller (footnote, from memory).',
+    }),
+  ],
+  'imc.steel_pipe_support.horizontal': [
+    entry('imc.steel_pipe_support.horizontal', {
+      label: 'Steel pipe: maximum horizontal support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 12,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
+    }),
+  ],
+  'imc.steel_pipe_support.vertical': [
+    entry('imc.steel_pipe_support.vertical', {
+      label: 'Steel pipe: maximum vertical support spacing',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Table 305.4',
+      quantity: 'length',
+      comparison: 'at_most',
+      value: 15,
+      unit: 'ft',
+      provenance: 'from memory',
+      note:
+        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
     }),
   ],
 };

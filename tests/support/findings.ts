@@ -8,7 +8,7 @@ import { QueryTypes } from 'sequelize';
 import type { AppOptions } from '../../server/app';
 import { CatalogueItem, Finding, UnitModel } from '../../server/models';
 import { nextFindingNumber, recordFindingEvent } from '../../server/services/findings';
-import type { FindingStatus, Severity } from '../../shared/words';
+import type { CheckMark, FindingStatus, Severity, UnitKindKey } from '../../shared/words';
 import { buildTestApp, signIn } from './app';
 import { connectTestDb } from './db';
 import { addMember, buildJob, buildJobWithCrew, buildLevel, buildSpace, buildUnit, buildUnitModel, copyCatalogue, linkCompany } from './factories';
@@ -59,6 +59,22 @@ export async function buildWalkJob(people?: People) {
 }
 
 export type WalkJob = Awaited<ReturnType<typeof buildWalkJob>>;
+
+/**
+ * Every item of the job's catalogue a check of this unit kind must mark to be complete, read from
+ * the database now (so items added by the test or by a changed built-in catalogue count) and
+ * filtered here, not by the server's query: job-added items in, retired ones and the
+ * "Something else" type out.
+ */
+export async function applicableTo(jobId: string, kind: UnitKindKey): Promise<CatalogueItem[]> {
+  const all = await CatalogueItem.findAll({ where: { jobId }, order: [['position', 'ASC'], ['code', 'ASC']] });
+  return all.filter((c) => !c.isOther && c.retiredAt === null && c.unitKinds.includes(kind));
+}
+
+/** A complete check's items: every applicable item with `mark`, except the codes in `except`. */
+export async function everyItem(jobId: string, kind: UnitKindKey, mark: CheckMark = 'ok', except: string[] = []) {
+  return (await applicableTo(jobId, kind)).filter((c) => !except.includes(c.code)).map((c) => ({ catalogueItemId: c.id, mark }));
+}
 
 /** A finding written straight to the database (with its "logged" event), for read tests. */
 export async function insertFinding(

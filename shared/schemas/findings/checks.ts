@@ -32,8 +32,12 @@ export const recordCheckSchema = z
       .min(1, 'Mark at least one item.')
       .max(CHECK_ITEMS_MAX, `At most ${CHECK_ITEMS_MAX} items in one check.`)
       .refine((items) => new Set(items.map((i) => i.catalogueItemId)).size === items.length, 'A catalogue item appears twice.'),
-    /** true when every item that applies has been marked (the screen's "finish unit"). */
-    complete: z.boolean({ error: 'Send complete: true or false.' }),
+    /**
+     * What the screen believes: every item that applies has been marked. Kept with the check as
+     * sent, never trusted: the server decides completeness from the job's catalogue (see
+     * UnitCheckDto.complete) and the response names what is missing.
+     */
+    complete: z.boolean({ error: 'Send complete: true or false.' }).optional(),
   })
   .strict();
 export type RecordCheckInput = z.input<typeof recordCheckSchema>;
@@ -89,9 +93,27 @@ export interface UnitCheckDto {
   walkId: string | null;
   checkedBy: PersonRef;
   checkedAt: string;
+  /**
+   * Decided by the server when the check is saved: every item of the job's catalogue that applies
+   * to the unit's kind (job-added items included, retired ones and the "Something else" type left
+   * out) has a mark in this check. Walk progress, the levels board, readiness, ceilings and the
+   * recurring-defect denominators all read this value.
+   */
   complete: boolean;
   items: CheckItemDto[];
   counts: { ok: number; defect: number; notApplicable: number; failedMeasurements: number };
+}
+
+/** A catalogue item that applies to the unit but has no mark in the check. */
+export interface MissingCheckItem {
+  catalogueItemId: string;
+  code: string;
+  title: string;
+}
+
+/** POST /units/:unitId/checks answer: the check, and what keeps it from being complete (catalogue order). */
+export interface RecordedCheckDto extends UnitCheckDto {
+  missing: MissingCheckItem[];
 }
 
 /** GET /units/:unitId/checks: the unit's state and its check history, newest first. */

@@ -3,6 +3,7 @@
  * catalogue, measured values evaluated by shared/calc (a cassette pump lift of 34 in against a
  * model limit of 30 in fails by 4 in = 101.6 mm and proposes a finding), history and state.
  */
+import { QueryTypes } from 'sequelize';
 import request from 'supertest';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
@@ -11,7 +12,7 @@ import { addDays, todayIn } from '../../../shared/rules/dates';
 import { buildTestApp, csrfFor, signIn, type SignedIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser } from '../../support/factories';
-import { buildWalkJob, countRows, insertFinding, type People, type WalkJob } from '../../support/findings';
+import { applicableTo, buildWalkJob, countRows, everyItem, insertFinding, type People, type WalkJob } from '../../support/findings';
 
 jest.setTimeout(120_000);
 
@@ -66,21 +67,20 @@ describe('POST /api/jobs/:jobId/units/:unitId/checks', () => {
 
   it('records an all-ok complete check (201) for the inspector and the GC manager; the unit is then checked ok', async () => {
     const w = await buildWalkJob(people);
-    const items = ['MT-01', 'MT-02', 'DR-01'].map((c) => ok(w, c));
+    const items = await everyItem(w.job.id, 'cassette_4way');
     const res = await post(inspector, w, w.cassette.id, { items, complete: true }).expect(201);
     expect(res.body).toMatchObject({
       unitId: w.cassette.id,
       walkId: null,
       checkedBy: { id: w.inspector.id },
       complete: true,
-      counts: { ok: 3, defect: 0, notApplicable: 0, failedMeasurements: 0 },
+      missing: [],
+      counts: { ok: items.length, defect: 0, notApplicable: 0, failedMeasurements: 0 },
     });
-    expect(res.body.items.map((i: { code: string; mark: string; result: unknown }) => [i.code, i.mark, i.result])).toEqual([
-      ['MT-01', 'ok', null],
-      ['MT-02', 'ok', null],
-      ['DR-01', 'ok', null],
-    ]);
-    await post(gc, w, w.cassette2.id, { items: [ok(w, 'MT-01')], complete: true }).expect(201);
+    expect(res.body.items.map((i: { catalogueItemId: string; mark: string; result: unknown }) => [i.catalogueItemId, i.mark, i.result])).toEqual(
+      items.map((i) => [i.catalogueItemId, 'ok', null]),
+    );
+    await post(gc, w, w.cassette2.id, { items: await everyItem(w.job.id, 'cassette_4way'), complete: true }).expect(201);
     const state = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(200);
     expect(state.body.unit).toMatchObject({ tag: 'IU-3-01', state: 'checked_ok' });
     expect(state.body.current.id).toBe(res.body.id);
@@ -154,7 +154,7 @@ describe('POST /api/jobs/:jobId/units/:unitId/checks', () => {
     const send = async (body: unknown) => (await post(inspector, w, w.cassette.id, body).expect(400)).body.error.message as string;
     expect(await send({ complete: true })).toBe('items: Send items: the catalogue items checked, each with a mark.');
     expect(await send({ items: [], complete: true })).toBe('items: Mark at least one item.');
-    expect(await send({ items: [ok(w, 'MT-01')] })).toBe('complete: Send complete: true or false.');
+    expect(await send({ items: [ok(w, 'MT-01')], complete: 'yes' })).toBe('complete: Send complete: true or false.');
     expect(await send({ items: [ok(w, 'MT-01'), ok(w, 'MT-01')], complete: true })).toBe('items: A catalogue item appears twice.');
     expect(await send({ items: [{ ...ok(w, 'MT-01'), mark: 'good' }], complete: true })).toBe(
       'items.0.mark: Mark the item OK, defect or not applicable.',
@@ -198,6 +198,64 @@ describe('POST /api/jobs/:jobId/units/:unitId/checks', () => {
     expect(changed.body.error.message).toBe('This Idempotency-Key was already used for a different request.');
     const history = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(200);
     expect(history.body.items).toHaveLength(1);
+  });
+});
+
+describe('completeness is decided by the server', () => {
+  const sentAndStored = async (checkId: string) =>
+    (
+      await db.sequelize.query<{ complete: boolean; complete_sent: boolean | null }>(`SELECT complete, complete_sent FROM unit_checks WHERE id = $1`, {
+        bind: [checkId],
+        type: QueryTypes.SELECT,
+      })
+    )[0];
+
+  it('a check with one applicable item unanswered is not complete although the phone sent complete: true; the answer names the item', async () => {
+    const w = await buildWalkJob(people);
+    const applicable = await applicableTo(w.job.id, 'cassette_4way');
+    expect(applicable.length).toBeGreaterThan(1);
+    const left = applicable[applicable.length - 1]!;
+    const res = await post(inspector, w, w.cassette.id, { items: await everyItem(w.job.id, 'cassette_4way', 'ok', [left.code]), complete: true }).expect(201);
+    expect(res.body.complete).toBe(false);
+    expect(res.body.missing).toEqual([{ catalogueItemId: left.id, code: left.code, title: left.title }]);
+    expect(await sentAndStored(res.body.id)).toEqual({ complete: false, complete_sent: true });
+    // Every reader follows the server's answer: the walk list, the walk coverage and the levels board.
+    const state = await inspector.agent.get(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`).expect(200);
+    expect(state.body.unit).toMatchObject({ state: 'in_progress', lastCheck: { id: res.body.id, complete: false } });
+    const units = await gc.agent.get(`/api/jobs/${w.job.id}/levels/${w.level.id}/walk-units`).expect(200);
+    expect(units.body.counts).toMatchObject({ checked: 0, inProgress: 1 });
+    const board = await gc.agent.get(`/api/jobs/${w.job.id}/board`).expect(200);
+    expect(board.body.levels.find((r: { levelId: string }) => r.levelId === w.level.id)).toMatchObject({ unitsChecked: 0 });
+    const ready = await gc.agent.get(`/api/jobs/${w.job.id}/readiness?levelId=${w.level.id}`).expect(200);
+    const level = ready.body.levels.find((l: { levelId: string }) => l.levelId === w.level.id);
+    expect(level.uncheckedCeilingUnits.map((u: { tag: string }) => u.tag)).toContain('IU-3-01');
+  });
+
+  it('becomes complete when the last answer arrives, whatever the phone says; an item the job adds must be answered too', async () => {
+    const w = await buildWalkJob(people);
+    const applicable = await applicableTo(w.job.id, 'cassette_4way');
+    const first = await post(inspector, w, w.cassette.id, { items: await everyItem(w.job.id, 'cassette_4way', 'ok', [applicable[0]!.code]), complete: false }).expect(201);
+    expect(first.body).toMatchObject({ complete: false, missing: [{ code: applicable[0]!.code }] });
+    // The phone says not complete, but every applicable item has its answer now: complete.
+    const second = await post(inspector, w, w.cassette.id, { items: await everyItem(w.job.id, 'cassette_4way', 'not_applicable'), complete: false }).expect(201);
+    expect(second.body).toMatchObject({ complete: true, missing: [] });
+    expect(await sentAndStored(second.body.id)).toEqual({ complete: true, complete_sent: false });
+    // Leaving complete out is allowed; the job's own item for cassettes now counts, a retired one does not.
+    const own = await CatalogueItem.create({
+      jobId: w.job.id, code: 'JB-01', group: applicable[0]!.group, title: 'Job label missing', description: 'The job asks for its own label.',
+      unitKinds: ['cassette_4way'], defaultSeverity: 'minor', trade: 'mechanical', measuredRule: null, fixGuidance: 'Fit the label.', caution: null,
+      needsCeilingAccess: false, position: 999,
+    });
+    const retired = applicable[1]!;
+    await retired.update({ retiredAt: new Date() });
+    const before = await post(inspector, w, w.cassette.id, { items: await everyItem(w.job.id, 'cassette_4way', 'ok', [own.code]) }).expect(201);
+    expect(before.body).toMatchObject({ complete: false, missing: [{ catalogueItemId: own.id, code: 'JB-01', title: 'Job label missing' }] });
+    expect(await sentAndStored(before.body.id)).toEqual({ complete: false, complete_sent: null });
+    const after = await post(inspector, w, w.cassette.id, { items: await everyItem(w.job.id, 'cassette_4way') }).expect(201);
+    expect(after.body).toMatchObject({ complete: true, missing: [] });
+    expect(after.body.items.map((i: { catalogueItemId: string }) => i.catalogueItemId)).not.toContain(retired.id);
+    const units = await gc.agent.get(`/api/jobs/${w.job.id}/levels/${w.level.id}/walk-units`).expect(200);
+    expect(units.body.counts).toMatchObject({ checked: 1, inProgress: 0 });
   });
 });
 

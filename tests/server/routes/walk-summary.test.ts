@@ -6,7 +6,7 @@
 import type { WalkDetail } from '../../../shared/schemas/findings';
 import type { SignedIn } from '../../support/app';
 import { buildUnit } from '../../support/factories';
-import { buildWalkJob, insertFinding, startWalkApp, type People, type WalkJob } from '../../support/findings';
+import { buildWalkJob, everyItem, insertFinding, startWalkApp, type People, type WalkJob } from '../../support/findings';
 
 jest.setTimeout(120_000);
 
@@ -47,8 +47,8 @@ describe('the walk summary', () => {
     const walk = await walkOn(w);
     const mt01 = w.byCode('MT-01');
     const checks = (unitId: string) => `/api/jobs/${w.job.id}/units/${unitId}/checks`;
-    await post(inspector, checks(w.cassette.id), { walkId: walk.id, items: [{ catalogueItemId: mt01.id, mark: 'ok' }], complete: true }).expect(201);
-    await post(inspector, checks(w.cassette2.id), { walkId: walk.id, items: [{ catalogueItemId: mt01.id, mark: 'ok' }], complete: false }).expect(201);
+    await post(inspector, checks(w.cassette.id), { walkId: walk.id, items: await everyItem(w.job.id, 'cassette_4way'), complete: true }).expect(201);
+    await post(inspector, checks(w.cassette2.id), { walkId: walk.id, items: [{ catalogueItemId: mt01.id, mark: 'ok' }] }).expect(201);
     const log = (body: object) => post(inspector, `/api/jobs/${w.job.id}/findings`, { walkId: walk.id, unitId: w.cassette.id, ...body }).expect(201);
     await log({ catalogueItemId: w.byCode('DR-03').id, severity: 'critical' });
     await log({ catalogueItemId: w.byCode('DR-03').id, severity: 'critical' });

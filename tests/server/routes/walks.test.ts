@@ -8,7 +8,7 @@ import type { Database } from '../../../server/db';
 import { buildTestApp, csrfFor, signIn, type SignedIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { addMember, buildUser } from '../../support/factories';
-import { buildWalkJob, insertFinding, type People, type WalkJob } from '../../support/findings';
+import { buildWalkJob, everyItem, insertFinding, type People, type WalkJob } from '../../support/findings';
 
 jest.setTimeout(120_000);
 
@@ -156,7 +156,7 @@ describe('GET /api/jobs/:jobId/walks and /walks/:walkId', () => {
     const { w, inspector, gc, subA, outsider } = await crew();
     const walk = (await startWalk(inspector, w.job.id, { levelId: w.level.id }).expect(201)).body;
     const mt01 = w.byCode('MT-01');
-    await check(inspector, w, w.cassette.id, { walkId: walk.id, items: [{ catalogueItemId: mt01.id, mark: 'ok' }], complete: true }).expect(201);
+    await check(inspector, w, w.cassette.id, { walkId: walk.id, items: await everyItem(w.job.id, 'cassette_4way'), complete: true }).expect(201);
     await check(inspector, w, w.cassette2.id, { walkId: walk.id, items: [{ catalogueItemId: mt01.id, mark: 'ok' }], complete: false }).expect(201);
     await insertFinding(w, { unitId: w.wall.id, code: w.notForCassettes.code, severity: 'critical' });
     const res = await gc.agent.get(`/api/jobs/${w.job.id}/walks/${walk.id}`).expect(200);
@@ -209,7 +209,7 @@ describe('GET /api/jobs/:jobId/levels/:levelId/walk-units', () => {
   it('lists the level units with their state, worst severity and counts; filters; pages', async () => {
     const { w, inspector, gc } = await crew();
     const mt01 = w.byCode('MT-01');
-    await check(inspector, w, w.cassette.id, { items: [{ catalogueItemId: mt01.id, mark: 'ok' }], complete: true }).expect(201);
+    await check(inspector, w, w.cassette.id, { items: await everyItem(w.job.id, 'cassette_4way'), complete: true }).expect(201);
     await check(inspector, w, w.cassette2.id, { items: [{ catalogueItemId: mt01.id, mark: 'ok' }], complete: false }).expect(201);
     await insertFinding(w, { unitId: w.wall.id, code: w.notForCassettes.code, severity: 'minor' });
     await insertFinding(w, { unitId: w.wall.id, code: w.notForCassettes.code, severity: 'critical', companyId: w.subB.companyId });

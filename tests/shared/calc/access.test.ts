@@ -5,14 +5,17 @@
  * - IRC 2018 M1305.1: level working space 30 in deep × 30 in wide at the control side (from memory);
  * - IMC 2018 306.3: attic passageway ≥ 30 in high, ≥ 22 in wide, ≤ 20 ft long; opening ≥ 20 × 30 in
  *   (from memory; the same figures read in IRC M1305.1.3); 50 ft for a ≥ 6 ft high passageway (from memory);
- * - IMC 2018 Table 305.4, copper: ≤ 1-1/4 in 6 ft horizontal, ≥ 1-1/2 in 10 ft, vertical 10 ft (issue text);
+ * - IMC 2018 Table 305.4, copper or copper-alloy TUBING: ≤ 1-1/4 in 6 ft horizontal, ≥ 1-1/2 in 10 ft, vertical 10 ft
+ *   (issue text); copper or copper-alloy PIPE 12 ft / 10 ft, PVC and ABS pipe 4 ft / 10 ft, CPVC ≤ 1 in 3 ft and
+ *   ≥ 1-1/4 in 4 ft / 10 ft, steel pipe 12 ft / 15 ft (each row from memory: confirm in the adopted edition);
  * - copper tube nominal size = OD − 1/8 in (ASTM B88 / B280 sizing, from memory).
  */
 import type { QuantityKind } from '../../../shared/catalogue/types';
 import { checkAtticAccess, checkWorkingSpace } from '../../../shared/calc/clearance';
 import { checkDisconnect } from '../../../shared/calc/electrical';
 import { parseQuantity } from '../../../shared/calc/quantity';
-import { checkPipeSupportSpacing, copperSupportKey } from '../../../shared/calc/supports';
+import { checkPipeSupportSpacing, copperSupportKey, SUPPORT_MATERIALS, SUPPORT_ROWS, supportKey } from '../../../shared/calc/supports';
+import { CODE_LIMITS } from '../../../shared/calc/limits';
 import * as calc from '../../../shared/calc';
 
 function q(text: string, kind: QuantityKind = 'length'): number {
@@ -94,7 +97,7 @@ describe('attic access (IMC 2018 306.3)', () => {
   });
 });
 
-describe('copper pipe support spacing (IMC 2018 Table 305.4)', () => {
+describe('copper tubing support spacing (IMC 2018 Table 305.4, tubing rows: issue text)', () => {
   it.each([
     // [size in, basis, orientation, spacing, status, key]
     [0.75, 'nominal', 'horizontal', "6' 0\"", 'pass', 'imc.copper_support.horizontal_small'],
@@ -119,6 +122,46 @@ describe('copper pipe support spacing (IMC 2018 Table 305.4)', () => {
     expect(r.status).toBe('invalid');
     expect(r.message).toMatch(/not a nominal size in IMC Table 305.4/);
     expect(copperSupportKey(0, 'horizontal').ok).toBe(false);
+  });
+});
+
+describe('each material and form on its own row, as IMC 2018 Table 305.4 prints it (rows other than copper tubing from memory)', () => {
+  it.each([
+    // [material, nominal size in, orientation, spacing, status, key, source of the row value]
+    ['copper_pipe', 1, 'horizontal', "12' 0\"", 'pass', 'imc.copper_pipe_support.horizontal'], // copper pipe 12 ft (from memory)
+    ['copper_pipe', 1, 'horizontal', "12' 1\"", 'fail', 'imc.copper_pipe_support.horizontal'],
+    ['copper_tubing', 1, 'horizontal', "12' 0\"", 'fail', 'imc.copper_support.horizontal_small'], // the same span on tubing ≤ 1-1/4 in (6 ft) fails
+    ['copper_pipe', 2, 'vertical', "10' 0\"", 'pass', 'imc.copper_pipe_support.vertical'], // 10 ft (from memory)
+    ['pvc_pipe', 0.75, 'horizontal', "4' 0\"", 'pass', 'imc.pvc_support.horizontal'], // PVC pipe 4 ft (from memory): a plastic drain
+    ['pvc_pipe', 0.75, 'horizontal', "4' 1\"", 'fail', 'imc.pvc_support.horizontal'],
+    ['pvc_pipe', 1, 'vertical', "10' 0\"", 'pass', 'imc.pvc_support.vertical'], // 10 ft (from memory)
+    ['cpvc', 1, 'horizontal', "3' 0\"", 'pass', 'imc.cpvc_support.horizontal_small'], // CPVC ≤ 1 in 3 ft (from memory)
+    ['cpvc', 1, 'horizontal', "3' 1\"", 'fail', 'imc.cpvc_support.horizontal_small'],
+    ['cpvc', 1.25, 'horizontal', "4' 0\"", 'pass', 'imc.cpvc_support.horizontal_large'], // CPVC ≥ 1-1/4 in 4 ft (from memory)
+    ['abs_pipe', 1.5, 'horizontal', "4' 1\"", 'fail', 'imc.abs_support.horizontal'], // ABS 4 ft (from memory)
+    ['steel_pipe', 2, 'vertical', "15' 0\"", 'pass', 'imc.steel_pipe_support.vertical'], // steel 15 ft vertical (from memory)
+  ] as const)('%s %p in, %s, %s → %s', (material, size, orientation, spacing, status, key) => {
+    const r = checkPipeSupportSpacing({ material, size, orientation, spacing: q(spacing) });
+    expect(r.status).toBe(status);
+    expect(r.key).toBe(key);
+    expect(r.limitSource).toBe('IMC 2018 Table 305.4');
+  });
+
+  it('every row names its material and form and has its own horizontal and vertical values', () => {
+    for (const m of SUPPORT_MATERIALS) expect(SUPPORT_ROWS.some((r) => r.material === m)).toBe(true);
+    for (const row of SUPPORT_ROWS) {
+      expect(CODE_LIMITS[row.horizontal]?.label.startsWith(row.label.split(',')[0]!)).toBe(true);
+      expect(CODE_LIMITS[row.vertical]?.label.startsWith(row.label.split(',')[0]!)).toBe(true);
+    }
+    // No label mixes pipe and tubing rows.
+    for (const key of Object.keys(CODE_LIMITS).filter((k) => k.includes('_support'))) {
+      expect(CODE_LIMITS[key]!.label).not.toMatch(/pipe or tubing.*copper|copper.*pipe or tubing/i);
+    }
+  });
+
+  it('a CPVC size between the rows is refused; an outside diameter converts only for copper tubing', () => {
+    expect(supportKey('cpvc', 1.1, 'horizontal')).toMatchObject({ ok: false, error: expect.stringMatching(/not a nominal size in IMC Table 305.4 for CPVC/) });
+    expect(checkPipeSupportSpacing({ material: 'pvc_pipe', size: 0.875, basis: 'od', orientation: 'horizontal', spacing: 1000 }).status).toBe('invalid');
   });
 });
 

@@ -31,6 +31,15 @@ describe('CODE_LIMITS holds the keys the catalogue references', () => {
     ['imc.copper_support.horizontal_small', 'IMC', '305.4', 6, 'ft', 1828.8, 'IMC 2018 Table 305.4 (issue text)'],
     ['imc.copper_support.horizontal_large', 'IMC', '305.4', 10, 'ft', 3048, 'IMC 2018 Table 305.4 (issue text)'],
     ['imc.copper_support.vertical', 'IMC', '305.4', 10, 'ft', 3048, 'IMC 2018 Table 305.4 (issue text)'],
+    ['imc.copper_pipe_support.horizontal', 'IMC', '305.4', 12, 'ft', 3657.6, 'IMC 2018 Table 305.4, copper pipe (from memory)'],
+    ['imc.copper_pipe_support.vertical', 'IMC', '305.4', 10, 'ft', 3048, 'IMC 2018 Table 305.4, copper pipe (from memory)'],
+    ['imc.pvc_support.horizontal', 'IMC', '305.4', 4, 'ft', 1219.2, 'IMC 2018 Table 305.4, PVC pipe (from memory)'],
+    ['imc.pvc_support.vertical', 'IMC', '305.4', 10, 'ft', 3048, 'IMC 2018 Table 305.4, PVC pipe (from memory)'],
+    ['imc.cpvc_support.horizontal_small', 'IMC', '305.4', 3, 'ft', 914.4, 'IMC 2018 Table 305.4, CPVC ≤ 1 in (from memory)'],
+    ['imc.cpvc_support.horizontal_large', 'IMC', '305.4', 4, 'ft', 1219.2, 'IMC 2018 Table 305.4, CPVC ≥ 1-1/4 in (from memory)'],
+    ['imc.abs_support.horizontal', 'IMC', '305.4', 4, 'ft', 1219.2, 'IMC 2018 Table 305.4, ABS pipe (from memory)'],
+    ['imc.steel_pipe_support.horizontal', 'IMC', '305.4', 12, 'ft', 3657.6, 'IMC 2018 Table 305.4, steel pipe (from memory)'],
+    ['imc.steel_pipe_support.vertical', 'IMC', '305.4', 15, 'ft', 4572, 'IMC 2018 Table 305.4, steel pipe (from memory)'],
   ] as const)('%s: %s §%s %p %s = %p base (%s)', (key, doc, section, v, unit, baseValue, _source) => {
     const l = CODE_LIMITS[key];
     expect(l).toBeDefined();
