@@ -9,7 +9,7 @@
  */
 import type { EditionChoice, StatedLimit, UnitSystem } from '../catalogue/types';
 import { DEFAULT_EDITIONS, pickCodeLimit } from './limits';
-import { formatLength, formatQuantity, roundToResolution, WATTS_PER_TON } from './quantity';
+import { convert, formatLength, formatQuantity, roundToResolution, unitKind, WATTS_PER_TON } from './quantity';
 import type { CheckResult, NamedResult, RuleStatus } from './rules';
 import { checkAgainstCode, combineChecks, evaluateRule, makeLimitResolver } from './rules';
 
@@ -96,18 +96,39 @@ export function nominalSizeLabel(inches: number): string {
   return formatLength(inches * 25.4, 'imperial', { inchesOnly: true }).replace('"', ' in');
 }
 
-/** Minimum drain pipe size for a capacity in W (base units), per IMC Table 307.2.2. */
-export function drainPipeSize(capacity: number, editions: EditionChoice = {}): DrainSizeResult {
+/**
+ * The SI conversion IMC Table 307.2.2 prints with itself: 1 ton = 3.517 kW. A capacity typed in
+ * watts or kilowatts is read in tons with this factor, so that a row boundary typed in kW (e.g.
+ * 70.34 kW = 20 tons) lands in the row the table means; the exact factor (3.5168528 kW) would put
+ * 70.34 kW at 20.0008 tons, "over 20". Capacities typed in tons, Btu/h or MBH use the exact
+ * 12,000 Btu/h per ton.
+ */
+export const TABLE_307_2_2_KW_PER_TON = 3.517;
+
+/** A capacity: W (base units), or the number and unit as typed (so its unit decides the conversion). */
+export type DrainCapacity = number | { value: number; unit: string };
+
+/** Tons of refrigeration for Table 307.2.2: metric power by the table's 3.517 kW, the rest exactly. */
+export function drainCapacityTons(capacity: DrainCapacity): number {
+  if (typeof capacity === 'number') return capacity / WATTS_PER_TON;
+  if (unitKind(capacity.unit) !== 'capacity') return Number.NaN;
+  const metric = /^(k?w|kilowatts?|watts?)$/i.test(capacity.unit.trim());
+  return metric ? convert(capacity.value, capacity.unit, 'kW') / TABLE_307_2_2_KW_PER_TON : convert(capacity.value, capacity.unit, 'ton');
+}
+
+/** Minimum drain pipe size for a capacity, per IMC Table 307.2.2. */
+export function drainPipeSize(capacity: DrainCapacity, editions: EditionChoice = {}): DrainSizeResult {
   const edition = editions.IMC ?? DEFAULT_EDITIONS.IMC;
   const source = `IMC ${edition} ${DRAIN_SIZE_TABLE_SOURCE.section}`;
   if (!DRAIN_SIZE_TABLE_SOURCE.editions.includes(edition)) {
     return { ok: false, tons: null, source, error: `Table 307.2.2 is not stored for IMC ${edition}; size the drain from that edition.` };
   }
-  if (!Number.isFinite(capacity) || capacity <= 0) {
+  const rawTons = drainCapacityTons(capacity);
+  if (!Number.isFinite(rawTons) || rawTons <= 0) {
     return { ok: false, tons: null, source, error: 'Capacity must be more than zero to size a drain.' };
   }
   // Rounded to 1e-9 ton so that "20 tons" typed and converted back is exactly 20.
-  const tons = roundToResolution(capacity / WATTS_PER_TON);
+  const tons = roundToResolution(rawTons);
   let lowerBound = 0;
   for (const row of DRAIN_SIZE_TABLE) {
     if (tons <= row.maxTons) {
@@ -132,8 +153,8 @@ export interface DrainSegment {
   id: string;
   /** Nominal pipe size of this segment, inches (0.75, 1, 1.25, 1.5, 2 …). */
   size: number;
-  /** Capacity of the units whose drains join at the upstream end of this segment, W. */
-  addedCapacity: number;
+  /** Capacity of the units whose drains join at the upstream end of this segment: W, or as typed. */
+  addedCapacity: DrainCapacity;
 }
 
 export interface DrainSegmentResult {
@@ -163,11 +184,15 @@ export interface ManifoldResult {
 export function checkManifoldDrain(segments: readonly DrainSegment[], editions: EditionChoice = {}): ManifoldResult {
   const out: DrainSegmentResult[] = [];
   let cumulative = 0;
+  let tonsSoFar = 0;
   let previous: DrainSegment | undefined;
   for (const seg of segments) {
-    cumulative += seg.addedCapacity;
-    const cumulativeTons = roundToResolution(cumulative / WATTS_PER_TON);
-    const need = drainPipeSize(cumulative, editions);
+    // Tons are summed segment by segment, each read with the conversion for the unit it was typed in.
+    const added = seg.addedCapacity;
+    cumulative += typeof added === 'number' ? added : unitKind(added.unit) === 'capacity' ? convert(added.value, added.unit, 'W') : Number.NaN;
+    tonsSoFar += drainCapacityTons(added);
+    const cumulativeTons = roundToResolution(tonsSoFar);
+    const need = drainPipeSize({ value: tonsSoFar, unit: 'ton' }, editions);
     const problems: string[] = [];
     let status: RuleStatus = 'pass';
     if (!Number.isFinite(seg.size) || seg.size <= 0) {

@@ -109,6 +109,44 @@ describe('drain pipe size from capacity (IMC 2018 Table 307.2.2)', () => {
     expect(drainPipeSize(70000)).toMatchObject({ ok: true, size: 0.75 });
   });
 
+  // IMC 2018 Table 307.2.2 prints its own SI conversion, 1 ton = 3.517 kW (read): each boundary
+  // typed in kW lands in the row the table means, and 0.01 kW more is the next row.
+  it.each([
+    // [kW as typed, tons by the table's 3.517, size at the boundary, size just over it]
+    [70.34, 20, 0.75, 1],
+    [140.68, 40, 1, 1.25],
+    [316.53, 90, 1.25, 1.5],
+    [439.625, 125, 1.5, 2],
+  ] as const)('%p kW = %p tons at 3.517 kW per ton: %p in; 0.01 kW more: %p in', (kW, tons, size, over) => {
+    const at = drainPipeSize({ value: kW, unit: 'kW' });
+    expect(at).toMatchObject({ ok: true, tons, size });
+    expect(drainPipeSize({ value: kW + 0.01, unit: 'kW' })).toMatchObject({ ok: true, size: over });
+    // The same boundary typed in W, and the exact factor would have put it over the row.
+    expect(drainPipeSize({ value: kW * 1000, unit: 'W' })).toMatchObject({ ok: true, size });
+    expect(drainPipeSize(kW * 1000)).toMatchObject({ ok: true, size: over });
+  });
+
+  it('879.25 kW (250 tons at 3.517) is still in the table; 879.26 kW is over it', () => {
+    expect(drainPipeSize({ value: 879.25, unit: 'kW' })).toMatchObject({ ok: true, tons: 250, size: 2 });
+    expect(drainPipeSize({ value: 879.26, unit: 'kW' })).toMatchObject({ ok: false, error: expect.stringMatching(/outside IMC 2018 Table 307.2.2/) });
+  });
+
+  it('tons, Btu/h and MBH typed keep the exact 12,000 Btu/h per ton', () => {
+    expect(drainPipeSize({ value: 240000, unit: 'Btu/h' })).toMatchObject({ ok: true, tons: 20, size: 0.75 });
+    expect(drainPipeSize({ value: 240, unit: 'MBH' })).toMatchObject({ ok: true, tons: 20, size: 0.75 });
+    expect(drainPipeSize({ value: 20, unit: 'tons' })).toMatchObject({ ok: true, tons: 20, size: 0.75 });
+    expect(drainPipeSize({ value: 20, unit: 'mm' })).toMatchObject({ ok: false });
+  });
+
+  it('a manifolded drain adds segments typed in kW by the table\'s 3.517 (IMC 2018 Table 307.2.2)', () => {
+    const r = checkManifoldDrain([
+      { id: 'A', size: 0.75, addedCapacity: { value: 35.17, unit: 'kW' } }, // 10 tons
+      { id: 'B', size: 0.75, addedCapacity: { value: 35.17, unit: 'kW' } }, // 20 tons: still 3/4 in
+    ]);
+    expect(r.status).toBe('pass');
+    expect(r.segments[1]!.cumulativeTons).toBe(20);
+  });
+
   it('over 250 tons is outside the table and says so', () => {
     const r = drainPipeSize(q('251 tons', 'capacity'));
     expect(r.ok).toBe(false);
