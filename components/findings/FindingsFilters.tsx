@@ -1,4 +1,4 @@
-import { useEffect, useRef, useState } from 'react';
+import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { FindingListResponse, FindingSort } from '../../shared/schemas/findings';
 import type { CatalogueItemDto, JobCompanyDto, LevelDto, SpaceDto, UnitDto } from '../../shared/schemas/setup';
@@ -10,6 +10,7 @@ import { Button } from '../ui/Button';
 import { Select } from '../ui/Select';
 import { TextField } from '../ui/TextField';
 import { SeverityShape } from '../walk/SeverityMark';
+import { useSearchBox } from '../useSearchBox';
 
 export const FINDING_SEARCH_DELAY_MS = 300;
 
@@ -56,28 +57,10 @@ export function FindingsFilters({
   showSort: boolean;
   testID?: string;
 }) {
-  const [q, setQ] = useState(value.q ?? '');
+  const [q, setQ] = useSearchBox(value, onChange, FINDING_SEARCH_DELAY_MS);
   const extra = [value.levelId, value.spaceId, value.unitId, value.kind, value.companyId, value.catalogueItemId].filter(Boolean).length;
   // Closed at first even with filters from the address: on a phone the findings come first.
   const [more, setMore] = useState(false);
-  const latest = useRef({ value, onChange });
-  latest.current = { value, onChange };
-  // The search as last sent: a different one arriving in `value` (the address changed: Back, a
-  // link) replaces what is typed; our own coming back does not (typing goes on meanwhile).
-  const sent = useRef(value.q ?? '');
-  useEffect(() => {
-    if ((value.q ?? '') === sent.current) return;
-    sent.current = value.q ?? '';
-    setQ(value.q ?? '');
-  }, [value.q]);
-  useEffect(() => {
-    if ((latest.current.value.q ?? '') === q.trim()) return;
-    const t = setTimeout(() => {
-      sent.current = q.trim();
-      latest.current.onChange({ ...latest.current.value, q: q.trim() || undefined });
-    }, FINDING_SEARCH_DELAY_MS);
-    return () => clearTimeout(t);
-  }, [q]);
   const statuses = split<FindingStatus>(value.status as string | undefined);
   const severities = split<Severity>(value.severity as string | undefined);
   const spaceOptions = spaces.filter((s) => !value.levelId || s.levelId === value.levelId);

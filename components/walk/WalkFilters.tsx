@@ -1,4 +1,4 @@
-import { useEffect, useRef, useState } from 'react';
+import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { UNIT_WALK_STATE_LABELS, type UnitWalkState } from '../../shared/schemas/findings';
 import type { SpaceDto, SystemDto } from '../../shared/schemas/setup';
@@ -9,6 +9,7 @@ import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Select } from '../ui/Select';
 import { TextField } from '../ui/TextField';
+import { useSearchBox } from '../useSearchBox';
 
 export const TAG_SEARCH_DELAY_MS = 250;
 const STATES: UnitWalkState[] = ['not_checked', 'open_findings', 'in_progress', 'checked_ok'];
@@ -27,26 +28,8 @@ export function WalkFilters({
   systems: readonly SystemDto[];
   testID?: string;
 }) {
-  const [q, setQ] = useState(value.q ?? '');
+  const [q, setQ] = useSearchBox(value, onChange, TAG_SEARCH_DELAY_MS);
   const [more, setMore] = useState(Boolean(value.spaceId || value.systemId || value.kind));
-  const latest = useRef({ value, onChange });
-  latest.current = { value, onChange };
-  // The search as last sent: a different one arriving in `value` (the address changed: Back, a
-  // link) replaces what is typed; our own coming back does not (typing goes on meanwhile).
-  const sent = useRef(value.q ?? '');
-  useEffect(() => {
-    if ((value.q ?? '') === sent.current) return;
-    sent.current = value.q ?? '';
-    setQ(value.q ?? '');
-  }, [value.q]);
-  useEffect(() => {
-    if ((latest.current.value.q ?? '') === q.trim()) return;
-    const t = setTimeout(() => {
-      sent.current = q.trim();
-      latest.current.onChange({ ...latest.current.value, q: q.trim() || undefined });
-    }, TAG_SEARCH_DELAY_MS);
-    return () => clearTimeout(t);
-  }, [q]);
   const extra = [value.spaceId, value.systemId, value.kind].filter(Boolean).length;
 
   return (
