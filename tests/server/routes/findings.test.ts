@@ -13,7 +13,7 @@ import { addDays, todayIn } from '../../../shared/rules/dates';
 import { buildTestApp, csrfFor, signIn, type SignedIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser } from '../../support/factories';
-import { buildWalkJob, countRows, insertFinding, type People, type WalkJob } from '../../support/findings';
+import { buildWalkJob, countRows, everyItem, insertFinding, type People, type WalkJob } from '../../support/findings';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
 
 jest.setTimeout(180_000);
@@ -136,7 +136,12 @@ describe('POST /api/jobs/:jobId/findings', () => {
     const checked = await inspector.agent
       .post(`/api/jobs/${w.job.id}/units/${w.cassette.id}/checks`)
       .set('X-CSRF-Token', inspector.csrf)
-      .send({ walkId: walk.id, items: [{ catalogueItemId: w.byCode('DR-03').id, mark: 'defect', measuredText: '34 in' }], complete: true })
+      .send({
+        walkId: walk.id,
+        // Every item that applies marked, so the check is complete: the failed pump lift and the rest OK.
+        items: [{ catalogueItemId: w.byCode('DR-03').id, mark: 'defect', measuredText: '34 in' }, ...(await everyItem(w.job.id, 'cassette_4way', 'ok', ['DR-03']))],
+        complete: true,
+      })
       .expect(201);
     const p = checked.body.items[0].proposedFinding;
     const res = await postMultipart(
