@@ -65,7 +65,10 @@ export function ConcentrationResultView({ detail, unitSystem }: { detail: System
       )}
       {c.limit ? (
         <AppText variant="small" muted testID="concentration-source">
-          Limit {c.limit.value} {c.limit.unit}. Source: {c.limit.source}.
+          Limit {c.limit.value} {c.limit.unit}. Source: {c.limit.source}
+          {c.limit.provenance === 'from memory' ? ' (from memory: confirm in the adopted edition)' : ''}.
+          {c.limit.alsoPrintedIn && c.limit.alsoPrintedIn.length > 0 ? ` Also printed in ${c.limit.alsoPrintedIn.join('; ')}.` : ''}
+          {c.halvingSource ? ` Halved for institutional occupancy: ${c.halvingSource}.` : ''}
         </AppText>
       ) : null}
       {detail.a2lFloorArea.length > 0 ? (

@@ -5,7 +5,7 @@
  *
  * Spaces joined by permanent openings count together: union-find over the links, volume = sum.
  * Institutional occupancy halves the limit for any group that contains an institutional space
- * (IMC 1104.3 / ASHRAE 15; section from memory). The governing group is the one that allows the
+ * (INSTITUTIONAL_HALVING: the sections are from memory, to confirm). The governing group is the one that allows the
  * least charge (usually the smallest volume; a halved group can govern over a smaller one).
  *
  * Limits are published twice, in lb per 1,000 ft³ (lb/Mcf) and g/m³, each rounded on its own, so
@@ -34,9 +34,31 @@ export interface ConcentrationLimit {
   gPerM3: number;
   provenance: Provenance;
   note?: string;
+  /** Other documents and tables that print the same figure (not used for the check; shown as sources). */
+  alsoPrintedIn?: ReadonlyArray<{ document: string; editions: readonly string[]; section: string; provenance: Provenance }>;
 }
 
-/** Stored concentration limits (RCL). R-454B deliberately absent. */
+/**
+ * Institutional occupancy: the concentration limit is halved. Where it is written is recalled,
+ * not read here: ASHRAE 15 (the safety standard that applies the RCL per occupied space) and the
+ * IMC's own refrigerant quantity section. Both sections from memory; confirm them in the edition
+ * the job adopts.
+ */
+export const INSTITUTIONAL_HALVING = {
+  factor: 0.5,
+  sources: [
+    { document: 'ASHRAE 15', section: 'Section 7.2 (institutional occupancies: RCL reduced by 50%)', provenance: 'from memory' as Provenance },
+    { document: 'IMC', section: 'Section 1104.3 (institutional occupancies)', provenance: 'from memory' as Provenance },
+  ],
+  text: 'ASHRAE 15 Section 7.2 and IMC Section 1104.3 (both from memory; confirm the sections)',
+} as const;
+
+/**
+ * Stored concentration limits (RCL), each under the document and table that prints it. ASHRAE 34
+ * prints single-compound refrigerants (R-32) in Table 4-1 and blends (R-410A) in Table 4-2; the IMC
+ * reprints the figures in Table 1103.1. The first entry held for the job's edition is the one
+ * applied; the others are kept as where else the figure is printed. R-454B deliberately absent.
+ */
 export const CONCENTRATION_LIMITS: readonly ConcentrationLimit[] = [
   {
     refrigerant: 'R-410A',
@@ -47,7 +69,8 @@ export const CONCENTRATION_LIMITS: readonly ConcentrationLimit[] = [
     lbPerMcf: 26,
     gPerM3: 420,
     provenance: 'issue text',
-    note: 'Current editions print 26 lb/Mcf; the g/m³ figure (420) and the list of editions are from memory.',
+    note: 'Table 4-2 lists refrigerant blends (R-410A is a zeotropic blend). Current editions print 26 lb/Mcf; the g/m³ figure (420) and the list of editions are from memory.',
+    alsoPrintedIn: [{ document: 'IMC', editions: ['2015', '2018', '2021'], section: 'Table 1103.1', provenance: 'from memory' }],
   },
   {
     refrigerant: 'R-410A',
@@ -69,7 +92,10 @@ export const CONCENTRATION_LIMITS: readonly ConcentrationLimit[] = [
     lbPerMcf: 4.8,
     gPerM3: 77,
     provenance: 'issue text',
-    note: 'Values from the issue text; the editions listed are from memory. Also ASHRAE 34 RCL for R-32 (from memory). For A2L systems the IEC 60335-2-40 Annex GG floor-area check also applies.',
+    note: 'Values from the issue text; the editions listed are from memory. For A2L systems the IEC 60335-2-40 Annex GG floor-area check also applies.',
+    alsoPrintedIn: [
+      { document: 'ASHRAE 34', editions: ['2016', '2019', '2022'], section: 'Table 4-1 (single-compound refrigerants), RCL', provenance: 'from memory' },
+    ],
   },
 ];
 
@@ -137,7 +163,18 @@ export interface ConcentrationResult {
   refrigerant: Refrigerant;
   /** kg */
   totalCharge: number;
-  limit: { value: number; unit: LimitUnit; density: number; source: string } | null;
+  limit: {
+    value: number;
+    unit: LimitUnit;
+    density: number;
+    source: string;
+    /** How the stored figure is known (absent for a job's own entry). */
+    provenance?: Provenance;
+    /** Where else the same figure is printed ("IMC Table 1103.1 (from memory)"). */
+    alsoPrintedIn?: string[];
+  } | null;
+  /** Where the institutional halving is written, when it applied. */
+  halvingSource: string | null;
   governing: SpaceGroupResult | null;
   groups: SpaceGroupResult[];
   message: string;
@@ -204,7 +241,7 @@ export function checkRefrigerantConcentration(input: ConcentrationInput): Concen
   const system = input.system ?? 'imperial';
   const totalCharge = input.factoryCharge + input.fieldCharge;
   const mass = (kg: number): string => formatQuantity(kg, 'mass', system);
-  const empty = { refrigerant: input.refrigerant, totalCharge, governing: null, groups: [] as SpaceGroupResult[] };
+  const empty = { refrigerant: input.refrigerant, totalCharge, governing: null, groups: [] as SpaceGroupResult[], halvingSource: null };
 
   if (!Number.isFinite(totalCharge) || input.factoryCharge < 0 || input.fieldCharge < 0) {
     return { ...empty, status: 'invalid', pass: null, limit: null, message: 'Charges must be zero or more (factory and field-added, kg).' };
@@ -234,7 +271,14 @@ export function checkRefrigerantConcentration(input: ConcentrationInput): Concen
     const ed = input.editions?.[stored.document] ?? DEFAULT_EDITIONS[stored.document];
     const unit: LimitUnit = system === 'imperial' ? 'lb/Mcf' : 'g/m³';
     const value = unit === 'lb/Mcf' ? stored.lbPerMcf : stored.gPerM3;
-    limit = { value, unit, density: limitDensity(value, unit), source: `${stored.document} ${ed} ${stored.section}` };
+    limit = {
+      value,
+      unit,
+      density: limitDensity(value, unit),
+      source: `${stored.document} ${ed} ${stored.section}`,
+      provenance: stored.provenance,
+      alsoPrintedIn: (stored.alsoPrintedIn ?? []).map((a) => `${a.document} ${a.section} (${a.provenance})`),
+    };
   }
 
   const served = new Set(input.servedSpaceIds);
@@ -263,7 +307,7 @@ export function checkRefrigerantConcentration(input: ConcentrationInput): Concen
     const floorArea = areas.every((a): a is number => a !== undefined && a > 0) ? areas.reduce((x, y) => x + y, 0) : null;
     const ceilingHeight = floorArea ? (volume / floorArea) * 1000 : null;
     const institutional = spaces.some((s) => s.institutional === true);
-    const density = institutional ? limit.density / 2 : limit.density;
+    const density = institutional ? limit.density * INSTITUTIONAL_HALVING.factor : limit.density;
     const allowedCharge = density * volume;
     const requiredVolume = totalCharge / density;
     groups.push({
@@ -286,14 +330,15 @@ export function checkRefrigerantConcentration(input: ConcentrationInput): Concen
   }
   const pass = governing.pass;
   const where = governing.names.join(' + ');
-  const half = governing.institutional ? ' (halved: institutional occupancy)' : '';
+  const half = governing.institutional ? ` (halved: institutional occupancy, ${INSTITUTIONAL_HALVING.text})` : '';
   const need = governing.requiredFloorArea !== null
     ? ` It would need ${formatQuantity(governing.requiredVolume, 'volume', system)}, i.e. ${formatQuantity(governing.requiredFloorArea, 'area', system)} of floor at its ${formatQuantity(governing.ceilingHeight ?? 0, 'length', system)} ceiling.`
     : ` It would need ${formatQuantity(governing.requiredVolume, 'volume', system)}.`;
   const message = pass
     ? `${input.refrigerant} ${mass(totalCharge)} is within the ${mass(governing.allowedCharge)} that ${where} (${formatQuantity(governing.volume, 'volume', system)}) allows at ${limit.value} ${limit.unit}${half} (${limit.source}).`
     : `${input.refrigerant} ${mass(totalCharge)} exceeds the ${mass(governing.allowedCharge)} that ${where} (${formatQuantity(governing.volume, 'volume', system)}) allows at ${limit.value} ${limit.unit}${half} (${limit.source}).${need}`;
-  return { status: pass ? 'pass' : 'fail', pass, refrigerant: input.refrigerant, totalCharge, limit, governing, groups, message };
+  const halvingSource = governing.institutional ? INSTITUTIONAL_HALVING.text : null;
+  return { status: pass ? 'pass' : 'fail', pass, refrigerant: input.refrigerant, totalCharge, limit, governing, groups, message, halvingSource };
 }
 
 // ------------------------------------------------------------------------------------------------

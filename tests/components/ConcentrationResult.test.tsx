@@ -68,3 +68,12 @@ describe('A2L floor area rows', () => {
     expect(within(screen.getByTestId('a2l-IU-9')).getByText(/ventilation, leak detection, shut-off/)).toBeTruthy();
   });
 });
+
+describe('concentration limit source', () => {
+  it('names the table applied and where else the figure is printed (R-32: IMC Table 1103.1, issue text; ASHRAE 34 Table 4-1, from memory)', () => {
+    render(<ConcentrationResultView detail={detail(1.5, [])} unitSystem="metric" />);
+    const source = screen.getByTestId('concentration-source');
+    expect(within(source).getByText(/Source: IMC 2018 Table 1103\.1/)).toBeTruthy();
+    expect(within(source).getByText(/Also printed in ASHRAE 34 Table 4-1/)).toBeTruthy();
+  });
+});

@@ -1,9 +1,12 @@
 /**
  * Refrigerant concentration and A2L floor area. Sources:
- * - R-410A 26 lb per 1,000 ft³: ASHRAE 34 (current editions, e.g. 34-2019) Table 4-2 RCL (issue text);
- *   an older edition printed 25 lb/Mcf (issue text; exact edition not confirmed);
- * - R-32 4.8 lb per 1,000 ft³ / 77 g/m³: IMC Table 1103.1 (issue text);
- * - institutional occupancy halves the limit: IMC 1104.3 (from memory);
+ * - R-410A 26 lb per 1,000 ft³: ASHRAE 34 (current editions, e.g. 34-2019) Table 4-2 (blends) RCL (issue
+ *   text); an older edition printed 25 lb/Mcf (issue text; exact edition not confirmed); also printed in
+ *   IMC Table 1103.1 (from memory);
+ * - R-32 4.8 lb per 1,000 ft³ / 77 g/m³: IMC Table 1103.1 (issue text); also ASHRAE 34 Table 4-1
+ *   (single-compound refrigerants; from memory);
+ * - institutional occupancy halves the limit: ASHRAE 15 Section 7.2 and IMC Section 1104.3 (both from
+ *   memory: confirm the sections);
  * - A_min = (m / (2.5 × LFL^(5/4) × h0))², LFL(R-32) = 0.307 kg/m³, h0 = 0.6 / 1.8 / 2.2 m:
  *   IEC 60335-2-40:2018 Annex GG.2 (issue text); check values from the issue text, asserted to
  *   the printed precision.
@@ -16,6 +19,7 @@ import {
   parseMountPosition,
   checkRefrigerantConcentration,
   CONCENTRATION_LIMITS,
+  INSTITUTIONAL_HALVING,
   groupConnectedSpaces,
   limitDensity,
   pickConcentrationLimit,
@@ -52,6 +56,8 @@ describe('worked example: office 10 × 10 × 8 ft, R-410A at 26 lb/Mcf (ASHRAE 3
     expect(r.status).toBe('fail');
     expect(r.pass).toBe(false);
     expect(r.limit?.source).toBe('ASHRAE 34 2019 Table 4-2, refrigerant concentration limit (RCL)');
+    expect(r.limit?.provenance).toBe('issue text');
+    expect(r.limit?.alsoPrintedIn).toEqual(['IMC Table 1103.1 (from memory)']);
     expect(r.message).toContain('38 lb exceeds the 20.8 lb that office (800 ft³) allows at 26 lb/Mcf');
     expect(r.message).toContain('182.7 ft²');
   });
@@ -95,6 +101,8 @@ describe('editions and refrigerants', () => {
     const r = checkRefrigerantConcentration({ refrigerant: 'R-32', factoryCharge: lb(3.84), fieldCharge: 0, servedSpaceIds: ['office'], spaces: office });
     expect(fromBase(r.governing?.allowedCharge ?? 0, 'lb')).toBeCloseTo(3.84, 9);
     expect(r.status).toBe('pass');
+    expect(r.limit?.source).toBe('IMC 2018 Table 1103.1');
+    expect(r.limit?.alsoPrintedIn).toEqual(['ASHRAE 34 Table 4-1 (single-compound refrigerants), RCL (from memory)']);
   });
 
   it('R-454B: no confirmed value is stored; the job must enter the limit with its source', () => {
@@ -174,7 +182,7 @@ describe('spaces joined by permanent openings count together (union-find)', () =
     expect(r.groups).toHaveLength(2);
   });
 
-  it('institutional occupancy halves the limit (IMC 1104.3, from memory) and can make a larger room govern', () => {
+  it('institutional occupancy halves the limit (ASHRAE 15 7.2 / IMC 1104.3, from memory) and can make a larger room govern', () => {
     const r = checkRefrigerantConcentration({
       refrigerant: 'R-410A',
       factoryCharge: lb(10),
@@ -185,7 +193,8 @@ describe('spaces joined by permanent openings count together (union-find)', () =
     expect(r.governing?.spaceIds).toEqual(['patient room']);
     expect(r.governing?.institutional).toBe(true);
     expect(fromBase(r.governing?.allowedCharge ?? 0, 'lb')).toBeCloseTo(13 * 1.152, 9); // 26/2 × 1,152 ft³
-    expect(r.message).toMatch(/halved: institutional occupancy/);
+    expect(r.message).toMatch(/halved: institutional occupancy, ASHRAE 15 Section 7\.2 and IMC Section 1104\.3 \(both from memory; confirm the sections\)/);
+    expect(r.halvingSource).toMatch(/from memory/);
   });
 
   it('rejects missing data with a reason', () => {
@@ -310,5 +319,20 @@ describe('mounting position for the release height (unit, else model, else what 
     ['', null],
   ] as const)('reads %p as %p', (text, mount) => {
     expect(parseMountPosition(text)).toBe(mount);
+  });
+});
+
+describe('each concentration limit sits under the document and table that prints it', () => {
+  it('ASHRAE 34 prints blends in Table 4-2 and single compounds in Table 4-1; the IMC reprints them in Table 1103.1', () => {
+    for (const l of CONCENTRATION_LIMITS) {
+      if (l.document === 'ASHRAE 34') expect(l.section).toMatch(/^Table 4-[12]|older edition/);
+      if (l.document === 'IMC') expect(l.section).toBe('Table 1103.1');
+      for (const a of l.alsoPrintedIn ?? []) expect(['IMC', 'ASHRAE 34']).toContain(a.document);
+    }
+    const r32 = CONCENTRATION_LIMITS.find((l) => l.refrigerant === 'R-32')!;
+    expect(r32.alsoPrintedIn?.[0]?.section).toMatch(/^Table 4-1/); // R-32 is a single compound
+    const r410 = CONCENTRATION_LIMITS.find((l) => l.refrigerant === 'R-410A')!;
+    expect(r410.section).toMatch(/^Table 4-2/); // R-410A is a blend
+    expect(INSTITUTIONAL_HALVING.sources.every((x) => x.provenance === 'from memory')).toBe(true);
   });
 });
