@@ -40,9 +40,9 @@ import { SetupFrame, canEditSetup } from './SetupFrame';
 
 /** What each code document is, in a few words. */
 export const CODE_DOCUMENT_WORDS: Record<CodeDocument, string> = {
-  IMC: 'International Mechanical Code: condensate, access, hangers.',
-  IRC: 'International Residential Code: the same checks on residential work.',
-  'NFPA 70': 'National Electrical Code: disconnects and working space.',
+  IMC: 'International Mechanical Code: condensate drains, pipe supports, appliance access and working space (306), refrigerant quantities.',
+  IRC: 'International Residential Code: one- and two-family dwellings and townhouses; its mechanical chapters (working space M1305) apply there instead of the IMC.',
+  'NFPA 70': 'National Electrical Code: disconnects within sight of the unit (440.14); its working space (110.26) is for electrical equipment, not appliance service.',
   'ASHRAE 34': 'Refrigerant safety groups and concentration limits.',
   'IEC 60335-2-40': 'Heat pump and air-conditioner safety: A2L (R-32) floor areas.',
 };

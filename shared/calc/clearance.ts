@@ -1,7 +1,9 @@
 /**
  * Working space and attic access.
- * - Working space in front of the control side: a level space at least 30 in deep and 30 in wide
- *   (IRC M1305.1).
+ * - Working space in front of the control side: a level space at least 30 in deep and 30 in wide.
+ *   Commercial work follows the IMC (Section 306.1, access and service space for appliances; from
+ *   memory, confirm the section); one- and two-family dwellings and townhouses follow the IRC
+ *   (M1305.1, from memory). NFPA 70 110.26 is working space about electrical equipment: another rule.
  * - Attic containing an appliance (IMC 306.3): passageway at least 30 in high and 22 in wide, not
  *   more than 20 ft long measured along its centre line from the opening to the appliance (50 ft
  *   where the passageway is unobstructed and at least 6 ft high throughout: exception, from memory);
@@ -13,7 +15,12 @@ import type { EditionChoice, UnitSystem } from '../catalogue/types';
 import type { CheckResult } from './rules';
 import { checkAgainstCode, combineChecks } from './rules';
 
+/** Which code's working space applies: the IMC (commercial) or the IRC (residential). */
+export type WorkingSpaceCode = 'IMC' | 'IRC';
+
 export interface WorkingSpaceInput {
+  /** IMC for commercial work (the default: Trimout's jobs are commercial VRF work); IRC on residential work. */
+  code?: WorkingSpaceCode;
   /** mm, measured out from the control side */
   depth: number | null;
   /** mm */
@@ -24,10 +31,11 @@ export interface WorkingSpaceInput {
 
 export function checkWorkingSpace(input: WorkingSpaceInput): CheckResult {
   const { editions, system } = input;
+  const prefix = input.code === 'IRC' ? 'irc' : 'imc';
   return combineChecks(
     [
-      checkAgainstCode('irc.working_space.min_depth', 'Working space depth', input.depth, editions, system),
-      checkAgainstCode('irc.working_space.min_width', 'Working space width', input.width, editions, system),
+      checkAgainstCode(`${prefix}.working_space.min_depth`, 'Working space depth', input.depth, editions, system),
+      checkAgainstCode(`${prefix}.working_space.min_width`, 'Working space width', input.width, editions, system),
     ],
     'Working space at the control side',
   );

@@ -121,6 +121,37 @@ export const CODE_LIMIT_VARIANTS: Readonly<Record<string, readonly CodeLimit[]>>
       note: 'The code prints 15 m as the metric equivalent; Trimout applies 50 ft = 15.24 m exactly.',
     }),
   ],
+  // Working space at an appliance's control side: the IMC for commercial work (306.1), the IRC for
+  // one- and two-family dwellings and townhouses (M1305.1). NFPA 70 110.26 is the working space about
+  // electrical equipment, a different rule. Both mechanical sections from memory: confirm them.
+  'imc.working_space.min_depth': [
+    entry('imc.working_space.min_depth', {
+      label: 'Level working space in front of the control side of an appliance: depth',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Section 306.1',
+      quantity: 'length',
+      comparison: 'at_least',
+      value: 30,
+      unit: 'in',
+      provenance: 'from memory',
+      note: 'From memory; confirm the section (306.1, access and service space) in the adopted edition.',
+    }),
+  ],
+  'imc.working_space.min_width': [
+    entry('imc.working_space.min_width', {
+      label: 'Level working space in front of the control side of an appliance: width',
+      document: 'IMC',
+      editions: IMC_EDITIONS,
+      section: 'Section 306.1',
+      quantity: 'length',
+      comparison: 'at_least',
+      value: 30,
+      unit: 'in',
+      provenance: 'from memory',
+      note: 'From memory; confirm the section (306.1, access and service space) in the adopted edition.',
+    }),
+  ],
   'irc.working_space.min_depth': [
     entry('irc.working_space.min_depth', {
       label: 'Level working space in front of the control side: depth',

@@ -7,7 +7,7 @@
  */
 import { fireEvent, screen, within } from '@testing-library/react-native';
 import { setCsrfToken } from '../../components/api/client';
-import { JobSettingsScreen } from '../../components/setup/JobSettingsScreen';
+import { CODE_DOCUMENT_WORDS, JobSettingsScreen } from '../../components/setup/JobSettingsScreen';
 import { percentToShare, shareToPercent } from '../../components/setup/jobSettingsForm';
 import type { JobDetail } from '../../shared/schemas/setup';
 import { renderWithQueries, SAMPLE_JOB_ID, sampleJob } from '../support/components';
@@ -65,6 +65,24 @@ describe('percent ↔ share', () => {
     expect(shareToPercent(0.07)).toBe('7');
     expect(shareToPercent(0.125)).toBe('12.5');
     expect(shareToPercent(1)).toBe('100');
+  });
+});
+
+describe('what each code document covers, as the screen says it', () => {
+  // IMC 306 (appliance access and service space; from memory), IRC M1305 (residential: one- and
+  // two-family dwellings and townhouses), NFPA 70 440.14 (disconnect within sight) and 110.26
+  // (working space about electrical equipment), all from memory.
+  it('names the section each covers, and does not give the NFPA 70 appliance working space or the IRC all work', async () => {
+    expect(CODE_DOCUMENT_WORDS.IMC).toMatch(/working space \(306\)/);
+    expect(CODE_DOCUMENT_WORDS.IRC).toMatch(/one- and two-family dwellings and townhouses/);
+    expect(CODE_DOCUMENT_WORDS.IRC).toMatch(/M1305/);
+    expect(CODE_DOCUMENT_WORDS.IRC).not.toMatch(/same checks/);
+    expect(CODE_DOCUMENT_WORDS['NFPA 70']).toMatch(/440\.14/);
+    expect(CODE_DOCUMENT_WORDS['NFPA 70']).toMatch(/110\.26\) is for electrical equipment, not appliance service/);
+    fakeApi([job()]);
+    renderScreen();
+    await screen.findByTestId('settings-form');
+    expect(screen.getByText(CODE_DOCUMENT_WORDS['NFPA 70'])).toBeTruthy();
   });
 });
 

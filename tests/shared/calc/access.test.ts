@@ -2,7 +2,8 @@
  * Disconnect within sight, working space, attic access, copper pipe supports. Sources:
  * - NFPA 70 (2023) Article 100 "In Sight From (Within Sight From, Within Sight)": visible and not
  *   more than 50 ft (15 m); 440.14 requires it for A/C equipment (from memory);
- * - IRC 2018 M1305.1: level working space 30 in deep × 30 in wide at the control side (from memory);
+ * - working space at the control side, 30 in deep × 30 in wide: IMC 2018 306.1 for commercial work
+ *   (from memory; confirm the section) and IRC 2018 M1305.1 for residential work (from memory);
  * - IMC 2018 306.3: attic passageway ≥ 30 in high, ≥ 22 in wide, ≤ 20 ft long; opening ≥ 20 × 30 in
  *   (from memory; the same figures read in IRC M1305.1.3); 50 ft for a ≥ 6 ft high passageway (from memory);
  * - IMC 2018 Table 305.4, copper or copper-alloy TUBING: ≤ 1-1/4 in 6 ft horizontal, ≥ 1-1/2 in 10 ft, vertical 10 ft
@@ -55,7 +56,15 @@ describe('disconnect within sight (NFPA 70 2023 Art. 100 "In Sight From"; 440.14
   });
 });
 
-describe('working space at the control side (IRC 2018 M1305.1)', () => {
+describe('working space at the control side (IMC 2018 306.1 and IRC 2018 M1305.1, 30 × 30 in, both from memory)', () => {
+  it('commercial work is checked against the IMC, residential work against the IRC', () => {
+    const depth = q('30"');
+    const imc = checkWorkingSpace({ depth, width: depth });
+    expect(imc.checks.map((r) => r.limitSource)).toEqual(['IMC 2018 Section 306.1', 'IMC 2018 Section 306.1']);
+    const irc = checkWorkingSpace({ code: 'IRC', depth, width: depth });
+    expect(irc.checks.map((r) => r.limitSource)).toEqual(['IRC 2018 Section M1305.1', 'IRC 2018 Section M1305.1']);
+  });
+
   it.each([
     ['30"', '30"', 'pass'], // at the limit
     ['36"', "3' 0\"", 'pass'],
@@ -64,6 +73,7 @@ describe('working space at the control side (IRC 2018 M1305.1)', () => {
     ['30"', '761 mm', 'fail'],
   ])('%s deep × %s wide → %s', (depth, width, status) => {
     expect(checkWorkingSpace({ depth: q(depth), width: q(width) }).status).toBe(status);
+    expect(checkWorkingSpace({ code: 'IRC', depth: q(depth), width: q(width) }).status).toBe(status);
   });
 });
 

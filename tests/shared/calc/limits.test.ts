@@ -21,6 +21,8 @@ describe('CODE_LIMITS holds the keys the catalogue references', () => {
     ['imc.aux_pan.min_depth', 'IMC', '307.2.3', 1.5, 'in', 38.1, 'IMC 2018 Section 307.2.3 item 1 (from memory)'],
     ['imc.aux_pan.min_oversize', 'IMC', '307.2.3', 3, 'in', 76.2, 'IMC 2018 Section 307.2.3 item 1 (from memory)'],
     ['nec.disconnect.max_distance', 'NFPA 70', '440.14', 50, 'ft', 15240, 'NFPA 70 (2023) Article 100 "In Sight From"; 440.14 (from memory)'],
+    ['imc.working_space.min_depth', 'IMC', '306.1', 30, 'in', 762, 'IMC 2018 306.1 (from memory; confirm the section)'],
+    ['imc.working_space.min_width', 'IMC', '306.1', 30, 'in', 762, 'IMC 2018 306.1 (from memory; confirm the section)'],
     ['irc.working_space.min_depth', 'IRC', 'M1305.1', 30, 'in', 762, 'IRC 2018 M1305.1 (from memory)'],
     ['irc.working_space.min_width', 'IRC', 'M1305.1', 30, 'in', 762, 'IRC 2018 M1305.1 (from memory)'],
     ['imc.attic.passage_min_height', 'IMC', '306.3', 30, 'in', 762, 'IMC 2018 306.3 (from memory; same figure read in IRC M1305.1.3)'],
