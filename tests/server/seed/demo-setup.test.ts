@@ -86,5 +86,9 @@ describe('demo seed: job set-up', () => {
     const kit = (await UnitModel.findOne({ where: { jobId: job.id, modelNumber: 'AK-60' } }))!;
     expect(kit.limits.max_valve_kit_pipe_length).toMatchObject({ value: 1828.8, stated: 6, unit: 'ft' });
     expect(kit.limits.max_valve_kit_pipe_length!.source).toMatch(/^Invented demo model AK-60/);
+    // The coil kit's air handler stands on the floor (release height 0.6 m, IEC 60335-2-40 Annex GG);
+    // the ducted models hang above the ceiling. Cassettes and wall units follow from their kind.
+    expect(kit.mountPosition).toBe('floor');
+    expect(ducted.mountPosition).toBe('ceiling');
   });
 });
