@@ -49,7 +49,10 @@ export interface RuleResult {
 
 /** A resolver's answer: the limit, a reason it is missing, or undefined (not set). */
 export type LimitLookup = ResolvedLimit | { missing: string } | undefined;
-export type LimitResolver = (ref: LimitRef) => LimitLookup;
+export type LimitResolver = ((ref: LimitRef) => LimitLookup) & {
+  /** The code editions behind the resolver's code limits (set by makeLimitResolver), for rules a code calculation decides. */
+  editions?: EditionChoice;
+};
 
 export interface EvaluateOptions {
   /** Unit system for messages; default imperial. */
@@ -123,7 +126,7 @@ export function evaluateRule(
 
   if (rule.comparison === 'yes_no') {
     if (rule.codeCheck && rule.expected === true && (m === null || typeof m === 'boolean')) {
-      const decided = decidedByCode(rule, m, options);
+      const decided = decidedByCode(rule, m, { ...options, editions: options.editions ?? resolveLimit.editions });
       if (decided) return decided;
     }
     const source = options.source ?? 'Expected answer';
@@ -280,7 +283,7 @@ function stated(s: StatedLimit, quantity: QuantityKind, source: string, what: st
 
 /** A resolver over a unit's model limits, the job's settings and the built-in code limits. */
 export function makeLimitResolver(sources: LimitSources): LimitResolver {
-  return (ref: LimitRef): LimitLookup => {
+  const resolver = (ref: LimitRef): LimitLookup => {
     if (ref.from === 'code') {
       const picked = pickCodeLimit(ref.key, sources.editions);
       if (!picked.ok) return { missing: picked.error };
@@ -303,6 +306,7 @@ export function makeLimitResolver(sources: LimitSources): LimitResolver {
     const source = `Job setting: ${def.label.replace(/ \(job setting\)$/, '')}${s.source ? ` (${s.source})` : ''}`;
     return stated(s, def.quantity, source, `job setting "${def.label}"`);
   };
+  return Object.assign(resolver, { editions: sources.editions });
 }
 
 // ------------------------------------------------------------------------------------------------

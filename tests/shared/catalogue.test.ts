@@ -17,7 +17,7 @@ import {
   type QuantityKind,
 } from '../../shared/catalogue';
 import { CODE_LIMITS } from '../../shared/calc/limits';
-import { evaluateRule } from '../../shared/calc/rules';
+import { evaluateRule, makeLimitResolver } from '../../shared/calc/rules';
 import { SEVERITIES, TRADE_KEYS, UNIT_KIND_KEYS } from '../../shared/words';
 
 /**
@@ -345,6 +345,9 @@ describe('built-in defect catalogue', () => {
       const no = evaluateRule(rule, false, () => undefined, { editions: { IMC: '2021' } });
       expect(no).toMatchObject({ status: 'fail', pass: false, limitSource: 'IMC 2021 Section 307.2.4.1' });
       expect(evaluateRule(rule, null, () => undefined).status).toBe('not_measured');
+      // The phone and the server pass the unit's resolver: its job's editions name the section.
+      const job2021 = evaluateRule(rule, true, makeLimitResolver({ editions: { IMC: '2021' } }));
+      expect(job2021).toMatchObject({ status: 'pass', limitSource: 'IMC 2021 Section 307.2.4.1' });
       // The same rule without the code check names only the source it was given.
       const plain = evaluateRule({ ...rule, codeCheck: undefined }, true, () => undefined, { source: 'DR-12' });
       expect(plain.limitSource).toBe('DR-12');
