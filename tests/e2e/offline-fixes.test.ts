@@ -16,6 +16,8 @@ import { demoJob } from '../support/demo';
 import { buildLevel, buildUnit, copyCatalogue } from '../support/factories';
 import { PHONE, pageHolds, serviceWorkerControls, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
+import { countRows } from '../support/db';
+import { until } from '../support/wait';
 
 jest.setTimeout(240_000);
 
@@ -58,19 +60,8 @@ function jpeg(colour: { r: number; g: number; b: number }): Promise<Buffer> {
   return sharp({ create: { width: 640, height: 480, channels: 3, background: colour } }).jpeg({ quality: 80 }).toBuffer();
 }
 
-async function count(sql: string, bind: unknown[]): Promise<number> {
-  const [rows] = await h.db.sequelize.query(sql, { bind });
-  return Number((rows as { n: string }[])[0]!.n);
-}
-
-/** Polls (no fixed sleep) until `check` holds. */
-async function until(check: () => Promise<boolean>, what: string, timeoutMs = 60_000) {
-  const end = Date.now() + timeoutMs;
-  while (!(await check())) {
-    if (Date.now() > end) throw new Error(`Timed out waiting for ${what}.`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
-}
+/** Rows counted in SQL (`SELECT count(*) AS n ...`). */
+const count = (sql: string, bind: unknown[]) => countRows(h.db, sql, bind);
 
 /** A phone: 390×844, touch, mobile, signed in through the form. */
 async function phone(email: string): Promise<{ context: BrowserContext; page: Page; problems: string[] }> {

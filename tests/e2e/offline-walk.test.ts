@@ -19,6 +19,8 @@ import { signIn } from '../support/app';
 import { buildLevel, buildUnit, copyCatalogue } from '../support/factories';
 import { PHONE, serviceWorkerControls, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
+import { countRows } from '../support/db';
+import { until } from '../support/wait';
 
 jest.setTimeout(240_000);
 
@@ -97,19 +99,8 @@ async function storedSha(key: string): Promise<string> {
   return sha(Buffer.concat(chunks));
 }
 
-async function count(sql: string, bind: unknown[]): Promise<number> {
-  const [rows] = await h.db.sequelize.query(sql, { bind });
-  return Number((rows as { n: string }[])[0]!.n);
-}
-
-/** Polls (no fixed sleep) until `check` holds. */
-async function until(check: () => Promise<boolean>, what: string, timeoutMs = 60_000) {
-  const end = Date.now() + timeoutMs;
-  while (!(await check())) {
-    if (Date.now() > end) throw new Error(`Timed out waiting for ${what}.`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
-}
+/** Rows counted in SQL (`SELECT count(*) AS n ...`). */
+const count = (sql: string, bind: unknown[]) => countRows(h.db, sql, bind);
 
 /** The outbox's records as kept in IndexedDB, photos read back as base64 (browser code as a string: no DOM types here). */
 const READ_OUTBOX = `new Promise((resolve, reject) => {

@@ -13,6 +13,7 @@ import { buildLevel, buildSpace, buildSystem, buildUnit, copyCatalogue } from '.
 import { PHONE, screenshotsDir, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
 import { demoJob } from '../support/demo';
+import { until } from '../support/wait';
 import { itemsForKind } from '../../shared/catalogue';
 
 jest.setTimeout(240_000);
@@ -76,14 +77,6 @@ async function phone(): Promise<{ context: BrowserContext; page: Page; problems:
   return { context, page, problems };
 }
 
-/** Polls until `check` holds (no sleeps: the page answers when it answers). */
-async function until(check: () => boolean | Promise<boolean>, timeoutMs = 15_000) {
-  const end = Date.now() + timeoutMs;
-  while (!(await check())) {
-    if (Date.now() > end) throw new Error('Timed out waiting for the page.');
-    await new Promise((r) => setTimeout(r, 50));
-  }
-}
 
 function watch(page: Page): string[] {
   const problems: string[] = [];

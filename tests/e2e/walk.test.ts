@@ -14,6 +14,7 @@ import { buildLevel, buildSpace, buildSystem, buildUnit, copyCatalogue } from '.
 import { PHONE, WIDE, screenshotsDir, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
 import { demoJob } from '../support/demo';
+import { until as waitUntil } from '../support/wait';
 
 jest.setTimeout(240_000);
 
@@ -88,15 +89,8 @@ async function text(page: Page, testID: string): Promise<string> {
   return (await page.getByTestId(testID).first().textContent()) ?? '';
 }
 
-/** Polls a check in the page (no string evaluation: the page's CSP forbids it) until it holds. */
-async function until(check: () => Promise<boolean>, timeoutMs = 15_000) {
-  const end = Date.now() + timeoutMs;
-  for (;;) {
-    if (await check().catch(() => false)) return;
-    if (Date.now() > end) throw new Error('Timed out waiting for the page.');
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
+/** Polls a check in the page (no string evaluation: the page's CSP forbids it) until it holds; a check that throws (the page mid-navigation) counts as not yet. */
+const until = (check: () => Promise<boolean>) => waitUntil(() => check().catch(() => false), 'the page', 15_000);
 
 /** Waits until the element's whole text is `expected`. */
 async function exactText(page: Page, testID: string, expected: string) {

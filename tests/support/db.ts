@@ -48,3 +48,9 @@ export async function connectOwnDb(name: string): Promise<{ db: Database; drop: 
     },
   };
 }
+
+/** The `n` of a `SELECT count(*) AS n ...` statement, as a number. */
+export async function countRows(db: Database, sql: string, bind: unknown[] = []): Promise<number> {
+  const [rows] = await db.sequelize.query(sql, { bind });
+  return Number((rows as { n: string }[])[0]!.n);
+}

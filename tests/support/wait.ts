@@ -27,3 +27,11 @@ export async function waitFor<T>(condition: () => T | Promise<T>, options: WaitO
     await new Promise((resolve) => setTimeout(resolve, interval));
   }
 }
+
+/**
+ * waitFor as the browser tests use it: `what` named in the error, a longer default timeout (a
+ * queue sent over a network, a page under a slowed CPU) and a calmer poll.
+ */
+export async function until(check: () => boolean | Promise<boolean>, what = 'the page', timeoutMs = 60_000): Promise<void> {
+  await waitFor(check, { what, timeout: timeoutMs, interval: 100 });
+}
