@@ -2,6 +2,7 @@
  * Walks and a level's units at a glance: every route per role (GC manager, inspector,
  * subcontractor, non-member, signed out), validation messages, coverage counts and paging.
  */
+import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
@@ -114,6 +115,31 @@ describe('POST /api/jobs/:jobId/walks', () => {
     expect(again.body.id).toBe(first.body.id);
     const list = await inspector.agent.get(`/api/jobs/${w.job.id}/walks`).expect(200);
     expect(list.body.items).toHaveLength(1);
+  });
+
+  it('takes a walk id made on the phone (a walk started with no signal): the checks queued after it name it, and sending it again under another key is that walk again', async () => {
+    const { w, inspector, gc } = await crew();
+    const id = randomUUID();
+    const first = await startWalk(inspector, w.job.id, { levelId: w.level.id, id }, `walk-${id}`).expect(201);
+    expect(first.body).toMatchObject({ id, levelId: w.level.id, inspector: { id: w.inspector.id }, finishedAt: null });
+    // A check queued after the walk on the phone names it.
+    await check(inspector, w, w.cassette.id, { walkId: id, items: await everyItem(w.job.id, 'cassette_4way'), complete: true }).expect(201);
+    // The same walk sent again with another key (a key lost with a cleared queue): no second walk.
+    const again = await startWalk(inspector, w.job.id, { levelId: w.level.id, id }, `walk-again-${id}`).expect(201);
+    expect(again.headers['idempotent-replayed']).toBeUndefined();
+    expect(again.body).toMatchObject({ id, checkCount: 1 });
+    const list = await inspector.agent.get(`/api/jobs/${w.job.id}/walks`).expect(200);
+    expect(list.body.items.map((x: { id: string }) => x.id)).toEqual([id]);
+    // The id names another person's walk, or this walk on another level: refused, nothing written.
+    const taken = await startWalk(gc, w.job.id, { levelId: w.level.id, id }).expect(409);
+    expect(taken.body.error).toMatchObject({ id: 'walk_id_taken', message: 'This walk id is already used. Start the walk again to give it a new id.' });
+    await startWalk(inspector, w.job.id, { levelId: w.otherLevel.id, id }).expect(409);
+    const other = await crew();
+    await startWalk(other.inspector, other.w.job.id, { levelId: other.w.level.id, id }).expect(409);
+    expect((await gc.agent.get(`/api/jobs/${w.job.id}/walks`).expect(200)).body.items).toHaveLength(1);
+    // Not an id: a field error.
+    const bad = await startWalk(inspector, w.job.id, { levelId: w.level.id, id: 'walk-1' }).expect(400);
+    expect(Object.keys(bad.body.error.fields)).toEqual(['id']);
   });
 });
 
