@@ -17,10 +17,10 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { chromium, type Page } from 'playwright-core';
-import sharp from 'sharp';
+import { chromium } from 'playwright-core';
 import { KEPT_MARK } from '../../components/outbox/marks';
 import { stats, type Stats } from './benchHttp';
+import { noisePhoto, OUTBOX_COUNT, signIn, until } from './benchPage';
 
 export const CPU_SLOWDOWN = 4;
 
@@ -31,48 +31,13 @@ export interface LocalSaveResult {
   save: Stats;
 }
 
-const OUTBOX_COUNT = `new Promise((resolve) => {
-  const open = indexedDB.open('trimout-outbox');
-  open.onerror = () => resolve(-1);
-  open.onsuccess = () => {
-    const d = open.result;
-    if (!d.objectStoreNames.contains('writes')) { d.close(); return resolve(0); }
-    const req = d.transaction('writes').objectStore('writes').count();
-    req.onsuccess = () => { d.close(); resolve(req.result); };
-    req.onerror = () => { d.close(); resolve(-1); };
-  };
-})`;
 
 function photo(seed: number): Promise<Buffer> {
   // Noise, not a flat colour: a real photo's JPEG is several MB and takes a phone real work to decode.
-  const width = 4000;
-  const height = 3000;
-  const raw = Buffer.alloc(width * height * 3);
-  let x = seed * 2654435761;
-  for (let i = 0; i < raw.length; i += 97) {
-    x = (x * 1103515245 + 12345) >>> 0;
-    raw[i] = x & 0xff;
-  }
-  return sharp(raw, { raw: { width, height, channels: 3 } }).jpeg({ quality: 85 }).toBuffer();
+  return noisePhoto(seed, { width: 4000, height: 3000, step: 97, quality: 85 });
 }
 
-/** Polls a page expression from here (the app's CSP forbids the evaluated polling of waitForFunction). */
-async function until(page: Page, expression: string, timeoutMs: number, everyMs = 50): Promise<boolean> {
-  const end = Date.now() + timeoutMs;
-  while (Date.now() < end) {
-    if (await page.evaluate<boolean>(expression)) return true;
-    await new Promise((r) => setTimeout(r, everyMs));
-  }
-  return false;
-}
 
-async function signIn(page: Page, baseUrl: string, email: string, password: string) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill(password);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByTestId('job-list').waitFor();
-}
 
 export async function localSaveBench(options: {
   baseUrl: string;

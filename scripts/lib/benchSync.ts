@@ -18,8 +18,8 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import pg from 'pg';
-import { chromium, type BrowserContext, type Page, type Route } from 'playwright-core';
-import sharp from 'sharp';
+import { chromium, type BrowserContext, type Route } from 'playwright-core';
+import { noisePhoto, OUTBOX_COUNT, signIn, until } from './benchPage';
 
 export interface SyncRateResult {
   findings: number;
@@ -30,17 +30,6 @@ export interface SyncRateResult {
   online: { seconds: number; itemsPerSecond: number; refused: number };
 }
 
-const OUTBOX_COUNT = `new Promise((resolve) => {
-  const open = indexedDB.open('trimout-outbox');
-  open.onerror = () => resolve(-1);
-  open.onsuccess = () => {
-    const d = open.result;
-    if (!d.objectStoreNames.contains('writes')) { d.close(); return resolve(0); }
-    const req = d.transaction('writes').objectStore('writes').count();
-    req.onsuccess = () => { d.close(); resolve(req.result); };
-    req.onerror = () => { d.close(); resolve(-1); };
-  };
-})`;
 
 /** Copies every queued finding (its `data` and photo Blobs) into window.__benchQueued, for the online run. */
 const COPY_QUEUE = `new Promise((resolve, reject) => {
@@ -83,34 +72,10 @@ const POST_ONE_BY_ONE = `(async () => {
 
 /** A small photo: noise, so each JPEG is a real few tens of KB and not a flat colour. */
 function photo(seed: number): Promise<Buffer> {
-  const width = 640;
-  const height = 480;
-  const raw = Buffer.alloc(width * height * 3);
-  let x = (seed + 1) * 2654435761;
-  for (let i = 0; i < raw.length; i += 7) {
-    x = (x * 1103515245 + 12345) >>> 0;
-    raw[i] = x & 0xff;
-  }
-  return sharp(raw, { raw: { width, height, channels: 3 } }).jpeg({ quality: 80 }).toBuffer();
+  return noisePhoto(seed + 1, { width: 640, height: 480, step: 7, quality: 80 });
 }
 
-/** Polls a page expression from here (the app's CSP forbids the evaluated polling of waitForFunction). */
-async function until(page: Page, expression: string, timeoutMs: number, everyMs = 50): Promise<boolean> {
-  const end = Date.now() + timeoutMs;
-  while (Date.now() < end) {
-    if (await page.evaluate<boolean>(expression)) return true;
-    await new Promise((r) => setTimeout(r, everyMs));
-  }
-  return false;
-}
 
-async function signIn(page: Page, baseUrl: string, email: string, password: string) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('sign-in-email').fill(email);
-  await page.getByTestId('sign-in-password').fill(password);
-  await page.getByTestId('sign-in-submit').click();
-  await page.getByTestId('job-list').waitFor();
-}
 
 /** API writes fail as with no signal; reads go through (the next form loads). */
 const refuseWrites = (route: Route) => (route.request().method() === 'GET' ? route.continue() : route.abort('internetdisconnected'));
