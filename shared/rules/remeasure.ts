@@ -45,11 +45,14 @@ export function sameLimitResolver(rule: MeasuredRule, original: RuleResult | nul
   const sources = original?.limitSource.match(/^lower: (.*); upper: (.*)$/);
   const lowerSource = sources?.[1] ?? original?.limitSource ?? '';
   const upperSource = sources?.[2] ?? original?.limitSource ?? '';
-  return (ref) => {
+  const resolve: LimitResolver = (ref) => {
     if (original && original.limit !== null && same(rule.limit, ref)) return { value: original.limit, quantity: rule.quantity, source: lowerSource };
     if (original && original.upper !== null && same(rule.upper, ref)) return { value: original.upper, quantity: rule.quantity, source: upperSource };
     return fallback(ref);
   };
+  // A yes/no rule the code decides names the section in the job's own edition, as the fallback knows it.
+  resolve.editions = fallback.editions;
+  return resolve;
 }
 
 /** A resolver that knows no limit (the phone without the unit's model: the server still decides). */
