@@ -115,7 +115,7 @@ export interface NewFindingParams {
 const NEW_FINDING_ORDER: readonly (keyof NewFindingParams)[] = ['unitId', 'spaceId', 'levelId', 'catalogueItemId', 'measuredText', 'walkId'];
 
 /** The set-up sections, one route each under /jobs/:jobId/setup/. */
-export type SetupSection = 'job' | 'levels' | 'spaces' | 'systems' | 'models' | 'units' | 'import' | 'companies' | 'members' | 'catalogue' | 'settings';
+export type SetupSection = 'job' | 'levels' | 'spaces' | 'systems' | 'models' | 'units' | 'import' | 'companies' | 'crews' | 'members' | 'catalogue' | 'settings';
 
 /** What a plan is opened to place: a finding's pin or a unit's. */
 export type PlaceKind = 'finding' | 'unit';

@@ -28,6 +28,7 @@ import { invitationsRouter } from './routes/invitations';
 import { jobsRouter } from './routes/jobs';
 import { catalogueRouter } from './routes/catalogue';
 import { companiesRouter } from './routes/companies';
+import { crewsRouter } from './routes/crews';
 import { levelsRouter } from './routes/levels';
 import { membersRouter } from './routes/members';
 import { spacesRouter } from './routes/spaces';
@@ -213,6 +214,7 @@ export function createApp(options: AppOptions): TrimoutApp {
   api.use(unitModelsRouter());
   api.use(unitsRouter());
   api.use(companiesRouter());
+  api.use(crewsRouter());
   api.use(membersRouter());
   api.use(catalogueRouter());
   api.use(walksRouter());

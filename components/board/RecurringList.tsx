@@ -10,7 +10,8 @@ import { percent } from './counts';
 
 /**
  * Defect types found on many units of the job (a crew habit to correct before the next floor):
- * code and title, units and share of the checked units, and where (levels) and who (companies).
+ * code and title, units and share of the checked units, and where (levels) and who (companies, and
+ * within each company the crew that installed the units).
  */
 export function RecurringList({ jobId, data, wide }: { jobId: string; data: RecurringResponse; wide: boolean }) {
   const t = data.thresholds;
@@ -55,6 +56,7 @@ export function RecurringList({ jobId, data, wide }: { jobId: string; data: Recu
             </View>
             <Breakdown label="Units by level" items={r.byLevel.map((l) => ({ key: l.levelId, name: l.name, count: l.count }))} />
             <Breakdown label="Units by company" items={r.byCompany.map((c) => ({ key: c.companyId, name: c.name, count: c.count }))} />
+            <Breakdown label="Units by crew" items={crewPills(r)} testID={`recurring-crews-${r.code}`} />
           </Card>
         ))
       )}
@@ -72,9 +74,21 @@ function unitsText(r: RecurringDefect): string {
   return `on ${r.unitCount} of ${r.checkedUnits} looked-at unit${r.checkedUnits === 1 ? '' : 's'} of its kinds`;
 }
 
-function Pills({ items }: { items: { key: string; name: string; count: number }[] }) {
+/**
+ * Each company's units by the crew (of that company) that installed them: a habit belongs to a
+ * crew. Units whose crew is not recorded are counted too, so a company's crews add up to its count.
+ */
+function crewPills(r: RecurringDefect): { key: string; name: string; count: number }[] {
+  return r.byCrew.map((c) => ({
+    key: `${c.companyId}|${c.crewId ?? ''}`,
+    name: `${c.companyName} · ${c.name ?? 'crew not recorded'}`,
+    count: c.count,
+  }));
+}
+
+function Pills({ items, testID }: { items: { key: string; name: string; count: number }[]; testID?: string }) {
   return (
-    <View style={styles.pills}>
+    <View style={styles.pills} testID={testID}>
       {items.map((i) => (
         <View key={i.key} style={styles.pill}>
           <AppText variant="small">
@@ -124,15 +138,16 @@ function columns(jobId: string): Column<RecurringDefect>[] {
     },
     { key: 'levels', title: 'Units by level', flex: 2.2, render: (r) => <Pills items={r.byLevel.map((l) => ({ key: l.levelId, name: l.name, count: l.count }))} /> },
     { key: 'companies', title: 'Units by company', flex: 2, render: (r) => <Pills items={r.byCompany.map((c) => ({ key: c.companyId, name: c.name, count: c.count }))} /> },
+    { key: 'crews', title: 'Units by crew', flex: 2.2, render: (r) => <Pills items={crewPills(r)} testID={`recurring-crews-${r.code}`} /> },
   ];
 }
 
-function Breakdown({ label, items }: { label: string; items: { key: string; name: string; count: number }[] }) {
+function Breakdown({ label, items, testID }: { label: string; items: { key: string; name: string; count: number }[]; testID?: string }) {
   if (items.length === 0) return null;
   return (
     <View style={styles.breakdown}>
       <AppText variant="label">{label}</AppText>
-      <Pills items={items} />
+      <Pills items={items} testID={testID} />
     </View>
   );
 }

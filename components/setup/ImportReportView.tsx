@@ -16,6 +16,8 @@ const FIELD_LABEL: Record<string, string> = {
   level: 'Level',
   space: 'Space',
   system: 'System',
+  crew: 'Crew',
+  crewCompany: "Crew's company",
   mount: 'Mounting',
 };
 
@@ -84,6 +86,7 @@ export function ImportReportView({ report, unitSystem }: { report: UnitImportRep
                 {r.capacity !== null ? ` · ${formatQuantity(r.capacity, 'capacity', unitSystem)}` : ''} · {r.levelName}
                 {r.spaceName ? ` · ${r.spaceName}` : ''}
                 {r.systemName ? ` · ${r.systemName}` : ''}
+                {r.crewName ? ` · installed by ${r.crewName}` : ''}
                 {r.mountPosition ? ` · ${r.mountPosition}-mounted` : ''}
               </AppText>
             </View>

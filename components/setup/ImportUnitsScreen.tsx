@@ -25,6 +25,8 @@ const FIELD_LABEL: Record<UnitImportField, string> = {
   level: 'Level',
   space: 'Space',
   system: 'System',
+  crew: 'Crew that installed it',
+  crewCompany: "Crew's company",
   mount: 'Mounting (floor, wall, ceiling)',
 };
 

@@ -19,6 +19,7 @@ export const SETUP_SECTIONS = [
   { key: 'units', label: 'Units', blurb: 'The indoor unit register: tag, kind, model, capacity, where and on which system.' },
   { key: 'import', label: 'Import units', blurb: 'Bring in an equipment schedule from a CSV file.' },
   { key: 'companies', label: 'Companies', blurb: 'Companies on the job and the trades they cover.' },
+  { key: 'crews', label: 'Crews', blurb: 'The teams within each company, and which units each installed.' },
   { key: 'members', label: 'Members', blurb: 'Who is on the job and with which role.' },
   { key: 'catalogue', label: 'Defect catalogue', blurb: 'The defect types this job checks.' },
   { key: 'settings', label: 'Job settings', blurb: 'Code editions, days to fix by severity, when a defect counts as recurring, job limits.' },
@@ -26,7 +27,7 @@ export const SETUP_SECTIONS = [
 export type SetupSectionKey = SetupSection;
 
 /** Sections everybody on the job may read; the rest (import) are GC-manager only. */
-export const READ_ONLY_SECTIONS: readonly SetupSectionKey[] = ['levels', 'spaces', 'systems', 'models', 'units', 'companies', 'members', 'catalogue', 'settings'];
+export const READ_ONLY_SECTIONS: readonly SetupSectionKey[] = ['levels', 'spaces', 'systems', 'models', 'units', 'companies', 'crews', 'members', 'catalogue', 'settings'];
 
 export function canEditSetup(job: Pick<JobDetail, 'role'> | undefined): boolean {
   return job?.role === 'gc_manager';
@@ -43,6 +44,7 @@ export function SetupFrame({
   intro,
   testID,
   children,
+  editor: editorOf,
 }: {
   jobId: string;
   section: SetupSectionKey;
@@ -50,10 +52,13 @@ export function SetupFrame({
   intro?: string;
   testID: string;
   children: (job: JobDetail) => ReactNode;
+  /** Who edits this section when it is not the GC manager alone (crews: a subcontractor names their own). */
+  editor?: (job: JobDetail) => boolean;
 }) {
   const job = useJobQuery(jobId);
-  const editor = canEditSetup(job.data);
-  const tabs: TabItem[] = SETUP_SECTIONS.filter((s) => editor || READ_ONLY_SECTIONS.includes(s.key)).map((s) => ({
+  const setupEditor = canEditSetup(job.data);
+  const editor = job.data && editorOf ? editorOf(job.data) : setupEditor;
+  const tabs: TabItem[] = SETUP_SECTIONS.filter((s) => setupEditor || READ_ONLY_SECTIONS.includes(s.key)).map((s) => ({
     key: s.key,
     label: s.label,
     href: links.setup(jobId, s.key),

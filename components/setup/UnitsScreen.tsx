@@ -5,13 +5,14 @@ import { useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
 import { MOUNT_POSITION_LABELS, MOUNT_POSITIONS } from '../../shared/calc/refrigerant';
-import { createUnitSchema, type JobDetail, type UnitDto } from '../../shared/schemas/setup';
+import { createUnitSchema, crewLabel, type JobDetail, type UnitDto } from '../../shared/schemas/setup';
 import { UNIT_KINDS, UNIT_KIND_LABELS, type UnitKindKey } from '../../shared/words';
 import { exportUrls } from '../api/exports';
 import { ExportLink } from '../exports/ExportLink';
 import { useLevelsQuery } from '../queries/levels';
 import { useModelsQuery } from '../queries/models';
 import { useSpacesQuery } from '../queries/spaces';
+import { useCrewsQuery } from '../queries/crews';
 import { useSystemsQuery } from '../queries/systems';
 import {
   useCreateUnitMutation,
@@ -138,6 +139,7 @@ function UnitTable({ job, rows, editor, onEdit }: { job: JobDetail; rows: UnitDt
     { key: 'capacity', title: 'Capacity', flex: 1.1, render: (u) => capacityText(u, job) },
     { key: 'where', title: 'Level · space', flex: 1.6, render: (u) => `${u.levelName}${u.spaceName ? ` · ${u.spaceName}` : ''}` },
     { key: 'system', title: 'System', flex: 1, render: (u) => u.systemName ?? '—' },
+    { key: 'crew', title: 'Installed by', flex: 1.4, render: (u) => (u.installedByCrew ? crewLabel(u.installedByCrew) : '—') },
   ];
   if (editor) {
     columns.push({
@@ -166,11 +168,16 @@ function UnitCard({ job, unit, editor, onEdit }: { job: JobDetail; unit: UnitDto
         {unit.spaceName ? ` · ${unit.spaceName}` : ''} · {unit.systemName ? `system ${unit.systemName}` : 'no system'}
         {unit.effectiveMount ? ` · ${unit.effectiveMount.mount}-mounted` : ''}
       </AppText>
+      {unit.installedByCrew ? (
+        <AppText variant="small" muted testID={`unit-crew-${unit.tag}`}>
+          Installed by {crewLabel(unit.installedByCrew)}
+        </AppText>
+      ) : null}
     </View>
   );
 }
 
-const FIELDS = ['tag', 'kind', 'modelId', 'capacity', 'levelId', 'spaceId', 'systemId', 'mountPosition'] as const;
+const FIELDS = ['tag', 'kind', 'modelId', 'capacity', 'levelId', 'spaceId', 'systemId', 'mountPosition', 'installedByCrewId'] as const;
 
 function UnitForm({
   job,
@@ -200,6 +207,7 @@ function UnitForm({
       spaceId: existing?.spaceId ?? null,
       systemId: existing?.systemId ?? null,
       mountPosition: existing?.mountPosition ?? null,
+      installedByCrewId: existing?.installedByCrew?.id ?? null,
     },
   });
   const levelId = watch('levelId');
@@ -207,6 +215,7 @@ function UnitForm({
   const spaces = useSpacesQuery(job.id, levelId || undefined);
   const systems = useSystemsQuery(job.id);
   const models = useModelsQuery(job.id, kind);
+  const crews = useCrewsQuery(job.id);
 
   // A space or model that no longer fits the chosen level or kind is dropped, not sent.
   useEffect(() => {
@@ -307,6 +316,16 @@ function UnitForm({
         placeholder="As its model (or its kind)"
         nullable
         options={MOUNT_POSITIONS.map((m) => ({ value: m, label: MOUNT_POSITION_LABELS[m] }))}
+      />
+      <FormSelect
+        control={control}
+        name="installedByCrewId"
+        label="Installed by crew (optional)"
+        hint="The crew that hung and connected this unit: recurring defects are shown by crew. Companies name their crews on the Crews page."
+        testID="unit-crew-input"
+        placeholder="Not recorded"
+        nullable
+        options={(crews.data?.items ?? []).map((c) => ({ value: c.id, label: crewLabel(c) }))}
       />
       <View style={styles.actions}>
         <Button testID="unit-submit" label={existing ? 'Save unit' : 'Add unit'} onPress={submit} busy={create.isPending || update.isPending} />

@@ -39,6 +39,8 @@ const SYNONYMS: Record<UnitImportField, string[]> = {
   level: ['level', 'floor', 'storey', 'story'],
   space: ['space', 'room', 'area', 'location'],
   system: ['system', 'circuit', 'refrigerantsystem', 'outdoorunit', 'odu'],
+  crew: ['crew', 'installcrew', 'installingcrew', 'installedbycrew'],
+  crewCompany: ['crewcompany', 'installer', 'installingcompany', 'installercompany'],
   mount: ['mount', 'mounting', 'mountposition', 'mountingposition', 'installationposition'],
 };
 

@@ -1,6 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
 import type { MountPosition } from '../../shared/calc/refrigerant';
 import type { UnitKindKey } from '../../shared/words';
+import type { Crew } from './Crew';
 import type { Job } from './Job';
 import type { Level } from './Level';
 import type { Space } from './Space';
@@ -21,6 +22,9 @@ export class Unit extends Model<InferAttributes<Unit>, InferCreationAttributes<U
   /** Pin on the level's plan: fractions of its width and height (0..1), both set or both null. */
   declare pinX: CreationOptional<number | null>;
   declare pinY: CreationOptional<number | null>;
+  /** The crew that installed the unit (a crew of a company on the job), or null when not recorded. */
+  declare installedByCrewId: CreationOptional<string | null>;
+  declare installedByCrew?: NonAttribute<Crew | null>;
   /** Where this unit is mounted, when it differs from its model's position or the model has none. */
   declare mountPosition: CreationOptional<MountPosition | null>;
   /** Excluded from the ceiling rule by a GC manager (all three set, or all null): commands/ceilingExclusion.ts. */
@@ -49,6 +53,7 @@ export class Unit extends Model<InferAttributes<Unit>, InferCreationAttributes<U
         systemId: { type: DataTypes.UUID, allowNull: true },
         pinX: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
         pinY: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
+        installedByCrewId: { type: DataTypes.UUID, allowNull: true, defaultValue: null },
         mountPosition: { type: DataTypes.STRING(10), allowNull: true, defaultValue: null },
         ceilingExcludedReason: { type: DataTypes.TEXT, allowNull: true, defaultValue: null },
         ceilingExcludedBy: { type: DataTypes.UUID, allowNull: true, defaultValue: null },

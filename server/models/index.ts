@@ -1,6 +1,7 @@
 import type { Sequelize } from 'sequelize';
 import { AuthToken } from './AuthToken';
 import { Company } from './Company';
+import { Crew } from './Crew';
 import { Job } from './Job';
 import { JobMember } from './JobMember';
 import { User } from './User';
@@ -21,7 +22,7 @@ import { UnitCheckItem } from './UnitCheckItem';
 import { Walk } from './Walk';
 
 export { AuthToken, Company, Job, JobMember, User };
-export { CatalogueItem, JobCompany, Level, Space, SpaceLink, System, Unit, UnitModel };
+export { CatalogueItem, Crew, JobCompany, Level, Space, SpaceLink, System, Unit, UnitModel };
 export { Photo };
 export { Finding, FindingEvent, UnitCheck, UnitCheckItem, Walk };
 export { Fix };
@@ -73,6 +74,7 @@ function initSetupModels(sequelize: Sequelize) {
   UnitModel.initModel(sequelize);
   Unit.initModel(sequelize);
   JobCompany.initModel(sequelize);
+  Crew.initModel(sequelize);
   CatalogueItem.initModel(sequelize);
 
   Space.belongsTo(Level, { as: 'level', foreignKey: 'levelId' });
@@ -81,5 +83,7 @@ function initSetupModels(sequelize: Sequelize) {
   Unit.belongsTo(Space, { as: 'space', foreignKey: 'spaceId' });
   Unit.belongsTo(System, { as: 'system', foreignKey: 'systemId' });
   Unit.belongsTo(UnitModel, { as: 'model', foreignKey: 'modelId' });
+  Unit.belongsTo(Crew, { as: 'installedByCrew', foreignKey: 'installedByCrewId' });
+  Crew.belongsTo(Company, { as: 'company', foreignKey: 'companyId' });
   JobCompany.belongsTo(Company, { as: 'company', foreignKey: 'companyId' });
 }

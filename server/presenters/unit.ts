@@ -19,6 +19,9 @@ export function presentUnit(unit: Unit): UnitDto {
     spaceName: unit.space?.name ?? null,
     systemId: unit.systemId ?? null,
     systemName: unit.system?.name ?? null,
+    installedByCrew: unit.installedByCrew?.id
+      ? { id: unit.installedByCrew.id, name: unit.installedByCrew.name, companyId: unit.installedByCrew.companyId, companyName: unit.installedByCrew.company?.name ?? '' }
+      : null,
     mountPosition: unit.mountPosition ?? null,
     effectiveMount: effective.mount && effective.from ? { mount: effective.mount, from: effective.from } : null,
     pinX: unit.pinX ?? null,

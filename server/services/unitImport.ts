@@ -4,7 +4,7 @@
  * imported in one transaction only when no row is bad: never half an import.
  */
 import { parse } from 'csv-parse/sync';
-import { UniqueConstraintError, type Transaction } from 'sequelize';
+import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
 import { parseQuantity, unitKind } from '../../shared/calc/quantity';
 import { parseMountPosition, type MountPosition } from '../../shared/calc/refrigerant';
 import {
@@ -16,6 +16,8 @@ import {
   type UnitImportPreviewRow,
   type UnitImportReport,
   type UnitImportRowError,
+  type CrewDto,
+  crewLabel,
   unitImportQuerySchema,
   unitImportSchema,
 } from '../../shared/schemas/setup';
@@ -23,6 +25,7 @@ import { UNIT_KINDS, type UnitKindKey } from '../../shared/words';
 import { badRequest, payloadTooLarge } from '../errors';
 import { zodFieldErrors } from '../middleware/validate';
 import { Level, Space, System, Unit, UnitModel } from '../models';
+import { listCrews } from './crews';
 import { kindLabel } from './units';
 
 const PREVIEW_MAX = 500;
@@ -48,6 +51,14 @@ const HEADER_ALIASES: Record<string, UnitImportField> = {
   room: 'space',
   system: 'system',
   refrigerantsystem: 'system',
+  crew: 'crew',
+  installcrew: 'crew',
+  installingcrew: 'crew',
+  installedbycrew: 'crew',
+  crewcompany: 'crewCompany',
+  installer: 'crewCompany',
+  installingcompany: 'crewCompany',
+  installercompany: 'crewCompany',
   mount: 'mount',
   mounting: 'mount',
   mountposition: 'mount',
@@ -197,10 +208,21 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
     kindByName.set(k.key, k.key);
     kindByName.set(k.label.toLowerCase(), k.key);
   }
+  // Crews by company name and crew name (lower case); a crew name alone may belong to several companies.
+  const crews = await listCrews(Unit.sequelize!, jobId, { role: 'gc_manager', companyId: null }, undefined, transaction);
+  const companiesOnJob = new Set(
+    (
+      await Unit.sequelize!.query<{ name: string }>(`SELECT lower(c.name) AS name FROM job_companies jc JOIN companies c ON c.id = jc.company_id WHERE jc.job_id = $1`, {
+        bind: [jobId],
+        type: QueryTypes.SELECT,
+        transaction,
+      })
+    ).map((r) => r.name),
+  );
   const existingTags = new Set((await Unit.findAll({ where: { jobId }, attributes: ['tag'], transaction })).map((u) => u.tag));
 
   const errors: UnitImportRowError[] = [];
-  const good: Array<UnitImportPreviewRow & { levelId: string; spaceId: string | null; systemId: string | null; modelId: string | null }> = [];
+  const good: Array<UnitImportPreviewRow & { levelId: string; spaceId: string | null; systemId: string | null; modelId: string | null; crewId: string | null }> = [];
   const tagLine = new Map<string, number>();
 
   for (const { record, info } of rows) {
@@ -271,6 +293,23 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
       if (!mountPosition) bad('mount', `Mounting position "${mountText}" is not floor, wall or ceiling.`);
     }
 
+    const crewText = cell('crew');
+    const crewCompanyText = cell('crewCompany');
+    let crew: CrewDto | undefined;
+    if (crewText !== '') {
+      const named = crews.filter((c) => c.name.toLowerCase() === crewText.toLowerCase());
+      if (crewCompanyText !== '') {
+        if (!companiesOnJob.has(crewCompanyText.toLowerCase())) bad('crewCompany', `Unknown company "${crewCompanyText}" on this job.`);
+        else {
+          crew = named.find((c) => c.companyName.toLowerCase() === crewCompanyText.toLowerCase());
+          if (!crew) bad('crew', `No crew "${crewText}" in ${crewCompanyText}. Name the company's crews on the Crews page first.`);
+        }
+      } else if (named.length === 0) bad('crew', `Unknown crew "${crewText}". Name the company's crews on the Crews page first.`);
+      else if (named.length > 1) {
+        bad('crew', `Crew "${crewText}" is a crew of ${named.map((c) => c.companyName).join(' and ')}: add a crew company column to say which.`);
+      } else crew = named[0];
+    }
+
     if (rowErrors.length > 0 || !kind || !level) {
       errors.push(...rowErrors);
       continue;
@@ -285,6 +324,8 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
       spaceName: spaceId ? (spaces.find((s) => s.id === spaceId)?.name ?? null) : null,
       systemName: systemId ? (systems.find((s) => s.id === systemId)?.name ?? null) : null,
       mountPosition,
+      crewName: crew ? crewLabel(crew) : null,
+      crewId: crew?.id ?? null,
       levelId: level.id,
       spaceId,
       systemId,
@@ -305,6 +346,7 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
         levelId: g.levelId,
         spaceId: g.spaceId,
         systemId: g.systemId,
+        installedByCrewId: g.crewId,
         mountPosition: g.mountPosition,
       })),
       { transaction },
@@ -318,7 +360,7 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
     goodRows: good.length,
     badRows: badLines.size,
     errors,
-    preview: good.slice(0, PREVIEW_MAX).map(({ line, tag, kind, modelName, capacity, levelName, spaceName, systemName, mountPosition }) => ({
+    preview: good.slice(0, PREVIEW_MAX).map(({ line, tag, kind, modelName, capacity, levelName, spaceName, systemName, crewName, mountPosition }) => ({
       line,
       tag,
       kind,
@@ -327,6 +369,7 @@ export async function importUnits(jobId: string, options: ImportOptions, transac
       levelName,
       spaceName,
       systemName,
+      crewName,
       mountPosition,
     })),
     created: commit ? good.length : 0,

@@ -6,11 +6,12 @@ import { Op, UniqueConstraintError, type Transaction } from 'sequelize';
 import type { CreateUnitInput, UnitDto, UpdateUnitInput } from '../../shared/schemas/setup';
 import { UNIT_KINDS, type UnitKindKey } from '../../shared/words';
 import { badRequest, conflict, notFound } from '../errors';
-import { Level, Space, System, Unit, UnitModel } from '../models';
+import { Company, Crew, Level, Space, System, Unit, UnitModel } from '../models';
 import { presentUnit } from '../presenters/unit';
 import { afterCursor, finishPage, type PageRequest } from './paging';
 import { optionalQuantity } from './quantities';
 import { destroyOrConflict, likeContains, lockVersioned, type SetupWrite } from './records';
+import { crewOfJob } from './crews';
 import { recordUnitEvent } from './unitEvents';
 import { isCeilingUnitKind } from '../../shared/rules/ceilings';
 
@@ -19,6 +20,7 @@ export const UNIT_INCLUDES = [
   { model: Space, as: 'space' },
   { model: System, as: 'system' },
   { model: UnitModel, as: 'model' },
+  { model: Crew, as: 'installedByCrew', include: [{ model: Company, as: 'company', attributes: ['name'] }] },
 ];
 
 /**
@@ -31,6 +33,7 @@ export const UNIT_LIST_INCLUDES = [
   { model: Space, as: 'space', attributes: ['name'] },
   { model: System, as: 'system', attributes: ['name'] },
   { model: UnitModel, as: 'model', attributes: ['name'] },
+  { model: Crew, as: 'installedByCrew', attributes: ['id', 'name', 'companyId'], include: [{ model: Company, as: 'company', attributes: ['name'] }] },
 ];
 
 export function kindLabel(kind: string): string {
@@ -129,7 +132,8 @@ export async function createUnit({ transaction, jobId }: SetupWrite, input: Crea
   try {
     await checkUnitRefs(jobId, refs, transaction);
     if (await tagTaken(jobId, input.tag, null, transaction)) throw duplicateTag(input.tag);
-    const created = await Unit.create({ jobId, tag: input.tag, capacity, mountPosition: input.mountPosition ?? null, ...refs }, { transaction });
+    const installedByCrewId = input.installedByCrewId ? (await crewOfJob(jobId, input.installedByCrewId, transaction)).id : null;
+    const created = await Unit.create({ jobId, tag: input.tag, capacity, installedByCrewId, mountPosition: input.mountPosition ?? null, ...refs }, { transaction });
     return await loadUnit(jobId, created.id, transaction);
   } catch (err) {
     if (err instanceof UniqueConstraintError) throw duplicateTag(input.tag);
@@ -166,6 +170,10 @@ export async function changeUnit({ transaction, jobId, ifMatch }: SetupWrite, un
     }
     if (input.spaceId !== undefined) unit.spaceId = input.spaceId;
     if (input.systemId !== undefined) unit.systemId = input.systemId;
+    if (input.installedByCrewId !== undefined) {
+      if (input.installedByCrewId) await crewOfJob(jobId, input.installedByCrewId, transaction);
+      unit.installedByCrewId = input.installedByCrewId;
+    }
     if (input.modelId !== undefined) unit.modelId = input.modelId;
     if (capacity !== undefined) unit.capacity = capacity;
     if (input.mountPosition !== undefined) unit.mountPosition = input.mountPosition;

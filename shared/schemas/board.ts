@@ -255,6 +255,20 @@ export interface RecurringDefect {
   recurringSince: string;
   byLevel: { levelId: string; name: string; count: number }[];
   byCompany: { companyId: string; name: string; count: number }[];
+  /**
+   * Each company's units split by the crew that installed them (a crew of that same company);
+   * `crewId` and `name` null for the company's units with no such crew recorded. Per company the
+   * counts add up to its `byCompany` count.
+   */
+  byCrew: RecurringCrewCount[];
+}
+
+export interface RecurringCrewCount {
+  companyId: string;
+  companyName: string;
+  crewId: string | null;
+  name: string | null;
+  count: number;
 }
 
 export interface RecurringResponse {

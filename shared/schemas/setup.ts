@@ -22,6 +22,7 @@ export * from './setup/systems';
 export * from './setup/models';
 export * from './setup/units';
 export * from './setup/companies';
+export * from './setup/crews';
 export * from './setup/members';
 export * from './setup/catalogue';
 export * from './setup/ceilingExclusions';

@@ -72,6 +72,10 @@ const RECURRING: RecurringResponse = {
       recurringSince: '2026-11-28T10:00:00.000Z',
       byLevel: [{ levelId: L2, name: 'Level 2', count: 6 }],
       byCompany: [{ companyId: C1, name: 'Mech Co', count: 6 }],
+      byCrew: [
+        { companyId: C1, companyName: 'Mech Co', crewId: '00000000-0000-4000-8000-0000000000e1', name: 'Blue crew', count: 5 },
+        { companyId: C1, companyName: 'Mech Co', crewId: null, name: null, count: 1 },
+      ],
     },
     {
       // "Something else": one other type, told apart by its title.
@@ -85,6 +89,7 @@ const RECURRING: RecurringResponse = {
       recurringSince: '2026-11-29T10:00:00.000Z',
       byLevel: [{ levelId: L2, name: 'Level 2', count: 4 }],
       byCompany: [{ companyId: C1, name: 'Mech Co', count: 4 }],
+      byCrew: [{ companyId: C1, companyName: 'Mech Co', crewId: null, name: null, count: 4 }],
     },
   ],
   companyScope: null,
@@ -275,6 +280,9 @@ describe('the levels board', () => {
     expect(hrefOf(`board-level-${L2}`)).toBe(`/jobs/${JOB}/levels/${L2}`);
     expect(hrefOf(`recurring-link-CD-02`)).toBe(`${F}?catalogueItemId=00000000-0000-4000-8000-0000000000d1`);
     expect(hrefOf(`recurring-link-OTHER`)).toBe(`${F}?catalogueItemId=00000000-0000-4000-8000-0000000000d9&q=Return%20grille%20hanging%20loose`);
+    // A recurring defect by the crew that installed the units, with the units whose crew is not recorded.
+    expect(screen.getByTestId('recurring-crews-CD-02')).toHaveTextContent('Mech Co · Blue crew 5Mech Co · crew not recorded 1');
+    expect(screen.getByTestId('recurring-crews-OTHER')).toHaveTextContent('Mech Co · crew not recorded 4');
     // Scorecards and readiness are one tap away for the GC.
     expect(hrefOf('board-tabs-scorecards')).toBe(`/jobs/${JOB}/scorecards`);
     expect(hrefOf('board-tabs-readiness')).toBe(`/jobs/${JOB}/readiness`);

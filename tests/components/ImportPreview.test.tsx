@@ -18,6 +18,7 @@ function report(overrides: Partial<UnitImportReport> = {}): UnitImportReport {
     spaceName: 'Lobby',
     systemName: 'VRF-1',
     mountPosition: null,
+    crewName: null,
   }));
   return {
     dryRun: true,

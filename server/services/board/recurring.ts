@@ -32,6 +32,7 @@ interface RecurringRow {
   recurring_since: Date;
   by_level: { levelId: string; name: string; count: number }[];
   by_company: { companyId: string; name: string; count: number }[];
+  by_crew: { companyId: string; companyName: string; crewId: string | null; name: string | null; count: number }[];
 }
 
 /**
@@ -42,6 +43,10 @@ interface RecurringRow {
  * subcontractor every count covers their company's findings only (the denominator stays the
  * job's checked units). recurringSince = logged_at of the finding that brought the distinct-unit
  * count to minUnits (each unit counted at its first finding of the type), given the share holds now.
+ * byCrew splits each company's units by the crew that installed them (units.installed_by_crew_id),
+ * counting a crew only when it is a crew of the company the finding is assigned to: a habit is the
+ * crew's when its own company answers for it. Units with no such crew are counted under
+ * "crew not recorded" (crewId null) of that company, so a company's crews add up to its count.
  */
 export async function loadRecurring(sequelize: Sequelize, scope: FindingScope): Promise<RecurringResponse> {
   // Depends on the findings' shape (type, unit, company, logged time, voided) and the structure
@@ -124,12 +129,25 @@ async function computeRecurring(sequelize: Sequelize, scope: FindingScope): Prom
                 JOIN companies c ON c.id = pc.company_id
                GROUP BY pc.defect_key, pc.company_id, c.name) y
        GROUP BY y.defect_key
+    ), by_crew AS (
+      SELECT z.defect_key,
+             json_agg(json_build_object('companyId', z.company_id, 'companyName', z.company_name, 'crewId', z.crew_id, 'name', z.crew_name, 'count', z.n)
+                      ORDER BY z.company_name, z.company_id, z.crew_id IS NULL, lower(z.crew_name), z.crew_id) AS list
+        FROM (SELECT pc.defect_key, pc.company_id, c.name AS company_name, cr.id AS crew_id, cr.name AS crew_name, count(*) AS n
+                FROM per_unit_company pc
+                JOIN recurring r ON r.defect_key = pc.defect_key AND r.share >= ${minShare}::numeric
+                JOIN companies c ON c.id = pc.company_id
+                JOIN units u ON u.id = pc.unit_id
+                LEFT JOIN crews cr ON cr.id = u.installed_by_crew_id AND cr.company_id = pc.company_id
+               GROUP BY pc.defect_key, pc.company_id, c.name, cr.id, cr.name) z
+       GROUP BY z.defect_key
     )
     SELECT r.defect_key, r.catalogue_item_id, r.code, r.title, r.unit_count, r.checked_units, r.share::float8 AS share, r.recurring_since,
-           bl.list AS by_level, bc.list AS by_company
+           bl.list AS by_level, bc.list AS by_company, bw.list AS by_crew
       FROM recurring r
       LEFT JOIN by_level bl ON bl.defect_key = r.defect_key
       LEFT JOIN by_company bc ON bc.defect_key = r.defect_key
+      LEFT JOIN by_crew bw ON bw.defect_key = r.defect_key
      WHERE r.share >= ${minShare}::numeric
      ORDER BY r.unit_count DESC, r.code, r.title, r.defect_key`;
   const rows = await selectTuned<RecurringRow>(sequelize, sql, b.values);
@@ -144,6 +162,7 @@ async function computeRecurring(sequelize: Sequelize, scope: FindingScope): Prom
     recurringSince: new Date(r.recurring_since).toISOString(),
     byLevel: (r.by_level ?? []).map((x) => ({ ...x, count: Number(x.count) })),
     byCompany: (r.by_company ?? []).map((x) => ({ ...x, count: Number(x.count) })),
+    byCrew: (r.by_crew ?? []).map((x) => ({ ...x, count: Number(x.count) })),
   }));
   return { thresholds, items, companyScope: scope.companyId };
 }

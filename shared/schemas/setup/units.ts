@@ -22,6 +22,8 @@ const unitFields = {
   levelId: id('level'),
   spaceId: id('space').nullable().optional(),
   systemId: id('system').nullable().optional(),
+  /** The crew that installed the unit (a crew of a company on the job); null clears it. */
+  installedByCrewId: id('crew').nullable().optional(),
   /** The unit's own mounting position; null or left out: its model's (or its kind's) decides. */
   mountPosition: mountPositionSchema.nullable().optional(),
 };
@@ -75,14 +77,20 @@ export interface UnitDto {
   mountPosition: MountPosition | null;
   /** The position that applies (unit, else model, else kind) and where it came from; null when none. */
   effectiveMount: { mount: MountPosition; from: MountSource } | null;
+  /** The crew that installed the unit, with its company; null when not recorded. */
+  installedByCrew: { id: string; name: string; companyId: string; companyName: string } | null;
   /** Pin on the level's plan (fractions 0..1 of its width / height); both null when not placed. */
   pinX: number | null;
   pinY: number | null;
   version: number;
 }
 
-/** Fields a CSV column can map to. Level, space, system and model are matched by name. */
-export const UNIT_IMPORT_FIELDS = ['tag', 'kind', 'model', 'capacity', 'level', 'space', 'system', 'mount'] as const;
+/**
+ * Fields a CSV column can map to. Level, space, system and model are matched by name. `crew` (optional)
+ * is the installing crew, matched by name within `crewCompany` when that column is given, else
+ * across the job's crews (a name two companies use is a row error asking for the company).
+ */
+export const UNIT_IMPORT_FIELDS = ['tag', 'kind', 'model', 'capacity', 'level', 'space', 'system', 'crew', 'crewCompany', 'mount'] as const;
 export type UnitImportField = (typeof UNIT_IMPORT_FIELDS)[number];
 /** Columns every import needs (mapped or found by header name). */
 export const UNIT_IMPORT_REQUIRED: readonly UnitImportField[] = ['tag', 'kind', 'level'];
@@ -113,6 +121,8 @@ export interface UnitImportRowError {
 
 export interface UnitImportPreviewRow {
   line: number;
+  /** The installing crew as "Company · Crew", or null when the row names none. */
+  crewName: string | null;
   tag: string;
   kind: UnitKindKey;
   modelName: string | null;

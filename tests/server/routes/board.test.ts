@@ -109,7 +109,9 @@ interface Rows {
     ceiling_excluded_reason: string | null;
     ceiling_excluded_at: Date | null;
     excluded_by: { id: string; name: string } | null;
+    installed_by_crew_id: string | null;
   }[];
+  crews: { id: string; company_id: string; name: string }[];
   systems: { id: string; name: string }[];
   checks: { id: string; unit_id: string; checked_at: Date; complete: boolean }[];
   items: { id: string; code: string; title: string; unit_kinds: string[]; needs_ceiling_access: boolean }[];
@@ -129,11 +131,12 @@ async function readRows(jobId: string): Promise<Rows> {
     ),
     levels: await q(`SELECT id, name, position FROM levels WHERE job_id = $1`),
     units: await q(
-      `SELECT u.id, u.tag, u.kind, u.level_id, u.system_id, u.version, u.ceiling_excluded_reason, u.ceiling_excluded_at,
+      `SELECT u.id, u.tag, u.kind, u.level_id, u.system_id, u.version, u.ceiling_excluded_reason, u.ceiling_excluded_at, u.installed_by_crew_id,
               CASE WHEN x.id IS NULL THEN NULL ELSE json_build_object('id', x.id, 'name', x.name) END AS excluded_by
          FROM units u LEFT JOIN users x ON x.id = u.ceiling_excluded_by WHERE u.job_id = $1`,
     ),
     systems: await q(`SELECT id, name FROM systems WHERE job_id = $1`),
+    crews: await q(`SELECT id, company_id, name FROM crews WHERE job_id = $1`),
     checks: await q(`SELECT id, unit_id, checked_at, complete FROM unit_checks WHERE job_id = $1`),
     items: await q(`SELECT id, code, title, unit_kinds, needs_ceiling_access FROM catalogue_items WHERE job_id = $1`),
     events: await q(`SELECT id, finding_id, kind, at, "from", "to" FROM finding_events WHERE job_id = $1`),
@@ -397,6 +400,14 @@ function expectedRecurring(rows: Rows, companyId: string | null): RecurringRespo
     for (const unitId of firstAt.keys()) perLevel.set(units.get(unitId)!.level_id, (perLevel.get(units.get(unitId)!.level_id) ?? 0) + 1);
     const perCompany = new Map<string, Set<string>>();
     for (const f of mine) perCompany.set(f.company_id, (perCompany.get(f.company_id) ?? new Set()).add(f.unit_id!));
+    // A unit's crew counts for a finding only when it is a crew of the finding's company.
+    const perCrew = new Map<string, { companyId: string; crewId: string | null; units: Set<string> }>();
+    for (const f of mine) {
+      const crew = rows.crews.find((c) => c.id === units.get(f.unit_id!)!.installed_by_crew_id && c.company_id === f.company_id) ?? null;
+      const k = `${f.company_id}|${crew?.id ?? ''}`;
+      const entry = perCrew.get(k) ?? { companyId: f.company_id, crewId: crew?.id ?? null, units: new Set<string>() };
+      perCrew.set(k, entry.units.add(f.unit_id!) && entry);
+    }
     const shown = key === item.id ? item.title : [...mine].sort((a, b) => a.logged_at.getTime() - b.logged_at.getTime() || a.unit_id!.localeCompare(b.unit_id!))[0]!.title!;
     items.push({
       key,
@@ -411,6 +422,15 @@ function expectedRecurring(rows: Rows, companyId: string | null): RecurringRespo
         .map(([levelId, count]) => ({ levelId, name: levels.get(levelId)!.name, count }))
         .sort((a, b) => levels.get(a.levelId)!.position - levels.get(b.levelId)!.position),
       byCompany: [...perCompany.entries()].map(([id, set]) => ({ companyId: id, name: names.get(id)!, count: set.size })).sort(byKey('companyId')),
+      byCrew: sortCrews(
+        [...perCrew.values()].map((c) => ({
+          companyId: c.companyId,
+          companyName: names.get(c.companyId)!,
+          crewId: c.crewId,
+          name: c.crewId ? rows.crews.find((x) => x.id === c.crewId)!.name : null,
+          count: c.units.size,
+        })),
+      ),
     });
   }
   return { thresholds, items: items.sort(byKey('key')), companyScope: companyId };
@@ -419,8 +439,14 @@ function expectedRecurring(rows: Rows, companyId: string | null): RecurringRespo
 function normaliseRecurring(r: RecurringResponse): RecurringResponse {
   return {
     ...r,
-    items: [...r.items].sort(byKey('key')).map((i) => ({ ...i, share: Math.round(i.share * 1e9) / 1e9, byCompany: [...i.byCompany].sort(byKey('companyId')) })),
+    items: [...r.items]
+      .sort(byKey('key'))
+      .map((i) => ({ ...i, share: Math.round(i.share * 1e9) / 1e9, byCompany: [...i.byCompany].sort(byKey('companyId')), byCrew: sortCrews(i.byCrew) })),
   };
+}
+
+function sortCrews<T extends { companyId: string; crewId: string | null }>(list: T[]): T[] {
+  return [...list].sort((a, b) => `${a.companyId}|${a.crewId ?? ''}`.localeCompare(`${b.companyId}|${b.crewId ?? ''}`));
 }
 
 /** Status at the end of each day (job time zone): the last status event on or before that date. */
@@ -861,6 +887,11 @@ describe('a small hand-built job', () => {
           byCompany: expect.arrayContaining([
             { companyId: A, name: expect.any(String), count: 3 }, // F1, F3 (now A's) on U1; F2 on U2; F6 on U3
             { companyId: B, name: expect.any(String), count: 1 }, // F5 on U3
+          ]),
+          // No unit here records its crew: each company's units are "crew not recorded".
+          byCrew: expect.arrayContaining([
+            { companyId: A, companyName: expect.any(String), crewId: null, name: null, count: 3 },
+            { companyId: B, companyName: expect.any(String), crewId: null, name: null, count: 1 },
           ]),
         },
       ],

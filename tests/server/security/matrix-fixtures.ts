@@ -11,7 +11,7 @@ import { randomUUID } from 'node:crypto';
 import request, { type Response } from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
 import type { TrimoutApp } from '../../../server/app';
-import { CatalogueItem, Level, User } from '../../../server/models';
+import { CatalogueItem, Crew, Level, User } from '../../../server/models';
 import { signUnsubscribeToken } from '../../../server/digests/unsubscribeToken';
 import { issueToken } from '../../../server/services/tokens';
 import { caller, type Caller } from '../../support/api';
@@ -313,6 +313,21 @@ export const CASES: Record<string, RouteCase> = {
       const company = await buildCompany();
       await linkCompany(w.job.id, company.id, []);
       return { path: J(w, `/companies/${company.id}`), headers: IF_MATCH };
+    },
+  },
+  // Crews: company A's, so subcontractor A manages them and B does not see them.
+  'GET /api/jobs/:jobId/crews': { setup: async (w) => ({ path: J(w, '/crews') }) },
+  'POST /api/jobs/:jobId/crews': { setup: async (w) => ({ path: J(w, '/crews'), body: { companyId: w.subA.companyId, name: `Crew ${uniq()}` } }) },
+  'PATCH /api/jobs/:jobId/crews/:crewId': {
+    setup: async (w) => {
+      const crew = await Crew.create({ jobId: w.job.id, companyId: w.subA.companyId, name: `Crew ${uniq()}` });
+      return { path: J(w, `/crews/${crew.id}`), body: { name: `Crew ${uniq()}` }, headers: IF_MATCH };
+    },
+  },
+  'DELETE /api/jobs/:jobId/crews/:crewId': {
+    setup: async (w) => {
+      const crew = await Crew.create({ jobId: w.job.id, companyId: w.subA.companyId, name: `Crew ${uniq()}` });
+      return { path: J(w, `/crews/${crew.id}`), headers: IF_MATCH };
     },
   },
   'GET /api/jobs/:jobId/members': { setup: async (w) => ({ path: J(w, '/members') }) },

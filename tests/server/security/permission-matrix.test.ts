@@ -117,6 +117,12 @@ export const EXPECTED: Record<string, Row> = {
   'POST /api/jobs/:jobId/companies': gcOnly(201),
   'PATCH /api/jobs/:jobId/companies/:companyId': gcOnly(200),
   'DELETE /api/jobs/:jobId/companies/:companyId': gcOnly(204),
+  // Crews (of company A here): the GC manager for any company, a subcontractor for their own company;
+  // another company's crew is out of the subcontractor's scope (404), naming one for it is 403.
+  'GET /api/jobs/:jobId/crews': member(200),
+  'POST /api/jobs/:jobId/crews': r(401, 201, 403, 201, 403),
+  'PATCH /api/jobs/:jobId/crews/:crewId': r(401, 200, 403, 200, 404),
+  'DELETE /api/jobs/:jobId/crews/:crewId': r(401, 204, 403, 204, 404),
   'PATCH /api/jobs/:jobId/members/:memberId': gcOnly(200),
   'DELETE /api/jobs/:jobId/members/:memberId': gcOnly(204),
   'POST /api/jobs/:jobId/catalogue': gcOnly(201),
