@@ -8,9 +8,9 @@
 import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
 import type { Page } from 'playwright-core';
-import { CatalogueItem, Job, Photo, UnitModel } from '../../server/models';
+import { CatalogueItem, Photo, UnitModel } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/seed/demo';
-import { buildLevel, buildUnit, copyCatalogue } from '../support/factories';
+import { demoLevel } from '../support/demo';
 import { pageHolds, PHONE, serviceWorkerControls, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
 
@@ -31,15 +31,13 @@ beforeAll(async () => {
   s3 = await startFakeS3();
   h = await startBrowserHarness({ objectStore: s3.store });
   await seedDemo(h.db);
-  const job = await Job.findOne({ where: { name: 'Cinder Lane Commons' } });
-  if (!job) throw new Error('The demo job is missing.');
-  jobId = job.id;
-  if ((await CatalogueItem.count({ where: { jobId } })) === 0) await copyCatalogue(jobId);
-  const level = await buildLevel(jobId, { name: levelName });
-  levelId = level.id;
-  const model = await UnitModel.create({ jobId, name: `Cassette KX-${suffix}`, modelNumber: null, unitKind: 'cassette_4way', nominalCapacity: null });
-  await model.update({ limits: { max_pump_lift: { value: 762, stated: 30, unit: 'in', text: '30 in', source: 'installation manual p. 14 (invented)' } } });
-  for (const tag of tags) unitIds.push((await buildUnit(jobId, level.id, { tag, kind: 'cassette_4way', modelId: model.id })).id);
+  const made = await demoLevel(levelName, tags, { kind: 'cassette_4way', modelName: `Cassette KX-${suffix}` });
+  ({ jobId, levelId } = made);
+  unitIds.push(...made.unitIds);
+  await UnitModel.update(
+    { limits: { max_pump_lift: { value: 762, stated: 30, unit: 'in', text: '30 in', source: 'installation manual p. 14 (invented)' } } },
+    { where: { id: made.modelId! } },
+  );
 });
 afterAll(async () => {
   await h?.close();

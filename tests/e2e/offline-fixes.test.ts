@@ -9,11 +9,10 @@
 import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
-import { CatalogueItem, Company, JobCompany, UnitModel } from '../../server/models';
+import { CatalogueItem, Company, JobCompany } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_COMPANIES, DEMO_PASSWORD } from '../../server/seed/demo';
 import { signIn } from '../support/app';
-import { demoJob } from '../support/demo';
-import { buildLevel, buildUnit, copyCatalogue } from '../support/factories';
+import { demoJob, demoLevel } from '../support/demo';
 import { PHONE, pageHolds, serviceWorkerControls, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { startFakeS3, type FakeS3 } from '../support/storage';
 import { countRows } from '../support/db';
@@ -38,16 +37,14 @@ beforeAll(async () => {
   h = await startBrowserHarness({ objectStore: s3.store });
   await seedDemo(h.db);
   jobId = (await demoJob()).id;
-  if ((await CatalogueItem.count({ where: { jobId } })) === 0) await copyCatalogue(jobId);
   const company = await Company.findOne({ where: { name: DEMO_COMPANIES.mechanical } });
   mechanicalId = company!.id;
   if (!(await JobCompany.findOne({ where: { jobId, companyId: mechanicalId } }))) {
     await JobCompany.create({ jobId, companyId: mechanicalId, trades: ['mechanical', 'plumbing', 'insulation', 'controls'] });
   }
-  const level = await buildLevel(jobId, { name: `Fixes offline ${suffix}` });
-  levelId = level.id;
-  const model = await UnitModel.create({ jobId, name: `Cassette FX-${suffix}`, modelNumber: null, unitKind: 'cassette_4way', nominalCapacity: null });
-  for (const tag of tags) unitIds.push((await buildUnit(jobId, level.id, { tag, kind: 'cassette_4way', modelId: model.id })).id);
+  const made = await demoLevel(`Fixes offline ${suffix}`, tags, { kind: 'cassette_4way', modelName: `Cassette FX-${suffix}` });
+  levelId = made.levelId;
+  unitIds.push(...made.unitIds);
   browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', headless: true, args: ['--no-sandbox', '--disable-gpu'] });
 });
 afterAll(async () => {

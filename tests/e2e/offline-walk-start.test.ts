@@ -7,10 +7,8 @@
  * in SQL.
  */
 import { randomUUID } from 'node:crypto';
-import { CatalogueItem, UnitModel } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/seed/demo';
-import { demoJob } from '../support/demo';
-import { buildLevel, buildUnit, copyCatalogue } from '../support/factories';
+import { demoLevel } from '../support/demo';
 import { PHONE, serviceWorkerControls, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { waitFor } from '../support/wait';
 
@@ -27,12 +25,9 @@ const inspector = DEMO_ACCOUNTS.find((a) => a.role === 'inspector')!;
 beforeAll(async () => {
   h = await startBrowserHarness();
   await seedDemo(h.db);
-  jobId = (await demoJob()).id;
-  if ((await CatalogueItem.count({ where: { jobId } })) === 0) await copyCatalogue(jobId);
-  const level = await buildLevel(jobId, { name: `Walk offline ${suffix}` });
-  levelId = level.id;
-  const model = await UnitModel.create({ jobId, name: `Cassette WS-${suffix}`, modelNumber: null, unitKind: 'cassette_4way', nominalCapacity: null });
-  for (const tag of tags) unitIds.push((await buildUnit(jobId, level.id, { tag, kind: 'cassette_4way', modelId: model.id })).id);
+  const made = await demoLevel(`Walk offline ${suffix}`, tags, { kind: 'cassette_4way', modelName: `Cassette WS-${suffix}` });
+  ({ jobId, levelId } = made);
+  unitIds.push(...made.unitIds);
 });
 afterAll(async () => {
   await h?.close();

@@ -7,11 +7,10 @@
  */
 import { randomUUID } from 'node:crypto';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
-import { CatalogueItem, Finding, Walk } from '../../server/models';
+import { Finding, Walk } from '../../server/models';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/seed/demo';
-import { buildLevel, buildUnit, copyCatalogue } from '../support/factories';
 import { PHONE, startBrowserHarness, type BrowserHarness } from '../support/browser';
-import { demoJob } from '../support/demo';
+import { demoLevel } from '../support/demo';
 import { waitFor } from '../support/wait';
 
 jest.setTimeout(240_000);
@@ -29,10 +28,9 @@ const inspector = DEMO_ACCOUNTS.find((a) => a.role === 'inspector')!;
 beforeAll(async () => {
   h = await startBrowserHarness();
   await seedDemo(h.db);
-  jobId = (await demoJob()).id;
-  if ((await CatalogueItem.count({ where: { jobId } })) === 0) await copyCatalogue(jobId);
-  levelId = (await buildLevel(jobId, { name: levelName })).id;
-  for (const tag of tags) unitIds[tag] = (await buildUnit(jobId, levelId, { tag, kind: 'wall_mounted' })).id;
+  const made = await demoLevel(levelName, tags, { kind: 'wall_mounted' });
+  ({ jobId, levelId } = made);
+  tags.forEach((tag, i) => (unitIds[tag] = made.unitIds[i]!));
   browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', headless: true, args: ['--no-sandbox', '--disable-gpu'] });
 });
 afterAll(async () => {
