@@ -1,13 +1,14 @@
 /**
  * The unit check's measured items, computed on the phone as the inspector types: parse the text
  * the trade's way (shared/calc parseQuantity), then evaluate the item's rule against the limit
- * from the unit's model, the job's settings or a built-in code value (shared/calc evaluateRule).
+ * from the unit's model, the job's settings or a built-in code value (shared/calc evaluateItemRule).
  * The server evaluates the same rule again when the check is saved.
  */
 import { unitLimitResolver, unitLimitSources } from '../../shared/rules/limits';
 import { formatQuantity } from '../../shared/calc/format';
 import { parseQuantity } from '../../shared/calc/quantity';
-import { evaluateRule, type LimitResolver, type LimitSources, type RuleResult } from '../../shared/calc/rules';
+import { evaluateItemRule } from '../../shared/calc/itemRules';
+import type { LimitResolver, LimitSources, RuleResult } from '../../shared/calc/rules';
 import type { MeasuredRule, UnitSystem } from '../../shared/catalogue/types';
 import type { JobDetail, UnitModelDto } from '../../shared/schemas/setup';
 
@@ -32,7 +33,7 @@ export function limitResolverFor(
 
 /** Parse and evaluate one measured item's text (or yes/no answer). */
 export function measure(rule: MeasuredRule, text: string, resolve: LimitResolver, system: UnitSystem): MeasurementView {
-  const evaluate = (v: number | boolean | null) => evaluateRule(rule, v, resolve, { system });
+  const evaluate = (v: number | boolean | null) => evaluateItemRule(rule, v, resolve, { system });
   if (text.trim() === '') return { kind: 'empty', result: evaluate(null) };
   const parsed = parseQuantity(text, rule.quantity, { system });
   if (!parsed.ok) return { kind: 'parse_error', error: parsed.error, result: evaluate(null) };

@@ -3,7 +3,7 @@
  * - the responsible company suggested from the defect type's trade and the job's companies
  *   (the rule itself: shared/rules/suggestedCompany.ts; due dates: shared/rules/due.ts);
  * - measured values parsed (shared/calc parseQuantity) and evaluated against the unit's model
- *   limits, the job's settings and the job's code editions (evaluateRule + makeLimitResolver);
+ *   limits, the job's settings and the job's code editions (evaluateItemRule + makeLimitResolver);
  * - per-job finding numbers (#1, #2 ...) handed out under a row lock;
  * - the append-only finding history (finding_events: create only; the database refuses changes).
  */
@@ -11,7 +11,8 @@ import { unitLimitResolver } from '../../shared/rules/limits';
 import { fixNeedsMeasurement, measurementVerdict, newMeasurementNeeded, sameLimitResolver } from '../../shared/rules/remeasure';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import { parseQuantity } from '../../shared/calc/quantity';
-import { evaluateRule, type LimitResolver, type RuleResult } from '../../shared/calc/rules';
+import { evaluateItemRule } from '../../shared/calc/itemRules';
+import type { LimitResolver, RuleResult } from '../../shared/calc/rules';
 import type { FindingEventKind } from '../../shared/schemas/findings';
 import { suggestedCompany } from '../../shared/rules/suggestedCompany';
 import type { Severity } from '../../shared/words';
@@ -96,7 +97,7 @@ export function measure(
   const parsed = parseQuantity(text, rule.quantity, { system: job.unitSystem, allowNegative: false });
   if (!parsed.ok) throw badRequest(`${field}: ${parsed.error}`, { [field]: parsed.error });
   const measured = rule.quantity === 'boolean' ? parsed.value === 1 : parsed.value;
-  const result = evaluateRule(rule, measured, resolver, {
+  const result = evaluateItemRule(rule, measured, resolver, {
     system: job.unitSystem,
     source: rule.comparison === 'yes_no' ? `${item.code} ${item.title}` : undefined,
   });

@@ -7,3 +7,4 @@ export * from './refrigerant';
 export * from './electrical';
 export * from './clearance';
 export * from './supports';
+export * from './itemRules';

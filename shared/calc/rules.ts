@@ -10,6 +10,10 @@
  * measurement.
  * Margin is signed, in base units: positive = inside the limit, 0 = at the limit, negative = outside.
  * A missing limit is never a pass: the result is `limit_not_set` with pass = null.
+ *
+ * This engine knows no code calculation, so the calculations (condensate.ts, supports.ts …) can
+ * use it without an import cycle. A catalogue item's rule that names one (MeasuredRule.codeCheck)
+ * is evaluated by itemRules.ts evaluateItemRule, which the walk and the server call.
  */
 import type {
   EditionChoice,
@@ -23,7 +27,6 @@ import type {
   UnitSystem,
 } from '../catalogue/types';
 import { JOB_SETTINGS, MODEL_LIMITS } from '../catalogue/types';
-import { checkDuctlessDrainTrap } from './condensate';
 import { codeLimitSource, pickCodeLimit } from './limits';
 import { formatQuantity, roundToResolution, toBase, unitKind } from './quantity';
 
@@ -59,24 +62,6 @@ export interface EvaluateOptions {
   system?: UnitSystem;
   /** Source named for a yes/no rule (it has no limit reference), e.g. "IMC 2018 Section 307.2.4.1". */
   source?: string;
-  /** The code editions the job uses, for a yes/no rule a code calculation decides (default: DEFAULT_EDITIONS). */
-  editions?: EditionChoice;
-}
-
-/**
- * A yes/no rule that names a code calculation (MeasuredRule.codeCheck) is decided by it, so the
- * answer and its source (document, edition, section) are the calculation's own.
- */
-function decidedByCode(rule: MeasuredRule, answer: boolean | null, options: EvaluateOptions): RuleResult | undefined {
-  switch (rule.codeCheck) {
-    case 'ductless_check_valve_or_trap': {
-      // One answer covers both: the inspector records whether either is present.
-      const { key: _key, label: _label, ...result } = checkDuctlessDrainTrap({ checkValve: answer, trap: answer, editions: options.editions });
-      return result;
-    }
-    default:
-      return undefined;
-  }
 }
 
 function isMissing(l: LimitLookup): l is { missing: string } | undefined {
@@ -125,10 +110,6 @@ export function evaluateRule(
   const m = measured ?? null;
 
   if (rule.comparison === 'yes_no') {
-    if (rule.codeCheck && rule.expected === true && (m === null || typeof m === 'boolean')) {
-      const decided = decidedByCode(rule, m, { ...options, editions: options.editions ?? resolveLimit.editions });
-      if (decided) return decided;
-    }
     const source = options.source ?? 'Expected answer';
     if (rule.expected === undefined) {
       return base({ status: 'limit_not_set', measured: m, limitSource: source, message: `${what}: limit not set — the rule has no expected answer.` });

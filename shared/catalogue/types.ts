@@ -81,7 +81,7 @@ export interface MeasuredRule {
   codeCheck?: CodeCheckKey;
 }
 
-/** Code calculations a yes/no rule may be decided by (shared/calc/rules.ts evaluateRule). */
+/** Code calculations a yes/no rule may be decided by (shared/calc/itemRules.ts evaluateItemRule). */
 export const CODE_CHECKS = ['ductless_check_valve_or_trap'] as const;
 export type CodeCheckKey = (typeof CODE_CHECKS)[number];
 

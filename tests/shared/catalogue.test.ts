@@ -17,6 +17,7 @@ import {
   type QuantityKind,
 } from '../../shared/catalogue';
 import { CODE_LIMITS } from '../../shared/calc/limits';
+import { evaluateItemRule } from '../../shared/calc/itemRules';
 import { evaluateRule, makeLimitResolver } from '../../shared/calc/rules';
 import { SEVERITIES, TRADE_KEYS, UNIT_KIND_KEYS } from '../../shared/words';
 
@@ -340,17 +341,19 @@ describe('built-in defect catalogue', () => {
     test('the rule is decided by the IMC 307.2.4.1 calculation, with the job edition as its source', () => {
       const rule = codeItem.measuredRule!;
       // IMC 2018 Section 307.2.4.1: ductless mini-split drains have a check valve or a trap.
-      const yes = evaluateRule(rule, true, () => undefined);
+      const yes = evaluateItemRule(rule, true, () => undefined);
       expect(yes).toMatchObject({ status: 'pass', limitSource: 'IMC 2018 Section 307.2.4.1' });
-      const no = evaluateRule(rule, false, () => undefined, { editions: { IMC: '2021' } });
+      const no = evaluateItemRule(rule, false, () => undefined, { editions: { IMC: '2021' } });
       expect(no).toMatchObject({ status: 'fail', pass: false, limitSource: 'IMC 2021 Section 307.2.4.1' });
-      expect(evaluateRule(rule, null, () => undefined).status).toBe('not_measured');
+      expect(evaluateItemRule(rule, null, () => undefined).status).toBe('not_measured');
       // The phone and the server pass the unit's resolver: its job's editions name the section.
-      const job2021 = evaluateRule(rule, true, makeLimitResolver({ editions: { IMC: '2021' } }));
+      const job2021 = evaluateItemRule(rule, true, makeLimitResolver({ editions: { IMC: '2021' } }));
       expect(job2021).toMatchObject({ status: 'pass', limitSource: 'IMC 2021 Section 307.2.4.1' });
       // The same rule without the code check names only the source it was given.
-      const plain = evaluateRule({ ...rule, codeCheck: undefined }, true, () => undefined, { source: 'DR-12' });
+      const plain = evaluateItemRule({ ...rule, codeCheck: undefined }, true, () => undefined, { source: 'DR-12' });
       expect(plain.limitSource).toBe('DR-12');
+      // The plain engine knows no code calculation (so the calculations can use it without a cycle).
+      expect(evaluateRule(rule, true, () => undefined, { source: 'DR-12' }).limitSource).toBe('DR-12');
     });
 
     test('"trap where the manual says none" stays a separate practice item that defers to the manual', () => {

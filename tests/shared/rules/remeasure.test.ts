@@ -6,7 +6,8 @@
  * Source: IMC (International Mechanical Code) Section 307.2.4.1, ductless mini-split drains (the
  * section number is the same in the 2018 and 2021 editions; from memory, confirm in the job's copy).
  */
-import { evaluateRule, makeLimitResolver } from '../../../shared/calc/rules';
+import { evaluateItemRule } from '../../../shared/calc/itemRules';
+import { makeLimitResolver } from '../../../shared/calc/rules';
 import { BUILTIN_CATALOGUE } from '../../../shared/catalogue';
 import { sameLimitResolver } from '../../../shared/rules/remeasure';
 
@@ -19,10 +20,10 @@ it('the catalogue has a check valve or trap item the code decides', () => {
 it('keeps the job’s code editions: the section is named in the job’s edition', () => {
   const rule = trap!.measuredRule!;
   const unitResolver = makeLimitResolver({ editions: { IMC: '2021' } });
-  const original = evaluateRule(rule, false, unitResolver);
+  const original = evaluateItemRule(rule, false, unitResolver);
   expect(original.limitSource).toBe('IMC 2021 Section 307.2.4.1');
   const again = sameLimitResolver(rule, original, unitResolver);
   expect(again.editions).toEqual({ IMC: '2021' });
-  const result = evaluateRule(rule, true, again);
+  const result = evaluateItemRule(rule, true, again);
   expect({ pass: result.pass, source: result.limitSource }).toEqual({ pass: true, source: 'IMC 2021 Section 307.2.4.1' });
 });
