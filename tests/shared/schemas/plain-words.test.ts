@@ -13,6 +13,7 @@ import * as findings from '../../../shared/schemas/findings';
 import * as preferences from '../../../shared/schemas/preferences';
 import * as session from '../../../shared/schemas/session';
 import * as setup from '../../../shared/schemas/setup';
+import * as testRecords from '../../../shared/schemas/testRecords';
 
 /** zod's English wording (zod/v4/locales/en), and words a person should never read at a field. */
 const ZOD_WORDING = [/^Invalid\b/, /^Too (big|small)\b/, /^Unrecognized key/, /expected .* received/i, /^Required$/, /\bexpected\b.*[<>]=?/i, /\b(undefined|NaN)\b/];
@@ -46,7 +47,7 @@ function wrongFor(field: Schema, depth = 0): unknown[] {
   return out;
 }
 
-const modules = { auth, board, exports: exportsSchemas, findings, preferences, session, setup };
+const modules = { auth, board, exports: exportsSchemas, findings, preferences, session, setup, testRecords };
 const schemas = Object.entries(modules).flatMap(([mod, exported]) =>
   Object.entries(exported)
     .filter((e): e is [string, Schema] => e[1] instanceof z.ZodType)
