@@ -79,11 +79,12 @@ function unitsText(r: RecurringDefect): string {
  * crew. Units whose crew is not recorded are counted too, so a company's crews add up to its count.
  */
 function crewPills(r: RecurringDefect): { key: string; name: string; count: number }[] {
-  return r.byCrew.map((c) => ({
-    key: `${c.companyId}|${c.crewId ?? ''}`,
-    name: `${c.companyName} · ${c.name ?? 'crew not recorded'}`,
-    count: c.count,
-  }));
+  // The company is named only when the crews are of more than one: on a phone every word counts.
+  const companies = new Set(r.byCrew.map((c) => c.companyId)).size;
+  return r.byCrew.map((c) => {
+    const crew = c.name ?? (companies > 1 ? 'crew not recorded' : 'Crew not recorded');
+    return { key: `${c.companyId}|${c.crewId ?? ''}`, name: companies > 1 ? `${c.companyName} · ${crew}` : crew, count: c.count };
+  });
 }
 
 function Pills({ items, testID }: { items: { key: string; name: string; count: number }[]; testID?: string }) {
@@ -161,6 +162,7 @@ const styles = StyleSheet.create({
   fill: { height: 6, backgroundColor: colors.ochre },
   shareCell: { gap: 4 },
   breakdown: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
-  pills: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
+  // Shrinks to the card and wraps: a long crew name never pushes the page sideways.
+  pills: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs, flexShrink: 1, minWidth: 0, maxWidth: '100%' },
   pill: { borderRadius: radius.sm, backgroundColor: colors.paper, borderWidth: 1, borderColor: colors.line, paddingHorizontal: space.sm, paddingVertical: 2 },
 });
