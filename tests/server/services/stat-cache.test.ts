@@ -178,6 +178,26 @@ describe('tallies and the stat cache', () => {
     await expectCacheExact();
   });
 
+  it('crews: a crew named, units given that crew, then the crew renamed (recurring by crew follows each)', async () => {
+    const [crew] = await q<{ id: string }>(
+      `INSERT INTO crews (id, job_id, company_id, name, version, created_at, updated_at)
+       VALUES (gen_random_uuid(), $1, $2, 'Stat crew', 1, now(), now()) RETURNING id`,
+      [bench.jobId, subScope.companyId],
+    );
+    await expectCacheExact();
+    await db.sequelize.query(
+      `UPDATE units SET installed_by_crew_id = $3 WHERE id IN (
+         SELECT unit_id FROM findings WHERE job_id = $1 AND company_id = $2 AND unit_id IS NOT NULL AND status <> 'voided' ORDER BY number LIMIT 20)`,
+      { bind: [bench.jobId, subScope.companyId, crew!.id] },
+    );
+    await expectCacheExact();
+    // Only the crews table changes here: its own trigger must raise the cached figures' version.
+    await db.sequelize.query(`UPDATE crews SET name = 'Stat crew (renamed)' WHERE id = $1`, { bind: [crew!.id] });
+    await expectCacheExact();
+    const recurring = await loadRecurring(db.sequelize, gcScope);
+    expect(recurring.items.some((i) => i.byCrew.some((c) => c.name === 'Stat crew (renamed)'))).toBe(true);
+  });
+
   it('a reassignment (event, then finding) and a re-inspection (finding, then event) at the same moment do not deadlock', async () => {
     // The two write paths touch the versions in opposite orders. Raised mid-transaction, each
     // would hold a version row the other waits for (PostgreSQL would abort one as a deadlock);
