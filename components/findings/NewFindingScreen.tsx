@@ -30,7 +30,7 @@ export function NewFindingScreen({ jobId, params }: { jobId: string; params: New
   const levels = useLevelsQuery(jobId);
   const spaces = useSpacesQuery(jobId);
   const catalogue = useCatalogueQuery(jobId, {});
-  const resolve = useMemo(() => limitResolverFor(model.data ?? null, job.data ?? null), [model.data, job.data]);
+  const resolve = useMemo(() => limitResolverFor(model.data ?? null, job.data ?? null, unit.data ?? null), [model.data, job.data, unit.data]);
 
   const space_ = params.spaceId ? spaces.data?.find((s) => s.id === params.spaceId) : undefined;
   const level = levels.data?.find((l) => l.id === (params.levelId ?? unit.data?.levelId ?? space_?.levelId));

@@ -5,7 +5,7 @@ import { StyleSheet, View } from 'react-native';
 import type { z } from 'zod';
 import { CODE_LIMITS } from '../../shared/calc/limits';
 import { HAZARDOUS_GROUPS } from '../../shared/catalogue';
-import { CATALOGUE_GROUPS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type CodeCheckKey, type LimitRef } from '../../shared/catalogue/types';
+import { CATALOGUE_GROUPS, CODE_CHECK_RULES, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type CodeCheckKey, type LimitRef } from '../../shared/catalogue/types';
 import {
   CATALOGUE_TEXT_LIMITS,
   createCatalogueItemSchema,
@@ -278,7 +278,7 @@ interface Draft {
     upper: string;
     tolerance: string;
     expected: 'yes' | 'no';
-    /** Kept from the item: a yes/no rule a code calculation decides (not edited here). */
+    /** Kept from the item: the code calculation that decides the rule (not edited here). */
     codeCheck?: CodeCheckKey;
   };
 }
@@ -323,7 +323,13 @@ function bodyOf(d: Draft, withCode: boolean): CreateCatalogueItemInput {
           ...(r.comparison === 'between' ? { upper: toRef(r.upper) } : {}),
           ...(r.comparison === 'equal_within' ? { tolerance: Number(r.tolerance) } : {}),
           ...(r.comparison === 'yes_no' ? { expected: r.expected === 'yes' } : {}),
-          ...(r.comparison === 'yes_no' && r.expected === 'yes' && r.codeCheck ? { codeCheck: r.codeCheck } : {}),
+          // The code check is kept while the rule keeps the shape it decides (yes/no passing on yes, or its comparison and quantity).
+          ...(r.codeCheck &&
+          CODE_CHECK_RULES[r.codeCheck].comparison === r.comparison &&
+          CODE_CHECK_RULES[r.codeCheck].quantity === r.quantity &&
+          (r.comparison !== 'yes_no' || r.expected === 'yes')
+            ? { codeCheck: r.codeCheck }
+            : {}),
         }
       : null;
   return {

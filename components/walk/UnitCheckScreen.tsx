@@ -162,7 +162,7 @@ function UnitCheckBody({
   const queryClient = useQueryClient();
   const canCheck = job.role === 'inspector' || job.role === 'gc_manager';
   const items = useMemo(() => catalogue.filter((i) => i.unitKinds.includes(unit.kind) && !i.retiredAt), [catalogue, unit.kind]);
-  const resolve = useMemo(() => limitResolverFor(model, job), [model, job]);
+  const resolve = useMemo(() => limitResolverFor(model, job, unit), [model, job, unit]);
   const openOn = useMemo(() => {
     const map: Record<string, string[]> = {};
     for (const f of unresolved) (map[f.catalogueItemId] ??= []).push(f.label);

@@ -1,16 +1,16 @@
 /**
  * The unit check's measured items, computed on the phone as the inspector types: parse the text
- * the trade's way (shared/calc parseQuantity), then evaluate the item's rule against the limit
+ * the trade's way (shared/calc parseItemMeasurement: parseQuantity, and what a code calculation
+ * takes after "for"), then evaluate the item's rule against the limit
  * from the unit's model, the job's settings or a built-in code value (shared/calc evaluateItemRule).
  * The server evaluates the same rule again when the check is saved.
  */
 import { unitLimitResolver, unitLimitSources } from '../../shared/rules/limits';
 import { formatQuantity } from '../../shared/calc/format';
-import { parseQuantity } from '../../shared/calc/quantity';
-import { evaluateItemRule } from '../../shared/calc/itemRules';
+import { evaluateItemRule, parseItemMeasurement, type MeasuredGiven } from '../../shared/calc/itemRules';
 import type { LimitResolver, LimitSources, RuleResult } from '../../shared/calc/rules';
 import type { MeasuredRule, UnitSystem } from '../../shared/catalogue/types';
-import type { JobDetail, UnitModelDto } from '../../shared/schemas/setup';
+import type { JobDetail, UnitDto, UnitModelDto } from '../../shared/schemas/setup';
 
 export type MeasurementView =
   /** Nothing typed: the limit is shown so the inspector knows what to look for. */
@@ -27,18 +27,19 @@ export function limitSourcesFor(model: Pick<UnitModelDto, 'name' | 'limits'> | n
 export function limitResolverFor(
   model: Pick<UnitModelDto, 'name' | 'limits'> | null | undefined,
   job: Pick<JobDetail, 'settings' | 'codeEditions'> | null | undefined,
+  unit?: Pick<UnitDto, 'capacity'> | null,
 ): LimitResolver {
-  return unitLimitResolver({ model, job });
+  return unitLimitResolver({ model, job, unit });
 }
 
 /** Parse and evaluate one measured item's text (or yes/no answer). */
 export function measure(rule: MeasuredRule, text: string, resolve: LimitResolver, system: UnitSystem): MeasurementView {
-  const evaluate = (v: number | boolean | null) => evaluateItemRule(rule, v, resolve, { system });
+  const evaluate = (v: number | boolean | null, given?: MeasuredGiven) => evaluateItemRule(rule, v, resolve, { system, given });
   if (text.trim() === '') return { kind: 'empty', result: evaluate(null) };
-  const parsed = parseQuantity(text, rule.quantity, { system });
+  const parsed = parseItemMeasurement(rule, text, { system });
   if (!parsed.ok) return { kind: 'parse_error', error: parsed.error, result: evaluate(null) };
   const value = rule.quantity === 'boolean' ? parsed.value === 1 : parsed.value;
-  return { kind: 'result', value, display: parsed.display, result: evaluate(value) };
+  return { kind: 'result', value, display: parsed.display, result: evaluate(value, parsed.given) };
 }
 
 const COMPARISON_WORDS = { at_least: 'at least', at_most: 'at most' } as const;

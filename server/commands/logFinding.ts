@@ -93,7 +93,7 @@ export async function checkNewFinding(ctx: ReadContext, job: Job, body: CreateFi
     if (!check || check.unitId !== place.unit?.id) refuse('unitCheckId', 'That unit check is not of this unit.');
   }
   const model = place.unit?.modelId ? await UnitModel.findOne({ where: { id: place.unit.modelId, jobId: job.id } }) : null;
-  const measured = item && body.measuredText ? measure(item, body.measuredText, limitResolverFor(job, model), job, 'measuredText') : null;
+  const measured = item && body.measuredText ? measure(item, body.measuredText, limitResolverFor(job, model, place.unit), job, 'measuredText') : null;
   // The schema asks "Something else" for its severity: it has no type to take a default from.
   const severity: Severity = body.severity ?? item?.defaultSeverity ?? 'minor';
   const now = ctx.clock();

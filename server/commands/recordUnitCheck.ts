@@ -39,7 +39,7 @@ export async function recordUnitCheck(ctx: RecordUnitCheckContext, unitId: strin
   if (!unit) throw notFound('Unit not found.');
   const walkId = input.walkId ? (await usableWalk(job.id, input.walkId, unit.levelId, transaction)).id : null;
   const model = unit.modelId ? await UnitModel.findOne({ where: { id: unit.modelId, jobId: job.id }, transaction }) : null;
-  const resolver = unitLimitResolver({ model, job });
+  const resolver = unitLimitResolver({ model, job, unit });
 
   const catalogue = await CatalogueItem.findAll({
     where: { jobId: job.id, id: input.items.map((i) => i.catalogueItemId) },

@@ -2,7 +2,7 @@
  * Walks, unit checks and findings: the logic the commands and routes share.
  * - the responsible company suggested from the defect type's trade and the job's companies
  *   (the rule itself: shared/rules/suggestedCompany.ts; due dates: shared/rules/due.ts);
- * - measured values parsed (shared/calc parseQuantity) and evaluated against the unit's model
+ * - measured values parsed (shared/calc parseItemMeasurement) and evaluated against the unit's model
  *   limits, the job's settings and the job's code editions (evaluateItemRule + makeLimitResolver);
  * - per-job finding numbers (#1, #2 ...) handed out under a row lock;
  * - the append-only finding history (finding_events: create only; the database refuses changes).
@@ -10,8 +10,7 @@
 import { unitLimitResolver } from '../../shared/rules/limits';
 import { fixNeedsMeasurement, measurementVerdict, newMeasurementNeeded, sameLimitResolver } from '../../shared/rules/remeasure';
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import { parseQuantity } from '../../shared/calc/quantity';
-import { evaluateItemRule } from '../../shared/calc/itemRules';
+import { evaluateItemRule, parseItemMeasurement } from '../../shared/calc/itemRules';
 import type { LimitResolver, RuleResult } from '../../shared/calc/rules';
 import type { FindingEventKind } from '../../shared/schemas/findings';
 import { suggestedCompany } from '../../shared/rules/suggestedCompany';
@@ -67,8 +66,12 @@ export async function companyOnJob(
 // Measured values
 
 /** The limit resolver for one unit (its model's limits, or none) on one job: the shared rule the phone applies too. */
-export function limitResolverFor(job: Job, model: UnitModel | null): LimitResolver {
-  return unitLimitResolver({ model: model ? { name: model.name, limits: model.limits } : null, job: { settings: job.settings, codeEditions: job.codeEditions } });
+export function limitResolverFor(job: Job, model: UnitModel | null, unit?: Pick<Unit, 'capacity'> | null): LimitResolver {
+  return unitLimitResolver({
+    model: model ? { name: model.name, limits: model.limits } : null,
+    job: { settings: job.settings, codeEditions: job.codeEditions },
+    unit: unit ? { capacity: unit.capacity } : null,
+  });
 }
 
 export interface Measurement {
@@ -94,11 +97,12 @@ export function measure(
     const message = `${item.code} ${item.title} has no measured rule, so it takes no measured value.`;
     throw badRequest(`${field}: ${message}`, { [field]: message });
   }
-  const parsed = parseQuantity(text, rule.quantity, { system: job.unitSystem, allowNegative: false });
+  const parsed = parseItemMeasurement(rule, text, { system: job.unitSystem, allowNegative: false });
   if (!parsed.ok) throw badRequest(`${field}: ${parsed.error}`, { [field]: parsed.error });
   const measured = rule.quantity === 'boolean' ? parsed.value === 1 : parsed.value;
   const result = evaluateItemRule(rule, measured, resolver, {
     system: job.unitSystem,
+    given: parsed.given,
     source: rule.comparison === 'yes_no' ? `${item.code} ${item.title}` : undefined,
   });
   return { measuredText: text.trim(), measuredValue: parsed.value, result };
@@ -121,9 +125,9 @@ export async function remeasure(
     Job.findByPk(finding.jobId, { transaction }),
   ]);
   if (!item || !job) throw new Error('a finding without its defect type or job');
-  const unit = finding.unitId ? await Unit.findOne({ where: { id: finding.unitId, jobId: finding.jobId }, attributes: ['modelId'], transaction }) : null;
+  const unit = finding.unitId ? await Unit.findOne({ where: { id: finding.unitId, jobId: finding.jobId }, attributes: ['modelId', 'capacity'], transaction }) : null;
   const model = unit?.modelId ? await UnitModel.findOne({ where: { id: unit.modelId, jobId: finding.jobId }, transaction }) : null;
-  const fallback = limitResolverFor(job, model);
+  const fallback = limitResolverFor(job, model, unit);
   const resolver = item.measuredRule ? sameLimitResolver(item.measuredRule, finding.ruleResult, fallback) : fallback;
   const m = measure(item, text, resolver, job, field);
   return { ...m, verdict: measurementVerdict(item.measuredRule!, m.result, job.unitSystem) };

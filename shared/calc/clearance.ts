@@ -18,6 +18,16 @@ import { checkAgainstCode, combineChecks } from './rules';
 /** Which code's working space applies: the IMC (commercial) or the IRC (residential). */
 export type WorkingSpaceCode = 'IMC' | 'IRC';
 
+/**
+ * The working-space code for a job. Trimout keeps no residential flag; the job's chosen code
+ * editions say which code it works to: a job that names an IRC edition and no IMC edition is
+ * residential work (IRC M1305.1), every other job follows the IMC (Section 306.1), the code for the
+ * commercial VRF work Trimout is made for.
+ */
+export function workingSpaceCode(editions: EditionChoice | undefined): WorkingSpaceCode {
+  return editions?.IRC && !editions.IMC ? 'IRC' : 'IMC';
+}
+
 export interface WorkingSpaceInput {
   /** IMC for commercial work (the default: Trimout's jobs are commercial VRF work); IRC on residential work. */
   code?: WorkingSpaceCode;

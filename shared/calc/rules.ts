@@ -55,7 +55,15 @@ export type LimitLookup = ResolvedLimit | { missing: string } | undefined;
 export type LimitResolver = ((ref: LimitRef) => LimitLookup) & {
   /** The code editions behind the resolver's code limits (set by makeLimitResolver), for rules a code calculation decides. */
   editions?: EditionChoice;
+  /** What a code calculation needs to know of the unit itself (set by makeLimitResolver). */
+  unit?: UnitFacts;
 };
+
+/** Facts of one unit a code calculation reads (e.g. IMC Table 307.2.2 sizes a drain from the capacity). */
+export interface UnitFacts {
+  /** The unit's cooling capacity, W; null when not recorded. */
+  capacity?: number | null;
+}
 
 export interface EvaluateOptions {
   /** Unit system for messages; default imperial. */
@@ -252,6 +260,8 @@ export interface LimitSources {
   job?: Partial<Record<JobSettingKey, StatedLimit>>;
   /** The code editions the job uses (defaults: DEFAULT_EDITIONS in limits.ts). */
   editions?: EditionChoice;
+  /** The unit's own facts, for rules a code calculation decides. */
+  unit?: UnitFacts;
 }
 
 function stated(s: StatedLimit, quantity: QuantityKind, source: string, what: string): LimitLookup {
@@ -287,7 +297,7 @@ export function makeLimitResolver(sources: LimitSources): LimitResolver {
     const source = `Job setting: ${def.label.replace(/ \(job setting\)$/, '')}${s.source ? ` (${s.source})` : ''}`;
     return stated(s, def.quantity, source, `job setting "${def.label}"`);
   };
-  return Object.assign(resolver, { editions: sources.editions });
+  return Object.assign(resolver, { editions: sources.editions, unit: sources.unit });
 }
 
 // ------------------------------------------------------------------------------------------------

@@ -379,7 +379,8 @@ const ITEMS: CatalogueItem[] = [
       measure: "Depth of clear working space in front of the unit's service side",
       quantity: 'length',
       comparison: 'at_least',
-      limit: { from: 'code', key: 'irc.working_space.min_depth' },
+      // IMC 306.1 on commercial work, IRC M1305.1 on a job that works to the IRC alone (clearance.ts workingSpaceCode).
+      codeCheck: 'working_space_depth',
     },
     fixGuidance:
       'Clear or enlarge the space in front of the service side to at least the code depth by moving stored material or other services; change framing only with the designer.',
@@ -421,6 +422,47 @@ const ITEMS: CatalogueItem[] = [
     needsCeilingAccess: true,
   },
 
+  {
+    code: 'CL-09',
+    group: 'clearance',
+    title: 'Working space too narrow',
+    description:
+      "The clear working space in front of the unit's service side is narrower than the code minimum (IMC 306.1 on commercial work; IRC M1305.1 where the job works to the IRC alone).",
+    unitKinds: CONCEALED,
+    defaultSeverity: 'major',
+    trade: 'general',
+    measuredRule: {
+      measure: "Width of clear working space in front of the unit's service side",
+      quantity: 'length',
+      comparison: 'at_least',
+      codeCheck: 'working_space_width',
+    },
+    fixGuidance:
+      'Widen the clear space in front of the service side to at least the code width by moving stored material or other services; change framing only with the designer.',
+    caution: caution('overhead', 'attic'),
+    needsCeilingAccess: true,
+  },
+  {
+    code: 'CL-10',
+    group: 'clearance',
+    title: 'Attic access opening too small',
+    description:
+      'The opening into the attic that holds the unit is smaller than the code asks (IMC 306.3: a clear opening of the code size each way, and large enough to take the unit out). Not applicable where the unit is not in an attic.',
+    unitKinds: CONCEALED,
+    defaultSeverity: 'major',
+    trade: 'general',
+    measuredRule: {
+      measure: 'Smaller side of the clear attic access opening (check the larger side against the code by eye)',
+      quantity: 'length',
+      comparison: 'at_least',
+      codeCheck: 'attic_opening',
+    },
+    fixGuidance:
+      'Enlarge the attic opening to the code size and to the size the unit needs to come out, framed by the carpenter; keep the passageway to the unit clear.',
+    caution: caution('attic', 'overhead'),
+    needsCeilingAccess: false,
+  },
+
   // ---- Condensate drainage (DR) ------------------------------------------------------------
   {
     code: 'DR-01',
@@ -447,18 +489,20 @@ const ITEMS: CatalogueItem[] = [
     group: 'drainage',
     title: 'Drain supports too far apart',
     description:
-      'Drain hangers are farther apart than the job allows, or the drain is tied to other services instead of its own hangers, so it sags and holds water.',
+      'Drain hangers are farther apart than the job allows (or, without a job spacing, than IMC Table 305.4 allows for the pipe), or the drain is tied to other services instead of its own hangers, so it sags and holds water.',
     unitKinds: ALL_KINDS,
     defaultSeverity: 'major',
     trade: 'mechanical',
     measuredRule: {
-      measure: 'Longest span between drain pipe supports',
+      measure: 'Longest span between drain pipe supports (add the pipe, e.g. "3 ft for 3/4 in CPVC"; PVC when not said)',
       quantity: 'length',
       comparison: 'at_most',
       limit: { from: 'job', key: 'max_drain_support_spacing' },
+      // The job's spacing where set; otherwise IMC Table 305.4's plastic drain rows (PVC, or CPVC by size).
+      codeCheck: 'drain_support_spacing',
     },
     fixGuidance:
-      'Add hangers so no span is longer than the job spacing, with the drain on its own supports and its fall kept.',
+      'Add hangers so no span is longer than the job spacing (or the code spacing for the pipe), with the drain on its own supports and its fall kept.',
     caution: caution('overhead'),
     needsCeilingAccess: true,
   },
@@ -700,6 +744,65 @@ const ITEMS: CatalogueItem[] = [
       'Run the drain to the disposal point the design shows, with the air gap or indirect connection the plumbing code asks for there.',
     caution: caution('drilling', 'overhead'),
     needsCeilingAccess: false,
+  },
+
+  {
+    code: 'DR-17',
+    group: 'drainage',
+    title: 'Drain pipe too small for the capacity',
+    description:
+      'The condensate drain is smaller than IMC Table 307.2.2 asks for the equipment capacity it carries: the unit\'s own, or on a manifolded drain every unit upstream of the point measured.',
+    unitKinds: ALL_KINDS,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'Drain pipe size (on a manifolded drain add the capacity it carries, e.g. "1 in for 24 tons")',
+      quantity: 'length',
+      comparison: 'at_least',
+      codeCheck: 'drain_pipe_size',
+    },
+    fixGuidance:
+      'Replace the undersized drain, or the manifold section, with the size the table gives for the capacity it carries, never smaller toward the outlet, and keep its fall.',
+    caution: caution('overhead'),
+    needsCeilingAccess: true,
+  },
+  {
+    code: 'DR-18',
+    group: 'drainage',
+    title: 'Auxiliary drain pan too shallow',
+    description:
+      'The auxiliary pan under a unit where overflow would damage the building is shallower than IMC 307.2.3 asks. Not applicable where the design uses another overflow method.',
+    unitKinds: CONCEALED,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'Depth of the auxiliary drain pan',
+      quantity: 'length',
+      comparison: 'at_least',
+      codeCheck: 'aux_pan_depth',
+    },
+    fixGuidance: 'Fit a pan of the code depth under the whole unit, with its own drain or a water-level switch that stops the unit.',
+    caution: caution('lifting', 'overhead', 'attic'),
+    needsCeilingAccess: true,
+  },
+  {
+    code: 'DR-19',
+    group: 'drainage',
+    title: 'Auxiliary drain pan too small for the unit',
+    description:
+      'The auxiliary pan does not reach far enough beyond the unit: IMC 307.2.3 asks for a pan larger than the unit by a set amount in length and in width.',
+    unitKinds: CONCEALED,
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'How much larger the pan is than the unit, on its shorter side (pan less unit)',
+      quantity: 'length',
+      comparison: 'at_least',
+      codeCheck: 'aux_pan_oversize',
+    },
+    fixGuidance: 'Replace the pan with one at least the code size larger than the unit each way, set under the whole unit.',
+    caution: caution('lifting', 'overhead', 'attic'),
+    needsCeilingAccess: true,
   },
 
   // ---- Wall and roof penetrations (PN) -----------------------------------------------------
@@ -1231,10 +1334,13 @@ const ITEMS: CatalogueItem[] = [
     defaultSeverity: 'major',
     trade: 'mechanical',
     measuredRule: {
-      measure: 'Longest span between supports on horizontal copper of the smaller sizes (up to 1-1/4 in)',
+      measure:
+        'Longest span between supports on horizontal copper tubing (up to 1-1/4 in unless you add the size, e.g. "8 ft for 1-5/8 in OD")',
       quantity: 'length',
       comparison: 'at_most',
       limit: { from: 'code', key: 'imc.copper_support.horizontal_small' },
+      // IMC Table 305.4's copper tubing row for the size typed after "for" (supports.ts); the smaller row without one.
+      codeCheck: 'pipe_support_spacing',
     },
     fixGuidance:
       "Support the piping on its own hangers with insulation saddles, no farther apart than code allows, keep it off other services, and take its weight off the unit's connections.",

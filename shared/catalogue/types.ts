@@ -75,15 +75,44 @@ export interface MeasuredRule {
   /** yes_no: the answer that passes. */
   expected?: boolean;
   /**
-   * yes_no: a code calculation in shared/calc that decides the answer and names its source with
-   * the job's edition (e.g. IMC 307.2.4.1 for a ductless drain's check valve or trap).
+   * A code calculation in shared/calc that decides the rule and names its source with the job's
+   * edition (IMC 307.2.4.1 for a ductless drain's check valve or trap; IMC Table 307.2.2 for a
+   * drain's size from the capacity it carries …): CODE_CHECK_RULES gives each one's shape.
    */
   codeCheck?: CodeCheckKey;
 }
 
-/** Code calculations a yes/no rule may be decided by (shared/calc/itemRules.ts evaluateItemRule). */
-export const CODE_CHECKS = ['ductless_check_valve_or_trap'] as const;
+/** Code calculations a rule may be decided by (shared/calc/itemRules.ts evaluateItemRule). */
+export const CODE_CHECKS = [
+  'ductless_check_valve_or_trap',
+  'drain_pipe_size',
+  'aux_pan_depth',
+  'aux_pan_oversize',
+  'working_space_depth',
+  'working_space_width',
+  'attic_opening',
+  'pipe_support_spacing',
+  'drain_support_spacing',
+] as const;
 export type CodeCheckKey = (typeof CODE_CHECKS)[number];
+
+/**
+ * The rule shape each code calculation decides: what is measured and how it is compared. The
+ * calculation supplies the limit (a numeric rule that names one needs no `limit` of its own).
+ * `given`: the measured text may add, after "for", what the calculation needs to know
+ * ("1-1/4 in for 24 tons": the capacity a manifolded drain carries; "5 ft for 1-5/8 in OD": the tube size).
+ */
+export const CODE_CHECK_RULES: Record<CodeCheckKey, { quantity: QuantityKind; comparison: Comparison; given?: 'capacity' | 'pipe' }> = {
+  ductless_check_valve_or_trap: { quantity: 'boolean', comparison: 'yes_no' },
+  drain_pipe_size: { quantity: 'length', comparison: 'at_least', given: 'capacity' },
+  aux_pan_depth: { quantity: 'length', comparison: 'at_least' },
+  aux_pan_oversize: { quantity: 'length', comparison: 'at_least' },
+  working_space_depth: { quantity: 'length', comparison: 'at_least' },
+  working_space_width: { quantity: 'length', comparison: 'at_least' },
+  attic_opening: { quantity: 'length', comparison: 'at_least' },
+  pipe_support_spacing: { quantity: 'length', comparison: 'at_most', given: 'pipe' },
+  drain_support_spacing: { quantity: 'length', comparison: 'at_most', given: 'pipe' },
+};
 
 export interface CatalogueItem {
   /** Our own scheme: a group prefix and a number, e.g. "DR-03" (drainage, third). */

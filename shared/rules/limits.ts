@@ -20,6 +20,8 @@ export interface UnitLimitInputs {
   model?: { name: string; limits?: Partial<Record<ModelLimitKey, StatedLimitDto>> | null } | null;
   /** The job: its settings and the code editions it uses. */
   job?: { settings?: Partial<Record<JobSettingKey, StatedLimitDto>> | null; codeEditions?: EditionChoice | null } | null;
+  /** The unit itself: its capacity (W) sizes its drain (IMC Table 307.2.2). */
+  unit?: { capacity?: number | null } | null;
 }
 
 function stated<K extends string>(limits: Partial<Record<K, StatedLimitDto>> | null | undefined): Partial<Record<K, StatedLimit>> {
@@ -32,8 +34,9 @@ function stated<K extends string>(limits: Partial<Record<K, StatedLimitDto>> | n
 }
 
 /** The limit sources of one unit: its model's limits, the job's settings and code editions. */
-export function unitLimitSources({ model, job }: UnitLimitInputs): LimitSources {
+export function unitLimitSources({ model, job, unit }: UnitLimitInputs): LimitSources {
   return {
+    unit: { capacity: unit?.capacity ?? null },
     model: model ? { name: model.name, limits: stated<ModelLimitKey>(model.limits) } : undefined,
     job: stated<JobSettingKey>(job?.settings),
     editions: job?.codeEditions ?? {},

@@ -52,6 +52,7 @@ export function sameLimitResolver(rule: MeasuredRule, original: RuleResult | nul
   };
   // A yes/no rule the code decides names the section in the job's own edition, as the fallback knows it.
   resolve.editions = fallback.editions;
+  resolve.unit = fallback.unit;
   return resolve;
 }
 

@@ -17,6 +17,7 @@ import {
   type QuantityKind,
 } from '../../shared/catalogue';
 import { CODE_LIMITS } from '../../shared/calc/limits';
+import { CODE_CHECK_RULES } from '../../shared/catalogue/types';
 import { evaluateItemRule } from '../../shared/calc/itemRules';
 import { evaluateRule, makeLimitResolver } from '../../shared/calc/rules';
 import { SEVERITIES, TRADE_KEYS, UNIT_KIND_KEYS } from '../../shared/words';
@@ -51,7 +52,12 @@ function ruleProblems(rule: MeasuredRule): string[] {
   if (!(QUANTITY_KINDS as readonly string[]).includes(rule.quantity)) problems.push(`bad quantity ${rule.quantity}`);
   if (!(COMPARISONS as readonly string[]).includes(rule.comparison)) problems.push(`bad comparison ${rule.comparison}`);
 
+  // A code calculation supplies its own limit; the rule must have the shape the calculation decides.
+  const decided = rule.codeCheck ? CODE_CHECK_RULES[rule.codeCheck] : undefined;
+  if (rule.codeCheck && !decided) problems.push(`unknown code check ${rule.codeCheck}`);
+  if (decided && (decided.comparison !== rule.comparison || decided.quantity !== rule.quantity)) problems.push(`${rule.codeCheck} decides another shape`);
   const checkRef = (name: string, ref: LimitRef | undefined) => {
+    if (!ref && decided && name === 'limit') return;
     if (!ref) {
       problems.push(`${name} missing`);
       return;

@@ -2,7 +2,7 @@
  * The defect catalogue of a job.
  */
 import { z } from 'zod';
-import { CATALOGUE_GROUPS, CODE_CHECKS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type CatalogueGroup, type Comparison, type JobSettingKey, type ModelLimitKey } from '../../catalogue/types';
+import { CATALOGUE_GROUPS, CODE_CHECK_RULES, CODE_CHECKS, COMPARISONS, JOB_SETTINGS, MODEL_LIMITS, QUANTITY_KINDS, type CatalogueGroup, type Comparison, type JobSettingKey, type ModelLimitKey } from '../../catalogue/types';
 import { CODE_LIMIT_VARIANTS } from '../../calc/limits';
 import { CAUTION_REQUIRED, needsCaution } from '../../catalogue';
 import { SEVERITIES, TRADE_KEYS, UNIT_KIND_KEYS, type Severity, type TradeKey, type UnitKindKey } from '../../words';
@@ -45,14 +45,19 @@ export const measuredRuleSchema = z
       if (!cond) ctx.addIssue({ code: 'custom', path: [path], message });
     };
     const c: Comparison = r.comparison;
+    const decided = r.codeCheck ? CODE_CHECK_RULES[r.codeCheck] : undefined;
+    if (decided) {
+      need(r.comparison === decided.comparison, 'comparison', `This code check compares ${decided.comparison.replace('_', ' ')}.`);
+      need(r.quantity === decided.quantity, 'quantity', `This code check measures a ${decided.quantity}.`);
+    }
     if (c === 'yes_no') {
       need(r.quantity === 'boolean', 'quantity', 'A yes/no rule measures a boolean.');
       need(r.expected !== undefined, 'expected', 'A yes/no rule needs the answer that passes.');
       if (r.codeCheck) need(r.expected === true, 'expected', 'A rule the code decides passes on yes.');
     } else {
       need(r.quantity !== 'boolean', 'quantity', 'Only yes/no rules measure a boolean.');
-      need(r.codeCheck === undefined, 'codeCheck', 'Only a yes/no rule is decided by a code check.');
-      need(r.limit !== undefined, 'limit', 'Say where the limit comes from.');
+      // A code calculation supplies its own limit.
+      if (!decided) need(r.limit !== undefined, 'limit', 'Say where the limit comes from.');
       if (c === 'between') need(r.upper !== undefined, 'upper', 'A range needs an upper limit.');
       if (c === 'equal_within') need(r.tolerance !== undefined, 'tolerance', 'Give the allowed deviation.');
     }
