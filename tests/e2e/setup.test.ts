@@ -8,7 +8,7 @@
 import type { Page } from 'playwright-core';
 import { Job } from '../../server/models';
 import { addMember, buildCompany, buildUser, TEST_PASSWORD } from '../support/factories';
-import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
+import { PHONE, WIDE, pageHolds, startBrowserHarness, type BrowserHarness } from '../support/browser';
 
 jest.setTimeout(240_000);
 
@@ -62,6 +62,11 @@ async function explainFailure<T>(page: Page, name: string, problems: string[], w
 /** Waits until the element shows the text (the screens update after each write). */
 async function seeText(page: Page, testId: string, text: string | RegExp) {
   await page.getByTestId(testId).filter({ hasText: text }).first().waitFor();
+}
+
+/** The unit form is ready for the next unit: its tag box was emptied after the last save. */
+async function tagCleared(page: Page) {
+  await pageHolds(page, `document.querySelector('[data-testid="unit-tag-input"]')?.value === ''`, { what: 'the unit form to empty its tag' });
 }
 
 const KINDS = ['Ceiling cassette, four-way', 'Wall-mounted', 'Ducted, low static'];
@@ -197,6 +202,8 @@ describe('a GC manager sets up a job from empty (wide, 1280x800)', () => {
     await page.getByTestId('unit-system-input').selectOption({ label: 'VRF-1' });
     await page.getByTestId('unit-submit').click();
     await page.getByTestId('unit-row-IU-1').waitFor();
+    // The form empties its tag once the save has settled (the list may show the unit first): type after that.
+    await tagCleared(page);
     await page.getByTestId('unit-tag-input').fill('IU-2');
     await page.getByTestId('unit-kind-input').selectOption('wall_mounted');
     await page.getByTestId('unit-level-input').selectOption({ label: 'Level 2' });
@@ -205,6 +212,7 @@ describe('a GC manager sets up a job from empty (wide, 1280x800)', () => {
     await page.getByTestId('unit-capacity-input-unit-ton').click();
     await page.getByTestId('unit-submit').click();
     await page.getByTestId('unit-row-IU-2').waitFor();
+    await tagCleared(page);
     // a tag is unique within the job: the server's answer shows at the form
     await page.getByTestId('unit-tag-input').fill('IU-2');
     await page.getByTestId('unit-submit').click();
@@ -286,7 +294,7 @@ describe('a GC manager sets up a job from empty (wide, 1280x800)', () => {
     // The job overview links every set-up section for a GC manager.
     await page.getByTestId('setup-back').click();
     await page.getByTestId('job-setup-links').waitFor();
-    expect(await page.locator('[data-testid^="setup-link-"]').count()).toBe(11);
+    expect(await page.locator('[data-testid^="setup-link-"]').count()).toBe(12); // job details and the 11 sections (crews included)
     await shot(page, 'setup-13-job-overview-wide');
 
     // Catalogue: grouped, with the measured rule, fix guidance and caution.
