@@ -38,6 +38,7 @@ import { unitImportBodyParsers, unitsRouter } from './routes/units';
 import { sessionRouter } from './routes/session';
 import { checksRouter } from './routes/checks';
 import { findingsRouter } from './routes/findings';
+import { testRecordsRouter } from './routes/testRecords';
 import { correctionRouter } from './routes/correction';
 import { walksRouter } from './routes/walks';
 import { plansRouter } from './routes/plans';
@@ -225,6 +226,7 @@ export function createApp(options: AppOptions): TrimoutApp {
   api.use(findingsRouter({ store: photoStore, uploads, log }));
   api.use(correctionRouter({ store: photoStore, uploads, log }));
   api.use(plansRouter({ store: photoStore, uploads, log }));
+  api.use(testRecordsRouter({ store: photoStore, uploads, log }));
   api.use(boardRouter());
   api.use(exportsRouter({ publicOrigin: env.publicOrigin, log }));
   api.use(apiNotFound);

@@ -1,6 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import type { CodeEditions, RecurringThresholdsInput, SeverityDueDays, StatedLimitDto } from '../../shared/schemas/setup';
 import type { JobSettingKey } from '../../shared/catalogue/types';
+import type { TestSettingsDto } from '../../shared/schemas/testRecords';
 import type { Company } from './Company';
 
 export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job>> {
@@ -19,6 +20,8 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   declare severityDueDays: CreationOptional<SeverityDueDays>;
   declare recurringThresholds: CreationOptional<RecurringThresholdsInput>;
   declare settings: CreationOptional<Partial<Record<JobSettingKey, StatedLimitDto>>>;
+  /** Settings that decide test records (shared/schemas/testRecords.ts), each with its source. */
+  declare testSettings: CreationOptional<TestSettingsDto>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -39,6 +42,7 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
         severityDueDays: { type: DataTypes.JSONB, allowNull: false, defaultValue: { critical: 2, major: 7, minor: 14 } },
         recurringThresholds: { type: DataTypes.JSONB, allowNull: false, defaultValue: { minUnits: 3, minShare: 0.1 } },
         settings: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
+        testSettings: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
         version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import type { PhotoStage } from '../../shared/schemas/findings';
+import type { TestPhotoStage } from '../../shared/schemas/testRecords';
 import type { PhotoType } from '../services/photos';
 import type { Job } from './Job';
 import type { User } from './User';
@@ -24,8 +25,10 @@ export class Photo extends Model<InferAttributes<Photo>, InferCreationAttributes
   declare uploadedBy: ForeignKey<User['id']>;
   declare findingId: CreationOptional<string | null>;
   declare fixId: CreationOptional<string | null>;
+  /** A test record's photo (stage gauge_start, gauge_end or test). */
+  declare testRecordId: CreationOptional<string | null>;
   /** What the photo shows: the defect, the fixed work, or the inspector's re-inspection (shared PhotoStage). */
-  declare stage: CreationOptional<PhotoStage>;
+  declare stage: CreationOptional<PhotoStage | TestPhotoStage>;
   declare createdAt: CreationOptional<Date>;
 
   static initModel(sequelize: Sequelize) {
@@ -44,6 +47,7 @@ export class Photo extends Model<InferAttributes<Photo>, InferCreationAttributes
         uploadedBy: { type: DataTypes.UUID, allowNull: false },
         findingId: { type: DataTypes.UUID, allowNull: true },
         fixId: { type: DataTypes.UUID, allowNull: true },
+        testRecordId: { type: DataTypes.UUID, allowNull: true, defaultValue: null },
         stage: { type: DataTypes.STRING(20), allowNull: false, defaultValue: 'finding' },
         createdAt: DataTypes.DATE,
       },

@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import type { ConcentrationOverride } from '../../shared/schemas/setup';
+import type { ChargeBasisDto } from '../../shared/schemas/testRecords';
 import type { Refrigerant } from '../../shared/words';
 import type { Job } from './Job';
 
@@ -13,6 +14,10 @@ export class System extends Model<InferAttributes<System>, InferCreationAttribut
   declare factoryCharge: number | null;
   declare fieldCharge: number | null;
   declare concentrationLimitOverride: ConcentrationOverride | null;
+  /** The company responsible for the system's pipework (its test records); null: the job's mechanical companies. */
+  declare companyId: CreationOptional<string | null>;
+  /** The outdoor unit's factory-charge source and per-size additional-charge factors, from its manual. */
+  declare chargeBasis: CreationOptional<ChargeBasisDto | null>;
   declare version: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -28,6 +33,8 @@ export class System extends Model<InferAttributes<System>, InferCreationAttribut
         factoryCharge: { type: DataTypes.DOUBLE, allowNull: true },
         fieldCharge: { type: DataTypes.DOUBLE, allowNull: true },
         concentrationLimitOverride: { type: DataTypes.JSONB, allowNull: true },
+        companyId: { type: DataTypes.UUID, allowNull: true, defaultValue: null },
+        chargeBasis: { type: DataTypes.JSONB, allowNull: true, defaultValue: null },
         version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

@@ -20,12 +20,14 @@ import { Fix } from './Fix';
 import { UnitCheck } from './UnitCheck';
 import { UnitCheckItem } from './UnitCheckItem';
 import { Walk } from './Walk';
+import { TestRecord } from './TestRecord';
 
 export { AuthToken, Company, Job, JobMember, User };
 export { CatalogueItem, Crew, JobCompany, Level, Space, SpaceLink, System, Unit, UnitModel };
 export { Photo };
 export { Finding, FindingEvent, UnitCheck, UnitCheckItem, Walk };
 export { Fix };
+export { TestRecord };
 
 export function initModels(sequelize: Sequelize) {
   Company.initModel(sequelize);
@@ -59,6 +61,8 @@ export function initModels(sequelize: Sequelize) {
   FindingEvent.initModel(sequelize);
   // Correction loop: fixes and the re-inspections that accept or return them.
   Fix.initModel(sequelize);
+  // Test records (pressure, evacuation, charge, drain, start-up); their photos are photos rows.
+  TestRecord.initModel(sequelize);
 
   return { Company, User, Job, JobMember, AuthToken, Level, Space, SpaceLink, System, UnitModel, Unit, JobCompany, CatalogueItem, Photo };
 }

@@ -21,6 +21,7 @@ export function presentJobDetail(job: Job, role: Role): JobDetail {
     severityDueDays: { ...DEFAULT_SEVERITY_DUE_DAYS, ...(job.severityDueDays ?? {}) },
     recurringThresholds: { ...DEFAULT_RECURRING_THRESHOLDS, ...(job.recurringThresholds ?? {}) },
     settings: job.settings ?? {},
+    testSettings: job.testSettings ?? {},
     version: job.version,
   };
 }

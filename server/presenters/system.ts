@@ -12,6 +12,8 @@ export function presentSystem(system: System, unitCount: number): SystemDto {
     fieldCharge: system.fieldCharge,
     totalCharge: (system.factoryCharge ?? 0) + (system.fieldCharge ?? 0),
     concentrationLimitOverride: system.concentrationLimitOverride,
+    companyId: system.companyId ?? null,
+    chargeBasis: system.chargeBasis ?? null,
     unitCount,
     version: system.version,
   };

@@ -21,6 +21,7 @@ import { presentPhoto, type PhotoRow } from '../presenters/photo';
 import type { CursorValueKind, ListOrder, PageRequest } from './paging';
 import { likeContains } from './records';
 import { SEVERITY_RANK_SQL } from './findings';
+import { responsibleSql } from './testScope';
 
 /**
  * The overdue rule of shared/rules/due.ts (isOverdue) as SQL, for every read that counts or
@@ -352,13 +353,18 @@ export interface VisiblePhoto {
  */
 export async function visiblePhoto(sequelize: Sequelize, scope: FindingScope, photoId: string): Promise<VisiblePhoto | null> {
   const bind: unknown[] = [scope.jobId, photoId];
-  const company = scope.companyId ? ` AND f.company_id = $${bind.push(scope.companyId)}` : '';
+  const c = scope.companyId ? `$${bind.push(scope.companyId)}` : null;
+  // A finding's or fix's photo as its finding; a test record's as its record (services/testScope.ts).
   const [row] = await sequelize.query<{ id: string; storage_key: string; thumb_key: string; content_type: string }>(
     `SELECT p.id, p.storage_key, p.thumb_key, p.content_type
        FROM photos p
        LEFT JOIN fixes x ON x.id = p.fix_id AND x.job_id = p.job_id
-       JOIN findings f ON f.id = COALESCE(p.finding_id, x.finding_id) AND f.job_id = p.job_id
-      WHERE p.job_id = $1 AND p.id = $2${company}`,
+       LEFT JOIN findings f ON f.id = COALESCE(p.finding_id, x.finding_id) AND f.job_id = p.job_id
+       LEFT JOIN test_records tr ON tr.id = p.test_record_id AND tr.job_id = p.job_id
+       LEFT JOIN units tu ON tu.id = tr.unit_id
+       LEFT JOIN systems ts ON ts.id = CASE WHEN tr.kind = 'drain' THEN tu.system_id ELSE tr.system_id END
+      WHERE p.job_id = $1 AND p.id = $2
+        AND ((f.id IS NOT NULL${c ? ` AND f.company_id = ${c}` : ''}) OR (tr.id IS NOT NULL${c ? ` AND ${responsibleSql('ts', c)}` : ''}))`,
     { bind, type: QueryTypes.SELECT },
   );
   return row ? { id: row.id, storageKey: row.storage_key, thumbKey: row.thumb_key, contentType: row.content_type } : null;

@@ -7,6 +7,7 @@ import { badRequest } from '../errors';
 import { Job } from '../models';
 import { presentJobDetail } from '../presenters/job';
 import { statedLimit } from './quantities';
+import { mergeTestSettings } from './testRecords';
 import { lockVersioned } from './records';
 
 export interface JobWrite {
@@ -46,6 +47,7 @@ export async function changeJob(
     }
     job.settings = next;
   }
+  if (input.testSettings !== undefined) job.testSettings = mergeTestSettings(job.testSettings, input.testSettings);
   job.version += 1;
   await job.save({ transaction });
   return job;

@@ -1,11 +1,12 @@
 /** Systems (refrigerant circuits) of a job: reads and the writes of routes/systems.ts. */
 import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
 import type { CreateSystemInput, SystemDto, UpdateSystemInput } from '../../shared/schemas/setup';
-import { conflict, notFound } from '../errors';
+import { badRequest, conflict, notFound } from '../errors';
 import { System, Unit } from '../models';
 import { presentSystem } from '../presenters/system';
 import { afterCursor, finishPage, type PageRequest } from './paging';
 import { optionalQuantity } from './quantities';
+import { chargeBasisOf } from './testRecords';
 import { destroyOrConflict, lockVersioned, lowerEquals, refuseIfReferenced, type SetupWrite } from './records';
 
 async function unitCounts(ids: string[], transaction?: Transaction): Promise<Map<string, number>> {
@@ -15,6 +16,18 @@ async function unitCounts(ids: string[], transaction?: Transaction): Promise<Map
     { bind: [ids], type: QueryTypes.SELECT, transaction },
   );
   return new Map(rows.map((r) => [r.system_id, Number(r.n)]));
+}
+
+/** A responsible company must be one on the job (400 on companyId otherwise). */
+async function companyOnJob(jobId: string, companyId: string | null, transaction: Transaction): Promise<string | null> {
+  if (companyId === null) return null;
+  const [row] = await System.sequelize!.query(`SELECT 1 FROM job_companies WHERE job_id = $1 AND company_id = $2::uuid`, {
+    bind: [jobId, companyId],
+    type: QueryTypes.SELECT,
+    transaction,
+  });
+  if (!row) throw badRequest('companyId: Choose a company on this job.', { companyId: 'Choose a company on this job.' });
+  return companyId;
 }
 
 const duplicateName = (name: string) => conflict(`This job already has a system named "${name}".`, 'duplicate');
@@ -51,6 +64,8 @@ export async function createSystem({ transaction, jobId }: SetupWrite, input: Sy
       factoryCharge,
       fieldCharge,
       concentrationLimitOverride: input.concentrationLimitOverride ?? null,
+      companyId: await companyOnJob(jobId, input.companyId ?? null, transaction),
+      chargeBasis: chargeBasisOf(input.chargeBasis ?? null),
     },
     { transaction },
   );
@@ -73,6 +88,8 @@ export async function changeSystem(
     if (factoryCharge !== undefined) system.factoryCharge = factoryCharge;
     if (fieldCharge !== undefined) system.fieldCharge = fieldCharge;
     if (input.concentrationLimitOverride !== undefined) system.concentrationLimitOverride = input.concentrationLimitOverride;
+    if (input.companyId !== undefined) system.companyId = await companyOnJob(jobId, input.companyId, transaction);
+    if (input.chargeBasis !== undefined) system.chargeBasis = chargeBasisOf(input.chargeBasis);
     system.version += 1;
     await system.save({ transaction });
     return system;

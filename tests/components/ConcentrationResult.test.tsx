@@ -19,6 +19,8 @@ function detail(chargeKg: number, rows: Array<{ tag: string; area: number; mount
     fieldCharge: 0,
     totalCharge: chargeKg,
     concentrationLimitOverride: null,
+    companyId: null,
+    chargeBasis: null,
     unitCount: rows.length,
     version: 1,
     concentration: checkRefrigerantConcentration({

@@ -9,6 +9,7 @@ import type { Role, Severity } from '../../words';
 import { timeZoneSchema } from './common';
 import { text, optionalText, dateOnly } from './fields';
 import { type StatedLimitDto, jobSettingsInputSchema } from './limits';
+import { testSettingsInputSchema, type TestSettingsDto } from '../testRecords';
 
 /** Editions Trimout holds values for, per code document (a job can only choose one of these). */
 export const KNOWN_EDITIONS: Readonly<Record<CodeDocument, readonly string[]>> = (() => {
@@ -99,6 +100,8 @@ export const updateJobSchema = z
     severityDueDays: severityDueDaysSchema.optional(),
     recurringThresholds: recurringThresholdsSchema.optional(),
     settings: jobSettingsInputSchema.optional(),
+    /** Settings that decide test records, each with its source (shared/schemas/testRecords.ts); null removes one. */
+    testSettings: testSettingsInputSchema.optional(),
   })
   .strict()
   .refine(datesInOrder, { message: 'The end date is before the start date.', path: ['endsOn'] });
@@ -120,5 +123,7 @@ export interface JobDetail {
   severityDueDays: SeverityDueDays;
   recurringThresholds: RecurringThresholds;
   settings: Partial<Record<JobSettingKey, StatedLimitDto>>;
+  /** The job's own test settings (a setting left out uses Trimout's stated default: see GET /test-records answers). */
+  testSettings: TestSettingsDto;
   version: number;
 }

@@ -4,8 +4,9 @@
 import { z } from 'zod';
 import type { A2lAreaResult, ConcentrationResult, MountPosition, MountSource } from '../../calc/refrigerant';
 import { REFRIGERANTS, type Refrigerant } from '../../words';
+import { chargeBasisInputSchema, type ChargeBasisDto } from '../testRecords';
 import { quantityText } from './common';
-import { text, optionalText, pageQuery } from './fields';
+import { id, text, optionalText, pageQuery } from './fields';
 
 export const CONCENTRATION_LIMIT_UNITS = ['lb/Mcf', 'g/m³', 'kg/m³'] as const;
 
@@ -27,6 +28,10 @@ const systemFields = {
   fieldCharge: quantityText('mass', 'Field-added charge').nullable().optional(),
   /** A job-entered concentration limit, for refrigerants without a stored one (R-454B). */
   concentrationLimitOverride: concentrationOverrideSchema.nullable().optional(),
+  /** The company responsible for the system's pipework and its test records; null: the job's mechanical companies. */
+  companyId: id('responsible company').nullable().optional(),
+  /** The outdoor unit's factory-charge source and per-size additional-charge factors from its manual. */
+  chargeBasis: chargeBasisInputSchema.nullable().optional(),
 };
 export const createSystemSchema = z.object(systemFields).strict();
 export type CreateSystemInput = z.input<typeof createSystemSchema>;
@@ -48,6 +53,9 @@ export interface SystemDto {
   /** kg, factory + field (missing counts as 0) */
   totalCharge: number;
   concentrationLimitOverride: ConcentrationOverride | null;
+  /** The company responsible for the system's test records; null: the job's mechanical companies. */
+  companyId: string | null;
+  chargeBasis: ChargeBasisDto | null;
   unitCount: number;
   version: number;
 }
