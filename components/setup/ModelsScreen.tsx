@@ -5,7 +5,7 @@ import { StyleSheet, View } from 'react-native';
 import type { z } from 'zod';
 import { formatQuantity } from '../../shared/calc/format';
 import { MOUNT_POSITION_LABELS, MOUNT_POSITIONS } from '../../shared/calc/refrigerant';
-import { MODEL_LIMITS, type ModelLimitKey } from '../../shared/catalogue/types';
+import { MODEL_LIMITS, type ModelLimitKey, type QuantityKind } from '../../shared/catalogue/types';
 import { createModelSchema, type CreateModelInput, type JobDetail, type StatedLimitInput, type UnitModelDto } from '../../shared/schemas/setup';
 import { UNIT_KINDS } from '../../shared/words';
 import { useCreateModelMutation, useDeleteModelMutation, useModelsQuery, useUpdateModelMutation } from '../queries/models';
@@ -139,6 +139,19 @@ type LimitDraft = { value: string; source: string };
 type ModelFormValues = Omit<CreateModelInput, 'limits'> & { limits: Record<ModelLimitKey, LimitDraft> };
 type ModelFormParsed = z.output<typeof createModelSchema>;
 
+/** A placeholder in the quantity each model limit is stated in. */
+const LIMIT_EXAMPLES: Record<QuantityKind, string> = {
+  length: 'e.g. 27-1/2 in',
+  slope: 'e.g. 1/4 in/ft',
+  area: 'e.g. 9 ft²',
+  volume: 'e.g. 0.2 ft³',
+  mass: 'e.g. 6 lb',
+  capacity: 'e.g. 24000 Btu/h',
+  angle: 'e.g. 30°',
+  pressure: 'e.g. 0.5 in. w.c.',
+  boolean: 'yes or no',
+};
+
 const FIELDS = [
   'name',
   'modelNumber',
@@ -247,7 +260,7 @@ function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitM
               name={`limits.${def.key}.value`}
               label={def.label}
               testID={`model-limit-${def.key}-value`}
-              placeholder={def.quantity === 'angle' ? 'e.g. 30°' : 'e.g. 27-1/2 in'}
+              placeholder={LIMIT_EXAMPLES[def.quantity]}
             />
           </View>
           <View style={styles.cell}>

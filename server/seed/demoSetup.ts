@@ -46,20 +46,61 @@ interface ModelSpec {
   mountPosition?: MountPosition;
 }
 
+/** Invented round limits the three cassette models share (their ceiling openings differ). */
+const CASSETTE_LIMITS = {
+  max_pump_lift: '30 in',
+  max_drain_horizontal_run: '10 ft',
+  max_level_deviation: '1/4 in',
+  min_distance_to_wall: '3 ft',
+  min_body_to_ceiling: '1/2 in',
+  max_body_to_ceiling: '1 in',
+} as const;
+/** Invented round limits of the two wall models. */
+const WALL_LIMITS = {
+  min_clearance_top: '6 in',
+  min_clearance_side: '4 in',
+  max_level_deviation: '1/8 in',
+  min_mount_height: '7 ft',
+  max_accessory_pump_lift: '6 ft',
+  min_pipe_hole_slope: '1/4 in/ft',
+} as const;
+/** Invented round limits the ducted models share (their static pressure ranges differ). */
+const DUCTED_LIMITS = { max_pump_lift: '24 in', max_drain_horizontal_run: '10 in', max_level_deviation: '1/4 in', min_clearance_front: '2 ft' } as const;
+
 /** Invented unit models. Limits are invented round figures, typed the way the trade writes them. */
 export const DEMO_MODELS: ModelSpec[] = [
-  { name: 'Cassette 4-way 18', modelNumber: 'TC4-18', unitKind: 'cassette_4way', capacity: '18000 Btu/h', limits: { max_pump_lift: '30 in' } },
-  { name: 'Compact cassette 12', modelNumber: 'CC4-12', unitKind: 'cassette_compact', capacity: '12000 Btu/h', limits: { max_pump_lift: '30 in' } },
-  { name: 'Two-way cassette 24', modelNumber: 'TC2-24', unitKind: 'cassette_2way', capacity: '24000 Btu/h', limits: { max_pump_lift: '30 in' } },
-  { name: 'Wall unit 09', modelNumber: 'WM-09', unitKind: 'wall_mounted', capacity: '9000 Btu/h', limits: { min_clearance_top: '6 in' } },
-  { name: 'Wall unit 12', modelNumber: 'WM-12', unitKind: 'wall_mounted', capacity: '12000 Btu/h', limits: { min_clearance_top: '6 in' } },
+  // Every limit the kind's checks read, so a demo walk shows limits rather than "Limit not set".
+  {
+    name: 'Cassette 4-way 18',
+    modelNumber: 'TC4-18',
+    unitKind: 'cassette_4way',
+    capacity: '18000 Btu/h',
+    limits: { ...CASSETTE_LIMITS, min_ceiling_opening: '24 in', max_ceiling_opening: '26 in' },
+  },
+  {
+    name: 'Compact cassette 12',
+    modelNumber: 'CC4-12',
+    unitKind: 'cassette_compact',
+    capacity: '12000 Btu/h',
+    limits: { ...CASSETTE_LIMITS, min_ceiling_opening: '22 in', max_ceiling_opening: '23 in' },
+  },
+  {
+    name: 'Two-way cassette 24',
+    modelNumber: 'TC2-24',
+    unitKind: 'cassette_2way',
+    capacity: '24000 Btu/h',
+    limits: { ...CASSETTE_LIMITS, min_ceiling_opening: '36 in', max_ceiling_opening: '38 in' },
+  },
+  { name: 'Wall unit 09', modelNumber: 'WM-09', unitKind: 'wall_mounted', capacity: '9000 Btu/h', limits: WALL_LIMITS },
+  { name: 'Wall unit 12', modelNumber: 'WM-12', unitKind: 'wall_mounted', capacity: '12000 Btu/h', limits: WALL_LIMITS },
   {
     name: 'Ducted low static 24',
     modelNumber: 'DL-24',
     unitKind: 'ducted_low',
     capacity: '24000 Btu/h',
     mountPosition: 'ceiling',
-    limits: { max_pump_lift: '24 in', max_drain_horizontal_run: '10 in' },
+    // The three ducted kinds differ in their rated external static pressure range.
+    limits: { ...DUCTED_LIMITS, min_external_static: '0.1 in. w.c.', max_external_static: '0.4 in. w.c.' },
   },
   {
     name: 'Ducted high static 36',
@@ -67,12 +108,38 @@ export const DEMO_MODELS: ModelSpec[] = [
     unitKind: 'ducted_high',
     capacity: '3 tons',
     mountPosition: 'ceiling',
-    limits: { max_pump_lift: '24 in', max_drain_horizontal_run: '10 in' },
+    limits: { ...DUCTED_LIMITS, min_external_static: '0.2 in. w.c.', max_external_static: '0.8 in. w.c.' },
   },
-  { name: 'Ducted very high static 48', modelNumber: 'DV-48', unitKind: 'ducted_very_high', capacity: '4 tons', limits: {}, mountPosition: 'ceiling' },
-  { name: 'Floor console 12', modelNumber: 'FC-12', unitKind: 'floor_console', capacity: '12000 Btu/h', limits: {} },
-  { name: 'Floor/ceiling 18', modelNumber: 'FF-18', unitKind: 'floor_ceiling', capacity: '18000 Btu/h', limits: {} },
-  { name: 'Air-handler coil kit 60', modelNumber: 'AK-60', unitKind: 'ahu_coil_kit', capacity: '5 tons', limits: { max_valve_kit_pipe_length: '6 ft' }, mountPosition: 'floor' },
+  {
+    name: 'Ducted very high static 48',
+    modelNumber: 'DV-48',
+    unitKind: 'ducted_very_high',
+    capacity: '4 tons',
+    mountPosition: 'ceiling',
+    limits: { ...DUCTED_LIMITS, min_external_static: '0.4 in. w.c.', max_external_static: '1.2 in. w.c.' },
+  },
+  {
+    name: 'Floor console 12',
+    modelNumber: 'FC-12',
+    unitKind: 'floor_console',
+    capacity: '12000 Btu/h',
+    limits: { max_level_deviation: '1/8 in', min_clearance_side: '4 in', min_clearance_below: '4 in', max_accessory_pump_lift: '6 ft', min_pipe_hole_slope: '1/4 in/ft' },
+  },
+  {
+    name: 'Floor/ceiling 18',
+    modelNumber: 'FF-18',
+    unitKind: 'floor_ceiling',
+    capacity: '18000 Btu/h',
+    limits: { max_level_deviation: '1/4 in', min_clearance_side: '4 in', min_distance_to_wall: '1 ft', max_accessory_pump_lift: '6 ft', min_pipe_hole_slope: '1/4 in/ft' },
+  },
+  {
+    name: 'Air-handler coil kit 60',
+    modelNumber: 'AK-60',
+    unitKind: 'ahu_coil_kit',
+    capacity: '5 tons',
+    limits: { max_valve_kit_pipe_length: '6 ft', min_clearance_front: '2 ft', max_sensor_angle: '45°', min_coil_internal_volume: '1 L', max_coil_internal_volume: '4 L' },
+    mountPosition: 'floor',
+  },
 ];
 
 /** The quantity each model limit is stated in (the one list in shared/catalogue/types.ts). */

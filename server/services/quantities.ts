@@ -30,10 +30,11 @@ const FALLBACK_UNIT: Record<QuantityKind, string> = {
   mass: 'kg',
   capacity: 'W',
   angle: '°',
+  pressure: 'Pa',
   boolean: '',
 };
 
-const SYMBOLS: Record<string, string> = { '"': 'in', "'": 'ft' };
+const SYMBOLS: Record<string, string> = { '"': 'in', "'": 'ft', '"wc': 'in. w.c.', '" wc': 'in. w.c.', '" w.c.': 'in. w.c.' };
 
 /** The unit a value was stated in: the one given, else the last unit typed ("27-1/2 in" → in). */
 function statedUnit(text: string, kind: QuantityKind, given?: string): string {

@@ -9,6 +9,7 @@
  *   mass      kilogram (kg)
  *   capacity  watt (W). Watts, not kW, so that every base unit is a coherent SI unit.
  *   angle     degree (°)
+ *   pressure  pascal (Pa)
  *   boolean   1 = yes, 0 = no
  *
  * Exact conversion factors (NIST SP 811 (2008) Appendix B; international yard and pound, 1959):
@@ -21,6 +22,13 @@
  *   307.2.2 footnote), because it is exact given the Btu definition and makes 12,000 Btu/h and 1 ton
  *   the same number; 3.517 kW is that value rounded to four significant figures.
  *   1 MBH = 1,000 Btu/h.
+ *   1 in. w.c. (inch of water column, the unit duct static pressure is read in) = 249.08891 Pa:
+ *   the conventional inch of water, 0.0254 m × 1000 kg/m³ × 9.80665 m/s² (standard gravity), exact
+ *   by that definition. NIST SP 811 (2008) Appendix B lists it as "inch of water, conventional
+ *   (inH2O)" = 2.490889 E+02 Pa, beside the inch of water at 39.2 °F (2.49082 E+02 Pa) and at 60 °F
+ *   (2.4884 E+02 Pa) (those two from memory; confirm in B.8). Trimout uses the conventional value,
+ *   which names no temperature (water at 1000 kg/m³, about 4 °C); the 60 °F value is 0.1 % lower,
+ *   far below the resolution of a static pressure gauge. 1 kPa = 1000 Pa.
  *
  * Exactness: numbers are parsed into rationals (bigint numerator / denominator), multiplied by the
  * rational conversion factor and divided once at the end, so `4' 10-1/2"` is 117/2 in × 254/10 =
@@ -37,6 +45,7 @@
  *   capacity         `36,000 Btu/h` / `10.55 kW`.
  *   area, volume     `182.7 ft²` / `28.81 m²`, `800 ft³` / `22.65 m³`.
  *   angle            `30°`. boolean `Yes` / `No`.
+ *   pressure         `0.5 in. w.c.` (two decimals, trailing zeros dropped) / `125 Pa` (whole pascals).
  * Every display string parses back: parse(format(x)) === x for imperial lengths on the 1/16 in grid
  * and for metric lengths on the 0.1 mm grid.
  */
@@ -128,6 +137,8 @@ const BTU_J = ratDec('1055.05585262');
 const BTUH_W = div(BTU_J, rat(3600n));
 const TON_W = mul(rat(12000n), BTUH_W);
 const IN_M = ratDec('0.0254');
+/** The conventional inch of water: 0.0254 m × 1000 kg/m³ × 9.80665 m/s² = 249.08891 Pa. */
+const INWC_PA = mul(mul(IN_M, rat(1000n)), ratDec('9.80665'));
 const FT_M = ratDec('0.3048');
 
 /** Exact factors, exported for tests and documentation. */
@@ -137,6 +148,7 @@ export const FACTORS = {
   poundToKg: LB_KG,
   btuToJoule: BTU_J,
   btuPerHourToWatt: BTUH_W,
+  inchWaterToPascal: INWC_PA,
   tonToWatt: TON_W,
   cubicFootToCubicMetre: mul(mul(FT_M, FT_M), FT_M),
   squareFootToSquareMetre: mul(FT_M, FT_M),
@@ -147,6 +159,8 @@ export const WATTS_PER_TON = rationalToNumber(TON_W);
 /** 1 ft³ in m³: 0.028316846592 exactly. */
 export const CUBIC_METRES_PER_CUBIC_FOOT = rationalToNumber(FACTORS.cubicFootToCubicMetre);
 export const MM_PER_INCH = 25.4;
+/** 1 in. w.c. (conventional inch of water) in pascals: 249.08891. */
+export const PASCALS_PER_INCH_WATER = rationalToNumber(INWC_PA);
 export const MM_PER_FOOT = 304.8;
 export const KG_PER_POUND = 0.45359237;
 
@@ -206,6 +220,13 @@ unit(['w', 'watt', 'watts'], { symbol: 'W', kind: 'capacity', factor: rat(1n), s
 unit(['kw', 'kilowatt', 'kilowatts'], { symbol: 'kW', kind: 'capacity', factor: rat(1000n), system: 'metric' });
 // angle
 unit(['°', 'deg', 'degree', 'degrees'], { symbol: '°', kind: 'angle', factor: rat(1n), system: 'both' });
+// pressure (duct static pressure)
+unit(
+  ['in. w.c.', 'in w.c.', 'in.w.c.', 'in wc', 'in. wc', 'inwc', 'in. w.g.', 'in w.g.', 'in wg', 'in h2o', 'inh2o', 'in. h2o', 'iwc', '"wc', '" wc', '" w.c.', 'inches of water', 'inch of water'],
+  { symbol: 'in. w.c.', kind: 'pressure', factor: INWC_PA, system: 'imperial' },
+);
+unit(['pa', 'pascal', 'pascals'], { symbol: 'Pa', kind: 'pressure', factor: rat(1n), system: 'metric' });
+unit(['kpa', 'kilopascal', 'kilopascals'], { symbol: 'kPa', kind: 'pressure', factor: rat(1000n), system: 'metric' });
 
 /** Every accepted spelling (lower case) → its unit. Longest spellings are tried first. */
 const SPELLINGS: Array<[string, UnitDef]> = UNIT_LIST.flatMap(([ss, def]) =>
@@ -243,6 +264,7 @@ const KIND_WORDS: Record<QuantityKind, string> = {
   mass: 'a mass',
   capacity: 'a capacity',
   angle: 'an angle',
+  pressure: 'a pressure',
   boolean: 'a yes/no answer',
 };
 
@@ -254,6 +276,7 @@ const KIND_EXAMPLES: Record<QuantityKind, string> = {
   mass: '38 lb, 12 lb 6 oz or 17.2 kg',
   capacity: '36000 Btu/h, 3 tons or 10.5 kW',
   angle: '30°',
+  pressure: '0.5 in. w.c. or 125 Pa',
   boolean: 'yes or no',
 };
 
@@ -617,6 +640,8 @@ export function formatQuantity(value: number, kind: QuantityKind, system: UnitSy
       return imperial ? `${formatNumber(fromBase(value, 'Btu/h'), 0, true)} Btu/h` : `${formatNumber(value / 1000, 2)} kW`;
     case 'angle':
       return `${formatNumber(value, 1)}°`;
+    case 'pressure':
+      return imperial ? `${formatNumber(fromBase(value, 'in. w.c.'), 2)} in. w.c.` : `${formatNumber(value, 0, true)} Pa`;
     case 'boolean':
       return value ? 'Yes' : 'No';
   }

@@ -1522,10 +1522,12 @@ const ITEMS: CatalogueItem[] = [
     defaultSeverity: 'major',
     trade: 'mechanical',
     measuredRule: {
-      measure: 'Measured external static pressure within the low-static model\'s rated range and the setting chosen',
-      quantity: 'boolean',
-      comparison: 'yes_no',
-      expected: true,
+      measure: 'External static pressure measured across the unit (supply less return, as the manual shows)',
+      quantity: 'pressure',
+      comparison: 'between',
+      // The model's rated range: what sets the low static kind apart from the other ducted kinds.
+      limit: { from: 'model', key: 'min_external_static' },
+      upper: { from: 'model', key: 'max_external_static' },
     },
     fixGuidance:
       "Measure the static pressure at the unit's supply and return as the manual shows, set the static pressure setting the duct design calls for, and where the reading stays outside the model's range, rework the ductwork.",
@@ -1542,10 +1544,12 @@ const ITEMS: CatalogueItem[] = [
     defaultSeverity: 'major',
     trade: 'mechanical',
     measuredRule: {
-      measure: 'Measured external static pressure within the high-static model\'s rated range and the setting chosen',
-      quantity: 'boolean',
-      comparison: 'yes_no',
-      expected: true,
+      measure: 'External static pressure measured across the unit (supply less return, as the manual shows)',
+      quantity: 'pressure',
+      comparison: 'between',
+      // The model's rated range: what sets the high static kind apart from the other ducted kinds.
+      limit: { from: 'model', key: 'min_external_static' },
+      upper: { from: 'model', key: 'max_external_static' },
     },
     fixGuidance:
       "Measure the static pressure at the unit's supply and return as the manual shows, set the static pressure setting the duct design calls for, and where the reading stays outside the model's range, rework the ductwork.",
@@ -1562,10 +1566,12 @@ const ITEMS: CatalogueItem[] = [
     defaultSeverity: 'major',
     trade: 'mechanical',
     measuredRule: {
-      measure: 'Measured external static pressure within the very high-static model\'s rated range and the setting chosen',
-      quantity: 'boolean',
-      comparison: 'yes_no',
-      expected: true,
+      measure: 'External static pressure measured across the unit (supply less return, as the manual shows)',
+      quantity: 'pressure',
+      comparison: 'between',
+      // The model's rated range: what sets the very high static kind apart from the other ducted kinds.
+      limit: { from: 'model', key: 'min_external_static' },
+      upper: { from: 'model', key: 'max_external_static' },
     },
     fixGuidance:
       "Measure the static pressure at the unit's supply and return as the manual shows, set the static pressure setting the duct design calls for, and where the reading stays outside the model's range, rework the ductwork.",

@@ -15,6 +15,7 @@ export const QUANTITY_KINDS = [
   'mass', // refrigerant charge
   'capacity', // cooling capacity
   'angle',
+  'pressure', // duct external static pressure (Pa; in. w.c. typed)
   'boolean', // yes/no observations
 ] as const;
 export type QuantityKind = (typeof QUANTITY_KINDS)[number];
@@ -46,6 +47,8 @@ export const MODEL_LIMITS = [
   { key: 'max_ceiling_opening', label: 'Largest ceiling opening side for the cassette', quantity: 'length' },
   { key: 'min_coil_internal_volume', label: 'Smallest coil internal volume the coil kit controls', quantity: 'volume' },
   { key: 'max_coil_internal_volume', label: 'Largest coil internal volume the coil kit controls', quantity: 'volume' },
+  { key: 'min_external_static', label: 'Lowest rated external static pressure', quantity: 'pressure' },
+  { key: 'max_external_static', label: 'Highest rated external static pressure', quantity: 'pressure' },
 ] as const;
 export type ModelLimitKey = (typeof MODEL_LIMITS)[number]['key'];
 

@@ -75,6 +75,33 @@ describe('demo seed: job set-up', () => {
     expect(r32.a2lFloorArea.every((row) => row.result.status === 'pass')).toBe(true);
   });
 
+  it('gives every demo model a value for each model limit its kind\'s checks read, so a demo walk shows limits', async () => {
+    await seedDemo(db);
+    const job = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!;
+    const models = await UnitModel.findAll({ where: { jobId: job.id } });
+    const missing: string[] = [];
+    for (const model of models) {
+      for (const item of BUILTIN_CATALOGUE.filter((i) => i.unitKinds.includes(model.unitKind))) {
+        for (const ref of [item.measuredRule?.limit, item.measuredRule?.upper]) {
+          if (ref?.from !== 'model') continue;
+          const limit = model.limits[ref.key];
+          if (!limit) missing.push(`${model.modelNumber} ${ref.key} (${item.code})`);
+          else expect(limit.source).toMatch(/^Invented demo model /);
+        }
+      }
+    }
+    expect(missing).toEqual([]);
+    // The ducted kinds differ in their rated external static pressure range (invented round figures, in. w.c.;
+    // 1 in. w.c. = 249.08891 Pa, the conventional inch of water).
+    const range = async (modelNumber: string) => {
+      const m = (await UnitModel.findOne({ where: { jobId: job.id, modelNumber } }))!;
+      return [m.limits.min_external_static!.stated, m.limits.max_external_static!.stated, m.limits.max_external_static!.unit];
+    };
+    expect(await range('DL-24')).toEqual([0.1, 0.4, 'in. w.c.']);
+    expect(await range('DH-36')).toEqual([0.2, 0.8, 'in. w.c.']);
+    expect(await range('DV-48')).toEqual([0.4, 1.2, 'in. w.c.']);
+  });
+
   it('gives the unit models invented round limits with a source that says they are invented', async () => {
     await seedDemo(db);
     const job = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!;
