@@ -8,6 +8,7 @@ export const MULTIPART_PATHS: readonly RegExp[] = [
   /^\/jobs\/[^/]+\/findings$/,
   /^\/jobs\/[^/]+\/findings\/[^/]+\/(fixes|photos|reinspections)$/,
   /^\/jobs\/[^/]+\/levels\/[^/]+\/plan$/,
+  /^\/jobs\/[^/]+\/test-records$/,
 ];
 
 /** A request with a body on a JSON route must say application/json (else 415). */
