@@ -11,7 +11,7 @@ import { randomUUID } from 'node:crypto';
 import request, { type Response } from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
 import type { TrimoutApp } from '../../../server/app';
-import { CatalogueItem, Crew, Level, User } from '../../../server/models';
+import { CatalogueItem, Crew, Level, TestRecord, User } from '../../../server/models';
 import { signUnsubscribeToken } from '../../../server/digests/unsubscribeToken';
 import { issueToken } from '../../../server/services/tokens';
 import { caller, type Caller } from '../../support/api';
@@ -157,6 +157,37 @@ async function userToken(purpose: 'password_reset' | 'email_confirmation', confi
   if (!confirmed) await user.update({ emailConfirmedAt: null });
   const sequelize = CatalogueItem.sequelize!;
   return sequelize.transaction(async (transaction) => (await issueToken(purpose, { userId: user.id }, transaction)).token);
+}
+
+const evacuationBody = (w: World) => ({
+  kind: 'evacuation',
+  systemId: w.system.id,
+  deepestReading: '350 microns',
+  isolatedReading: '380 microns',
+  afterHoldReading: '610 microns',
+  holdMinutes: 15,
+});
+
+/** A fresh evacuation record of the world's system, made by company A's subcontractor (so anyone else may witness it). */
+async function testRecordOf(w: World): Promise<string> {
+  const row = await TestRecord.create({
+    id: randomUUID(),
+    jobId: w.job.id,
+    kind: 'evacuation',
+    systemId: w.system.id,
+    unitId: null,
+    companyId: w.subA.companyId,
+    levelIds: null,
+    recordedBy: w.subA.id,
+    recordedAt: new Date(),
+    supersedesId: null,
+    result: 'passed',
+    reasons: [],
+    data: evacuationBody(w),
+    figures: {},
+    note: null,
+  });
+  return row.id;
 }
 
 /** A fresh level of `w` with a plan (uploaded by the world's GC manager). */
@@ -323,6 +354,13 @@ export const CASES: Record<string, RouteCase> = {
       const crew = await Crew.create({ jobId: w.job.id, companyId: w.subA.companyId, name: `Crew ${uniq()}` });
       return { path: J(w, `/crews/${crew.id}`), body: { name: `Crew ${uniq()}` }, headers: IF_MATCH };
     },
+  },
+  'GET /api/jobs/:jobId/test-records': { setup: async (w) => ({ path: J(w, '/test-records') }) },
+  'POST /api/jobs/:jobId/test-records': { setup: async (w) => ({ path: J(w, '/test-records'), body: evacuationBody(w) }) },
+  'GET /api/jobs/:jobId/test-records.csv': { serial: true, setup: async (w) => ({ path: J(w, '/test-records.csv') }) },
+  'GET /api/jobs/:jobId/test-records/:recordId': { setup: async (w) => ({ path: J(w, `/test-records/${await testRecordOf(w)}`) }) },
+  'POST /api/jobs/:jobId/test-records/:recordId/witness': {
+    setup: async (w) => ({ path: J(w, `/test-records/${await testRecordOf(w)}/witness`), body: {}, headers: IF_MATCH }),
   },
   'DELETE /api/jobs/:jobId/crews/:crewId': {
     setup: async (w) => {

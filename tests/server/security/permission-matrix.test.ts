@@ -123,6 +123,12 @@ export const EXPECTED: Record<string, Row> = {
   'POST /api/jobs/:jobId/crews': r(401, 201, 403, 201, 403),
   'PATCH /api/jobs/:jobId/crews/:crewId': r(401, 200, 403, 200, 404),
   'DELETE /api/jobs/:jobId/crews/:crewId': r(401, 204, 403, 204, 404),
+  // Test records: the world's system names no company, so company A (mechanical) answers for it and B does not see it.
+  'GET /api/jobs/:jobId/test-records': member(200), // a subcontractor's list holds only their company's systems and units
+  'POST /api/jobs/:jobId/test-records': r(401, 403, 201, 201, 404), // an inspector or the responsible company records; a GC manager witnesses instead
+  'GET /api/jobs/:jobId/test-records.csv': member(200),
+  'GET /api/jobs/:jobId/test-records/:recordId': r(401, 200, 200, 200, 404),
+  'POST /api/jobs/:jobId/test-records/:recordId/witness': r(401, 200, 200, 403, 403), // an inspector or GC manager confirms
   'PATCH /api/jobs/:jobId/members/:memberId': gcOnly(200),
   'DELETE /api/jobs/:jobId/members/:memberId': gcOnly(204),
   'POST /api/jobs/:jobId/catalogue': gcOnly(201),
