@@ -95,6 +95,11 @@ export function FindingsListScreen({
           testID="findings-export"
         />
       ) : null}
+      {first && first.total > 0 ? (
+        <AppText variant="small" muted testID="findings-export-plain">
+          The CSV is plain data, without the cautions: the manufacturer&apos;s installation manual, local codes and licensed practice govern.
+        </AppText>
+      ) : null}
       <FindingsFilters
         value={filters}
         onChange={onFiltersChange}

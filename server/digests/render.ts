@@ -3,6 +3,7 @@
  * in the HTML goes through escapeHtml (attributes included); links are built from encoded path parts
  * on the public origin. No remote images, no scripts, inline styles only: our own simple design.
  */
+import { MAIL_DEFERRAL } from '../../shared/deferral';
 import { digestName, digestScheduleSentence, type DigestSchedule } from '../../shared/digestSchedule';
 import { SEVERITY_LABELS } from '../../shared/words';
 import { escapeHtml, headerSafe } from '../mail/safe';
@@ -238,13 +239,14 @@ export function renderDigest(content: DigestContent, options: RenderOptions): Ma
     why,
     `Change how often: ${prefs}`,
     `Stop these digests: ${page}`,
+    MAIL_DEFERRAL,
   ].join('\n');
 
   const body =
     content.subcontractorJobs.map((j) => htmlSubJob(j, origin)).join('\n') +
     content.managerJobs.map((j) => htmlManagerJob(j, origin, periodWord)).join('\n') +
     (content.subcontractorJobs.length + content.managerJobs.length === 0 ? '<p>You are not a GC manager or a subcontractor on any job yet.</p>' : '');
-  const footer = `${e(why)}<br><a href="${e(prefs)}" style="color:${COLORS.muted}">Change how often</a> · <a href="${e(page)}" style="color:${COLORS.muted}">Stop these digests</a><br>Trimout records what people observed; it does not certify an installation.`;
+  const footer = `${e(why)}<br><a href="${e(prefs)}" style="color:${COLORS.muted}">Change how often</a> · <a href="${e(page)}" style="color:${COLORS.muted}">Stop these digests</a><br>${e(MAIL_DEFERRAL)}`;
   const html = frame(title, `${e(content.company.name)} · from ${e(since)} to ${e(until)} (${e(timeZone)})`, body, footer);
   return {
     to: { name: content.user.name, address: content.user.email },
@@ -288,12 +290,13 @@ export function renderCriticalAssignment(a: CriticalAssignment, options: Omit<Re
     '--',
     `You get this mail because critical-finding mails are on in your preferences: ${prefs}`,
     `Stop these mails: ${page}`,
+    MAIL_DEFERRAL,
   ].join('\n');
   const body = `<p style="margin:0 0 12px;font-size:16px;line-height:23px;color:${COLORS.ink}">${e(lead)}</p>
 <table role="presentation" width="100%" cellpadding="0" cellspacing="0" style="border-collapse:collapse">${htmlFinding(f, origin)}</table>
 <p style="margin:18px 0"><a href="${e(url)}" style="display:inline-block;background:${COLORS.brand};color:${COLORS.paper};text-decoration:none;font-weight:bold;padding:12px 20px;border-radius:10px">Open finding #${f.number}</a></p>
 <p style="margin:0 0 12px;font-size:13px;color:${COLORS.muted}">Where the fix involves electrical, refrigerant, brazing, lifting or overhead work, follow the manufacturer's installation manual, local codes and licensed practice.</p>`;
-  const footer = `You get this mail because critical-finding mails are on in your <a href="${e(prefs)}" style="color:${COLORS.muted}">preferences</a>. <a href="${e(page)}" style="color:${COLORS.muted}">Stop these mails</a>.`;
+  const footer = `You get this mail because critical-finding mails are on in your <a href="${e(prefs)}" style="color:${COLORS.muted}">preferences</a>. <a href="${e(page)}" style="color:${COLORS.muted}">Stop these mails</a>.<br>${e(MAIL_DEFERRAL)}`;
   return {
     to: { name: a.user.name, address: a.user.email },
     subject: headerSafe(`Critical finding #${f.number} on ${a.jobName}: ${f.code} ${f.title}`),

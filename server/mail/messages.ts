@@ -3,6 +3,7 @@
  * invitation to a job, password reset. Each has a plain-text and an HTML part; every value in
  * the HTML is escaped and every value in the subject is cleaned by the outbox (headerSafe).
  */
+import { MAIL_DEFERRAL } from '../../shared/deferral';
 import { ROLE_LABELS, type Role } from '../../shared/words';
 import type { MailMessage } from './outbox';
 import { escapeHtml, headerSafe } from './safe';
@@ -20,7 +21,7 @@ function textPart(block: Block): string {
   const lines = [block.heading, '', ...block.paragraphs.flatMap((p) => [p, ''])];
   if (block.action) lines.push(`${block.action.label}:`, block.action.url, '');
   for (const p of block.after ?? []) lines.push(p, '');
-  lines.push('--', FOOTER);
+  lines.push('--', FOOTER, MAIL_DEFERRAL);
   return lines.join('\n');
 }
 
@@ -38,7 +39,7 @@ function htmlPart(block: Block): string {
 ${block.paragraphs.map(p).join('\n')}
 ${action}
 ${(block.after ?? []).map(p).join('\n')}
-<p style="margin:22px 0 0;font-size:12px;color:#8A928D">${escapeHtml(FOOTER)}</p>
+<p style="margin:22px 0 0;font-size:12px;color:#8A928D">${escapeHtml(FOOTER)}<br>${escapeHtml(MAIL_DEFERRAL)}</p>
 </div></body></html>`;
 }
 
