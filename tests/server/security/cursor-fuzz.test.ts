@@ -20,6 +20,7 @@ import type { Response } from 'supertest';
 import type { z } from 'zod';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
+import { TestRecord } from '../../../server/models';
 import { buildTestApp, signIn, type SignedIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildSpace, buildSystem, buildUnitModel } from '../../support/factories';
@@ -50,7 +51,27 @@ beforeAll(async () => {
   gc = await signIn(trimout.app, w.gcManager.email);
   // At least two rows in every list, so limit=1 gives a cursor.
   await buildSpace(w.job.id, w.otherLevel.id, { name: 'Corridor 4A' });
-  await buildSystem(w.job.id, { name: 'VRF-1' });
+  const vrf1 = await buildSystem(w.job.id, { name: 'VRF-1' });
+  // Two test records, written straight to the table (a GC manager witnesses records; others make them).
+  for (const [i, result] of (['passed', 'failed'] as const).entries()) {
+    await TestRecord.create({
+      id: crypto.randomUUID(),
+      jobId: w.job.id,
+      kind: 'evacuation',
+      systemId: vrf1.id,
+      unitId: null,
+      companyId: null,
+      levelIds: null,
+      recordedBy: w.inspector.id,
+      recordedAt: new Date(Date.UTC(2026, 11, 1, 8, i)),
+      supersedesId: null,
+      result,
+      reasons: [],
+      data: {},
+      figures: {},
+      note: null,
+    });
+  }
   await buildSystem(w.job.id, { name: 'VRF-2' });
   await buildUnitModel(w.job.id, { name: 'WM-09', unitKind: 'wall_mounted' });
   await buildSystem(again.job.id, { name: 'VRF-9' });
@@ -124,6 +145,7 @@ const LISTS: Record<string, () => string[]> = {
     J2('/findings'),
   ],
   'GET /api/jobs/:jobId/invitations': () => [J('/invitations'), J2('/invitations')],
+  'GET /api/jobs/:jobId/test-records': () => [J('/test-records'), J('/test-records?kind=evacuation'), J('/test-records?witnessed=false'), J2('/test-records')],
 };
 
 /** Routes whose query takes `cursor` but that do not page: the reason, and one valid request. */
