@@ -24,6 +24,7 @@ import {
   type StartupMode,
   type VacuumUnit,
 } from '../calc/testRecords';
+import type { LevelReadiness, ReadinessResponse, SystemReadiness } from './board';
 import { booleanQuery, id, limited, pageQuery, textLimit } from './fields';
 import './plainWords';
 
@@ -447,3 +448,49 @@ export interface TestRecordList {
   nextCursor: string | null;
   caution: string;
 }
+
+// ------------------------------------------------------------------------------------------------
+// Readiness (GET /api/jobs/:jobId/readiness): the records behind each blocker
+
+/**
+ * A record readiness waits for. `missing`: none on file; `failed`: the latest (not superseded)
+ * record failed; `awaiting_witness`: it passed but nobody has witnessed it yet (where the rule
+ * needs a witness). `recordId` links the record behind a failed or awaiting one (null when missing).
+ */
+export interface TestBlocker {
+  kind: TestRecordKind;
+  state: 'missing' | 'failed' | 'awaiting_witness';
+  systemId: string | null;
+  systemName: string | null;
+  unitId: string | null;
+  unitTag: string | null;
+  /** The level the pipework is on (pressure tests, per level). */
+  levelId: string | null;
+  recordId: string | null;
+}
+
+/** What a level adds to the readiness answer. */
+export interface LevelTestReadiness {
+  /** Every system with pipework on the level has a passed, witnessed pressure test covering it, and every concealed unit a passed drain test. */
+  testsReady: boolean;
+  testBlockers: TestBlocker[];
+}
+
+/** What a system adds to the readiness answer. */
+export interface SystemTestReadiness {
+  /** Units ready (today's rule), and pressure test (every level) and evacuation passed, charge recorded. */
+  startupReady: boolean;
+  startupBlockers: TestBlocker[];
+  /** Start-up ready, the start-up record passed, and every unit on the system has a passed drain test (pumped units proven with power). */
+  accepted: boolean;
+  acceptanceBlockers: TestBlocker[];
+}
+
+/** Unit kinds hidden above the ceiling, whose drains are tested before it closes: ducted units and the coil kit. */
+export const CONCEALED_UNIT_KINDS = ['ducted_low', 'ducted_high', 'ducted_very_high', 'ahu_coil_kit'] as const;
+
+/** GET /api/jobs/:jobId/readiness as it is answered: each level and system with its test figures. */
+export type ReadinessWithTests = Omit<ReadinessResponse, 'levels' | 'systems'> & {
+  levels: Array<LevelReadiness & LevelTestReadiness>;
+  systems: Array<SystemReadiness & SystemTestReadiness>;
+};

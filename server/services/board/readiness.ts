@@ -7,17 +7,18 @@ import {
   type LevelReadiness,
   type ReadinessBlocker,
   type ReadinessQuery,
-  type ReadinessResponse,
   READINESS_LEVEL_BLOCKERS_MAX,
   READINESS_UNIT_BLOCKERS_MAX,
   type SystemReadiness,
   type UnitReadiness,
 } from '../../../shared/schemas/board';
 import { CEILING_UNIT_KINDS } from '../../../shared/rules/ceilings';
+import type { ReadinessWithTests } from '../../../shared/schemas/testRecords';
 import type { UnitKindKey } from '../../../shared/words';
 import type { FindingScope } from '../findingQueries';
 import { Bind, companyCond, latestCheckJoin, num, select, selectTuned } from './common';
 import { ceilingOf } from './levels';
+import { loadTestFacts, withTests } from './testReadiness';
 
 /** JSON of one blocker row (aliases f, `item` = where code and title are, bu = the finding's unit). */
 const blockerJson = (item: string) => `json_build_object('findingId', f.id, 'number', f.number, 'code', ${item}.code, 'title', coalesce(f.title, ${item}.title),
@@ -62,7 +63,7 @@ interface LevelRow {
  * system and the levels it has units on. A system is always judged (and listed) with ALL its units.
  * Null when the given level or system is not on the job.
  */
-export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, query: ReadinessQuery = {}): Promise<ReadinessResponse | null> {
+export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, query: ReadinessQuery = {}): Promise<ReadinessWithTests | null> {
   const b = new Bind(scope.jobId);
   const company = companyCond(b, scope);
   const levelRef = query.levelId ? `${b.add(query.levelId)}::uuid` : null;
@@ -185,10 +186,11 @@ export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, q
      WHERE ${levelConds.join(' AND ')}
      ORDER BY lv.position, lv.id`;
 
-  const [unitRows, systemRows, levelRows] = await Promise.all([
+  const [unitRows, systemRows, levelRows, testFacts] = await Promise.all([
     selectTuned<UnitStateRow>(sequelize, unitsSql, b.values),
     selectTuned<SystemRow>(sequelize, systemsSql, b.values),
     selectTuned<LevelRow>(sequelize, levelsSql, b.values),
+    loadTestFacts(sequelize, scope),
   ]);
 
   const unitDto = (r: UnitStateRow): UnitReadiness => ({
@@ -233,5 +235,6 @@ export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, q
     unitsTotal: num(l.units_total),
     unitsReady: num(l.units_ready),
   }));
-  return { systems, levels, unitsWithoutSystem, companyScope: scope.companyId };
+  // Test records hold levels and systems back too (testReadiness.ts).
+  return { ...withTests(testFacts, levels, systems), unitsWithoutSystem, companyScope: scope.companyId };
 }

@@ -27,6 +27,7 @@ import {
   type ScorecardsResponse,
   type TrendResponse,
 } from '../../../shared/schemas/board';
+import type { ReadinessWithTests } from '../../../shared/schemas/testRecords';
 import type { FindingStatus, Severity } from '../../../shared/words';
 import { caller, jobPath, type Caller } from '../../support/api';
 import { buildTestApp, csrfFor, signIn } from '../../support/app';
@@ -112,7 +113,9 @@ interface Rows {
     installed_by_crew_id: string | null;
   }[];
   crews: { id: string; company_id: string; name: string }[];
-  systems: { id: string; name: string }[];
+  systems: { id: string; name: string; company_id: string | null }[];
+  /** Test records (pressure tests and drain tests decide whether a level's ceilings can close). */
+  tests: { id: string; kind: string; system_id: string | null; unit_id: string | null; level_ids: string[] | null; result: string; witnessed: boolean; superseded: boolean; recorded_at: Date; created_at: Date }[];
   checks: { id: string; unit_id: string; checked_at: Date; complete: boolean }[];
   items: { id: string; code: string; title: string; unit_kinds: string[]; needs_ceiling_access: boolean }[];
   events: { id: string; finding_id: string; kind: string; at: Date; from: Record<string, unknown> | null; to: Record<string, unknown> | null }[];
@@ -135,13 +138,46 @@ async function readRows(jobId: string): Promise<Rows> {
               CASE WHEN x.id IS NULL THEN NULL ELSE json_build_object('id', x.id, 'name', x.name) END AS excluded_by
          FROM units u LEFT JOIN users x ON x.id = u.ceiling_excluded_by WHERE u.job_id = $1`,
     ),
-    systems: await q(`SELECT id, name FROM systems WHERE job_id = $1`),
+    systems: await q(`SELECT id, name, company_id FROM systems WHERE job_id = $1`),
+    tests: await q(
+      `SELECT r.id, r.kind, r.system_id, r.unit_id, r.level_ids, r.result, r.witnessed_at IS NOT NULL AS witnessed, r.recorded_at, r.created_at,
+              EXISTS (SELECT 1 FROM test_records nx WHERE nx.supersedes_id = r.id) AS superseded
+         FROM test_records r WHERE r.job_id = $1`,
+    ),
     crews: await q(`SELECT id, company_id, name FROM crews WHERE job_id = $1`),
     checks: await q(`SELECT id, unit_id, checked_at, complete FROM unit_checks WHERE job_id = $1`),
     items: await q(`SELECT id, code, title, unit_kinds, needs_ceiling_access FROM catalogue_items WHERE job_id = $1`),
     events: await q(`SELECT id, finding_id, kind, at, "from", "to" FROM finding_events WHERE job_id = $1`),
     companies: await q(`SELECT c.id, c.name, jc.trades FROM job_companies jc JOIN companies c ON c.id = jc.company_id WHERE jc.job_id = $1`),
   };
+}
+
+/**
+ * Whether a level's test records let its ceilings close: every system with a unit on the level has,
+ * as its latest record not superseded, a passed and witnessed pressure test covering the level, and
+ * every ducted unit or coil kit not excluded from the ceiling rule a passed drain test. A
+ * subcontractor is judged only on the systems their company answers for (the system's company, or
+ * the mechanical companies when it names none). The lists behind it: test-readiness.test.ts.
+ */
+function levelTestsReady(rows: Rows, levelId: string, companyId: string | null): boolean {
+  const mechanical = (c: string) => rows.companies.some((x) => x.id === c && x.trades.includes('mechanical'));
+  const answers = (systemId: string | null) => {
+    if (!companyId) return true;
+    const owner = rows.systems.find((x) => x.id === systemId)?.company_id ?? null;
+    return owner ? owner === companyId : mechanical(companyId);
+  };
+  const newest = (list: Rows['tests']) =>
+    [...list].filter((t) => !t.superseded).sort((a, b) => b.recorded_at.getTime() - a.recorded_at.getTime() || b.created_at.getTime() - a.created_at.getTime() || (a.id < b.id ? 1 : -1))[0];
+  const units = rows.units.filter((u) => u.level_id === levelId && answers(u.system_id));
+  for (const systemId of new Set(units.map((u) => u.system_id).filter((x): x is string => x !== null))) {
+    const p = newest(rows.tests.filter((t) => t.kind === 'pressure' && t.system_id === systemId && (t.level_ids === null || t.level_ids.includes(levelId))));
+    if (!p || p.result !== 'passed' || !p.witnessed) return false;
+  }
+  for (const u of units.filter((x) => /^(ducted_|ahu_coil_kit)/.test(x.kind) && x.ceiling_excluded_reason === null)) {
+    const d = newest(rows.tests.filter((t) => t.kind === 'drain' && t.unit_id === u.id));
+    if (!d || d.result !== 'passed') return false;
+  }
+  return true;
 }
 
 /** Units whose latest check (by checked_at, then id) is complete. */
@@ -293,7 +329,9 @@ function expectedReadiness(rows: Rows, companyId: string | null): ReadinessRespo
         levelId: l.id,
         name: l.name,
         position: l.position,
-        ...ceilingVerdict(ceilingUnits.length, unchecked.length, blockers.length),
+        // A level whose test records hold it back cannot close its ceilings either.
+        ...ceilingVerdict(ceilingUnits.length, unchecked.length, blockers.length + (levelTestsReady(rows, l.id, companyId) ? 0 : 1)),
+        testsReady: levelTestsReady(rows, l.id, companyId),
         ceilingUnits: ceilingUnits.length,
         ceilingUnitsUnchecked: unchecked.length,
         uncheckedCeilingUnits: unchecked.slice(0, READINESS_LEVEL_BLOCKERS_MAX).map((u) => ({ unitId: u.unitId, tag: u.tag, version: row(u).version })),
@@ -314,11 +352,18 @@ function expectedReadiness(rows: Rows, companyId: string | null): ReadinessRespo
   return { systems, levels, unitsWithoutSystem: all.filter((u) => u.systemId === null), companyScope: companyId } as ReadinessResponse;
 }
 
-/** Sorted by ids so the comparison does not depend on text collation. */
-function normaliseReadiness(r: ReadinessResponse): ReadinessResponse {
+/**
+ * Sorted by ids so the comparison does not depend on text collation. The lists of test records
+ * behind each level and system are checked by hand in test-readiness.test.ts; here a level keeps
+ * only whether its tests are ready.
+ */
+function normaliseReadiness(r: ReadinessWithTests): ReadinessResponse {
   return {
     ...r,
-    systems: [...r.systems].sort(byKey('systemId')).map((s) => ({ ...s, units: [...s.units].sort(byKey('unitId')) })),
+    levels: r.levels.map(({ testBlockers: _t, ...l }) => l),
+    systems: [...r.systems]
+      .sort(byKey('systemId'))
+      .map(({ startupReady: _s, startupBlockers: _sb, accepted: _a, acceptanceBlockers: _ab, ...s }) => ({ ...s, units: [...s.units].sort(byKey('unitId')) })),
     unitsWithoutSystem: [...r.unitsWithoutSystem].sort(byKey('unitId')),
   };
 }
@@ -818,11 +863,17 @@ describe('a small hand-built job', () => {
     expect(res.status).toBe(200);
     const body = res.body as ReadinessResponse;
     const blockerF6 = { findingId: f.F6!.id, number: f.F6!.number, code: 'PG-01', title: expect.any(String), severity: 'critical', status: 'open', unitId: u.U3!.id, unitTag: 'U3' };
+    const missing = (kind: string, levelId: string | null = null) => ({ kind, state: 'missing', systemId: S.id, systemName: 'Circuit 1', unitId: null, unitTag: null, levelId, recordId: null });
+    const missingDrain = (x: { id: string; tag: string }) => ({ kind: 'drain', state: 'missing', systemId: S.id, systemName: 'Circuit 1', unitId: x.id, unitTag: x.tag, levelId: null, recordId: null });
     const blockerF7 = { findingId: f.F7!.id, number: f.F7!.number, code: 'CT-03', title: expect.any(String), severity: 'minor', status: 'fix_submitted', unitId: u.U4!.id, unitTag: 'U4' };
     // Circuit 1: U3 is blocked by the open critical F6; U4 is ready (F7 is minor).
     expect(body.systems).toEqual([
       {
         systemId: S.id, name: 'Circuit 1', ready: false, unitsTotal: 2, unitsReady: 1, unitsUnchecked: 0,
+        // No test records on this job: every one is missing.
+        startupReady: false, startupBlockers: [missing('pressure', L2.id), missing('evacuation'), missing('charge')],
+        accepted: false,
+        acceptanceBlockers: [missing('pressure', L2.id), missing('evacuation'), missing('charge'), missing('startup'), missingDrain(u.U3!), missingDrain(u.U4!)],
         units: [
           { unitId: u.U3!.id, tag: 'U3', kind: 'cassette_4way', levelId: L2.id, systemId: S.id, checked: true, ready: false, blockers: [blockerF6] },
           { unitId: u.U4!.id, tag: 'U4', kind: 'wall_mounted', levelId: L2.id, systemId: S.id, checked: true, ready: true, blockers: [] },
@@ -839,10 +890,12 @@ describe('a small hand-built job', () => {
       {
         levelId: L1.id, name: 'First', position: 1, ceilingState: 'blocked', ceilingReady: false, ceilingUnits: 4, ceilingUnitsUnchecked: 1,
         uncheckedCeilingUnits: [{ unitId: u.U2!.id, tag: 'U2', version: 1 }], ceilingUnitsExcluded: 0, excludedCeilingUnits: [], blockers: [], unitsTotal: 4, unitsReady: 3,
+        testsReady: true, testBlockers: [],
       },
       {
         levelId: L2.id, name: 'Second', position: 2, ceilingState: 'blocked', ceilingReady: false, ceilingUnits: 1, ceilingUnitsUnchecked: 0,
         uncheckedCeilingUnits: [], ceilingUnitsExcluded: 0, excludedCeilingUnits: [], blockers: [blockerF7], unitsTotal: 2, unitsReady: 1,
+        testsReady: false, testBlockers: [missing('pressure', L2.id)],
       },
     ]);
     // Company B: F6 is not theirs, so nothing of B's holds U3 back; F7 is B's ceiling blocker.
