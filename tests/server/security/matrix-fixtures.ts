@@ -212,6 +212,8 @@ const catalogueBody = () => ({
   defaultSeverity: 'minor',
   trade: 'mechanical',
   fixGuidance: 'Fix it as the manual says.',
+  // Drainage is a hazardous group: the server refuses a type there without a caution.
+  caution: 'Work at height: use a rated ladder. The manufacturer’s manual, local codes and licensed practice govern.',
   needsCeilingAccess: false,
 });
 
