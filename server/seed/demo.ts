@@ -8,6 +8,7 @@ import type { Role } from '../../shared/words';
 import { DEMO_COMPANY_TRADES, seedDemoSetup } from './demoSetup';
 import { seedDemoFindings } from './demoFindings';
 import { seedDemoFixPhotos } from './demoPhotos';
+import { seedDemoTests } from './demoTests';
 import type { ObjectStore } from '../storage/types';
 
 export { DEMO_COMPANY_TRADES, DEMO_MODELS, DEMO_SYSTEMS } from './demoSetup';
@@ -112,7 +113,15 @@ export async function seedDemo(db: Database, options: SeedDemoOptions = {}): Pro
       },
       transaction,
     );
-    return setupCreated || findingsCreated;
+    // Test records in every state (passed, failed then re-tested, awaiting a witness, corrected, missing).
+    const testsCreated = await seedDemoTests(
+      db,
+      ids.main!,
+      companies.mechanical,
+      { gc: userIds['gc.manager']!, inspector: userIds.inspector!, mechanical: userIds.mechanical! },
+      transaction,
+    );
+    return setupCreated || findingsCreated || testsCreated;
   });
   // Photos after the rows are committed: stored like uploads (pending keys, claimed in their own
   // transaction), never inside the long seed transaction.
