@@ -131,12 +131,13 @@ export async function seedDemoTests(
     holdMinutes: 15,
     gaugeIdentifier: 'KV-VG-02',
   });
-  const charge = (systemId: string, weighed: string): CreateTestRecordParsed => ({
+  // Weighed in: the field charge the demo system already states, so its concentration check reads the same.
+  const charge = (systemId: string, weighed: string, ft: [number, number]): CreateTestRecordParsed => ({
     kind: 'charge',
     systemId,
     liquidLines: [
-      { size: '3/8"', length: '60 ft' },
-      { size: '1/4"', length: '140 ft' },
+      { size: '3/8"', length: `${ft[0]} ft` },
+      { size: '1/4"', length: `${ft[1]} ft` },
     ],
     weighedIn: weighed,
     scaleIdentifier: 'KV-S-01',
@@ -175,7 +176,7 @@ export async function seedDemoTests(
   if (s1) {
     await add(pressure(s1.id, 21, '549 psig', '68 °F'), at(20), { witnessedBy: users.inspector, note: 'Whole system, 24 h hold.' });
     await add(evacuation(s1.id, '310 microns', '330 microns', '470 microns'), at(18), { witnessedBy: users.inspector });
-    await add(charge(s1.id, '44 lb 8 oz'), at(17));
+    await add(charge(s1.id, '8 lb', [15, 18]), at(17));
     for (const u of unitsOf(s1.id)) await add(drain(u), at(16), { unit: u });
     await add(startup(s1.id), at(10), { witnessedBy: users.gc });
   }
@@ -186,7 +187,7 @@ export async function seedDemoTests(
     await add(pressure(s2.id, 15, '548 psig', '66 °F'), at(14), { witnessedBy: users.inspector, note: 'Re-test after the flare was remade.' });
     await add(evacuation(s2.id, '420 microns', '450 microns', '1650 microns'), at(13), { note: 'Rose fast: moisture suspected.' });
     await add(evacuation(s2.id, '290 microns', '300 microns', '410 microns'), at(12), { witnessedBy: users.inspector });
-    await add(charge(s2.id, '47 lb'), at(11));
+    await add(charge(s2.id, '9 lb 4 oz', [18, 18]), at(11));
     const ducted = unitsOf(s2.id).filter((u) => u.kind.startsWith('ducted'));
     for (const [i, u] of ducted.entries()) {
       if (i === 0) {

@@ -12,6 +12,7 @@ import { checkA2lFloorArea, checkRefrigerantConcentration, LFL, mountPositionOf 
 import type { SystemDetail } from '../../shared/schemas/setup';
 import { Job, Space, SpaceLink, System, Unit, UnitModel } from '../models';
 import { presentSystem } from '../presenters/system';
+import { latestChargeRecord } from './testRecords';
 
 
 export async function systemDetail(job: Job, system: System, transaction?: Transaction): Promise<SystemDetail> {
@@ -50,7 +51,9 @@ export async function systemDetail(job: Job, system: System, transaction?: Trans
   const groupSpaces = [...known.values()].filter((s) => s.enclosed);
 
   const factoryCharge = system.factoryCharge ?? 0;
-  const fieldCharge = system.fieldCharge ?? 0;
+  // The amount weighed in on the system's latest charge record wins over a field charge typed by hand.
+  const chargeRecord = await latestChargeRecord(job.id, system.id, transaction);
+  const fieldCharge = chargeRecord ? chargeRecord.weighedInKg : (system.fieldCharge ?? 0);
   const concentration = checkRefrigerantConcentration({
     refrigerant: system.refrigerant,
     factoryCharge,
@@ -92,5 +95,5 @@ export async function systemDetail(job: Job, system: System, transaction?: Trans
           };
         });
 
-  return { ...presentSystem(system, units.length), concentration, a2lFloorArea };
+  return { ...presentSystem(system, units.length), concentration, a2lFloorArea, chargeRecord };
 }

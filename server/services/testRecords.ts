@@ -52,6 +52,7 @@ import {
 } from '../../shared/schemas/testRecords';
 import type { UnitKindKey } from '../../shared/words';
 import { badRequest } from '../errors';
+import { TestRecord } from '../models';
 import { photoUrls } from '../presenters/photo';
 import type { FindingScope } from './findingQueries';
 import type { PageRequest } from './paging';
@@ -481,6 +482,22 @@ export async function allTestRecords(sequelize: Sequelize, scope: FindingScope, 
   const where = whereOf(scope, filters, bind);
   const rows = await sequelize.query<RecordRow>(`${SELECT_SQL} WHERE ${where} ORDER BY r.recorded_at, r.id`, { bind, type: QueryTypes.SELECT });
   return rows.map((r) => present(r, []));
+}
+
+/** The system's latest charge record not superseded, with the amount weighed in (kg); null when none. */
+export async function latestChargeRecord(
+  jobId: string,
+  systemId: string,
+  transaction?: Transaction,
+): Promise<{ recordId: string; weighedInKg: number; recordedAt: string } | null> {
+  const [row] = await TestRecord.sequelize!.query<{ id: string; weighed: number | null; recorded_at: Date }>(
+    `SELECT r.id, (r.figures ->> 'weighedInKg')::float8 AS weighed, r.recorded_at FROM test_records r
+      WHERE r.job_id = $1 AND r.system_id = $2 AND r.kind = 'charge'
+        AND NOT EXISTS (SELECT 1 FROM test_records nx WHERE nx.supersedes_id = r.id)
+      ORDER BY r.recorded_at DESC, r.created_at DESC, r.id DESC LIMIT 1`,
+    { bind: [jobId, systemId], type: QueryTypes.SELECT, transaction },
+  );
+  return row && row.weighed !== null ? { recordId: row.id, weighedInKg: row.weighed, recordedAt: new Date(row.recorded_at).toISOString() } : null;
 }
 
 // ------------------------------------------------------------------------------------------------

@@ -21,6 +21,7 @@ function detail(chargeKg: number, rows: Array<{ tag: string; area: number; mount
     concentrationLimitOverride: null,
     companyId: null,
     chargeBasis: null,
+    chargeRecord: null,
     unitCount: rows.length,
     version: 1,
     concentration: checkRefrigerantConcentration({

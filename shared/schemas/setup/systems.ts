@@ -63,7 +63,10 @@ export interface SystemDto {
 /** GET /systems/:systemId: the system with its refrigerant checks. */
 export interface SystemDetail extends SystemDto {
   /** shared/calc checkRefrigerantConcentration over the spaces its units serve (and their links). */
+  /** shared/calc checkRefrigerantConcentration with the field charge from chargeRecord when there is one. */
   concentration: ConcentrationResult;
+  /** The latest current charge record (its weighed-in amount is the field charge the checks use), or null: the typed field charge. */
+  chargeRecord: { recordId: string; weighedInKg: number; recordedAt: string } | null;
   /** A2L only: IEC 60335-2-40 Annex GG minimum floor area per unit's space; empty otherwise. */
   a2lFloorArea: Array<{
     unitId: string;

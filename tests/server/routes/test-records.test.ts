@@ -234,6 +234,10 @@ describe('evacuation, charge, drain and start-up', () => {
     expect(r.figures.differenceKg).toBeCloseTo(0.09, 9);
     expect(r.figures.totalChargeKg).toBeCloseTo(14.5, 9);
     expect(r.figures.factoryCharge).toMatchObject({ value: 11.8, source: 'Outdoor unit nameplate (invented)' });
+    // The weighed-in amount is the field charge the system's concentration check now uses: 11.8 + 2.7 kg.
+    const detail = await gc.agent.get(`/api/jobs/${s.job.id}/systems/${s.system.id}`).expect(200);
+    expect(detail.body.chargeRecord).toMatchObject({ recordId: r.id, weighedInKg: 2.7 });
+    expect(detail.body.concentration.totalCharge).toBeCloseTo(14.5, 9);
     const missing = (await record(subA, s, { kind: 'charge', systemId: s.system.id, liquidLines: [{ size: '1/2"', length: '40 ft' }], weighedIn: '3 lb' })) as Extract<
       TestRecordDto,
       { kind: 'charge' }
