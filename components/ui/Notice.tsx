@@ -2,6 +2,7 @@ import type { ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { colors, radius, space } from '../theme';
 import { AppText } from './AppText';
+import { MAIL_DEFERRAL } from '../../shared/deferral';
 
 type Tone = 'error' | 'info' | 'success' | 'caution';
 
@@ -41,8 +42,6 @@ export function Notice({
   );
 }
 
-/** The usual caution for hazardous work: the manual, local codes and licensed practice govern. */
-const GOVERN = "The manufacturer's installation manual, local codes and licensed practice govern.";
 
 export function SafetyCaution({ text, testID }: { text?: string; testID?: string }) {
   // A caution written for the catalogue may already say who governs: do not say it twice.
@@ -51,7 +50,7 @@ export function SafetyCaution({ text, testID }: { text?: string; testID?: string
     <Notice tone="caution" title="Caution" testID={testID}>
       <AppText variant="small">
         {text ? `${text} ` : ''}
-        {saysWhoGoverns ? '' : `Trimout records what people observed; it does not certify an installation. ${GOVERN}`}
+        {saysWhoGoverns ? '' : MAIL_DEFERRAL}
       </AppText>
     </Notice>
   );

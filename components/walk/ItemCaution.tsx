@@ -1,10 +1,9 @@
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
+import { GOVERNS, NOT_CERTIFIED } from '../../shared/deferral';
 import { colors, radius, space, touchTarget } from '../theme';
 import { AppText } from '../ui/AppText';
 
-const DEFERRAL = "The manufacturer's installation manual, local codes and licensed practice govern.";
-const NOT_CERTIFIED = 'Trimout records what people observed; it does not certify an installation.';
 
 /** "Lifting: … Overhead work: …" → ["Lifting", "Overhead work"]: the hazards a caution names. */
 export function cautionHazards(text: string): string[] {
@@ -19,7 +18,7 @@ export function cautionHazards(text: string): string[] {
 export function ItemCaution({ text, initiallyOpen = false, testID }: { text: string; initiallyOpen?: boolean; testID?: string }) {
   const [open, setOpen] = useState(initiallyOpen);
   const hazards = cautionHazards(text);
-  const body = `${text.trim()}${/licensed practice/i.test(text) ? '' : ` ${DEFERRAL}`} ${NOT_CERTIFIED}`;
+  const body = `${text.trim()}${/licensed practice/i.test(text) ? '' : ` ${GOVERNS}`} ${NOT_CERTIFIED}`;
   return (
     <View style={styles.box} testID={testID}>
       <Pressable

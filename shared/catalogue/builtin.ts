@@ -16,6 +16,7 @@
  */
 import type { UnitKindKey } from '../words';
 import type { CatalogueItem } from './types';
+import { GOVERNS } from '../deferral';
 
 // ---------------------------------------------------------------------------------------------
 // Unit-kind sets (kinds are data; each item lists exactly the kinds the check applies to)
@@ -86,7 +87,6 @@ const HAZARD_TEXT: Record<Hazard | 'a2l' | 'nitrogen', string> = {
   fan: 'Rotating fans: isolate the unit before reaching past a filter, grille or panel; under automatic control a fan can start on its own.',
 };
 
-const GOVERNS = "The manufacturer's installation manual, local codes and licensed practice govern.";
 
 /**
  * The caution for the hazards named. Opening the circuit brings the flammable-refrigerant text
