@@ -1,5 +1,6 @@
 /** `npm run db:migrate` and `npm run db:seed` against DATABASE_URL (default: the local cluster). */
 import { connect, migrate } from '../server/db';
+import { upgradeBuiltinCatalogues } from '../server/services/catalogueUpgrade';
 import { loadEnv } from '../server/env';
 import path from 'node:path';
 import { seedDemo } from '../server/seed/demo';
@@ -14,6 +15,9 @@ async function main() {
     if (command === 'migrate') {
       const ran = await migrate(db.sequelize);
       console.log(ran.length ? `Ran ${ran.length} migration(s):\n  ${ran.join('\n  ')}` : 'No migrations to run.');
+      // Existing jobs get the built-in catalogue this code ships (server/services/catalogueUpgrade.ts).
+      const upgraded = await upgradeBuiltinCatalogues(db.sequelize);
+      console.log(`Catalogues: ${upgraded.added} defect type(s) added, ${upgraded.updated} brought up to date.`);
     } else if (command === 'seed') {
       // The fix photos go where `npm start` keeps photos: the local S3 fake's folder unless S3_ENDPOINT is set.
       const local =

@@ -8,6 +8,7 @@ import { randomBytes } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { connect, migrate } from '../server/db';
+import { upgradeBuiltinCatalogues } from '../server/services/catalogueUpgrade';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from '../server/seed/demo';
 import { startServer } from '../server/index';
 import { envSchema } from '../server/env';
@@ -55,6 +56,9 @@ async function main() {
     const db = connect(databaseUrl);
     const ran = await migrate(db.sequelize);
     if (ran.length) say(`ran ${ran.length} migration(s).`);
+    // After the migrations, before the seed: existing jobs get the built-in catalogue this code ships.
+    const upgraded = await upgradeBuiltinCatalogues(db.sequelize);
+    if (upgraded.added || upgraded.updated) say(`catalogues: ${upgraded.added} defect type(s) added, ${upgraded.updated} brought up to date.`);
     // Photo storage first: the demo seed stores its fix photos there, like uploads.
     const s3 = envSchema.pick({ S3_ENDPOINT: true, S3_PORT: true, S3_BUCKET: true }).parse(process.env);
     if (!s3.S3_ENDPOINT) {

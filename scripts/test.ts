@@ -6,6 +6,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { connect, migrate } from '../server/db';
+import { upgradeBuiltinCatalogues } from '../server/services/catalogueUpgrade';
 import { ensureDatabase, removeCluster, startCluster, type Cluster } from './lib/postgres';
 import { aptInstall, runInherit, say } from './lib/run';
 import { ensurePdfTools } from './lib/poppler';
@@ -51,6 +52,7 @@ async function main(): Promise<number> {
     const databaseUrl = cluster.url('trimout_test');
     const db = connect(databaseUrl);
     await migrate(db.sequelize);
+    await upgradeBuiltinCatalogues(db.sequelize);
     await db.close();
 
     if (!fs.existsSync(CHROMIUM)) aptInstall(['chromium']);

@@ -19,6 +19,8 @@ export class CatalogueItem extends Model<InferAttributes<CatalogueItem>, InferCr
   declare caution: string | null;
   declare needsCeilingAccess: boolean;
   declare builtin: CreationOptional<boolean>;
+  /** A built-in copy the job never edited: upgradeBuiltinCatalogues keeps it equal to the built-in item. */
+  declare followsBuiltin: CreationOptional<boolean>;
   /** The job's one "other" type: findings of "Something else" (their own title); never in a checklist or the set-up list. */
   declare isOther: CreationOptional<boolean>;
   declare position: number;
@@ -44,6 +46,7 @@ export class CatalogueItem extends Model<InferAttributes<CatalogueItem>, InferCr
         caution: { type: DataTypes.TEXT, allowNull: true },
         needsCeilingAccess: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         builtin: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        followsBuiltin: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         isOther: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         position: { type: DataTypes.INTEGER, allowNull: false },
         retiredAt: { type: DataTypes.DATE, allowNull: true },

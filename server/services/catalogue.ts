@@ -13,13 +13,17 @@ import { presentCatalogueItem } from '../presenters/catalogue';
 import { afterCursor, finishPage, type PageRequest } from './paging';
 import { lockJob, lockVersioned, type SetupWrite } from './records';
 
-/** Copies every built-in item the job does not hold yet (by code). Returns how many were added. */
+/**
+ * Copies every built-in item the job does not hold yet (by code). Returns how many were added.
+ * A new job's items take the catalogue's order (positions 1..n); items added to a job that holds
+ * some already go after them, in catalogue order, as upgradeBuiltinCatalogues adds them.
+ */
 export async function copyBuiltinCatalogue(jobId: string, transaction: Transaction): Promise<number> {
-  const held = new Set(
-    (await CatalogueItem.findAll({ where: { jobId }, attributes: ['code'], transaction })).map((i) => i.code),
-  );
-  const rows = BUILTIN_CATALOGUE.map((item, index) => ({ item, index }))
-    .filter(({ item }) => !held.has(item.code))
+  const heldItems = await CatalogueItem.findAll({ where: { jobId }, attributes: ['code', 'position'], transaction });
+  const held = new Set(heldItems.map((i) => i.code));
+  const last = heldItems.reduce((max, i) => Math.max(max, i.position), 0);
+  const rows = BUILTIN_CATALOGUE.filter((item) => !held.has(item.code))
+    .map((item, added) => ({ item, index: last + added }))
     .map(({ item, index }) => ({
       jobId,
       code: item.code,
@@ -34,6 +38,7 @@ export async function copyBuiltinCatalogue(jobId: string, transaction: Transacti
       caution: item.caution ?? null,
       needsCeilingAccess: item.needsCeilingAccess,
       builtin: true,
+      followsBuiltin: true,
       position: index + 1,
     }));
   if (rows.length > 0) await CatalogueItem.bulkCreate(rows, { transaction });
@@ -126,6 +131,8 @@ export async function changeCatalogueItem({ transaction, jobId, ifMatch }: Setup
   // before this rule can still be retired.
   const edits = Object.entries(input).some(([key, value]) => key !== 'retired' && value !== undefined);
   if (edits && needsCaution(item) && !item.caution) throw badRequest(`caution: ${CAUTION_REQUIRED}`, { caution: CAUTION_REQUIRED });
+  // The job's own words from now on: the built-in catalogue's later changes no longer reach this copy.
+  if (edits) item.followsBuiltin = false;
   item.version += 1;
   await item.save({ transaction });
   return item;
