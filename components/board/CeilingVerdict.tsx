@@ -12,6 +12,7 @@ export function CeilingVerdict({
   blockers,
   unchecked,
   excluded = 0,
+  tests = 0,
   testID,
   short,
 }: {
@@ -20,6 +21,8 @@ export function CeilingVerdict({
   unchecked: number;
   /** Units without a unit check that a GC manager excluded from the rule: said beside "can close", so the verdict shows what it rests on. */
   excluded?: number;
+  /** Test records the level waits for (missing, failed or not witnessed). */
+  tests?: number;
   testID?: string;
   short?: boolean;
 }) {
@@ -28,6 +31,10 @@ export function CeilingVerdict({
     return <Badge label={`${short ? '✓ Can close' : '✓ Ceilings can close'}${note}`} tone="good" testID={testID} />;
   }
   if (state === 'no_ceiling_units') return <Badge label={short ? 'No ceiling units' : 'No units in the ceiling'} testID={testID} />;
-  const holds = [blockers > 0 ? `${blockers} blocking` : null, unchecked > 0 ? `${unchecked} unchecked` : null].filter(Boolean).join(' · ');
-  return <Badge label={`✕ ${holds}`} tone="bad" testID={testID} />;
+  const holds = [
+    blockers > 0 ? `${blockers} blocking` : null,
+    unchecked > 0 ? `${unchecked} unchecked` : null,
+    tests > 0 ? `${tests} test${tests === 1 ? '' : 's'} to pass` : null,
+  ].filter(Boolean);
+  return <Badge label={`✕ ${holds.length ? holds.join(' · ') : 'Not yet'}`} tone="bad" testID={testID} />;
 }

@@ -2,6 +2,7 @@ import { Link } from 'expo-router';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { LevelReadiness, ReadinessBlocker, SystemReadiness, UnitReadiness } from '../../shared/schemas/board';
+import type { LevelTestReadiness, SystemTestReadiness, TestBlocker } from '../../shared/schemas/testRecords';
 import { FINDING_STATUS_LABELS } from '../../shared/words';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -14,6 +15,40 @@ import { CeilingVerdict } from './CeilingVerdict';
 import { ExcludedCeilingUnitRow, UncheckedCeilingUnit } from './CeilingExclusions';
 
 const SHOWN = 6;
+
+const TEST_WORDS: Record<TestBlocker['kind'], string> = {
+  pressure: 'Pressure test',
+  evacuation: 'Evacuation',
+  charge: 'Refrigerant charge',
+  drain: 'Drain test',
+  startup: 'Start-up record',
+};
+const TEST_STATE_WORDS: Record<TestBlocker['state'], string> = {
+  missing: 'not on record',
+  failed: 'failed',
+  awaiting_witness: 'passed, waiting for a witness',
+};
+
+/** "Pressure test of VRF-1: waiting for a witness", "Drain test of unit IU-3-04: not on record". */
+export function testBlockerWords(b: TestBlocker): string {
+  const of = b.unitTag ? ` of unit ${b.unitTag}` : b.systemName ? ` of ${b.systemName}` : '';
+  return `${TEST_WORDS[b.kind] ?? b.kind}${of}: ${TEST_STATE_WORDS[b.state] ?? b.state}`;
+}
+
+/** The test records a level or a system waits for, under the rule they hold back. */
+export function TestBlockers({ rule, blockers, testID }: { rule: string; blockers: readonly TestBlocker[] | undefined; testID: string }) {
+  if (!blockers || blockers.length === 0) return null;
+  return (
+    <View style={styles.units} testID={testID}>
+      <AppText variant="label">{rule}</AppText>
+      {blockers.map((b, i) => (
+        <AppText key={`${b.kind}-${b.systemId ?? ''}-${b.unitId ?? ''}-${b.levelId ?? ''}-${i}`} variant="small" testID={`${testID}-${i}`}>
+          {`• ${testBlockerWords(b)}`}
+        </AppText>
+      ))}
+    </View>
+  );
+}
 
 /** A finding that holds something back, as a link to it. */
 export function BlockerRow({ jobId, blocker, testID }: { jobId: string; blocker: ReadinessBlocker; testID?: string }) {
@@ -88,8 +123,10 @@ export function UnitsNotReady({ jobId, units, testID }: { jobId: string; units: 
 }
 
 /** A system: ready for startup when every unit on it is (checked, no unresolved critical or major finding). */
-export function SystemReadinessCard({ jobId, system }: { jobId: string; system: SystemReadiness }) {
+export function SystemReadinessCard({ jobId, system }: { jobId: string; system: SystemReadiness & Partial<SystemTestReadiness> }) {
   const s = system;
+  // With test records in the answer, a system is ready for startup only when they are too.
+  const ready = s.startupReady ?? s.ready;
   const blockers = s.units.reduce((n, u) => n + (u.blockersTotal ?? u.blockers.length), 0);
   return (
     <Card testID={`system-readiness-${s.systemId}`}>
@@ -99,7 +136,7 @@ export function SystemReadinessCard({ jobId, system }: { jobId: string; system: 
             {s.name}
           </AppText>
         </Link>
-        <StartupBadge ready={s.ready} testID={`system-ready-${s.systemId}`} />
+        <StartupBadge ready={ready} testID={`system-ready-${s.systemId}`} />
       </View>
       <AppText variant="small" muted>
         {s.unitsTotal === 0
@@ -107,6 +144,24 @@ export function SystemReadinessCard({ jobId, system }: { jobId: string; system: 
           : `${s.unitsReady} of ${s.unitsTotal} ${s.unitsTotal === 1 ? 'unit' : 'units'} ready · ${s.unitsUnchecked} not checked · ${blockers} blocking finding${blockers === 1 ? '' : 's'}`}
       </AppText>
       <UnitsNotReady jobId={jobId} units={s.units} testID={`system-blocks-${s.systemId}`} />
+      <TestBlockers
+        rule="Rule: before startup, a passed pressure test, a passed evacuation and the charge on record"
+        blockers={s.startupBlockers}
+        testID={`system-tests-${s.systemId}`}
+      />
+      {s.accepted !== undefined ? (
+        s.accepted ? (
+          <AppText variant="small" testID={`system-accepted-${s.systemId}`}>
+            Accepted: start-up record passed and every unit's drain test passed.
+          </AppText>
+        ) : (
+          <TestBlockers
+            rule="Rule: to accept the system, a passed start-up record and every unit's drain test"
+            blockers={s.acceptanceBlockers}
+            testID={`system-acceptance-${s.systemId}`}
+          />
+        )
+      ) : null}
     </Card>
   );
 }
@@ -126,7 +181,7 @@ export function LevelReadinessCard({
   timeZone = 'UTC',
 }: {
   jobId: string;
-  level: LevelReadiness;
+  level: LevelReadiness & Partial<LevelTestReadiness>;
   linkName?: boolean;
   title?: string;
   canExclude?: boolean;
@@ -153,6 +208,7 @@ export function LevelReadinessCard({
           blockers={l.blockersTotal ?? l.blockers.length}
           unchecked={l.ceilingUnitsUnchecked}
           excluded={l.ceilingUnitsExcluded}
+          tests={l.testBlockers?.length ?? 0}
           testID={`level-ceiling-${l.levelId}`}
         />
       </View>
@@ -222,6 +278,11 @@ export function LevelReadinessCard({
           ) : null}
         </View>
       ) : null}
+      <TestBlockers
+        rule="Rule: a passed, witnessed pressure test for every system on the level, and a passed drain test for every concealed unit"
+        blockers={l.testBlockers}
+        testID={`level-tests-${l.levelId}`}
+      />
     </Card>
   );
 }

@@ -22,7 +22,7 @@ export function ReadinessScreen({ jobId, systemId }: { jobId: string; systemId?:
   const readiness = useReadinessQuery(jobId, systemId ? { systemId } : {});
   const data = readiness.data;
   const systems = data ? (systemId ? data.systems.filter((s) => s.systemId === systemId) : data.systems) : [];
-  const readySystems = systems.filter((s) => s.ready).length;
+  const readySystems = systems.filter((s) => s.startupReady ?? s.ready).length;
   const readyLevels = data ? data.levels.filter((l) => l.ceilingReady).length : 0;
 
   return (
@@ -38,8 +38,9 @@ export function ReadinessScreen({ jobId, systemId }: { jobId: string; systemId?:
         </AppText>
         <AppText muted>
           A unit is ready for startup when it has a complete unit check and no unresolved critical or major finding; a system when all its
-          units are. A level can close its ceilings when every unit in or above the ceiling is checked (or excluded by a GC manager, with a
-          reason) and no unresolved finding on it needs access above the ceiling.
+          units are and its pressure test and evacuation passed and its charge is on record. A level can close its ceilings when every unit
+          in or above the ceiling is checked (or excluded by a GC manager, with a reason), no unresolved finding on it needs access above
+          the ceiling, every system on it has a passed, witnessed pressure test and every concealed unit a passed drain test.
         </AppText>
       </View>
       {systemId ? null : <BoardTabs jobId={jobId} role={job.data?.role} current="readiness" />}

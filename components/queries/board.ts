@@ -1,8 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { ReadinessWithTests } from '../../shared/schemas/testRecords';
 import type {
   BoardResponse,
   ReadinessQuery,
-  ReadinessResponse,
   RecurringResponse,
   ScorecardsResponse,
   TrendQuery,
@@ -40,7 +40,7 @@ export function useBoardQuery(jobId: string) {
 export function useReadinessQuery(jobId: string, query: ReadinessQuery = {}) {
   return useQuery({
     queryKey: boardKeys.readiness(jobId, query),
-    queryFn: () => apiGet<ReadinessResponse>(`${jobPath(jobId, 'readiness')}${queryString({ ...query })}`),
+    queryFn: () => apiGet<ReadinessWithTests>(`${jobPath(jobId, 'readiness')}${queryString({ ...query })}`),
     enabled: Boolean(jobId),
   });
 }

@@ -436,6 +436,59 @@ describe('readiness and the level screen', () => {
     expect(screen.getByTestId('readiness-systems-count').props.children).toEqual([0, ' of ', 1, ' systems ready for startup.']);
   });
 
+  it('names the test records a level and a system wait for, and counts a system ready only with them', async () => {
+    mockWide = false;
+    const L3 = '00000000-0000-4000-8000-0000000000a3';
+    const sysId = '00000000-0000-4000-8000-0000000000e2';
+    const missingPressure = { kind: 'pressure', state: 'missing', systemId: sysId, systemName: 'VRF-2', unitId: null, unitTag: null, levelId: L3, recordId: null };
+    const unwitnessed = { ...missingPressure, state: 'awaiting_witness', recordId: 'r-1' };
+    const failedDrain = { kind: 'drain', state: 'failed', systemId: sysId, systemName: 'VRF-2', unitId: 'u5', unitTag: 'IU-3-05', levelId: L3, recordId: 'r-2' };
+    const withTests = {
+      ...READINESS,
+      systems: [
+        {
+          ...READINESS.systems[0]!,
+          systemId: sysId,
+          name: 'VRF-2',
+          ready: true,
+          unitsReady: 2,
+          unitsUnchecked: 0,
+          units: [],
+          startupReady: false,
+          startupBlockers: [unwitnessed, { ...missingPressure, kind: 'evacuation', levelId: null }],
+          accepted: false,
+          acceptanceBlockers: [{ ...missingPressure, kind: 'startup', levelId: null }],
+        },
+      ],
+      levels: [
+        {
+          ...READINESS.levels[0]!,
+          levelId: L3,
+          name: 'Level 3',
+          ceilingUnitsUnchecked: 0,
+          uncheckedCeilingUnits: [],
+          ceilingUnitsExcluded: 0,
+          excludedCeilingUnits: [],
+          blockers: [],
+          testsReady: false,
+          testBlockers: [unwitnessed, failedDrain],
+        },
+      ],
+    };
+    fakeApi('gc_manager', { [`/api/jobs/${JOB}/readiness`]: [200, withTests] });
+    renderWithQueries(<ReadinessScreen jobId={JOB} />);
+    const sys = await screen.findByTestId(`system-readiness-${sysId}`);
+    // Every unit is ready, but the system waits for its tests.
+    expect(within(sys).getByText('✕ Not ready')).toBeTruthy();
+    expect(screen.getByTestId('readiness-systems-count').props.children).toEqual([0, ' of ', 1, ' systems ready for startup.']);
+    expect(within(sys).getByTestId(`system-tests-${sysId}-0`)).toHaveTextContent('• Pressure test of VRF-2: passed, waiting for a witness');
+    expect(within(sys).getByTestId(`system-tests-${sysId}-1`)).toHaveTextContent('• Evacuation of VRF-2: not on record');
+    expect(within(sys).getByTestId(`system-acceptance-${sysId}-0`)).toHaveTextContent('• Start-up record of VRF-2: not on record');
+    const level = screen.getByTestId(`level-readiness-${L3}`);
+    expect(within(level).getByText('✕ 2 tests to pass')).toBeTruthy();
+    expect(within(level).getByTestId(`level-tests-${L3}-1`)).toHaveTextContent('• Drain test of unit IU-3-05: failed');
+  });
+
   it('shows a level’s numbers, readiness and trend, and links to walk it and to its plan', async () => {
     mockWide = false;
     fakeApi('gc_manager');
