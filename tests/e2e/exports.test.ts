@@ -60,7 +60,7 @@ describe('export links', () => {
     await h.screenshot(page, `exports-units-${size}`);
     const units = await download(page, 'unit-export');
     expect(units.name).toMatch(/^units-CLC-2611-\d{4}-\d{2}-\d{2}\.csv$/);
-    expect((parse(units.text, { bom: true }) as string[][])[0]).toEqual(['Tag', 'Kind', 'Model', 'Capacity (Btu/h)', 'Level', 'Space', 'System']);
+    expect((parse(units.text, { bom: true }) as string[][])[0]).toEqual(['Tag', 'Kind', 'Model', 'Capacity (Btu/h)', 'Level', 'Space', 'System', 'Crew', 'Crew company', 'Mounting']);
 
     await page.goto(`${h.baseUrl}/jobs/${jobId}/scorecards`);
     await page.getByTestId('scorecards-export').waitFor();

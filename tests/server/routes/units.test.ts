@@ -3,13 +3,13 @@ import { parse } from 'csv-parse/sync';
 import request from 'supertest';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
-import { Unit } from '../../../server/models';
+import { Crew, Unit } from '../../../server/models';
 import { neutraliseCell } from '../../../server/services/unitExport';
 import { WATTS_PER_TON } from '../../../shared/calc/quantity';
 import { ifMatch, jobPath, newJobFor, signInCrew, type SignedCrew } from '../../support/api';
 import { buildTestApp } from '../../support/app';
 import { connectTestDb } from '../../support/db';
-import { buildJobWithCrew, buildLevel, buildSpace, buildSystem, buildUnit, buildUnitModel } from '../../support/factories';
+import { buildCompany, buildJobWithCrew, buildLevel, buildSpace, buildSystem, buildUnit, buildUnitModel, linkCompany } from '../../support/factories';
 
 jest.setTimeout(120_000);
 
@@ -370,12 +370,48 @@ describe('units: CSV export', () => {
     const text = res.text;
     expect(text.startsWith('\uFEFF')).toBe(true);
     const lines = text.slice(1).split('\r\n');
-    expect(lines[0]).toBe('"Tag","Kind","Model","Capacity (Btu/h)","Level","Space","System"');
-    expect(lines[1]).toBe(`"IU-X-0","cassette_4way","",36000,"'=HYPERLINK(""http://x.example"",""click"")","'+1 Lobby",""`);
+    expect(lines[0]).toBe('"Tag","Kind","Model","Capacity (Btu/h)","Level","Space","System","Crew","Crew company","Mounting"');
+    expect(lines[1]).toBe(`"IU-X-0","cassette_4way","",36000,"'=HYPERLINK(""http://x.example"",""click"")","'+1 Lobby","","","",""`);
     const records = parse(text, { bom: true, relax_quotes: false }) as string[][];
     const cells = records.slice(1).flatMap((r) => [r[4]!, r[5]!]);
     for (const cell of cells) expect(cell).not.toMatch(/^[=+\-@\t\r\n\0]/);
     expect(records.slice(1).map((r) => r[5])).toEqual(["'+1 Lobby", "'-2 Store", "'@SUM(A1)", "'\tTabbed", "'\rCarriage", "'\nNewline", 'Plain "quoted" room']);
+  });
+
+  it('re-imports unchanged: crew with its company (a crew name two companies use) and the unit\'s own mounting', async () => {
+    const s = await setUpJob();
+    const [north, south] = [await buildCompany({ name: `North Air ${s.job.id.slice(0, 8)}` }), await buildCompany({ name: `South Air ${s.job.id.slice(0, 8)}` })];
+    await linkCompany(s.job.id, north.id, ['mechanical']);
+    await linkCompany(s.job.id, south.id, ['mechanical']);
+    const northCrew = await Crew.create({ jobId: s.job.id, companyId: north.id, name: 'Crew 1' });
+    const southCrew = await Crew.create({ jobId: s.job.id, companyId: south.id, name: 'Crew 1' });
+    await buildUnit(s.job.id, s.l1.id, { tag: 'IU-1', kind: 'cassette_4way', modelId: s.model.id, spaceId: s.office.id, systemId: s.system.id, capacity: WATTS_PER_TON * 2 });
+    await buildUnit(s.job.id, s.l1.id, { tag: 'IU-2', kind: 'floor_ceiling' });
+    await buildUnit(s.job.id, s.l2.id, { tag: 'IU-3', kind: 'ducted_low', spaceId: s.corridor.id });
+    await Unit.update({ installedByCrewId: northCrew.id, mountPosition: 'ceiling' }, { where: { jobId: s.job.id, tag: 'IU-1' } });
+    await Unit.update({ installedByCrewId: southCrew.id, mountPosition: 'floor' }, { where: { jobId: s.job.id, tag: 'IU-2' } });
+    const fields = async () =>
+      (await Unit.findAll({ where: { jobId: s.job.id }, order: [['tag', 'ASC']] })).map((u) => [u.tag, u.kind, u.modelId, u.capacity, u.levelId, u.spaceId, u.systemId, u.installedByCrewId, u.mountPosition]);
+    const before = await fields();
+
+    const exported = (await crew.gc.get(jobPath(s.job.id, '/units.csv'))).text;
+    const records = parse(exported, { bom: true }) as string[][];
+    expect(records[0]!.slice(7)).toEqual(['Crew', 'Crew company', 'Mounting']);
+    expect(records.slice(1).map((r) => r.slice(7))).toEqual([
+      ['Crew 1', north.name, 'ceiling'],
+      ['Crew 1', south.name, 'floor'],
+      // A ducted unit has no mounting of its own: left empty, not its kind's or model's.
+      ['', '', ''],
+    ]);
+
+    await Unit.destroy({ where: { jobId: s.job.id } });
+    const imported = await crew.gc.post(jobPath(s.job.id, '/units/import'), { csv: exported });
+    expect(imported.status).toBe(201);
+    expect(imported.body).toMatchObject({ committed: true, goodRows: 3, errors: [] });
+    // Every column maps to its field by its header alone.
+    expect(Object.values(imported.body.mapping)).toEqual(['tag', 'kind', 'model', 'capacity', 'level', 'space', 'system', 'crew', 'crewCompany', 'mount']);
+    expect((await fields()).map((f) => f.slice(1))).toEqual(before.map((f) => f.slice(1)));
+    expect((await crew.gc.get(jobPath(s.job.id, '/units.csv'))).text).toBe(exported);
   });
 
   it('neutralises any string a spreadsheet could read as a formula (property)', () => {
