@@ -64,6 +64,11 @@ export interface BoardLevelRow extends BoardCounts {
   ceilingReady: boolean;
   /** How many unresolved findings block closing the ceiling. */
   ceilingBlockers: number;
+  /**
+   * How many test records the level waits for before its ceilings close (a system's pressure test,
+   * a concealed unit's drain test: missing, failed or awaiting a witness); GET /readiness lists them.
+   */
+  ceilingTestBlockers: number;
   /** Units on the level in or above the ceiling, and those of them without a complete unit check (not counting excluded ones). */
   ceilingUnits: number;
   ceilingUnitsUnchecked: number;

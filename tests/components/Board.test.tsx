@@ -39,9 +39,9 @@ const zero = { open: 0, openCritical: 0, openMajor: 0, fixSubmitted: 0, closed: 
 // Sent out of building order on purpose: the board sorts by position.
 const BOARD: BoardResponse = {
   levels: [
-    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, total: 11, unresolved: 7, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingState: 'blocked', ceilingReady: false, ceilingBlockers: 2, ceilingUnits: 16, ceilingUnitsUnchecked: 3, ceilingUnitsExcluded: 0, longestWaitDays: 4 },
-    { ...zero, levelId: L1, name: 'Level 1', position: 1, open: 2, openCritical: 0, openMajor: 1, fixSubmitted: 1, closed: 6, total: 9, unresolved: 3, overdue: 0, unitsTotal: 20, unitsChecked: 20, ceilingState: 'ready', ceilingReady: true, ceilingBlockers: 0, ceilingUnits: 16, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 1, longestWaitDays: 0 },
-    { ...zero, levelId: L3, name: 'Roof', position: 3, unitsTotal: 4, ceilingState: 'no_ceiling_units', ceilingReady: false, ceilingBlockers: 0, ceilingUnits: 0, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 0, longestWaitDays: null },
+    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, total: 11, unresolved: 7, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingState: 'blocked', ceilingReady: false, ceilingBlockers: 2, ceilingTestBlockers: 0, ceilingUnits: 16, ceilingUnitsUnchecked: 3, ceilingUnitsExcluded: 0, longestWaitDays: 4 },
+    { ...zero, levelId: L1, name: 'Level 1', position: 1, open: 2, openCritical: 0, openMajor: 1, fixSubmitted: 1, closed: 6, total: 9, unresolved: 3, overdue: 0, unitsTotal: 20, unitsChecked: 20, ceilingState: 'ready', ceilingReady: true, ceilingBlockers: 0, ceilingTestBlockers: 0, ceilingUnits: 16, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 1, longestWaitDays: 0 },
+    { ...zero, levelId: L3, name: 'Roof', position: 3, unitsTotal: 4, ceilingState: 'no_ceiling_units', ceilingReady: false, ceilingBlockers: 0, ceilingTestBlockers: 0, ceilingUnits: 0, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 0, longestWaitDays: null },
   ],
   totals: { open: 7, openCritical: 1, openMajor: 4, fixSubmitted: 3, closed: 10, total: 20, unresolved: 10, overdue: 2, unitsTotal: 44, unitsChecked: 35 },
   longestWaitDays: 4,
@@ -471,7 +471,11 @@ describe('readiness and the level screen', () => {
           excludedCeilingUnits: [],
           blockers: [],
           testsReady: false,
-          testBlockers: [unwitnessed, failedDrain],
+          testBlockers: [
+            unwitnessed,
+            failedDrain,
+            ...Array.from({ length: 8 }, (_, i) => ({ ...failedDrain, state: 'missing', unitId: `m${i}`, unitTag: `IU-3-1${i}`, recordId: null })),
+          ],
         },
       ],
     };
@@ -485,8 +489,13 @@ describe('readiness and the level screen', () => {
     expect(within(sys).getByTestId(`system-tests-${sysId}-1`)).toHaveTextContent('• Evacuation of VRF-2: not on record');
     expect(within(sys).getByTestId(`system-acceptance-${sysId}-0`)).toHaveTextContent('• Start-up record of VRF-2: not on record');
     const level = screen.getByTestId(`level-readiness-${L3}`);
-    expect(within(level).getByText('✕ 2 tests to pass')).toBeTruthy();
+    expect(within(level).getByText('✕ 10 tests to pass')).toBeTruthy();
     expect(within(level).getByTestId(`level-tests-${L3}-1`)).toHaveTextContent('• Drain test of unit IU-3-05: failed');
+    // Many units missing the same record make one line.
+    expect(within(level).getByTestId(`level-tests-${L3}-2`)).toHaveTextContent(
+      '• Drain test, not on record: 8 units, IU-3-10, IU-3-11, IU-3-12, IU-3-13, IU-3-14, IU-3-15 and 2 more',
+    );
+    expect(within(level).queryByTestId(`level-tests-${L3}-3`)).toBeNull();
   });
 
   it('shows a level’s numbers, readiness and trend, and links to walk it and to its plan', async () => {

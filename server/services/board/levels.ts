@@ -11,6 +11,7 @@ import { daysWaiting } from '../../../shared/rules/waiting';
 import { cachedStat, readStatVersions, type StatVersions } from '../statCache';
 import type { FindingScope } from '../findingQueries';
 import { latestCheckJoin, loadTallies, loadUnresolvedFigures, loadWaitingFixes, num, select } from './common';
+import { levelTests, loadTestFacts } from './testReadiness';
 
 /** The ceiling verdict of a level: its state, and "ready" as a flag for the screens that only need that. */
 export function ceilingOf(facts: CeilingFacts) {
@@ -86,11 +87,13 @@ export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Prom
   const now = new Date();
   const today = todayIn(scope.timeZone, now);
   const versions = await readStatVersions(sequelize, scope.jobId);
-  const [coverage, tallies, unresolved, waiting] = await Promise.all([
+  const [coverage, tallies, unresolved, waiting, testFacts] = await Promise.all([
     loadCoverage(sequelize, scope.jobId, versions),
     loadTallies(sequelize, scope.jobId, scope.companyId),
     loadUnresolvedFigures(sequelize, scope.jobId, today, versions),
     loadWaitingFixes(sequelize, scope.jobId),
+    // Not cached: a few hundred rows per job, and no stat topic follows test records.
+    loadTestFacts(sequelize, scope),
   ]);
   // The oldest fix waiting for the inspector per level (in the caller's scope), and in the job.
   const oldestByLevel = new Map<string, Date>();
@@ -128,7 +131,9 @@ export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Prom
     c.ceiling_blockers += u.ceilingBlockers;
   }
   const rows = coverage.map((lv) => ({ ...lv, ...(perLevel.get(lv.level_id) ?? zero()) }));
-  const levels: BoardLevelRow[] = rows.map((r) => ({
+  const levels: BoardLevelRow[] = rows.map((r) => {
+    const ceilingTestBlockers = levelTests(testFacts, r.level_id).testBlockers.length;
+    return {
     levelId: r.level_id,
     name: r.name,
     position: r.position,
@@ -147,8 +152,11 @@ export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Prom
     ceilingUnitsUnchecked: r.ceiling_unchecked,
     ceilingUnitsExcluded: r.ceiling_excluded,
     longestWaitDays: waitedDays(oldestByLevel.get(r.level_id)),
-    ...ceilingOf({ ceilingUnits: r.ceiling_units, ceilingUnitsUnchecked: r.ceiling_unchecked, blockers: num(r.ceiling_blockers) }),
-  }));
+    ceilingTestBlockers,
+    // Test records the level waits for (testReadiness.ts) block its ceilings as findings do.
+    ...ceilingOf({ ceilingUnits: r.ceiling_units, ceilingUnitsUnchecked: r.ceiling_unchecked, blockers: num(r.ceiling_blockers) + ceilingTestBlockers }),
+    };
+  });
   const totals = Object.fromEntries(COUNT_KEYS.map((k) => [k, 0])) as unknown as BoardCounts;
   for (const l of levels) for (const k of COUNT_KEYS) totals[k] += l[k];
   return { levels, totals, longestWaitDays: waitedDays(oldest), today, companyScope: scope.companyId };

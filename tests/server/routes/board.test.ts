@@ -159,7 +159,7 @@ async function readRows(jobId: string): Promise<Rows> {
  * subcontractor is judged only on the systems their company answers for (the system's company, or
  * the mechanical companies when it names none). The lists behind it: test-readiness.test.ts.
  */
-function levelTestsReady(rows: Rows, levelId: string, companyId: string | null): boolean {
+function levelTestBlockers(rows: Rows, levelId: string, companyId: string | null): number {
   const mechanical = (c: string) => rows.companies.some((x) => x.id === c && x.trades.includes('mechanical'));
   const answers = (systemId: string | null) => {
     if (!companyId) return true;
@@ -169,16 +169,18 @@ function levelTestsReady(rows: Rows, levelId: string, companyId: string | null):
   const newest = (list: Rows['tests']) =>
     [...list].filter((t) => !t.superseded).sort((a, b) => b.recorded_at.getTime() - a.recorded_at.getTime() || b.created_at.getTime() - a.created_at.getTime() || (a.id < b.id ? 1 : -1))[0];
   const units = rows.units.filter((u) => u.level_id === levelId && answers(u.system_id));
+  let count = 0;
   for (const systemId of new Set(units.map((u) => u.system_id).filter((x): x is string => x !== null))) {
     const p = newest(rows.tests.filter((t) => t.kind === 'pressure' && t.system_id === systemId && (t.level_ids === null || t.level_ids.includes(levelId))));
-    if (!p || p.result !== 'passed' || !p.witnessed) return false;
+    if (!p || p.result !== 'passed' || !p.witnessed) count++;
   }
   for (const u of units.filter((x) => /^(ducted_|ahu_coil_kit)/.test(x.kind) && x.ceiling_excluded_reason === null)) {
     const d = newest(rows.tests.filter((t) => t.kind === 'drain' && t.unit_id === u.id));
-    if (!d || d.result !== 'passed') return false;
+    if (!d || d.result !== 'passed') count++;
   }
-  return true;
+  return count;
 }
+const levelTestsReady = (rows: Rows, levelId: string, companyId: string | null) => levelTestBlockers(rows, levelId, companyId) === 0;
 
 /** Units whose latest check (by checked_at, then id) is complete. */
 function checkedUnitIds(rows: Rows): Set<string> {
@@ -266,7 +268,9 @@ function expectedBoard(rows: Rows, companyId: string | null): BoardResponse {
         ceilingUnitsUnchecked: unchecked,
         ceilingUnitsExcluded: excluded,
         longestWaitDays: longestWait(rows, mine),
-        ...ceilingVerdict(ceilingUnits.length, unchecked, blockers),
+        // Test records the level waits for block its ceilings as findings do.
+        ceilingTestBlockers: levelTestBlockers(rows, l.id, companyId),
+        ...ceilingVerdict(ceilingUnits.length, unchecked, blockers + levelTestBlockers(rows, l.id, companyId)),
       };
     });
   return { levels, totals: counts(fs, rows.units), longestWaitDays: longestWait(rows, fs), today, companyScope: companyId };
@@ -816,10 +820,10 @@ describe('a small hand-built job', () => {
       // F1, F2, F3 closed; F4 voided (never counted). U1, U5, U6 checked; U2's latest check is incomplete.
       // Its four cassettes sit in the ceiling and U2's latest check is incomplete: the ceilings cannot
       // close yet, although no finding blocks them.
-      { levelId: L1.id, name: 'First', position: 1, ...zero, closed: 3, total: 3, unitsTotal: 4, unitsChecked: 3, ceilingBlockers: 0, ceilingUnits: 4, ceilingUnitsUnchecked: 1, ceilingUnitsExcluded: 0, longestWaitDays: null, ceilingState: 'blocked', ceilingReady: false },
+      { levelId: L1.id, name: 'First', position: 1, ...zero, closed: 3, total: 3, unitsTotal: 4, unitsChecked: 3, ceilingBlockers: 0, ceilingTestBlockers: 0, ceilingUnits: 4, ceilingUnitsUnchecked: 1, ceilingUnitsExcluded: 0, longestWaitDays: null, ceilingState: 'blocked', ceilingReady: false },
       // F5 closed, F6 open critical and overdue, F7 fix submitted (past due, waiting for the inspector:
       // not overdue) and needs ceiling access.
-      { levelId: L2.id, name: 'Second', position: 2, ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 1, total: 3, unresolved: 2, overdue: 1, unitsTotal: 2, unitsChecked: 2, ceilingBlockers: 1, ceilingUnits: 1, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 0, longestWaitDays: 6, ceilingState: 'blocked', ceilingReady: false },
+      { levelId: L2.id, name: 'Second', position: 2, ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 1, total: 3, unresolved: 2, overdue: 1, unitsTotal: 2, unitsChecked: 2, ceilingBlockers: 1, ceilingTestBlockers: 1, ceilingUnits: 1, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 0, longestWaitDays: 6, ceilingState: 'blocked', ceilingReady: false },
     ]);
     expect(res.body.totals).toEqual({ ...zero, open: 1, openCritical: 1, fixSubmitted: 1, closed: 4, total: 6, unresolved: 2, overdue: 1, unitsTotal: 6, unitsChecked: 5 });
     expect(res.body.companyScope).toBeNull();
@@ -828,10 +832,11 @@ describe('a small hand-built job', () => {
     expect(b.body.totals).toEqual({ ...zero, fixSubmitted: 1, closed: 1, total: 2, unresolved: 1, unitsTotal: 6, unitsChecked: 5 });
     expect(b.body.levels[1]).toMatchObject({ ceilingBlockers: 1, ceilingReady: false });
     expect(b.body.companyScope).toBe(B);
-    // Company A has no ceiling blocker on level 2: for them, nothing of theirs holds the ceiling.
+    // Company A has no ceiling blocker on level 2, but as the job's mechanical company it answers for
+    // Circuit 1, whose pressure test is missing: that alone holds the ceiling for them.
     const a = await subA.get(jobPath(crew.job.id, '/board'));
     expect(a.body.totals).toEqual({ ...zero, open: 1, openCritical: 1, closed: 3, total: 4, unresolved: 1, overdue: 1, unitsTotal: 6, unitsChecked: 5 });
-    expect(a.body.levels[1]).toMatchObject({ ceilingBlockers: 0, ceilingState: 'ready', ceilingReady: true });
+    expect(a.body.levels[1]).toMatchObject({ ceilingBlockers: 0, ceilingTestBlockers: 1, ceilingState: 'blocked', ceilingReady: false });
     expect(a.body.levels[0]).toMatchObject({ ceilingUnitsUnchecked: 1, ceilingState: 'blocked' });
   });
 

@@ -107,6 +107,9 @@ describe('a level waits for its pressure test and its concealed units’ drain t
     // Today's rule alone would let the ceilings close: every unit is checked, no finding is open.
     expect(before).toMatchObject({ ceilingUnits: 3, ceilingUnitsUnchecked: 0, blockers: [], ceilingState: 'blocked', ceilingReady: false, testsReady: false });
     expect(before.testBlockers).toEqual([blocker(s, { levelId: s.level.id }), drainMissing]);
+    // The levels board counts them and agrees.
+    const boardLevel3 = async () => (await gc.agent.get(`/api/jobs/${s.job.id}/board`).expect(200)).body.levels.find((l: { levelId: string }) => l.levelId === s.level.id);
+    expect(await boardLevel3()).toMatchObject({ ceilingBlockers: 0, ceilingTestBlockers: 2, ceilingState: 'blocked' });
 
     // A test of the Level 4 part of the pipework does not cover Level 3.
     const upstairs = await record(subA, s, pressure(s, { levelIds: [s.otherLevel.id] }));
@@ -126,6 +129,7 @@ describe('a level waits for its pressure test and its concealed units’ drain t
     await record(subA, s, drain(s.ducted.id));
     const after = await level3(gc, s);
     expect(after).toMatchObject({ testsReady: true, testBlockers: [], ceilingState: 'ready', ceilingReady: true });
+    expect(await boardLevel3()).toMatchObject({ ceilingTestBlockers: 0, ceilingState: 'ready', ceilingReady: true });
 
     // A correction that fails replaces the witnessed test: blocked again, naming the correction.
     const corrected = await record(subA, s, pressure(s, { supersedesId: whole, endPressure: '560 psig' }));
