@@ -29,10 +29,30 @@ const TEST_STATE_WORDS: Record<TestBlocker['state'], string> = {
   awaiting_witness: 'passed, waiting for a witness',
 };
 
-/** "Pressure test of VRF-1: waiting for a witness", "Drain test of unit IU-3-04: not on record". */
-export function testBlockerWords(b: TestBlocker): string {
-  const of = b.unitTag ? ` of unit ${b.unitTag}` : b.systemName ? ` of ${b.systemName}` : '';
-  return `${TEST_WORDS[b.kind] ?? b.kind}${of}: ${TEST_STATE_WORDS[b.state] ?? b.state}`;
+const TAGS_IN_LINE = 6;
+
+/**
+ * The test records waited for, one line each: per system ("Pressure test of VRF-1: passed,
+ * waiting for a witness"), and the units' records grouped by kind and state so that forty
+ * missing drain tests are one line ("Drain test not on record: 40 units, IU-3-01, … and 34 more").
+ */
+export function testBlockerLines(blockers: readonly TestBlocker[]): string[] {
+  const groups = new Map<string, { first: TestBlocker; tags: string[] }>();
+  for (const b of blockers) {
+    const key = b.unitTag ? `${b.kind}|${b.state}|units` : `${b.kind}|${b.state}|${b.systemId ?? ''}|${b.levelId ?? ''}`;
+    const g = groups.get(key) ?? { first: b, tags: [] };
+    if (b.unitTag) g.tags.push(b.unitTag);
+    groups.set(key, g);
+  }
+  return [...groups.values()].map(({ first: b, tags }) => {
+    const what = TEST_WORDS[b.kind] ?? b.kind;
+    const state = TEST_STATE_WORDS[b.state] ?? b.state;
+    if (tags.length === 0) return `${what}${b.systemName ? ` of ${b.systemName}` : ''}: ${state}`;
+    if (tags.length === 1) return `${what} of unit ${tags[0]}: ${state}`;
+    const shown = tags.slice(0, TAGS_IN_LINE).join(', ');
+    const more = tags.length > TAGS_IN_LINE ? ` and ${tags.length - TAGS_IN_LINE} more` : '';
+    return `${what}, ${state}: ${tags.length} units, ${shown}${more}`;
+  });
 }
 
 /** The test records a level or a system waits for, under the rule they hold back. */
@@ -41,9 +61,9 @@ export function TestBlockers({ rule, blockers, testID }: { rule: string; blocker
   return (
     <View style={styles.units} testID={testID}>
       <AppText variant="label">{rule}</AppText>
-      {blockers.map((b, i) => (
-        <AppText key={`${b.kind}-${b.systemId ?? ''}-${b.unitId ?? ''}-${b.levelId ?? ''}-${i}`} variant="small" testID={`${testID}-${i}`}>
-          {`• ${testBlockerWords(b)}`}
+      {testBlockerLines(blockers).map((line, i) => (
+        <AppText key={line} variant="small" testID={`${testID}-${i}`}>
+          {`• ${line}`}
         </AppText>
       ))}
     </View>
