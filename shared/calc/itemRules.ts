@@ -98,6 +98,32 @@ export function parseItemMeasurement(rule: MeasuredRule, text: string, options: 
 }
 
 /** A calculation's named result as the engine's result: only the RuleResult fields (it is stored as sent). */
+/**
+ * Metric nominal pipe sizes (DN, ISO 6708) and the inch nominal sizes they stand for, as pipe
+ * schedules pair them: DN15 1/2, DN20 3/4, DN25 1, DN32 1-1/4, DN40 1-1/2, DN50 2, DN65 2-1/2,
+ * DN80 3, DN100 4 (common practice; the pairing from memory, confirm against the job's pipe
+ * specification). A drain size typed as "20 mm" is DN20, the 3/4 in row, not 20 mm against 19.05.
+ */
+const DN_TO_INCHES: ReadonlyArray<readonly [number, number]> = [
+  [15, 0.5],
+  [20, 0.75],
+  [25, 1],
+  [32, 1.25],
+  [40, 1.5],
+  [50, 2],
+  [65, 2.5],
+  [80, 3],
+  [100, 4],
+];
+
+/** A measured drain size (mm) as the nominal size it names: a DN within 0.5 mm, an inch size within 0.5 mm, else as measured. */
+export function nominalDrainSize(mm: number): number {
+  for (const [dn, inches] of DN_TO_INCHES) {
+    if (Math.abs(mm - dn) <= 0.5 || Math.abs(mm - inches * 25.4) <= 0.5) return inches * 25.4;
+  }
+  return mm;
+}
+
 function strip(r: RuleResult): RuleResult {
   const { status, pass, margin, limit, upper, tolerance, expected, measured, limitSource, message } = r;
   return { status, pass, margin, limit, upper, tolerance, expected, measured, limitSource, message };
@@ -146,7 +172,8 @@ export function evaluateItemRule(
       const carried = `${Math.round(need.tons * 100) / 100} tons carried${given.capacity ? ` (${given.capacity.value} ${given.capacity.unit} as typed)` : ", the unit's own capacity"}`;
       const source = `${need.source}, ${need.row}: ${need.label} for ${carried}`;
       const sized = { ...rule, limit: { from: 'code' as const, key: 'imc.condensate.drain_size' } };
-      return evaluateRule(sized, m, () => ({ value: need.size * 25.4, quantity: 'length', source }), options);
+      const size = typeof m === 'number' ? nominalDrainSize(m) : m;
+      return evaluateRule(sized, size, () => ({ value: need.size * 25.4, quantity: 'length', source }), options);
     }
     case 'aux_pan_depth':
       return strip(checkAuxiliaryPan({ depth: n, panLength: null, unitLength: null, panWidth: null, unitWidth: null, editions, system }).checks[0]!);

@@ -51,6 +51,13 @@ describe('drain pipe size from the capacity it carries (IMC 2018 Table 307.2.2),
     // the exact 3.5168528 kW it would be 20.0008 tons and need 1 in.
     ['3/4 in for 70.34 kW', null, 'pass', 'up to 20 tons'],
     ['3/4 in for 70.4 kW', null, 'fail', 'over 20 to 40 tons'],
+    // Metric nominal sizes (DN, ISO 6708) stand for the inch sizes schedules pair them with (common
+    // practice; from memory): DN20 is the 3/4 in row although 20 mm ≠ 19.05 mm, and DN15 is 1/2 in.
+    ['20 mm', 3 * WATTS_PER_TON, 'pass', 'up to 20 tons'],
+    ['19 mm', 3 * WATTS_PER_TON, 'pass', 'up to 20 tons'],
+    ['15 mm', 3 * WATTS_PER_TON, 'fail', 'up to 20 tons'],
+    ['25 mm for 24 tons', null, 'pass', 'over 20 to 40 tons'],
+    ['18 mm', 3 * WATTS_PER_TON, 'fail', 'up to 20 tons'],
   ] as const)('%s (unit capacity %p W) → %s, %s', (text, capacity, status, row) => {
     const r = check('DR-17', text, { capacity });
     expect(r.status).toBe(status);
