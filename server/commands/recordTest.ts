@@ -182,7 +182,11 @@ export async function recordTest(ctx: CommandContext, checked: CheckedTestRecord
       { transaction },
     );
   } catch (err) {
-    if (err instanceof UniqueConstraintError) throw conflict('That record was already corrected: correct the newer record instead.', 'superseded');
+    if (err instanceof UniqueConstraintError) {
+      // Two corrections of one record, or a phone-made id sent twice at once: decided by the index's column.
+      if ('supersedes_id' in (err.fields ?? {})) throw conflict('That record was already corrected: correct the newer record instead.', 'superseded');
+      throw conflict('This record id is already used. Record the test again to give it a new id.', 'record_id_taken');
+    }
     throw err;
   }
   if (photos.stored.length > 0) {
