@@ -49,6 +49,7 @@ function LevelCard({ jobId, row, longestWaitDays }: { jobId: string; row: BoardC
             blockers={level.ceilingBlockers}
             unchecked={level.ceilingUnitsUnchecked}
             excluded={level.ceilingUnitsExcluded}
+            tests={level.ceilingTestBlockers}
             testID={`board-ceiling-${id}`}
           />
         ) : null}

@@ -125,7 +125,7 @@ function Row({
         } else if (c.key === 'ceilings') {
           content = level ? (
             <Link href={links.level(jobId, level.levelId)} testID={`board-ceiling-${id}`}>
-              <CeilingVerdict state={level.ceilingState} blockers={level.ceilingBlockers} unchecked={level.ceilingUnitsUnchecked} excluded={level.ceilingUnitsExcluded} short />
+              <CeilingVerdict state={level.ceilingState} blockers={level.ceilingBlockers} unchecked={level.ceilingUnitsUnchecked} excluded={level.ceilingUnitsExcluded} tests={level.ceilingTestBlockers} short />
             </Link>
           ) : null;
         }

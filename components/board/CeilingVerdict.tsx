@@ -34,7 +34,7 @@ export function CeilingVerdict({
   const holds = [
     blockers > 0 ? `${blockers} blocking` : null,
     unchecked > 0 ? `${unchecked} unchecked` : null,
-    tests > 0 ? `${tests} test${tests === 1 ? '' : 's'} to pass` : null,
+    tests > 0 ? (short ? `${tests} test${tests === 1 ? '' : 's'}` : `${tests} test${tests === 1 ? '' : 's'} to pass`) : null,
   ].filter(Boolean);
   return <Badge label={`✕ ${holds.length ? holds.join(' · ') : 'Not yet'}`} tone="bad" testID={testID} />;
 }

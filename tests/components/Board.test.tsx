@@ -39,7 +39,7 @@ const zero = { open: 0, openCritical: 0, openMajor: 0, fixSubmitted: 0, closed: 
 // Sent out of building order on purpose: the board sorts by position.
 const BOARD: BoardResponse = {
   levels: [
-    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, total: 11, unresolved: 7, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingState: 'blocked', ceilingReady: false, ceilingBlockers: 2, ceilingTestBlockers: 0, ceilingUnits: 16, ceilingUnitsUnchecked: 3, ceilingUnitsExcluded: 0, longestWaitDays: 4 },
+    { ...zero, levelId: L2, name: 'Level 2', position: 2, open: 5, openCritical: 1, openMajor: 3, fixSubmitted: 2, closed: 4, total: 11, unresolved: 7, overdue: 2, unitsTotal: 20, unitsChecked: 15, ceilingState: 'blocked', ceilingReady: false, ceilingBlockers: 2, ceilingTestBlockers: 3, ceilingUnits: 16, ceilingUnitsUnchecked: 3, ceilingUnitsExcluded: 0, longestWaitDays: 4 },
     { ...zero, levelId: L1, name: 'Level 1', position: 1, open: 2, openCritical: 0, openMajor: 1, fixSubmitted: 1, closed: 6, total: 9, unresolved: 3, overdue: 0, unitsTotal: 20, unitsChecked: 20, ceilingState: 'ready', ceilingReady: true, ceilingBlockers: 0, ceilingTestBlockers: 0, ceilingUnits: 16, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 1, longestWaitDays: 0 },
     { ...zero, levelId: L3, name: 'Roof', position: 3, unitsTotal: 4, ceilingState: 'no_ceiling_units', ceilingReady: false, ceilingBlockers: 0, ceilingTestBlockers: 0, ceilingUnits: 0, ceilingUnitsUnchecked: 0, ceilingUnitsExcluded: 0, longestWaitDays: null },
   ],
@@ -194,7 +194,7 @@ describe('the levels board', () => {
     expect(within(screen.getByTestId(`board-cell-${L2}-openMajor`)).getByText('3')).toBeTruthy();
     expect(within(screen.getByTestId('board-cell-total-closed')).getByText('10')).toBeTruthy();
     expect(within(screen.getByTestId(`board-coverage-${L2}`)).getByText(/15 of 20/)).toBeTruthy();
-    expect(within(screen.getByTestId(`board-ceiling-${L2}`)).getByText('✕ 2 blocking · 3 unchecked')).toBeTruthy();
+    expect(within(screen.getByTestId(`board-ceiling-${L2}`)).getByText('✕ 2 blocking · 3 unchecked · 3 tests')).toBeTruthy();
     // Level 1 can close with one unit excluded by a GC manager: the verdict says what it rests on.
     expect(within(screen.getByTestId(`board-ceiling-${L1}`)).getByText('✓ Can close (1 excluded)')).toBeTruthy();
     // Fixes submitted wait for the inspector: the count and the longest wait.
