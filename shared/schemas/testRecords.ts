@@ -17,7 +17,7 @@ import {
   parseMass,
   parseTemperature,
   parseVacuum,
-  type ChargeLine,
+  type ChargeResult,
   type GaugePressureUnit,
   type Parsed,
   type SourcedFigure,
@@ -377,16 +377,8 @@ export interface EvacuationFigures {
   typedUnits: { deepest: VacuumUnit; isolated: VacuumUnit; afterHold: VacuumUnit };
 }
 
-export interface ChargeFigures {
-  lines: ChargeLine[];
-  missingFactors: string[];
-  /** kg */
-  additionalKg: number | null;
-  weighedInKg: number;
-  differenceKg: number | null;
-  totalChargeKg: number | null;
-  factoryCharge: SourcedFigure | null;
-}
+/** The charge record's figures: the calculation's own result (shared/calc/testRecords.ts). */
+export type ChargeFigures = ChargeResult;
 
 export interface DrainFigures {
   needsPower: boolean;
