@@ -64,6 +64,13 @@ function entry(key: string, e: Entry): CodeLimit {
   return { key, documentTitle: TITLES[e.document], base: toBase(e.value, e.unit), ...e };
 }
 
+const MEMORY_305 = 'Row and figure from memory: confirm against Table 305.4 of the adopted edition.';
+
+/** A row of IMC Table 305.4 (support spacing, feet, at most), in the adopted IMC editions. */
+function supportRow(key: string, label: string, feet: number, provenance: Entry['provenance'], note?: string): CodeLimit {
+  return entry(key, { label, document: 'IMC', editions: IMC_EDITIONS, section: 'Table 305.4', quantity: 'length', comparison: 'at_most', value: feet, unit: 'ft', provenance, ...(note ? { note } : {}) });
+}
+
 /** Every stored variant of every key (one per group of editions with the same value). */
 export const CODE_LIMIT_VARIANTS: Readonly<Record<string, readonly CodeLimit[]>> = {
   'imc.condensate.min_slope': [
@@ -261,210 +268,20 @@ export const CODE_LIMIT_VARIANTS: Readonly<Record<string, readonly CodeLimit[]>>
   // IMC Table 305.4 lists each material and form on its own row (pipe apart from tubing, sizes
   // apart where the table splits them). The copper_support keys are the copper TUBING rows: the
   // refrigerant line sets and copper drains Trimout checks are tubing, sold by outside diameter.
-  'imc.copper_support.horizontal_small': [
-    entry('imc.copper_support.horizontal_small', {
-      label: 'Copper or copper-alloy tubing, 1-1/4 in diameter and smaller: maximum horizontal support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 6,
-      unit: 'ft',
-      provenance: 'issue text',
-    }),
-  ],
-  'imc.copper_support.horizontal_large': [
-    entry('imc.copper_support.horizontal_large', {
-      label: 'Copper or copper-alloy tubing, 1-1/2 in diameter and larger: maximum horizontal support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 10,
-      unit: 'ft',
-      provenance: 'issue text',
-    }),
-  ],
-  'imc.copper_support.vertical': [
-    entry('imc.copper_support.vertical', {
-      label: 'Copper or copper-alloy tubing (either size row): maximum vertical support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 10,
-      unit: 'ft',
-      provenance: 'issue text',
-    }),
-  ],
-  'imc.copper_pipe_support.horizontal': [
-    entry('imc.copper_pipe_support.horizontal', {
-      label: 'Copper or copper-alloy pipe: maximum horizontal support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 12,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
-    }),
-  ],
-  'imc.copper_pipe_support.vertical': [
-    entry('imc.copper_pipe_support.vertical', {
-      label: 'Copper or copper-alloy pipe: maximum vertical support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 10,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
-    }),
-  ],
-  'imc.pvc_support.horizontal': [
-    entry('imc.pvc_support.horizontal', {
-      label: 'PVC pipe (a plastic condensate drain): maximum horizontal support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 4,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
-    }),
-  ],
-  'imc.pvc_support.vertical': [
-    entry('imc.pvc_support.vertical', {
-      label: 'PVC pipe (a plastic condensate drain): maximum vertical support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 10,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition. The table adds a mid-story guide for sizes 2 in and smaller (footnote, from memory).',
-    }),
-  ],
-  'imc.cpvc_support.horizontal_small': [
-    entry('imc.cpvc_support.horizontal_small', {
-      label: 'CPVC pipe or tubing, 1 in and smaller: maximum horizontal support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 3,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
-    }),
-  ],
-  'imc.cpvc_support.horizontal_large': [
-    entry('imc.cpvc_support.horizontal_large', {
-      label: 'CPVC pipe or tubing, 1-1/4 in and larger: maximum horizontal support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 4,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
-    }),
-  ],
-  'imc.cpvc_support.vertical': [
-    entry('imc.cpvc_support.vertical', {
-      label: 'CPVC pipe or tubing: maximum vertical support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 10,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition. The table adds a mid-story guide for sizes 2 in and smaller (footnote, from memory).',
-    }),
-  ],
-  'imc.abs_support.horizontal': [
-    entry('imc.abs_support.horizontal', {
-      label: 'ABS pipe: maximum horizontal support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 4,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
-    }),
-  ],
-  'imc.abs_support.vertical': [
-    entry('imc.abs_support.vertical', {
-      label: 'ABS pipe: maximum vertical support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 10,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition. The table adds a mid-story guide for sizes 2 in and smaller (footnote, from memory).',
-    }),
-  ],
-  'imc.steel_pipe_support.horizontal': [
-    entry('imc.steel_pipe_support.horizontal', {
-      label: 'Steel pipe: maximum horizontal support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 12,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
-    }),
-  ],
-  'imc.steel_pipe_support.vertical': [
-    entry('imc.steel_pipe_support.vertical', {
-      label: 'Steel pipe: maximum vertical support spacing',
-      document: 'IMC',
-      editions: IMC_EDITIONS,
-      section: 'Table 305.4',
-      quantity: 'length',
-      comparison: 'at_most',
-      value: 15,
-      unit: 'ft',
-      provenance: 'from memory',
-      note:
-        'Row and figure from memory: confirm against Table 305.4 of the adopted edition.',
-    }),
-  ],
+  'imc.copper_support.horizontal_small': [supportRow('imc.copper_support.horizontal_small', 'Copper or copper-alloy tubing, 1-1/4 in diameter and smaller: maximum horizontal support spacing', 6, 'issue text')],
+  'imc.copper_support.horizontal_large': [supportRow('imc.copper_support.horizontal_large', 'Copper or copper-alloy tubing, 1-1/2 in diameter and larger: maximum horizontal support spacing', 10, 'issue text')],
+  'imc.copper_support.vertical': [supportRow('imc.copper_support.vertical', 'Copper or copper-alloy tubing (either size row): maximum vertical support spacing', 10, 'issue text')],
+  'imc.copper_pipe_support.horizontal': [supportRow('imc.copper_pipe_support.horizontal', 'Copper or copper-alloy pipe: maximum horizontal support spacing', 12, 'from memory', MEMORY_305)],
+  'imc.copper_pipe_support.vertical': [supportRow('imc.copper_pipe_support.vertical', 'Copper or copper-alloy pipe: maximum vertical support spacing', 10, 'from memory', MEMORY_305)],
+  'imc.pvc_support.horizontal': [supportRow('imc.pvc_support.horizontal', 'PVC pipe (a plastic condensate drain): maximum horizontal support spacing', 4, 'from memory', MEMORY_305)],
+  'imc.pvc_support.vertical': [supportRow('imc.pvc_support.vertical', 'PVC pipe (a plastic condensate drain): maximum vertical support spacing', 10, 'from memory', 'Row and figure from memory: confirm against Table 305.4 of the adopted edition. The table adds a mid-story guide for sizes 2 in and smaller (footnote, from memory).')],
+  'imc.cpvc_support.horizontal_small': [supportRow('imc.cpvc_support.horizontal_small', 'CPVC pipe or tubing, 1 in and smaller: maximum horizontal support spacing', 3, 'from memory', MEMORY_305)],
+  'imc.cpvc_support.horizontal_large': [supportRow('imc.cpvc_support.horizontal_large', 'CPVC pipe or tubing, 1-1/4 in and larger: maximum horizontal support spacing', 4, 'from memory', MEMORY_305)],
+  'imc.cpvc_support.vertical': [supportRow('imc.cpvc_support.vertical', 'CPVC pipe or tubing: maximum vertical support spacing', 10, 'from memory', 'Row and figure from memory: confirm against Table 305.4 of the adopted edition. The table adds a mid-story guide for sizes 2 in and smaller (footnote, from memory).')],
+  'imc.abs_support.horizontal': [supportRow('imc.abs_support.horizontal', 'ABS pipe: maximum horizontal support spacing', 4, 'from memory', MEMORY_305)],
+  'imc.abs_support.vertical': [supportRow('imc.abs_support.vertical', 'ABS pipe: maximum vertical support spacing', 10, 'from memory', 'Row and figure from memory: confirm against Table 305.4 of the adopted edition. The table adds a mid-story guide for sizes 2 in and smaller (footnote, from memory).')],
+  'imc.steel_pipe_support.horizontal': [supportRow('imc.steel_pipe_support.horizontal', 'Steel pipe: maximum horizontal support spacing', 12, 'from memory', MEMORY_305)],
+  'imc.steel_pipe_support.vertical': [supportRow('imc.steel_pipe_support.vertical', 'Steel pipe: maximum vertical support spacing', 15, 'from memory', MEMORY_305)],
 };
 
 /** Every code limit key Trimout holds (catalogue data references these). */
