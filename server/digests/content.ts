@@ -18,6 +18,7 @@ import type { FindingStatus, Severity } from '../../shared/words';
 import { todayIn } from '../../shared/rules/dates';
 import { isOverdue } from '../../shared/rules/due';
 import { overdueSql } from '../services/findingQueries';
+import { levelTests, loadTestFacts } from '../services/board/testReadiness';
 import { newRecurring, type NewRecurring } from './recurring';
 
 export type DigestPeriod = 'daily' | 'weekly';
@@ -65,11 +66,22 @@ export interface LevelCount {
   change: number;
 }
 
+/** A level whose ceilings wait for test records, counted by what is wrong with them. */
+export interface LevelTestsWaiting {
+  levelId: string;
+  name: string;
+  missing: number;
+  failed: number;
+  awaitingWitness: number;
+}
+
 export interface ManagerJobDigest {
   jobId: string;
   jobName: string;
   today: string;
   levels: LevelCount[];
+  /** Levels whose ceilings wait for test records (pressure tests, drain tests), in building order. */
+  testsWaiting: LevelTestsWaiting[];
   totals: { now: number; before: number; change: number };
   overdueByCompany: { companyId: string; name: string; overdue: number }[];
   newRecurring: NewRecurring[];
@@ -216,6 +228,21 @@ export async function levelCounts(sequelize: Sequelize, jobId: string, before: D
   return rows.map((r) => ({ levelId: r.level_id, name: r.name, now: Number(r.now), before: Number(r.before), change: Number(r.now) - Number(r.before) }));
 }
 
+/** The levels whose ceilings wait for test records (the readiness rule of services/board/testReadiness.ts). */
+export async function levelTestsWaiting(sequelize: Sequelize, jobId: string, timeZone: string): Promise<LevelTestsWaiting[]> {
+  const facts = await loadTestFacts(sequelize, { jobId, timeZone, companyId: null });
+  const levels = await sequelize.query<{ id: string; name: string }>(`SELECT id, name FROM levels WHERE job_id = $1 ORDER BY position, name, id`, {
+    bind: [jobId],
+    type: QueryTypes.SELECT,
+  });
+  return levels.flatMap((l) => {
+    const { testBlockers } = levelTests(facts, l.id);
+    if (testBlockers.length === 0) return [];
+    const count = (state: string) => testBlockers.filter((b) => b.state === state).length;
+    return [{ levelId: l.id, name: l.name, missing: count('missing'), failed: count('failed'), awaitingWitness: count('awaiting_witness') }];
+  });
+}
+
 export async function overdueByCompany(sequelize: Sequelize, jobId: string, today: string) {
   const rows = await sequelize.query<{ company_id: string; name: string; overdue: number }>(
     `SELECT c.id AS company_id, c.name, count(*)::int AS overdue
@@ -276,6 +303,7 @@ export async function buildDigestContent(
         today,
         levels,
         totals,
+        testsWaiting: await levelTestsWaiting(sequelize, job.job_id, timeZone),
         overdueByCompany: await overdueByCompany(sequelize, job.job_id, today),
         newRecurring: await newRecurring(sequelize, { id: job.job_id, timeZone }, since, now),
       });

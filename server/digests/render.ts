@@ -8,7 +8,7 @@ import { digestName, digestScheduleSentence, type DigestSchedule } from '../../s
 import { SEVERITY_LABELS } from '../../shared/words';
 import { escapeHtml, headerSafe } from '../mail/safe';
 import type { MailMessage } from '../mail/outbox';
-import type { DigestContent, DigestFinding, ManagerJobDigest, SubcontractorJobDigest } from './content';
+import type { DigestContent, DigestFinding, LevelTestsWaiting, ManagerJobDigest, SubcontractorJobDigest } from './content';
 
 /** Rows listed per section; the rest are counted with a link to the findings list. */
 export const SECTION_LIMIT = 25;
@@ -90,10 +90,25 @@ function textSubJob(job: SubcontractorJobDigest, origin: string): string[] {
   return lines;
 }
 
+/** "2 not on record, 1 failed, 1 waiting for a witness" (the parts that are not zero). */
+export function testsWaitingWords(t: LevelTestsWaiting): string {
+  return [
+    t.missing ? `${t.missing} not on record` : null,
+    t.failed ? `${t.failed} failed` : null,
+    t.awaitingWitness ? `${t.awaitingWitness} waiting for a witness` : null,
+  ]
+    .filter(Boolean)
+    .join(', ');
+}
+
 function textManagerJob(job: ManagerJobDigest, origin: string, periodWord: string): string[] {
   const lines = [`== ${job.jobName} ==`, `${job.totals.now} unresolved (${signed(job.totals.change)} since ${periodWord}).`, '', 'Unresolved per level:'];
   if (job.levels.length === 0) lines.push('  no levels yet');
   for (const l of job.levels) lines.push(`  ${l.name}: ${l.now} (${signed(l.change)})`);
+  if (job.testsWaiting.length > 0) {
+    lines.push('', 'Ceilings waiting for test records:');
+    for (const t of job.testsWaiting) lines.push(`  ${t.name}: ${testsWaitingWords(t)}`);
+  }
   lines.push('', 'Overdue per company:');
   if (job.overdueByCompany.length === 0) lines.push('  none');
   for (const c of job.overdueByCompany) lines.push(`  ${c.name}: ${c.overdue}`);
@@ -161,6 +176,10 @@ function htmlManagerJob(job: ManagerJobDigest, origin: string, periodWord: strin
   const companies = job.overdueByCompany.length
     ? job.overdueByCompany.map((c) => `<tr>${cell(e(c.name))}${cell(String(c.overdue), 'right')}</tr>`).join('\n')
     : `<tr>${cell('None overdue.')}</tr>`;
+  const tests = job.testsWaiting.length
+    ? `<h3 style="margin:16px 0 4px;font-size:16px;color:${COLORS.ink}">Ceilings waiting for test records</h3>
+<ul style="margin:0;padding-left:20px;font-size:14px;color:${COLORS.ink}">${job.testsWaiting.map((t) => `<li style="margin:0 0 4px">${e(t.name)}: ${e(testsWaitingWords(t))}</li>`).join('\n')}</ul>\n`
+    : '';
   const recurring = job.newRecurring.length
     ? job.newRecurring.map((r) => `<li style="margin:0 0 4px">${e(r.code)} ${e(r.title)}: on ${r.unitCount} units</li>`).join('\n')
     : '<li style="margin:0 0 4px">None.</li>';
@@ -171,7 +190,7 @@ function htmlManagerJob(job: ManagerJobDigest, origin: string, periodWord: strin
 <tr><td style="font-size:12px;color:${COLORS.muted};padding:4px">Level</td><td style="font-size:12px;color:${COLORS.muted};padding:4px;text-align:right">Now</td><td style="font-size:12px;color:${COLORS.muted};padding:4px;text-align:right">Change</td></tr>
 ${levelRows}
 ${totals}</table>
-<h3 style="margin:16px 0 4px;font-size:16px;color:${COLORS.ink}">Overdue per company</h3>
+${tests}<h3 style="margin:16px 0 4px;font-size:16px;color:${COLORS.ink}">Overdue per company</h3>
 <table role="presentation" width="100%" cellpadding="0" cellspacing="0" style="border-collapse:collapse">${companies}</table>
 <h3 style="margin:16px 0 4px;font-size:16px;color:${COLORS.ink}">New recurring defects</h3>
 <ul style="margin:0;padding-left:20px;font-size:14px;color:${COLORS.ink}">${recurring}</ul>

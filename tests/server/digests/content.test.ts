@@ -16,6 +16,7 @@ import { nextFindingNumber, recordFindingEvent } from '../../../server/services/
 import { todayIn } from '../../../shared/rules/dates';
 import { buildTestApp, signIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
+import { buildSystem, buildUnit } from '../../support/factories';
 import { buildWalkJob, insertFinding, type WalkJob } from '../../support/findings';
 import { startFakeSmtp, testMailService, type FakeSmtp } from '../../support/mail';
 
@@ -184,6 +185,8 @@ describe('GC manager digest (demo seed)', () => {
       await recordFindingEvent({ findingId: c.id, jobId: w.job.id, actorId: w.inspector.id, kind: 'accepted', from: { status: 'fix_submitted' }, to: { status: 'closed' }, at: new Date(now.getTime() - 60 * 60 * 1000) }, transaction);
       await Finding.update({ status: 'closed' }, { where: { id: c.id }, transaction });
     });
+    const system = await buildSystem(w.job.id, { name: 'VRF-D' });
+    await buildUnit(w.job.id, w.level.id, { tag: 'IU-3-DU', kind: 'ducted_low', systemId: system.id });
     const content = (await buildDigestContent(db.sequelize, w.gcManager.id, 'daily', new Date()))!;
     const j = content.managerJobs[0]!;
     // Now: A and B (2); 24 h ago: A and C (2); Level 4: nothing.
@@ -196,6 +199,22 @@ describe('GC manager digest (demo seed)', () => {
     // Both are due 2026-12-08 by default in insertFinding; nothing overdue unless today is later.
     const today = todayIn(w.job.timeZone);
     expect(j.overdueByCompany).toEqual(today > '2026-12-08' ? [{ companyId: w.subA.companyId, name: expect.any(String), overdue: 2 }] : []);
+    // A ducted unit on a system on Level 3, and no test record on file: per level, every system with a unit there lacks its pressure test and
+    // every concealed unit (ducted kinds, coil kit) its drain test, counted here in SQL.
+    const expected = await db.sequelize.query<{ level_id: string; name: string; missing: string }>(
+      `SELECT l.id AS level_id, l.name,
+              (SELECT count(DISTINCT u.system_id) FROM units u WHERE u.level_id = l.id AND u.system_id IS NOT NULL)
+            + (SELECT count(*) FROM units u WHERE u.level_id = l.id AND u.ceiling_excluded_reason IS NULL
+                AND u.kind IN ('ducted_low', 'ducted_high', 'ducted_very_high', 'ahu_coil_kit')) AS missing
+         FROM levels l WHERE l.job_id = $1 ORDER BY l.position`,
+      { bind: [w.job.id], type: QueryTypes.SELECT },
+    );
+    expect(j.testsWaiting.length).toBeGreaterThan(0);
+    expect(j.testsWaiting).toEqual(
+      expected.filter((r) => Number(r.missing) > 0).map((r) => ({ levelId: r.level_id, name: r.name, missing: Number(r.missing), failed: 0, awaitingWitness: 0 })),
+    );
+    const mail = renderDigest(content, { origin: 'https://trimout.test', timeZone: 'UTC', unsubscribeToken: 't', trigger: 'now', schedule: { frequency: 'daily', weekday: 1, hour: 7, timeZone: 'UTC' } });
+    for (const t of j.testsWaiting) expect(mail.text).toContain(`  ${t.name}: ${t.missing} not on record`);
   });
 });
 
