@@ -8,6 +8,7 @@ import type { Role } from '../../shared/words';
 import { DEMO_COMPANY_TRADES, seedDemoSetup } from './demoSetup';
 import { seedDemoFindings } from './demoFindings';
 import { seedDemoFixPhotos } from './demoPhotos';
+import { seedDemoCrews } from './demoCrews';
 import { seedDemoTests } from './demoTests';
 import type { ObjectStore } from '../storage/types';
 
@@ -94,6 +95,8 @@ export async function seedDemo(db: Database, options: SeedDemoOptions = {}): Pro
     mainJobId = ids.main!;
     const others = DEMO_JOBS.filter((j) => j.key !== 'main').map((j) => ids[j.key]!);
     const setupCreated = await seedDemoSetup(db, { main: ids.main!, others }, companies, transaction);
+    // Crews of the mechanical subcontractor, each unit with the crew that installed it.
+    const crewsCreated = await seedDemoCrews(db, ids.main!, companies.mechanical, transaction);
     // Walks, unit checks and findings in every status with their histories; only when the job has none.
     const userIds: Record<string, string> = {};
     for (const account of DEMO_ACCOUNTS) {
@@ -121,7 +124,7 @@ export async function seedDemo(db: Database, options: SeedDemoOptions = {}): Pro
       { gc: userIds['gc.manager']!, inspector: userIds.inspector!, mechanical: userIds.mechanical! },
       transaction,
     );
-    return setupCreated || findingsCreated || testsCreated;
+    return setupCreated || crewsCreated || findingsCreated || testsCreated;
   });
   // Photos after the rows are committed: stored like uploads (pending keys, claimed in their own
   // transaction), never inside the long seed transaction.
