@@ -27,7 +27,7 @@ it('names two crews and gives every unit its installing crew, once', async () =>
   const job = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!;
   // A level another test added to the demo job, with a unit no crew installed: not the seed's to fill.
   const other = await buildLevel(job.id, { name: `Another test's level ${Date.now()}` });
-  await buildUnit(job.id, other.id, { tag: `IU-X-${Date.now()}` });
+  const foreign = await buildUnit(job.id, other.id, { tag: `IU-X-${Date.now()}` });
   const crews = await Crew.findAll({ where: { jobId: job.id }, order: [['name', 'ASC']] });
   expect(crews.map((c) => c.name)).toEqual([...DEMO_CREWS]);
   // The seed's own levels only: other tests share this database and add levels of their own to the demo job.
@@ -38,4 +38,6 @@ it('names two crews and gives every unit its installing crew, once', async () =>
   );
   expect(units.length).toBeGreaterThan(0);
   expect(units.filter((u) => u.crew !== (u.position <= 2 ? 'North crew' : 'South crew'))).toEqual([]);
+  await foreign.destroy();
+  await other.destroy();
 });

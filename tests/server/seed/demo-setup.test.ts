@@ -5,6 +5,7 @@
 import type { Database } from '../../../server/db';
 import { CatalogueItem, Job, JobCompany, Level, Space, System, Unit, UnitModel } from '../../../server/models';
 import { DEMO_PASSWORD, seedDemo } from '../../../server/seed/demo';
+import { DEMO_MODELS } from '../../../server/seed/demoSetup';
 import { systemDetail } from '../../../server/services/refrigerantChecks';
 import { BUILTIN_CATALOGUE } from '../../../shared/catalogue';
 import { UNIT_KIND_KEYS } from '../../../shared/words';
@@ -78,7 +79,9 @@ describe('demo seed: job set-up', () => {
   it('gives every demo model a value for each model limit its kind\'s checks read, so a demo walk shows limits', async () => {
     await seedDemo(db);
     const job = (await Job.findOne({ where: { name: 'Cinder Lane Commons' } }))!;
-    const models = await UnitModel.findAll({ where: { jobId: job.id } });
+    // The seed's own models only: other tests share this database and add models of their own (no limits) to the demo job.
+    const models = await UnitModel.findAll({ where: { jobId: job.id, modelNumber: DEMO_MODELS.map((m) => m.modelNumber) } });
+    expect(models).toHaveLength(DEMO_MODELS.length);
     const missing: string[] = [];
     for (const model of models) {
       for (const item of BUILTIN_CATALOGUE.filter((i) => i.unitKinds.includes(model.unitKind))) {
