@@ -19,6 +19,26 @@
  *    2 photos with the CPU slowed 4x (scripts/lib/benchLocalSave.ts), and the sync rate of
  *    BENCH_SYNC_COUNT (50) findings with 1-2 photos queued offline in the outbox, next to the same
  *    findings posted online one by one (scripts/lib/benchSync.ts); BENCH_SKIP_WEB=1 skips these.
+ * 6. The close-out report of the busiest level with 500 photos: time and memory growth, next to the
+ *    time to read the same rows and photos (scripts/lib/benchReport.ts); BENCH_SKIP_REPORT=1 skips it.
+ * 7. The database's own capacity for the mix (scripts/lib/benchCapacity.ts): the SQL of
+ *    BENCH_CAPACITY_SAMPLE (400) requests drawn from the mix, session / user / membership reads
+ *    included, replayed directly on BENCH_CAPACITY_CONNECTIONS (50) connections with no think time
+ *    for BENCH_SECONDS; writes inside a transaction that is rolled back. The API's requests/s of
+ *    step 3 is printed as a share of the database's request-equivalents/s (target >= 0.6).
+ * 8. Open loop (scripts/lib/benchOpenLoop.ts): the same mix and sessions at BENCH_RATE (60)
+ *    arrivals/s on a fixed schedule for BENCH_OPEN_SECONDS (60); latency from each request's
+ *    scheduled time, so queueing counts. Targets: every read p95 < 150 ms, the board < 100 ms,
+ *    fixes with a photo < 600 ms, no errors. BENCH_OPEN_SECONDS=0 skips it.
+ * 9. Server CPU per request: user + system time of the server process (/proc/<pid>/stat) over
+ *    the closed-loop and open-loop runs, divided by their requests, and each endpoint alone for
+ *    BENCH_CPU_SECONDS (3; 0 skips it) for a median across endpoints (target < 3 ms).
+ *
+ * Knobs: BENCH_SECONDS (60), BENCH_CLIENTS (50), BENCH_WARMUP_SECONDS (5), BENCH_SERIAL_RUNS (40),
+ * BENCH_SQL_RUNS (100), BENCH_COMPARE_BUDGET_MS (6000), BENCH_CAPACITY_CONNECTIONS (50),
+ * BENCH_CAPACITY_SAMPLE (400), BENCH_RATE (60), BENCH_OPEN_SECONDS (60), BENCH_CPU_SECONDS (3),
+ * BENCH_SYNC_COUNT (50), BENCH_SKIP_WEB=1, BENCH_SKIP_REPORT=1, BENCH_RESEED=1, BENCH_SHOW_SQL=1,
+ * BENCH_CPU_PROF=1, BENCH_SERVER_LOG=1, BENCH_VERBOSE=1, TRIMOUT_BENCH_PG_PORT (54349).
  * Results also go to .artifacts/bench.json.
  */
 import { type ChildProcess, spawn } from 'node:child_process';
@@ -32,9 +52,13 @@ import { chromium } from 'playwright-core';
 import sharp from 'sharp';
 import { connect, migrate } from '../server/db';
 import { CPU_SLOWDOWN, localSaveBench, type LocalSaveResult } from './lib/benchLocalSave';
+import { formatPhone, measurePhone, type PhoneFigures } from './lib/benchPhone';
 import { syncRateBench, type SyncRateResult } from './lib/benchSync';
 import { BENCH_PASSWORD, seedBenchJob, type BenchJob, type BenchUser } from './lib/benchSeed';
+import { benchReport, describeReportBench, type BenchReportResult } from './lib/benchReport';
+import { median, processCpuMs, replayCapacity, type CapturedRequest } from './lib/benchCapacity';
 import { cookieFrom, multipart, newAgent, send, stats, type BenchClient, type Reply, type Stats } from './lib/benchHttp';
+import { latencyVerdicts, openLoop, type OpenLoopResult, type Verdict } from './lib/benchOpenLoop';
 import type { CaptureMessage, CapturedQuery } from './lib/benchServer';
 import { ensureDatabase, removeCluster, startCluster } from './lib/postgres';
 import { say } from './lib/run';
@@ -50,7 +74,13 @@ const SQL_RUNS = Number(process.env.BENCH_SQL_RUNS ?? 100);
 const COMPARE_BUDGET_MS = Number(process.env.BENCH_COMPARE_BUDGET_MS ?? 6000);
 const SKIP_WEB = process.env.BENCH_SKIP_WEB === '1';
 const SYNC_COUNT = Number(process.env.BENCH_SYNC_COUNT ?? 50);
-const TARGET = { readP95: 150, boardP95: 100, ratio: 3 };
+const TARGET = { readP95: 150, boardP95: 100, ratio: 3, photoWriteP95: 600, capacityShare: 0.6, cpuMsPerRequest: 3 };
+const CAPACITY_CONNECTIONS = Number(process.env.BENCH_CAPACITY_CONNECTIONS ?? 50);
+const CAPACITY_SAMPLE = Number(process.env.BENCH_CAPACITY_SAMPLE ?? 400);
+const OPEN_RATE = Number(process.env.BENCH_RATE ?? 60);
+const OPEN_SECONDS = Number(process.env.BENCH_OPEN_SECONDS ?? 60);
+/** Each endpoint alone for this long, to measure the server's CPU per request of each; 0 skips it. */
+const CPU_SECONDS = Number(process.env.BENCH_CPU_SECONDS ?? 3);
 
 // ---------------------------------------------------------------------------------------------
 // Server process
@@ -314,10 +344,14 @@ async function request(base: URL, client: BenchClient, fx: Fixture, st: ClientSt
       return get('/api/jobs');
     case 'GET findings list':
     case 'GET findings list (next page)': {
-      if (endpoint === 'GET findings list (next page)' && st.lastList?.cursor) {
-        const q = `${st.lastList.query}${st.lastList.query ? '&' : ''}cursor=${encodeURIComponent(st.lastList.cursor)}`;
+      // The list this page continues, read before the await: in the open loop one client has
+      // several requests in flight, and another may replace st.lastList meanwhile (a cursor
+      // belongs to its own query).
+      const last = st.lastList;
+      if (endpoint === 'GET findings list (next page)' && last?.cursor) {
+        const q = `${last.query}${last.query ? '&' : ''}cursor=${encodeURIComponent(last.cursor)}`;
         const res = await get(`${jobBase}/findings?${q}`);
-        st.lastList = res.reply.status === 200 ? { query: st.lastList.query, cursor: (JSON.parse(res.reply.body) as { nextCursor: string | null }).nextCursor } : null;
+        st.lastList = res.reply.status === 200 ? { query: last.query, cursor: (JSON.parse(res.reply.body) as { nextCursor: string | null }).nextCursor } : null;
         return res;
       }
       const query = listVariants(client, fx, n);
@@ -503,6 +537,90 @@ async function compareReads(server: ServerProcess, clients: BenchClient[], fx: F
 }
 
 // ---------------------------------------------------------------------------------------------
+// The database's own capacity for the mix, open-loop latency, server CPU per request
+// ---------------------------------------------------------------------------------------------
+
+const isWrite = (e: string) => e.startsWith('POST ');
+
+/** `count` requests drawn from the mix (every client in turn, a few at a time), each with the SQL it sent. */
+async function captureMix(server: ServerProcess, clients: BenchClient[], fx: Fixture, count: number): Promise<CapturedRequest[]> {
+  const out: CapturedRequest[] = [];
+  const states = new Map(clients.map((c) => [c, { n: Math.floor(Math.random() * 1000), lastList: null } as ClientState]));
+  let next = 0;
+  await Promise.all(
+    Array.from({ length: 5 }, async () => {
+      while (next < count) {
+        const k = next++;
+        const client = clients[k % clients.length]!;
+        const id = `mix-${k}-${Math.random().toString(36).slice(2)}`;
+        const captured = server.capture(id);
+        try {
+          const res = await step(server.url, client, fx, states.get(client)!, id);
+          if (!res || res.reply.status < 200 || res.reply.status >= 300) continue;
+          const cap = await Promise.race([captured, new Promise<null>((r) => setTimeout(() => r(null), 10_000))]);
+          if (cap) out.push({ endpoint: res.endpoint, write: isWrite(res.endpoint), queries: cap.queries });
+        } catch {
+          // No answer: not part of the sample.
+        }
+      }
+    }),
+  );
+  return out;
+}
+
+function serverCpu(server: ServerProcess): number {
+  return processCpuMs(server.child.pid!);
+}
+
+/** The mix at a fixed arrival rate; each arrival goes to the next client in turn (its own session and connection). */
+async function openLoopRun(base: URL, clients: BenchClient[], fx: Fixture, rate: number, seconds: number): Promise<OpenLoopResult> {
+  const states = clients.map(() => ({ n: Math.floor(Math.random() * 1000), lastList: null }) as ClientState);
+  return openLoop(rate, seconds, async (i) => {
+    const k = i % clients.length;
+    const res = await step(base, clients[k]!, fx, states[k]!);
+    if (!res) return { endpoint: 'none', status: 0 };
+    return { endpoint: res.endpoint, status: res.reply.status, sample: res.reply.body.slice(0, 200) };
+  });
+}
+
+interface EndpointCpu {
+  endpoint: Endpoint;
+  requests: number;
+  cpuMs: number;
+  cpuMsPerRequest: number;
+}
+
+/** Each endpoint of the mix alone (up to 10 clients whose role uses it, back to back), with the server's CPU time per request. */
+async function cpuPerEndpoint(server: ServerProcess, clients: BenchClient[], fx: Fixture, seconds: number): Promise<EndpointCpu[]> {
+  const endpoints = new Set<Endpoint>();
+  for (const ws of Object.values(WEIGHTS)) for (const [e] of ws) if (!(e in OPTIONAL) || fx.optional.has(e)) endpoints.add(e);
+  const out: EndpointCpu[] = [];
+  for (const endpoint of endpoints) {
+    const users = clients.filter((c) => WEIGHTS[c.role].some(([e]) => e === endpoint)).slice(0, 10);
+    let requests = 0;
+    const cpu0 = serverCpu(server);
+    const until = Date.now() + seconds * 1000;
+    await Promise.all(
+      users.map(async (client) => {
+        const st: ClientState = { n: Math.floor(Math.random() * 1000), lastList: null };
+        while (Date.now() < until) {
+          st.n += 1;
+          try {
+            await request(server.url, client, fx, st, endpoint);
+            requests += 1;
+          } catch {
+            // counted by the load runs; here only the CPU matters
+          }
+        }
+      }),
+    );
+    const cpuMs = serverCpu(server) - cpu0;
+    out.push({ endpoint, requests, cpuMs, cpuMsPerRequest: cpuMs / requests });
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
 // Web
 // ---------------------------------------------------------------------------------------------
 
@@ -597,6 +715,7 @@ async function fixture(db: pg.Client, job: BenchJob, clients: BenchClient[], ser
   };
 }
 
+const pickPercentiles = (s: Stats) => ({ p50: s.p50, p95: s.p95, p99: s.p99 });
 const f1 = (n: number) => (Number.isFinite(n) ? n.toFixed(1) : '-');
 const f2 = (n: number) => (Number.isFinite(n) ? n.toFixed(2) : '-');
 const ratio = (a: number, b: number) => (Number.isFinite(a / b) ? `${(a / b).toFixed(1)}x` : '-');
@@ -616,6 +735,13 @@ async function main() {
     await seedDb.close();
     if (!SKIP_WEB) await buildWebIfStale(path.join(root, 'dist'));
 
+    {
+      // Each run signs the same 50 people in: earlier runs' sign-ins must not count against this one.
+      const limits = new pg.Client({ connectionString: url });
+      await limits.connect();
+      await limits.query('DELETE FROM rate_limit_hits');
+      await limits.end();
+    }
     server = await startBenchServer(url);
     say(`server on ${server.url.origin}; signing in ${CLIENTS} clients ...`);
     const users = pickUsers(job.users, CLIENTS);
@@ -635,10 +761,28 @@ async function main() {
       await drive(server.url, clients, fx, WARMUP);
     }
     say(`load: ${CLIENTS} clients for ${SECONDS} s ...`);
+    const loadCpu0 = serverCpu(server);
     const load = await drive(server.url, clients, fx, SECONDS);
+    const loadCpuMs = serverCpu(server) - loadCpu0;
     say('one client at a time, and the same SQL directly ...');
     const reads = await compareReads(server, clients, fx, db);
     await db.end();
+    say(`the database's own capacity: the SQL of ${CAPACITY_SAMPLE} requests of the mix, replayed on ${CAPACITY_CONNECTIONS} connections for ${SECONDS} s ...`);
+    const mixSample = await captureMix(server, clients, fx, CAPACITY_SAMPLE);
+    const capacity = mixSample.length ? await replayCapacity(url, mixSample, CAPACITY_CONNECTIONS, SECONDS) : null;
+    let open: OpenLoopResult | null = null;
+    let openCpuMs = NaN;
+    if (OPEN_SECONDS > 0 && OPEN_RATE > 0) {
+      say(`open loop: ${OPEN_RATE} requests/s on a fixed schedule for ${OPEN_SECONDS} s ...`);
+      const openCpu0 = serverCpu(server);
+      open = await openLoopRun(server.url, clients, fx, OPEN_RATE, OPEN_SECONDS);
+      openCpuMs = serverCpu(server) - openCpu0;
+    }
+    let endpointCpu: EndpointCpu[] = [];
+    if (CPU_SECONDS > 0) {
+      say(`server CPU per request: each endpoint alone for ${CPU_SECONDS} s ...`);
+      endpointCpu = await cpuPerEndpoint(server, clients, fx, CPU_SECONDS);
+    }
 
     let exportResult: unknown = null;
     const exportLib = path.join(__dirname, 'lib', 'benchExport.ts');
@@ -650,6 +794,16 @@ async function main() {
         exportResult = await mod.benchExport?.({ baseUrl: server.url.origin, cookie: gc.cookie, csrfToken: gc.csrf, jobId: job.jobId, databaseUrl: url, userId: gc.userId });
       } catch (err) {
         say(`export benchmark failed: ${err instanceof Error ? err.message : String(err)}`);
+      }
+    }
+    // The close-out report of the busiest level with 500 photos, next to reading the same rows and photos (scripts/lib/benchReport.ts); BENCH_SKIP_REPORT=1 skips it.
+    let reportResult: BenchReportResult | null = null;
+    if (process.env.BENCH_SKIP_REPORT !== '1') {
+      say('close-out report benchmark (scripts/lib/benchReport.ts) ...');
+      try {
+        reportResult = await benchReport({ databaseUrl: url, jobId: job.jobId });
+      } catch (err) {
+        say(`report benchmark failed: ${err instanceof Error ? err.message : String(err)}`);
       }
     }
     const bundle = SKIP_WEB ? null : bundleSize();
@@ -666,6 +820,31 @@ async function main() {
         localSave = await localSaveBench({ baseUrl: server.url.origin, email: inspector.email, password: BENCH_PASSWORD, jobId: job.jobId, unitId: unit.rows[0]!.id });
       } catch (err) {
         say(`local save benchmark failed: ${err instanceof Error ? err.message : String(err)}`);
+      }
+    }
+    let phone: PhoneFigures | null = null;
+    if (!SKIP_WEB) {
+      say('the app on a phone: level walk and finding form, cold and warm, CPU 4x slower, 150 ms, 1.6 Mbit/s (scripts/lib/benchPhone.ts) ...');
+      try {
+        const inspector = job.users.find((u) => u.role === 'inspector')!;
+        // The level with the most units: the walk a phone has the most to show on.
+        const levelDb = new pg.Client({ connectionString: url });
+        await levelDb.connect();
+        const level = await levelDb.query<{ id: string }>(
+          `SELECT level_id AS id FROM units WHERE job_id = $1 GROUP BY level_id ORDER BY count(*) DESC, level_id LIMIT 1`,
+          [job.jobId],
+        );
+        await levelDb.end();
+        phone = await measurePhone({
+          baseUrl: server.url.origin,
+          chromiumPath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+          signIn: { email: inspector.email, password: BENCH_PASSWORD },
+          jobId: job.jobId,
+          levelId: level.rows[0]!.id,
+          log: say,
+        });
+      } catch (err) {
+        say(`phone benchmark failed: ${err instanceof Error ? err.message : String(err)}`);
       }
     }
     let syncRate: SyncRateResult | null = null;
@@ -727,6 +906,77 @@ async function main() {
     console.log(`  findings list p50 / p95: ${f1(list.p50)} / ${f1(list.p95)} ms`);
     console.log(`  board p50 / p95 under ${TARGET.boardP95} ms: ${fx.optional.has('GET board') ? `${f1(board.p50)} / ${f1(board.p95)} ms ${board.p95 < TARGET.boardP95 ? 'met' : 'NOT met'}` : 'no board route yet'}`);
     console.log(`  errors: ${allErrors} ${allErrors === 0 ? 'met' : 'NOT met'}`);
+
+    // The database's own capacity for the same mix.
+    const apiRps = totalRequests / load.elapsed;
+    let capacityShare = NaN;
+    if (capacity) {
+      capacityShare = apiRps / capacity.requestEquivalentsPerSecond;
+      const composition = new Map<string, number>();
+      for (const r of mixSample) composition.set(r.endpoint, (composition.get(r.endpoint) ?? 0) + 1);
+      const statementsPerRequest = mixSample.reduce((sum, r) => sum + r.queries.length, 0) / mixSample.length;
+      console.log(
+        `\nCapacity against the database's own limit: the SQL of ${capacity.samples} requests drawn from the same mix (session, user and membership reads included; ` +
+          `${f1(statementsPerRequest)} statements a request) replayed directly on ${capacity.connections} connections, no think time, for ${capacity.seconds.toFixed(0)} s`,
+      );
+      console.log(
+        `  writes in the mix: their SQL replayed inside a transaction that is rolled back (the server's own BEGIN/COMMIT left out, the ids they created and the ` +
+          `Idempotency-Keys fresh on each replay; ${capacity.writesInSample} of the ${capacity.samples} sampled requests, ${capacity.replayedWrites} write replays); ` +
+          `their UPDATEs (by id) write again what the captured write wrote, with the same row locks and triggers`,
+      );
+      console.log(`  sample: ${[...composition.entries()].sort((a, b) => b[1] - a[1]).map(([e, n]) => `${e} ${n}`).join(', ')}`);
+      console.log(
+        `  database: ${capacity.replayed} request-equivalents, ${capacity.requestEquivalentsPerSecond.toFixed(0)} req-equivalents/s (${capacity.statementsPerSecond.toFixed(0)} statements/s), ` +
+          `failed replays: ${capacity.failed}${capacity.firstError ? ` (first: ${capacity.firstError})` : ''}`,
+      );
+      console.log(
+        `  API ${apiRps.toFixed(0)} req/s = ${f2(capacityShare)} of the database's ${capacity.requestEquivalentsPerSecond.toFixed(0)} req-equivalents/s ` +
+          `(target >= ${TARGET.capacityShare}): ${capacityShare >= TARGET.capacityShare ? 'met' : 'NOT met'}`,
+      );
+    }
+
+    // Latency at a realistic load: open loop.
+    let openRows: { endpoint: string; requests: number; p50: number; p95: number; p99: number; errors: number; sample?: string }[] = [];
+    let openVerdicts: Verdict[] = [];
+    if (open) {
+      openRows = [...open.byEndpoint.entries()]
+        .sort((a, b) => b[1].times.length - a[1].times.length)
+        .map(([endpoint, x]) => ({ endpoint, requests: x.times.length, ...pickPercentiles(stats(x.times)), errors: x.errors, sample: x.sample }));
+      const openReads = stats([...open.byEndpoint.entries()].filter(([e]) => e.startsWith('GET ')).flatMap(([, x]) => x.times));
+      console.log(
+        `\nOpen loop: ${open.sent} requests arriving at ${open.rate}/s on a fixed schedule for ${open.seconds} s (the same mix and sessions; each sent at its time ` +
+          `whether or not earlier ones had answered; latency from the scheduled time, so queueing counts); load generator behind schedule p50 ${f1(open.sendLag.p50)} ms, max ${f1(open.sendLag.max)} ms`,
+      );
+      const keptUp = open.elapsed <= open.seconds + 2;
+      console.log(
+        `  the last answer came ${open.elapsed.toFixed(1)} s after the first arrival (${(open.sent / open.elapsed).toFixed(1)} answers/s): ` +
+          (keptUp ? 'the server kept up with the rate' : 'the server did NOT keep up with the rate, so the figures are mostly time queued'),
+      );
+      console.log('| endpoint | requests | p50 ms | p95 ms | p99 ms | errors |');
+      console.log('|---|---|---|---|---|---|');
+      for (const r of openRows) console.log(`| ${r.endpoint} | ${r.requests} | ${f1(r.p50)} | ${f1(r.p95)} | ${f1(r.p99)} | ${r.errors} |`);
+      console.log(`| all reads | ${openReads.count} | ${f1(openReads.p50)} | ${f1(openReads.p95)} | ${f1(openReads.p99)} | |`);
+      for (const r of openRows) if (r.sample) console.log(`  first error of ${r.endpoint}: ${r.sample}`);
+      openVerdicts = latencyVerdicts(openRows, TARGET, (e) => e === 'GET board', (e) => e === 'POST fix (photo)');
+      console.log(`Targets at ${open.rate} req/s: ${openVerdicts.every((v) => v.met) ? 'all met' : 'NOT all met'}`);
+      for (const v of openVerdicts) console.log(`  ${v.what}: ${v.value} ${v.met ? 'met' : 'NOT met'}`);
+    }
+
+    // Server CPU per request.
+    const loadCpuPerRequest = loadCpuMs / totalRequests;
+    const openRequests = open ? openRows.reduce((sum, r) => sum + r.requests, 0) : 0;
+    const openCpuPerRequest = openCpuMs / openRequests;
+    const medianCpu = median(endpointCpu.map((e) => e.cpuMsPerRequest));
+    console.log(`\nServer CPU per request (user + system time of the server process, all threads, from /proc/<pid>/stat; target < ${TARGET.cpuMsPerRequest} ms):`);
+    console.log(`  closed-loop load: ${f1(loadCpuMs)} ms for ${totalRequests} requests = ${f2(loadCpuPerRequest)} ms a request (${((loadCpuMs / 1000 / load.elapsed) * 100).toFixed(0)} % of one core) ${loadCpuPerRequest < TARGET.cpuMsPerRequest ? 'met' : 'NOT met'}`);
+    if (open) console.log(`  open loop: ${f1(openCpuMs)} ms for ${openRequests} requests = ${f2(openCpuPerRequest)} ms a request ${openCpuPerRequest < TARGET.cpuMsPerRequest ? 'met' : 'NOT met'}`);
+    if (endpointCpu.length) {
+      console.log(`  each endpoint alone for ${CPU_SECONDS} s (up to 10 clients): median across endpoints ${f2(medianCpu)} ms a request ${medianCpu < TARGET.cpuMsPerRequest ? 'met' : 'NOT met'}`);
+      console.log('  | endpoint | requests | CPU ms a request |');
+      console.log('  |---|---|---|');
+      for (const e of [...endpointCpu].sort((a, b) => b.cpuMsPerRequest - a.cpuMsPerRequest)) console.log(`  | ${e.endpoint} | ${e.requests} | ${f2(e.cpuMsPerRequest)} |`);
+    }
+
     const ex = exportResult as { api?: { rows: number; rowsPerSecond: number; megabytes: number }; copy?: { rowsPerSecond: number }; ratio?: number } | null;
     if (ex?.api && ex.copy) {
       console.log(
@@ -734,6 +984,7 @@ async function main() {
           `COPY of the same SELECT: ${ex.copy.rowsPerSecond.toFixed(0)} rows/s; API/COPY ${(ex.ratio ?? 0).toFixed(2)} (1.0 = as fast as the database alone)`,
       );
     } else if (exportResult) console.log(`\nExport: ${JSON.stringify(exportResult)}`);
+    if (reportResult) console.log(`\n${describeReportBench(reportResult)}`);
     if (bundle) console.log(`\nweb bundle: ${(bundle.raw / 1024).toFixed(0)} KiB raw, ${(bundle.gzip / 1024).toFixed(0)} KiB gzip`);
     if (usableMs !== null) console.log(`sign-in page usable in headless chromium (median of 5): ${usableMs} ms`);
     if (localSave) {
@@ -743,6 +994,7 @@ async function main() {
           `  2 photos of 4000×3000 picked → downscaled to 2560 px on the device and shown in the form: p50 ${f1(localSave.prepare.p50)} ms, p95 ${f1(localSave.prepare.p95)} ms`,
       );
     }
+    if (phone) console.log(`\n${formatPhone(phone)}`);
     if (syncRate) {
       console.log(
         `\nSync of ${syncRate.findings} findings with ${syncRate.photos} photos (1-2 each, 640×480) queued offline in the outbox (phone-sized page):\n` +
@@ -755,7 +1007,49 @@ async function main() {
     fs.mkdirSync(path.join(root, '.artifacts'), { recursive: true });
     fs.writeFileSync(
       path.join(root, '.artifacts', 'bench.json'),
-      JSON.stringify({ at: new Date().toISOString(), clients: clients.length, seconds: load.elapsed, networkErrors: load.networkErrors, load: loadRows, reads, exportResult, bundle, usableMs, localSave, syncRate }, null, 2),
+      JSON.stringify(
+        {
+          at: new Date().toISOString(),
+          clients: clients.length,
+          seconds: load.elapsed,
+          networkErrors: load.networkErrors,
+          load: loadRows,
+          reads,
+          capacity: capacity && {
+            ...capacity,
+            writes: 'replayed inside a transaction that is rolled back',
+            apiRequestsPerSecond: apiRps,
+            share: capacityShare,
+            target: TARGET.capacityShare,
+          },
+          openLoop: open && {
+            rate: open.rate,
+            seconds: open.seconds,
+            sent: open.sent,
+            elapsed: open.elapsed,
+            keptUp: open.elapsed <= open.seconds + 2,
+            sendLag: open.sendLag,
+            endpoints: openRows,
+            verdicts: openVerdicts,
+          },
+          serverCpu: {
+            target: TARGET.cpuMsPerRequest,
+            load: { cpuMs: loadCpuMs, requests: totalRequests, msPerRequest: loadCpuPerRequest },
+            openLoop: open ? { cpuMs: openCpuMs, requests: openRequests, msPerRequest: openCpuPerRequest } : null,
+            endpoints: endpointCpu,
+            medianMsPerRequest: medianCpu,
+          },
+          exportResult,
+          reportResult,
+          bundle,
+          usableMs,
+          localSave,
+          phone,
+          syncRate,
+        },
+        null,
+        2,
+      ),
     );
   } finally {
     await server?.stop();

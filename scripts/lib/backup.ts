@@ -22,7 +22,7 @@ import pg from 'pg';
 import { DiskObjectStore } from '../../server/storage/disk';
 import { S3ObjectStore } from '../../server/storage/s3';
 import type { ObjectStore } from '../../server/storage/types';
-import { PENDING_UPLOAD_MAX_AGE_MINUTES } from '../../server/services/pendingUploads';
+import { keyReferencedSql, PENDING_UPLOAD_MAX_AGE_MINUTES } from '../../server/services/pendingUploads';
 import { ensurePostgresInstalled } from './postgres';
 
 export interface ObjectEntry {
@@ -38,7 +38,7 @@ export interface UploadsReport {
   pending: number;
   /** Of those, rows older than the reaper's age: writes that never committed (orphans). */
   pendingOrphans: number;
-  /** Objects in the store that no photo row and no level's plan references (pending or not). */
+  /** Objects in the store that no photo row (full, thumbnail, print copy), marked copy or level's plan references (pending or not). */
   unreferencedObjects: number;
 }
 
@@ -135,8 +135,7 @@ export async function uploadsReport(databaseUrl: string, keys: readonly string[]
       [PENDING_UPLOAD_MAX_AGE_MINUTES],
     );
     const referenced = await client.query<{ key: string }>(
-      `SELECT k AS key FROM unnest($1::text[]) AS k
-        WHERE EXISTS (SELECT 1 FROM photos WHERE storage_key = k OR thumb_key = k) OR EXISTS (SELECT 1 FROM levels WHERE plan_key = k)`,
+      `SELECT k AS key FROM unnest($1::text[]) AS k WHERE ${keyReferencedSql('k')}`,
       [keys],
     );
     return {

@@ -19,6 +19,22 @@ export const OUTBOX_COUNT = `new Promise((resolve) => {
   };
 })`;
 
+/** The server's refusals of the outbox's writes that need attention: "400 Choose ... (Finding on unit X)". */
+export const OUTBOX_REFUSALS = `new Promise((resolve) => {
+  const open = indexedDB.open('trimout-outbox');
+  open.onerror = () => resolve([]);
+  open.onsuccess = () => {
+    const d = open.result;
+    if (!d.objectStoreNames.contains('writes')) { d.close(); return resolve([]); }
+    const req = d.transaction('writes').objectStore('writes').getAll();
+    req.onsuccess = () => {
+      d.close();
+      resolve(req.result.filter((i) => i.state === 'attention').map((i) => (i.refusal ? i.refusal.status + ' ' + i.refusal.message + (i.refusal.fields ? ' ' + JSON.stringify(i.refusal.fields) : '') : 'refused') + ' (' + i.label + ')'));
+    };
+    req.onerror = () => { d.close(); resolve([]); };
+  };
+})`;
+
 /** A JPEG of noise: every `step`th byte random, so its size and decoding cost are a real photo's. */
 export function noisePhoto(seed: number, size: { width: number; height: number; step: number; quality: number }): Promise<Buffer> {
   const { width, height, step, quality } = size;

@@ -19,7 +19,7 @@ import os from 'node:os';
 import path from 'node:path';
 import pg from 'pg';
 import { chromium, type BrowserContext, type Route } from 'playwright-core';
-import { noisePhoto, OUTBOX_COUNT, signIn, until } from './benchPage';
+import { noisePhoto, OUTBOX_COUNT, OUTBOX_REFUSALS, signIn, until } from './benchPage';
 
 export interface SyncRateResult {
   findings: number;
@@ -124,6 +124,12 @@ export async function syncRateBench(options: {
         .locator('option')
         .evaluateAll((os) => os.map((o) => (o as unknown as { value: string }).value).filter(Boolean));
       await page.getByTestId('finding-form-item').selectOption(values[i % values.length]!);
+      // A defect type whose trade no company on the job covers suggests none: the form then asks for one.
+      const company = page.getByTestId('finding-form-company');
+      if (!(await company.inputValue())) {
+        const firstCompany = await company.locator('option').evaluateAll((os) => os.map((o) => (o as unknown as { value: string }).value).find(Boolean));
+        if (firstCompany) await company.selectOption(firstCompany);
+      }
       await page.getByTestId('finding-form-note').fill(`Bench sync ${i + 1}`);
       await context.setOffline(true);
       const picked = await Promise.all(Array.from({ length: 1 + (i % 2) }, (_, n) => photo(i * 2 + n)));
@@ -141,7 +147,14 @@ export async function syncRateBench(options: {
     await page.unroute('**/api/**', refuseWrites);
     const started = Date.now();
     await context.setOffline(false);
-    if (!(await until(page, `${OUTBOX_COUNT}.then((n) => n === 0)`, 600_000, 20))) throw new Error('The queue was not sent within 10 minutes.');
+    // Sent, or stopped by a refusal (a write needing attention stays in the queue for good): the
+    // refusal is the answer, not a 10-minute wait.
+    const refusedNow = `${OUTBOX_REFUSALS}.then((r) => r.length > 0)`;
+    if (!(await until(page, `Promise.all([${OUTBOX_COUNT}, ${refusedNow}]).then(([n, refused]) => n === 0 || refused)`, 600_000, 20))) {
+      throw new Error('The queue was not sent within 10 minutes.');
+    }
+    const refusals = (await page.evaluate(OUTBOX_REFUSALS)) as string[];
+    if (refusals.length) throw new Error(`The server refused ${refusals.length} queued finding(s): ${refusals.join('; ')}`);
     const syncSeconds = (Date.now() - started) / 1000;
     const stored = await db.query<{ findings: string; photos: string }>(
       `SELECT count(DISTINCT f.id) AS findings, count(p.id) AS photos FROM findings f LEFT JOIN photos p ON p.finding_id = f.id AND p.stage = 'finding' WHERE f.id = ANY($1::uuid[])`,
