@@ -7,6 +7,9 @@
  * scripts/test.ts sets DATABASE_URL and the other services before calling jest.
  */
 const tsJest = ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.json' }];
+// shared/rules/csvRead.ts imports csv-parse's browser build (ES modules, for Metro); jest runs
+// CommonJS, so it gets the package's CommonJS build of the same parser.
+const csvParse = { '^csv-parse/browser/esm/sync$': 'csv-parse/sync' };
 
 module.exports = {
   // Real scrypt hashes, a real database and a real browser: generous on a busy 2-core machine.
@@ -19,6 +22,7 @@ module.exports = {
       testEnvironment: 'node',
       testMatch: ['<rootDir>/tests/shared/**/*.test.ts'],
       transform: { '^.+\\.tsx?$': tsJest },
+      moduleNameMapper: csvParse,
     },
     {
       displayName: 'server',
@@ -26,11 +30,13 @@ module.exports = {
       testEnvironment: 'node',
       testMatch: ['<rootDir>/tests/server/**/*.test.ts'],
       transform: { '^.+\\.tsx?$': tsJest },
+      moduleNameMapper: csvParse,
     },
     {
       displayName: 'components',
       rootDir: __dirname,
       preset: 'jest-expo',
+      moduleNameMapper: csvParse,
       testMatch: ['<rootDir>/tests/components/**/*.test.tsx'],
     },
     {
@@ -39,6 +45,7 @@ module.exports = {
       testEnvironment: 'node',
       testMatch: ['<rootDir>/tests/e2e/**/*.test.ts'],
       transform: { '^.+\\.tsx?$': tsJest },
+      moduleNameMapper: csvParse,
     },
   ],
 };

@@ -7,8 +7,8 @@ import { links } from '../components/links';
 
 export default function NotFound() {
   return (
-    <Screen testID="not-found-screen">
-      <EmptyState title="Nothing here" body="This page does not exist." />
+    <Screen testID="not-found-screen" main>
+      <EmptyState title="Nothing here" body="This page does not exist." level={1} />
       <Link href={links.home()} style={{ alignSelf: 'center' }}>
         <AppText variant="label" style={{ color: colors.spruce }}>
           Go to your jobs

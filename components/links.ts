@@ -10,6 +10,7 @@
 import type { Href } from 'expo-router';
 import type { FindingStatus, Severity, UnitKindKey } from '../shared/words';
 import type { UnitWalkState } from '../shared/schemas/findings';
+import type { TestRecordKind, TestResult } from '../shared/schemas/testRecords';
 import { DEFAULT_SCORECARD_SORT, type ScorecardSort } from './board/scorecardSort';
 
 const e = encodeURIComponent;
@@ -98,6 +99,36 @@ export function scorecardParams(sort: ScorecardSort): Record<string, string> {
   return values({ sort: write(sort) }, ['sort'], { sort: write(DEFAULT_SCORECARD_SORT) });
 }
 
+/** The test records list's address filters (read back by components/tests/testParams.ts). */
+export interface TestLinkFilters {
+  systemId?: string;
+  unitId?: string;
+  kind?: TestRecordKind | string;
+  result?: TestResult | string;
+  /** 'true': witnessed only; 'false': waiting for a witness. */
+  witnessed?: 'true' | 'false' | string;
+  /** 'true': leave corrected (superseded) records out. */
+  current?: 'true' | string;
+}
+const TEST_FILTER_ORDER: readonly (keyof TestLinkFilters)[] = ['systemId', 'unitId', 'kind', 'result', 'witnessed', 'current'];
+
+/** The test records list's filters as address values. */
+export function testParams(filters: TestLinkFilters): Record<string, string> {
+  return values(filters, TEST_FILTER_ORDER);
+}
+
+/** What the new test record screen may be opened with (read by app/(app)/jobs/[jobId]/tests/new.tsx). */
+export interface NewTestParams {
+  kind?: TestRecordKind | string;
+  systemId?: string;
+  unitId?: string;
+  /** A drain test for a unit of this level (the form offers the level's units). */
+  levelId?: string;
+  /** The record this one corrects (a witnessed, locked record). */
+  supersedesId?: string;
+}
+const NEW_TEST_ORDER: readonly (keyof NewTestParams)[] = ['kind', 'systemId', 'unitId', 'levelId', 'supersedesId'];
+
 /** `?a=1&b=2` from address values already in order. */
 function search(params: Record<string, string>): string {
   return query(params, Object.keys(params));
@@ -113,6 +144,9 @@ export interface NewFindingParams {
   walkId?: string;
 }
 const NEW_FINDING_ORDER: readonly (keyof NewFindingParams)[] = ['unitId', 'spaceId', 'levelId', 'catalogueItemId', 'measuredText', 'walkId'];
+
+/** How the levels board shows the job: as the building, or as a table of counts. */
+export type BoardView = 'building' | 'table';
 
 /** The set-up sections, one route each under /jobs/:jobId/setup/. */
 export type SetupSection = 'job' | 'levels' | 'spaces' | 'systems' | 'models' | 'units' | 'import' | 'companies' | 'crews' | 'members' | 'catalogue' | 'settings';
@@ -146,6 +180,8 @@ export const links = {
   /** One level's walk; `saved` names the unit whose check was just saved; `filters` narrow its units. */
   levelWalk: (jobId: string, levelId: string, saved?: string, filters: WalkLinkFilters = {}): Href =>
     href(`${level(jobId, levelId)}/walk${search({ ...walkParams(filters), ...(saved ? { saved } : {}) })}`),
+  /** Scan a unit label's QR code (or type the tag) to open that unit's check. */
+  scan: (jobId: string): Href => href(`${job(jobId)}/scan`),
   /** One unit's check; `saved` names the unit whose check was just saved (Save and next unit). */
   unitCheck: (jobId: string, unitId: string, saved?: string): Href => href(`${job(jobId)}/units/${e(unitId)}/check${query({ saved }, ['saved'])}`),
   /** A level's plan, optionally opened to place a finding's or a unit's pin. */
@@ -157,12 +193,23 @@ export const links = {
   newFinding: (jobId: string, params: NewFindingParams = {}): Href => href(`${job(jobId)}/findings/new${query(params, NEW_FINDING_ORDER)}`),
   finding: (jobId: string, findingId: string): Href => href(`${job(jobId)}/findings/${e(findingId)}`),
   reinspections: (jobId: string): Href => href(`${job(jobId)}/reinspections`),
+  /** A PDF report built in the background: its progress, then the download. */
+  report: (jobId: string, reportId: string): Href => href(`${job(jobId)}/reports/${e(reportId)}`),
 
-  board: (jobId: string): Href => href(`${job(jobId)}/board`),
+  /** The levels board: the building (stack of floors, the default) or the table of counts. */
+  board: (jobId: string, view?: BoardView): Href => href(`${job(jobId)}/board${query({ view: view === 'table' ? view : undefined }, ['view'])}`),
   /** A level's page on the board. */
   level: (jobId: string, levelId: string): Href => href(level(jobId, levelId)),
   /** Readiness of the job, or of one system. */
   readiness: (jobId: string, systemId?: string): Href => href(`${job(jobId)}/readiness${query({ systemId }, ['systemId'])}`),
+  /** Test records (pressure, evacuation, charge, drain, start-up), already filtered. */
+  tests: (jobId: string, filters: TestLinkFilters = {}): Href => href(`${job(jobId)}/tests${search(testParams(filters))}`),
+  testRecord: (jobId: string, recordId: string): Href => href(`${job(jobId)}/tests/${e(recordId)}`),
+  newTestRecord: (jobId: string, params: NewTestParams = {}): Href => href(`${job(jobId)}/tests/new${query(params, NEW_TEST_ORDER)}`),
+  /** Sampling audits: the list, the plan form and one audit. */
+  audits: (jobId: string): Href => href(`${job(jobId)}/audits`),
+  newAudit: (jobId: string): Href => href(`${job(jobId)}/audits/new`),
+  audit: (jobId: string, auditId: string): Href => href(`${job(jobId)}/audits/${e(auditId)}`),
   /** Company scorecards, optionally in another order than most overdue first. */
   scorecards: (jobId: string, sort: ScorecardSort = DEFAULT_SCORECARD_SORT): Href => href(`${job(jobId)}/scorecards${search(scorecardParams(sort))}`),
 } as const;

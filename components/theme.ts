@@ -5,7 +5,8 @@
 export const colors = {
   ink: '#1A1F1C',
   inkMuted: '#56605A',
-  inkFaint: '#8A928D',
+  /** Quiet text (a zero count, a placeholder): still 4.5:1 on paper, the lowest contrast text may have (WCAG 1.4.3). */
+  inkFaint: '#646C67',
   paper: '#F4F1EA',
   surface: '#FFFFFF',
   line: '#DAD5C9',

@@ -11,6 +11,7 @@ import { pruneRateLimitHits } from './services/rateLimitStore';
 import { reapOrphanUploads, REAP_INTERVAL_MINUTES } from './services/pendingUploads';
 import { createObjectStore } from './storage';
 import { sweepUploadFolders } from './middleware/upload';
+import { createReportQueue } from './reports/queue';
 
 export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   const env = loadEnv(envSource);
@@ -22,7 +23,12 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
   const mail = createMailService({ env, fake, log });
   const db = connect(env.DATABASE_URL);
   const objectStore = createObjectStore(env);
-  const { app, close } = createApp({ env, db, mail, log, objectStore });
+  // Large reports are built by a pg-boss worker in this process (server/reports/queue.ts).
+  const reportQueue = createReportQueue({ connectionString: env.DATABASE_URL, log });
+  const { app, close } = createApp({ env, db, mail, log, objectStore, reportQueue });
+  await reportQueue
+    .startWorker({ sequelize: db.sequelize, store: objectStore, mail, log })
+    .catch((err: unknown) => log('report worker did not start (large reports will wait)', err));
   // Digests: pg-boss keeps its state in PostgreSQL (schema pgboss); an hourly job sends what is due.
   let scheduler: DigestScheduler | undefined;
   if (env.DIGEST_SCHEDULER) {
@@ -70,6 +76,7 @@ export async function startServer(envSource: NodeJS.ProcessEnv = process.env) {
       server.closeIdleConnections();
       await closed;
       await scheduler?.stop();
+      await reportQueue.stop();
       await mail.outbox.idle();
       await close();
       await db.close();

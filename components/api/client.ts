@@ -3,6 +3,8 @@
  * (components/api/mutations.ts), which adds the CSRF token and an Idempotency-Key so that a
  * write can be queued and replayed safely when the phone loses signal.
  */
+import { noteReached } from './reach';
+
 export interface ApiErrorBody {
   error: { id: string; message: string; fields?: Record<string, string> };
 }
@@ -74,12 +76,19 @@ export async function requestWithMeta<T>(
       body: form ? (init.body as FormData) : init.body !== undefined ? JSON.stringify(init.body) : undefined,
     });
   } catch {
+    noteReached(false, ping);
     throw new ApiError(0, 'offline', 'No connection to Trimout. Check your signal and try again.');
   }
+  noteReached(true);
   if (!res.ok) throw await toError(res);
   const etag = res.headers.get('ETag');
   if (res.status === 204) return { data: undefined as T, etag };
   return { data: (await res.json()) as T, etag };
+}
+
+/** Asked every 15 s while the server is unreachable (components/api/reach.ts): any answer will do. */
+function ping(): Promise<Response> {
+  return fetch('/api/health', { method: 'GET', credentials: 'same-origin' });
 }
 
 export function apiGet<T>(path: string): Promise<T> {
@@ -92,8 +101,10 @@ export async function apiGetBlob(path: string): Promise<Blob> {
   try {
     res = await fetch(path, { method: 'GET', credentials: 'same-origin' });
   } catch {
+    noteReached(false, ping);
     throw new ApiError(0, 'offline', 'No connection to Trimout. Check your signal and try again.');
   }
+  noteReached(true);
   if (!res.ok) throw await toError(res);
   return res.blob();
 }

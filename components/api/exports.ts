@@ -12,4 +12,6 @@ export const exportUrls = {
   scorecardsCsv: (jobId: string): string => jobPath(jobId, 'scorecards.csv'),
   /** The unit register, with the register screen's filters. */
   unitsCsv: (jobId: string, filters: UnitFilters = {}): string => `${jobPath(jobId, 'units.csv')}${queryString({ ...filters })}`,
+  /** One sampling audit's report. */
+  auditCsv: (jobId: string, auditId: string): string => jobPath(jobId, 'audits', `${auditId}.csv`),
 } as const;

@@ -22,12 +22,12 @@ export function AuthFrame({
   footer?: ReactNode;
 }) {
   return (
-    <Screen testID={testID} maxWidth={460}>
+    <Screen testID={testID} maxWidth={460} main>
       <View style={styles.brand}>
         <Wordmark />
       </View>
       <Card>
-        <AppText variant="title" role="heading">
+        <AppText variant="title" role="heading" aria-level={1}>
           {title}
         </AppText>
         {intro ? <AppText muted>{intro}</AppText> : null}

@@ -41,13 +41,13 @@ export function SignInScreen() {
   const rootError = formState.errors.root?.message;
 
   return (
-    <Screen testID="sign-in-screen" maxWidth={440}>
+    <Screen testID="sign-in-screen" maxWidth={440} main>
       <View style={styles.brand}>
         <Wordmark />
         <AppText muted>Install audits and punch lists for indoor units, from first walk to last sign-off.</AppText>
       </View>
       <Card>
-        <AppText variant="title" role="heading">
+        <AppText variant="title" role="heading" aria-level={1}>
           Sign in
         </AppText>
         {rootError ? (

@@ -6,6 +6,8 @@ import { useJobQuery } from '../queries/jobs';
 import { colors, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
+import { ExportLink } from '../exports/ExportLink';
+import { unitLabelsUrl } from '../scan/labelsLink';
 import { Card } from '../ui/Card';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
@@ -14,6 +16,8 @@ import { links } from '../links';
 import { BackLink, CoverageBar, StatusTiles } from './parts';
 import { LevelReadinessCard, UnitsNotReady } from './Readiness';
 import { TrendChart } from './TrendChart';
+import { CrewListLinks } from '../reports/CrewListLinks';
+import { ReportActions } from '../reports/ReportActions';
 
 /** One level: its numbers from the board, whether its ceilings can close (and what blocks them), its trend, and the way to walk it or see its plan. */
 export function LevelDetailScreen({ jobId, levelId }: { jobId: string; levelId: string }) {
@@ -59,13 +63,27 @@ export function LevelDetailScreen({ jobId, levelId }: { jobId: string; levelId: 
                 <Button label="Walk this level" testID="level-walk" style={styles.grow} />
               </Link>
             ) : null}
+            {role && role !== 'subcontractor' ? (
+              <ExportLink href={unitLabelsUrl(jobId, { levelId })} label="Print unit labels" testID="level-labels" />
+            ) : null}
             <Link href={links.plan(jobId, levelId)} asChild>
               <Button label="Plan" tone="secondary" testID="level-plan" style={styles.grow} />
             </Link>
             <Link href={links.findings(jobId, { levelId })} asChild>
               <Button label="Findings on this level" tone="secondary" testID="level-findings" style={styles.grow} />
             </Link>
+            <Link href={links.tests(jobId)} asChild>
+              <Button label="Test records" tone="secondary" testID="level-tests" style={styles.grow} />
+            </Link>
           </View>
+          <ReportActions
+            jobId={jobId}
+            place={{ levelId }}
+            what="of this level"
+            crewList={role === 'subcontractor' ? { levelId } : null}
+            testID="level-reports"
+          />
+          {role && role !== 'subcontractor' ? <CrewListLinks jobId={jobId} levelId={levelId} testID="level-crew-lists" /> : null}
           <Card testID="level-counts">
             <StatusTiles jobId={jobId} levelId={levelId} row={row} place={row.name} cellTestID={(k) => `level-cell-${k}`} ofOpenTestID="level-of-open" />
             <AppText variant="label">Units checked</AppText>

@@ -1,10 +1,10 @@
-import { Link } from 'expo-router';
+import { Link, type Href } from 'expo-router';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import type { LevelReadiness, ReadinessBlocker, SystemReadiness, UnitReadiness } from '../../shared/schemas/board';
 import type { LevelTestReadiness, SystemTestReadiness, TestBlocker } from '../../shared/schemas/testRecords';
 import { FINDING_STATUS_LABELS } from '../../shared/words';
-import { colors, radius, space } from '../theme';
+import { colors, linkTarget, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
 import { Card } from '../ui/Card';
@@ -31,40 +31,82 @@ const TEST_STATE_WORDS: Record<TestBlocker['state'], string> = {
 
 const TAGS_IN_LINE = 6;
 
+/** One line of what a level or system waits for, with the test blockers it stands for. */
+export interface TestBlockerLine {
+  text: string;
+  blockers: TestBlocker[];
+}
+
 /**
  * The test records waited for, one line each: per system ("Pressure test of VRF-1: passed,
  * waiting for a witness"), and the units' records grouped by kind and state so that forty
  * missing drain tests are one line ("Drain test not on record: 40 units, IU-3-01, … and 34 more").
  */
-export function testBlockerLines(blockers: readonly TestBlocker[]): string[] {
-  const groups = new Map<string, { first: TestBlocker; tags: string[] }>();
+export function testBlockerGroups(blockers: readonly TestBlocker[]): TestBlockerLine[] {
+  const groups = new Map<string, { first: TestBlocker; tags: string[]; all: TestBlocker[] }>();
   for (const b of blockers) {
     const key = b.unitTag ? `${b.kind}|${b.state}|units` : `${b.kind}|${b.state}|${b.systemId ?? ''}|${b.levelId ?? ''}`;
-    const g = groups.get(key) ?? { first: b, tags: [] };
+    const g = groups.get(key) ?? { first: b, tags: [], all: [] };
     if (b.unitTag) g.tags.push(b.unitTag);
+    g.all.push(b);
     groups.set(key, g);
   }
-  return [...groups.values()].map(({ first: b, tags }) => {
+  return [...groups.values()].map(({ first: b, tags, all }) => {
     const what = TEST_WORDS[b.kind] ?? b.kind;
     const state = TEST_STATE_WORDS[b.state] ?? b.state;
-    if (tags.length === 0) return `${what}${b.systemName ? ` of ${b.systemName}` : ''}: ${state}`;
-    if (tags.length === 1) return `${what} of unit ${tags[0]}: ${state}`;
+    if (tags.length === 0) return { text: `${what}${b.systemName ? ` of ${b.systemName}` : ''}: ${state}`, blockers: all };
+    if (tags.length === 1) return { text: `${what} of unit ${tags[0]}: ${state}`, blockers: all };
     const shown = tags.slice(0, TAGS_IN_LINE).join(', ');
     const more = tags.length > TAGS_IN_LINE ? ` and ${tags.length - TAGS_IN_LINE} more` : '';
-    return `${what}, ${state}: ${tags.length} units, ${shown}${more}`;
+    return { text: `${what}, ${state}: ${tags.length} units, ${shown}${more}`, blockers: all };
   });
 }
 
-/** The test records a level or a system waits for, under the rule they hold back. */
-export function TestBlockers({ rule, blockers, testID }: { rule: string; blockers: readonly TestBlocker[] | undefined; testID: string }) {
+export function testBlockerLines(blockers: readonly TestBlocker[]): string[] {
+  return testBlockerGroups(blockers).map((g) => g.text);
+}
+
+/**
+ * Where a line leads: a missing record to its form (one system or unit; several units of a level:
+ * the form offers that level's units), a failed or unwitnessed one to the record itself (several:
+ * the list of them).
+ */
+export function testBlockerHref(jobId: string, line: TestBlockerLine, levelId?: string): Href {
+  const [b, ...rest] = line.blockers;
+  if (!b) return links.tests(jobId);
+  if (rest.length === 0) {
+    if (b.state !== 'missing' && b.recordId) return links.testRecord(jobId, b.recordId);
+    return links.newTestRecord(jobId, b.unitId ? { kind: b.kind, unitId: b.unitId } : { kind: b.kind, systemId: b.systemId ?? undefined });
+  }
+  if (b.state === 'missing') return links.newTestRecord(jobId, { kind: b.kind, levelId: b.levelId ?? levelId });
+  return links.tests(jobId, { kind: b.kind, current: 'true', ...(b.state === 'failed' ? { result: 'failed' } : { witnessed: 'false' }) });
+}
+
+/** The test records a level or a system waits for, under the rule they hold back; each line links to what settles it. */
+export function TestBlockers({
+  jobId,
+  rule,
+  blockers,
+  levelId,
+  testID,
+}: {
+  jobId: string;
+  rule: string;
+  blockers: readonly TestBlocker[] | undefined;
+  /** The level the card is about: several units' missing records open the form on its units. */
+  levelId?: string;
+  testID: string;
+}) {
   if (!blockers || blockers.length === 0) return null;
   return (
     <View style={styles.units} testID={testID}>
       <AppText variant="label">{rule}</AppText>
-      {testBlockerLines(blockers).map((line, i) => (
-        <AppText key={line} variant="small" testID={`${testID}-${i}`}>
-          {`• ${line}`}
-        </AppText>
+      {testBlockerGroups(blockers).map((line, i) => (
+        <Link key={line.text} href={testBlockerHref(jobId, line, levelId)} asChild>
+          <Pressable style={styles.testLine} accessibilityRole="link" testID={`${testID}-${i}`}>
+            <AppText variant="small" style={styles.link}>{`• ${line.text}`}</AppText>
+          </Pressable>
+        </Link>
       ))}
     </View>
   );
@@ -75,7 +117,7 @@ export function BlockerRow({ jobId, blocker, testID }: { jobId: string; blocker:
   const b = blocker;
   return (
     <Link href={links.finding(jobId, b.findingId)} asChild>
-      <Pressable style={styles.blocker} testID={testID ?? `blocker-${b.number}`} accessibilityRole="link" accessibilityLabel={`Finding #${b.number}: ${b.title}`}>
+      <Pressable style={styles.blocker} testID={testID ?? `blocker-${b.number}`} accessibilityRole="link">
         <SeverityMark severity={b.severity} />
         <View style={styles.blockerText}>
           <AppText variant="label" style={styles.link}>
@@ -164,7 +206,13 @@ export function SystemReadinessCard({ jobId, system }: { jobId: string; system: 
           : `${s.unitsReady} of ${s.unitsTotal} ${s.unitsTotal === 1 ? 'unit' : 'units'} ready · ${s.unitsUnchecked} not checked · ${blockers} blocking finding${blockers === 1 ? '' : 's'}`}
       </AppText>
       <UnitsNotReady jobId={jobId} units={s.units} testID={`system-blocks-${s.systemId}`} />
+      <Link href={links.tests(jobId, { systemId: s.systemId })} style={linkTarget} testID={`system-tests-link-${s.systemId}`}>
+        <AppText variant="small" style={styles.link}>
+          Test records of {s.name} →
+        </AppText>
+      </Link>
       <TestBlockers
+        jobId={jobId}
         rule="Rule: before startup, a passed pressure test, a passed evacuation and the charge on record"
         blockers={s.startupBlockers}
         testID={`system-tests-${s.systemId}`}
@@ -176,6 +224,7 @@ export function SystemReadinessCard({ jobId, system }: { jobId: string; system: 
           </AppText>
         ) : (
           <TestBlockers
+            jobId={jobId}
             rule="Rule: to accept the system, a passed start-up record and every unit's drain test"
             blockers={s.acceptanceBlockers}
             testID={`system-acceptance-${s.systemId}`}
@@ -299,6 +348,8 @@ export function LevelReadinessCard({
         </View>
       ) : null}
       <TestBlockers
+        jobId={jobId}
+        levelId={l.levelId}
         rule="Rule: a passed, witnessed pressure test for every system on the level, and a passed drain test for every concealed unit"
         blockers={l.testBlockers}
         testID={`level-tests-${l.levelId}`}
@@ -326,6 +377,8 @@ const styles = StyleSheet.create({
   top: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', flexWrap: 'wrap', gap: space.sm },
   link: { color: colors.spruce, textDecorationLine: 'underline' },
   units: { gap: space.sm, marginTop: space.xs },
+  // A whole touch target per line, the words in its middle.
+  testLine: { minHeight: 44, justifyContent: 'center', alignSelf: 'flex-start' },
   unchecked: { gap: 2, alignItems: 'flex-start' },
   blocker: {
     flexDirection: 'row',

@@ -4,6 +4,7 @@ import { useReadinessQuery } from '../queries/board';
 import { useJobQuery } from '../queries/jobs';
 import { space } from '../theme';
 import { AppText } from '../ui/AppText';
+import { ReportActions } from '../reports/ReportActions';
 import { Notice } from '../ui/Notice';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
@@ -44,6 +45,7 @@ export function ReadinessScreen({ jobId, systemId }: { jobId: string; systemId?:
         </AppText>
       </View>
       {systemId ? null : <BoardTabs jobId={jobId} role={job.data?.role} current="readiness" />}
+      {systemId ? <ReportActions jobId={jobId} place={{ systemId }} what="of this system" testID="system-reports" /> : null}
       {data?.companyScope ? (
         <Notice tone="info" testID="readiness-company-scope">
           You see your company’s findings only: “ready” here means none of your company’s findings holds it back. Unit checks count for

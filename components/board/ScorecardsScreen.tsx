@@ -5,6 +5,7 @@ import type { CompanyScorecard } from '../../shared/schemas/board';
 import { TRADES } from '../../shared/words';
 import { ApiError } from '../api/client';
 import { ExportLink } from '../exports/ExportLink';
+import { CompanyReports } from '../reports/CompanyReports';
 import { exportUrls } from '../api/exports';
 import { useScorecardsQuery } from '../queries/board';
 import { useJobQuery } from '../queries/jobs';
@@ -130,6 +131,7 @@ export function ScorecardsScreen({ jobId, sort, onSortChange }: { jobId: string;
       {allowed && cards.data && cards.data.companies.length > 0 ? (
         <ExportLink href={exportUrls.scorecardsCsv(jobId)} label="Export scorecards as CSV" testID="scorecards-export" />
       ) : null}
+      {allowed && cards.data ? <CompanyReports jobId={jobId} companies={cards.data.companies} /> : null}
     </Screen>
   );
 }

@@ -47,7 +47,7 @@ export const COUNT_LABELS: Record<BoardCountKey, string> = {
  */
 export function overdueShare(c: Pick<BoardCounts, 'overdue' | 'open'>, place: string): { text: string; label: string } {
   const noun = c.open === 1 ? 'open finding' : 'open findings';
-  return { text: `${c.overdue} of ${c.open} overdue`, label: `${c.overdue} of ${c.open} ${noun} overdue on ${place}. Show the overdue findings.` };
+  return { text: `${c.overdue} of ${c.open} overdue`, label: `${c.overdue} of ${c.open} overdue — ${noun} on ${place}. Show the overdue findings.` };
 }
 
 /** "12 of 20 units checked" and the share (0..1; 0 for a level without units). */

@@ -66,7 +66,8 @@ export function CountLink({
     <Link href={links.findings(jobId, boardCellFilters(countKey, levelId))} asChild>
       <Pressable
         accessibilityRole="link"
-        accessibilityLabel={`${COUNT_LABELS[countKey]} on ${place}: ${value}. Show these findings.`}
+        // The name starts with what the link shows (speech and switch users say what they see).
+        accessibilityLabel={`${value}${word ? ` ${word}` : ''} — ${COUNT_LABELS[countKey]} on ${place}. Show these findings.`}
         testID={testID}
         style={StyleSheet.flatten([styles.count, big ? styles.countBig : null, alarm ? styles.alarm : null])}
       >

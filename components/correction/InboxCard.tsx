@@ -21,7 +21,6 @@ export function InboxCard({ item, showJob, showPlace = true }: { item: InboxItem
         style={StyleSheet.flatten([styles.card, f.overdue ? styles.overdueCard : null])}
         testID={`inbox-card-${f.number}`}
         accessibilityRole="link"
-        accessibilityLabel={`Finding ${f.label}: ${f.title}${f.overdue ? ', overdue' : ''}`}
       >
         <View style={styles.top}>
           <AppText variant="label" numberOfLines={2} style={styles.place}>

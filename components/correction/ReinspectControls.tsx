@@ -131,7 +131,7 @@ export function ReinspectControls({
       <View style={styles.row}>
         <Button
           label="✓ Accept fix"
-          accessibilityLabel={`Accept the fix of ${finding.label}`}
+          accessibilityLabel={`Accept fix — ${finding.label}`}
           testID={`${testID}-accept`}
           busy={pending === 'accept'}
           disabled={pending !== null}
@@ -140,7 +140,7 @@ export function ReinspectControls({
         />
         <Button
           label="↩ Return"
-          accessibilityLabel={`Return the fix of ${finding.label}`}
+          accessibilityLabel={`Return fix — ${finding.label}`}
           tone="danger"
           testID={`${testID}-return`}
           busy={pending === 'return'}

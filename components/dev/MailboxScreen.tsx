@@ -18,7 +18,7 @@ import { links } from '../links';
 export function MailboxScreen() {
   const mail = useCaughtMailQuery();
   return (
-    <Screen testID="mailbox-screen">
+    <Screen testID="mailbox-screen" main>
       <View style={styles.head}>
         <Link href={links.home()} accessibilityLabel="Trimout">
           <Wordmark compact />

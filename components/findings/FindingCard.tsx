@@ -34,7 +34,7 @@ export function FindingCard({ jobId, finding }: { jobId: string; finding: Findin
   const f = finding;
   return (
     <Link href={links.finding(jobId, f.id)} asChild>
-      <Pressable style={styles.card} testID={`finding-card-${f.number}`} accessibilityRole="link" accessibilityLabel={`Finding ${f.label}: ${f.title}`}>
+      <Pressable style={styles.card} testID={`finding-card-${f.number}`} accessibilityRole="link">
         <View style={styles.main}>
           <View style={styles.top}>
             <AppText variant="label" muted>

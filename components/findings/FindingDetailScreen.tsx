@@ -1,10 +1,10 @@
 import { Link } from 'expo-router';
-import type { ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
 import type { UnitSystem } from '../../shared/catalogue/types';
 import { dueAgainWords } from '../../shared/rules/dueAgain';
-import { defectCodeWords } from '../../shared/rules/somethingElse';
+import { defectCodeWords, OTHER_DEFECT_CODE } from '../../shared/rules/somethingElse';
 import type { FindingDetail } from '../../shared/schemas/findings';
 import type { Role } from '../../shared/words';
 import { ApiError } from '../api/client';
@@ -28,9 +28,11 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { ItemCaution } from '../walk/ItemCaution';
 import { SeverityMark } from '../walk/SeverityMark';
 import { formatDay, formatWhen } from './due';
+import { AlsoOnUnits } from './AlsoOnUnits';
 import { StatusBadge } from './FindingCard';
 import { FixWaiting } from './FixWaiting';
 import { PhotoStrip } from './PhotoStrip';
+import { MarkupEditor, type MarkupPhoto } from '../photos/MarkupEditor';
 import { PlanPinLink } from '../plans/PlanPinLink';
 import { links } from '../links';
 
@@ -109,8 +111,29 @@ function FindingBody({
   const lastReturn = [...f.events].reverse().find((e) => e.kind === 'returned');
   const dueAgain = lastReturn && f.status === 'open' ? dueAgainWords(lastReturn.to, f.severity, formatDay) : null;
   const sub = role === 'subcontractor';
+  // Marks are drawn by those who add photos (the server holds the rule); a saved change gives the
+  // photo a new address so the page shows the flattened copy at once.
+  const [marking, setMarking] = useState<MarkupPhoto | null>(null);
+  const [markedAt, setMarkedAt] = useState<Record<string, number>>({});
+  const shown = (url: string, id: string) => (markedAt[id] ? `${url}?m=${markedAt[id]}` : url);
+  const markUp = mayAddPhotos(f.status, role)
+    ? (id: string) => {
+        const i = logPhotos.findIndex((p) => p.id === id);
+        const p = logPhotos[i];
+        if (p) setMarking({ id: p.id, originalUri: `${p.url}?original=1`, width: p.width ?? 4, height: p.height ?? 3, label: `photo ${i + 1} of ${f.label}` });
+      }
+    : undefined;
   return (
     <>
+      {marking ? (
+        <MarkupEditor
+          photo={marking}
+          onClose={(saved) => {
+            if (saved) setMarkedAt((m) => ({ ...m, [marking.id]: Date.now() }));
+            setMarking(null);
+          }}
+        />
+      ) : null}
       <View style={styles.head}>
         <AppText variant="label" muted testID="finding-label">
           {f.label} · {defectCodeWords(f.code)}
@@ -202,7 +225,8 @@ function FindingBody({
         ) : logPhotos.length ? (
           <PhotoStrip
             testID="finding-photos"
-            photos={logPhotos.map((p, i) => ({ key: p.id, thumbUri: p.thumbUrl, fullUri: p.url, label: `Photo ${i + 1} of ${f.label}` }))}
+            photos={logPhotos.map((p, i) => ({ key: p.id, thumbUri: shown(p.thumbUrl, p.id), fullUri: shown(p.url, p.id), label: `Photo ${i + 1} of ${f.label}` }))}
+            onMarkUp={markUp}
           />
         ) : (
           <AppText muted>No photos with this finding.</AppText>
@@ -212,6 +236,9 @@ function FindingBody({
       <FixAndReinspection photos={f.photos} events={f.events} label={f.label} timeZone={timeZone} testID="finding-fix-and-reinspection" />
 
       {mayAddPhotos(f.status, role) ? <AddPhotosForm jobId={jobId} finding={f} onStale={reload} testID="finding-add-photos" /> : null}
+
+      {/* The same defect on the next units of the corridor, without filling the form again. */}
+      {!sub && f.status === 'open' && f.unitId && f.code !== OTHER_DEFECT_CODE ? <AlsoOnUnits jobId={jobId} finding={f} testID="finding-also" /> : null}
 
       {/* Inspector and GC: the verdict and the changes right under the photos they compare. */}
       {!sub ? <FindingActions jobId={jobId} finding={f} role={role} isLogger={isLogger} system={system} timeZone={timeZone} onStale={reload} /> : null}

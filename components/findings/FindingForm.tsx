@@ -6,7 +6,7 @@ import { StyleSheet, View } from 'react-native';
 import type { LimitResolver } from '../../shared/calc/rules';
 import { CATALOGUE_GROUPS } from '../../shared/catalogue/types';
 import { createFindingSchema, DEFECT_TITLE_LIMIT, NOTE_LIMIT, type CreateFindingInput, type CreateFindingParsed } from '../../shared/schemas/findings';
-import type { CatalogueItemDto, JobDetail } from '../../shared/schemas/setup';
+import type { CatalogueItemDto, JobCompanyDto, JobDetail } from '../../shared/schemas/setup';
 import { SEVERITY_LABELS, SOMETHING_ELSE, TRADES, type Severity, type TradeKey, type UnitKindKey } from '../../shared/words';
 import { ApiError } from '../api/client';
 import type { Write } from '../api/mutations';
@@ -26,6 +26,7 @@ import { ErrorState, LoadingState } from '../ui/States';
 import { ItemCaution } from '../walk/ItemCaution';
 import { dueOnProblem } from '../../shared/rules/pastDue';
 import { BackdateChoice, backdatedFlag } from './BackdateChoice';
+import { noCompanyForTrade } from '../../shared/rules/suggestedCompany';
 import { addDays, formatDay, suggestCompany, todayIn } from './due';
 import type { PickedPhoto } from './PhotoPicker.types';
 
@@ -42,6 +43,11 @@ export interface FindingTarget {
 }
 
 export interface FindingFormProps {
+  /**
+   * The defect types (of the unit's kind) and the job's companies when the screen already asked for
+   * them beside its own reads (one round trip less on a phone); otherwise the form asks.
+   */
+  lists?: { items: CatalogueItemDto[]; companies: JobCompanyDto[] };
   job: JobDetail;
   target: FindingTarget;
   /** The defect type, when the form opens from a unit check's item. */
@@ -71,12 +77,13 @@ const TRADE_LABEL: Record<string, string> = Object.fromEntries(TRADES.map((t) =>
  * logged with three taps plus the photo.
  */
 export function FindingForm(props: FindingFormProps) {
-  const { job, item, unitKind, testID = 'finding-form' } = props;
-  const catalogue = useCatalogueQuery(job.id, { unitKind });
-  const companies = useJobCompaniesQuery(job.id);
+  const { job, item, unitKind, lists, testID = 'finding-form' } = props;
+  const catalogue = useCatalogueQuery(job.id, { unitKind }, { enabled: !lists });
+  const companies = useJobCompaniesQuery(job.id, { enabled: !lists });
+  if (lists) return <FindingFormBody {...props} items={item ? [item] : lists.items} companies={lists.companies} />;
   if (companies.isPending || (!item && catalogue.isPending)) return <LoadingState label="Loading the form…" testID={`${testID}-loading`} />;
-  if (companies.isError) return <ErrorState message={companies.error.message} onRetry={() => companies.refetch()} testID={`${testID}-error`} />;
-  if (!item && catalogue.isError) return <ErrorState message={catalogue.error.message} onRetry={() => catalogue.refetch()} testID={`${testID}-error`} />;
+  if (companies.isLoadingError) return <ErrorState message={companies.error.message} onRetry={() => companies.refetch()} testID={`${testID}-error`} />;
+  if (!item && catalogue.isLoadingError) return <ErrorState message={catalogue.error.message} onRetry={() => catalogue.refetch()} testID={`${testID}-error`} />;
   return <FindingFormBody {...props} items={item ? [item] : (catalogue.data ?? [])} companies={companies.data} />;
 }
 
@@ -207,6 +214,13 @@ function FindingFormBody({
       const problem = values.dueOn ? dueOnProblem({ dueOn: values.dueOn, backdated: backdate, role: job.role, today }) : null;
       if (problem) {
         setError('dueOn', { type: 'validate', message: problem.message });
+        setError('root', { message: 'Check the fields marked below.' });
+        return;
+      }
+      // No company chosen and none of the job's covers the trade: the server would refuse it, and
+      // without signal that refusal would only come later, on the sync screen.
+      if (!values.companyId && trade && companies.length > 0 && !suggested) {
+        setError('companyId', { type: 'validate', message: noCompanyForTrade(trade) });
         setError('root', { message: 'Check the fields marked below.' });
         return;
       }

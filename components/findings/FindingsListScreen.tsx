@@ -3,10 +3,11 @@ import { useState } from 'react';
 import { StyleSheet, useWindowDimensions, View } from 'react-native';
 import type { FindingSort } from '../../shared/schemas/findings';
 import { ApiError } from '../api/client';
-import { BulkBar } from '../correction/BulkBar';
+import { ManyAtOnce } from '../correction/BulkBar';
 import { ExportLink } from '../exports/ExportLink';
+import { PickRow } from './PickRow';
+import { ReportActions } from '../reports/ReportActions';
 import { exportUrls } from '../api/exports';
-import { mayBulkChange } from '../correction/rules';
 import { useCatalogueQuery } from '../queries/catalogue';
 import { useJobCompaniesQuery } from '../queries/companies';
 import { useFindingsQuery, type FindingFilters } from '../queries/findings';
@@ -53,7 +54,9 @@ export function FindingsListScreen({
   const rows = findings.data?.pages.flatMap((p) => p.items) ?? [];
   const filtered = Object.entries(filters).some(([k, v]) => k !== 'sort' && v !== undefined);
   const sort: FindingSort = filters.sort ?? DEFAULT_FINDING_SORT;
-  const bulkAllowed = wide && mayBulkChange(job.data?.role);
+  // Every role acts on several at once: changes and accepted fixes, or one fix for many (subcontractor).
+  const role = job.data?.role;
+  const bulkAllowed = role !== undefined;
   const [selected, setSelected] = useState<string[]>([]);
   // Only rows on screen stay selected (a filter change drops the others).
   const shownSelected = selected.filter((id) => rows.some((r) => r.id === id));
@@ -96,6 +99,15 @@ export function FindingsListScreen({
         />
       ) : null}
       {first && first.total > 0 ? (
+        <ReportActions
+          jobId={jobId}
+          place={{ levelId: filters.levelId, companyId: filters.companyId }}
+          what={filters.levelId || filters.companyId ? 'of this level or company' : 'of the job'}
+          crewList={filters.levelId && (filters.companyId || job.data?.role === 'subcontractor') ? { levelId: filters.levelId, companyId: filters.companyId } : null}
+          testID="findings-reports"
+        />
+      ) : null}
+      {first && first.total > 0 ? (
         <AppText variant="small" muted testID="findings-export-plain">
           The CSV is plain data, without the cautions: the manufacturer&apos;s installation manual, local codes and licensed practice govern.
         </AppText>
@@ -127,13 +139,13 @@ export function FindingsListScreen({
         />
       ) : (
         <View style={styles.list} testID="findings-list">
-          {bulkAllowed ? (
-            <BulkBar
+          {role ? (
+            <ManyAtOnce
               jobId={jobId}
+              role={role}
               selected={shownSelected}
               rows={rows}
               companies={companies.data ?? []}
-              role={job.data?.role}
               timeZone={job.data?.timeZone}
               onClear={() => setSelected([])}
             />
@@ -141,7 +153,15 @@ export function FindingsListScreen({
           {wide ? (
             <FindingsTable jobId={jobId} rows={rows} sort={sort} onSort={(s) => onFiltersChange({ ...filters, sort: s })} selection={selection} />
           ) : (
-            rows.map((f) => <FindingCard key={f.id} jobId={jobId} finding={f} />)
+            rows.map((f) =>
+              selection ? (
+                <PickRow key={f.id} label={f.label} checked={selection.selected.has(f.id)} onToggle={() => selection.onToggle(f.id)} testID={`finding-pick-${f.label}`}>
+                  <FindingCard jobId={jobId} finding={f} />
+                </PickRow>
+              ) : (
+                <FindingCard key={f.id} jobId={jobId} finding={f} />
+              ),
+            )
           )}
           <AppText variant="small" muted testID="findings-shown">
             Showing {rows.length} of {first?.total ?? rows.length}

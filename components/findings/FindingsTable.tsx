@@ -1,4 +1,4 @@
-import { Link } from 'expo-router';
+import { Link, useRouter } from 'expo-router';
 import type { ReactNode } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { defectCodeWords } from '../../shared/rules/somethingElse';
@@ -87,6 +87,7 @@ export function FindingsTable({
   onSort: (s: FindingSort) => void;
   selection?: TableSelection;
 }) {
+  const router = useRouter();
   const allOn = selection !== undefined && rows.length > 0 && rows.every((r) => selection.selected.has(r.id));
   const current = sort.replace(/^-/, '') as SortKey;
   const desc = sort.startsWith('-');
@@ -126,32 +127,40 @@ export function FindingsTable({
         })}
       </View>
       {rows.map((f, i) => {
-        const link = (
-          <Link key={f.id} href={links.finding(jobId, f.id)} asChild>
-            {/* One style object: a style array does not survive Link's asChild on the web. */}
-            <Pressable
-              style={StyleSheet.flatten([styles.row, selection ? styles.inner : null, i % 2 === 1 ? styles.zebra : null])}
-              role={selection ? undefined : 'row'}
-              testID={`finding-row-${f.number}`}
-            >
-              {COLUMNS.map((c) => (
-                <View key={c.key} style={[styles.cell, { flex: c.flex }]} role="cell">
-                  {c.render(f)}
-                </View>
-              ))}
-            </Pressable>
-          </Link>
-        );
-        if (!selection) return link;
-        const on = selection.selected.has(f.id);
-        // The checkbox sits beside the row's link (not inside it), so ticking never opens the finding.
+        const on = selection?.selected.has(f.id) ?? false;
+        const href = links.finding(jobId, f.id);
+        // A real table row (row > cells): the finding's number is its link (keyboard and screen
+        // readers); a click anywhere else on the row opens it too. The checkbox is a cell of its own,
+        // so ticking never opens the finding.
         return (
-          <View key={f.id} style={[styles.row, i % 2 === 1 ? styles.zebra : null, on ? styles.picked : null]} role="row">
-            <View style={styles.checkCell} role="cell">
-              <Check on={on} label={`Select ${f.label}`} onPress={() => selection.onToggle(f.id)} testID={`finding-select-${f.number}`} />
-            </View>
-            {link}
-          </View>
+          <Pressable
+            key={f.id}
+            role="row"
+            focusable={false}
+            onPress={() => router.push(href)}
+            style={StyleSheet.flatten([styles.row, i % 2 === 1 ? styles.zebra : null, on ? styles.picked : null])}
+            testID={`finding-row-${f.number}`}
+          >
+            {selection ? (
+              <View style={styles.checkCell} role="cell">
+                <Check on={on} label={`Select ${f.label}`} onPress={() => selection.onToggle(f.id)} testID={`finding-select-${f.number}`} />
+              </View>
+            ) : null}
+            {COLUMNS.map((c) => (
+              <View key={c.key} style={[styles.cell, { flex: c.flex }]} role="cell">
+                {c.key === 'number' ? (
+                  // The row's own press would open it a second time: the link's press stops here.
+                  <Link href={href} onPress={(e) => e.stopPropagation()} testID={`finding-open-${f.number}`} style={styles.numberLink}>
+                    <AppText variant="label" style={styles.numberText}>
+                      {f.label}
+                    </AppText>
+                  </Link>
+                ) : (
+                  c.render(f)
+                )}
+              </View>
+            ))}
+          </Pressable>
         );
       })}
     </View>
@@ -166,7 +175,8 @@ const styles = StyleSheet.create({
   cell: { paddingHorizontal: space.sm, paddingVertical: space.sm, minWidth: 0 },
   sortButton: { minHeight: touchTarget, justifyContent: 'center' },
   overdue: { color: colors.danger, fontWeight: '700' },
-  inner: { flex: 1, borderBottomWidth: 0 },
+  numberLink: { minHeight: touchTarget, display: 'flex', alignItems: 'center' },
+  numberText: { color: colors.spruce, textDecorationLine: 'underline' },
   picked: { backgroundColor: colors.spruceSoft },
   checkCell: { width: 52, alignItems: 'center', justifyContent: 'center' },
   check: { minWidth: touchTarget, minHeight: touchTarget, alignItems: 'center', justifyContent: 'center' },

@@ -4,6 +4,7 @@ import { StyleSheet, View } from 'react-native';
 import { ApiError } from '../api/client';
 import { isQueued } from '../outbox';
 import { useCatalogueQuery } from '../queries/catalogue';
+import { useJobCompaniesQuery } from '../queries/companies';
 import { useUnitModelQuery, useUnitRecordQuery } from '../queries/checks';
 import { useJobQuery } from '../queries/jobs';
 import { useLevelsQuery } from '../queries/levels';
@@ -29,7 +30,11 @@ export function NewFindingScreen({ jobId, params }: { jobId: string; params: New
   const model = useUnitModelQuery(jobId, unit.data?.modelId);
   const levels = useLevelsQuery(jobId);
   const spaces = useSpacesQuery(jobId);
-  const catalogue = useCatalogueQuery(jobId, {});
+  // The form's lists start beside the screen's own reads (the unit's kind picks the defect types);
+  // the whole catalogue only when the address names a defect type to open on.
+  const formCatalogue = useCatalogueQuery(jobId, { unitKind: unit.data?.kind }, { enabled: !params.unitId || Boolean(unit.data) });
+  const companies = useJobCompaniesQuery(jobId);
+  const catalogue = useCatalogueQuery(jobId, {}, { enabled: Boolean(params.catalogueItemId) });
   const resolve = useMemo(() => limitResolverFor(model.data ?? null, job.data ?? null, unit.data ?? null), [model.data, job.data, unit.data]);
 
   const space_ = params.spaceId ? spaces.data?.find((s) => s.id === params.spaceId) : undefined;
@@ -46,8 +51,10 @@ export function NewFindingScreen({ jobId, params }: { jobId: string; params: New
         ? { levelId: level.id, label: `Level ${level.name}` }
         : null;
   const item = params.catalogueItemId ? catalogue.data?.find((i) => i.id === params.catalogueItemId) : undefined;
-  const failed = [job, levels, spaces, catalogue, ...(params.unitId ? [unit] : [])].find((q) => q.isError);
-  const pending = [job, levels, spaces, catalogue, ...(params.unitId ? [unit] : []), ...(unit.data?.modelId ? [model] : [])].some((q) => q.isPending);
+  const wanted = [job, levels, spaces, formCatalogue, companies, ...(params.catalogueItemId ? [catalogue] : []), ...(params.unitId ? [unit] : [])];
+  // Only a first load that failed: a refetch failing with no signal keeps what was shown.
+  const failed = wanted.find((q) => q.isLoadingError);
+  const pending = [...wanted, ...(unit.data?.modelId ? [model] : [])].some((q) => q.isPending);
   const back = level ? links.levelWalk(jobId, level.id) : links.findings(jobId);
 
   return (
@@ -84,6 +91,7 @@ export function NewFindingScreen({ jobId, params }: { jobId: string; params: New
           target={target}
           item={item}
           unitKind={unit.data?.kind}
+          lists={{ items: formCatalogue.data ?? [], companies: companies.data ?? [] }}
           measuredText={params.measuredText}
           walkId={params.walkId ?? null}
           resolve={resolve}

@@ -15,7 +15,18 @@ export interface StripPhoto {
 }
 
 /** Thumbnails in a wrapping row; tap one to see it large; an optional remove button under each. */
-export function PhotoStrip({ photos, onRemove, testID = 'photos' }: { photos: readonly StripPhoto[]; onRemove?: (key: string) => void; testID?: string }) {
+export function PhotoStrip({
+  photos,
+  onRemove,
+  onMarkUp,
+  testID = 'photos',
+}: {
+  photos: readonly StripPhoto[];
+  onRemove?: (key: string) => void;
+  /** Offers "Mark up" on the enlarged photo (components/photos/MarkupEditor.tsx). */
+  onMarkUp?: (key: string) => void;
+  testID?: string;
+}) {
   const [open, setOpen] = useState<StripPhoto | null>(null);
   if (photos.length === 0) return null;
   return (
@@ -49,6 +60,17 @@ export function PhotoStrip({ photos, onRemove, testID = 'photos' }: { photos: re
       <Modal visible={open !== null} transparent animationType="none" onRequestClose={() => setOpen(null)}>
         <View style={styles.backdrop} testID={`${testID}-enlarged`}>
           {open ? <Image source={{ uri: open.fullUri }} style={styles.full} resizeMode="contain" accessibilityLabel={open.label} /> : null}
+          {open && onMarkUp ? (
+            <Button
+              label="Mark up"
+              tone="secondary"
+              testID={`${testID}-enlarged-markup`}
+              onPress={() => {
+                setOpen(null);
+                onMarkUp(open.key);
+              }}
+            />
+          ) : null}
           <Button label="Close" tone="secondary" testID={`${testID}-enlarged-close`} onPress={() => setOpen(null)} />
         </View>
       </Modal>

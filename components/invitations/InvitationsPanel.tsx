@@ -2,11 +2,21 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
 import { Controller, useForm } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
-import { invitationFormSchema, type Invitation, type InvitationFormInput } from '../../shared/schemas/auth';
+import { invitationFormSchema, type Invitation, type InvitationBulkInput, type InvitationFormInput } from '../../shared/schemas/auth';
 import { ROLES, ROLE_LABELS } from '../../shared/words';
 import { ApiError } from '../api/client';
 import { useJobCompaniesQuery } from '../queries/companies';
-import { inviteWrite, useCreateInvitationMutation, useInvitationsQuery, useRevokeInvitationMutation } from '../queries/invitations';
+import {
+  inviteSeveralWrite,
+  inviteWrite,
+  useCreateInvitationMutation,
+  useInvitationsQuery,
+  useInviteSeveralMutation,
+  useResendInvitationMutation,
+  useRevokeInvitationMutation,
+} from '../queries/invitations';
+import { writeErrorMessage } from '../api/writeErrors';
+import { PastePeople } from './PastePeople';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Button } from '../ui/Button';
@@ -20,13 +30,15 @@ import { TextField } from '../ui/TextField';
 import { FormBanner, useFieldLabel } from '../ui/FormBanner';
 
 /**
- * For GC managers on the members screen: invite someone by e-mail with a role and company, and
- * see or withdraw the invitations still waiting. Drop it in with `<InvitationsPanel jobId={...} />`.
+ * For GC managers on the members screen: invite someone by e-mail with a role and company, or
+ * several people pasted at once, and see, send again or withdraw the invitations still waiting.
+ * Drop it in with `<InvitationsPanel jobId={...} />`.
  */
 export function InvitationsPanel({ jobId }: { jobId: string }) {
   return (
     <View style={styles.panel} testID="invitations-panel">
       <InviteForm jobId={jobId} />
+      <PasteInvitations jobId={jobId} />
       <PendingInvitations jobId={jobId} />
     </View>
   );
@@ -82,7 +94,7 @@ function InviteForm({ jobId }: { jobId: string }) {
   useFieldLabel(control, 'companyId', 'Company');
   return (
     <Card testID="invite-form">
-      <AppText variant="heading" role="heading">
+      <AppText variant="heading" role="heading" aria-level={2}>
         Invite someone
       </AppText>
       <AppText variant="small" muted>
@@ -170,13 +182,42 @@ function InviteForm({ jobId }: { jobId: string }) {
   );
 }
 
+function PasteInvitations({ jobId }: { jobId: string }) {
+  const companies = useJobCompaniesQuery(jobId);
+  const inviteSeveral = useInviteSeveralMutation(jobId);
+  // One write per press, as the invite form: the same list sent again after a lost answer reuses its key.
+  const [pending, setPending] = useState<{ key: string; write: ReturnType<typeof inviteSeveralWrite> } | null>(null);
+  const send = async (people: InvitationBulkInput['people']) => {
+    const key = JSON.stringify(people);
+    const write = pending?.key === key ? pending.write : inviteSeveralWrite(jobId, people);
+    setPending({ key, write });
+    try {
+      await inviteSeveral.mutateAsync(write);
+      setPending(null);
+    } catch (err) {
+      if (err instanceof ApiError && err.status !== 0) setPending(null); // refused: a changed list makes a new write
+      throw err;
+    }
+  };
+  return <PastePeople companies={companies.data} companiesError={companies.isError} send={send} />;
+}
+
+type Said = { tone: 'success' | 'error'; text: string };
+
 function PendingInvitations({ jobId }: { jobId: string }) {
   const invitations = useInvitationsQuery(jobId);
+  // Said above the list, not in a row: a resent invitation comes back as a new row (a new link).
+  const [said, setSaid] = useState<Said | null>(null);
   return (
     <View style={styles.pending}>
-      <AppText variant="heading" role="heading">
+      <AppText variant="heading" role="heading" aria-level={2}>
         Waiting for an answer
       </AppText>
+      {said ? (
+        <Notice tone={said.tone} testID="invitation-resend-result">
+          {said.text}
+        </Notice>
+      ) : null}
       {invitations.isPending ? (
         <LoadingState label="Loading invitations…" testID="invitations-loading" />
       ) : invitations.isError ? (
@@ -186,7 +227,7 @@ function PendingInvitations({ jobId }: { jobId: string }) {
       ) : (
         <View style={styles.list} testID="invitations-list">
           {invitations.data.map((inv) => (
-            <InvitationRow key={inv.id} jobId={jobId} invitation={inv} />
+            <InvitationRow key={inv.id} jobId={jobId} invitation={inv} onSaid={setSaid} />
           ))}
         </View>
       )}
@@ -194,8 +235,9 @@ function PendingInvitations({ jobId }: { jobId: string }) {
   );
 }
 
-function InvitationRow({ jobId, invitation }: { jobId: string; invitation: Invitation }) {
+function InvitationRow({ jobId, invitation, onSaid }: { jobId: string; invitation: Invitation; onSaid: (said: Said | null) => void }) {
   const revoke = useRevokeInvitationMutation(jobId);
+  const resend = useResendInvitationMutation(jobId);
   const expires = new Date(invitation.expiresAt);
   return (
     <View style={styles.row} testID={`invitation-row-${invitation.id}`}>
@@ -204,20 +246,47 @@ function InvitationRow({ jobId, invitation }: { jobId: string; invitation: Invit
         <AppText variant="small" muted>
           {[invitation.name ? invitation.email : null, invitation.company.name, `link valid until ${expires.toLocaleDateString()}`].filter(Boolean).join(' · ')}
         </AppText>
+        <View style={styles.badge}>
+          <RoleBadge role={invitation.role} />
+        </View>
         {revoke.isError ? (
           <AppText variant="small" style={{ color: colors.danger }} role="alert">
             {revoke.error.message}
           </AppText>
         ) : null}
       </View>
-      <RoleBadge role={invitation.role} />
-      <Button
-        testID={`invitation-withdraw-${invitation.id}`}
-        label="Withdraw"
-        tone="quiet"
-        busy={revoke.isPending}
-        onPress={() => revoke.mutate(invitation.id)}
-      />
+      <View style={styles.actions}>
+        <Button
+          testID={`invitation-resend-${invitation.id}`}
+          label="Send again"
+          aria-label={`Send the invitation to ${invitation.email} again`}
+          tone="quiet"
+          busy={resend.isPending}
+          disabled={revoke.isPending}
+          onPress={async () => {
+            onSaid(null);
+            // The promise, not mutate's callbacks: the list is read again first and this row (the old link) is gone by then.
+            try {
+              const fresh = await resend.mutateAsync(invitation.id);
+              onSaid({ tone: 'success', text: `A new link went to ${fresh.email}; the old link no longer works.` });
+            } catch (err) {
+              // 404 (gone) and 409 (accepted, withdrawn or expired meanwhile): the server's words, then the list as it is now.
+              onSaid({ tone: 'error', text: writeErrorMessage(err, { afterConflict: 'The list shows the invitations still waiting.' }) });
+            }
+          }}
+        />
+        <Button
+          testID={`invitation-withdraw-${invitation.id}`}
+          label="Withdraw"
+          tone="quiet"
+          busy={revoke.isPending}
+          disabled={resend.isPending}
+          onPress={() => {
+            onSaid(null);
+            revoke.mutate(invitation.id);
+          }}
+        />
+      </View>
     </View>
   );
 }
@@ -239,5 +308,7 @@ const styles = StyleSheet.create({
     borderRadius: radius.md,
     padding: space.md,
   },
-  grow: { flexGrow: 1, flexBasis: 220, gap: 2 },
+  grow: { flexGrow: 1, flexShrink: 1, flexBasis: 220, minWidth: 0, gap: 2 },
+  badge: { flexDirection: 'row', marginTop: space.xs },
+  actions: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
 });

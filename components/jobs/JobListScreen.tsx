@@ -88,6 +88,9 @@ const styles = StyleSheet.create({
   grid: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   card: {
     flexGrow: 1,
+    // Shrinks below its basis on a narrow screen (a phone at 200% text is 195 px wide): nothing cut off.
+    flexShrink: 1,
+    minWidth: 0,
     flexBasis: 300,
     backgroundColor: colors.surface,
     borderRadius: radius.lg,
@@ -99,5 +102,5 @@ const styles = StyleSheet.create({
     gap: space.xs,
   },
   inbox: { backgroundColor: colors.spruce, borderRadius: radius.lg, padding: space.lg, gap: space.xs },
-  cardTop: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.sm },
+  cardTop: { flexDirection: 'row', flexWrap: 'wrap', justifyContent: 'space-between', alignItems: 'center', gap: space.sm },
 });

@@ -12,7 +12,9 @@ import { RoleBadge } from '../ui/RoleBadge';
 import { Screen } from '../ui/Screen';
 import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { JobWalkLinks } from '../walk/JobWalkLinks';
+import { ReportActions } from '../reports/ReportActions';
 import { links } from '../links';
+import { SetupChecklist } from './SetupChecklist';
 
 function formatDate(iso: string | null): string {
   if (!iso) return 'not set';
@@ -48,7 +50,9 @@ export function JobOverviewScreen({ jobId }: { jobId: string }) {
             </AppText>
             {job.data.address ? <AppText muted>{job.data.address}</AppText> : null}
           </View>
+          {canEditSetup(job.data) ? <SetupChecklist jobId={jobId} /> : null}
           <BoardLink jobId={jobId} role={job.data.role} />
+          <ReportActions jobId={jobId} what="of the job" testID="job-reports" />
           <Card>
             <View style={styles.row}>
               <AppText variant="label">Your role</AppText>

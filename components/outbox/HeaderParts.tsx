@@ -5,6 +5,7 @@
 import { Link } from 'expo-router';
 import { useState, useSyncExternalStore } from 'react';
 import { StyleSheet, View } from 'react-native';
+import { serverUnreachable, subscribeReach } from '../api/reach';
 import { links } from '../links';
 import { colors, radius, space, touchTarget } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -17,17 +18,23 @@ function subscribeOnline(fn: () => void) {
   const w = globalThis as OnlineTarget;
   w.addEventListener?.('online', fn);
   w.addEventListener?.('offline', fn);
+  const stopReach = subscribeReach(fn);
   return () => {
     w.removeEventListener?.('online', fn);
     w.removeEventListener?.('offline', fn);
+    stopReach();
   };
 }
 
-/** What the browser says of the network (true where it cannot say: native builds, tests). */
+/**
+ * Online: the browser says so (true where it cannot say: native builds, tests) and the last
+ * request to Trimout got an answer (components/api/reach.ts: the browser's word alone is wrong on
+ * a Wi-Fi with no way out).
+ */
 export function useOnline(): boolean {
   return useSyncExternalStore(
     subscribeOnline,
-    () => (globalThis as { navigator?: { onLine?: boolean } }).navigator?.onLine !== false,
+    () => (globalThis as { navigator?: { onLine?: boolean } }).navigator?.onLine !== false && !serverUnreachable(),
     () => true,
   );
 }

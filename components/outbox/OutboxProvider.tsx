@@ -30,7 +30,7 @@ export function OutboxProvider({ userId, children }: { userId: string; children:
         return session.user?.id ?? null;
       },
       onSent: (item) => {
-        void refreshWalkData(queryClient, item.jobId);
+        refreshWalkData(queryClient, item.jobId);
         void queryClient.invalidateQueries({ queryKey: correctionKeys.inboxAll });
       },
       setTimer: (fn, ms) => setTimeout(fn, ms),

@@ -20,6 +20,11 @@ import type { OutboxItem } from './storage';
 
 const STATE_WORDS: Record<OutboxItem['state'], string> = { waiting: 'Waiting to send', sending: 'Sending', attention: 'Needs attention' };
 
+/** "17:05": a time of day as the rest of the screen shows it. */
+function clock(ms: number): string {
+  return new Date(ms).toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' });
+}
+
 function megabytes(bytes: number): string {
   if (bytes < 1_000_000) return `${Math.max(bytes ? 1 : 0, Math.round(bytes / 1000))} KB`;
   return `${(bytes / 1_000_000).toFixed(bytes < 10_000_000 ? 1 : 0)} MB`;
@@ -105,6 +110,14 @@ export function SyncScreen() {
   const kept = snap.items.reduce((n, i) => n + i.bytes, 0);
   const attention = snap.items.filter((i) => i.state === 'attention');
   const others = snap.items.filter((i) => i.state !== 'attention');
+  const delayed = others.some((i) => i.state === 'waiting' && i.delay);
+  const how = !online
+    ? 'No signal: it is sent when the signal is back.'
+    : snap.status === 'signed-out'
+      ? 'Sign in again to send them.'
+      : delayed
+        ? 'Trimout asked to wait before taking more: they are tried again by themselves, in the order they were saved.'
+        : 'Work is sent in the order it was saved.';
   const [sending, setSending] = useState(false);
 
   return (
@@ -116,9 +129,7 @@ export function SyncScreen() {
         <AppText muted testID="sync-summary">
           {snap.items.length === 0
             ? 'Everything saved on this phone has reached Trimout.'
-            : `${[others.length ? waitingWords(others.length) : '', attention.length ? `${attention.length} need${attention.length === 1 ? 's' : ''} attention` : ''].filter(Boolean).join(', ')}. ${
-                online ? (snap.status === 'signed-out' ? 'Sign in again to send them.' : 'Work is sent in the order it was saved.') : 'No signal: it is sent when the signal is back.'
-              }`}
+            : `${[others.length ? waitingWords(others.length) : '', attention.length ? `${attention.length} need${attention.length === 1 ? 's' : ''} attention` : ''].filter(Boolean).join(', ')}. ${how}`}
         </AppText>
         <AppText variant="small" muted testID="sync-storage">
           {`Kept for sending: ${megabytes(kept)} of photos.`}
@@ -157,6 +168,11 @@ export function SyncScreen() {
                 {item.attempts > 0 ? ` · tried ${item.attempts} time${item.attempts === 1 ? '' : 's'}` : ''}
                 {item.bytes ? ` · ${megabytes(item.bytes)}` : ''}
               </AppText>
+              {item.state === 'waiting' && item.delay ? (
+                <AppText variant="small" testID="sync-item-delay">
+                  {`Trimout asked to wait: ${item.delay.message} Tried again by itself at ${clock(item.notBefore)}.`}
+                </AppText>
+              ) : null}
             </Card>
           ))}
         </View>

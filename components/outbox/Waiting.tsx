@@ -85,7 +85,7 @@ export function LevelWaiting({ jobId, unitTags }: { jobId: string; unitTags: Rea
           {i.kind === 'finding' ? 'New finding' : 'Unit check'} · unit {unitTags.get(itemUnitId(i) ?? '') ?? ''} · {STATE_WORDS[i.state]}
         </AppText>
       ))}
-      <Link href={links.sync()} style={styles.link} accessibilityLabel="Open the list of work waiting to send" testID="level-walk-waiting-link">
+      <Link href={links.sync()} style={styles.link} accessibilityLabel={`Waiting to send (${mine.length}): open the list`} testID="level-walk-waiting-link">
         <AppText variant="label" style={styles.linkText}>
           Waiting to send ({mine.length})
         </AppText>

@@ -17,6 +17,7 @@ export const KIND_WORDS: Record<OutboxKind, string> = {
   pin: 'Pin on the plan',
   photos: 'Photos',
   walk: 'Walk',
+  test: 'Test record',
   other: 'Change',
 };
 
@@ -93,6 +94,12 @@ export function describeWrite(write: Write, label?: string): WriteMeta {
     if (typeof made === 'string') return findingMeta(made, 'finding', KIND_WORDS.finding);
     return { jobId, kind: 'finding', label: label ? `${KIND_WORDS.finding} · ${label}` : KIND_WORDS.finding, record: null, readPath: null };
   }
+  if (resource === 'findings' && id === 'batch' && write.method === 'POST') {
+    // One defect on many units: one write, several new findings; nothing to read back as one record.
+    const count = Array.isArray(bodyJson(write)?.units) ? (bodyJson(write)!.units as unknown[]).length : 0;
+    const words = count > 0 ? `Same defect on ${count} unit${count === 1 ? '' : 's'}` : KIND_WORDS.finding;
+    return { jobId, kind: 'finding', label: label ? `${words} · ${label}` : words, record: null, readPath: null };
+  }
   if (resource === 'findings' && id && id !== 'bulk') {
     const body = bodyJson(write);
     const kind: OutboxKind =
@@ -131,6 +138,18 @@ export function describeWrite(write: Write, label?: string): WriteMeta {
       label: label ? `${words} · ${label}` : words,
       record: walkId ? `walk:${walkId}` : write.path,
       readPath: walkId ? `${job}/walks/${enc(walkId)}` : null,
+    };
+  }
+  if (resource === 'test-records' && write.method === 'POST' && (!id || sub === 'witness')) {
+    // A record and its witness are writes on one record: the witness waits behind the record.
+    const recordId = id ?? (typeof bodyJson(write)?.id === 'string' ? (bodyJson(write)!.id as string) : null);
+    const words = sub === 'witness' ? 'Witness of a test record' : KIND_WORDS.test;
+    return {
+      jobId,
+      kind: 'test',
+      label: label ? `${words} · ${label}` : words,
+      record: recordId ? `test:${recordId}` : write.path,
+      readPath: recordId ? `${job}/test-records/${enc(recordId)}` : null,
     };
   }
   return { jobId, kind: 'other', label: label ?? KIND_WORDS.other, record: write.path, readPath: null };

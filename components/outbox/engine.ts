@@ -392,7 +392,12 @@ export class Outbox {
         return 'stop';
       }
       if (isPassing(e)) {
-        await this.save({ ...sending, state: 'waiting', notBefore: this.now() + backoffMs(sending.attempts, this.random) });
+        await this.save({
+          ...sending,
+          state: 'waiting',
+          notBefore: this.now() + backoffMs(sending.attempts, this.random),
+          delay: e.status ? { status: e.status, message: e.message } : undefined,
+        });
         this.status = 'offline';
         return 'stop';
       }

@@ -31,7 +31,7 @@ export interface KeptWrite {
 export type OutboxState = 'waiting' | 'sending' | 'attention';
 
 /** What kind of work a write is, for the words on the screen and the screens it refreshes. */
-export type OutboxKind = 'check' | 'finding' | 'fix' | 'reinspection' | 'change' | 'comment' | 'pin' | 'photos' | 'walk' | 'other';
+export type OutboxKind = 'check' | 'finding' | 'fix' | 'reinspection' | 'change' | 'comment' | 'pin' | 'photos' | 'walk' | 'test' | 'other';
 
 export interface OutboxItem {
   id: string;
@@ -55,6 +55,12 @@ export interface OutboxItem {
   attempts: number;
   /** Not tried again before this time (ms since 1970): backoff after network trouble. */
   notBefore: number;
+  /**
+   * The server's answer when it asked to wait (429 too many uploads, 5xx): the write is tried again
+   * by itself at `notBefore`; shown on the sync screen so a stuck queue says why. None after a
+   * plain network failure.
+   */
+  delay?: { status: number; message: string };
   /** The server's answer to a refused write. */
   refusal?: { status: number; id: string; message: string; fields?: Record<string, string> };
   /** What the server held when the write was refused (null: nothing, e.g. 404). */

@@ -2,6 +2,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { ReadinessWithTests } from '../../shared/schemas/testRecords';
 import type {
   BoardResponse,
+  FloorSystemsResponse,
   ReadinessQuery,
   RecurringResponse,
   ScorecardsResponse,
@@ -21,6 +22,7 @@ import { walkKeys } from './walks';
 export const boardKeys = {
   all: (jobId: string) => [...walkKeys.job(jobId), 'board'] as const,
   board: (jobId: string) => [...boardKeys.all(jobId), 'levels'] as const,
+  systems: (jobId: string) => [...boardKeys.all(jobId), 'systems'] as const,
   readiness: (jobId: string, query: ReadinessQuery) => [...boardKeys.all(jobId), 'readiness', query] as const,
   scorecards: (jobId: string) => [...boardKeys.all(jobId), 'scorecards'] as const,
   recurring: (jobId: string) => [...boardKeys.all(jobId), 'recurring'] as const,
@@ -33,6 +35,15 @@ export function useBoardQuery(jobId: string) {
     queryKey: boardKeys.board(jobId),
     queryFn: () => apiGet<BoardResponse>(jobPath(jobId, 'board')),
     enabled: Boolean(jobId),
+  });
+}
+
+/** GET /board/systems: each system's floors, refrigerant verdict and the records its start-up waits for. */
+export function useFloorSystemsQuery(jobId: string, enabled = true) {
+  return useQuery({
+    queryKey: boardKeys.systems(jobId),
+    queryFn: () => apiGet<FloorSystemsResponse>(jobPath(jobId, 'board', 'systems')),
+    enabled: Boolean(jobId) && enabled,
   });
 }
 

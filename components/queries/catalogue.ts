@@ -11,7 +11,7 @@ export const catalogueKeys = {
     [...catalogueKeys.all(jobId), 'list', filters] as const,
 };
 
-export function useCatalogueQuery(jobId: string, filters: { unitKind?: UnitKindKey; includeRetired?: boolean }) {
+export function useCatalogueQuery(jobId: string, filters: { unitKind?: UnitKindKey; includeRetired?: boolean }, options: { enabled?: boolean } = {}) {
   return useQuery({
     queryKey: catalogueKeys.list(jobId, filters),
     queryFn: () =>
@@ -19,7 +19,7 @@ export function useCatalogueQuery(jobId: string, filters: { unitKind?: UnitKindK
         unitKind: filters.unitKind,
         includeRetired: filters.includeRetired ? 'true' : undefined,
       }),
-    enabled: Boolean(jobId),
+    enabled: Boolean(jobId) && (options.enabled ?? true),
   });
 }
 

@@ -84,6 +84,9 @@ export async function ensureWalk(jobId: string, levelId: string, inspectorId: st
         startedAt: new Date().toISOString(),
         finishedAt: null,
         checkCount: 0,
+        unitsChecked: 0,
+        unitsInProgress: 0,
+        findingCount: 0,
       };
       client.setQueryData(walkKeys.open(jobId, levelId, inspectorId), walk);
     }

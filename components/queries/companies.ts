@@ -11,11 +11,11 @@ export const companyKeys = {
   known: () => ['companies', 'known'] as const,
 };
 
-export function useJobCompaniesQuery(jobId: string) {
+export function useJobCompaniesQuery(jobId: string, options: { enabled?: boolean } = {}) {
   return useQuery({
     queryKey: companyKeys.list(jobId),
     queryFn: () => fetchAll<JobCompanyDto>(jobPath(jobId, 'companies')),
-    enabled: Boolean(jobId),
+    enabled: Boolean(jobId) && (options.enabled ?? true),
   });
 }
 

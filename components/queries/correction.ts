@@ -61,9 +61,10 @@ export function useCommentsQuery(jobId: string, findingId: string) {
   });
 }
 
-/** After any change to a finding: its job's walk/finding screens, the queue and every inbox. */
-async function refreshAfterChange(queryClient: QueryClient, jobId: string) {
-  await Promise.all([refreshWalkData(queryClient, jobId), queryClient.invalidateQueries({ queryKey: correctionKeys.inboxAll })]);
+/** After any change to a finding: its job's walk/finding screens, the queue and every inbox, in the background (see refreshWalkData). */
+function refreshAfterChange(queryClient: QueryClient, jobId: string): void {
+  refreshWalkData(queryClient, jobId);
+  void queryClient.invalidateQueries({ queryKey: correctionKeys.inboxAll });
 }
 
 /** A multipart body: `data` (the JSON) and the photos as files. */
@@ -166,6 +167,34 @@ export function useBulkChangeMutation(jobId: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (write: Write) => sendWrite<BulkChangeResponse>(write),
+    onSettled: () => refreshAfterChange(queryClient, jobId),
+  });
+}
+
+/** What one of several writes came to: sent (the server's answer), kept on the phone, or refused. */
+export type EachOutcome = { findingId: string; sent: true } | { findingId: string; kept: true } | { findingId: string; refused: unknown };
+
+/**
+ * Several findings' writes from one press (a fix for each, or an acceptance of each), one after
+ * another through the outbox: each its own write and record, so one refusal (a finding someone
+ * changed meanwhile) leaves the others done, and the answer says which.
+ */
+export function useEachFindingWriteMutation(jobId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    networkMode: 'always',
+    mutationFn: async (writes: readonly { findingId: string; write: Write }[]): Promise<EachOutcome[]> => {
+      const out: EachOutcome[] = [];
+      for (const { findingId, write } of writes) {
+        try {
+          const answer = await submitWrite<unknown>(write);
+          out.push(isQueued(answer) ? { findingId, kept: true } : { findingId, sent: true });
+        } catch (refused) {
+          out.push({ findingId, refused });
+        }
+      }
+      return out;
+    },
     onSettled: () => refreshAfterChange(queryClient, jobId),
   });
 }

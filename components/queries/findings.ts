@@ -1,5 +1,5 @@
 import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { CreateFindingInput, FindingDetail, FindingListQuery, FindingListResponse } from '../../shared/schemas/findings';
+import type { CreateFindingBatchInput, CreateFindingInput, FindingBatchResponse, FindingDetail, FindingListQuery, FindingListResponse } from '../../shared/schemas/findings';
 import { apiGet } from '../api/client';
 import { jobPath, queryString } from '../api/lists';
 import { newClientId, newWrite, type Write } from '../api/mutations';
@@ -104,6 +104,45 @@ export function useCreateFindingMutation(jobId: string) {
     },
     onSuccess: (finding) => {
       if (!isQueued(finding)) queryClient.setQueryData(findingKeys.detail(jobId, finding.id), finding);
+    },
+    onSettled: () => refreshWalkData(queryClient, jobId),
+  });
+}
+
+/**
+ * The write that logs one defect on many units of a level (POST /findings/batch): JSON, or
+ * multipart with `data` and each unit's own photo, the unit naming its photo by position.
+ * Made once per press so a retry reuses its Idempotency-Key; sent or kept like any field write.
+ */
+export function findingBatchWrite(jobId: string, input: CreateFindingBatchInput, photos: ReadonlyMap<string, UploadPhoto>, where: string): Write {
+  const path = jobPath(jobId, 'findings', 'batch');
+  const files: UploadPhoto[] = [];
+  const units = input.units.map((u) => {
+    const photo = photos.get(u.unitId);
+    if (!photo) return u;
+    files.push(photo);
+    return { ...u, photo: files.length - 1 };
+  });
+  const body: CreateFindingBatchInput = { ...input, units };
+  if (files.length === 0) return labelWrite(newWrite({ method: 'POST', path, body }), where);
+  const form = new FormData();
+  form.append('data', JSON.stringify(body));
+  for (const p of files) {
+    if (p.blob) form.append('photos', p.blob, p.name);
+    else form.append('photos', { uri: p.uri, name: p.name, type: p.type } as unknown as Blob);
+  }
+  return labelWrite(newWrite({ method: 'POST', path, body: form }), where);
+}
+
+/** Kept in the outbox first (works with no signal), then sent: the findings logged, or the write waiting. */
+export function useFindingBatchMutation(jobId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    networkMode: 'always',
+    mutationFn: (write: Write) => submitWrite<FindingBatchResponse>(write),
+    onSuccess: (answer) => {
+      if (isQueued(answer)) return;
+      for (const f of answer.items) queryClient.setQueryData(findingKeys.detail(jobId, f.id), f);
     },
     onSettled: () => refreshWalkData(queryClient, jobId),
   });

@@ -1,8 +1,9 @@
 /**
- * Invitations to a job (GC managers): the pending list, invite, withdraw. For the members screen.
+ * Invitations to a job (GC managers): the pending list, invite (one, or several pasted at once),
+ * send again, withdraw. For the members screen.
  */
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { Invitation, InvitationCreateInput, InvitationList } from '../../shared/schemas/auth';
+import type { Invitation, InvitationBulkInput, InvitationCreateInput, InvitationList } from '../../shared/schemas/auth';
 import { apiGet } from '../api/client';
 import { newWrite, sendWrite } from '../api/mutations';
 
@@ -30,6 +31,32 @@ export function useCreateInvitationMutation(jobId: string) {
   return useMutation({
     mutationFn: (write: ReturnType<typeof inviteWrite>) => sendWrite<Invitation>(write),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: invitationKeys.all(jobId) }),
+  });
+}
+
+/** Several people at once (all or none): like inviteWrite, made once per press so a retry reuses its key. */
+export function inviteSeveralWrite(jobId: string, people: InvitationBulkInput['people']) {
+  return newWrite({ method: 'POST', path: path(jobId, 'bulk'), body: { people } });
+}
+
+export function useInviteSeveralMutation(jobId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (write: ReturnType<typeof inviteSeveralWrite>) => sendWrite<{ items: Invitation[] }>(write),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: invitationKeys.all(jobId) }),
+  });
+}
+
+/**
+ * A pending invitation sent again: the server answers with the new invitation (a new id and
+ * link; the old link stops working). The list is read again either way: after a 404 or 409 the
+ * invitation is no longer one that waits.
+ */
+export function useResendInvitationMutation(jobId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (invitationId: string) => sendWrite<Invitation>(newWrite({ method: 'POST', path: path(jobId, invitationId, 'resend') })),
+    onSettled: () => queryClient.invalidateQueries({ queryKey: invitationKeys.all(jobId) }),
   });
 }
 

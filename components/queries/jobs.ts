@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { SessionJob } from '../../shared/schemas/session';
-import type { CreateJobInput, JobDetail, UpdateJobInput } from '../../shared/schemas/setup';
+import type { CopyJobInput, CreateJobInput, JobDetail, UpdateJobInput } from '../../shared/schemas/setup';
 import { apiGet } from '../api/client';
 import { jobPath, versionTag } from '../api/lists';
 import { newWrite, sendWrite } from '../api/mutations';
@@ -41,6 +41,18 @@ export function useCreateJobMutation() {
         queryClient.invalidateQueries({ queryKey: jobKeys.list() }),
         queryClient.invalidateQueries({ queryKey: sessionKeys.all }),
       ]);
+    },
+  });
+}
+
+/** POST /api/jobs/:jobId/copy: a new job with this one's structure; the caller is its GC manager. */
+export function useCopyJobMutation(jobId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: CopyJobInput) => sendWrite<JobDetail>(newWrite({ method: 'POST', path: jobPath(jobId, 'copy'), body: input })),
+    onSuccess: async (job) => {
+      queryClient.setQueryData(jobKeys.detail(job.id), job);
+      await queryClient.invalidateQueries({ queryKey: jobKeys.list() });
     },
   });
 }

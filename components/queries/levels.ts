@@ -76,3 +76,12 @@ export function useDeleteLevelMutation(jobId: string) {
     onSettled: refresh,
   });
 }
+
+/** POST /levels/bulk: several levels pasted one per line (all or none). */
+export function useCreateLevelsMutation(jobId: string) {
+  const refresh = useRefreshSetup(jobId);
+  return useMutation({
+    mutationFn: (names: string[]) => sendWrite<{ items: LevelDto[] }>(newWrite({ method: 'POST', path: jobPath(jobId, 'levels', 'bulk'), body: { names } })),
+    onSettled: refresh,
+  });
+}

@@ -3,8 +3,12 @@
  * deploy that changed its secret or with filters changed in between, answers 400 invalid_cursor:
  * the list then starts again from its first page instead of showing an error under "Load more".
  */
-import { QueryCache, QueryClient } from '@tanstack/react-query';
+import { onlineManager, QueryCache, QueryClient } from '@tanstack/react-query';
 import { ApiError } from '../api/client';
+import { serverUnreachable, subscribeReach } from '../api/reach';
+
+// A request that got no answer makes react-query offline too (components/api/reach.ts).
+subscribeReach(() => onlineManager.setOnline(!serverUnreachable()));
 
 export function makeQueryClient(): QueryClient {
   const client: QueryClient = new QueryClient({

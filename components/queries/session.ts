@@ -20,8 +20,12 @@ function forgetEverythingButSession(queryClient: QueryClient) {
   queryClient.removeQueries({ predicate: (q) => q.queryKey[0] !== sessionKeys.all[0] });
 }
 
+/**
+ * Asked even when the app believes it is offline (components/api/reach.ts pauses other reads): a
+ * page opened with no network and no session kept must end in "No signal" (OfflineStart), not wait.
+ */
 export function useSessionQuery() {
-  return useQuery({ queryKey: sessionKeys.all, queryFn: fetchSession, staleTime: 60_000 });
+  return useQuery({ queryKey: sessionKeys.all, queryFn: fetchSession, staleTime: 60_000, networkMode: 'always' });
 }
 
 export function useSignInMutation() {

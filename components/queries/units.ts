@@ -1,9 +1,10 @@
-import { useInfiniteQuery } from '@tanstack/react-query';
+import { useInfiniteQuery, useQuery } from '@tanstack/react-query';
 import type {
   CreateUnitInput,
   ListResponse,
   UnitDto,
   UnitImportInput,
+  UnitImportRecordDto,
   UnitImportReport,
   UpdateUnitInput,
 } from '../../shared/schemas/setup';
@@ -67,4 +68,35 @@ export function importWrite(jobId: string, input: UnitImportInput): Write {
 /** POST /units/import: a dry run (preview) or the all-or-nothing commit. */
 export function useImportUnitsMutation(jobId: string) {
   return useSetupWrite(jobId, (write: Write) => sendWrite<UnitImportReport>(write));
+}
+
+export const unitImportKeys = {
+  list: (jobId: string) => [...unitKeys.all(jobId), 'imports'] as const,
+};
+
+/** The job's recorded imports, newest first, each saying whether it can be undone now. */
+export function useUnitImportsQuery(jobId: string) {
+  return useQuery({
+    queryKey: unitImportKeys.list(jobId),
+    queryFn: () => apiGet<{ items: UnitImportRecordDto[] }>(jobPath(jobId, 'units', 'imports')),
+    enabled: Boolean(jobId),
+  });
+}
+
+/** The write that undoes one import; made once per press so a retry reuses its key. */
+export function undoImportWrite(jobId: string, importId: string): Write {
+  return newWrite({ method: 'POST', path: jobPath(jobId, 'units', 'imports', importId, 'undo'), body: {} });
+}
+
+export function useUndoImportMutation(jobId: string) {
+  return useSetupWrite(jobId, (write: Write) => sendWrite<{ restored: number; deleted: number }>(write));
+}
+
+/** The write that deletes several units at once (all or none). */
+export function deleteUnitsWrite(jobId: string, unitIds: string[]): Write {
+  return newWrite({ method: 'POST', path: jobPath(jobId, 'units', 'delete'), body: { unitIds } });
+}
+
+export function useDeleteUnitsMutation(jobId: string) {
+  return useSetupWrite(jobId, (write: Write) => sendWrite<{ deleted: number }>(write));
 }

@@ -33,9 +33,14 @@ export function announceWalkStarted(jobId: string, levelId: string) {
   for (const l of walkStartedListeners) l(jobId, levelId);
 }
 
-/** Refresh every walk, check and finding screen of a job (after a check or a finding is saved). */
-export function refreshWalkData(queryClient: QueryClient, jobId: string) {
-  return queryClient.invalidateQueries({ queryKey: walkKeys.job(jobId) });
+/**
+ * Refresh every walk, check and finding screen of a job (after a check or a finding is saved), in
+ * the background: nothing waits for it. A mutation whose onSettled returned this promise would not
+ * finish before the refetches did, and with no signal react-query pauses them until the signal is
+ * back: a finding kept on the phone then left its form spinning.
+ */
+export function refreshWalkData(queryClient: QueryClient, jobId: string): void {
+  void queryClient.invalidateQueries({ queryKey: walkKeys.job(jobId) });
 }
 
 /** GET /levels/:levelId/walk-units: units with their state, counts and the level's coverage; "Load more" pages. */

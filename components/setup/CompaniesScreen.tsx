@@ -99,7 +99,7 @@ function CompanyCard({ job, company, editor }: { job: JobDetail; company: JobCom
           <View style={styles.actions}>
             <Button
               label="Edit trades"
-              aria-label={`Edit the trades of ${company.name}`}
+              aria-label={`Edit trades — ${company.name}`}
               tone="quiet"
               testID={`company-edit-${company.name}`}
               onPress={() => {

@@ -69,7 +69,7 @@ function CrewsBody({ job }: { job: JobDetail }) {
         <View style={styles.list} testID="crews-list">
           {groups.map((g) => (
             <Card key={g.company.id} testID={`crews-company-${g.company.name}`}>
-              <AppText variant="heading" role="heading">
+              <AppText variant="heading" role="heading" aria-level={2}>
                 {g.company.name}
               </AppText>
               {g.crews.map((crew) => (

@@ -28,6 +28,29 @@ export function reasonText(e: UnitImportRowError): string {
   return `${label}: ${e.reason}`;
 }
 
+const ACTION_WORDS = { add: 'New:', change: 'Changed:', same: 'Unchanged:' } as const;
+
+const units = (n: number) => `${n} unit${n === 1 ? '' : 's'}`;
+
+/** "Every row reads well. Import adds 1 unit and changes 2 at once." */
+function readyText(report: UnitImportReport): string {
+  const r = report.revision;
+  if (!r || (r.changed.length === 0 && r.untouched === 0)) return `Every row reads well. Import adds all ${report.goodRows} units at once.`;
+  const parts = [r.added > 0 ? `adds ${units(r.added)}` : null, r.changed.length > 0 ? `changes ${units(r.changed.length)}` : null].filter(Boolean);
+  return parts.length === 0 ? 'Every row reads well, and nothing in the file differs from the register.' : `Every row reads well. Import ${parts.join(' and ')} at once.`;
+}
+
+function doneText(report: UnitImportReport): string {
+  const r = report.revision;
+  const parts = [
+    `${units(report.created)} added`,
+    r && r.changed.length > 0 ? `${units(r.changed.length)} changed` : null,
+    r && r.removed > 0 ? `${units(r.removed)} deleted` : null,
+  ].filter(Boolean);
+  if (parts.length === 1) return `${report.created} unit${report.created === 1 ? ' was' : 's were'} added to the register.`;
+  return `${parts.join(', ')}. You can undo this import while none of its units has a check or a finding.`;
+}
+
 /** How many preview rows to list on screen (the server sends up to 500). */
 export const PREVIEW_ROWS_SHOWN = 10;
 
@@ -37,6 +60,8 @@ export const PREVIEW_ROWS_SHOWN = 10;
  */
 export function ImportReportView({ report, unitSystem }: { report: UnitImportReport; unitSystem: UnitSystem }) {
   const bad = report.errors.length > 0;
+  // Against units already in the job, a new unit is named as new too.
+  const revising = report.revision ? report.revision.changed.length > 0 || report.revision.untouched > 0 : false;
   return (
     <View style={styles.box} testID="import-report">
       <View style={styles.counts}>
@@ -46,7 +71,7 @@ export function ImportReportView({ report, unitSystem }: { report: UnitImportRep
       </View>
       {report.committed ? (
         <Notice tone="success" title="Imported" testID="import-done">
-          {`${report.created} unit${report.created === 1 ? ' was' : 's were'} added to the register.`}
+          {doneText(report)}
         </Notice>
       ) : bad ? (
         <Notice tone="error" title={`Nothing was imported: ${report.badRows} row${report.badRows === 1 ? ' needs' : 's need'} fixing`} testID="import-refused">
@@ -54,7 +79,7 @@ export function ImportReportView({ report, unitSystem }: { report: UnitImportRep
         </Notice>
       ) : (
         <Notice tone="info" title="Ready to import" testID="import-ready">
-          {`Every row reads well. Import adds all ${report.goodRows} units at once.`}
+          {readyText(report)}
         </Notice>
       )}
       {bad ? (
@@ -81,6 +106,7 @@ export function ImportReportView({ report, unitSystem }: { report: UnitImportRep
                 Line {r.line}
               </AppText>
               <AppText variant="small" style={styles.reason}>
+                {r.action && (r.action !== 'add' || revising) ? `${ACTION_WORDS[r.action]} ` : ''}
                 <AppText variant="label">{r.tag}</AppText> · {unitKindLabel(r.kind)}
                 {r.modelName ? ` · ${r.modelName}` : ''}
                 {r.capacity !== null ? ` · ${formatQuantity(r.capacity, 'capacity', unitSystem)}` : ''} · {r.levelName}

@@ -8,6 +8,7 @@ import { Card } from '../ui/Card';
 import { Notice } from '../ui/Notice';
 import { writeErrorMessage } from '../api/writeErrors';
 import { isConflict } from '../api/client';
+import { CopyJobCard } from './CopyJobCard';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 
 export function JobDetailsScreen({ jobId }: { jobId: string }) {
@@ -15,7 +16,10 @@ export function JobDetailsScreen({ jobId }: { jobId: string }) {
     <SetupFrame jobId={jobId} section="job" title="Job details" testID="job-details-screen">
       {(job) =>
         canEditSetup(job) ? (
-          <EditJob job={job} />
+          <>
+            <EditJob job={job} />
+            <CopyJobCard job={job} />
+          </>
         ) : (
           <Notice tone="info" testID="job-details-read-only">
             Only a GC manager of this job changes its details.

@@ -162,7 +162,7 @@ function SettingsForm({ job }: { job: JobDetail }) {
       <ClockLine job={job} editor />
 
       <Card testID="settings-rules">
-        <AppText variant="heading" role="heading">
+        <AppText variant="heading" role="heading" aria-level={2}>
           Rules
         </AppText>
         <AppText variant="label">Days to fix, by severity</AppText>
@@ -222,7 +222,7 @@ function SettingsForm({ job }: { job: JobDetail }) {
       </Card>
 
       <Card testID="settings-editions">
-        <AppText variant="heading" role="heading">
+        <AppText variant="heading" role="heading" aria-level={2}>
           Code editions
         </AppText>
         <AppText variant="small" muted>
@@ -245,7 +245,7 @@ function SettingsForm({ job }: { job: JobDetail }) {
       </Card>
 
       <Card testID="settings-limits">
-        <AppText variant="heading" role="heading">
+        <AppText variant="heading" role="heading" aria-level={2}>
           Job limits
         </AppText>
         <AppText variant="small" muted>
@@ -365,7 +365,7 @@ function SettingsReadOnly({ job }: { job: JobDetail }) {
       <Notice tone="info">Only a GC manager of this job changes these settings.</Notice>
       <ClockLine job={job} editor={false} />
       <Card testID="settings-rules">
-        <AppText variant="heading" role="heading">
+        <AppText variant="heading" role="heading" aria-level={2}>
           Rules
         </AppText>
         <ValueRow
@@ -382,7 +382,7 @@ function SettingsReadOnly({ job }: { job: JobDetail }) {
         />
       </Card>
       <Card testID="settings-editions">
-        <AppText variant="heading" role="heading">
+        <AppText variant="heading" role="heading" aria-level={2}>
           Code editions
         </AppText>
         {CODE_DOCUMENTS.map((doc) => (
@@ -390,7 +390,7 @@ function SettingsReadOnly({ job }: { job: JobDetail }) {
         ))}
       </Card>
       <Card testID="settings-limits">
-        <AppText variant="heading" role="heading">
+        <AppText variant="heading" role="heading" aria-level={2}>
           Job limits
         </AppText>
         {JOB_SETTINGS.map((def) => {

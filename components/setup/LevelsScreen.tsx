@@ -6,6 +6,7 @@ import { StyleSheet, View } from 'react-native';
 import { createLevelSchema, updateLevelSchema, type LevelDto } from '../../shared/schemas/setup';
 import {
   useCreateLevelMutation,
+  useCreateLevelsMutation,
   useDeleteLevelMutation,
   useLevelsQuery,
   useRenameLevelMutation,
@@ -23,6 +24,7 @@ import { writeErrorMessage } from '../api/writeErrors';
 import { showServerErrors } from './formErrors';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 import { FormBanner } from '../ui/FormBanner';
+import { PasteNames } from './PasteNames';
 
 export function LevelsScreen({ jobId }: { jobId: string }) {
   return (
@@ -49,6 +51,7 @@ function LevelsBody({ jobId, editor }: { jobId: string; editor: boolean }) {
   return (
     <View style={styles.body}>
       {editor ? <AddLevel jobId={jobId} /> : null}
+      {editor ? <PasteLevels jobId={jobId} /> : null}
       {message ? (
         <Notice tone="error" testID="levels-error">
           {message}
@@ -81,6 +84,21 @@ function LevelsBody({ jobId, editor }: { jobId: string; editor: boolean }) {
         </View>
       )}
     </View>
+  );
+}
+
+function PasteLevels({ jobId }: { jobId: string }) {
+  const create = useCreateLevelsMutation(jobId);
+  return (
+    <PasteNames
+      title="Add several levels"
+      subject="a level name"
+      max={80}
+      noun={['level', 'levels']}
+      placeholder={'Level 1\nLevel 2\nRoof'}
+      testID="levels-paste"
+      send={(names) => create.mutateAsync(names)}
+    />
   );
 }
 
@@ -201,7 +219,7 @@ function LevelRow({
           <Button
             label="Up"
             tone="secondary"
-            accessibilityLabel={`Move ${level.name} up`}
+            accessibilityLabel={`Up — move ${level.name} up`}
             testID={`level-up-${level.position}`}
             disabled={first || busy}
             onPress={() => onMove(-1)}
@@ -209,7 +227,7 @@ function LevelRow({
           <Button
             label="Down"
             tone="secondary"
-            accessibilityLabel={`Move ${level.name} down`}
+            accessibilityLabel={`Down — move ${level.name} down`}
             testID={`level-down-${level.position}`}
             disabled={last || busy}
             onPress={() => onMove(1)}

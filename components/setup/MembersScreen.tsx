@@ -29,7 +29,7 @@ function MembersBody({ job }: { job: JobDetail }) {
   return (
     <View style={styles.body}>
       {editor ? <InvitationsPanel jobId={job.id} /> : null}
-      <AppText variant="heading" role="heading">
+      <AppText variant="heading" role="heading" aria-level={2}>
         On the job
       </AppText>
       {members.isPending ? (

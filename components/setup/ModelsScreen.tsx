@@ -1,12 +1,13 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
-import { useForm, type Path } from 'react-hook-form';
+import { useForm, type Path, type Resolver } from 'react-hook-form';
 import { StyleSheet, View } from 'react-native';
 import type { z } from 'zod';
 import { formatQuantity } from '../../shared/calc/format';
 import { MOUNT_POSITION_LABELS, MOUNT_POSITIONS } from '../../shared/calc/refrigerant';
 import { MODEL_LIMITS, type ModelLimitKey, type QuantityKind } from '../../shared/catalogue/types';
 import { createModelSchema, type CreateModelInput, type JobDetail, type StatedLimitInput, type UnitModelDto } from '../../shared/schemas/setup';
+import { isPageOnly, limitSource, splitLimitSources } from '../../shared/rules/limitSource';
 import { UNIT_KINDS } from '../../shared/words';
 import { useCreateModelMutation, useDeleteModelMutation, useModelsQuery, useUpdateModelMutation } from '../queries/models';
 import { colors, radius, space } from '../theme';
@@ -120,7 +121,11 @@ function ModelCard({ job, model, editor, onEdit }: { job: JobDetail; model: Unit
                   {l.label}
                 </AppText>
                 <View style={styles.limitValue}>
-                  <AppText variant="label">{v.text}</AppText>
+                  <AppText variant="label">
+                    {v.text}
+                    {/* A tolerance stated as a tilt across a width: the height difference it allows. */}
+                    {/\s(across|over)\s/i.test(v.text) ? ` = ${formatQuantity(v.value, l.quantity, job.unitSystem)}` : ''}
+                  </AppText>
                   <AppText variant="small" muted>
                     Source: {v.source}
                   </AppText>
@@ -134,9 +139,12 @@ function ModelCard({ job, model, editor, onEdit }: { job: JobDetail; model: Unit
   );
 }
 
-/** A limit as typed; value and source both empty mean none (removed when the model had one). */
+/**
+ * A limit as typed; value and source both empty mean none (removed when the model had one). Its
+ * source is a page of the model's manual (named once, above the limits) or a source of its own.
+ */
 type LimitDraft = { value: string; source: string };
-type ModelFormValues = Omit<CreateModelInput, 'limits'> & { limits: Record<ModelLimitKey, LimitDraft> };
+type ModelFormValues = Omit<CreateModelInput, 'limits'> & { manual: string; limits: Record<ModelLimitKey, LimitDraft> };
 type ModelFormParsed = z.output<typeof createModelSchema>;
 
 /** A placeholder in the quantity each model limit is stated in. */
@@ -158,20 +166,47 @@ const FIELDS = [
   'unitKind',
   'nominalCapacity',
   'mountPosition',
+  'manual',
   ...MODEL_LIMITS.flatMap((l) => [`limits.${l.key}.value`, `limits.${l.key}.source`]),
 ] as Path<ModelFormValues>[];
 
-function modelResolver(existing: UnitModelDto | undefined) {
-  return preparedFor<ModelFormValues, CreateModelInput, unknown, ModelFormParsed>(zodResolver(createModelSchema), ({ limits: drafts, ...values }) => {
+const NO_SOURCE = 'Name the installation manual above, or type where this value came from.';
+
+function modelResolver(existing: UnitModelDto | undefined): Resolver<ModelFormValues, unknown, ModelFormParsed> {
+  const resolver = preparedFor<ModelFormValues, CreateModelInput, unknown, ModelFormParsed>(zodResolver(createModelSchema), ({ limits: drafts, manual, ...values }) => {
     const limits: Partial<Record<ModelLimitKey, StatedLimitInput | null>> = {};
     for (const def of MODEL_LIMITS) {
       const d = drafts[def.key];
       if (d.value.trim() === '' && d.source.trim() === '') {
         if (existing?.limits[def.key]) limits[def.key] = null;
-      } else limits[def.key] = { value: d.value, source: d.source };
+      } else limits[def.key] = { value: d.value, source: limitSource(manual, d.source) };
     }
     return { ...values, limits };
   });
+  return async (values, context, options) => {
+    const result = await resolver(values, context, options);
+    // A limit with neither a manual above nor a source of its own: say where to name it.
+    const limitErrors = result.errors.limits as Record<string, { source?: { message?: string } }> | undefined;
+    for (const def of MODEL_LIMITS) {
+      const error = limitErrors?.[def.key]?.source;
+      if (error && limitSource(values.manual, values.limits[def.key].source) === '') {
+        error.message = values.manual.trim() === '' && isPageOnly(values.limits[def.key].source) ? 'Name the installation manual above: this page is in it.' : NO_SOURCE;
+      }
+    }
+    return result;
+  };
+}
+
+/** The form's manual and each limit's page, from the sources stored with the model's limits. */
+function limitDrafts(existing: UnitModelDto | undefined): { manual: string; limits: Record<ModelLimitKey, LimitDraft> } {
+  const { manual, perLimit } = splitLimitSources(MODEL_LIMITS.map((l) => existing?.limits[l.key]?.source ?? ''));
+  return {
+    manual,
+    limits: Object.fromEntries(MODEL_LIMITS.map((l, i) => [l.key, { value: existing?.limits[l.key]?.text ?? '', source: perLimit[i] ?? '' }])) as Record<
+      ModelLimitKey,
+      LimitDraft
+    >,
+  };
 }
 
 function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitModelDto; onDone: () => void }) {
@@ -189,9 +224,7 @@ function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitM
       nominalCapacity:
         existing?.nominalCapacity != null ? formatQuantity(existing.nominalCapacity, 'capacity', job.unitSystem).replace(/,/g, '') : null,
       mountPosition: existing?.mountPosition ?? null,
-      limits: Object.fromEntries(
-        MODEL_LIMITS.map((l) => [l.key, { value: existing?.limits[l.key]?.text ?? '', source: existing?.limits[l.key]?.source ?? '' }]),
-      ) as Record<ModelLimitKey, LimitDraft>,
+      ...limitDrafts(existing),
     },
   });
 
@@ -248,9 +281,17 @@ function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitM
         options={MOUNT_POSITIONS.map((m) => ({ value: m, label: MOUNT_POSITION_LABELS[m] }))}
       />
       <AppText variant="label">Limits from the installation manual</AppText>
+      <FormText
+        control={control}
+        name="manual"
+        label="Installation manual (title and edition)"
+        hint="Named once for every limit below; give each limit its page, or a source of its own."
+        testID="model-manual-input"
+        placeholder="e.g. Cassette 24 installation manual, 2nd edition"
+      />
       <AppText variant="small" muted>
-        Type each value with the unit the manual states it in (e.g. 27-1/2 in, 700 mm, 30°) and say where it came from (document,
-        page). Leave both empty for limits the manual does not give.
+        Type each value with the unit the manual states it in (e.g. 27-1/2 in, 700 mm, 30°; a level tolerance also as 1° across 840
+        mm). Leave a limit empty when the manual does not give it.
       </AppText>
       {MODEL_LIMITS.map((def) => (
         <View key={def.key} style={[styles.limitForm, wide ? styles.pair : null]} testID={`model-limit-input-${def.key}`}>
@@ -260,16 +301,16 @@ function ModelForm({ job, existing, onDone }: { job: JobDetail; existing?: UnitM
               name={`limits.${def.key}.value`}
               label={def.label}
               testID={`model-limit-${def.key}-value`}
-              placeholder={LIMIT_EXAMPLES[def.quantity]}
+              placeholder={def.key === 'max_level_deviation' ? 'e.g. 1/4 in, or 1° across 840 mm' : LIMIT_EXAMPLES[def.quantity]}
             />
           </View>
           <View style={styles.cell}>
             <FormText
               control={control}
               name={`limits.${def.key}.source`}
-              label="Source"
+              label="Page, or another source"
               testID={`model-limit-${def.key}-source`}
-              placeholder="e.g. installation manual, p. 12"
+              placeholder="e.g. 12"
             />
           </View>
         </View>

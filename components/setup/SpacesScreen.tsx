@@ -6,7 +6,9 @@ import { StyleSheet, View } from 'react-native';
 import { formatQuantity } from '../../shared/calc/format';
 import { createSpaceSchema, type JobDetail, type SpaceDto } from '../../shared/schemas/setup';
 import { useLevelsQuery } from '../queries/levels';
-import { useCreateSpaceMutation, useDeleteSpaceMutation, useSpacesQuery, useUpdateSpaceMutation } from '../queries/spaces';
+import { PasteNames } from './PasteNames';
+import { RoomImport } from './RoomImport';
+import { useCreateSpaceMutation, useCreateSpacesMutation, useDeleteSpaceMutation, useSpacesQuery, useUpdateSpaceMutation } from '../queries/spaces';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
 import { Badge } from '../ui/Badge';
@@ -38,6 +40,21 @@ export function SpacesScreen({ jobId }: { jobId: string }) {
   );
 }
 
+function PasteSpaces({ jobId, levelId, levelName }: { jobId: string; levelId: string; levelName: string }) {
+  const create = useCreateSpacesMutation(jobId);
+  return (
+    <PasteNames
+      title={`Add several spaces to ${levelName}`}
+      subject="a space name"
+      max={120}
+      noun={['space', 'spaces']}
+      placeholder={'Exam 101\nExam 102\nStaff 103'}
+      testID="spaces-paste"
+      send={(names) => create.mutateAsync({ levelId, names })}
+    />
+  );
+}
+
 function SpacesBody({ job }: { job: JobDetail }) {
   const editor = canEditSetup(job);
   const levels = useLevelsQuery(job.id);
@@ -47,19 +64,27 @@ function SpacesBody({ job }: { job: JobDetail }) {
   if (levels.isPending) return <LoadingState label="Loading levels…" />;
   if (levels.isError) return <ErrorState message={levels.error.message} onRetry={() => levels.refetch()} />;
   if (levels.data.length === 0) {
+    // A room schedule brings its levels with it: the import is offered before any level exists.
     return (
-      <EmptyState
-        title="Add levels first"
-        body="Spaces belong to a level. Add the job's levels, then come back to add spaces on each."
-        testID="spaces-no-levels"
-        action={
-          <Link href={links.setup(job.id, 'levels')} style={styles.link}>
-            <AppText variant="label" style={{ color: colors.spruce }}>
-              Go to levels →
-            </AppText>
-          </Link>
-        }
-      />
+      <View style={styles.body}>
+        <EmptyState
+          title="Add levels first"
+          body={
+            editor
+              ? "Spaces belong to a level. Add the job's levels, then come back to add spaces on each, or import a room schedule below: its levels come with it."
+              : "Spaces belong to a level. Add the job's levels, then come back to add spaces on each."
+          }
+          testID="spaces-no-levels"
+          action={
+            <Link href={links.setup(job.id, 'levels')} style={styles.link}>
+              <AppText variant="label" style={{ color: colors.spruce }}>
+                Go to levels →
+              </AppText>
+            </Link>
+          }
+        />
+        {editor ? <RoomImport jobId={job.id} unitSystem={job.unitSystem} /> : null}
+      </View>
     );
   }
   const level = levels.data.find((l) => l.id === levelId) ?? levels.data[0]!;
@@ -74,6 +99,8 @@ function SpacesBody({ job }: { job: JobDetail }) {
         compact
       />
       {editor ? <SpaceForm key={level.id} job={job} levelId={level.id} /> : null}
+      {editor ? <PasteSpaces key={`paste-${level.id}`} jobId={job.id} levelId={level.id} levelName={level.name} /> : null}
+      {editor ? <RoomImport jobId={job.id} unitSystem={job.unitSystem} /> : null}
       <SpaceList job={job} levelId={level.id} levelName={level.name} editor={editor} />
     </View>
   );

@@ -1,4 +1,5 @@
 import { zodResolver } from '@hookform/resolvers/zod';
+import { Link } from 'expo-router';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import type { z } from 'zod';
@@ -14,6 +15,8 @@ import {
   type SystemDto,
 } from '../../shared/schemas/setup';
 import { REFRIGERANTS, type Refrigerant } from '../../shared/words';
+import { links } from '../links';
+import { useJobCompaniesQuery } from '../queries/companies';
 import { useCreateSystemMutation, useDeleteSystemMutation, useSystemQuery, useSystemsQuery, useUpdateSystemMutation } from '../queries/systems';
 import { colors, radius, space } from '../theme';
 import { AppText } from '../ui/AppText';
@@ -82,6 +85,7 @@ function SystemCard({ job, system, editor }: { job: JobDetail; system: SystemDto
   const [editing, setEditing] = useState(false);
   const [error, setError] = useState<string | null>(null);
   const remove = useDeleteSystemMutation(job.id);
+  const companies = useJobCompaniesQuery(job.id);
   // Loaded for every card: the list shows each system's refrigerant status at a glance.
   const detail = useSystemQuery(job.id, system.id);
   const status = detail.data ? CONCENTRATION_STATUS[detail.data.concentration.status] : null;
@@ -100,6 +104,14 @@ function SystemCard({ job, system, editor }: { job: JobDetail; system: SystemDto
           </AppText>
           <AppText variant="small" muted>
             Factory charge {mass(system.factoryCharge)} · field-added {mass(system.fieldCharge)} · total {mass(system.totalCharge)}
+          </AppText>
+          <AppText variant="small" muted testID={`system-company-${system.name}`}>
+            Test records by {companies.data?.find((c) => c.id === system.companyId)?.name ?? (system.companyId ? 'a company on the job' : "the job's mechanical companies")} ·{' '}
+            <Link href={links.tests(job.id, { systemId: system.id })} testID={`system-tests-${system.name}`}>
+              <AppText variant="small" style={{ color: colors.spruce, textDecorationLine: 'underline' }}>
+                test records →
+              </AppText>
+            </Link>
           </AppText>
         </View>
         <View style={styles.actions}>
@@ -147,6 +159,7 @@ const FIELDS = [
   'concentrationLimitOverride.value',
   'concentrationLimitOverride.unit',
   'concentrationLimitOverride.source',
+  'companyId',
 ] as const;
 
 /** The limit as typed: value as text; value and source both empty mean no override (null). */
@@ -174,6 +187,7 @@ function SystemForm({ job, existing, onDone }: { job: JobDetail; existing?: Syst
   const wide = useWide();
   const create = useCreateSystemMutation(job.id);
   const update = useUpdateSystemMutation(job.id);
+  const companies = useJobCompaniesQuery(job.id);
   const metric = job.unitSystem === 'metric';
   const { control, handleSubmit, setError, watch } = useForm<SystemFormValues, unknown, CreateSystemParsed>({
     resolver: systemResolver,
@@ -183,6 +197,7 @@ function SystemForm({ job, existing, onDone }: { job: JobDetail; existing?: Syst
       refrigerant: existing?.refrigerant ?? 'R-410A',
       factoryCharge: existing ? massText(existing.factoryCharge, job) : null,
       fieldCharge: existing ? massText(existing.fieldCharge, job) : null,
+      companyId: existing?.companyId ?? null,
       concentrationLimitOverride: {
         value: existing?.concentrationLimitOverride ? String(existing.concentrationLimitOverride.value) : '',
         unit: existing?.concentrationLimitOverride?.unit ?? (metric ? 'g/m³' : 'lb/Mcf'),
@@ -221,6 +236,16 @@ function SystemForm({ job, existing, onDone }: { job: JobDetail; existing?: Syst
         label="Refrigerant"
         testID="system-refrigerant-input"
         options={REFRIGERANTS.map((r) => ({ value: r, label: r }))}
+      />
+      <FormSelect
+        control={control}
+        name="companyId"
+        label="Company responsible for its test records"
+        testID="system-company-input"
+        placeholder="The job's mechanical companies"
+        nullable
+        options={(companies.data ?? []).map((c) => ({ value: c.id, label: c.name }))}
+        hint="Its members record the pressure test, evacuation, charge, drain and start-up records of this system; left empty, every mechanical company on the job does."
       />
       <View style={wide ? styles.pair : null}>
         <View style={styles.cell}>

@@ -9,6 +9,7 @@ import { createUnitSchema, crewLabel, type JobDetail, type UnitDto } from '../..
 import { UNIT_KINDS, UNIT_KIND_LABELS, type UnitKindKey } from '../../shared/words';
 import { exportUrls } from '../api/exports';
 import { ExportLink } from '../exports/ExportLink';
+import { unitLabelsUrl } from '../scan/labelsLink';
 import { useLevelsQuery } from '../queries/levels';
 import { useModelsQuery } from '../queries/models';
 import { useSpacesQuery } from '../queries/spaces';
@@ -36,6 +37,7 @@ import { showServerErrors } from './formErrors';
 import { links } from '../links';
 import { SetupFrame, canEditSetup } from './SetupFrame';
 import { UnitFiltersBar } from './UnitFiltersBar';
+import { UnitBulkDelete } from './UnitBulkDelete';
 
 /** Kept for the catalogue and models screens still importing it from here; it goes once they use UNIT_KIND_LABELS from shared/words. */
 export const KIND_LABEL = UNIT_KIND_LABELS;
@@ -59,6 +61,7 @@ function UnitsBody({ job }: { job: JobDetail }) {
   const wide = useWide();
   const [filters, setFilters] = useState<UnitFilters>({});
   const [form, setForm] = useState<{ unit?: UnitDto } | null>(null);
+  const [bulk, setBulk] = useState(false);
   const levels = useLevelsQuery(job.id);
   const spaces = useSpacesQuery(job.id);
   const systems = useSystemsQuery(job.id);
@@ -75,7 +78,15 @@ function UnitsBody({ job }: { job: JobDetail }) {
             <Button testID="unit-import-link" label="Import from CSV" tone="secondary" />
           </Link>
         ) : null}
+        {editor ? <Button testID="units-bulk-open" label="Delete several" tone="secondary" onPress={() => setBulk(true)} /> : null}
         <ExportLink testID="unit-export" label={filtered ? 'Download these as CSV' : 'Download CSV'} href={exportUrls.unitsCsv(job.id, filters)} />
+        {editor && (filters.levelId || filters.systemId) ? (
+          <ExportLink
+            testID="unit-labels"
+            label={filters.levelId ? 'Print labels for this level' : 'Print labels for this system'}
+            href={unitLabelsUrl(job.id, filters.levelId ? { levelId: filters.levelId } : { systemId: filters.systemId! })}
+          />
+        ) : null}
       </View>
       {form && editor && levels.data ? (
         <UnitForm
@@ -86,6 +97,7 @@ function UnitsBody({ job }: { job: JobDetail }) {
           onDone={() => setForm(null)}
         />
       ) : null}
+      {bulk && editor ? <UnitBulkDelete jobId={job.id} rows={rows} onClose={() => setBulk(false)} /> : null}
       <UnitFiltersBar value={filters} onChange={setFilters} levels={levels.data ?? []} spaces={spaces.data ?? []} systems={systems.data ?? []} />
       {units.isPending ? (
         <LoadingState label="Loading units…" />

@@ -23,13 +23,14 @@ export function showServerErrors<T extends FieldValues>(
     // A nested field of the form (`concentrationLimitOverride.value`) takes its own message; else the top field.
     const top = fieldNames.includes(field) ? field : field.split('.')[0]!;
     if (fieldNames.includes(top)) {
-      setError(top as Path<T>, { message });
+      // The first one placed takes the focus, so a long form scrolls to it.
+      setError(top as Path<T>, { message }, { shouldFocus: !placed });
       placed = true;
     }
   }
   const clash = err.status === 409 ? clashFields[err.id] : undefined;
   if (clash && fieldNames.includes(clash)) {
-    setError(clash as Path<T>, { message: err.message });
+    setError(clash as Path<T>, { message: err.message }, { shouldFocus: true });
     return;
   }
   setError('root', { message: writeErrorMessage(err, { fieldsShown: placed }) });

@@ -41,9 +41,9 @@ export function AppHeader() {
     else signOut.mutate();
   };
   return (
-    <View style={styles.bar} testID="app-header">
+    <View style={styles.bar} testID="app-header" role="banner">
       <View style={styles.inner}>
-        <Link href={links.home()} accessibilityLabel="Your jobs" style={styles.home} testID="header-home">
+        <Link href={links.home()} accessibilityLabel="Trimout: your jobs" style={styles.home} testID="header-home">
           <Wordmark compact />
         </Link>
         <View style={styles.right}>
@@ -85,6 +85,8 @@ const styles = StyleSheet.create({
     paddingHorizontal: space.lg,
     paddingVertical: space.sm,
     flexDirection: 'row',
+    // At 200% text on a phone the wordmark and Sign out no longer fit one line: they wrap.
+    flexWrap: 'wrap',
     alignItems: 'center',
     justifyContent: 'space-between',
     gap: space.md,

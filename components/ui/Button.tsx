@@ -11,6 +11,9 @@ export interface ButtonProps extends Omit<PressableProps, 'children'> {
 
 export function Button({ label, tone = 'primary', busy, disabled, style, ...rest }: ButtonProps) {
   const palette = tones[tone];
+  // A leading symbol ("✓ Accept fix") is decoration, hidden from assistive technology: the name is
+  // the words, and a label that adds what the button acts on starts with them ("Accept fix — #12").
+  const [, symbol, words] = /^([^\p{L}\p{N}\s]+)\s+(.+)$/u.exec(label) ?? [null, null, label];
   return (
     <Pressable
       accessibilityRole="button"
@@ -26,7 +29,10 @@ export function Button({ label, tone = 'primary', busy, disabled, style, ...rest
       {...rest}
     >
       {busy ? <ActivityIndicator color={palette.fg} style={styles.spinner} /> : null}
-      <Text style={[styles.label, { color: palette.fg }]}>{label}</Text>
+      <Text style={[styles.label, { color: palette.fg }]}>
+        {symbol ? <Text aria-hidden>{`${symbol} `}</Text> : null}
+        {words}
+      </Text>
     </Pressable>
   );
 }

@@ -70,7 +70,12 @@ export function FormText<T extends FieldValues>({
     <TextField
       {...input}
       limit={limit}
-      ref={inputRef}
+      // The form's ref too: a refused submit focuses (and the browser scrolls to) the first field in error.
+      ref={(el: TextInput | null) => {
+        field.ref(el);
+        if (typeof inputRef === 'function') inputRef(el);
+        else if (inputRef) (inputRef as { current: TextInput | null }).current = el;
+      }}
       testID={testID}
       label={label}
       hint={hint}
@@ -117,6 +122,8 @@ export function FormSelect<T extends FieldValues>({
       }}
       error={fieldState.error?.message}
       compact={compact}
+      // A refused submit focuses the first field in error, choices too.
+      fieldRef={field.ref}
     />
   );
 }
@@ -154,6 +161,7 @@ export function FormQuantity<T extends FieldValues>({
     <View style={styles.quantity}>
       <View style={styles.grow}>
         <TextField
+          ref={field.ref}
           testID={testID}
           label={label}
           hint={hint ?? `Type a number and pick its unit, or type it with its unit.`}

@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useImperativeHandle, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { colors, fonts, radius, space, touchTarget } from '../theme';
 import { AppText } from './AppText';
@@ -7,8 +7,11 @@ import type { SelectProps } from './Select.types';
 export type { SelectOption, SelectProps } from './Select.types';
 
 /** On phones: a field that opens its list of choices in place. */
-export function Select({ label, value, options, onChange, placeholder, error, hint, testID, disabled, compact }: SelectProps) {
+export function Select({ label, value, options, onChange, placeholder, error, hint, testID, disabled, compact, fieldRef }: SelectProps) {
   const [open, setOpen] = useState(false);
+  // A form focusing the first field in error stops here (nothing after it takes the focus); the list
+  // stays as the person left it, so the next press opens it rather than closing it.
+  useImperativeHandle(fieldRef, () => ({ focus: () => undefined }), []);
   const current = options.find((o) => o.value === value)?.label ?? placeholder ?? 'Choose…';
   const all = placeholder !== undefined ? [{ value: '', label: placeholder }, ...options] : options;
   return (

@@ -1,3 +1,5 @@
+import type { Ref } from 'react';
+
 export interface SelectOption {
   value: string;
   label: string;
@@ -16,4 +18,6 @@ export interface SelectProps {
   disabled?: boolean;
   /** Drop the bottom margin (inline in a row of filters). */
   compact?: boolean;
+  /** What a form focuses when this choice is in error (react-hook-form's field ref). */
+  fieldRef?: Ref<{ focus: () => void }>;
 }

@@ -7,7 +7,7 @@ import type { SelectProps } from './Select.types';
 export type { SelectOption, SelectProps } from './Select.types';
 
 /** On the web: the browser's own <select>, which is keyboard- and screen-reader-friendly for free. */
-export function Select({ label, value, options, onChange, placeholder, error, hint, testID, disabled, compact }: SelectProps) {
+export function Select({ label, value, options, onChange, placeholder, error, hint, testID, disabled, compact, fieldRef }: SelectProps) {
   return (
     <View style={[styles.wrap, compact ? null : styles.spaced]}>
       <AppText variant="label">{label}</AppText>
@@ -15,6 +15,8 @@ export function Select({ label, value, options, onChange, placeholder, error, hi
         'select',
         {
           'data-testid': testID,
+          // The <select> itself: focusing it scrolls it into view and lets the keyboard choose at once.
+          ref: fieldRef,
           'aria-label': label,
           'aria-invalid': error ? true : undefined,
           value,

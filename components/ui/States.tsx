@@ -30,8 +30,11 @@ export function EmptyState({
   body,
   testID = 'state-empty',
   action,
+  level,
 }: {
   title: string;
+  /** The title as a heading of this level (1 where the empty state is the whole screen). */
+  level?: number;
   body?: string;
   testID?: string;
   /** The clear next step, e.g. a button that adds the first item. */
@@ -39,7 +42,9 @@ export function EmptyState({
 }) {
   return (
     <View style={styles.box} testID={testID}>
-      <AppText variant="heading">{title}</AppText>
+      <AppText variant="heading" {...(level ? { role: 'heading' as const, 'aria-level': level } : null)}>
+        {title}
+      </AppText>
       {body ? (
         <AppText muted style={styles.center}>
           {body}

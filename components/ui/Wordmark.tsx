@@ -6,8 +6,10 @@ import { AppText } from './AppText';
 export function Wordmark({ compact }: { compact?: boolean }) {
   const size = compact ? 20 : 30;
   return (
-    <View style={styles.row} accessibilityRole="header" accessibilityLabel="Trimout">
-      <AppText style={[styles.word, { fontSize: size, lineHeight: size * 1.2 }]}>trimout</AppText>
+    <View style={styles.row} role="img" aria-label="Trimout">
+      <AppText style={[styles.word, { fontSize: size, lineHeight: size * 1.2 }]} aria-hidden>
+        trimout
+      </AppText>
       <View style={[styles.dot, { width: size * 0.28, height: size * 0.28, borderRadius: size }]} />
     </View>
   );

@@ -57,7 +57,7 @@ export const CheckItemRow = forwardRef<View, {
         <Pressable
           accessibilityRole="button"
           accessibilityState={{ expanded: open }}
-          aria-label={`${name}: ${STATE_TEXT[mark ?? 'none']}. ${open ? 'Hide' : 'Show'} guidance${item.caution ? ' and caution' : ''}`}
+          // Named by what it shows (code, caution mark, state, title); aria-expanded says it opens the guidance.
           testID={`${testID}-expand`}
           onPress={() => setOpen((o) => !o)}
           style={styles.name}
@@ -193,7 +193,7 @@ const styles = StyleSheet.create({
   markTextOn: { color: '#FFFFFF', fontFamily: fonts.bold },
   unresolved: { color: '#5A3B00', backgroundColor: colors.ochreSoft, borderRadius: radius.sm, padding: space.xs },
   error: { color: colors.danger, fontFamily: fonts.bold },
-  defect: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', gap: space.sm, paddingRight: space.xs },
+  defect: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', justifyContent: 'space-between', gap: space.sm, paddingRight: space.xs },
   defaultSeverity: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
   detail: { gap: space.sm, paddingRight: space.xs, paddingBottom: space.xs },
   na: {

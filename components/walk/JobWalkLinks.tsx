@@ -14,9 +14,22 @@ export function JobWalkLinks({ jobId, role }: { jobId: string; role: Role }) {
           <Button label="Walk a level" testID="job-walk" style={styles.grow} />
         </Link>
       ) : null}
+      {role !== 'subcontractor' ? (
+        <Link href={links.scan(jobId)} asChild>
+          <Button label="Scan a unit" tone="secondary" testID="job-scan" style={styles.grow} />
+        </Link>
+      ) : null}
       <Link href={links.findings(jobId)} asChild>
         <Button label="Findings" tone="secondary" testID="job-findings" style={styles.grow} />
       </Link>
+      <Link href={links.tests(jobId)} asChild>
+        <Button label="Test records" tone="secondary" testID="job-tests" style={styles.grow} />
+      </Link>
+      {role !== 'subcontractor' ? (
+        <Link href={links.audits(jobId)} asChild>
+          <Button label="Audits" tone="secondary" testID="job-audits" style={styles.grow} />
+        </Link>
+      ) : null}
       {role !== 'subcontractor' ? (
         <Link href={links.reinspections(jobId)} asChild>
           <Button label="Re-inspections" tone="secondary" testID="job-reinspections" style={styles.grow} />

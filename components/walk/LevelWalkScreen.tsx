@@ -1,5 +1,6 @@
 import { unitKindLabel } from '../../shared/words';
 import { links } from '../links';
+import { walkProgress } from './walkProgress';
 import { Link } from 'expo-router';
 import { LevelWaiting, UnitWaiting, useSavedCheckWords } from '../outbox/Waiting';
 import { LevelPlanLink } from '../plans/PlanPinLink';
@@ -25,6 +26,7 @@ import { EmptyState, ErrorState, LoadingState } from '../ui/States';
 import { FinishWalk } from './FinishWalk';
 import { UnitStateBadge } from './UnitStateBadge';
 import { WalkFilters } from './WalkFilters';
+import { AuditUnitMark } from '../audits/AuditUnitMark';
 
 
 
@@ -53,7 +55,8 @@ export function LevelWalkScreen({
           ← All levels
         </AppText>
       </Link>
-      {job.isError || levels.isError ? (
+      {/* Only a first load that failed: a refetch failing with no signal keeps what was shown. */}
+      {job.isLoadingError || levels.isLoadingError ? (
         job.error instanceof ApiError && job.error.status === 404 ? (
           <EmptyState title="Job not found" body="This job does not exist, or you are not a member of it." testID="job-not-found" />
         ) : (
@@ -133,7 +136,7 @@ function LevelWalkBody({
       <WalkFilters value={filters} onChange={onFiltersChange} spaces={spaces.data ?? []} systems={systems.data ?? []} />
       {units.isPending ? (
         <LoadingState label="Loading the units…" />
-      ) : units.isError ? (
+      ) : units.isLoadingError ? (
         <ErrorState message={units.error.message} onRetry={() => units.refetch()} />
       ) : rows.length === 0 ? (
         <EmptyState
@@ -149,7 +152,7 @@ function LevelWalkBody({
             </AppText>
           ) : null}
           {rows.map((u) => (
-            <UnitRow key={u.id} jobId={job.id} unit={u} />
+            <UnitRow key={u.id} jobId={job.id} levelId={levelId} unit={u} />
           ))}
           {units.hasNextPage ? (
             <Button label="Load more units" tone="secondary" testID="level-walk-more" busy={units.isFetchingNextPage} onPress={() => units.fetchNextPage()} />
@@ -211,18 +214,18 @@ function WalkBanner({ job, levelId }: { job: JobDetail; levelId: string }) {
   return (
     <View style={styles.walk} testID="walk-open">
       <AppText style={styles.walkText}>
-        Your walk started {formatWhen(open.data.startedAt, job.timeZone)} · {open.data.checkCount} unit check{open.data.checkCount === 1 ? '' : 's'}
+        Your walk started {formatWhen(open.data.startedAt, job.timeZone)} · {walkProgress(open.data)}
       </AppText>
       <FinishWalk job={job} walk={open.data} />
     </View>
   );
 }
 
-function UnitRow({ jobId, unit }: { jobId: string; unit: WalkUnitDto }) {
+function UnitRow({ jobId, levelId, unit }: { jobId: string; levelId: string; unit: WalkUnitDto }) {
   const where = [unit.spaceName, unit.systemName].filter(Boolean).join(' · ');
   return (
     <Link href={links.unitCheck(jobId, unit.id)} asChild>
-      <Pressable style={styles.row} testID={`walk-unit-${unit.tag}`} accessibilityRole="link" accessibilityLabel={`Unit ${unit.tag}`}>
+      <Pressable style={styles.row} testID={`walk-unit-${unit.tag}`} accessibilityRole="link">
         <View style={styles.rowMain}>
           <AppText variant="heading">{unit.tag}</AppText>
           <AppText variant="small" muted numberOfLines={1}>
@@ -231,6 +234,7 @@ function UnitRow({ jobId, unit }: { jobId: string; unit: WalkUnitDto }) {
           </AppText>
           <UnitStateBadge state={unit.state} openFindings={unit.openFindings} worstSeverity={unit.worstSeverity} testID={`walk-unit-${unit.tag}-state`} />
           <UnitWaiting jobId={jobId} unitId={unit.id} testID={`walk-unit-${unit.tag}-waiting`} />
+          <AuditUnitMark jobId={jobId} levelId={levelId} unitId={unit.id} testID={`walk-unit-${unit.tag}-audit`} />
         </View>
         <AppText variant="title" style={{ color: colors.spruce }} aria-hidden>
           ›

@@ -33,6 +33,8 @@ import { CheckItemRow } from './CheckItemRow';
 import { confirmLeave, useLeaveGuard } from './leaveGuard';
 import { InspectorsOnly } from './LevelWalkScreen';
 import { limitResolverFor, measure } from './measure';
+import { ExportLink } from '../exports/ExportLink';
+import { reportUrls } from '../reports/reportUrls';
 import { UnitStateBadge } from './UnitStateBadge';
 import { nextUnitAfter, useUnresolvedFindingsQuery, useWalkOrderQuery } from './walkData';
 import { usePointerWords } from '../ui/usePointerWords';
@@ -82,7 +84,7 @@ export function UnitCheckScreen({ jobId, unitId, saved }: { jobId: string; unitI
   const unresolved = useUnresolvedFindingsQuery(jobId, unitId);
   const session = useSessionQuery();
   const inspector = job.data?.role !== 'subcontractor';
-  const failed = !inspector ? undefined : [job, checks, record, catalogue, unresolved].find((q) => q.isError);
+  const failed = !inspector ? undefined : [job, checks, record, catalogue, unresolved].find((q) => q.isLoadingError);
   const notFound = failed?.error instanceof ApiError && failed.error.status === 404;
   const frame = (children: ReactNode, bar?: ReactNode) => <CheckFrame bar={bar}>{children}</CheckFrame>;
   if (job.data && !inspector) return frame(<InspectorsOnly jobId={jobId} />);
@@ -436,7 +438,10 @@ function UnitCheckBody({
                 style={styles.confirmText}
               >
                 <AppText variant="small" style={{ color: colors.good }}>
-                  ✓ {confirmation.text}
+                  <AppText aria-hidden style={{ color: colors.good }}>
+                    ✓{' '}
+                  </AppText>
+                  {confirmation.text}
                 </AppText>
               </Pressable>
               <Pressable accessibilityRole="button" aria-label="Close the confirmation" testID="unit-check-confirmation-close" onPress={() => setConfirmation(null)} style={styles.close}>
@@ -504,7 +509,7 @@ function UnitCheckBody({
       ) : null}
       {offer ? (
         <Card testID="unit-check-draft-offer">
-          <AppText variant="heading" role="heading" testID="unit-check-draft-question">
+          <AppText variant="heading" role="heading" aria-level={2} testID="unit-check-draft-question">
             {`Continue the check of ${offer.data.unitTag} from ${draftTime(offer.savedAt, job.timeZone)}?`}
           </AppText>
           <AppText testID="unit-check-draft-summary">{draftSummary(offer.data, base)}</AppText>
@@ -539,18 +544,18 @@ function UnitCheckBody({
             <ScrollView horizontal contentContainerStyle={styles.jump} testID="unit-check-jump" accessibilityLabel="Sections">
               {groups.map((g) => {
                 const doneIn = g.items.filter((i) => marks[i.id]).length;
+                const shown = `${SHORT_GROUP[g.key] ?? g.label} ${doneIn}/${g.items.length}`;
                 return (
                   <Pressable
                     key={g.key}
                     accessibilityRole="button"
-                    aria-label={`Go to ${g.label}: ${doneIn} of ${g.items.length} marked`}
+                    // Starts with what the chip shows, so a speech user can say it.
+                    aria-label={`${shown}: go to ${g.label}, ${doneIn} of ${g.items.length} marked`}
                     testID={`unit-check-jump-${g.key}`}
                     onPress={() => scrollIntoView(sections.current[g.key], 'start')}
                     style={[styles.chip, doneIn === g.items.length ? styles.chipDone : null]}
                   >
-                    <AppText variant="label">
-                      {SHORT_GROUP[g.key] ?? g.label} {doneIn}/{g.items.length}
-                    </AppText>
+                    <AppText variant="label">{shown}</AppText>
                   </Pressable>
                 );
               })}
@@ -568,7 +573,7 @@ function UnitCheckBody({
           ) : null}
           {groups.map((g) => (
             <View key={g.key} ref={(n) => { sections.current[g.key] = n; }} style={styles.group} testID={`check-group-${g.key}`}>
-              <AppText variant="heading" role="heading" style={styles.groupTitle}>
+              <AppText variant="heading" role="heading" aria-level={2} style={styles.groupTitle}>
                 {g.label}
               </AppText>
               {g.items.map((item) => (
@@ -667,6 +672,8 @@ function Header({
       </AppText>
       <PlanPinLink jobId={job.id} levelId={unit.levelId} kind="unit" id={unit.id} pinned={unit.pinX !== null} canPlace={job.role === 'gc_manager'} testID="unit-plan-link" />
       <UnitStateBadge state={checks.unit.state} openFindings={checks.unit.openFindings} worstSeverity={checks.unit.worstSeverity} testID="unit-check-state" />
+      {/* The unit's whole history on paper: checks, findings, fixes and tests. */}
+      <ExportLink href={reportUrls.unitSheetPdf(job.id, unit.id)} label={`Unit sheet for ${unit.tag} (PDF)`} testID="unit-sheet" />
       {last ? (
         <AppText variant="small" muted testID="unit-check-last">
           {`Last checked ${formatWhen(last.checkedAt, job.timeZone)} by ${last.checkedBy.name}${last.complete ? '' : ' (not finished)'}. Its marks are filled in below.`}

@@ -31,7 +31,7 @@ export function WalkLevelsScreen({ jobId }: { jobId: string }) {
         </AppText>
         <AppText muted>Choose the level you are on. Each unit you check counts toward the level’s coverage, even when all is well.</AppText>
       </View>
-      {job.isError || levels.isError ? (
+      {job.isLoadingError || levels.isLoadingError ? (
         job.error instanceof ApiError && job.error.status === 404 ? (
           <EmptyState title="Job not found" body="This job does not exist, or you are not a member of it." testID="job-not-found" />
         ) : (
@@ -50,6 +50,11 @@ export function WalkLevelsScreen({ jobId }: { jobId: string }) {
           ))}
         </View>
       )}
+      {job.data?.role && job.data.role !== 'subcontractor' ? (
+        <Link href={links.scan(jobId)} asChild>
+          <Button label="Scan a unit" tone="secondary" testID="walk-levels-scan" />
+        </Link>
+      ) : null}
       <Link href={links.findings(jobId)} asChild>
         <Button label="All findings on this job" tone="secondary" testID="walk-levels-findings" />
       </Link>

@@ -6,7 +6,7 @@
 import type { Request } from 'express';
 import type { SessionResponse } from '../../shared/schemas/session';
 import { unauthorized } from '../errors';
-import { newCsrfToken } from '../middleware/csrf';
+import { carriesSecret, newCsrfToken } from '../middleware/csrf';
 import { presentUser } from '../presenters/session';
 import { jobsOf } from '../services/memberships';
 import { loadAuthUser } from './passport';
@@ -17,5 +17,6 @@ export async function signInAs(req: Request, userId: string): Promise<SessionRes
   await new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
   req.session.signedInAt = Date.now();
   req.session.csrfToken = newCsrfToken();
+  carriesSecret(req);
   return { user: presentUser(user), jobs: await jobsOf(user.id), csrfToken: req.session.csrfToken };
 }

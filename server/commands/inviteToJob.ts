@@ -5,7 +5,7 @@
  */
 import { fn, type Transaction } from 'sequelize';
 import type { InvitationCreateInput } from '../../shared/schemas/auth';
-import { badRequest, conflict } from '../errors';
+import { badRequest, conflict, HttpError, notFound } from '../errors';
 import type { MailService } from '../mail';
 import { invitationMail } from '../mail/messages';
 import { AuthToken, Company, JobCompany, JobMember, User, type Job } from '../models';
@@ -60,4 +60,40 @@ export async function inviteToJob(ctx: InviteToJobContext, input: InvitationCrea
   row.company = company;
   row.inviter = (await User.findByPk(actor.id, { transaction })) ?? undefined;
   return row;
+}
+
+/**
+ * Several invitations from a pasted list, all or none: the first person refused refuses the list,
+ * and the message and fields name that person's line (`people.2.email`).
+ */
+export async function inviteSeveral(ctx: InviteToJobContext, people: InvitationCreateInput[]): Promise<AuthToken[]> {
+  const rows: AuthToken[] = [];
+  for (const [i, person] of people.entries()) {
+    try {
+      rows.push(await inviteToJob(ctx, person));
+    } catch (err) {
+      if (!(err instanceof HttpError)) throw err;
+      const fields = Object.fromEntries(Object.entries(err.fields ?? { email: err.message }).map(([k, v]) => [`people.${i}.${k}`, v]));
+      throw new HttpError(err.status, err.id, `Line ${i + 1} (${person.email}): ${err.message} Nobody was invited.`, fields);
+    }
+  }
+  return rows;
+}
+
+/**
+ * Sends a pending invitation again: a new link (the old one dies), same address, role and company.
+ * An accepted, withdrawn or expired invitation is not pending: 409 (invite the person again instead).
+ */
+export async function resendInvitation(ctx: InviteToJobContext, invitationId: string): Promise<AuthToken> {
+  const row = await AuthToken.findOne({
+    where: { id: invitationId, jobId: ctx.scope.job.id, purpose: 'invitation' },
+    transaction: ctx.transaction,
+    lock: ctx.transaction.LOCK.UPDATE,
+  });
+  if (!row) throw notFound('Invitation not found.');
+  if (row.usedAt) throw conflict('That invitation was already accepted.', 'not_pending');
+  if (row.revokedAt || row.expiresAt.getTime() <= Date.now()) {
+    throw conflict('That invitation was withdrawn or has expired: invite the person again.', 'not_pending');
+  }
+  return inviteToJob(ctx, { email: row.email!, name: row.name ?? undefined, role: row.role!, companyId: row.companyId ?? undefined });
 }

@@ -19,6 +19,7 @@ import { checkDueOn } from '../services/dueOn';
 import { findingDetail } from '../services/findingQueries';
 import { photoRowValues } from '../services/photos';
 import { otherDefectType } from '../services/somethingElse';
+import { noCompanyForTrade } from '../../shared/rules/suggestedCompany';
 import { notifyCriticalAssignment, type CommandContext, type NewPhotos, type ReadContext } from './context';
 import { detailOf } from './findingWrites';
 
@@ -81,7 +82,7 @@ export async function checkNewFinding(ctx: ReadContext, job: Job, body: CreateFi
   const company = body.companyId ? await companyOnJob(sequelize, job.id, body.companyId) : await suggestCompany(sequelize, job.id, trade);
   if (!company) {
     if (body.companyId) refuse('companyId', 'That company is not on this job.');
-    refuse('companyId', `No company on this job covers the ${trade} trade; choose the responsible company.`);
+    refuse('companyId', noCompanyForTrade(trade));
   }
   if (body.walkId) {
     const walk = await Walk.findOne({ where: { id: body.walkId, jobId: job.id }, attributes: ['levelId'] });

@@ -53,3 +53,12 @@ export function csrfProtection(options: { secret: string; publicUrl?: string }):
     next();
   };
 }
+
+/**
+ * Marks the answer as carrying the CSRF token: it is sent uncompressed (server/app.ts), so its
+ * length never depends on the secret and on other content together (the BREACH attack on
+ * compressed HTTPS answers).
+ */
+export function carriesSecret(req: Request): void {
+  if (req.res) req.res.locals.carriesSecret = true;
+}

@@ -6,6 +6,7 @@ export const TEXT_CSV_PATHS: readonly RegExp[] = [/^\/jobs\/[^/]+\/units\/import
 /** Routes (paths relative to /api) that also take photos as multipart/form-data (server/middleware/upload.ts reads them). */
 export const MULTIPART_PATHS: readonly RegExp[] = [
   /^\/jobs\/[^/]+\/findings$/,
+  /^\/jobs\/[^/]+\/findings\/batch$/,
   /^\/jobs\/[^/]+\/findings\/[^/]+\/(fixes|photos|reinspections)$/,
   /^\/jobs\/[^/]+\/levels\/[^/]+\/plan$/,
   /^\/jobs\/[^/]+\/test-records$/,

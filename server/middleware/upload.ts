@@ -315,13 +315,16 @@ export interface UploadLimits {
 }
 
 /**
- * 60 uploads and 1,000 megapixels per person per 10 minutes: about 80 phone photos (12 MP), far
- * more than anyone photographs on a walk in that time, and a bound on the decoding work (about
- * a second of CPU per 40 MP) one account can ask for.
+ * 300 uploads and 2,000 megapixels per person per 10 minutes. A floor walked without signal is
+ * sent in one burst when the phone is back online, one request per finding or fix: a walk of 150
+ * findings with a photo or two each must go through in one sync, not stall on 429 half way (60
+ * did: the outbox then waited out the window). The app sends photos at most 2560 px on the long
+ * side (about 4.9 MP at 4:3), so 2,000 MP is about 400 photos; it bounds the decoding work one
+ * account can ask for (about a second of CPU per 40 MP, so under a minute per 10 minutes).
  */
 export const DEFAULT_UPLOAD_LIMITS: UploadLimits = {
-  requestsPerWindow: 60,
-  pixelsPerWindow: 1_000_000_000,
+  requestsPerWindow: 300,
+  pixelsPerWindow: 2_000_000_000,
   windowMs: 10 * 60 * 1000,
 };
 

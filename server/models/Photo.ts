@@ -7,7 +7,8 @@ import type { User } from './User';
 
 /**
  * A stored photo of a finding or a fix (bytes in object storage, see server/services/photos.ts).
- * Immutable once written: no updated_at, no version. finding_id / fix_id get their foreign keys
+ * Immutable once written (no updated_at, no version), but for `printKey`, which a report fills once
+ * for a photo stored before print copies were made. finding_id / fix_id get their foreign keys
  * from the findings and fixes migrations.
  */
 export class Photo extends Model<InferAttributes<Photo>, InferCreationAttributes<Photo>> {
@@ -16,6 +17,8 @@ export class Photo extends Model<InferAttributes<Photo>, InferCreationAttributes
   declare jobId: ForeignKey<Job['id']>;
   declare storageKey: string;
   declare thumbKey: string;
+  /** The print copy a report embeds (server/services/photos.ts PRINT_SIZE); null until one is made. */
+  declare printKey: CreationOptional<string | null>;
   declare contentType: string;
   declare sourceType: PhotoType;
   declare byteSize: number;
@@ -38,6 +41,7 @@ export class Photo extends Model<InferAttributes<Photo>, InferCreationAttributes
         jobId: { type: DataTypes.UUID, allowNull: false },
         storageKey: { type: DataTypes.STRING(200), allowNull: false },
         thumbKey: { type: DataTypes.STRING(200), allowNull: false },
+        printKey: { type: DataTypes.STRING(200), allowNull: true, defaultValue: null },
         contentType: { type: DataTypes.STRING(40), allowNull: false },
         sourceType: { type: DataTypes.STRING(40), allowNull: false },
         byteSize: { type: DataTypes.INTEGER, allowNull: false },

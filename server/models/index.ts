@@ -21,6 +21,8 @@ import { UnitCheck } from './UnitCheck';
 import { UnitCheckItem } from './UnitCheckItem';
 import { Walk } from './Walk';
 import { TestRecord } from './TestRecord';
+import { Audit } from './Audit';
+import { AuditUnit } from './AuditUnit';
 
 export { AuthToken, Company, Job, JobMember, User };
 export { CatalogueItem, Crew, JobCompany, Level, Space, SpaceLink, System, Unit, UnitModel };
@@ -28,6 +30,7 @@ export { Photo };
 export { Finding, FindingEvent, UnitCheck, UnitCheckItem, Walk };
 export { Fix };
 export { TestRecord };
+export { Audit, AuditUnit };
 
 export function initModels(sequelize: Sequelize) {
   Company.initModel(sequelize);
@@ -63,6 +66,9 @@ export function initModels(sequelize: Sequelize) {
   Fix.initModel(sequelize);
   // Test records (pressure, evacuation, charge, drain, start-up); their photos are photos rows.
   TestRecord.initModel(sequelize);
+  // Sampling audits: a frozen lot, its seeded draw and the sample (services/audits.ts).
+  Audit.initModel(sequelize);
+  AuditUnit.initModel(sequelize);
 
   return { Company, User, Job, JobMember, AuthToken, Level, Space, SpaceLink, System, UnitModel, Unit, JobCompany, CatalogueItem, Photo };
 }

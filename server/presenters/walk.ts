@@ -11,6 +11,9 @@ export interface WalkRow {
   started_at: Date;
   finished_at: Date | null;
   check_count: string | number;
+  units_checked: string | number;
+  units_in_progress: string | number;
+  finding_count: string | number;
   /** started_at with microseconds, for the cursor. */
   started_text: string;
 }
@@ -24,6 +27,9 @@ export function presentWalk(row: WalkRow): WalkDto {
     startedAt: new Date(row.started_at).toISOString(),
     finishedAt: row.finished_at ? new Date(row.finished_at).toISOString() : null,
     checkCount: Number(row.check_count),
+    unitsChecked: Number(row.units_checked),
+    unitsInProgress: Number(row.units_in_progress),
+    findingCount: Number(row.finding_count),
   };
 }
 

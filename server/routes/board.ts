@@ -1,6 +1,7 @@
 /**
  * The GC's view of a job. Definitions of every number: docs/api-board.md.
  * GET /jobs/:jobId/board         every role (subcontractor: their company's findings only)
+ * GET /jobs/:jobId/board/systems every role: each system's levels, refrigerant verdict and records start-up waits for
  * GET /jobs/:jobId/readiness     every role (subcontractor: blockers from their company only); ?levelId&systemId
  * GET /jobs/:jobId/scorecards    GC manager, inspector
  * GET /jobs/:jobId/recurring     every role (subcontractor: their company's findings only)
@@ -12,7 +13,7 @@ import { jobParamsSchema } from '../../shared/schemas/setup';
 import { notFound } from '../errors';
 import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
-import { loadBoard, loadReadiness, loadRecurring, loadScorecards, loadTrend } from '../services/board';
+import { loadBoard, loadFloorSystems, loadReadiness, loadRecurring, loadScorecards, loadTrend } from '../services/board';
 import { sequelizeOf } from '../services/records';
 
 const SCORECARD_ROLES = ['gc_manager', 'inspector'] as const;
@@ -22,6 +23,10 @@ export function boardRouter(): Router {
 
   router.get('/jobs/:jobId/board', policy.jobMember(), validate({ params: jobParamsSchema }), async (req, res) => {
     res.json(await loadBoard(sequelizeOf(req), req.scope!));
+  });
+
+  router.get('/jobs/:jobId/board/systems', policy.jobMember(), validate({ params: jobParamsSchema }), async (req, res) => {
+    res.json(await loadFloorSystems(sequelizeOf(req), req.scope!));
   });
 
   router.get('/jobs/:jobId/readiness', policy.jobMember(), validate({ params: jobParamsSchema, query: readinessQuerySchema }), async (req, res) => {

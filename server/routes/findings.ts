@@ -4,12 +4,17 @@
  * POST /jobs/:jobId/findings                   inspector, GC manager (Idempotency-Key); JSON, or multipart with
  *                                              a `data` field (the JSON) and up to 10 `photos` → 201 FindingDetail;
  *                                              an optional phone-made `id` (same id again → 200 that finding)
+ * POST /jobs/:jobId/findings/batch             inspector, GC manager (Idempotency-Key): one defect on many units of one
+ *                                              level, JSON or multipart (`data` + up to 10 `photos`, one per unit at
+ *                                              most) → 201 { items }; all or nothing (commands/logFindingBatch.ts)
  * GET  /jobs/:jobId/findings/:findingId        every role (subcontractor: own company, else 404); ETag
  * POST /jobs/:jobId/findings/:findingId/photos inspector, GC manager, while the finding is open (409 otherwise);
  *                                              multipart: `data` {note?} + 1–10 `photos`, at most 10 photos of the
  *                                              defect per finding (409 photo_limit); Idempotency-Key → 201 FindingDetail
  * GET  /jobs/:jobId/photos/:photoId            as the finding it belongs to
- * GET  /jobs/:jobId/photos/:photoId/thumb      as the finding it belongs to
+ * GET  /jobs/:jobId/photos/:photoId/thumb      as the finding it belongs to; both serve the flattened copy
+ *                                              while the photo has marks (routes/photoMarks.ts), `?original=1`
+ *                                              the photo as taken
  *
  * The write is server/commands/logFinding.ts. A finding and its photos are saved all or nothing:
  * every refusal first, then the photos are read and re-encoded (any bad file refuses the request
@@ -24,6 +29,7 @@ import { Router } from 'express';
 import type { z } from 'zod';
 import {
   addFindingPhotosSchema,
+  createFindingBatchSchema,
   createFindingSchema,
   findingListQuerySchema,
   findingParamsSchema,
@@ -32,6 +38,7 @@ import {
 } from '../../shared/schemas/findings';
 import { addFindingPhotos, checkAddPhotosTarget } from '../commands/addFindingPhotos';
 import { checkNewFinding, findingAlreadyLogged, logFinding } from '../commands/logFinding';
+import { checkFindingBatch, logFindingBatch } from '../commands/logFindingBatch';
 import { contextOf } from '../commands/context';
 import { badRequest, notFound } from '../errors';
 import { createUploadGuard, photosWithJsonData, uploadedFiles, type UploadGuard } from '../middleware/upload';
@@ -40,6 +47,8 @@ import { policy } from '../policies';
 import { findingDetail, findingFiltersOf, findingListOrder, listFindings, visiblePhoto } from '../services/findingQueries';
 import { alreadyAnswered, idempotentPhotoWrite, replayIfAnswered } from '../services/idempotency';
 import { pageRequest } from '../services/paging';
+import { photoServeQuerySchema } from '../../shared/schemas/photoMarks';
+import { servedPhoto } from '../services/photoMarks';
 import { processPhotos, sendPhoto } from '../services/photos';
 import { sequelizeOf } from '../services/records';
 import { setEtag } from '../services/versioning';
@@ -49,8 +58,10 @@ const WRITE_ROLES = ['gc_manager', 'inspector'] as const;
 
 type FindingListQuery = z.infer<typeof findingListQuerySchema>;
 type CreateFindingBody = z.infer<typeof createFindingSchema>;
+type CreateFindingBatchBody = z.infer<typeof createFindingBatchSchema>;
 type FindingParams = z.infer<typeof findingParamsSchema>;
 type PhotoParams = z.infer<typeof photoParamsSchema>;
+type PhotoServeQuery = z.infer<typeof photoServeQuerySchema>;
 type AddFindingPhotosBody = z.infer<typeof addFindingPhotosSchema>;
 
 const NEEDS_PHOTOS = 'Add at least one photo.';
@@ -112,6 +123,20 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
     });
   });
 
+  router.post('/jobs/:jobId/findings/batch', policy.jobMember(WRITE_ROLES), uploads.rate, multipartOrJson, validate({ body: createFindingBatchSchema }), async (req, res) => {
+    const body = valid<CreateFindingBatchBody>(req.valid.body);
+    if (await replayIfAnswered(req, res)) return;
+    const ctx = contextOf(req);
+    const files = uploadedFiles(req);
+    // Every unit's finding is checked before any photo is stored, as for one finding.
+    const checked = await checkFindingBatch(ctx, req.membership!.job, body, files.length);
+    const processed = files.length > 0 ? await processPhotos(files, { charge: (pixels) => uploads.chargePixels(ctx.actor.id, pixels) }) : [];
+    await idempotentPhotoWrite(req, res, { store, processed, log, what: 'of a replayed batch of findings' }, async (transaction, photos) => {
+      const items = await logFindingBatch({ ...ctx, transaction }, body, checked, photos);
+      return { status: 201, body: { items } };
+    });
+  });
+
   router.get('/jobs/:jobId/findings/:findingId', policy.jobMember(), validate({ params: findingParamsSchema }), async (req, res) => {
     const { findingId } = valid<FindingParams>(req.valid.params);
     const detail = await findingDetail(sequelizeOf(req), req.scope!, findingId);
@@ -150,10 +175,14 @@ export function findingsRouter(options: FindingsRouterOptions): Router {
     const { photoId } = valid<PhotoParams>(req.valid.params);
     const photo = await visiblePhoto(sequelizeOf(req), req.scope!, photoId);
     if (!photo) throw notFound('Photo not found.');
-    await sendPhoto(store, res, photo, variant);
+    // With marks, the flattened copy; `?original=1` the photo as taken (services/photoMarks.ts).
+    if (valid<PhotoServeQuery>(req.valid.query).original) return sendPhoto(store, res, photo, variant);
+    const served = await servedPhoto(sequelizeOf(req), photo);
+    await sendPhoto(store, res, served.photo, variant, { etag: served.etag });
   };
-  router.get('/jobs/:jobId/photos/:photoId', policy.jobMember(), validate({ params: photoParamsSchema }), servePhoto('full'));
-  router.get('/jobs/:jobId/photos/:photoId/thumb', policy.jobMember(), validate({ params: photoParamsSchema }), servePhoto('thumb'));
+  const photoValidation = validate({ params: photoParamsSchema, query: photoServeQuerySchema });
+  router.get('/jobs/:jobId/photos/:photoId', policy.jobMember(), photoValidation, servePhoto('full'));
+  router.get('/jobs/:jobId/photos/:photoId/thumb', policy.jobMember(), photoValidation, servePhoto('thumb'));
 
   return router;
 }

@@ -1,6 +1,8 @@
 /**
  * Invitations to a job, by mail.
  * POST   /api/jobs/:jobId/invitations                 GC manager: invite an address with a role and company
+ * POST   /api/jobs/:jobId/invitations/bulk            GC manager: { people: [{ email, role, companyId? }] }; all or none
+ * POST   /api/jobs/:jobId/invitations/:invitationId/resend  GC manager: a pending one again, with a new link
  * GET    /api/jobs/:jobId/invitations                 GC manager: the pending ones
  * DELETE /api/jobs/:jobId/invitations/:invitationId   GC manager: withdraw one
  * GET    /api/invitations/:token                      no session: what the link is for
@@ -13,15 +15,17 @@ import { rateLimit } from 'express-rate-limit';
 import type { z } from 'zod';
 import {
   invitationAcceptSchema,
+  invitationBulkSchema,
   invitationCreateSchema,
   invitationListQuerySchema,
   invitationParamsSchema,
+  invitationResendSchema,
   tokenParamsSchema,
 } from '../../shared/schemas/auth';
 import { jobParamsSchema } from '../../shared/schemas/setup';
 import { signInAs } from '../auth/establish';
 import { acceptInvitation } from '../commands/acceptInvitation';
-import { inviteToJob } from '../commands/inviteToJob';
+import { inviteSeveral, inviteToJob, resendInvitation } from '../commands/inviteToJob';
 import { tooManyRequests } from '../errors';
 import type { MailService } from '../mail';
 import { validate, valid } from '../middleware/validate';
@@ -68,6 +72,34 @@ export function invitationsRouter(options: InvitationRouteOptions): Router {
       await idempotentWrite(req, res, async (transaction) => {
         const row = await inviteToJob({ transaction, mail, scope: { job, companyId }, actor: req.user! }, input);
         return { status: 201, body: presentInvitation(row) };
+      });
+    },
+  );
+
+  router.post(
+    '/jobs/:jobId/invitations/bulk',
+    policy.jobMember(['gc_manager']),
+    validate({ params: jobParamsSchema, body: invitationBulkSchema }),
+    async (req, res) => {
+      const { people } = valid<z.infer<typeof invitationBulkSchema>>(req.valid.body);
+      const { job, companyId } = req.membership!;
+      await idempotentWrite(req, res, async (transaction) => {
+        const rows = await inviteSeveral({ transaction, mail, scope: { job, companyId }, actor: req.user! }, people);
+        return { status: 201, body: { items: rows.map(presentInvitation) } };
+      });
+    },
+  );
+
+  router.post(
+    '/jobs/:jobId/invitations/:invitationId/resend',
+    policy.jobMember(['gc_manager']),
+    validate({ params: invitationParamsSchema, body: invitationResendSchema }),
+    async (req, res) => {
+      const { invitationId } = valid<z.infer<typeof invitationParamsSchema>>(req.valid.params);
+      const { job, companyId } = req.membership!;
+      await idempotentWrite(req, res, async (transaction) => {
+        const row = await resendInvitation({ transaction, mail, scope: { job, companyId }, actor: req.user! }, invitationId);
+        return { status: 200, body: presentInvitation(row) };
       });
     },
   );

@@ -3,18 +3,19 @@
  * GET    /jobs/:jobId/levels                  all roles
  * POST   /jobs/:jobId/levels                  GC manager (Idempotency-Key); appended last
  * POST   /jobs/:jobId/levels/order            GC manager; { levelIds: every id, new order }
+ * POST   /jobs/:jobId/levels/bulk             GC manager (Idempotency-Key); { names } pasted one per line, appended last; all or none
  * PATCH  /jobs/:jobId/levels/:levelId         GC manager (If-Match); rename
  * DELETE /jobs/:jobId/levels/:levelId         GC manager (If-Match); 409 while spaces or units are on it
  * Reads and writes: server/services/levels.ts.
  */
 import { Router } from 'express';
 import type { z } from 'zod';
-import { createLevelSchema, levelListQuerySchema, levelParamsSchema, reorderLevelsSchema, updateLevelSchema } from '../../shared/schemas/setup';
+import { bulkLevelsSchema, createLevelSchema, levelListQuerySchema, levelParamsSchema, reorderLevelsSchema, updateLevelSchema } from '../../shared/schemas/setup';
 import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
 import { presentLevel } from '../presenters/level';
 import { idempotentWrite } from '../services/idempotency';
-import { createLevel, deleteLevel, levelDto, listLevels, renameLevel, reorderLevels } from '../services/levels';
+import { createLevel, createLevels, deleteLevel, levelDto, listLevels, renameLevel, reorderLevels } from '../services/levels';
 import { pageRequest } from '../services/paging';
 import { inTransaction, setupWrite } from '../services/records';
 import { setEtag } from '../services/versioning';
@@ -33,6 +34,14 @@ export function levelsRouter(): Router {
       const level = await createLevel(setupWrite(req, transaction), body);
       setEtag(res, level.version);
       return { status: 201, body: presentLevel(level) };
+    });
+  });
+
+  router.post('/jobs/:jobId/levels/bulk', policy.jobMember(['gc_manager']), validate({ body: bulkLevelsSchema }), async (req, res) => {
+    const { names } = valid<z.infer<typeof bulkLevelsSchema>>(req.valid.body);
+    await idempotentWrite(req, res, async (transaction) => {
+      const levels = await createLevels(setupWrite(req, transaction), names);
+      return { status: 201, body: { items: levels.map((l) => presentLevel(l)) } };
     });
   });
 

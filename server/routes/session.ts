@@ -8,7 +8,7 @@ import type passport from 'passport';
 import { rateLimit } from 'express-rate-limit';
 import { signInSchema, type SessionResponse } from '../../shared/schemas/session';
 import { forbidden, tooManyRequests, unauthorized } from '../errors';
-import { expectedCsrfToken, newCsrfToken } from '../middleware/csrf';
+import { carriesSecret, expectedCsrfToken, newCsrfToken } from '../middleware/csrf';
 import { validate } from '../middleware/validate';
 import { policy } from '../policies';
 import type { AccountLimits } from '../services/rateLimitStore';
@@ -64,6 +64,7 @@ export function sessionRouter(options: SessionRouteOptions): Router {
 
   async function payload(req: Request): Promise<SessionResponse> {
     const csrfToken = expectedCsrfToken(req, options.csrfSecret);
+    carriesSecret(req);
     if (!req.user) return { user: null, jobs: [], csrfToken };
     return { user: presentUser(req.user), jobs: await jobsOf(req.user.id), csrfToken };
   }

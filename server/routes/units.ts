@@ -3,7 +3,11 @@
  * GET    /jobs/:jobId/units?levelId&spaceId&systemId&kind&q&limit&cursor   all roles
  * GET    /jobs/:jobId/units.csv?levelId&spaceId&systemId&kind&q            all roles; the register as CSV
  * POST   /jobs/:jobId/units                                                 GC manager (Idempotency-Key)
- * POST   /jobs/:jobId/units/import                                          GC manager; CSV (text/csv or JSON {csv, mapping, dryRun})
+ * POST   /jobs/:jobId/units/import                                          GC manager; CSV (text/csv or JSON {csv, mapping, dryRun,
+ *                                                                           kindValues, createPlaces, removeMissing, fileName})
+ * GET    /jobs/:jobId/units/imports                                         GC manager; the last 20 imports, each with whether it can be undone
+ * POST   /jobs/:jobId/units/imports/:importId/undo                          GC manager; 409 while a unit has a check or finding
+ * POST   /jobs/:jobId/units/delete { unitIds }                              GC manager; all or none, same rule
  * GET    /jobs/:jobId/units/:unitId                                         all roles
  * PATCH  /jobs/:jobId/units/:unitId                                         GC manager (If-Match); also pinX/pinY (plan pin)
  * DELETE /jobs/:jobId/units/:unitId                                         GC manager (If-Match)
@@ -13,7 +17,16 @@
  */
 import express, { Router } from 'express';
 import type { z } from 'zod';
-import { ceilingExclusionSchema, createUnitSchema, unitListQuerySchema, unitParamsSchema, updateUnitSchema } from '../../shared/schemas/setup';
+import {
+  bulkDeleteUnitsSchema,
+  ceilingExclusionSchema,
+  createUnitSchema,
+  unitImportParamsSchema,
+  undoImportSchema,
+  unitListQuerySchema,
+  unitParamsSchema,
+  updateUnitSchema,
+} from '../../shared/schemas/setup';
 import { excludeFromCeilingRule, liftCeilingExclusion, type CeilingExclusionContext } from '../commands/ceilingExclusion';
 import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
@@ -24,7 +37,8 @@ import { pageRequest } from '../services/paging';
 import { inTransaction, setupWrite } from '../services/records';
 import { exportUnits } from '../services/unitExport';
 import { importRequestOf, importUnitsOrRefuse } from '../services/unitImport';
-import { changeUnit, createUnit, deleteUnit, listUnits, loadUnit, unitsForExport } from '../services/units';
+import { listImports, undoImport } from '../services/unitImportRecords';
+import { changeUnit, createUnit, deleteUnit, deleteUnits, listUnits, loadUnit, unitsForExport } from '../services/units';
 import { setEtag } from '../services/versioning';
 
 /** The context of the ceiling-exclusion commands from a GC manager's request. */
@@ -78,9 +92,27 @@ export function unitsRouter(): Router {
   router.post('/jobs/:jobId/units/import', policy.jobMember(['gc_manager']), async (req, res) => {
     const options = importRequestOf(req.body, req.query);
     await idempotentWrite(req, res, async (transaction) => {
-      const report = await importUnitsOrRefuse(req.membership!.job.id, options, transaction);
+      const report = await importUnitsOrRefuse({ jobId: req.membership!.job.id, actorId: req.user!.id, transaction }, options);
       return { status: report.committed ? 201 : 200, body: report };
     });
+  });
+
+  router.get('/jobs/:jobId/units/imports', policy.jobMember(['gc_manager']), async (req, res) => {
+    res.json({ items: await listImports(req.membership!.job.id) });
+  });
+
+  router.post('/jobs/:jobId/units/imports/:importId/undo', policy.jobMember(['gc_manager']), validate({ params: unitImportParamsSchema, body: undoImportSchema }), async (req, res) => {
+    const { importId } = valid<z.infer<typeof unitImportParamsSchema>>(req.valid.params);
+    await idempotentWrite(req, res, async (transaction) => ({
+      status: 200,
+      body: await undoImport({ jobId: req.membership!.job.id, actorId: req.user!.id, transaction }, importId),
+    }));
+  });
+
+  // All or none; a unit with a check or a finding refuses the delete (409 units_in_use).
+  router.post('/jobs/:jobId/units/delete', policy.jobMember(['gc_manager']), validate({ body: bulkDeleteUnitsSchema }), async (req, res) => {
+    const { unitIds } = valid<z.infer<typeof bulkDeleteUnitsSchema>>(req.valid.body);
+    await idempotentWrite(req, res, async (transaction) => ({ status: 200, body: await deleteUnits(setupWrite(req, transaction), unitIds) }));
   });
 
   router.get('/jobs/:jobId/units/:unitId', policy.jobMember(), validate({ params: unitParamsSchema }), async (req, res) => {

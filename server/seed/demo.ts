@@ -10,6 +10,8 @@ import { seedDemoFindings } from './demoFindings';
 import { seedDemoFixPhotos } from './demoPhotos';
 import { seedDemoCrews } from './demoCrews';
 import { seedDemoTests } from './demoTests';
+import { seedDemoAudits } from './demoAudits';
+import { seedDemoCopy } from './demoCopy';
 import type { ObjectStore } from '../storage/types';
 
 export { DEMO_COMPANY_TRADES, DEMO_MODELS, DEMO_SYSTEMS } from './demoSetup';
@@ -124,7 +126,11 @@ export async function seedDemo(db: Database, options: SeedDemoOptions = {}): Pro
       { gc: userIds['gc.manager']!, inspector: userIds.inspector!, mechanical: userIds.mechanical! },
       transaction,
     );
-    return setupCreated || crewsCreated || findingsCreated || testsCreated;
+    // Sampling audits: one accepted, one in progress.
+    const auditsCreated = await seedDemoAudits(db, ids.main!, { gc: userIds['gc.manager']!, inspector: userIds.inspector! }, transaction);
+    // The second building: a copy of the main job in set-up, its checklist partly done.
+    const copyCreated = await seedDemoCopy(db, ids.main!, { id: userIds['gc.manager']!, companyId: companies.gc }, transaction);
+    return setupCreated || crewsCreated || findingsCreated || testsCreated || auditsCreated || copyCreated;
   });
   // Photos after the rows are committed: stored like uploads (pending keys, claimed in their own
   // transaction), never inside the long seed transaction.

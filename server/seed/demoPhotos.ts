@@ -1,9 +1,9 @@
 /**
  * The demo's photos: simple drawn images of our own (a ceiling grid, the unit, a caption naming
  * the unit tag, the finding and what the photo shows), made with sharp at seed time. They go
- * through the same path as an upload: processPhoto (type from the bytes, re-encoded, thumbnail),
- * then withStoredPhotos (pending keys, the object store, rows written in one transaction that
- * claims them), so a demo photo is served, exported and reaped like any other.
+ * through the same path as an upload: processPhoto (type from the bytes, re-encoded, thumbnail and
+ * print copy), then withStoredPhotos (pending keys, the object store, rows written in one
+ * transaction that claims them), so a demo photo is served, printed, exported and reaped like any other.
  *
  * Deterministic: the same fix always gets the same picture. Only fixes without a photo get one,
  * so running it again adds nothing.

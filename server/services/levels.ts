@@ -105,3 +105,10 @@ export async function deleteLevel({ transaction, jobId, ifMatch }: SetupWrite, l
     { bind: [jobId, level.position], transaction },
   );
 }
+
+/** Several levels at once, appended last in the order given; a name the job has already refuses them all (409). */
+export async function createLevels(write: SetupWrite, names: string[]): Promise<Level[]> {
+  const created: Level[] = [];
+  for (const name of names) created.push(await createLevel(write, { name }));
+  return created;
+}

@@ -11,7 +11,8 @@
  *      rolled back with it;
  *   3. if the write fails, the caller deletes the objects and then `release(keys)`;
  *   4. `reapOrphanUploads` deletes, for every row older than PENDING_UPLOAD_MAX_AGE_MINUTES,
- *      the object (unless a photo row or a level's plan references its key) and then the row.
+ *      the object (unless a photo row, a photo's marks or a level's plan references its key:
+ *      keyReferencedSql) and then the row.
  *      It runs at server start and every REAP_INTERVAL_MINUTES (server/index.ts).
  * A write that reaches its transaction after the reaper took its keys finds its rows gone:
  * `claim` refuses it (the objects are deleted), so no row ever points to a reaped object. The
@@ -21,6 +22,16 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import { HttpError } from '../errors';
 import type { ObjectStore } from '../storage/types';
+
+/**
+ * SQL true when a committed row names the object `key` (an SQL expression): a photo (full,
+ * thumbnail or print copy), a photo's marked copy (full, thumbnail or print copy), or a level's plan.
+ */
+export function keyReferencedSql(key: string): string {
+  return `(EXISTS (SELECT 1 FROM photos WHERE storage_key = ${key} OR thumb_key = ${key} OR print_key = ${key})
+        OR EXISTS (SELECT 1 FROM photo_marks WHERE marked_key = ${key} OR marked_thumb_key = ${key} OR marked_print_key = ${key})
+        OR EXISTS (SELECT 1 FROM levels WHERE plan_key = ${key}))`;
+}
 
 /** A pending row this old belongs to a write that never committed (a real one takes seconds). */
 export const PENDING_UPLOAD_MAX_AGE_MINUTES = 30;
@@ -87,9 +98,7 @@ export async function reapOrphanUploads(
   for (;;) {
     const round = await sequelize.transaction(async (transaction) => {
       const rows = await sequelize.query<{ key: string; referenced: boolean }>(
-        `SELECT p.key,
-                EXISTS (SELECT 1 FROM photos WHERE storage_key = p.key OR thumb_key = p.key)
-                  OR EXISTS (SELECT 1 FROM levels WHERE plan_key = p.key) AS referenced
+        `SELECT p.key, ${keyReferencedSql('p.key')} AS referenced
            FROM pending_uploads p
           WHERE p.created_at < now() - make_interval(mins => $1)
           ORDER BY p.created_at

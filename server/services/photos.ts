@@ -10,7 +10,7 @@
  *      DECODE_CONCURRENCY decode slots. Nothing is stored before it returns.
  *   2. `withStoredPhotos(store, processed, work, { pending })`: records the keys it is about to
  *      write as pending uploads (server/services/pendingUploads.ts, committed first), stores
- *      every photo (full + thumbnail) under those fresh server-made keys, then runs
+ *      every photo (full + thumbnail + print copy) under those fresh server-made keys, then runs
  *      `work(stored, claim)`, which writes the finding and its `photos` rows in ONE database
  *      transaction and calls `claim(transaction)` in it (the pending rows go with the commit).
  *      If storing fails, or `work` throws (the transaction rolled back), every stored object is
@@ -35,7 +35,9 @@
  *   sharp's prebuilt libvips reads HEIF containers but has no HEVC decoder.
  * - EXIF orientation is applied (`.rotate()`), transparency is flattened onto white, the long
  *   edge is capped at FULL_MAX_EDGE, and the result is re-encoded as a fresh sRGB JPEG with no
- *   metadata at all (no EXIF, no GPS, no XMP, no ICC), plus a THUMB_EDGE thumbnail.
+ *   metadata at all (no EXIF, no GPS, no XMP, no ICC), plus a THUMB_EDGE thumbnail and a print
+ *   copy (`makePrintCopy`: the size of the largest box a report prints a photo in, at PRINT_DPI),
+ *   so a report reads a small JPEG and never decodes the full photo.
  */
 import { createHash, randomUUID } from 'node:crypto';
 import { open, readFile } from 'node:fs/promises';
@@ -66,6 +68,23 @@ export const FULL_MAX_EDGE = 4096;
 export const THUMB_EDGE = 320;
 export const FULL_JPEG_QUALITY = 85;
 export const THUMB_JPEG_QUALITY = 75;
+/** Resolution a report prints photos at: enough for a photo on paper, far below a phone's. */
+export const PRINT_DPI = 150;
+/** Pixels for `points` (1/72 in) printed at PRINT_DPI: points / 72 × 150. */
+export function pixelsFor(points: number): number {
+  return Math.round((points / 72) * PRINT_DPI);
+}
+/**
+ * The largest box, in points, a report prints a photo in: the close-out report's pair across the
+ * page (server/reports/closeOut.ts PHOTO_BOX: half of the 524 pt text width less the 14 pt gap, 4:3).
+ * The unit sheet's and the close-out report's three across (THIRD_BOX) are smaller; a test keeps
+ * them in step.
+ */
+export const PRINT_BOX_POINTS = { width: 255, height: 191.25 } as const;
+/** The print copy fits inside this many pixels: 531 × 398 (255 pt and 191.25 pt at 150 dpi). */
+export const PRINT_SIZE = { width: pixelsFor(PRINT_BOX_POINTS.width), height: pixelsFor(PRINT_BOX_POINTS.height) } as const;
+/** Plain for print: the photos are often printed in grey, where a higher quality shows nothing more. */
+export const PRINT_JPEG_QUALITY = 72;
 /** What every stored photo is. */
 export const PHOTO_CONTENT_TYPE = 'image/jpeg';
 /** Photos never change under an id: browsers may keep them, privately, for a day. */
@@ -79,6 +98,8 @@ export interface ProcessedPhoto {
   full: Buffer;
   /** The thumbnail (JPEG, long edge THUMB_EDGE or less). */
   thumb: Buffer;
+  /** The print copy (JPEG, inside PRINT_SIZE): what a report embeds. */
+  print: Buffer;
   /** Of `full`, after orientation. */
   width: number;
   height: number;
@@ -93,6 +114,7 @@ export interface StoredPhoto {
   id: string;
   key: string;
   thumbKey: string;
+  printKey: string;
   contentType: typeof PHOTO_CONTENT_TYPE;
   byteSize: number;
   width: number;
@@ -255,17 +277,34 @@ async function decodeHeic(buf: Buffer): Promise<RawImage> {
   }
 }
 
-async function encode(raw: RawImage): Promise<Pick<ProcessedPhoto, 'full' | 'thumb' | 'width' | 'height'>> {
+/** The print copy of an image: fitted inside PRINT_SIZE (never enlarged), plain JPEG, no metadata. */
+export function printCopyOf(image: sharp.Sharp): Promise<Buffer> {
+  return image
+    .resize({ width: PRINT_SIZE.width, height: PRINT_SIZE.height, fit: 'inside', withoutEnlargement: true })
+    .jpeg({ quality: PRINT_JPEG_QUALITY })
+    .toBuffer();
+}
+
+/**
+ * The print copy of a stored photo (a JPEG this module wrote: already upright, sRGB, no metadata),
+ * for photos stored before print copies were made. Throws when the bytes are not a readable image.
+ */
+export function makePrintCopy(stored: Buffer): Promise<Buffer> {
+  return printCopyOf(sharp(stored, { limitInputPixels: PHOTO_PIXEL_LIMIT, failOn: 'error' }).rotate());
+}
+
+async function encode(raw: RawImage): Promise<Pick<ProcessedPhoto, 'full' | 'thumb' | 'print' | 'width' | 'height'>> {
   const input = () => sharp(raw.data, { raw: raw.info });
   // No withMetadata()/keepExif(): sharp writes no EXIF, XMP or ICC into these JPEGs.
-  const [full, thumb] = await Promise.all([
+  const [full, thumb, print] = await Promise.all([
     input().jpeg({ quality: FULL_JPEG_QUALITY }).toBuffer(),
     input()
       .resize({ width: THUMB_EDGE, height: THUMB_EDGE, fit: 'inside', withoutEnlargement: true })
       .jpeg({ quality: THUMB_JPEG_QUALITY })
       .toBuffer(),
+    printCopyOf(input()),
   ]);
-  return { full, thumb, width: raw.info.width, height: raw.info.height };
+  return { full, thumb, print, width: raw.info.width, height: raw.info.height };
 }
 
 /**
@@ -392,17 +431,20 @@ export async function processPhotos(files: readonly PhotoInput[], options: Proce
 // Storage
 
 /** The object keys of a photo: server-made from its UUID, never from a client's file name. */
-export function photoKeys(id: string): { key: string; thumbKey: string } {
-  return { key: `photos/${id}.jpg`, thumbKey: `photos/${id}-thumb.jpg` };
-}
-
-/** Keys of stored photos (both variants), for removeStoredPhotos. */
-export function keysOf(photos: readonly { key: string; thumbKey: string }[]): string[] {
-  return photos.flatMap((p) => [p.key, p.thumbKey]);
+export function photoKeys(id: string): { key: string; thumbKey: string; printKey: string } {
+  return { key: `photos/${id}.jpg`, thumbKey: `photos/${id}-thumb.jpg`, printKey: `photos/${id}-print.jpg` };
 }
 
 /**
- * Stores each processed photo (full and thumbnail) under a fresh UUID (or the ids given, one per
+ * Keys of stored photos (every variant: full, thumbnail and print copy), for removeStoredPhotos.
+ * A photo stored before print copies were made may have none yet (null).
+ */
+export function keysOf(photos: readonly { key: string; thumbKey: string; printKey?: string | null }[]): string[] {
+  return photos.flatMap((p) => [p.key, p.thumbKey, ...(p.printKey ? [p.printKey] : [])]);
+}
+
+/**
+ * Stores each processed photo (full, thumbnail and print copy) under a fresh UUID (or the ids given, one per
  * photo). All or nothing: if any write fails, whatever this call wrote is deleted before the
  * error is rethrown.
  */
@@ -416,15 +458,18 @@ export async function storePhotos(
   try {
     for (const [i, photo] of processed.entries()) {
       const id = ids[i]!;
-      const { key, thumbKey } = photoKeys(id);
+      const { key, thumbKey, printKey } = photoKeys(id);
       written.push(key);
       await store.put(key, photo.full, PHOTO_CONTENT_TYPE);
       written.push(thumbKey);
       await store.put(thumbKey, photo.thumb, PHOTO_CONTENT_TYPE);
+      written.push(printKey);
+      await store.put(printKey, photo.print, PHOTO_CONTENT_TYPE);
       stored.push({
         id,
         key,
         thumbKey,
+        printKey,
         contentType: PHOTO_CONTENT_TYPE,
         byteSize: photo.full.length,
         width: photo.width,
@@ -450,6 +495,7 @@ export function photoRowValues(
     jobId: owner.jobId,
     storageKey: p.key,
     thumbKey: p.thumbKey,
+    printKey: p.printKey,
     contentType: p.contentType,
     sourceType: p.sourceType,
     byteSize: p.byteSize,
@@ -555,8 +601,14 @@ export async function sendPhoto(
   res: Response,
   photo: ServablePhoto,
   variant: 'full' | 'thumb',
+  options: { etag?: string } = {},
 ): Promise<void> {
   if (!UUID.test(photo.id)) throw notFound('Photo not found.');
+  // An address whose picture can change (marks drawn or cleared) is checked again on every use.
+  if (options.etag && res.req.get('if-none-match') === options.etag) {
+    res.status(304).set({ ETag: options.etag, 'Cache-Control': 'private, no-cache' }).end();
+    return;
+  }
   const object = await store.get(variant === 'thumb' ? photo.thumbKey : photo.storageKey);
   if (!object) throw notFound('Photo not found.');
   res.status(200).set({
@@ -564,7 +616,8 @@ export async function sendPhoto(
     'Content-Length': String(object.length),
     'X-Content-Type-Options': 'nosniff',
     'Content-Disposition': `inline; filename="${photo.id}${variant === 'thumb' ? '-thumb' : ''}.jpg"`,
-    'Cache-Control': `private, max-age=${PHOTO_MAX_AGE_SECONDS}`,
+    'Cache-Control': options.etag ? 'private, no-cache' : `private, max-age=${PHOTO_MAX_AGE_SECONDS}`,
+    ...(options.etag ? { ETag: options.etag } : {}),
   });
   try {
     await pipeline(object.body, res);

@@ -1,11 +1,11 @@
 /** Spaces of a job: reads and the writes of routes/spaces.ts (a space, its links, and its units' level). */
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import type { SpaceDto } from '../../shared/schemas/setup';
-import { badRequest, notFound } from '../errors';
+import { badRequest, conflict, notFound } from '../errors';
 import { Level, Space, SpaceLink, Unit } from '../models';
 import { presentSpace } from '../presenters/space';
 import { afterCursor, finishPage, type PageRequest } from './paging';
-import { destroyOrConflict, lockVersioned, refuseIfReferenced, type SetupWrite } from './records';
+import { destroyOrConflict, lockJob, lockVersioned, refuseIfReferenced, type SetupWrite } from './records';
 
 /** Spaces with their level's name, their links and their unit counts. */
 export async function spaceDtos(spaces: Space[], transaction?: Transaction): Promise<SpaceDto[]> {
@@ -97,4 +97,26 @@ export async function deleteSpace({ transaction, jobId, ifMatch }: SetupWrite, s
   const units = await Unit.count({ where: { spaceId }, transaction });
   refuseIfReferenced(space.name, [[units, 'unit', 'units']], 'Move those units to another space (or clear their space) first.');
   await destroyOrConflict(space, transaction, space.name);
+}
+
+/**
+ * Several spaces on one level at once (names only), all or none: a name the level already has is
+ * refused (409 naming them), because an import matches spaces by name on their level.
+ */
+export async function createSpaces(
+  { transaction, jobId }: { transaction: Transaction; jobId: string },
+  levelId: string,
+  names: string[],
+  create: (input: { levelId: string; name: string }) => Promise<Space>,
+): Promise<Space[]> {
+  await lockJob(jobId, transaction);
+  const level = await requireLevel(jobId, levelId, transaction);
+  const taken = new Set((await Space.findAll({ where: { jobId, levelId }, attributes: ['name'], transaction })).map((s) => s.name.trim().toLowerCase()));
+  const clashes = names.filter((n) => taken.has(n.trim().toLowerCase()));
+  if (clashes.length > 0) {
+    throw conflict(`${level.name} already has ${clashes.map((n) => `"${n}"`).join(', ')}: nothing was added. Leave ${clashes.length === 1 ? 'it' : 'them'} out and paste again.`, 'duplicate');
+  }
+  const created: Space[] = [];
+  for (const name of names) created.push(await create({ levelId, name }));
+  return created;
 }

@@ -1,8 +1,8 @@
 /**
  * An exact in-process cache for the job's heavy figures (recurring defects, the history part of
- * the company scorecards, the trend's past days). Each figure names the topics it depends on;
- * triggers raise a topic's version in the same transaction as any change that can alter it
- * (migration 20261202010100, table job_stat_versions). A figure is kept with the versions read
+ * the company scorecards, the trend's past days, readiness). Each figure names the topics it
+ * depends on; triggers raise a topic's version in the same transaction as any change that can
+ * alter it (migrations 20261202010100 and 20261203220000, table job_stat_versions). A figure is kept with the versions read
  * BEFORE it was computed and served again only while they are the same, so it is never older
  * than the versions say: a change committed before the read raised a version, and a change
  * committed during the computation at worst makes the entry fresher than its versions.
@@ -14,10 +14,13 @@
 import { AsyncLocalStorage } from 'node:async_hooks';
 import { QueryTypes, type Sequelize } from 'sequelize';
 
-export type StatTopic = 'structure' | 'shape' | 'moved' | 'unresolved' | 'history' | 'past';
+export type StatTopic = 'structure' | 'shape' | 'moved' | 'unresolved' | 'history' | 'past' | 'blockers' | 'tests';
 
-/** Entries kept (least recently used go first): a few figures per job and scope. */
-const MAX_ENTRIES = 500;
+/**
+ * Entries kept (least recently used go first): a few figures per job and scope, and readiness per
+ * scope and level (the bench job: 21 scopes x 21 answers besides the other figures).
+ */
+const MAX_ENTRIES = 1500;
 
 interface Entry {
   stamp: string;

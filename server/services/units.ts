@@ -13,6 +13,7 @@ import { optionalQuantity } from './quantities';
 import { destroyOrConflict, likeContains, lockVersioned, type SetupWrite } from './records';
 import { crewOfJob } from './crews';
 import { recordUnitEvent } from './unitEvents';
+import { tagList, unitIdsInUse } from './unitImportRecords';
 import { isCeilingUnitKind } from '../../shared/rules/ceilings';
 
 export const UNIT_INCLUDES = [
@@ -215,4 +216,24 @@ export async function deleteUnit({ transaction, jobId, ifMatch }: SetupWrite, un
     presentUnit(await loadUnit(jobId, u.id, transaction)),
   );
   await destroyOrConflict(unit, transaction, `Unit ${unit.tag}`);
+}
+
+/**
+ * Deletes several units at once, all or none: a unit with a unit check or a finding is evidence,
+ * so any such unit refuses the whole delete (409 naming them); a unit not in the job is 404.
+ */
+export async function deleteUnits({ transaction, jobId }: SetupWrite, unitIds: string[]): Promise<{ deleted: number }> {
+  const ids = [...new Set(unitIds)];
+  const units = await Unit.findAll({ where: { id: { [Op.in]: ids }, jobId }, lock: transaction.LOCK.UPDATE, transaction });
+  if (units.length !== ids.length) throw notFound(`${ids.length - units.length} of the chosen units ${ids.length - units.length === 1 ? 'is' : 'are'} not in this job.`);
+  const inUse = await unitIdsInUse(ids, transaction);
+  if (inUse.size > 0) {
+    const tags = units.filter((u) => inUse.has(u.id)).map((u) => u.tag);
+    throw conflict(
+      `${tagList(tags)} ${tags.length === 1 ? 'has' : 'have'} a unit check or a finding: those are kept as evidence, so nothing was deleted. Leave ${tags.length === 1 ? 'it' : 'them'} out and delete the rest.`,
+      'units_in_use',
+    );
+  }
+  for (const unit of units) await destroyOrConflict(unit, transaction, `Unit ${unit.tag}`);
+  return { deleted: units.length };
 }

@@ -24,7 +24,17 @@ const WALK_SELECT = `
   SELECT w.id, w.level_id, l.name AS level_name, w.inspector_id, u.name AS inspector_name,
          w.started_at, w.finished_at,
          to_char(w.started_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"') AS started_text,
-         (SELECT count(*) FROM unit_checks uc WHERE uc.walk_id = w.id) AS check_count
+         (SELECT count(*) FROM unit_checks uc WHERE uc.walk_id = w.id) AS check_count,
+         (SELECT count(DISTINCT uc.unit_id) FROM unit_checks uc WHERE uc.walk_id = w.id AND uc.complete) AS units_checked,
+         -- Units the walk touched (a check saved unfinished, or a finding logged on them) without a complete check in it.
+         (SELECT count(*) FROM (
+             SELECT uc.unit_id FROM unit_checks uc WHERE uc.walk_id = w.id
+             UNION
+             SELECT f.unit_id FROM findings f WHERE f.walk_id = w.id AND f.unit_id IS NOT NULL AND f.status <> 'voided'
+           ) touched
+           WHERE NOT EXISTS (SELECT 1 FROM unit_checks done WHERE done.walk_id = w.id AND done.unit_id = touched.unit_id AND done.complete)
+         ) AS units_in_progress,
+         (SELECT count(*) FROM findings f WHERE f.walk_id = w.id AND f.status <> 'voided') AS finding_count
     FROM walks w JOIN levels l ON l.id = w.level_id JOIN users u ON u.id = w.inspector_id`;
 
 /** One walk with its level's coverage and the units completed in it, or null. */

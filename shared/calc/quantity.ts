@@ -405,7 +405,8 @@ function scanUnit(s: string): { unit: UnitDef; length: number } | null {
  * Parse a quantity typed the way the trade writes it. Rejections say why.
  * Accepted, for example: `4' 10-1/2"`, `4'-10 1/2"`, `4 ft 10.5 in`, `58.5"`, `58 1/2 in`, `3/8"`,
  * `1486 mm`, `1.486 m`, `38 lb`, `12 lb 6 oz`, `17.2 kg`, `3 tons`, `36,000 Btu/h`, `36 MBH`,
- * `10.5 kW`, `1/8 in/ft`, `1/8" per ft`, `1%`, `1:100`, `30°`, `yes`/`no`.
+ * `10.5 kW`, `1/8 in/ft`, `1/8" per ft`, `1%`, `1:100`, `30°`, `yes`/`no`; a length also as a tilt across a
+ * width: `1° across 840 mm`, `1:100 over 32 in`.
  */
 export function parseQuantity(text: string, expected: QuantityKind, options: ParseOptions = {}): ParseResult {
   if (typeof text !== 'string' || text.trim() === '') {
@@ -413,6 +414,10 @@ export function parseQuantity(text: string, expected: QuantityKind, options: Par
   }
   const original = text.trim();
   if (expected === 'boolean') return parseBoolean(original);
+  if (expected === 'length') {
+    const across = /^(.+?)\s+(?:across|over)\s+(.+)$/i.exec(original);
+    if (across) return parseTiltAcross(original, across[1] ?? '', across[2] ?? '', options);
+  }
 
   const s0 = normalise(original);
   if (/''/.test(s0)) {
@@ -444,6 +449,9 @@ export function parseQuantity(text: string, expected: QuantityKind, options: Par
     const rise = ratDec(ratio[1] ?? '0');
     const run = ratDec(ratio[2] ?? '0');
     if (run.n === 0n) return fail(`Zero run in "${original}": a ratio cannot divide by zero.`);
+    if (expected === 'length') {
+      return fail(`"${original}" is a slope: a height difference stated that way needs the width it applies across, e.g. "1:100 across 840 mm".`);
+    }
     if (expected !== 'slope') {
       return fail(`"${original}" is a ratio (a slope), but ${KIND_WORDS[expected]} is expected (e.g. ${KIND_EXAMPLES[expected]}).`);
     }
@@ -516,6 +524,11 @@ export function parseQuantity(text: string, expected: QuantityKind, options: Par
       return fail(`"${original}" mixes ${KIND_WORDS[first.unit.kind]} (${first.unit.symbol}) and ${KIND_WORDS[t.unit.kind]} (${t.unit.symbol}).`);
     }
   }
+  if (expected === 'length' && (first.unit.kind === 'angle' || first.unit.kind === 'slope')) {
+    return fail(
+      `"${original}" is ${KIND_WORDS[first.unit.kind]}: a height difference stated that way needs the width it applies across, e.g. "${first.unit.kind === 'angle' ? '1°' : '1:100'} across 840 mm".`,
+    );
+  }
   if (first.unit.kind !== expected) {
     return fail(
       `"${original}" is ${KIND_WORDS[first.unit.kind]} (${first.unit.symbol}), but ${KIND_WORDS[expected]} is expected here (e.g. ${KIND_EXAMPLES[expected]}).`,
@@ -542,6 +555,27 @@ export function parseQuantity(text: string, expected: QuantityKind, options: Par
   const value = signed(rationalToNumber(total), negative);
   const system: UnitSystem = options.system ?? (first.unit.system === 'metric' ? 'metric' : 'imperial');
   return { ok: true, value, kind: expected, display: formatQuantity(value, expected, system) };
+}
+
+/**
+ * A height difference stated as a tilt across a width ("1° across 840 mm", "1:100 over 32 in",
+ * "5 mm/m across 1.2 m"), as manuals state a level tolerance: width × tan(angle), or width × rise/run.
+ * No step is rounded; the result is a length like any other.
+ */
+function parseTiltAcross(original: string, tiltText: string, widthText: string, options: ParseOptions): ParseResult {
+  const width = parseQuantity(widthText, 'length', { system: options.system });
+  if (!width.ok) return fail(`In "${original}", the width after "across": ${width.error}`);
+  if (!(width.value > 0)) return fail(`In "${original}", the width after "across" must be more than zero.`);
+  const asAngle = /(°|\bdeg(rees?)?)\s*$/i.test(tiltText.trim());
+  const tilt = parseQuantity(tiltText, asAngle ? 'angle' : 'slope', { system: options.system });
+  if (!tilt.ok) {
+    return fail(`In "${original}", the tilt before "across" is not an angle (e.g. 1°) or a slope (e.g. 1:100, 1%, 1/8 in/ft): ${tilt.error}`);
+  }
+  if (asAngle && !(tilt.value < 45)) return fail(`In "${original}", a tilt of ${tilt.display} is not a level tolerance: type less than 45°.`);
+  const ratio = asAngle ? Math.tan((tilt.value * Math.PI) / 180) : tilt.value;
+  const value = ratio * width.value;
+  const system: UnitSystem = options.system ?? (/\b(mm|cm|m)\b/.test(widthText) ? 'metric' : 'imperial');
+  return { ok: true, value, kind: 'length', display: formatQuantity(value, 'length', system) };
 }
 
 function signed(v: number, negative: boolean): number {

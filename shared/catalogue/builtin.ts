@@ -110,6 +110,33 @@ const RELOCATE: Hazard[] = ['refrigerant', 'brazing', 'pressure', 'electrical', 
 // The catalogue
 // ---------------------------------------------------------------------------------------------
 
+/**
+ * One item per ducted kind: the external static pressure measured across the unit, judged against
+ * the model's rated range (what sets the low, high and very high static kinds apart).
+ */
+function staticRangeItem(code: string, kind: UnitKindKey, range: 'low' | 'high' | 'very high'): CatalogueItem {
+  return {
+    code,
+    group: 'controls',
+    title: `Static pressure outside the ${range} static range`,
+    description: `The external static pressure measured across the ${range}-static ducted unit is outside the range the model is rated for, or does not match the static pressure setting chosen for the duct design, so airflow is short and the coil may freeze or the fan overload.`,
+    unitKinds: [kind],
+    defaultSeverity: 'major',
+    trade: 'mechanical',
+    measuredRule: {
+      measure: 'External static pressure measured across the unit (supply less return, as the manual shows)',
+      quantity: 'pressure',
+      comparison: 'between',
+      limit: { from: 'model', key: 'min_external_static' },
+      upper: { from: 'model', key: 'max_external_static' },
+    },
+    fixGuidance:
+      "Measure the static pressure at the unit's supply and return as the manual shows, set the static pressure setting the duct design calls for, and where the reading stays outside the model's range, rework the ductwork.",
+    caution: caution('electrical', 'fan', 'overhead'),
+    needsCeilingAccess: true,
+  };
+}
+
 const ITEMS: CatalogueItem[] = [
   // ---- Mounting and hanging (MT) -----------------------------------------------------------
   {
@@ -1512,72 +1539,9 @@ const ITEMS: CatalogueItem[] = [
     caution: caution('electrical', 'overhead'),
     needsCeilingAccess: true,
   },
-  {
-    code: 'CT-04',
-    group: 'controls',
-    title: 'Static pressure outside the low static range',
-    description:
-      'The external static pressure measured across the low-static ducted unit is outside the range the model is rated for, or does not match the static pressure setting chosen for the duct design, so airflow is short and the coil may freeze or the fan overload.',
-    unitKinds: ['ducted_low'],
-    defaultSeverity: 'major',
-    trade: 'mechanical',
-    measuredRule: {
-      measure: 'External static pressure measured across the unit (supply less return, as the manual shows)',
-      quantity: 'pressure',
-      comparison: 'between',
-      // The model's rated range: what sets the low static kind apart from the other ducted kinds.
-      limit: { from: 'model', key: 'min_external_static' },
-      upper: { from: 'model', key: 'max_external_static' },
-    },
-    fixGuidance:
-      "Measure the static pressure at the unit's supply and return as the manual shows, set the static pressure setting the duct design calls for, and where the reading stays outside the model's range, rework the ductwork.",
-    caution: caution('electrical', 'fan', 'overhead'),
-    needsCeilingAccess: true,
-  },
-  {
-    code: 'CT-05',
-    group: 'controls',
-    title: 'Static pressure outside the high static range',
-    description:
-      'The external static pressure measured across the high-static ducted unit is outside the range the model is rated for, or does not match the static pressure setting chosen for the duct design, so airflow is short and the coil may freeze or the fan overload.',
-    unitKinds: ['ducted_high'],
-    defaultSeverity: 'major',
-    trade: 'mechanical',
-    measuredRule: {
-      measure: 'External static pressure measured across the unit (supply less return, as the manual shows)',
-      quantity: 'pressure',
-      comparison: 'between',
-      // The model's rated range: what sets the high static kind apart from the other ducted kinds.
-      limit: { from: 'model', key: 'min_external_static' },
-      upper: { from: 'model', key: 'max_external_static' },
-    },
-    fixGuidance:
-      "Measure the static pressure at the unit's supply and return as the manual shows, set the static pressure setting the duct design calls for, and where the reading stays outside the model's range, rework the ductwork.",
-    caution: caution('electrical', 'fan', 'overhead'),
-    needsCeilingAccess: true,
-  },
-  {
-    code: 'CT-06',
-    group: 'controls',
-    title: 'Static pressure outside the very high static range',
-    description:
-      'The external static pressure measured across the very high-static ducted unit is outside the range the model is rated for, or does not match the static pressure setting chosen for the duct design, so airflow is short and the coil may freeze or the fan overload.',
-    unitKinds: ['ducted_very_high'],
-    defaultSeverity: 'major',
-    trade: 'mechanical',
-    measuredRule: {
-      measure: 'External static pressure measured across the unit (supply less return, as the manual shows)',
-      quantity: 'pressure',
-      comparison: 'between',
-      // The model's rated range: what sets the very high static kind apart from the other ducted kinds.
-      limit: { from: 'model', key: 'min_external_static' },
-      upper: { from: 'model', key: 'max_external_static' },
-    },
-    fixGuidance:
-      "Measure the static pressure at the unit's supply and return as the manual shows, set the static pressure setting the duct design calls for, and where the reading stays outside the model's range, rework the ductwork.",
-    caution: caution('electrical', 'fan', 'overhead'),
-    needsCeilingAccess: true,
-  },
+  staticRangeItem('CT-04', 'ducted_low', 'low'),
+  staticRangeItem('CT-05', 'ducted_high', 'high'),
+  staticRangeItem('CT-06', 'ducted_very_high', 'very high'),
   {
     code: 'CT-07',
     group: 'controls',

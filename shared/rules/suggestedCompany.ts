@@ -18,6 +18,11 @@ export function compareCompanies(a: Pick<CompanyCandidate, 'id' | 'name'>, b: Pi
   return byName.compare(a.name, b.name) || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0);
 }
 
+/** Said when a finding names no company and none of the job's covers its trade (server and form alike). */
+export function noCompanyForTrade(trade: string): string {
+  return `No company on this job covers the ${trade} trade; choose the responsible company.`;
+}
+
 export function suggestedCompany<C extends CompanyCandidate>(companies: readonly C[], trade: string | undefined | null): C | undefined {
   if (!trade) return undefined;
   return companies.filter((c) => c.trades.includes(trade)).sort(compareCompanies)[0];

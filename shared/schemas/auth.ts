@@ -55,6 +55,40 @@ export const invitationCreateSchema = z
   });
 export type InvitationCreateInput = z.infer<typeof invitationCreateSchema>;
 
+/** POST /jobs/:jobId/invitations/bulk: several people from a pasted list (e-mail, role, company); all or none. */
+export const INVITATIONS_BULK_MAX = 50;
+export const invitationBulkSchema = z
+  .object({
+    people: z
+      .array(invitationCreateSchema, { error: 'Send the people as a list.' })
+      .min(1, 'Paste at least one person.')
+      .max(INVITATIONS_BULK_MAX, `At most ${INVITATIONS_BULK_MAX} people at once.`)
+      .superRefine((people, ctx) => {
+        for (const { index, message } of sameEmailTwice(people.map((p) => p.email))) ctx.addIssue({ code: 'custom', path: [index, 'email'], message });
+      }),
+  })
+  .strict();
+
+/**
+ * An address on two lines (any case): the later line, with both line numbers. Also called by the
+ * paste preview (shared/rules/pastedPeople.ts), which must say it while other lines are still wrong.
+ */
+export function sameEmailTwice(emails: readonly string[]): { index: number; message: string }[] {
+  const seen = new Map<string, number>();
+  const out: { index: number; message: string }[] = [];
+  emails.forEach((email, i) => {
+    const key = email.trim().toLowerCase();
+    const first = seen.get(key);
+    if (first !== undefined) out.push({ index: i, message: `${email} is on lines ${first + 1} and ${i + 1}.` });
+    else if (key !== '') seen.set(key, i);
+  });
+  return out;
+}
+export type InvitationBulkInput = z.infer<typeof invitationBulkSchema>;
+
+/** POST /invitations/:invitationId/resend takes no body: any key sent is refused. */
+export const invitationResendSchema = z.object({}).strict();
+
 export const invitationParamsSchema = z
   .object({ jobId: id('job id'), invitationId: id('invitation id') })
   .strict();

@@ -5,6 +5,7 @@
  *
  * Every path is under /api/jobs/:jobId:
  *   GET /board                     BoardResponse      (all roles; a subcontractor's counts cover only their company)
+ *   GET /board/systems             FloorSystemsResponse (all roles)
  *   GET /readiness?levelId&systemId ReadinessResponse (all roles)
  *   GET /scorecards                ScorecardsResponse (GC manager, inspector)
  *   GET /recurring                 RecurringResponse  (all roles; subcontractor: own company's rows)
@@ -91,6 +92,31 @@ export interface BoardResponse {
   today: string;
   /** Set (to the caller's company) when the counts cover only that company's findings: a subcontractor. */
   companyScope: string | null;
+}
+
+/**
+ * GET /board/systems: each refrigerant system with the levels its units are on, for the building
+ * view of the board (a system over its limit, or waiting for records, is shown on its floors).
+ */
+export interface FloorSystem {
+  systemId: string;
+  name: string;
+  /** Levels with at least one of its units. */
+  levelIds: string[];
+  /**
+   * The system page's refrigerant checks: `over_limit` when the concentration check or an A2L
+   * floor-area check fails; `within_limit` when the concentration check passes and no A2L check
+   * fails; `not_judged` otherwise (a charge, space size or limit not entered yet).
+   */
+  refrigerant: 'over_limit' | 'within_limit' | 'not_judged';
+  /** As on readiness: units ready, pressure test and evacuation passed, charge recorded. */
+  startupReady: boolean;
+  /** Test records start-up waits for (missing, failed or not witnessed): readiness lists them. */
+  recordsWaiting: number;
+}
+
+export interface FloorSystemsResponse {
+  systems: FloorSystem[];
 }
 
 // ---------------------------------------------------------------------------------------------

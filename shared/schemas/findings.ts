@@ -26,3 +26,4 @@ export * from './findings/change';
 export * from './findings/comments';
 export * from './findings/bulk';
 export * from './findings/inbox';
+export * from './findings/batch';

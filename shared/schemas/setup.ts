@@ -16,6 +16,7 @@ export * from './setup/common';
 export * from './setup/params';
 export * from './setup/limits';
 export * from './setup/jobs';
+export * from './setup/checklist';
 export * from './setup/levels';
 export * from './setup/spaces';
 export * from './setup/systems';

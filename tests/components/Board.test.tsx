@@ -13,9 +13,10 @@ import { ScorecardsScreen } from '../../components/board/ScorecardsScreen';
 import { DEFAULT_SCORECARD_SORT, nextSort, sortScorecards, type ScorecardSort } from '../../components/board/scorecardSort';
 import { niceTicks, trendSummary } from '../../components/board/TrendChart';
 import { boardCellFilters } from '../../components/board/counts';
+import { floorReadiness, floorSystemNotes, openBySeverity } from '../../components/board/floorWords';
 import { links } from '../../components/links';
 import { findingFiltersFromParams } from '../../components/findings/filterParams';
-import type { BoardResponse, CompanyScorecard, ReadinessResponse, RecurringResponse, TrendResponse } from '../../shared/schemas/board';
+import type { BoardResponse, CompanyScorecard, FloorSystem, ReadinessResponse, RecurringResponse, TrendResponse } from '../../shared/schemas/board';
 import type { Role } from '../../shared/words';
 import { renderWithQueries } from '../support/components';
 
@@ -154,6 +155,7 @@ function fakeApi(role: Role, over: Record<string, [number, unknown]> = {}) {
   const routes: Record<string, [number, unknown]> = {
     [`/api/jobs/${JOB}`]: [200, { id: JOB, name: 'Cinder Test', role, timeZone: 'UTC' }],
     [`/api/jobs/${JOB}/board`]: [200, BOARD],
+    [`/api/jobs/${JOB}/board/systems`]: [200, { systems: SYSTEMS }],
     [`/api/jobs/${JOB}/trend`]: [200, TREND],
     [`/api/jobs/${JOB}/trend?levelId=${L2}`]: [200, { ...TREND, levelId: L2 }],
     [`/api/jobs/${JOB}/recurring`]: [200, RECURRING],
@@ -170,11 +172,61 @@ function fakeApi(role: Role, over: Record<string, [number, unknown]> = {}) {
   return fn;
 }
 
+const S1 = '00000000-0000-4000-8000-0000000000f1';
+const S2 = '00000000-0000-4000-8000-0000000000f2';
+const SYSTEMS: FloorSystem[] = [
+  { systemId: S1, name: 'VRF-1', levelIds: [L1, L2], refrigerant: 'over_limit', startupReady: false, recordsWaiting: 2 },
+  { systemId: S2, name: 'VRF-2', levelIds: [L2], refrigerant: 'within_limit', startupReady: true, recordsWaiting: 0 },
+];
+
 function hrefOf(testID: string): string {
   return String(screen.getByTestId(testID).props.href);
 }
 
 const F = `/jobs/${JOB}/findings`;
+
+describe('the levels board as the building', () => {
+  it('stacks the floors roof on top, each with its coverage, open findings by severity, fixes waiting and readiness in words', async () => {
+    fakeApi('gc_manager');
+    renderWithQueries(<BoardScreen jobId={JOB} />);
+    const building = await screen.findByTestId('board-building');
+    expect(screen.queryByTestId('board-grid')).toBeNull();
+    const floors = within(building)
+      .getAllByTestId(/^floor-[^-]+(-[^-]+){4}$/)
+      .map((f) => f.props.testID);
+    expect(floors).toEqual([`floor-${L3}`, `floor-${L2}`, `floor-${L1}`]);
+    expect(screen.getByTestId(`floor-${L2}-coverage-bar`).props.accessibilityLabel).toBe('15 of 20 units checked (75%)');
+    expect(within(screen.getByTestId(`floor-${L2}-readiness`)).getByText(/2 blocking · 3 test records · 3 units to check/)).toBeTruthy();
+    expect(within(screen.getByTestId(`floor-${L1}-readiness`)).getByText(/ready to close ceilings/)).toBeTruthy();
+    expect(within(screen.getByTestId(`floor-${L3}-readiness`)).getByText(/not inspected yet/)).toBeTruthy();
+    // Open findings by severity, each a link to exactly those findings; fixes waiting for re-inspection beside them.
+    expect(hrefOf(`floor-${L2}-critical`)).toBe(`${F}?levelId=${L2}&status=open&severity=critical`);
+    expect(within(screen.getByTestId(`floor-${L2}-minor`)).getByText('1 minor')).toBeTruthy();
+    expect(within(screen.getByTestId(`floor-${L2}-waiting`)).getByText('2 fixes waiting')).toBeTruthy();
+    // A system over its refrigerant limit is named on every floor it serves, and links to its readiness.
+    expect(within(screen.getByTestId(`floor-${L1}-systems`)).getByText(/VRF-1: over its refrigerant limit/)).toBeTruthy();
+    expect(within(screen.getByTestId(`floor-${L2}-systems`)).getByText(/VRF-1: start-up waits for 2 test records/)).toBeTruthy();
+    expect(hrefOf(`floor-${L2}-system-${S1}-refrigerant`)).toBe(`/jobs/${JOB}/readiness?systemId=${S1}`);
+    expect(screen.queryByTestId(`floor-${L3}-systems`)).toBeNull();
+    // The table is one tap away.
+    expect(hrefOf('board-view-table')).toBe(`/jobs/${JOB}/board?view=table`);
+  });
+
+  it('words a floor from its counts (shared with the screen)', () => {
+    const row = BOARD.levels[0]!;
+    expect(floorReadiness(row)).toEqual({ words: '2 blocking · 3 test records · 3 units to check', tone: 'blocked' });
+    expect(floorReadiness({ ...row, ceilingBlockers: 0, ceilingTestBlockers: 0, ceilingUnitsUnchecked: 1 })).toEqual({ words: '1 unit to check', tone: 'waiting' });
+    expect(floorReadiness({ ...row, unitsTotal: 0 })).toEqual({ words: 'no units yet', tone: 'none' });
+    expect(floorReadiness(BOARD.levels[1]!)).toEqual({ words: 'ready to close ceilings', tone: 'ready' });
+    expect(openBySeverity({ open: 5, openCritical: 1, openMajor: 3 })).toEqual([
+      { severity: 'critical', count: 1 },
+      { severity: 'major', count: 3 },
+      { severity: 'minor', count: 1 },
+    ]);
+    expect(openBySeverity({ open: 0, openCritical: 0, openMajor: 0 })).toEqual([]);
+    expect(floorSystemNotes(SYSTEMS).map((n) => n.words)).toEqual(['VRF-1: over its refrigerant limit', 'VRF-1: start-up waits for 2 test records']);
+  });
+});
 
 describe('the levels board', () => {
   beforeEach(() => {
@@ -183,7 +235,7 @@ describe('the levels board', () => {
 
   it('shows a grid on a wide screen: levels in building order, then the totals', async () => {
     fakeApi('gc_manager');
-    renderWithQueries(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} view="table" />);
     const grid = await screen.findByTestId('board-grid');
     expect(screen.queryByTestId('board-cards')).toBeNull();
     const rows = within(grid)
@@ -208,7 +260,7 @@ describe('the levels board', () => {
 
   it('shows the partition on the grid: open + fix submitted + closed = total, overdue as a share of open', async () => {
     fakeApi('gc_manager');
-    renderWithQueries(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} view="table" />);
     const grid = await screen.findByTestId('board-grid');
     // No Overdue column beside the statuses; critical and major are captioned as parts of open.
     const heads = within(grid)
@@ -229,7 +281,7 @@ describe('the levels board', () => {
     }
     // Overdue under Open, as a share of the open findings, linked to the overdue list.
     expect(screen.getByTestId(`board-cell-${L2}-overdue`)).toHaveTextContent('2 of 5 overdue');
-    expect(screen.getByTestId(`board-cell-${L2}-overdue`).props.accessibilityLabel).toBe('2 of 5 open findings overdue on Level 2. Show the overdue findings.');
+    expect(screen.getByTestId(`board-cell-${L2}-overdue`).props.accessibilityLabel).toBe('2 of 5 overdue — open findings on Level 2. Show the overdue findings.');
     expect(hrefOf(`board-cell-${L2}-overdue`)).toBe(`${F}?levelId=${L2}&overdue=true`);
     expect(screen.getByTestId(`board-cell-${L1}-overdue`)).toHaveTextContent('0 of 2 overdue');
     expect(screen.getByTestId('board-cell-total-overdue')).toHaveTextContent('2 of 7 overdue');
@@ -243,7 +295,7 @@ describe('the levels board', () => {
   it('shows one card per level on a phone, totals first, with the same numbers', async () => {
     mockWide = false;
     fakeApi('gc_manager');
-    renderWithQueries(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} view="table" />);
     await screen.findByTestId('board-cards');
     expect(screen.queryByTestId('board-grid')).toBeNull();
     const cards = screen.getAllByTestId(/^board-card-/).map((c) => c.props.testID);
@@ -258,7 +310,7 @@ describe('the levels board', () => {
     expect(tiles).toEqual(['open', 'fixSubmitted', 'closed', 'total', 'overdue', 'openCritical', 'openMajor']);
     expect(within(screen.getByTestId(`board-cell-${L2}-total`)).getByText('11')).toBeTruthy();
     expect(screen.getByTestId(`board-of-open-${L2}`)).toHaveTextContent('Of the 5 open:2 of 5 overdue1 critical3 major');
-    expect(screen.getByTestId(`board-cell-${L2}-overdue`).props.accessibilityLabel).toBe('2 of 5 open findings overdue on Level 2. Show the overdue findings.');
+    expect(screen.getByTestId(`board-cell-${L2}-overdue`).props.accessibilityLabel).toBe('2 of 5 overdue — open findings on Level 2. Show the overdue findings.');
     expect(hrefOf(`board-cell-${L2}-overdue`)).toBe(`${F}?levelId=${L2}&overdue=true`);
     expect(within(screen.getByTestId('board-card-total')).getByTestId('board-cell-total-total')).toHaveTextContent('20');
     expect(screen.queryByTestId(`board-of-open-${L3}`)).toBeNull();
@@ -266,7 +318,7 @@ describe('the levels board', () => {
 
   it('links each count to the findings list filtered to what it counts', async () => {
     fakeApi('gc_manager');
-    renderWithQueries(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} view="table" />);
     await screen.findByTestId('board-grid');
     expect(hrefOf(`board-cell-${L2}-open`)).toBe(`${F}?levelId=${L2}&status=open`);
     expect(hrefOf(`board-cell-${L2}-openCritical`)).toBe(`${F}?levelId=${L2}&status=open&severity=critical`);
@@ -300,7 +352,7 @@ describe('the levels board', () => {
 
   it('gives a subcontractor no link to the scorecards', async () => {
     fakeApi('subcontractor');
-    renderWithQueries(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} view="table" />);
     await screen.findByTestId('board-grid');
     await screen.findByTestId('board-tabs-readiness');
     expect(screen.queryByTestId('board-tabs-scorecards')).toBeNull();
@@ -308,11 +360,11 @@ describe('the levels board', () => {
 
   it('says "no levels yet" for a job without levels, and shows the error with a retry', async () => {
     fakeApi('gc_manager', { [`/api/jobs/${JOB}/board`]: [200, { levels: [], totals: zero, today: '2026-11-30', companyScope: null }] });
-    const first = renderWithQueries(<BoardScreen jobId={JOB} />);
+    const first = renderWithQueries(<BoardScreen jobId={JOB} view="table" />);
     expect(await screen.findByTestId('board-empty')).toBeTruthy();
     first.unmount();
     fakeApi('gc_manager', { [`/api/jobs/${JOB}/board`]: [500, { error: { id: 'internal', message: 'Something went wrong.' } }] });
-    renderWithQueries(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} view="table" />);
     expect(await screen.findByText('Something went wrong.')).toBeTruthy();
   });
 });
@@ -325,7 +377,7 @@ describe('the trend chart', () => {
     );
     expect(trendSummary([])).toBe('Open findings: no days to show yet.');
     fakeApi('gc_manager');
-    renderWithQueries(<BoardScreen jobId={JOB} />);
+    renderWithQueries(<BoardScreen jobId={JOB} view="table" />);
     const summary = await screen.findByTestId('trend-summary');
     expect(summary.props.children).toBe(trendSummary(TREND.points));
     expect(screen.getByTestId('trend-chart').props['aria-label']).toBe(trendSummary(TREND.points));

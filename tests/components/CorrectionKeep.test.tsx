@@ -160,6 +160,19 @@ describe('what waits names the finding', () => {
     expect(describeWrite(write, '#12').label).toBe(words);
   });
 
+  it('names a test record and its witness, one record so the witness waits behind it', () => {
+    const RECORD = '00000000-0000-4000-8000-0000000000e1';
+    const record = describeWrite(newWrite({ method: 'POST', path: `/api/jobs/${JOB}/test-records`, body: { id: RECORD, kind: 'pressure' } }), 'Pressure test · VRF-1');
+    const witness = describeWrite(newWrite({ method: 'POST', path: `/api/jobs/${JOB}/test-records/${RECORD}/witness`, body: {} }), 'Pressure test · VRF-1');
+    expect(record).toMatchObject({ kind: 'test', label: 'Test record · Pressure test · VRF-1', record: `test:${RECORD}`, readPath: `/api/jobs/${JOB}/test-records/${RECORD}` });
+    expect(witness).toMatchObject({ kind: 'test', label: 'Witness of a test record · Pressure test · VRF-1', record: `test:${RECORD}` });
+  });
+
+  it('names one defect logged on many units by how many, not as a finding called "batch"', () => {
+    const write = newWrite({ method: 'POST', path: `/api/jobs/${JOB}/findings/batch`, body: { catalogueItemId: 'x', levelId: 'y', units: [{ unitId: 'a' }, { unitId: 'b' }] } });
+    expect(describeWrite(write)).toMatchObject({ kind: 'finding', label: 'Same defect on 2 units', record: null, readPath: null });
+  });
+
   it('a write on a finding made without a label is named by the finding the screens hold', async () => {
     setFindingLabelLookup((jobId, findingId) => (jobId === JOB && findingId === FINDING ? '#12' : undefined));
     await act(async () => release());

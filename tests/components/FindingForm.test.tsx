@@ -54,12 +54,12 @@ const ELEC = company('00000000-0000-4000-8000-0000000000d2', 'Bright Electric', 
 type Answer = { status: number; body?: unknown } | Error;
 
 /** jsdom has no fetch: lists answer from fixtures, each POST takes the next answer given. */
-function fakeApi(posts: Answer[]) {
+function fakeApi(posts: Answer[], companies: JobCompanyDto[] = [MECH, ELEC]) {
   const fn = jest.fn(async (path: string, init?: RequestInit) => {
     const method = init?.method ?? 'GET';
     let answer: Answer;
     if (method === 'GET' && path.includes('/catalogue')) answer = { status: 200, body: { items: [HANGER, LABEL], nextCursor: null } };
-    else if (method === 'GET' && path.includes('/companies')) answer = { status: 200, body: { items: [MECH, ELEC], nextCursor: null } };
+    else if (method === 'GET' && path.includes('/companies')) answer = { status: 200, body: { items: companies, nextCursor: null } };
     else answer = posts.shift() ?? { status: 500, body: {} };
     if (answer instanceof Error) throw answer;
     const { status, body } = answer;
@@ -160,6 +160,16 @@ describe('FindingForm', () => {
     fireEvent.changeText(screen.getByTestId('finding-form-due'), '2031-01-15');
     fireEvent.press(screen.getByTestId('finding-form-severity-critical'));
     expect(screen.getByTestId('finding-form-due').props.value).toBe('2031-01-15');
+  });
+
+  it('a defect type whose trade no company on the job covers, with no company chosen: said at the company, nothing sent or kept', async () => {
+    // LB-01 is of the electrical trade; this job's only company covers mechanical work.
+    const api = fakeApi([], [MECH]);
+    renderForm();
+    await chooseItem('LB-01 · Missing label (Labelling)');
+    fireEvent.press(screen.getByTestId('finding-form-submit'));
+    expect(await screen.findByText('No company on this job covers the electrical trade; choose the responsible company.')).toBeTruthy();
+    expect(api.sent()).toEqual([]);
   });
 
   it('puts the server’s field messages under their fields and its message above the button', async () => {

@@ -99,7 +99,7 @@ describe('ReinspectControls with a measurement', () => {
     expect(path).toBe(`/api/jobs/${JOB}/findings/${FINDING}/reinspections`);
     expect(init!.headers).toMatchObject({ 'If-Match': '"v4"' });
     expect(JSON.parse(String(init!.body))).toEqual({ verdict: 'accept', measuredText: '31 in' });
-    expect(screen.getByRole('button', { name: 'Accept the fix of #12' })).toBeTruthy();
+    expect(screen.getByRole('button', { name: 'Accept fix — #12' })).toBeTruthy();
   });
 
   it('needs a reason to return, and offers no measurement for a defect type without a rule', async () => {

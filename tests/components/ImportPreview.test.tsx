@@ -3,13 +3,16 @@
  * message, and the column guess the screen starts from.
  */
 import { render, screen, within } from '@testing-library/react-native';
-import { guessMapping, readHeader } from '../../components/setup/csvHeader';
+import { guessMapping, ignoredButNamed, readHeader } from '../../components/setup/csvHeader';
+import { KindValues, MissingPlaces, RevisionView } from '../../components/setup/ImportChoices';
+import { fireEvent } from '@testing-library/react-native';
 import { ImportReportView, PREVIEW_ROWS_SHOWN } from '../../components/setup/ImportReportView';
 import type { UnitImportReport } from '../../shared/schemas/setup';
 
 function report(overrides: Partial<UnitImportReport> = {}): UnitImportReport {
   const preview = Array.from({ length: 47 }, (_, i) => ({
     line: i + 2,
+    action: 'add' as const,
     tag: `IU-${100 + i}`,
     kind: 'cassette_4way' as const,
     modelName: null,
@@ -34,6 +37,11 @@ function report(overrides: Partial<UnitImportReport> = {}): UnitImportReport {
     ],
     preview,
     created: 0,
+    kindValues: [],
+    missingPlaces: { levels: [], spaces: [] },
+    placesCreated: false,
+    revision: { added: 47, changed: [], untouched: 0, notInFile: [], removed: 0 },
+    importId: null,
     ...overrides,
   };
 }
@@ -81,5 +89,67 @@ describe('column guess', () => {
     expect(guessMapping(headers)).toEqual({ 'Unit Tag': 'tag', Type: 'kind', Floor: 'level', Room: 'space', Model: 'model', Size: 'capacity' });
     expect(guessMapping(['Tag', 'Tag', 'Level'])).toEqual({ Tag: 'tag', Level: 'level' });
     expect(readHeader('')).toEqual([]);
+  });
+
+  it('reads the header of a semicolon- or tab-separated file the way the server reads the file', () => {
+    expect(readHeader('\uFEFFTag;Type;"Capacity; nominal (kW)";Level\r\nIU-1;Wall;2,5;Level 1\r\n')).toEqual(['Tag', 'Type', 'Capacity; nominal (kW)', 'Level']);
+    expect(readHeader('Tag\tType\tLevel\nIU-1\tWall\tLevel 1\n')).toEqual(['Tag', 'Type', 'Level']);
+  });
+});
+
+describe('schedules as they come', () => {
+  it('maps every header naming a capacity to capacity, and says so when such a column is ignored', () => {
+    const headers = ['Tag', 'Unit type', 'Capacity (Btu/h)', 'Floor', 'Room'];
+    const guess = guessMapping(headers);
+    expect(guess['Capacity (Btu/h)']).toBe('capacity');
+    expect(guessMapping(['Tag', 'Nominal cooling [MBH]'])).toEqual({ Tag: 'tag', 'Nominal cooling [MBH]': 'capacity' });
+    const { ['Capacity (Btu/h)']: _capacity, ...withoutCapacity } = guess;
+    expect(ignoredButNamed(headers, withoutCapacity)).toEqual([{ header: 'Capacity (Btu/h)', field: 'capacity' }]);
+    expect(ignoredButNamed(headers, guess)).toEqual([]);
+  });
+
+  it('lists the kinds in the file, the kinds Trimout knows, and asks for the ones it cannot read', () => {
+    const chosen: Array<[string, string | null]> = [];
+    render(
+      <KindValues
+        values={[
+          { value: '4-WAY CASSETTE', rows: 3, kind: 'cassette_4way', from: 'read' },
+          { value: 'Cassette', rows: 2, kind: null, from: null },
+        ]}
+        chosen={{}}
+        onChoose={(v, k) => chosen.push([v, k])}
+      />,
+    );
+    expect(screen.getByText(/Trimout's unit kinds: Ceiling cassette, four-way; .*Air-handler coil kit\./)).toBeTruthy();
+    expect(screen.getByText('Choose a unit kind for 1 value, then preview again.')).toBeTruthy();
+    expect(screen.getByText('3 rows · read from the words')).toBeTruthy();
+    expect(screen.getByText('2 rows · not sure what this is')).toBeTruthy();
+  });
+
+  it('lists the missing places with the tick that creates them, and the revision field by field', () => {
+    const ticks: boolean[] = [];
+    const r = report({
+      missingPlaces: { levels: ['Level 2'], spaces: [{ level: 'Level 2', space: 'Exam 201' }] },
+      revision: {
+        added: 1,
+        changed: [{ line: 2, tag: 'IU-1', fields: [{ field: 'capacity', from: 0.75 * 3516.8528420667, to: 3516.8528420667 }, { field: 'space', from: null, to: 'Office 101' }] }],
+        untouched: 3,
+        notInFile: [
+          { id: 'a', tag: 'IU-8', removable: true },
+          { id: 'b', tag: 'IU-9', removable: false },
+        ],
+        removed: 0,
+      },
+    });
+    render(<MissingPlaces report={r} create={false} onCreate={(on) => ticks.push(on)} />);
+    expect(screen.getByText('The file names 1 level and 1 space this job does not have yet')).toBeTruthy();
+    expect(screen.getByText('Spaces: Exam 201 (Level 2)')).toBeTruthy();
+    fireEvent.press(screen.getByTestId('import-create-places'));
+    expect(ticks).toEqual([true]);
+    render(<RevisionView report={r} unitSystem="imperial" removeMissing={false} onRemoveMissing={() => undefined} />);
+    expect(screen.getByText('Capacity: 9,000 Btu/h → 12,000 Btu/h')).toBeTruthy();
+    expect(screen.getByText('Space: — → Office 101')).toBeTruthy();
+    expect(screen.getByText('IU-9 has a unit check or a finding and always stays.')).toBeTruthy();
+    expect(screen.getByTestId('import-remove-missing')).toBeTruthy();
   });
 });

@@ -110,6 +110,26 @@ describe('outbox', () => {
     expect(box.snapshot().status).toBe('offline');
   });
 
+  it('a server that asks to wait (429) leaves its words on the write until it is tried again; a plain network failure leaves none', async () => {
+    const f = fake();
+    f.behave.set('/a', () => {
+      throw new ApiError(429, 'too_many_requests', 'Too many uploads: at most 300 in 10 minutes per person.');
+    });
+    const box = new Outbox('u1', f.deps);
+    await box.add(w('/a'), meta(null));
+    await box.sync();
+    let [kept] = await storage.list('u1');
+    expect(kept).toMatchObject({ state: 'waiting', attempts: 1, notBefore: f.clock.now + 2000, delay: { status: 429, message: 'Too many uploads: at most 300 in 10 minutes per person.' } });
+    f.behave.set('/a', () => {
+      throw offline();
+    });
+    f.clock.now += 2000;
+    await box.sync();
+    [kept] = await storage.list('u1');
+    expect(kept).toMatchObject({ state: 'waiting', attempts: 2 });
+    expect(kept!.delay).toBeUndefined();
+  });
+
   it('a write left "sending" by a reload is sent again on start with the same key', async () => {
     const f = fake();
     const first = new Outbox('u1', f.deps);

@@ -108,6 +108,33 @@ describe('a unit model’s limits', () => {
     expect(sent[0]!.body).toMatchObject({ name: 'Cassette 24', limits: { max_pump_lift: { value: '27-1/2 in', source: 'Installation manual, p. 12' } } });
     expect(Object.keys((sent[0]!.body as { limits: object }).limits)).toEqual(['max_pump_lift']);
   });
+
+  it('names the manual once: each limit sends it with its page, and a page with no manual is refused where it was typed', async () => {
+    const sent = fakeApi([{ status: 201, body: {} }]);
+    renderWithQueries(<ModelsScreen jobId={JOB} />);
+    fireEvent.press(await screen.findByTestId('model-add'));
+    fireEvent.changeText(screen.getByTestId('model-name-input'), 'Cassette 24');
+    fireEvent.changeText(screen.getByTestId('model-limit-max_pump_lift-value'), '27-1/2 in');
+    fireEvent.changeText(screen.getByTestId('model-limit-max_pump_lift-source'), '12');
+    fireEvent.changeText(screen.getByTestId('model-limit-max_level_deviation-value'), '1° across 840 mm');
+    fireEvent.changeText(screen.getByTestId('model-limit-min_clearance_top-value'), '10 in');
+    fireEvent.changeText(screen.getByTestId('model-limit-min_clearance_top-source'), 'Job specification 23 81 26, 2.4');
+    fireEvent.press(screen.getByTestId('model-submit'));
+    expect(within(await screen.findByTestId('model-limit-max_pump_lift-source-error')).getByText('Name the installation manual above: this page is in it.')).toBeTruthy();
+    expect(within(screen.getByTestId('model-limit-max_level_deviation-source-error')).getByText('Name the installation manual above, or type where this value came from.')).toBeTruthy();
+    expect(sent).toEqual([]);
+
+    fireEvent.changeText(screen.getByTestId('model-manual-input'), 'Cassette 24 installation manual, 2nd edition');
+    fireEvent.press(screen.getByTestId('model-submit'));
+    await waitFor(() => expect(sent).toHaveLength(1));
+    expect(sent[0]!.body).toMatchObject({
+      limits: {
+        max_pump_lift: { value: '27-1/2 in', source: 'Cassette 24 installation manual, 2nd edition, p. 12' },
+        max_level_deviation: { value: '1° across 840 mm', source: 'Cassette 24 installation manual, 2nd edition' },
+        min_clearance_top: { value: '10 in', source: 'Job specification 23 81 26, 2.4' },
+      },
+    });
+  });
 });
 
 describe('a unit model’s installation position', () => {

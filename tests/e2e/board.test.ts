@@ -81,6 +81,12 @@ describe('the levels board', () => {
     await page.getByTestId('job-board').waitFor();
     await h.screenshot(page, 'board-00-job-overview-wide');
     await page.getByTestId('job-board').click();
+    // The board opens as the building, roof on top; the table is one tap away.
+    await page.getByTestId('board-building').waitFor();
+    const floorIds = await page.locator('[data-testid^="floor-"][data-testid$="-readiness"]').evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')));
+    expect(floorIds).toEqual([...levels].reverse().map((l) => `floor-${l.id}-readiness`));
+    await h.screenshot(page, 'board-00b-building-wide');
+    await page.getByTestId('board-view-table').click();
     await page.getByTestId('board-grid').waitFor();
     expect(await page.getByTestId('board-cards').count()).toBe(0);
 
@@ -146,7 +152,7 @@ describe('the levels board', () => {
   it('shows one card per level at 390x844; a card’s count opens as many findings', async () => {
     const { page, problems } = await h.newPage(PHONE);
     await signIn(page, gc.email);
-    await page.goto(`${h.baseUrl}/jobs/${jobId}/board`);
+    await page.goto(`${h.baseUrl}/jobs/${jobId}/board?view=table`);
     await page.getByTestId('board-cards').waitFor();
     expect(await page.getByTestId('board-grid').count()).toBe(0);
     const cards = await page.locator('[data-testid^="board-card-"]').evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')));
@@ -175,6 +181,36 @@ describe('the levels board', () => {
     expect(await page.getByTestId('trend-chart').locator('svg').count()).toBe(1);
     await shotAt(page, 'trend', 'board-08-trend-phone');
     await shotAt(page, 'recurring', 'board-09-recurring-phone');
+    expect(problems).toEqual([]);
+  });
+
+  it('shows the building on a phone: each floor’s open findings by severity are as many as the database holds, and each opens them', async () => {
+    const { page, problems } = await h.newPage(PHONE);
+    await signIn(page, gc.email);
+    await page.goto(`${h.baseUrl}/jobs/${jobId}/board`);
+    await page.getByTestId('board-building').waitFor();
+    for (const l of levels) {
+      for (const severity of ['critical', 'major', 'minor'] as const) {
+        const n = await countFindings({ levelId: l.id, status: 'open', severity });
+        const shown = page.getByTestId(`floor-${l.id}-${severity}`);
+        if (n === 0) expect(await shown.count()).toBe(0);
+        else expect((await shown.innerText()).trim()).toBe(`${n} ${severity}`);
+      }
+      const waiting = await countFindings({ levelId: l.id, status: 'fix_submitted' });
+      if (waiting > 0) expect((await page.getByTestId(`floor-${l.id}-waiting`).innerText()).trim()).toBe(`${waiting} fix${waiting === 1 ? '' : 'es'} waiting`);
+    }
+    await h.screenshot(page, 'board-00c-building-phone');
+    // The first floor with open major findings: its count opens exactly those.
+    let level: Level | undefined;
+    let majors = 0;
+    for (const l of levels) {
+      const n = await countFindings({ levelId: l.id, status: 'open', severity: 'major' });
+      if (n > 0 && !level) [level, majors] = [l, n];
+    }
+    expect(level).toBeDefined();
+    await page.getByTestId(`floor-${level!.id}-major`).click();
+    await page.waitForURL(/severity=major/);
+    expect(await listTotal(page)).toBe(majors);
     expect(problems).toEqual([]);
   });
 
@@ -227,7 +263,7 @@ describe('the levels board', () => {
     const company = await Company.findOne({ where: { name: DEMO_COMPANIES.mechanical } });
     const { page, problems } = await h.newPage(PHONE);
     await signIn(page, mechanical.email);
-    await page.goto(`${h.baseUrl}/jobs/${jobId}/board`);
+    await page.goto(`${h.baseUrl}/jobs/${jobId}/board?view=table`);
     await page.getByTestId('board-cards').waitFor();
     await page.getByTestId('board-company-scope').waitFor();
     expect(await page.getByTestId('board-tabs-scorecards').count()).toBe(0);

@@ -178,7 +178,7 @@ describe.each([
 
   it('the board and the finding page say how long the fix has waited for the inspector', async () => {
     const { context, page, problems } = await open(viewport, w.gcManager.email);
-    await page.goto(`${h.baseUrl}/jobs/${w.job.id}/board`);
+    await page.goto(`${h.baseUrl}/jobs/${w.job.id}/board?view=table`);
     const waiting = page.getByTestId(`board-waiting-${w.level.id}`);
     await waiting.waitFor();
     if (size === 'wide') {

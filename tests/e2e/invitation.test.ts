@@ -5,9 +5,12 @@
  * - a GC new to Trimout signs up on a wide screen, confirms from the mail and lands on an empty
  *   job list with "Create your first job";
  * - "Forgot your password?" through to a new password;
+ * - a GC manager on a phone pastes three people at once, fixes the line the preview marks and the
+ *   line the server refuses, sees the three waiting, and sends one again (a new link; the old dies);
  * - the caught-mail page.
  */
-import { JobCompany } from '../../server/models';
+import { QueryTypes } from 'sequelize';
+import { AuthToken, JobCompany } from '../../server/models';
 import { PHONE, WIDE, startBrowserHarness, type BrowserHarness } from '../support/browser';
 import { addMember, buildCompany, buildJob, buildUser } from '../support/factories';
 import { linkTo, startFakeSmtp, type FakeSmtp } from '../support/mail';
@@ -98,6 +101,124 @@ it('a subcontractor opens the invitation on a phone, sets a password and lands o
   await h.screenshot(page, 'invitation-used-phone');
   // the browser logs the expected 410 of the used link; nothing else may go wrong
   expect(problems.filter((p) => !/status of 410/.test(p))).toEqual([]);
+  await page.context().close();
+});
+
+it('a GC manager on a phone pastes three people, fixes the wrong lines, sends them at once and sends one again', async () => {
+  const gcCompany = await buildCompany({ name: `Kestrel Row Builders ${uniq()}` });
+  const job = await buildJob({ ownerCompanyId: gcCompany.id, name: 'Marlow Quay Offices' });
+  const manager = await buildUser({ companyId: gcCompany.id, name: 'Odile Marsh' });
+  await addMember(job.id, manager.id, 'gc_manager');
+  const inspectorAlready = await buildUser({ companyId: gcCompany.id, name: 'Bram Oduya' });
+  await addMember(job.id, inspectorAlready.id, 'inspector');
+  const mechName = `Pinecrest Mechanical ${uniq()}`;
+  const mech = await buildCompany({ name: mechName });
+  await JobCompany.create({ jobId: job.id, companyId: mech.id, trades: ['mechanical'] });
+  const ana = `ana-${uniq()}@test.trimout.example`;
+  const lio = `lio-${uniq()}@test.trimout.example`;
+  const kai = `kai-${uniq()}@test.trimout.example`;
+
+  const { page, problems } = await h.newPage(PHONE);
+  await page.goto(`${h.baseUrl}/sign-in`);
+  await page.getByTestId('sign-in-email').fill(manager.email);
+  await page.getByTestId('sign-in-password').fill('correct horse battery staple');
+  await page.getByTestId('sign-in-submit').click();
+  await page.getByTestId('job-list').waitFor();
+  await page.goto(`${h.baseUrl}/jobs/${job.id}/setup/members`);
+  await page.getByTestId('invite-paste').waitFor({ timeout: 15_000 });
+  await page.getByTestId('invitations-empty').waitFor();
+
+  // Line 2 names the company short of its listed name: the preview marks that line before anything is sent.
+  const box = page.getByTestId('invite-paste-input');
+  await box.fill(`${ana}\tSubcontractor\t${mechName.toLowerCase()}\n${lio}, sub, Pinecrest Mech\n${inspectorAlready.email}, inspector`);
+  await page.getByTestId('invite-paste-line-2-problem').waitFor();
+  await expect(page.getByTestId('invite-paste-line-2-problem').textContent()).resolves.toBe(
+    'Company: No company named "Pinecrest Mech" on this job. Check the spelling, or add it on the Companies page first.',
+  );
+  await expect(page.getByTestId('invite-paste-line-1').textContent()).resolves.toContain(`Subcontractor · ${mechName}`);
+  await page.getByTestId('invite-paste-submit').click();
+  await page.getByTestId('invite-paste-error').waitFor();
+  await page.getByTestId('invite-paste-line-2').scrollIntoViewIfNeeded();
+  await h.screenshot(page, 'invite-paste-line-problem-phone');
+  await expect(page.getByTestId('invite-paste-line-1-problem').count()).resolves.toBe(0);
+
+  // Fixed; line 3 is someone already on the job, which only the server knows: nobody is invited and line 3 says why.
+  await box.fill(`${ana}\tSubcontractor\t${mechName.toLowerCase()}\n${lio}, sub, ${mechName}\n${inspectorAlready.email}, inspector`);
+  await expect(page.getByTestId('invite-paste-line-2-problem').count()).resolves.toBe(0);
+  await page.getByTestId('invite-paste-submit').click();
+  await page.getByTestId('invite-paste-line-3-problem').waitFor();
+  await expect(page.getByTestId('invite-paste-line-3-problem').textContent()).resolves.toBe('E-mail: That person is already a member of this job.');
+  await page.getByText(`Line 3 (${inspectorAlready.email}): That person is already a member of this job. Nobody was invited.`).first().waitFor();
+  await page.getByTestId('invite-paste-line-3').scrollIntoViewIfNeeded();
+  await h.screenshot(page, 'invite-paste-refused-line-phone');
+  const countPending = async () =>
+    (
+      await AuthToken.sequelize!.query<{ n: string }>(
+        `SELECT count(*) AS n FROM auth_tokens WHERE purpose = 'invitation' AND job_id = :jobId AND used_at IS NULL AND revoked_at IS NULL`,
+        { replacements: { jobId: job.id }, type: QueryTypes.SELECT },
+      )
+    )[0]!.n;
+  await expect(countPending()).resolves.toBe('0');
+
+  await box.fill(`${ana}\tSubcontractor\t${mechName.toLowerCase()}\n${lio}, sub, ${mechName}\n${kai}, inspector`);
+  await expect(page.getByTestId('invite-paste-line-3-problem').count()).resolves.toBe(0);
+  await page.getByTestId('invite-paste-submit').click();
+  await page.getByTestId('invite-paste-sent').waitFor();
+  await expect(page.getByTestId('invite-paste-sent').textContent()).resolves.toBe('Invitations sent to 3 people.');
+  const list = page.getByTestId('invitations-list');
+  await list.waitFor();
+  await expect(list.locator('[data-testid^="invitation-row-"]').count()).resolves.toBe(3);
+  await h.screenshot(page, 'invite-paste-sent-phone');
+
+  const rows = await AuthToken.sequelize!.query<{ id: string; email: string; role: string; company_id: string; invited_by: string }>(
+    `SELECT id, email, role, company_id, invited_by FROM auth_tokens
+      WHERE purpose = 'invitation' AND job_id = :jobId AND used_at IS NULL AND revoked_at IS NULL ORDER BY email`,
+    { replacements: { jobId: job.id }, type: QueryTypes.SELECT },
+  );
+  expect(rows.map(({ email, role, company_id, invited_by }) => ({ email, role, company_id, invited_by }))).toEqual(
+    [
+      { email: ana, role: 'subcontractor', company_id: mech.id, invited_by: manager.id },
+      { email: kai, role: 'inspector', company_id: gcCompany.id, invited_by: manager.id },
+      { email: lio, role: 'subcontractor', company_id: mech.id, invited_by: manager.id },
+    ].sort((a, b) => a.email.localeCompare(b.email)),
+  );
+  const firstMail = await smtp.waitFor((m) => m.to.includes(lio));
+  const firstLink = linkTo(firstMail, '/invite/');
+
+  // Send Lio's again: plain words, a new row and link, the old row revoked.
+  const lioRow = rows.find((r) => r.email === lio)!;
+  await page.getByTestId(`invitation-resend-${lioRow.id}`).click();
+  await page.getByTestId('invitation-resend-result').waitFor();
+  await expect(page.getByTestId('invitation-resend-result').textContent()).resolves.toBe(`A new link went to ${lio}; the old link no longer works.`);
+  await page.getByTestId(`invitation-row-${lioRow.id}`).waitFor({ state: 'detached' });
+  await expect(list.locator('[data-testid^="invitation-row-"]').count()).resolves.toBe(3);
+  await h.screenshot(page, 'invite-resent-phone');
+  const lioRows = await AuthToken.sequelize!.query<{ id: string; revoked: boolean }>(
+    `SELECT id, revoked_at IS NOT NULL AS revoked FROM auth_tokens WHERE purpose = 'invitation' AND job_id = :jobId AND email = :email ORDER BY created_at`,
+    { replacements: { jobId: job.id, email: lio }, type: QueryTypes.SELECT },
+  );
+  expect(lioRows.map((r) => r.revoked)).toEqual([true, false]);
+  expect(lioRows[0]!.id).toBe(lioRow.id);
+  await expect(countPending()).resolves.toBe('3');
+  const again = await smtp.waitFor((m) => m.to.includes(lio) && linkTo(m, '/invite/') !== firstLink);
+  expect(linkTo(again, '/invite/')).not.toBe(firstLink);
+
+  // Kai's invitation is withdrawn meanwhile (another manager's screen): Send again says so and the list drops it.
+  const kaiRow = rows.find((r) => r.email === kai)!;
+  await AuthToken.sequelize!.query(`UPDATE auth_tokens SET revoked_at = now() WHERE id = :id`, { replacements: { id: kaiRow.id } });
+  await page.getByTestId(`invitation-resend-${kaiRow.id}`).click();
+  await page.getByText('That invitation was withdrawn or has expired: invite the person again. The list shows the invitations still waiting.').waitFor();
+  await page.getByTestId(`invitation-row-${kaiRow.id}`).waitFor({ state: 'detached' });
+  await expect(list.locator('[data-testid^="invitation-row-"]').count()).resolves.toBe(2);
+  await expect(countPending()).resolves.toBe('2');
+
+  // The same on a wide screen, for the look of it.
+  await page.setViewportSize(WIDE);
+  await box.fill(`${ana}, inspector\nnot-an-address, GC manager, ${mechName}`);
+  await page.getByTestId('invite-paste-line-2-problem').waitFor();
+  await h.screenshot(page, 'invite-paste-preview-wide');
+  // the refused paste and line 3's 409 are logged by the browser; nothing else may go wrong
+  expect(problems.filter((p) => !/status of 409/.test(p))).toEqual([]);
   await page.context().close();
 });
 

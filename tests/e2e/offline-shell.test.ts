@@ -79,7 +79,7 @@ const READ_FROM_DEVICE = `(async () => {
 })()`;
 
 async function openJob(page: Page): Promise<string> {
-  await page.getByText('Cinder Lane Commons').click();
+  await page.getByText('Cinder Lane Commons', { exact: true }).click();
   await page.getByTestId('job-name').waitFor();
   return page.url();
 }

@@ -174,10 +174,18 @@ describe('a GC manager sets up a job from empty (wide, 1280x800)', () => {
     await page.getByTestId('model-add').click();
     await page.getByTestId('model-name-input').fill('Cassette 24');
     await page.getByTestId('model-number-input').fill('CX-24');
+    // The manual is named once; each limit gives its page.
+    await page.getByTestId('model-manual-input').fill('Cassette 24 installation manual (invented for the test), 1st edition');
     await page.getByTestId('model-limit-max_pump_lift-value').fill('27-9/16 in');
-    await page.getByTestId('model-limit-max_pump_lift-source').fill('Cassette 24 installation manual, p. 12 (invented for the test)');
+    await page.getByTestId('model-limit-max_pump_lift-source').fill('12');
+    // A level tolerance stated as a tilt across the unit: 1° across 32 in is 32 in × tan 1° = 0.559 in.
+    await page.getByTestId('model-limit-max_level_deviation-value').fill('1° across 32 in');
+    await page.getByTestId('model-limit-max_level_deviation-source').fill('p. 14');
     await page.getByTestId('model-submit').click();
     await seeText(page, 'model-limit-max_pump_lift', '27-9/16 in');
+    await seeText(page, 'model-limit-max_pump_lift', 'Cassette 24 installation manual (invented for the test), 1st edition, p. 12');
+    await seeText(page, 'model-limit-max_level_deviation', '1° across 32 in = 9/16"');
+    await seeText(page, 'model-limit-max_level_deviation', '1st edition, p. 14');
     await shot(page, 'setup-05-models-wide');
 
     // A system with its charge in lb.

@@ -18,7 +18,8 @@ afterAll(async () => {
 });
 
 const roles = [
-  { account: DEMO_ACCOUNTS.find((a) => a.role === 'gc_manager')!, badge: 'GC manager', jobs: 2 },
+  // The GC manager also has the demo's second building, a copy in set-up (server/seed/demoCopy.ts).
+  { account: DEMO_ACCOUNTS.find((a) => a.role === 'gc_manager')!, badge: 'GC manager', jobs: 3 },
   { account: DEMO_ACCOUNTS.find((a) => a.role === 'inspector')!, badge: 'Inspector', jobs: 2 },
   { account: DEMO_ACCOUNTS.find((a) => a.company === 'mechanical')!, badge: 'Subcontractor', jobs: 1 },
 ];
@@ -47,7 +48,7 @@ describe.each(sizes)('at $name size', ({ name, viewport }) => {
     await page.getByTestId('job-list').waitFor();
 
     // open the first job
-    await page.getByText('Cinder Lane Commons').click();
+    await page.getByText('Cinder Lane Commons', { exact: true }).click();
     await page.getByTestId('job-name').waitFor();
     await expect(page.getByTestId('job-name').textContent()).resolves.toBe('Cinder Lane Commons');
     await h.screenshot(page, `job-overview-${account.role}-${name}`);

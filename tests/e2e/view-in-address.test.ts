@@ -166,11 +166,11 @@ describe.each(SIZES)('views in the address at %s', (name, size) => {
     await addressIs(page, { q: '-0', state: 'open_findings' });
 
     const rowsOf = async (p: Page) => {
-      await waitFor(async () => JSON.stringify([...(await shown(p, 'walk-unit-'))].filter((t) => !/-(state|waiting)$/.test(t)).sort()) === JSON.stringify([...tags].sort()), {
+      await waitFor(async () => JSON.stringify([...(await shown(p, 'walk-unit-'))].filter((t) => !/-(state|waiting|audit)$/.test(t)).sort()) === JSON.stringify([...tags].sort()), {
         what: `the walk to show ${tags.join(', ')}`,
         timeout: 20_000,
       });
-      return (await shown(p, 'walk-unit-')).filter((t) => !/-(state|waiting)$/.test(t));
+      return (await shown(p, 'walk-unit-')).filter((t) => !/-(state|waiting|audit)$/.test(t));
     };
     const rows = await rowsOf(page);
     expect(await page.getByTestId('walk-filters-state-open_findings').getAttribute('aria-checked')).toBe('true');

@@ -160,6 +160,12 @@ describe('walking a level on a phone', () => {
     await openUnit(page, tags[0]);
     await page.getByTestId('unit-check-progress').waitFor();
     expect(await text(page, 'unit-check-progress')).toMatch(/^0 of \d+ marked$/);
+    // The unit's sheet (its history on paper) is one tap from its check, a PDF in the caller's session.
+    const sheet = await page.getByTestId('unit-sheet').getAttribute('href');
+    expect(sheet).toMatch(/^\/api\/jobs\/[0-9a-f-]+\/units\/[0-9a-f-]+\/sheet\.pdf$/);
+    const pdf = await page.request.get(`${h.baseUrl}${sheet}`);
+    expect(pdf.status()).toBe(200);
+    expect(pdf.headers()['content-type']).toContain('application/pdf');
     // guidance and the caution are one tap away: the caution names its hazards and defers to the manual, codes and licensed practice
     await page.getByTestId('check-item-MT-01-expand').click();
     expect(await text(page, 'check-item-MT-01-caution-toggle')).toContain('Caution: Lifting · Overhead work');
@@ -180,7 +186,8 @@ describe('walking a level on a phone', () => {
     await exactText(page, 'level-coverage-count', '1 of 3 checked');
     // The units list refreshes on its own after the save (the coverage above may come first).
     await page.getByTestId(`walk-unit-${tags[0]}-state`).filter({ hasText: 'Checked OK' }).waitFor();
-    await page.getByTestId('walk-open').waitFor();
+    // The walk's banner counts what it recorded in the level's words (never "0 unit checks" after work).
+    await page.getByTestId('walk-open').filter({ hasText: '· 1 unit checked' }).waitFor();
     await h.screenshot(page, 'walk-04-first-unit-ok-phone');
 
     // 2. A defect with a photo: Defect → Log finding → photo → Log finding.

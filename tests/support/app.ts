@@ -25,7 +25,7 @@ export function buildTestApp(db: Database, options: Partial<AppOptions> = {}): T
   return createApp({
     env: options.env ?? testEnv(),
     db,
-    log: () => undefined,
+    log: process.env.TEST_LOG ? (m: string, e?: unknown) => console.error(m, e) : () => undefined,
     signInLimits: { perAccount: 1000, perAddress: 10_000, windowMs: 60_000 },
     // Each test app counts its limits apart in the shared table (the nodes of one deployment share theirs).
     rateLimitNamespace: `test-${randomUUID()}:`,

@@ -36,10 +36,12 @@ export interface BrowserHarness {
 
 /**
  * `appOptions` go to the test app; `smtp`: a test's own fake SMTP server, which the app's mail
- * goes to (its links are built on this harness's address, as PUBLIC_URL would in production).
+ * goes to (its links are built on this harness's address, as PUBLIC_URL would in production);
+ * `bypassCSP`: the browser ignores the app's Content Security Policy, so a test can inject a script
+ * of its own (the accessibility engine). Tests only; every other test keeps the real policy.
  */
-export async function startBrowserHarness(options: Partial<AppOptions> & { smtp?: FakeSmtp } = {}): Promise<BrowserHarness> {
-  const { smtp, ...appOptions } = options;
+export async function startBrowserHarness(options: Partial<AppOptions> & { smtp?: FakeSmtp; bypassCSP?: boolean } = {}): Promise<BrowserHarness> {
+  const { smtp, bypassCSP = false, ...appOptions } = options;
   const dist = process.env.WEB_DIST ?? path.resolve(__dirname, '..', '..', 'dist');
   if (!fs.existsSync(path.join(dist, 'index.html'))) throw new Error(`No web build in ${dist}: run \`npm test\`, which builds it.`);
   const db = await connectTestDb();
@@ -72,6 +74,7 @@ export async function startBrowserHarness(options: Partial<AppOptions> & { smtp?
   const context = await chromium.launchPersistentContext(userDataDir, {
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
     headless: true,
+    bypassCSP,
     args: [
       '--headless',
       '--no-sandbox',
@@ -94,7 +97,7 @@ export async function startBrowserHarness(options: Partial<AppOptions> & { smtp?
     async newPage(viewport) {
       // A fresh, isolated context per page: its own cookies. Persistent contexts cannot
       // spawn siblings, so pages share `context` only when no browser object exists.
-      const ctx = browser ? await browser.newContext({ viewport, baseURL: baseUrl }) : context;
+      const ctx = browser ? await browser.newContext({ viewport, baseURL: baseUrl, bypassCSP }) : context;
       if (browser) contexts.push(ctx);
       else await ctx.clearCookies();
       const page = await ctx.newPage();
@@ -157,8 +160,23 @@ export async function pageHolds(page: Page, expression: string, options: WaitOpt
   );
 }
 
-/** Waits until a service worker controls the page (the shell is then served with no network). */
+/**
+ * Waits until a service worker controls the page (the shell is then served with no network).
+ *
+ * `ready` resolves once the worker is active (it has precached the whole shell, about 3 MB: slow
+ * on a busy 2-core machine). Its `clients.claim()` then takes every open page, except a page whose
+ * document was still loading at that moment: the Service Workers spec's Clients.claim() skips a
+ * client whose execution ready flag is unset, and nothing claims it later. A page loaded while the
+ * worker activated can stay uncontrolled for good; its next load is controlled (the worker is
+ * active), so such a page is reloaded once, as a person reopening the app would.
+ */
 export async function serviceWorkerControls(page: Page): Promise<void> {
   await page.evaluate('navigator.serviceWorker.ready.then(() => undefined)');
-  await pageHolds(page, 'navigator.serviceWorker.controller !== null', { what: 'a service worker to control the page' });
+  const controlled = 'navigator.serviceWorker.controller !== null';
+  try {
+    await pageHolds(page, controlled, { what: 'a service worker to control the page', timeout: 15_000 });
+  } catch {
+    await page.reload();
+    await pageHolds(page, controlled, { what: 'a service worker to control the page after a reload', timeout: 30_000 });
+  }
 }

@@ -47,6 +47,13 @@ export async function addMember(jobId: string, userId: string, role: Role, compa
  * A job with one member of each role: a GC manager and an inspector, a subcontractor of
  * company A and one of company B. Enough for most permission tests.
  */
+/** A job and a person of its owner company: who a stored photo belongs to and who uploaded it. */
+export async function buildPhotoOwner(): Promise<{ jobId: string; uploadedBy: string }> {
+  const user = await buildUser();
+  const job = await buildJob({ ownerCompanyId: user.companyId });
+  return { jobId: job.id, uploadedBy: user.id };
+}
+
 export async function buildJobWithCrew() {
   const gcCompany = await buildCompany({ name: `GC ${unique()}` });
   const job = await buildJob({ ownerCompanyId: gcCompany.id });

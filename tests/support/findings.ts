@@ -79,7 +79,7 @@ export async function everyItem(jobId: string, kind: UnitKindKey, mark: CheckMar
 /** A finding written straight to the database (with its "logged" event), for read tests. */
 export async function insertFinding(
   w: WalkJob,
-  overrides: Partial<{ companyId: string; status: FindingStatus; severity: Severity; unitId: string | null; code: string; note: string; dueOn: string; loggedAt: Date }> = {},
+  overrides: Partial<{ companyId: string; status: FindingStatus; severity: Severity; unitId: string | null; code: string; note: string; dueOn: string; loggedAt: Date; walkId: string }> = {},
 ) {
   const sequelize = Finding.sequelize!;
   return sequelize.transaction(async (transaction) => {
@@ -93,7 +93,7 @@ export async function insertFinding(
         spaceId: [w.cassette, w.cassette2, w.wall, w.upstairs].find((u) => u.id === unitId)?.spaceId ?? null,
         levelId: w.level.id,
         catalogueItemId: item.id,
-        walkId: null,
+        walkId: overrides.walkId ?? null,
         unitCheckId: null,
         severity: overrides.severity ?? 'major',
         status: overrides.status ?? 'open',

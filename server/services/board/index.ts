@@ -7,6 +7,7 @@
  * Definitions: docs/api-board.md; scope and shared definitions: common.ts.
  */
 export { loadBoard } from './levels';
+export { loadFloorSystems } from './floorSystems';
 export { loadReadiness } from './readiness';
 export { loadScorecards } from './scorecards';
 export { loadRecurring, recurringThresholdsOf } from './recurring';

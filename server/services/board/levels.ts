@@ -92,8 +92,8 @@ export async function loadBoard(sequelize: Sequelize, scope: FindingScope): Prom
     loadTallies(sequelize, scope.jobId, scope.companyId),
     loadUnresolvedFigures(sequelize, scope.jobId, today, versions),
     loadWaitingFixes(sequelize, scope.jobId),
-    // Not cached: a few hundred rows per job, and no stat topic follows test records.
-    loadTestFacts(sequelize, scope),
+    // Units, systems and the job's companies (structure) and test records (tests), per company scope.
+    cachedStat(sequelize, scope.jobId, ['structure', 'tests'], `testFacts|${scope.companyId ?? 'all'}`, () => loadTestFacts(sequelize, scope), versions),
   ]);
   // The oldest fix waiting for the inspector per level (in the caller's scope), and in the job.
   const oldestByLevel = new Map<string, Date>();

@@ -16,6 +16,7 @@ import { CEILING_UNIT_KINDS } from '../../../shared/rules/ceilings';
 import type { ReadinessWithTests } from '../../../shared/schemas/testRecords';
 import type { UnitKindKey } from '../../../shared/words';
 import type { FindingScope } from '../findingQueries';
+import { cachedStat, type StatTopic } from '../statCache';
 import { Bind, companyCond, latestCheckJoin, num, select, selectTuned } from './common';
 import { ceilingOf } from './levels';
 import { loadTestFacts, withTests } from './testReadiness';
@@ -57,13 +58,30 @@ interface LevelRow {
   blockers_total: string | null;
 }
 
+/** What readiness reads (docs/api-board.md "Speed"); each table raises one of these topics. */
+const READINESS_TOPICS: readonly StatTopic[] = ['structure', 'blockers', 'tests'];
+
 /**
  * Readiness for startup (units, systems) and for closing ceilings (levels). With `levelId`: that
  * level, the systems with a unit on it, and its units without a system; with `systemId`: that
  * system and the levels it has units on. A system is always judged (and listed) with ALL its units.
  * Null when the given level or system is not on the job.
+ *
+ * Kept in the exact cache (statCache.ts) per job, company scope and filter, and served only while
+ * none of what it reads changed: units, unit checks, levels, systems, catalogue items, the job's
+ * companies and settings, the name of whoever excluded a unit (topic structure), the findings'
+ * blocker columns (blockers) and test records (tests). A level's answer is computed on its own on a
+ * miss (about a tenth of the job's), not cut from the job's.
  */
 export async function loadReadiness(sequelize: Sequelize, scope: FindingScope, query: ReadinessQuery = {}): Promise<ReadinessWithTests | null> {
+  // The answer depends on the caller only through the company scope: keyed by it, so a
+  // subcontractor's answer is never served to anyone outside their company.
+  const key = `readiness|${scope.companyId ?? 'all'}|${query.levelId ?? ''}|${query.systemId ?? ''}`;
+  return cachedStat(sequelize, scope.jobId, READINESS_TOPICS, key, () => computeReadiness(sequelize, scope, query));
+}
+
+/** Readiness computed afresh in PostgreSQL (loadReadiness's definition; narrowed in SQL by the query). */
+async function computeReadiness(sequelize: Sequelize, scope: FindingScope, query: ReadinessQuery = {}): Promise<ReadinessWithTests | null> {
   const b = new Bind(scope.jobId);
   const company = companyCond(b, scope);
   const levelRef = query.levelId ? `${b.add(query.levelId)}::uuid` : null;

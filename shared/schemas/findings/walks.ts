@@ -39,8 +39,14 @@ export interface WalkDto {
   /** ISO 8601 */
   startedAt: string;
   finishedAt: string | null;
-  /** Unit checks recorded within this walk. */
+  /** Unit checks recorded within this walk (saves of a check, finished or not). */
   checkCount: number;
+  /** Units with a complete unit check recorded within this walk. */
+  unitsChecked: number;
+  /** Units the walk touched (a check saved unfinished, or a finding logged on the unit) without a complete check in it. */
+  unitsInProgress: number;
+  /** Findings logged within this walk (voided ones left out). */
+  findingCount: number;
 }
 
 /** Units on the level whose current (latest) unit check is complete, of all units on the level. */

@@ -91,6 +91,16 @@ export const createJobSchema = z
   .refine(datesInOrder, { message: 'The end date is before the start date.', path: ['endsOn'] });
 export type CreateJobInput = z.input<typeof createJobSchema>;
 
+/**
+ * POST /api/jobs/:jobId/copy (GC manager of the job): a new job with the same structure, catalogue,
+ * settings and companies (server/commands/copyJob.ts); its own name, number, address and dates.
+ */
+export const copyJobSchema = z
+  .object({ name: jobFields.name, number: jobFields.number, address: jobFields.address, startsOn: jobFields.startsOn, endsOn: jobFields.endsOn })
+  .strict()
+  .refine(datesInOrder, { message: 'The end date is before the start date.', path: ['endsOn'] });
+export type CopyJobInput = z.input<typeof copyJobSchema>;
+
 /** PATCH /api/jobs/:jobId (If-Match) */
 export const updateJobSchema = z
   .object({

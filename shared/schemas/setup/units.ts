@@ -92,8 +92,12 @@ export interface UnitDto {
  */
 export const UNIT_IMPORT_FIELDS = ['tag', 'kind', 'model', 'capacity', 'level', 'space', 'system', 'crew', 'crewCompany', 'mount'] as const;
 export type UnitImportField = (typeof UNIT_IMPORT_FIELDS)[number];
-/** Columns every import needs (mapped or found by header name). */
-export const UNIT_IMPORT_REQUIRED: readonly UnitImportField[] = ['tag', 'kind', 'level'];
+/** Columns every import needs (mapped or found by header name); the kind may come from a model column instead. */
+export const UNIT_IMPORT_REQUIRED: readonly UnitImportField[] = ['tag', 'level'];
+/** A kind column or a model column (a unit's kind is then its model's). */
+export const UNIT_IMPORT_KIND_SOURCES: readonly UnitImportField[] = ['kind', 'model'];
+/** At most this many distinct kind values mapped in one import. */
+export const IMPORT_KIND_VALUES_MAX = 200;
 
 /**
  * POST /units/import as JSON. (Or send the file itself as text/csv; then dryRun comes from
@@ -107,10 +111,26 @@ export const unitImportSchema = z
       .record(z.string().max(200), z.enum(UNIT_IMPORT_FIELDS, { error: `Map each column to one of ${UNIT_IMPORT_FIELDS.join(', ')}.` }))
       .optional(),
     dryRun: z.boolean().optional(),
+    /**
+     * Values of the kind column → unit kind, for values Trimout cannot read itself ("Cassette",
+     * "Ducted"); kept for the job's next import. Keys are the values as they are in the file.
+     */
+    kindValues: z
+      .record(z.string().max(200), z.enum(UNIT_KIND_KEYS, { error: 'Choose a unit kind for each value.' }))
+      .refine((r) => Object.keys(r).length <= IMPORT_KIND_VALUES_MAX, `Map at most ${IMPORT_KIND_VALUES_MAX} kind values at once.`)
+      .optional(),
+    /** Create the levels and spaces the file names that the job does not have yet (in the same transaction). */
+    createPlaces: z.boolean().optional(),
+    /** Delete the units of the job the file does not name (those with a check or a finding are kept). */
+    removeMissing: z.boolean().optional(),
+    /** The file's name, recorded with the import. */
+    fileName: z.string().trim().max(200, 'A file name is at most 200 characters.').optional(),
   })
   .strict();
 export type UnitImportInput = z.input<typeof unitImportSchema>;
-export const unitImportQuerySchema = z.object({ dryRun: booleanQuery.optional() }).strict();
+export const unitImportQuerySchema = z
+  .object({ dryRun: booleanQuery.optional(), createPlaces: booleanQuery.optional(), removeMissing: booleanQuery.optional() })
+  .strict();
 
 export interface UnitImportRowError {
   /** Line number in the file (the header is line 1). */
@@ -121,6 +141,8 @@ export interface UnitImportRowError {
 
 export interface UnitImportPreviewRow {
   line: number;
+  /** What the import does with the row: a new unit, a change to the unit of that tag, or nothing. */
+  action: 'add' | 'change' | 'same';
   /** The installing crew as "Company · Crew", or null when the row names none. */
   crewName: string | null;
   tag: string;
@@ -151,4 +173,72 @@ export interface UnitImportReport {
   /** Good rows (first 500) as they would be imported. */
   preview: UnitImportPreviewRow[];
   created: number;
+  /** Each distinct value of the kind column, with the kind it gives (null: the user must choose). */
+  kindValues: UnitImportKindValue[];
+  /** Levels and spaces the file names that the job does not have; created when createPlaces is true. */
+  missingPlaces: { levels: string[]; spaces: Array<{ level: string; space: string }> };
+  /** True when this import created them. */
+  placesCreated: boolean;
+  /** Against the units already in the job, matched by tag. */
+  revision: UnitImportRevision;
+  /** The recorded import (committed only); undo it with POST /units/imports/:importId/undo. */
+  importId: string | null;
 }
+
+export interface UnitImportKindValue {
+  /** As in the file (the first spelling met). */
+  value: string;
+  rows: number;
+  kind: UnitKindKey | null;
+  /** read: Trimout reads the words; mapped: this request's kindValues; saved: mapped in an earlier import of this job. */
+  from: 'read' | 'mapped' | 'saved' | null;
+}
+
+export interface UnitImportFieldChange {
+  field: UnitImportField;
+  /** Names as shown (level, space, system, model, crew), capacity in W; null: empty. */
+  from: string | number | null;
+  to: string | number | null;
+}
+
+export interface UnitImportRevision {
+  added: number;
+  changed: Array<{ line: number; tag: string; fields: UnitImportFieldChange[] }>;
+  untouched: number;
+  /** Units of the job the file does not name; removable false when a check or finding keeps it. */
+  notInFile: Array<{ id: string; tag: string; removable: boolean }>;
+  /** Units deleted by this import (removeMissing). */
+  removed: number;
+}
+
+/** GET /units/imports: the job's recorded imports, newest first. */
+export interface UnitImportRecordDto {
+  id: string;
+  createdAt: string;
+  createdByName: string | null;
+  fileName: string | null;
+  added: number;
+  changed: number;
+  removed: number;
+  levelsCreated: number;
+  spacesCreated: number;
+  undoneAt: string | null;
+  /** Whether an undo would be accepted now, and if not, why. */
+  undo: { possible: true } | { possible: false; reason: string };
+}
+
+export const unitImportParamsSchema = z.object({ jobId: id('job id'), importId: id('import id') }).strict();
+/** POST /units/imports/:importId/undo takes no body: any key sent is refused. */
+export const undoImportSchema = z.object({}).strict();
+
+/** POST /units/delete: several units at once; all or none (units with a check or finding are refused). */
+export const UNIT_BULK_DELETE_MAX = 500;
+export const bulkDeleteUnitsSchema = z
+  .object({
+    unitIds: z
+      .array(id('unit id'), { error: 'Send the units to delete as unitIds.' })
+      .min(1, 'Choose at least one unit.')
+      .max(UNIT_BULK_DELETE_MAX, `Delete at most ${UNIT_BULK_DELETE_MAX} units at once.`),
+  })
+  .strict();
+export type BulkDeleteUnitsInput = z.input<typeof bulkDeleteUnitsSchema>;

@@ -89,7 +89,7 @@ it('backs up the database and the photos and restores both into a new database a
   await sourceStore.put(orphan, jpeg, 'image/jpeg');
   await db.sequelize.query(`INSERT INTO pending_uploads (key, created_at) VALUES ($1, now() - interval '2 hours')`, { bind: [orphan] });
   const sourceKeys = await listObjectKeys(sourceStore);
-  expect(sourceKeys).toHaveLength(9); // 4 photos × (full + thumbnail), and the orphan
+  expect(sourceKeys).toHaveLength(13); // 4 photos × (full + thumbnail + print copy), and the orphan
   const [pendingNow] = await db.sequelize.query<{ pending: string; old: string }>(
     `SELECT count(*) AS pending, count(*) FILTER (WHERE created_at < now() - interval '30 minutes') AS old FROM pending_uploads`,
     { type: 'SELECT' as never },
@@ -123,6 +123,13 @@ it('backs up the database and the photos and restores both into a new database a
     expect(photo.status).toBe(200);
     const original = fs.readFileSync(path.join(sourceStore.root, 'objects', 'photos', `${photoIds[0]}.jpg`));
     expect(Buffer.compare(photo.body as Buffer, original)).toBe(0);
+    // Every print copy a restored row names came back with it (a report reads those, not the photos).
+    const printKeys = await restored.sequelize.query<{ print_key: string }>(`SELECT print_key FROM photos WHERE id = ANY($1::uuid[])`, {
+      bind: [photoIds],
+      type: 'SELECT' as never,
+    });
+    expect(printKeys).toHaveLength(4);
+    for (const { print_key } of printKeys) expect(await targetStore.exists(print_key)).toBe(true);
   } finally {
     await copy.close();
   }

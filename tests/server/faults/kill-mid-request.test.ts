@@ -209,11 +209,12 @@ const objectPath = (key: string) => path.join(storeDir, 'objects', ...key.split(
 
 /** The invariants that must hold after any crash. */
 async function expectConsistent(): Promise<{ unreferencedObjects: number; unreferenced: string[] }> {
-  const photos = await q<{ id: string; storage_key: string; thumb_key: string; finding_id: string | null; fix_id: string | null }>(
-    `SELECT id, storage_key, thumb_key, finding_id, fix_id FROM photos WHERE job_id = $1`,
+  const photos = await q<{ id: string; storage_key: string; thumb_key: string; print_key: string | null; finding_id: string | null; fix_id: string | null }>(
+    `SELECT id, storage_key, thumb_key, print_key, finding_id, fix_id FROM photos WHERE job_id = $1`,
     [w.job.id],
   );
-  const missing = photos.flatMap((p) => [p.storage_key, p.thumb_key]).filter((k) => !fs.existsSync(objectPath(k)));
+  const variants = (p: (typeof photos)[number]) => [p.storage_key, p.thumb_key, ...(p.print_key ? [p.print_key] : [])];
+  const missing = photos.flatMap(variants).filter((k) => !fs.existsSync(objectPath(k)));
   expect(missing).toEqual([]);
   // Every photo an event names exists as a row (no finding or fix pointing to a missing photo).
   const dangling = await q<{ id: string }>(
@@ -237,7 +238,16 @@ async function expectConsistent(): Promise<{ unreferencedObjects: number; unrefe
     [w.job.id],
   );
   expect(fixesWithout).toEqual([]);
-  const referenced = new Set(photos.flatMap((p) => [p.storage_key, p.thumb_key]));
+  // Objects other rows name: report files (report_runs, built by this server's report worker for
+  // whatever report another test queued in the shared database) and marked copies of photos.
+  const named = await q<{ key: string }>(
+    `SELECT storage_key AS key FROM report_runs WHERE storage_key IS NOT NULL
+     UNION ALL SELECT marked_key FROM photo_marks WHERE marked_key IS NOT NULL
+     UNION ALL SELECT marked_thumb_key FROM photo_marks WHERE marked_thumb_key IS NOT NULL
+     UNION ALL SELECT marked_print_key FROM photo_marks WHERE marked_print_key IS NOT NULL`,
+    [],
+  );
+  const referenced = new Set([...photos.flatMap(variants), ...named.map((n) => n.key)]);
   const walk = (dir: string, prefix = ''): string[] =>
     fs.existsSync(dir)
       ? fs.readdirSync(dir, { withFileTypes: true }).flatMap((e) => (e.isDirectory() ? walk(path.join(dir, e.name), `${prefix}${e.name}/`) : [`${prefix}${e.name}`]))
@@ -304,11 +314,11 @@ describe('the server killed mid-request', () => {
     expect(await counts()).toEqual(before);
     const { unreferencedObjects, unreferenced } = await expectConsistent();
     // The photos were stored before the transaction: the crash leaves their objects (2 photos ×
-    // full + thumbnail) unreferenced: invisible (random keys, no row names them, downloads go
+    // full + thumbnail + print copy) unreferenced: invisible (random keys, no row names them, downloads go
     // through the rows) and never a row without its object. Their pending rows name them; once
     // those are older than the reaper's age (moved back here instead of waiting), the reaper the
     // server runs at start and every few minutes deletes objects and rows.
-    expect(unreferencedObjects).toBe(4);
+    expect(unreferencedObjects).toBe(6);
     await db.sequelize.query(`UPDATE pending_uploads SET created_at = now() - make_interval(mins => $2) WHERE key = ANY($1::text[])`, {
       bind: [unreferenced, PENDING_UPLOAD_MAX_AGE_MINUTES + 1],
     });

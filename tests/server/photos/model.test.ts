@@ -9,7 +9,7 @@ import { Photo } from '../../../server/models';
 import { pendingUploads } from '../../../server/services/pendingUploads';
 import { keysOf, photoRowValues, processPhoto, withStoredPhotos, type ProcessedPhoto } from '../../../server/services/photos';
 import { connectTestDb } from '../../support/db';
-import { buildJob, buildUser } from '../../support/factories';
+import { buildPhotoOwner } from '../../support/factories';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
 import { halvesImage } from './fixtures';
 
@@ -27,15 +27,9 @@ afterAll(async () => {
   await db.close();
 });
 
-async function owner() {
-  const user = await buildUser();
-  const job = await buildJob({ ownerCompanyId: user.companyId });
-  return { jobId: job.id, uploadedBy: user.id };
-}
-
 describe('photos rows with their stored objects', () => {
   it('writes the rows in the transaction after the objects are stored', async () => {
-    const who = await owner();
+    const who = await buildPhotoOwner();
     // No owner yet: finding_id / fix_id reference tables made by later migrations.
     const rows = await withStoredPhotos(
       fake.store,
@@ -57,6 +51,7 @@ describe('photos rows with their stored objects', () => {
         fixId: null,
         storageKey: `photos/${row.id}.jpg`,
         thumbKey: `photos/${row.id}-thumb.jpg`,
+        printKey: `photos/${row.id}-print.jpg`,
         contentType: 'image/jpeg',
         sourceType: 'image/png',
         byteSize: photo.full.length,
@@ -67,12 +62,13 @@ describe('photos rows with their stored objects', () => {
       expect(row.createdAt).toBeInstanceOf(Date);
       expect(await fake.store.exists(row.storageKey)).toBe(true);
       expect(await fake.store.exists(row.thumbKey)).toBe(true);
+      expect(await fake.store.exists(row.printKey!)).toBe(true);
     }
     expect(rows.map((r) => r.id).sort()).toEqual(saved.map((r) => r.id).sort());
   });
 
   it('a failed transaction leaves neither rows nor stored objects', async () => {
-    const who = await owner();
+    const who = await buildPhotoOwner();
     const before = await fake.keys();
     let tried: string[] = [];
     await expect(
@@ -91,15 +87,16 @@ describe('photos rows with their stored objects', () => {
         { pending: pendingUploads(db.sequelize) },
       ),
     ).rejects.toThrow(/division by zero/);
-    expect(tried).toHaveLength(4);
+    // Full, thumbnail and print copy of each: all deleted again.
+    expect(tried).toHaveLength(6);
     expect(await Photo.count({ where: { jobId: who.jobId } })).toBe(0);
     expect(await fake.keys()).toEqual(before);
   });
 
   it('refuses a row whose keys do not match its id, or with two owners', async () => {
-    const who = await owner();
+    const who = await buildPhotoOwner();
     const [row] = photoRowValues(
-      [{ id: randomUUID(), key: 'photos/x.jpg', thumbKey: 'photos/x-thumb.jpg', contentType: 'image/jpeg', byteSize: 10, width: 1, height: 1, sha256: 'a'.repeat(64), sourceType: 'image/jpeg' }],
+      [{ id: randomUUID(), key: 'photos/x.jpg', thumbKey: 'photos/x-thumb.jpg', printKey: 'photos/x-print.jpg', contentType: 'image/jpeg', byteSize: 10, width: 1, height: 1, sha256: 'a'.repeat(64), sourceType: 'image/jpeg' }],
       who,
     );
     await expect(Photo.create(row!)).rejects.toThrow(/photos_keys_check/);
@@ -110,5 +107,9 @@ describe('photos rows with their stored objects', () => {
     await expect(
       Photo.create({ ...row!, id, storageKey: `photos/${id}.jpg`, thumbKey: `photos/${id}-thumb.jpg`, contentType: 'image/svg+xml' }),
     ).rejects.toThrow(/photos_content_type_check/);
+    // A print copy is named after its own photo's id, like the full photo and the thumbnail.
+    await expect(
+      Photo.create({ ...row!, id, storageKey: `photos/${id}.jpg`, thumbKey: `photos/${id}-thumb.jpg`, printKey: `photos/${randomUUID()}-print.jpg` }),
+    ).rejects.toThrow(/photos_print_key_check/);
   });
 });

@@ -18,7 +18,7 @@ import { pendingUploads, PENDING_UPLOAD_MAX_AGE_MINUTES, reapOrphanUploads } fro
 import { keysOf, photoKeys, photoRowValues, processPhoto, storePhotos, withStoredPhotos, type ProcessedPhoto } from '../../../server/services/photos';
 import type { ObjectStore } from '../../../server/storage/types';
 import { connectTestDb } from '../../support/db';
-import { buildJob, buildLevel, buildUser } from '../../support/factories';
+import { buildLevel, buildPhotoOwner } from '../../support/factories';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
 import { halvesImage } from './fixtures';
 
@@ -35,12 +35,6 @@ afterAll(async () => {
   await fake.close();
   await db.close();
 });
-
-async function owner() {
-  const user = await buildUser();
-  const job = await buildJob({ ownerCompanyId: user.companyId });
-  return { jobId: job.id, uploadedBy: user.id };
-}
 
 async function pendingRows(keys: readonly string[]): Promise<string[]> {
   const rows = await db.sequelize.query<{ key: string }>(`SELECT key FROM pending_uploads WHERE key = ANY($1::text[]) ORDER BY key`, {
@@ -111,7 +105,7 @@ describe('a crash between storing and committing', () => {
 
 describe('committed uploads are never reaped', () => {
   it('a photo written through withStoredPhotos: its pending rows go with the commit; a stale row for its keys deletes nothing', async () => {
-    const who = await owner();
+    const who = await buildPhotoOwner();
     const pending = pendingUploads(db.sequelize);
     const rows = await withStoredPhotos(
       fake.store,
@@ -136,7 +130,7 @@ describe('committed uploads are never reaped', () => {
   });
 
   it("a level's plan is referenced too", async () => {
-    const who = await owner();
+    const who = await buildPhotoOwner();
     const level = await buildLevel(who.jobId);
     const key = `plans/${level.id}/${randomUUID()}.png`;
     await fake.store.put(key, Buffer.from('plan bytes'), 'image/png');
@@ -155,7 +149,7 @@ describe('committed uploads are never reaped', () => {
 
 describe('the reaper and a write racing it', () => {
   it('a write whose keys were reaped is refused (503 upload_expired) and writes no row', async () => {
-    const who = await owner();
+    const who = await buildPhotoOwner();
     const pending = pendingUploads(db.sequelize);
     let keys: string[] = [];
     const attempt = withStoredPhotos(
@@ -180,7 +174,7 @@ describe('the reaper and a write racing it', () => {
   });
 
   it('skips the rows of a write whose transaction has claimed them but not committed yet', async () => {
-    const who = await owner();
+    const who = await buildPhotoOwner();
     const pending = pendingUploads(db.sequelize);
     let keys: string[] = [];
     await withStoredPhotos(

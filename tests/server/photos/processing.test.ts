@@ -60,6 +60,12 @@ describe('processPhoto: accepted photos', () => {
     const thumbMeta = await sharp(out.thumb).metadata();
     expect(thumbMeta.format).toBe('jpeg');
     expect(thumbMeta.exif).toBeUndefined();
+    // The print copy too: upright (blue below red) and without the camera's metadata.
+    const printMeta = await sharp(out.print).metadata();
+    expect(printMeta.format).toBe('jpeg');
+    expect(printMeta.exif).toBeUndefined();
+    expect(out.print.includes(Buffer.from('Test Camera'))).toBe(false);
+    expect([printMeta.width, printMeta.height]).toEqual([out.width, out.height]);
     expect(out.sha256).toMatch(/^[0-9a-f]{64}$/);
   });
 
@@ -103,6 +109,9 @@ describe('processPhoto: accepted photos', () => {
     expect([out.width, out.height]).toEqual([FULL_MAX_EDGE, 1024]);
     const thumb = await sharp(out.thumb).metadata();
     expect([thumb.width, thumb.height]).toEqual([THUMB_EDGE, 80]);
+    // 4:1, held by the print box's width: 531 px (255 pt / 72 × 150 dpi) by 1024 × 531 / 4096 = 132.75 → 133.
+    const print = await sharp(out.print).metadata();
+    expect([print.width, print.height]).toEqual([531, 133]);
   });
 });
 

@@ -169,16 +169,19 @@ describe('storing photos: all or nothing', () => {
     photo = await processPhoto(await halvesImage(80, 40).jpeg().toBuffer());
   });
 
-  it('stores full and thumbnail under server-made UUID keys', async () => {
+  it('stores full, thumbnail and print copy under server-made UUID keys', async () => {
     const stored = await storePhotos(fake.store, [photo, photo]);
     expect(stored).toHaveLength(2);
     for (const s of stored) {
       expect(s.key).toBe(`photos/${s.id}.jpg`);
       expect(s.thumbKey).toBe(`photos/${s.id}-thumb.jpg`);
+      expect(s.printKey).toBe(`photos/${s.id}-print.jpg`);
       expect(s.id).toMatch(/^[0-9a-f]{8}-[0-9a-f]{4}-4[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/);
       expect(s).toMatchObject({ contentType: PHOTO_CONTENT_TYPE, byteSize: photo.full.length, width: 80, height: 40, sha256: photo.sha256, sourceType: 'image/jpeg' });
       const thumb = await fake.store.get(s.thumbKey);
       expect((await readAll(thumb!.body)).equals(photo.thumb)).toBe(true);
+      const print = await fake.store.get(s.printKey);
+      expect((await readAll(print!.body)).equals(photo.print)).toBe(true);
     }
     expect(stored[0]!.id).not.toBe(stored[1]!.id);
     await removeStoredPhotos(fake.store, keysOf(stored));
@@ -220,7 +223,7 @@ describe('storing photos: all or nothing', () => {
         { pending },
       ),
     ).rejects.toThrow('the transaction rolled back');
-    expect(seen).toHaveLength(2);
+    expect(seen).toHaveLength(3);
     expect(await fake.keys()).toEqual(before);
     expect(pending.keys.size).toBe(0);
   });
@@ -241,7 +244,7 @@ describe('storing photos: all or nothing', () => {
       throw new Error('the transaction rolled back');
     };
     await expect(withStoredPhotos(undeletable, [photo], failing, { pending, log: (m) => logged.push(m) })).rejects.toThrow('the transaction rolled back');
-    expect(pending.keys.size).toBe(2);
+    expect(pending.keys.size).toBe(3);
     expect(logged.join('\n')).toMatch(/left for the reaper/);
     await removeStoredPhotos(fake.store, [...pending.keys]);
   });
@@ -259,6 +262,6 @@ describe('storing photos: all or nothing', () => {
     );
     expect(await fake.store.exists(`photos/${result[0]}.jpg`)).toBe(true);
     expect(pending.keys.size).toBe(0);
-    await removeStoredPhotos(fake.store, [`photos/${result[0]}.jpg`, `photos/${result[0]}-thumb.jpg`]);
+    await removeStoredPhotos(fake.store, [`photos/${result[0]}.jpg`, `photos/${result[0]}-thumb.jpg`, `photos/${result[0]}-print.jpg`]);
   });
 });

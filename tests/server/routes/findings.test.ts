@@ -247,7 +247,8 @@ describe('POST /api/jobs/:jobId/findings', () => {
     });
     expect(res.body.thumbUrl).toBe(p1.thumbUrl);
     expect(res.body.events[0].photoIds).toEqual(res.body.photos.map((p: { id: string }) => p.id));
-    expect((await s3.keys()).length).toBe(before.length + 4);
+    // Two photos, each with its thumbnail and its print copy.
+    expect((await s3.keys()).length).toBe(before.length + 6);
 
     for (const who of [gc, inspector, subA]) {
       const full = await who.agent.get(p1.url).buffer(true).expect(200);
@@ -345,7 +346,7 @@ describe('POST /api/jobs/:jobId/findings', () => {
     expect(again.body.number).toBe(first.body.number);
     const after = await snapshot(w);
     expect(after.rows).toEqual({ findings: before.rows.findings + 1, photos: before.rows.photos + 1, events: before.rows.events + 1 });
-    expect(after.keys.length).toBe(before.keys.length + 2);
+    expect(after.keys.length).toBe(before.keys.length + 3); // one photo: full, thumbnail, print copy
     const json1 = await postJson(inspector, w, dr03(w), 'finding-retry-0002').expect(201);
     const json2 = await postJson(inspector, w, dr03(w), 'finding-retry-0002').expect(201);
     expect(json2.body.id).toBe(json1.body.id);
@@ -389,7 +390,7 @@ describe('POST /api/jobs/:jobId/findings with an id made on the phone', () => {
     expect(noKey.body.id).toBe(findingId);
     const after = await snapshot(w);
     expect(after.rows).toEqual({ findings: before.rows.findings + 1, photos: before.rows.photos + 1, events: before.rows.events + 1 });
-    expect(after.keys.length).toBe(before.keys.length + 2);
+    expect(after.keys.length).toBe(before.keys.length + 3); // one photo: full, thumbnail, print copy
   });
 
   it('an id already used by another person or on another job → 409 finding_id_taken, nothing saved', async () => {

@@ -59,6 +59,26 @@ describe('unit models', () => {
     expect(res.body.nominalCapacity).toBeCloseTo(10550.5585262, 6);
   });
 
+  it('takes a level tolerance stated as a tilt across a width, converted to the height difference it allows', async () => {
+    const job = await newJobFor(crew);
+    const res = await crew.gc.post(jobPath(job.id, '/models'), {
+      name: 'Wall 12',
+      unitKind: 'wall_mounted',
+      limits: { max_level_deviation: { value: '1° across 840 mm', source: 'Invented demo manual, 1st edition, p. 4' } },
+    });
+    expect(res.status).toBe(201);
+    // 840 mm × tan(1°); tan(1°) = 0.017455064928217585 (mathjs 64-digit BigNumber, rounded to double).
+    expect(res.body.limits.max_level_deviation).toMatchObject({ unit: 'mm', text: '1° across 840 mm' });
+    expect(res.body.limits.max_level_deviation.value).toBeCloseTo(840 * 0.017455064928217585, 9);
+    const refused = await crew.gc.post(jobPath(job.id, '/models'), {
+      name: 'Wall 18',
+      unitKind: 'wall_mounted',
+      limits: { max_level_deviation: { value: '1°', source: 'p. 4' } },
+    });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.fields['limits.max_level_deviation.value']).toMatch(/needs the width it applies across, e\.g\. "1° across 840 mm"/);
+  });
+
   it.each([
     [{ limits: { max_pump_lift: { value: '30 lb', source: 'p. 3' } } }, /^limits\.max_pump_lift\.value: Unknown unit "lb"|^limits\.max_pump_lift\.value: /],
     [{ limits: { max_pump_lift: { value: '30 in' } } }, /^limits\.max_pump_lift\.source: /],

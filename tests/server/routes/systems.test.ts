@@ -84,6 +84,43 @@ describe('systems', () => {
     }
   });
 
+  it('lists each system on the floors its units are on, with the same refrigerant verdict as its page, for the building view of the board', async () => {
+    const job = await newJobFor(crew);
+    const ground = await buildLevel(job.id, { name: 'Ground' });
+    const first = await buildLevel(job.id, { name: 'First' });
+    const small = await buildSpace(job.id, ground.id, { name: 'Office 3-12', floorArea: 100 * FT2, ceilingHeight: 8 * FT });
+    const hall = await buildSpace(job.id, first.id, { name: 'Hall', floorArea: 400, ceilingHeight: 2700 });
+    // 38 lb in an 800 ft³ office: over the 20.8 lb the R-410A limit allows (the page's own check, above).
+    const over = await buildSystem(job.id, { name: 'VRF-A', factoryCharge: 30 * KG_PER_POUND, fieldCharge: 8 * KG_PER_POUND });
+    const fine = await buildSystem(job.id, { name: 'VRF-B', factoryCharge: 10, fieldCharge: 0 });
+    const bare = await buildSystem(job.id, { name: 'VRF-C' });
+    await buildUnit(job.id, ground.id, { spaceId: small.id, systemId: over.id, kind: 'wall_mounted' });
+    await buildUnit(job.id, first.id, { spaceId: hall.id, systemId: over.id });
+    await buildUnit(job.id, first.id, { spaceId: hall.id, systemId: fine.id });
+    for (const who of [crew.gc, crew.insp, crew.sub]) {
+      const res = await who.get(jobPath(job.id, '/board/systems'));
+      expect(res.status).toBe(200);
+      const byName = Object.fromEntries(res.body.systems.map((s: { name: string }) => [s.name, s]));
+      expect(Object.keys(byName)).toEqual(['VRF-A', 'VRF-B', 'VRF-C']);
+      expect(byName['VRF-A']).toMatchObject({ systemId: over.id, refrigerant: 'over_limit', startupReady: false });
+      expect([...byName['VRF-A'].levelIds].sort()).toEqual([ground.id, first.id].sort());
+      expect(byName['VRF-B']).toMatchObject({ refrigerant: 'within_limit', levelIds: [first.id] });
+      expect(byName['VRF-C']).toMatchObject({ systemId: bare.id, levelIds: [] });
+      // Start-up waits for records (pressure test, evacuation, charge): counted, as readiness lists them.
+      const readiness = await who.get(jobPath(job.id, '/readiness'));
+      const a = readiness.body.systems.find((s: { systemId: string }) => s.systemId === over.id);
+      expect(byName['VRF-A'].recordsWaiting).toBe(a.startupBlockers.length);
+      // A subcontractor sees the records of their own company's systems only (none here).
+      if (who !== crew.sub) expect(byName['VRF-A'].recordsWaiting).toBeGreaterThan(0);
+      // The verdict is the system page's own.
+      const page = await who.get(jobPath(job.id, `/systems/${fine.id}`));
+      expect(page.body.concentration.pass).toBe(true);
+    }
+    await request(trimout.app).get(jobPath(job.id, '/board/systems')).expect(401);
+    const other = await buildJobWithCrew();
+    expect((await crew.gc.get(jobPath(other.job.id, '/board/systems'))).status).toBe(404);
+  });
+
   it('counts linked spaces together: a permanent opening to the corridor makes the same charge pass', async () => {
     const job = await newJobFor(crew);
     const level = await buildLevel(job.id);

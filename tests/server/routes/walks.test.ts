@@ -196,6 +196,28 @@ describe('GET /api/jobs/:jobId/walks and /walks/:walkId', () => {
     expect(bad.body.error.message).toBe('params.walkId: This link does not name a walk: open the walk from its list.');
   });
 
+  it('counts what the walk recorded in the words of the level: units checked, units in progress (an unfinished check, or a finding logged before the check is saved), findings logged', async () => {
+    const { w, inspector } = await crew();
+    const walk = (await startWalk(inspector, w.job.id, { levelId: w.level.id }).expect(201)).body;
+    expect(walk).toMatchObject({ checkCount: 0, unitsChecked: 0, unitsInProgress: 0, findingCount: 0 });
+    // A finding logged from the wall unit's check before the check is saved: one unit in progress, not "0 unit checks".
+    await insertFinding(w, { unitId: w.wall.id, code: w.notForCassettes.code, walkId: walk.id });
+    const afterFinding = await inspector.agent.get(`/api/jobs/${w.job.id}/walks?levelId=${w.level.id}&open=true`).expect(200);
+    expect(afterFinding.body.items[0]).toMatchObject({ id: walk.id, checkCount: 0, unitsChecked: 0, unitsInProgress: 1, findingCount: 1 });
+    // A voided finding is not counted; an unfinished check makes its unit in progress; a complete one, checked.
+    await insertFinding(w, { unitId: w.cassette2.id, status: 'voided', walkId: walk.id });
+    await check(inspector, w, w.cassette2.id, { walkId: walk.id, items: [{ catalogueItemId: w.byCode('MT-01').id, mark: 'ok' }], complete: false }).expect(201);
+    await check(inspector, w, w.cassette.id, { walkId: walk.id, items: await everyItem(w.job.id, 'cassette_4way'), complete: true }).expect(201);
+    const now = await inspector.agent.get(`/api/jobs/${w.job.id}/walks/${walk.id}`).expect(200);
+    expect(now.body).toMatchObject({ checkCount: 2, unitsChecked: 1, unitsInProgress: 2, findingCount: 1 });
+    // The wall unit's check completed in the walk: it moves from in progress to checked.
+    // Its item with the finding is marked as a defect (an item with an unresolved finding cannot be OK).
+    const wallItems = (await everyItem(w.job.id, 'wall_mounted')).map((i) => (i.catalogueItemId === w.notForCassettes.id ? { ...i, mark: 'defect' as const } : i));
+    await check(inspector, w, w.wall.id, { walkId: walk.id, items: wallItems, complete: true }).expect(201);
+    const done = await inspector.agent.get(`/api/jobs/${w.job.id}/walks/${walk.id}`).expect(200);
+    expect(done.body).toMatchObject({ checkCount: 3, unitsChecked: 2, unitsInProgress: 1, findingCount: 1 });
+  });
+
   it('does not show a walk of another job by id (404)', async () => {
     const { w, gc, inspector } = await crew();
     const other = await crew();

@@ -92,7 +92,7 @@ it('falls back to gzip, and to the plain file for a client that accepts neither'
   expect(plain.body.toString('utf8')).toBe(js);
 });
 
-it('answers client routes with index.html (not cached), and leaves API answers uncompressed', async () => {
+it('answers client routes with index.html (not cached); the session answer (it carries the CSRF token) stays uncompressed', async () => {
   const page = await request(trimout.app).get('/jobs/some-job/board').set('Accept-Encoding', 'gzip').expect(200);
   expect(page.headers['cache-control']).toBe('no-cache');
   expect(page.text).toContain('<div id="root">');

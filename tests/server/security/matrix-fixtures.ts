@@ -11,9 +11,12 @@ import { randomUUID } from 'node:crypto';
 import request, { type Response } from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
 import type { TrimoutApp } from '../../../server/app';
-import { CatalogueItem, Crew, Level, TestRecord, User } from '../../../server/models';
+import { CatalogueItem, Crew, Level, TestRecord, Unit, User } from '../../../server/models';
 import { signUnsubscribeToken } from '../../../server/digests/unsubscribeToken';
 import { issueToken } from '../../../server/services/tokens';
+import { planAudit } from '../../../server/commands/planAudit';
+import { computeRecord, resolveTestSettings } from '../../../server/services/testRecords';
+import { createTestRecordSchema } from '../../../shared/schemas/testRecords';
 import { caller, type Caller } from '../../support/api';
 import { CookieAccessInfo } from 'cookiejar';
 import { csrfFor, signIn, testEnv, type SignedIn } from '../../support/app';
@@ -168,8 +171,24 @@ const evacuationBody = (w: World) => ({
   holdMinutes: 15,
 });
 
+/** A close-out report the world's GC manager asked for, still being built (its file is theirs alone, once built). */
+async function reportRunOf(w: World): Promise<string> {
+  const id = randomUUID();
+  await CatalogueItem.sequelize!.query(
+    `INSERT INTO report_runs (id, job_id, requested_by, kind, status, created_at) VALUES ($1, $2, $3, 'close-out', 'running', now())`,
+    { bind: [id, w.job.id, w.gcManager.id] },
+  );
+  return id;
+}
+
 /** A fresh evacuation record of the world's system, made by company A's subcontractor (so anyone else may witness it). */
 async function testRecordOf(w: World): Promise<string> {
+  // Figures and verdict as the service computes them, so every reader (list, CSV, PDF) meets a real row.
+  const computed = computeRecord(
+    createTestRecordSchema.parse(evacuationBody(w)),
+    { system: { id: w.system.id, name: 'System', factoryCharge: null, chargeBasis: null, units: [] }, unit: null },
+    resolveTestSettings(null),
+  );
   const row = await TestRecord.create({
     id: randomUUID(),
     jobId: w.job.id,
@@ -181,13 +200,25 @@ async function testRecordOf(w: World): Promise<string> {
     recordedBy: w.subA.id,
     recordedAt: new Date(),
     supersedesId: null,
-    result: 'passed',
-    reasons: [],
-    data: evacuationBody(w),
-    figures: {},
+    result: computed.result,
+    reasons: computed.reasons,
+    data: computed.data,
+    figures: computed.figures,
     note: null,
   });
   return row.id;
+}
+
+/** A fresh tiered audit of every unit of `w`'s job, planned by its GC manager. */
+async function auditOf(w: World): Promise<string> {
+  const sequelize = CatalogueItem.sequelize!;
+  const detail = await sequelize.transaction((transaction) =>
+    planAudit(
+      { sequelize, transaction, jobId: w.job.id, actorId: w.gcManager.id, clock: () => new Date() },
+      { name: `Audit ${uniq()}`, scheme: 'tiered', inspectionLevel: 'II', classes: { critical: 'zero', major: '1.0', minor: '4.0' }, lot: {} },
+    ),
+  );
+  return detail.id;
 }
 
 /** A fresh level of `w` with a plan (uploaded by the world's GC manager). */
@@ -255,6 +286,18 @@ export const CASES: Record<string, RouteCase> = {
       return { path: J(w, `/invitations/${id}`), headers: IF_MATCH };
     },
   },
+  'POST /api/jobs/:jobId/invitations/bulk': {
+    setup: async (w) => ({
+      path: J(w, '/invitations/bulk'),
+      body: { people: [{ email: `invitee-${uniq()}@test.trimout.example`, role: 'inspector' }, { email: `invitee-${uniq()}@test.trimout.example`, role: 'gc_manager' }] },
+    }),
+  },
+  'POST /api/jobs/:jobId/invitations/:invitationId/resend': {
+    setup: async (w) => {
+      const id = await createdId(await w.gcApi.post(J(w, '/invitations'), { email: `invitee-${uniq()}@test.trimout.example`, role: 'inspector' }), 'invitation');
+      return { path: J(w, `/invitations/${id}/resend`), body: {} };
+    },
+  },
   'GET /api/invitations/:token': { setup: async (w) => ({ path: `/api/invitations/${await freshInvitationToken(w)}` }) },
   'POST /api/invitations/:token': {
     fresh: true,
@@ -265,8 +308,15 @@ export const CASES: Record<string, RouteCase> = {
   'POST /api/jobs': { setup: async () => ({ path: '/api/jobs', body: { name: `Matrix job ${uniq()}` } }) },
   'GET /api/jobs/:jobId': { setup: async (w) => ({ path: J(w) }) },
   'PATCH /api/jobs/:jobId': { setup: async (w) => ({ path: J(w), body: { address: `${uniq()} Test Street` }, headers: IF_MATCH }) },
+  'GET /api/jobs/:jobId/setup/checklist': { setup: async (w) => ({ path: J(w, '/setup/checklist') }) },
+  'POST /api/jobs/:jobId/copy': { setup: async (w) => ({ path: J(w, '/copy'), body: { name: `Matrix copy ${uniq()}` } }) },
   'GET /api/jobs/:jobId/levels': { setup: async (w) => ({ path: J(w, '/levels') }) },
   'POST /api/jobs/:jobId/levels': { setup: async (w) => ({ path: J(w, '/levels'), body: { name: `Level ${uniq()}` } }) },
+  'POST /api/jobs/:jobId/levels/bulk': { setup: async (w) => ({ path: J(w, '/levels/bulk'), body: { names: [`Level ${uniq()}`, `Level ${uniq()}`] } }) },
+  'POST /api/jobs/:jobId/spaces/bulk': { setup: async (w) => ({ path: J(w, '/spaces/bulk'), body: { levelId: w.level.id, names: [`Space ${uniq()}`, `Space ${uniq()}`] } }) },
+  'POST /api/jobs/:jobId/spaces/import': {
+    setup: async (w) => ({ path: J(w, '/spaces/import'), body: { rows: [{ level: `Level ${uniq()}`, space: `Space ${uniq()}`, area: '10 m2' }], apply: true } }),
+  },
   'POST /api/jobs/:jobId/levels/order': {
     setup: async (w) => {
       const levels = await Level.findAll({ where: { jobId: w.job.id }, order: [['position', 'ASC']] });
@@ -314,6 +364,18 @@ export const CASES: Record<string, RouteCase> = {
   'POST /api/jobs/:jobId/units/import': {
     setup: async (w) => ({ path: J(w, '/units/import'), body: { csv: `tag,kind,level\nIU-${uniq()},cassette_4way,Level 3\n`, dryRun: true } }),
   },
+  'GET /api/jobs/:jobId/units/imports': { setup: async (w) => ({ path: J(w, '/units/imports') }) },
+  'POST /api/jobs/:jobId/units/imports/:importId/undo': {
+    // A recorded import that added nothing: the latest of its job, so it can be undone.
+    setup: async (w) => {
+      const id = randomUUID();
+      await Unit.sequelize!.query(`INSERT INTO unit_imports (id, job_id, created_at) VALUES ($1, $2, now())`, { bind: [id, w.job.id] });
+      return { path: J(w, `/units/imports/${id}/undo`), body: {} };
+    },
+  },
+  'POST /api/jobs/:jobId/units/delete': {
+    setup: async (w) => ({ path: J(w, '/units/delete'), body: { unitIds: [(await buildUnit(w.job.id, w.level.id)).id] } }),
+  },
   'GET /api/jobs/:jobId/units/:unitId': { setup: async (w) => ({ path: J(w, `/units/${w.cassette.id}`) }) },
   'PATCH /api/jobs/:jobId/units/:unitId': {
     setup: async (w) => ({ path: J(w, `/units/${(await buildUnit(w.job.id, w.level.id)).id}`), body: { tag: `IU-${uniq()}` }, headers: IF_MATCH }),
@@ -357,6 +419,10 @@ export const CASES: Record<string, RouteCase> = {
       return { path: J(w, `/crews/${crew.id}`), body: { name: `Crew ${uniq()}` }, headers: IF_MATCH };
     },
   },
+  'GET /api/jobs/:jobId/audits': { setup: async (w) => ({ path: J(w, '/audits') }) },
+  'POST /api/jobs/:jobId/audits': { setup: async (w) => ({ path: J(w, '/audits'), body: { name: `Audit ${uniq()}`, scheme: 'tiered' } }) },
+  'GET /api/jobs/:jobId/audits/:auditId.csv': { serial: true, setup: async (w) => ({ path: J(w, `/audits/${await auditOf(w)}.csv`) }) },
+  'GET /api/jobs/:jobId/audits/:auditId': { setup: async (w) => ({ path: J(w, `/audits/${await auditOf(w)}`) }) },
   'GET /api/jobs/:jobId/test-records': { setup: async (w) => ({ path: J(w, '/test-records') }) },
   'POST /api/jobs/:jobId/test-records': { setup: async (w) => ({ path: J(w, '/test-records'), body: evacuationBody(w) }) },
   'GET /api/jobs/:jobId/test-records.csv': { serial: true, setup: async (w) => ({ path: J(w, '/test-records.csv') }) },
@@ -423,12 +489,20 @@ export const CASES: Record<string, RouteCase> = {
   },
   'GET /api/jobs/:jobId/units/:unitId/checks': { setup: async (w) => ({ path: J(w, `/units/${w.cassette.id}/checks`) }) },
   'GET /api/jobs/:jobId/findings': { setup: async (w) => ({ path: J(w, '/findings') }) },
+  'POST /api/jobs/:jobId/findings/batch': {
+    setup: async (w) => ({ path: J(w, '/findings/batch'), body: { catalogueItemId: w.byCode('DR-03').id, levelId: w.level.id, units: [{ unitId: w.cassette2.id }] } }),
+  },
+  'GET /api/jobs/:jobId/labels.pdf': { serial: true, setup: async (w) => ({ path: J(w, `/labels.pdf?levelId=${w.level.id}`) }) },
   'POST /api/jobs/:jobId/findings': {
     setup: async (w) => ({ path: J(w, '/findings'), body: { catalogueItemId: w.byCode('DR-03').id, unitId: w.cassette2.id } }),
   },
   'GET /api/jobs/:jobId/findings/:findingId': { setup: async (w, _c, v) => ({ path: J(w, `/findings/${w.finding[v].id}`) }) },
   'GET /api/jobs/:jobId/photos/:photoId': { setup: async (w, _c, v) => ({ path: J(w, `/photos/${w.finding[v].photoId}`) }) },
   'GET /api/jobs/:jobId/photos/:photoId/thumb': { setup: async (w, _c, v) => ({ path: J(w, `/photos/${w.finding[v].photoId}/thumb`) }) },
+  'GET /api/photos/:photoId/marks': { setup: async (w, _c, v) => ({ path: `/api/photos/${w.finding[v].photoId}/marks` }) },
+  'PUT /api/photos/:photoId/marks': {
+    setup: async (w, _c, v) => ({ path: `/api/photos/${w.finding[v].photoId}/marks`, body: { marks: [{ kind: 'rect', colour: 'yellow', x: 0.1, y: 0.1, w: 0.2, h: 0.2 }] }, headers: IF_MATCH }),
+  },
   'POST /api/jobs/:jobId/findings/:findingId/fixes': {
     setup: async (w, _c, v) => ({ path: J(w, `/findings/${(await openFinding(w, v)).id}/fixes`), multipart: { data: { note: 'Re-pitched the drain.' }, photos: 1 } }),
   },
@@ -479,12 +553,23 @@ export const CASES: Record<string, RouteCase> = {
   'DELETE /api/jobs/:jobId/levels/:levelId/plan': { setup: async (w) => ({ path: J(w, `/levels/${await levelWithPlan(w)}/plan`), headers: IF_MATCH }) },
   // Levels board family (H1) and exports (H4)
   'GET /api/jobs/:jobId/board': { setup: async (w) => ({ path: J(w, '/board') }) },
+  'GET /api/jobs/:jobId/board/systems': { setup: async (w) => ({ path: J(w, '/board/systems') }) },
   'GET /api/jobs/:jobId/readiness': { setup: async (w) => ({ path: J(w, '/readiness') }) },
   'GET /api/jobs/:jobId/scorecards': { setup: async (w) => ({ path: J(w, '/scorecards') }) },
   'GET /api/jobs/:jobId/recurring': { setup: async (w) => ({ path: J(w, '/recurring') }) },
   'GET /api/jobs/:jobId/trend': { setup: async (w) => ({ path: J(w, '/trend') }) },
   'GET /api/jobs/:jobId/findings.csv': { serial: true, setup: async (w) => ({ path: J(w, '/findings.csv') }) },
   'GET /api/jobs/:jobId/scorecards.csv': { serial: true, setup: async (w) => ({ path: J(w, '/scorecards.csv') }) },
+  // PDF reports (server/routes/reports.ts): the crew list of company A's level; report runs of the GC manager.
+  'GET /api/jobs/:jobId/reports/close-out.pdf': { serial: true, setup: async (w) => ({ path: J(w, `/reports/close-out.pdf?levelId=${w.level.id}`) }) },
+  'GET /api/jobs/:jobId/reports/crew-list.pdf': {
+    serial: true,
+    setup: async (w) => ({ path: J(w, `/reports/crew-list.pdf?companyId=${w.subA.companyId}&levelId=${w.level.id}`) }),
+  },
+  'GET /api/jobs/:jobId/units/:unitId/sheet.pdf': { serial: true, setup: async (w) => ({ path: J(w, `/units/${w.cassette.id}/sheet.pdf`) }) },
+  'POST /api/jobs/:jobId/reports': { setup: async (w) => ({ path: J(w, '/reports'), body: { kind: 'close-out', levelId: w.level.id } }) },
+  'GET /api/jobs/:jobId/reports/:reportId': { setup: async (w) => ({ path: J(w, `/reports/${await reportRunOf(w)}`) }) },
+  'GET /api/jobs/:jobId/reports/:reportId/report.pdf': { setup: async (w) => ({ path: J(w, `/reports/${await reportRunOf(w)}/report.pdf`) }) },
 };
 
 /** Sends a spec as `who` (CSRF header and a fresh Idempotency-Key on every write). */

@@ -85,18 +85,32 @@ export const EXPECTED: Record<string, Row> = {
   'GET /api/jobs/:jobId/findings.csv': member(200), // same scope as the list
   'GET /api/jobs/:jobId/levels/:levelId/plan': member(200),
   'GET /api/jobs/:jobId/board': member(200), // counts scoped to a subcontractor's company
+  'GET /api/jobs/:jobId/board/systems': member(200), // records start-up waits for: a subcontractor's company's systems only
   'GET /api/jobs/:jobId/readiness': member(200),
   'GET /api/jobs/:jobId/recurring': member(200),
   'GET /api/jobs/:jobId/trend': member(200),
   // Company comparisons: not for subcontractors (they would see the other companies' records)
   'GET /api/jobs/:jobId/scorecards': fieldCrew(200),
   'GET /api/jobs/:jobId/scorecards.csv': fieldCrew(200),
+  // PDF reports: each in the caller's scope; the crew list names company A (B's subcontractor: 404);
+  // a report built in the background is its asker's alone (the GC manager's here; not built yet: 409).
+  'GET /api/jobs/:jobId/reports/close-out.pdf': member(200),
+  'GET /api/jobs/:jobId/reports/crew-list.pdf': r(401, 200, 200, 200, 404),
+  'GET /api/jobs/:jobId/units/:unitId/sheet.pdf': member(200),
+  'POST /api/jobs/:jobId/reports': member(202),
+  'GET /api/jobs/:jobId/reports/:reportId': r(401, 200, 404, 404, 404),
+  'GET /api/jobs/:jobId/reports/:reportId/report.pdf': r(401, 409, 404, 404, 404),
   'POST /api/jobs/:jobId/levels/:levelId/plan': fieldCrew(201),
   'DELETE /api/jobs/:jobId/levels/:levelId/plan': gcOnly(204),
   // Job set-up: GC manager only
   'PATCH /api/jobs/:jobId': gcOnly(200),
+  'GET /api/jobs/:jobId/setup/checklist': gcOnly(200), // what is missing before a walk makes sense
+  'POST /api/jobs/:jobId/copy': gcOnly(201), // a new job with this one's structure, catalogue, settings and companies
   'POST /api/jobs/:jobId/levels': gcOnly(201),
   'POST /api/jobs/:jobId/levels/order': gcOnly(200),
+  'POST /api/jobs/:jobId/levels/bulk': gcOnly(201),
+  'POST /api/jobs/:jobId/spaces/bulk': gcOnly(201),
+  'POST /api/jobs/:jobId/spaces/import': gcOnly(200),
   'PATCH /api/jobs/:jobId/levels/:levelId': gcOnly(200),
   'DELETE /api/jobs/:jobId/levels/:levelId': gcOnly(204),
   'POST /api/jobs/:jobId/spaces': gcOnly(201),
@@ -110,6 +124,9 @@ export const EXPECTED: Record<string, Row> = {
   'DELETE /api/jobs/:jobId/models/:modelId': gcOnly(204),
   'POST /api/jobs/:jobId/units': gcOnly(201),
   'POST /api/jobs/:jobId/units/import': gcOnly(200), // dryRun: true
+  'GET /api/jobs/:jobId/units/imports': gcOnly(200),
+  'POST /api/jobs/:jobId/units/imports/:importId/undo': gcOnly(200),
+  'POST /api/jobs/:jobId/units/delete': gcOnly(200),
   'PATCH /api/jobs/:jobId/units/:unitId': gcOnly(200),
   'DELETE /api/jobs/:jobId/units/:unitId': gcOnly(204),
   'PUT /api/jobs/:jobId/units/:unitId/ceiling-exclusion': gcOnly(200), // excluded from the ceiling rule with a reason
@@ -128,6 +145,11 @@ export const EXPECTED: Record<string, Row> = {
   'POST /api/jobs/:jobId/test-records': r(401, 403, 201, 201, 404), // an inspector or the responsible company records; a GC manager witnesses instead
   'GET /api/jobs/:jobId/test-records.csv': member(200),
   'GET /api/jobs/:jobId/test-records/:recordId': r(401, 200, 200, 200, 404),
+  // Sampling audits: a GC manager or inspector plans and reads them; a sample's results count every company's findings
+  'GET /api/jobs/:jobId/audits': fieldCrew(200),
+  'POST /api/jobs/:jobId/audits': fieldCrew(201),
+  'GET /api/jobs/:jobId/audits/:auditId.csv': fieldCrew(200),
+  'GET /api/jobs/:jobId/audits/:auditId': fieldCrew(200),
   'POST /api/jobs/:jobId/test-records/:recordId/witness': r(401, 200, 200, 403, 403), // an inspector or GC manager confirms
   'PATCH /api/jobs/:jobId/members/:memberId': gcOnly(200),
   'DELETE /api/jobs/:jobId/members/:memberId': gcOnly(204),
@@ -136,6 +158,8 @@ export const EXPECTED: Record<string, Row> = {
   'DELETE /api/jobs/:jobId/catalogue/:itemId': gcOnly(200), // retires the item (findings keep pointing at it) and answers it
   'POST /api/jobs/:jobId/invitations': gcOnly(201),
   'GET /api/jobs/:jobId/invitations': gcOnly(200),
+  'POST /api/jobs/:jobId/invitations/bulk': gcOnly(201),
+  'POST /api/jobs/:jobId/invitations/:invitationId/resend': gcOnly(200),
   'DELETE /api/jobs/:jobId/invitations/:invitationId': gcOnly(204),
   // Walks and unit checks: GC manager and inspector
   'POST /api/jobs/:jobId/walks': fieldCrew(201),
@@ -148,6 +172,8 @@ export const EXPECTED: Record<string, Row> = {
   'GET /api/jobs/:jobId/units/:unitId/checks': fieldCrew(200),
   // Findings
   'POST /api/jobs/:jobId/findings': fieldCrew(201),
+  'POST /api/jobs/:jobId/findings/batch': fieldCrew(201), // one defect on many units of a level
+  'GET /api/jobs/:jobId/labels.pdf': fieldCrew(200), // unit labels: the people who walk and check units
   'POST /api/jobs/:jobId/findings/bulk': fieldCrew(200),
   'GET /api/jobs/:jobId/reinspections/queue': fieldCrew(200),
   'GET /api/jobs/:jobId/findings/:findingId': seesFinding(200),
@@ -156,6 +182,8 @@ export const EXPECTED: Record<string, Row> = {
   'POST /api/jobs/:jobId/findings/:findingId/comments': seesFinding(201),
   'GET /api/jobs/:jobId/photos/:photoId': seesFinding(200),
   'GET /api/jobs/:jobId/photos/:photoId/thumb': seesFinding(200),
+  'GET /api/photos/:photoId/marks': seesFinding(200), // as the photo: the caller's membership of the photo's job
+  'PUT /api/photos/:photoId/marks': r(401, 200, 200, 403, 404), // as adding photos to the finding
   'POST /api/jobs/:jobId/findings/:findingId/fixes': r(401, 201, 403, 201, 404), // the finding's company and the GC manager
   'POST /api/jobs/:jobId/findings/:findingId/reinspections': r(401, 200, 200, 403, 403),
   'POST /api/jobs/:jobId/findings/:findingId/photos': fieldCrew(201), // those who log findings add photos to them
@@ -170,6 +198,8 @@ export const EXPECTED: Record<string, Row> = {
 const CROSS: Record<string, Row> = {
   'PATCH /api/jobs/:jobId/findings/:findingId': r(401, 404, 404, 404, 404),
   'POST /api/jobs/:jobId/walks/:walkId/finish': r(401, 404, 404, 403, 403),
+  // Another job's report under this job's id is not found before its state is looked at.
+  'GET /api/jobs/:jobId/reports/:reportId/report.pdf': r(401, 404, 404, 404, 404),
 };
 
 let db: Database;

@@ -28,6 +28,7 @@ import { QueryTypes } from 'sequelize';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
 import { decodeSlots, DECODE_CONCURRENCY, PHOTO_REQUEST_PIXEL_BUDGET } from '../../../server/services/photos';
+import { DEFAULT_UPLOAD_LIMITS } from '../../../server/middleware/upload';
 import { buildTestApp } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser, TEST_PASSWORD } from '../../support/factories';
@@ -332,6 +333,20 @@ describe('per-user limits', () => {
       body: JSON.stringify(finding()),
     });
     expect(json.status).toBe(201);
+  });
+
+  it("the default limits let a floor walked without signal through in one sync: 150 findings with a photo, one after another, are all stored", async () => {
+    // The outbox sends its queue one write at a time; under the old default (60 per 10 minutes)
+    // the 61st was refused with 429 and the rest waited out the window.
+    const app = await serve({ uploadLimits: DEFAULT_UPLOAD_LIMITS });
+    const inspector = await signInOver(app.url, w.inspector.email);
+    const before = await stored(w.job.id);
+    const statuses: number[] = [];
+    for (let i = 0; i < 150; i++) statuses.push((await post(app.url, `/api/jobs/${w.job.id}/findings`, inspector, { head: multipart(finding(), [smallJpeg]) })).status);
+    expect(statuses.filter((s) => s !== 201)).toEqual([]);
+    const after = await stored(w.job.id);
+    expect(Number(after.rows.findings) - Number(before.rows.findings)).toBe(150);
+    expect(Number(after.rows.photos) - Number(before.rows.photos)).toBe(150);
   });
 
   it('the pixel window: photos beyond the megapixels allowed in the window → 429, nothing stored', async () => {

@@ -42,12 +42,13 @@ it('every fix has a fix photo stored like an upload: a JPEG naming its unit tag,
   expect(fixes.length).toBeGreaterThan(20);
   expect(fixes.filter((f) => f.photos !== 1)).toEqual([]);
 
-  const photos = await rows<{ storage_key: string; thumb_key: string; content_type: string; width: number; height: number; sha256: string }>(
-    `SELECT p.storage_key, p.thumb_key, p.content_type, p.width, p.height, p.sha256 FROM photos p WHERE p.job_id = $1 AND p.fix_id IS NOT NULL`,
+  const photos = await rows<{ storage_key: string; thumb_key: string; print_key: string; content_type: string; width: number; height: number; sha256: string }>(
+    `SELECT p.storage_key, p.thumb_key, p.print_key, p.content_type, p.width, p.height, p.sha256 FROM photos p WHERE p.job_id = $1 AND p.fix_id IS NOT NULL`,
   );
   const stored = new Set(await s3.keys());
   for (const p of photos) {
-    expect(stored.has(p.storage_key) && stored.has(p.thumb_key)).toBe(true);
+    // Full, thumbnail and print copy, as an upload stores them.
+    expect(stored.has(p.storage_key) && stored.has(p.thumb_key) && stored.has(p.print_key)).toBe(true);
     expect(p.content_type).toBe('image/jpeg');
   }
   // Two of them read back from the store: real JPEGs of the recorded size, each different.
@@ -58,6 +59,11 @@ it('every fix has a fix photo stored like an upload: a JPEG naming its unit tag,
     for await (const chunk of object.body) chunks.push(Buffer.from(chunk as Buffer));
     const meta = await sharp(Buffer.concat(chunks)).metadata();
     expect(meta).toMatchObject({ format: 'jpeg', width: p.width, height: p.height });
+    // The print copy of a 960 × 720 picture fills the 255 × 191.25 pt box at 150 dpi: 531 × 398 (pt / 72 × 150).
+    const print = (await s3.store.get(p.print_key))!;
+    const printChunks: Buffer[] = [];
+    for await (const chunk of print.body) printChunks.push(Buffer.from(chunk as Buffer));
+    expect(await sharp(Buffer.concat(printChunks)).metadata()).toMatchObject({ format: 'jpeg', width: 531, height: 398 });
   }
   expect(new Set(photos.map((p) => p.sha256)).size).toBe(photos.length);
 

@@ -146,7 +146,7 @@ describe('parseQuantity: rejections say why', () => {
     ['1486 mm', 'mass', /is a length \(mm\), but a mass is expected/],
     ['1/8 in', 'slope', /is a length \(in\), but a slope is expected/],
     ['3 tons', 'mass', /is a capacity \(ton\), but a mass is expected/],
-    ['1:100', 'length', /ratio \(a slope\), but a length is expected/],
+    ['1:100', 'length', /is a slope: a height difference stated that way needs the width it applies across/],
     ['4 ft 3 lb', 'length', /mixes a length \(ft\) and a mass \(lb\)/],
     ['5 ft 3 m', 'length', /only feet-and-inches or pounds-and-ounces/],
     [`10" 4'`, 'length', /out of order/],
@@ -372,5 +372,50 @@ describe('formatting (feet-inches to 1/16 in; mm to 0.1 mm)', () => {
         return value(formatSlope(x, 'imperial'), 'slope') === x;
       }),
     );
+  });
+});
+
+describe('a height difference stated as a tilt across a width (level tolerances)', () => {
+  // Reference: mathjs with 64-digit BigNumber arithmetic (tan of the angle in degrees, the
+  // width converted by mathjs units), an implementation outside the project.
+  const big = math.create(math.all, { number: 'BigNumber', precision: 64 });
+  const mm = (width: string) => big.bignumber(math.unit(width).toNumber('mm'));
+  const tanDeg = (deg: number) => big.tan(big.unit(big.bignumber(deg), 'deg'));
+
+  it('an angle across a width is width × tan(angle)', () => {
+    const expected = big.multiply(tanDeg(1), mm('840 mm')) as math.BigNumber;
+    expect(value('1° across 840 mm', 'length')).toBeCloseTo(expected.toNumber(), 10);
+    expect(value('0.5 deg across 33 in', 'length')).toBeCloseTo((big.multiply(tanDeg(0.5), mm('33 in')) as math.BigNumber).toNumber(), 10);
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 4400 }), fc.integer({ min: 100, max: 3000 }), (hundredthsDeg, widthMm) => {
+        const deg = hundredthsDeg / 100;
+        const ref = (big.multiply(tanDeg(deg), big.bignumber(widthMm)) as math.BigNumber).toNumber();
+        return Math.abs(value(`${deg}° across ${widthMm} mm`, 'length') - ref) <= 1e-9 * Math.max(1, ref);
+      }),
+    );
+  });
+
+  it('a slope across a width is width × rise / run, in any slope notation', () => {
+    expect(value('1:100 over 32 in', 'length')).toBeCloseTo(math.unit('32 in').toNumber('mm') / 100, 12);
+    expect(value('1% across 1.2 m', 'length')).toBeCloseTo(12, 12);
+    // 1/8 in per ft over 4 ft is 1/2 in (12.7 mm): NIST SP 811 B.8 factors.
+    expect(value('1/8 in/ft across 4 ft', 'length')).toBeCloseTo(12.7, 12);
+    expect(parseQuantity('1° across 840 mm', 'length')).toMatchObject({ ok: true, display: '14.7 mm' });
+  });
+
+  it('refuses what cannot be converted, and says how to write it', () => {
+    const error = (t: string) => {
+      const r = parseQuantity(t, 'length');
+      if (r.ok) throw new Error(`expected "${t}" to be refused`);
+      return r.error;
+    };
+    expect(error('1°')).toMatch(/needs the width it applies across, e\.g\. "1° across 840 mm"/);
+    expect(error('1:100')).toMatch(/needs the width it applies across/);
+    expect(error('1° across')).toMatch(/Unknown unit "across"/);
+    expect(error('1° across 30°')).toMatch(/the width after "across"/);
+    expect(error('5 kg across 840 mm')).toMatch(/not an angle \(e\.g\. 1°\) or a slope/);
+    expect(error('50° across 840 mm')).toMatch(/less than 45°/);
+    // A slope or an angle asked for itself keeps its own meaning.
+    expect(value('1:100', 'slope')).toBe(0.01);
   });
 });

@@ -5,6 +5,7 @@
  * "Invalid UUID", "Too big: expected string to have <=20 characters"...).
  */
 import { z } from 'zod';
+import * as audits from '../../../shared/schemas/audits';
 import * as auth from '../../../shared/schemas/auth';
 import * as board from '../../../shared/schemas/board';
 import * as exportsSchemas from '../../../shared/schemas/exports';
@@ -47,7 +48,7 @@ function wrongFor(field: Schema, depth = 0): unknown[] {
   return out;
 }
 
-const modules = { auth, board, exports: exportsSchemas, findings, preferences, session, setup, testRecords };
+const modules = { audits, auth, board, exports: exportsSchemas, findings, preferences, session, setup, testRecords };
 const schemas = Object.entries(modules).flatMap(([mod, exported]) =>
   Object.entries(exported)
     .filter((e): e is [string, Schema] => e[1] instanceof z.ZodType)

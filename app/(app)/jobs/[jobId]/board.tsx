@@ -2,6 +2,6 @@ import { useLocalSearchParams } from 'expo-router';
 import { BoardScreen } from '../../../../components/board/BoardScreen';
 
 export default function BoardRoute() {
-  const { jobId } = useLocalSearchParams<{ jobId: string }>();
-  return <BoardScreen jobId={String(jobId ?? '')} />;
+  const { jobId, view } = useLocalSearchParams<{ jobId: string; view?: string }>();
+  return <BoardScreen jobId={String(jobId ?? '')} view={view === 'table' ? 'table' : 'building'} />;
 }
