@@ -46,6 +46,7 @@ module.exports = {
       testMatch: ['<rootDir>/tests/e2e/**/*.test.ts'],
       transform: { '^.+\\.tsx?$': tsJest },
       moduleNameMapper: csvParse,
+      setupFilesAfterEnv: ['<rootDir>/tests/support/e2eRetry.ts'],
     },
   ],
 };

@@ -19,6 +19,7 @@ export const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
 const CYCLES_FAIL_LINT = true;
 
 interface JestReport {
+  testResults: { name: string; assertionResults: { fullName: string; status: string; invocations?: number }[] }[];
   numPassedTests: number;
   numFailedTests: number;
   numPendingTests: number;
@@ -115,6 +116,16 @@ async function main(): Promise<number> {
       failed += 1;
     } else {
       const r = JSON.parse(fs.readFileSync(report, 'utf8')) as JestReport;
+      // Browser tests get a second try (tests/support/e2eRetry.ts); those that needed it are named.
+      const retried = r.testResults.flatMap((file) =>
+        file.assertionResults
+          .filter((t) => t.status === 'passed' && (t.invocations ?? 1) > 1)
+          .map((t) => `  ${path.relative(root, file.name)} › ${t.fullName}`),
+      );
+      if (retried.length) {
+        console.log(`\nPassed only on a second try (flaky: look at these):\n${retried.join('\n')}`);
+        fs.writeFileSync(path.join(artifacts, 'retried-tests.txt'), retried.join('\n') + '\n');
+      }
       passed += r.numPassedTests;
       failed += r.numFailedTests + r.numRuntimeErrorTestSuites;
       skipped += r.numPendingTests;

@@ -3,6 +3,8 @@
  * real POST /api/session, returning a supertest agent that carries the cookie and CSRF token.
  */
 import { randomUUID } from 'node:crypto';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
 import request from 'supertest';
 import type TestAgent from 'supertest/lib/agent';
 import { createApp, type AppOptions, type TrimoutApp } from '../../server/app';
@@ -54,4 +56,27 @@ export async function signIn(app: TrimoutApp['app'], email: string, password = T
     .send({ email, password });
   if (res.status !== 200) throw new Error(`sign-in of ${email} failed: ${res.status} ${JSON.stringify(res.body)}`);
   return { agent, csrf: res.body.csrfToken as string };
+}
+
+/** A request handler served over real HTTP on a free loopback port (for tests that need the wire). */
+export interface Listening {
+  server: http.Server;
+  url: string;
+  port: number;
+  /** Ends open connections and stops listening. */
+  close(): Promise<void>;
+}
+export async function listenOnLoopback(handler: http.RequestListener): Promise<Listening> {
+  const server = http.createServer(handler);
+  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+  const { port } = server.address() as AddressInfo;
+  return {
+    server,
+    port,
+    url: `http://127.0.0.1:${port}`,
+    close: async () => {
+      server.closeAllConnections();
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+    },
+  };
 }

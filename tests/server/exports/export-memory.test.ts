@@ -11,14 +11,13 @@
  * their lists, the company on the job).
  */
 import http from 'node:http';
-import type { AddressInfo } from 'node:net';
 import v8 from 'node:v8';
 import vm from 'node:vm';
 import { QueryTypes } from 'sequelize';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
 import { EXPORT_SLOT_WAIT_MS, exportsWaiting, MAX_CONCURRENT_EXPORTS } from '../../../server/services/csvStream';
-import { buildTestApp } from '../../support/app';
+import { buildTestApp, listenOnLoopback, type Listening } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { TEST_PASSWORD } from '../../support/factories';
 import { buildWalkJob, type WalkJob } from '../../support/findings';
@@ -40,7 +39,7 @@ const collect = vm.runInNewContext('gc') as () => void;
 
 let db: Database;
 let trimout: TrimoutApp;
-let server: http.Server;
+let listening: Listening;
 let base: string;
 let w: WalkJob;
 let cookie: string;
@@ -62,9 +61,8 @@ async function signInCookie(email: string): Promise<string> {
 beforeAll(async () => {
   db = await connectTestDb();
   trimout = buildTestApp(db);
-  server = http.createServer(trimout.app);
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  listening = await listenOnLoopback(trimout.app);
+  base = listening.url;
   w = await buildWalkJob();
   cookie = await signInCookie(w.gcManager.email);
   const item = w.byCode('DR-03');
@@ -94,7 +92,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  await new Promise<void>((resolve) => server.close(() => resolve()));
+  await listening.close();
   // The bulk findings first (nothing refers to them: no photos, fixes or events), without the
   // foreign-key triggers when allowed, as they were made; then the job with the rest of its rows.
   const started = Date.now();

@@ -6,7 +6,6 @@
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import http from 'node:http';
-import type { AddressInfo } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import express from 'express';
@@ -15,6 +14,7 @@ import sharp from 'sharp';
 import { errorHandler, notFound } from '../../../server/errors';
 import { MAX_UPLOAD_BODY_BYTES, PHOTO_LIMITS, sweepUploadFolders, uploadPhotos, uploadedFiles } from '../../../server/middleware/upload';
 import { PHOTO_MAX_AGE_SECONDS, processPhotos, sendPhoto, storePhotos, type StoredPhoto } from '../../../server/services/photos';
+import { listenOnLoopback } from '../../support/app';
 import { startFakeS3, type FakeS3 } from '../../support/storage';
 import { waitFor } from '../../support/wait';
 import { SAMPLE_HEIC, SVG, TEXT_AS_JPEG, halvesImage, phoneJpeg, pixelFloodPng } from './fixtures';
@@ -304,9 +304,8 @@ function binary(res: request.Response, done: (err: Error | null, body: Buffer) =
 
 /** Sends only the headers and a few bytes of a request that declares a huge body. */
 async function rawPost(target: express.Express, headers: Record<string, string>): Promise<{ status: number; body: string }> {
-  const server = http.createServer(target);
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  const { port } = server.address() as AddressInfo;
+  const listening = await listenOnLoopback(target);
+  const { port } = listening;
   try {
     return await new Promise((resolve, reject) => {
       const req = http.request({ host: '127.0.0.1', port, method: 'POST', path: '/upload', headers }, (res) => {
@@ -319,7 +318,6 @@ async function rawPost(target: express.Express, headers: Record<string, string>)
       req.write('--x\r\n');
     });
   } finally {
-    server.closeAllConnections();
-    await new Promise<void>((resolve) => server.close(() => resolve()));
+    await listening.close();
   }
 }

@@ -4,18 +4,17 @@
  * (streamed as they are). Decoded with node's own zlib, not the server's code.
  */
 import http from 'node:http';
-import type { AddressInfo } from 'node:net';
 import zlib from 'node:zlib';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
-import { buildTestApp, signIn, type SignedIn } from '../../support/app';
+import { buildTestApp, listenOnLoopback, signIn, type Listening, type SignedIn } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { addMember, buildJob, buildUser } from '../../support/factories';
 import { buildWalkJob, type WalkJob } from '../../support/findings';
 
 let db: Database;
 let trimout: TrimoutApp;
-let server: http.Server;
+let listening: Listening;
 let base = '';
 let w: WalkJob;
 let inspector: SignedIn;
@@ -23,14 +22,13 @@ let inspector: SignedIn;
 beforeAll(async () => {
   db = await connectTestDb();
   trimout = buildTestApp(db);
-  server = http.createServer(trimout.app);
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  listening = await listenOnLoopback(trimout.app);
+  base = listening.url;
   w = await buildWalkJob();
   inspector = await signIn(trimout.app, w.inspector.email);
 });
 afterAll(async () => {
-  await new Promise((r) => server.close(r));
+  await listening.close();
   await trimout.close();
   await db.close();
 });

@@ -20,7 +20,6 @@
  */
 import fs from 'node:fs';
 import http from 'node:http';
-import type { AddressInfo } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
@@ -29,7 +28,7 @@ import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
 import { decodeSlots, DECODE_CONCURRENCY, PHOTO_REQUEST_PIXEL_BUDGET } from '../../../server/services/photos';
 import { DEFAULT_UPLOAD_LIMITS } from '../../../server/middleware/upload';
-import { buildTestApp } from '../../support/app';
+import { buildTestApp, listenOnLoopback, type Listening } from '../../support/app';
 import { connectTestDb } from '../../support/db';
 import { buildUser, TEST_PASSWORD } from '../../support/factories';
 import { buildWalkJob, insertFinding, type WalkJob } from '../../support/findings';
@@ -52,16 +51,15 @@ const tempRoot = fs.mkdtempSync(path.join(os.tmpdir(), 'trimout-upload-attack-')
 
 interface Served {
   trimout: TrimoutApp;
-  server: http.Server;
+  listening: Listening;
   url: string;
 }
 const served: Served[] = [];
 
 async function serve(options: Parameters<typeof buildTestApp>[1]): Promise<Served> {
   const trimout = buildTestApp(db, { objectStore: s3.store, uploadTempRoot: tempRoot, ...options });
-  const server = http.createServer(trimout.app);
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  const s = { trimout, server, url: `http://127.0.0.1:${(server.address() as AddressInfo).port}` };
+  const listening = await listenOnLoopback(trimout.app);
+  const s = { trimout, listening, url: listening.url };
   served.push(s);
   return s;
 }
@@ -206,8 +204,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   for (const s of served) {
-    s.server.closeAllConnections();
-    await new Promise<void>((resolve) => s.server.close(() => resolve()));
+    await s.listening.close();
     await s.trimout.close();
   }
   await db.close();
