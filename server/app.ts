@@ -64,7 +64,7 @@ declare module 'express-session' {
 export const HOUR = 60 * 60 * 1000;
 
 /** The service worker and the web app manifest (written by scripts/lib/pwa.ts): never taken from an HTTP cache unchecked. */
-const OFFLINE_SHELL_FILES = new Set(['sw.js', 'manifest.webmanifest']);
+const OFFLINE_SHELL_FILES = new Set(['sw.js', 'manifest.webmanifest', 'early-session.js']);
 
 export interface AppOptions {
   env: Env;

@@ -64,8 +64,9 @@ export async function requestWithMeta<T>(
   let res: Response;
   // A FormData body (photos) goes as it is: the browser writes the multipart Content-Type and boundary.
   const form = isFormData(init.body);
+  const early = method === 'GET' && init.body === undefined && !init.headers ? takeEarly(path) : undefined;
   try {
-    res = await fetch(path, {
+    res = await (early ?? fetch(path, {
       method,
       credentials: 'same-origin',
       headers: {
@@ -74,7 +75,7 @@ export async function requestWithMeta<T>(
         ...init.headers,
       },
       body: form ? (init.body as FormData) : init.body !== undefined ? JSON.stringify(init.body) : undefined,
-    });
+    }));
   } catch {
     noteReached(false, ping);
     throw new ApiError(0, 'offline', 'No connection to Trimout. Check your signal and try again.');
@@ -84,6 +85,17 @@ export async function requestWithMeta<T>(
   const etag = res.headers.get('ETag');
   if (res.status === 204) return { data: undefined as T, etag };
   return { data: (await res.json()) as T, etag };
+}
+
+/**
+ * A GET the page started before the app's scripts ran (public/early-session.js), handed over once:
+ * the second ask of the same path goes to the network as usual.
+ */
+export function takeEarly(path: string): Promise<Response> | undefined {
+  const early = (globalThis as { __trimoutEarly?: Record<string, Promise<Response> | undefined> }).__trimoutEarly;
+  const started = early?.[path];
+  if (early && started) delete early[path];
+  return started;
 }
 
 /** Asked every 15 s while the server is unreachable (components/api/reach.ts): any answer will do. */

@@ -93,6 +93,7 @@ async function writeServiceWorker(distDir: string): Promise<{ count: number; siz
     globDirectory: distDir,
     globPatterns: [
       'index.html',
+      'early-session.js',
       '_expo/static/**/*.{js,css}',
       'assets/**/*.{ttf,otf,woff,woff2,png,jpg,svg}',
       'icons/*.png',

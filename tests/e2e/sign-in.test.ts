@@ -43,9 +43,18 @@ describe.each(sizes)('at $name size', ({ name, viewport }) => {
     expect(badges).toEqual(Array(jobs).fill(badge));
     await h.screenshot(page, `sign-in-${account.role}-${account.company}-${name}`);
 
-    // a reload keeps you signed in (the session lives in PostgreSQL)
+    // a reload keeps you signed in (the session lives in PostgreSQL); the session is read once,
+    // by the page's early script (public/early-session.js), and the app takes that answer
+    const sessionReads: string[] = [];
+    const countSession = (r: { method(): string; url(): string }) => {
+      if (r.method() === 'GET' && new URL(r.url()).pathname === '/api/session') sessionReads.push(r.url());
+    };
+    page.on('request', countSession);
     await page.reload();
     await page.getByTestId('job-list').waitFor();
+    page.off('request', countSession);
+    expect(sessionReads).toHaveLength(1);
+    await expect(page.evaluate(() => Object.keys((globalThis as { __trimoutEarly?: object }).__trimoutEarly ?? { none: 1 }))).resolves.toEqual([]);
 
     // open the first job
     await page.getByText('Cinder Lane Commons', { exact: true }).click();

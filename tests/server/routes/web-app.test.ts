@@ -42,6 +42,8 @@ beforeAll(async () => {
   fs.mkdirSync(path.join(dist, path.dirname(FONT)), { recursive: true });
   fs.writeFileSync(path.join(dist, FONT), 'font bytes');
   fs.writeFileSync(path.join(dist, 'favicon.ico'), 'icon bytes');
+  // and public/, copied as it is (the page's early session read)
+  fs.copyFileSync(path.resolve(__dirname, '../../../public/early-session.js'), path.join(dist, 'early-session.js'));
   await addOfflineShell(dist);
   db = await connectTestDb();
   trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }) });
@@ -155,6 +157,7 @@ describe('installable, opens offline', () => {
     expect(res.text).toContain(`url:"${BUNDLE.slice(1)}",revision:null`);
     expect(res.text).toContain(`url:"${FONT.slice(1)}",revision:null`);
     expect(res.text).toContain(`url:"manifest.webmanifest",revision:"${md5(fs.readFileSync(path.join(dist, 'manifest.webmanifest')))}"`);
+    expect(res.text).toContain(`url:"early-session.js",revision:"${md5(fs.readFileSync(path.join(dist, 'early-session.js')))}"`);
     for (const icon of ['icons/icon-192.png', 'icons/icon-512.png', 'icons/maskable-512.png', 'apple-touch-icon.png']) {
       expect(res.text).toContain(`url:"${icon}",revision:"`);
     }
@@ -162,6 +165,13 @@ describe('installable, opens offline', () => {
     expect(res.text).toContain('denylist:[/^\\/api(\\/|$)/,/^\\/mailbox(\\/|$)/]');
     // no runtime caching: nothing of the API is ever answered from a cache
     expect(res.text).not.toMatch(/NetworkFirst|StaleWhileRevalidate|CacheFirst/);
+  });
+
+  it('serves the early session script as JavaScript from this origin, checked on every load', async () => {
+    const res = await request(trimout.app).get('/early-session.js').expect(200);
+    expect(res.headers['content-type']).toMatch(/^(application|text)\/javascript/);
+    expect(res.headers['cache-control']).toBe('no-cache');
+    expect(res.text).toContain("fetch('/api/session'");
   });
 
   it("the content security policy lets this origin's worker and manifest load, and no other", async () => {
