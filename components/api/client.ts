@@ -15,9 +15,20 @@ export class ApiError extends Error {
     readonly id: string,
     message: string,
     readonly fields: Record<string, string> = {},
+    /** How long the server asked to wait before asking again (its Retry-After), when it said. */
+    readonly retryAfterMs?: number,
   ) {
     super(message);
   }
+}
+
+/** A Retry-After header (RFC 9110 §10.2.3: seconds, or an HTTP date) as milliseconds from now. */
+export function retryAfterMs(value: string | null, now = Date.now()): number | undefined {
+  if (!value) return undefined;
+  const text = value.trim();
+  if (/^\d+$/.test(text)) return Number(text) * 1000;
+  const at = Date.parse(text);
+  return Number.isNaN(at) ? undefined : Math.max(0, at - now);
 }
 
 let csrfToken = '';
@@ -30,14 +41,15 @@ export function getCsrfToken() {
 }
 
 async function toError(res: Response): Promise<ApiError> {
+  const wait = retryAfterMs(res.headers.get('Retry-After'));
   try {
     const body = (await res.json()) as Partial<ApiErrorBody>;
-    if (body.error) return new ApiError(res.status, body.error.id, body.error.message, body.error.fields);
+    if (body.error) return new ApiError(res.status, body.error.id, body.error.message, body.error.fields, wait);
   } catch {
     // not JSON: fall through to a generic message
   }
-  if (res.status === 503) return new ApiError(503, 'unavailable', 'Trimout is not reachable right now. Try again in a moment.');
-  return new ApiError(res.status, 'http', `The server answered ${res.status}.`);
+  if (res.status === 503) return new ApiError(503, 'unavailable', 'Trimout is not reachable right now. Try again in a moment.', {}, wait);
+  return new ApiError(res.status, 'http', `The server answered ${res.status}.`, {}, wait);
 }
 
 export interface WithMeta<T> {

@@ -170,7 +170,7 @@ export function SyncScreen() {
               </AppText>
               {item.state === 'waiting' && item.delay ? (
                 <AppText variant="small" testID="sync-item-delay">
-                  {`Trimout asked to wait: ${item.delay.message} Tried again by itself at ${clock(item.notBefore)}.`}
+                  {`Trimout asked to wait: ${item.delay.message} Tries again by itself at ${clock(item.notBefore)}.`}
                 </AppText>
               ) : null}
             </Card>

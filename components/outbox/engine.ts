@@ -94,6 +94,8 @@ export function backoffMs(attempts: number, random: () => number = Math.random):
 }
 
 const SENT_KEPT = 50;
+/** A Retry-After longer than this is not waited out: the write is tried again by then anyway. */
+export const MAX_RETRY_AFTER_MS = 15 * 60 * SECOND;
 
 
 interface Waiter {
@@ -395,7 +397,8 @@ export class Outbox {
         await this.save({
           ...sending,
           state: 'waiting',
-          notBefore: this.now() + backoffMs(sending.attempts, this.random),
+          // The server's Retry-After when it gave one (a rate limit's window), else the backoff.
+          notBefore: this.now() + Math.max(backoffMs(sending.attempts, this.random), Math.min(e.retryAfterMs ?? 0, MAX_RETRY_AFTER_MS)),
           delay: e.status ? { status: e.status, message: e.message } : undefined,
         });
         this.status = 'offline';

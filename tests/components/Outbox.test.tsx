@@ -5,9 +5,9 @@
  * sending another's writes, and multipart writes kept as Blobs and rebuilt byte for byte.
  */
 import 'fake-indexeddb/auto';
-import { ApiError } from '../../components/api/client';
+import { ApiError, retryAfterMs } from '../../components/api/client';
 import type { Write } from '../../components/api/mutations';
-import { backoffMs, isQueued, Outbox, type OutboxDeps } from '../../components/outbox/engine';
+import { backoffMs, isQueued, MAX_RETRY_AFTER_MS, Outbox, type OutboxDeps } from '../../components/outbox/engine';
 import { keepNow, setCurrentOutbox, submitWrite } from '../../components/outbox';
 import { indexedDbStorage, keepWrite, memoryOutboxStorage, writeOf, type OutboxStorage } from '../../components/outbox/storage';
 
@@ -128,6 +128,30 @@ describe('outbox', () => {
     [kept] = await storage.list('u1');
     expect(kept).toMatchObject({ state: 'waiting', attempts: 2 });
     expect(kept!.delay).toBeUndefined();
+  });
+
+  it("a server's Retry-After is waited out (not the shorter backoff), up to 15 minutes", async () => {
+    const f = fake();
+    let wait = 120_000;
+    f.behave.set('/a', () => {
+      throw new ApiError(429, 'too_many_requests', 'Too many uploads.', {}, wait);
+    });
+    const box = new Outbox('u1', f.deps);
+    await box.add(w('/a'), meta(null));
+    await box.sync();
+    let [kept] = await storage.list('u1');
+    expect(kept).toMatchObject({ state: 'waiting', attempts: 1, notBefore: f.clock.now + 120_000 });
+    // not sent before then
+    f.clock.now += 60_000;
+    await box.sync();
+    [kept] = await storage.list('u1');
+    expect(kept!.attempts).toBe(1);
+    // a Retry-After of a day is capped: the write is tried again within 15 minutes
+    wait = 24 * 3600_000;
+    f.clock.now += 60_000;
+    await box.sync();
+    [kept] = await storage.list('u1');
+    expect(kept).toMatchObject({ attempts: 2, notBefore: f.clock.now + MAX_RETRY_AFTER_MS });
   });
 
   it('a write left "sending" by a reload is sent again on start with the same key', async () => {
@@ -308,5 +332,17 @@ describe('outbox', () => {
     } finally {
       setCurrentOutbox(null);
     }
+  });
+});
+
+describe('Retry-After as the server writes it', () => {
+  // RFC 9110 §10.2.3 gives both forms: "Retry-After: Fri, 31 Dec 1999 23:59:59 GMT" and "Retry-After: 120".
+  it('reads delay-seconds and an HTTP date, and nothing else', () => {
+    expect(retryAfterMs('120')).toBe(120_000);
+    const now = Date.parse('Fri, 31 Dec 1999 23:58:59 GMT');
+    expect(retryAfterMs('Fri, 31 Dec 1999 23:59:59 GMT', now)).toBe(60_000);
+    expect(retryAfterMs('Fri, 31 Dec 1999 23:57:59 GMT', now)).toBe(0); // a date gone by: at once
+    expect(retryAfterMs(null)).toBeUndefined();
+    expect(retryAfterMs('soon')).toBeUndefined();
   });
 });

@@ -75,16 +75,19 @@ describe('outbox on the screen', () => {
   });
 
   it('the sync screen says when Trimout asked to wait, with its words and when the write is tried again', async () => {
-    refuse.set('/api/jobs/j1/findings', new ApiError(429, 'too_many_requests', 'Too many uploads: at most 300 in 10 minutes per person.'));
+    // The limit's window has 2 minutes left (Retry-After: 120): tried again then, not sooner.
+    refuse.set('/api/jobs/j1/findings', new ApiError(429, 'too_many_requests', 'Too many uploads: at most 300 in 10 minutes per person.', {}, 120_000));
+    const asked = Date.now();
     await act(async () => {
       await outbox.add({ method: 'POST', path: '/api/jobs/j1/findings', body: { note: 'x' }, idempotencyKey: 'k-f' }, { jobId: 'j1', kind: 'finding', label: 'Finding on unit A' });
       await outbox.sync(true);
     });
     const [kept] = await storage.list('u1');
+    expect(kept!.notBefore).toBeGreaterThanOrEqual(asked + 120_000);
     render(<SyncScreen />);
     expect(screen.getByTestId('sync-summary').props.children).toMatch(/Trimout asked to wait before taking more/);
     const at = new Date(kept!.notBefore).toLocaleTimeString([], { hour: '2-digit', minute: '2-digit' });
-    expect(screen.getByTestId('sync-item-delay').props.children).toBe(`Trimout asked to wait: Too many uploads: at most 300 in 10 minutes per person. Tried again by itself at ${at}.`);
+    expect(screen.getByTestId('sync-item-delay').props.children).toBe(`Trimout asked to wait: Too many uploads: at most 300 in 10 minutes per person. Tries again by itself at ${at}.`);
   });
 
   it('the sync screen shows a refused write with both versions; discard asks first', async () => {
