@@ -115,4 +115,9 @@ export default defineConfig(
       ],
     },
   },
+  {
+    // Metro loads its config with require(): CommonJS is the format it reads.
+    files: ['metro.config.js'],
+    rules: { '@typescript-eslint/no-require-imports': 'off' },
+  },
 );

@@ -37,7 +37,7 @@ export function QrCamera({ onCode, onClose, testID = 'scan-camera' }: QrCameraPr
         if (native) text = (await native.detect(v).catch(() => []))[0]?.rawValue ?? null;
         else {
           const pixels = pixelsOf(v, v.videoWidth, v.videoHeight);
-          text = pixels ? decodePixels(pixels.data, pixels.width, pixels.height) : null;
+          text = pixels ? await decodePixels(pixels.data, pixels.width, pixels.height) : null;
         }
         // The same label stays in view for many frames: act on it once.
         if (text && text !== last && !stopped) {

@@ -2,7 +2,7 @@
  * In a browser (imported by .web files only): QR codes read from pixels with jsQR (a decoder that needs no native code), or with
  * the browser's own BarcodeDetector where it has one (Chromium on Android and macOS).
  */
-import jsQR from 'jsqr';
+import type jsQRType from 'jsqr';
 
 /** Large phone photos are read at this long side: plenty for a code filling a fifth of the frame, far quicker. */
 const LONG_SIDE = 1600;
@@ -31,8 +31,19 @@ export function nativeDetector(): Promise<BarcodeDetectorLike | null> {
   return detector;
 }
 
+let decoder: Promise<typeof jsQRType> | null = null;
+/**
+ * jsQR (about 130 KB of script) is fetched the first time a code is read, not with the app: the
+ * app starts quicker on a slow phone, and the service worker keeps the piece for offline use.
+ */
+function loadJsQR(): Promise<typeof jsQRType> {
+  decoder ??= import('jsqr').then((m) => m.default);
+  return decoder;
+}
+
 /** The code in these pixels (jsQR), or null. */
-export function decodePixels(data: Uint8ClampedArray, width: number, height: number): string | null {
+export async function decodePixels(data: Uint8ClampedArray, width: number, height: number): Promise<string | null> {
+  const jsQR = await loadJsQR();
   return jsQR(data, width, height, { inversionAttempts: 'attemptBoth' })?.data ?? null;
 }
 
@@ -60,7 +71,7 @@ export async function decodeImageFile(file: Blob): Promise<string | null> {
       if (found[0]?.rawValue) return found[0].rawValue;
     }
     const pixels = pixelsOf(bitmap, bitmap.width, bitmap.height);
-    return pixels ? decodePixels(pixels.data, pixels.width, pixels.height) : null;
+    return pixels ? await decodePixels(pixels.data, pixels.width, pixels.height) : null;
   } finally {
     bitmap.close();
   }
