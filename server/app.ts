@@ -64,6 +64,8 @@ declare module 'express-session' {
 export const HOUR = 60 * 60 * 1000;
 
 /** The service worker and the web app manifest (written by scripts/lib/pwa.ts): never taken from an HTTP cache unchecked. */
+/** An exported asset named by its content (Metro's md5 before the extension): assets/…/font.<md5>.ttf */
+const HASHED_ASSET = /^assets[\\/].+\.[0-9a-f]{32}(@\dx)?\.\w+$/;
 const OFFLINE_SHELL_FILES = new Set(['sw.js', 'manifest.webmanifest', 'early-session.js']);
 
 export interface AppOptions {
@@ -267,7 +269,8 @@ export function createApp(options: AppOptions): TrimoutApp {
       express.static(dist, {
         index: false,
         setHeaders: (res, file) => {
-          if (file.includes(`${path.sep}_expo${path.sep}static${path.sep}`)) {
+          // Bundles, and fonts and images whose names carry their content's hash: never change.
+          if (file.includes(`${path.sep}_expo${path.sep}static${path.sep}`) || HASHED_ASSET.test(path.relative(dist, file))) {
             res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
           } else if (OFFLINE_SHELL_FILES.has(path.relative(dist, file))) {
             // Checked on every load, so a deploy reaches installed apps at their next start.

@@ -49,12 +49,16 @@ export function LevelWalkScreen({
   const levels = useLevelsQuery(jobId);
   const level = levels.data?.find((l) => l.id === levelId);
   // The level's lists start beside the job's reads, not after them (one round trip less on a slow
-  // phone), for those the session says walk this job; LevelWalkBody reads the same queries.
+  // phone), for those who walk the job: the session's role until the job's own answer is in.
+  // Read here once and handed to the body (a second observer would ask again on mount).
   const session = useSessionQuery();
-  const walker = session.data?.jobs.some((j) => j.id === jobId && j.role !== 'subcontractor') ?? false;
-  useWalkUnitsQuery(jobId, levelId, filters, { enabled: walker });
-  useSpacesQuery(jobId, levelId, { enabled: walker });
-  useSystemsQuery(jobId, { enabled: walker });
+  const role = job.data?.role ?? session.data?.jobs.find((j) => j.id === jobId)?.role;
+  const walks = role !== undefined && role !== 'subcontractor';
+  const lists: WalkLists = {
+    units: useWalkUnitsQuery(jobId, levelId, filters, { enabled: walks }),
+    spaces: useSpacesQuery(jobId, levelId, { enabled: walks }),
+    systems: useSystemsQuery(jobId, { enabled: walks }),
+  };
   return (
     <Screen testID="level-walk-screen" maxWidth={720}>
       <Link href={links.walk(jobId)} style={styles.back} testID="level-walk-back">
@@ -76,7 +80,15 @@ export function LevelWalkScreen({
       ) : job.data.role === 'subcontractor' ? (
         <InspectorsOnly jobId={jobId} />
       ) : (
-        <LevelWalkBody job={job.data} levelId={level.id} levelName={level.name} saved={saved} filters={filters} onFiltersChange={onFiltersChange} />
+        <LevelWalkBody
+          job={job.data}
+          levelId={level.id}
+          levelName={level.name}
+          saved={saved}
+          filters={filters}
+          onFiltersChange={onFiltersChange}
+          lists={lists}
+        />
       )}
     </Screen>
   );
@@ -98,6 +110,12 @@ export function InspectorsOnly({ jobId }: { jobId: string }) {
   );
 }
 
+interface WalkLists {
+  units: ReturnType<typeof useWalkUnitsQuery>;
+  spaces: ReturnType<typeof useSpacesQuery>;
+  systems: ReturnType<typeof useSystemsQuery>;
+}
+
 function LevelWalkBody({
   job,
   levelId,
@@ -105,6 +123,7 @@ function LevelWalkBody({
   saved,
   filters,
   onFiltersChange,
+  lists: { units, spaces, systems },
 }: {
   job: JobDetail;
   levelId: string;
@@ -112,11 +131,9 @@ function LevelWalkBody({
   saved?: string;
   filters: WalkUnitFilters;
   onFiltersChange: (next: WalkUnitFilters) => void;
+  lists: WalkLists;
 }) {
-  const units = useWalkUnitsQuery(job.id, levelId, filters);
   const savedWords = useSavedCheckWords(job.id, saved);
-  const spaces = useSpacesQuery(job.id, levelId);
-  const systems = useSystemsQuery(job.id);
   const first = units.data?.pages[0];
   const rows = units.data?.pages.flatMap((p) => p.items) ?? [];
   const filtered = Boolean(filters.q || filters.spaceId || filters.systemId || filters.kind || filters.state);

@@ -37,7 +37,7 @@ beforeAll(async () => {
   dist = fs.mkdtempSync(path.join(os.tmpdir(), 'trimout-dist-'));
   fs.mkdirSync(path.join(dist, path.dirname(BUNDLE)), { recursive: true });
   fs.writeFileSync(path.join(dist, BUNDLE), js);
-  fs.writeFileSync(path.join(dist, 'index.html'), `<!doctype html><html><body><div id="root"></div><script src="${BUNDLE}" defer></script></body></html>`);
+  fs.writeFileSync(path.join(dist, 'index.html'), `<!doctype html><html><head><title>Trimout</title></head><body><div id="root"></div><script src="${BUNDLE}" defer></script></body></html>`);
   // The rest of what `expo export` writes: a font (hashed name) and the favicon.
   fs.mkdirSync(path.join(dist, path.dirname(FONT)), { recursive: true });
   fs.writeFileSync(path.join(dist, FONT), 'font bytes');
@@ -165,6 +165,17 @@ describe('installable, opens offline', () => {
     expect(res.text).toContain('denylist:[/^\\/api(\\/|$)/,/^\\/mailbox(\\/|$)/]');
     // no runtime caching: nothing of the API is ever answered from a cache
     expect(res.text).not.toMatch(/NetworkFirst|StaleWhileRevalidate|CacheFirst/);
+  });
+
+  it('asks for the shipped fonts beside the bundle (preload links in index.html, CORS mode as fonts are fetched)', async () => {
+    const res = await request(trimout.app).get('/sign-in').expect(200);
+    expect(res.text).toContain(`<link rel="preload" href="${FONT}" as="font" type="font/ttf" crossorigin /></head>`);
+    // named by its content, so cached for a year: the app's own request reuses the preload unasked
+    const font = await request(trimout.app).get(FONT).expect(200);
+    expect(font.headers['cache-control']).toBe('public, max-age=31536000, immutable');
+    // the favicon has no hash in its name: checked as usual
+    const icon = await request(trimout.app).get('/favicon.ico').expect(200);
+    expect(icon.headers['cache-control']).not.toMatch(/immutable/);
   });
 
   it('serves the early session script as JavaScript from this origin, checked on every load', async () => {

@@ -1,0 +1,27 @@
+import { chromium } from 'playwright-core';
+import { sessionCookies } from './scripts/lib/benchPhone';
+const BASE = 'http://127.0.0.1:3000';
+(async () => {
+  const cookies = await sessionCookies(BASE, 'inspector@demo.trimout.example', 'trimout-demo-2026');
+  const cookie = cookies.map((c) => `${c.name}=${c.value}`).join('; ');
+  const jobId = ((await (await fetch(`${BASE}/api/jobs`, { headers: { cookie } })).json()) as { items: { id: string }[] }).items[0]!.id;
+  const levels = ((await (await fetch(`${BASE}/api/jobs/${jobId}/levels`, { headers: { cookie } })).json()) as { items: { id: string; unitCount: number }[] }).items;
+  const level = [...levels].sort((a, b) => b.unitCount - a.unitCount)[0]!;
+  const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: ['--no-sandbox', '--disable-background-networking'] });
+  const ctx = await browser.newContext({ viewport: { width: 390, height: 844 } });
+  await ctx.addCookies(cookies.map((c) => ({ ...c, url: BASE })));
+  const page = await ctx.newPage();
+  const cdp = await ctx.newCDPSession(page);
+  await cdp.send('Network.enable');
+  await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 150, downloadThroughput: 200000, uploadThroughput: 200000 });
+  await cdp.send('Emulation.setCPUThrottlingRate', { rate: 4 });
+  await page.goto(`${BASE}/jobs/${jobId}/levels/${level.id}/walk`, { waitUntil: 'commit' });
+  await page.locator('[data-testid="level-walk-units"] a[href], [data-testid="level-walk-units"] [role="link"]').first().waitFor({ timeout: 120000 });
+  const usable = await page.evaluate('performance.now()');
+  const entries = (await page.evaluate(`performance.getEntriesByType('resource').map((e) => [e.name.replace(location.origin,''), e.initiatorType, Math.round(e.startTime), Math.round(e.responseEnd)])`)) as [string, string, number, number][];
+  const nav = await page.evaluate(`JSON.stringify(performance.getEntriesByType('navigation').map(e=>[Math.round(e.responseEnd), Math.round(e.domContentLoadedEventEnd)]))`);
+  const paints = await page.evaluate(`JSON.stringify(performance.getEntriesByType('paint').map(e=>[e.name, Math.round(e.startTime)]))`);
+  console.log('usable', Math.round(usable as number), 'nav', nav, 'paints', paints);
+  for (const e of entries) console.log(String(e[2]).padStart(6), String(e[3]).padStart(6), e[1].padEnd(8), e[0].slice(0, 110));
+  await browser.close();
+})();
