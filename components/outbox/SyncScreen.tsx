@@ -143,7 +143,7 @@ export function SyncScreen() {
             onPress={async () => {
               setSending(true);
               try {
-                await currentOutbox()?.sync(true);
+                await currentOutbox()?.sync('asked');
               } finally {
                 setSending(false);
               }

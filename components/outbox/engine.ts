@@ -94,6 +94,12 @@ export function backoffMs(attempts: number, random: () => number = Math.random):
 }
 
 const SENT_KEPT = 50;
+
+/** How hard a sync pushes: false waits for every retry time; true skips the outbox's own backoff; 'asked' skips the server's too. */
+export type SyncForce = boolean | 'asked';
+function strongerForce(a: SyncForce, b: SyncForce): SyncForce {
+  return a === 'asked' || b === 'asked' ? 'asked' : a || b;
+}
 /** A Retry-After longer than this is not waited out: the write is tried again by then anyway. */
 export const MAX_RETRY_AFTER_MS = 15 * 60 * SECOND;
 
@@ -111,7 +117,7 @@ export class Outbox {
   private loading: Promise<void> | null = null;
   private draining: Promise<void> | null = null;
   private again = false;
-  private againForce = false;
+  private againForce: SyncForce = false;
   private stopped = false;
   private lastSeq = 0;
   private waiters = new Map<string, Waiter>();
@@ -286,14 +292,16 @@ export class Outbox {
   // ---- sending -----------------------------------------------------------------------------
 
   /**
-   * Sends what waits, in order. `force` ignores the backoff (a press of "Send now", the 'online'
-   * event, a new write). Only one pass runs at a time; a call during one asks for another after it.
+   * Sends what waits, in order. `force` ignores the outbox's own backoff (the app's start, the
+   * 'online' event, a new write), but not a wait the server asked for (Retry-After on a 429/503);
+   * 'asked' (the person pressed "Send now") ignores that too. Only one pass runs at a time; a call
+   * during one asks for another after it.
    */
-  sync(force = false): Promise<void> {
+  sync(force: SyncForce = false): Promise<void> {
     if (this.stopped) return Promise.resolve();
     if (this.draining) {
       this.again = true;
-      this.againForce ||= force;
+      this.againForce = strongerForce(this.againForce, force);
       return this.draining;
     }
     this.draining = (async () => {
@@ -336,7 +344,7 @@ export class Outbox {
     }, Math.max(SECOND, soonest - this.now()));
   }
 
-  private async pass(force: boolean) {
+  private async pass(force: SyncForce) {
     const pending = [...this.items.values()].filter((i) => i.state !== 'attention').sort((a, b) => a.seq - b.seq);
     if (pending.length === 0) {
       this.status = 'idle';
@@ -363,7 +371,8 @@ export class Outbox {
       if (!item) continue;
       const blockedBy = [...this.items.values()].find((o) => o.seq < item.seq && o.record !== null && o.record === item.record && o.state === 'attention');
       if (item.record && (held.has(item.record) || blockedBy)) continue;
-      if (!force && item.notBefore > this.now()) {
+      const early = item.notBefore > this.now();
+      if (early && (!force || (item.delay && force !== 'asked'))) {
         if (item.record) held.add(item.record);
         continue;
       }

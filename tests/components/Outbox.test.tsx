@@ -141,9 +141,10 @@ describe('outbox', () => {
     await box.sync();
     let [kept] = await storage.list('u1');
     expect(kept).toMatchObject({ state: 'waiting', attempts: 1, notBefore: f.clock.now + 120_000 });
-    // not sent before then
+    // not sent before then: not by the minute timer, nor by the app's start or 'online' (forced)
     f.clock.now += 60_000;
     await box.sync();
+    await box.sync(true);
     [kept] = await storage.list('u1');
     expect(kept!.attempts).toBe(1);
     // a Retry-After of a day is capped: the write is tried again within 15 minutes
@@ -152,6 +153,10 @@ describe('outbox', () => {
     await box.sync();
     [kept] = await storage.list('u1');
     expect(kept).toMatchObject({ attempts: 2, notBefore: f.clock.now + MAX_RETRY_AFTER_MS });
+    // the person pressing "Send now" is not kept waiting
+    await box.sync('asked');
+    [kept] = await storage.list('u1');
+    expect(kept!.attempts).toBe(3);
   });
 
   it('a write left "sending" by a reload is sent again on start with the same key', async () => {
