@@ -5,6 +5,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import compression from 'compression';
+import expressStaticGzip from 'express-static-gzip';
 import express, { type Express } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
@@ -65,7 +66,7 @@ export const HOUR = 60 * 60 * 1000;
 
 /** The service worker and the web app manifest (written by scripts/lib/pwa.ts): never taken from an HTTP cache unchecked. */
 /** An exported asset named by its content (Metro's md5 before the extension): assets/…/font.<md5>.ttf */
-const HASHED_ASSET = /^assets[\\/].+\.[0-9a-f]{32}(@\dx)?\.\w+$/;
+const HASHED_ASSET = /^assets[\\/].+\.[0-9a-f]{32}(@\dx)?\.\w+(\.br|\.gz)?$/;
 const OFFLINE_SHELL_FILES = new Set(['sw.js', 'manifest.webmanifest', 'early-session.js']);
 
 export interface AppOptions {
@@ -261,22 +262,28 @@ export function createApp(options: AppOptions): TrimoutApp {
   const dist = path.resolve(env.WEB_DIST);
   const indexHtml = path.join(dist, 'index.html');
   if (fs.existsSync(indexHtml)) {
-    // The web app compressed (brotli or gzip, as the browser accepts): the 2.4 MB bundle is about a
-    // fifth of that on the wire, which is most of a cold start on a slow phone connection. (The
-    // API's JSON is compressed by its own router, above.)
+    // The web app compressed (brotli or gzip, as the browser accepts): the 2.7 MB bundle is about a
+    // fifth of that on the wire, which is most of a cold start on a slow phone connection. Bundles
+    // and fonts go as compressed at build time (scripts/lib/precompress.ts, brotli 11), the rest
+    // (index.html, sw.js, ...) on the fly. (The API's JSON is compressed by its own router, above.)
     app.use(compression());
     app.use(
-      express.static(dist, {
+      expressStaticGzip(dist, {
+        enableBrotli: true,
+        orderPreference: ['br', 'gzip'],
         index: false,
-        setHeaders: (res, file) => {
-          // Bundles, and fonts and images whose names carry their content's hash: never change.
-          if (file.includes(`${path.sep}_expo${path.sep}static${path.sep}`) || HASHED_ASSET.test(path.relative(dist, file))) {
-            res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
-          } else if (OFFLINE_SHELL_FILES.has(path.relative(dist, file))) {
-            // Checked on every load, so a deploy reaches installed apps at their next start.
-            res.setHeader('Cache-Control', 'no-cache');
-            if (file.endsWith('.webmanifest')) res.setHeader('Content-Type', 'application/manifest+json; charset=utf-8');
-          }
+        serveStatic: {
+          index: false,
+          setHeaders: (res, file) => {
+            // Bundles, and fonts and images whose names carry their content's hash: never change.
+            if (file.includes(`${path.sep}_expo${path.sep}static${path.sep}`) || HASHED_ASSET.test(path.relative(dist, file))) {
+              res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+            } else if (OFFLINE_SHELL_FILES.has(path.relative(dist, file))) {
+              // Checked on every load, so a deploy reaches installed apps at their next start.
+              res.setHeader('Cache-Control', 'no-cache');
+              if (file.endsWith('.webmanifest')) res.setHeader('Content-Type', 'application/manifest+json; charset=utf-8');
+            }
+          },
         },
       }),
     );

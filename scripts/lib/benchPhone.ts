@@ -220,7 +220,7 @@ export function formatPhone(f: PhoneFigures): string {
     const phases = (p: Phases) => `scripts in at ${ms(p.scriptsMs)}, first API request at ${ms(p.firstApiMs)}, last API answer at ${ms(p.apiDoneMs)}`;
     lines.push(`    where the time went (medians): cold ${phases(s.coldPhases)}; warm ${phases(s.warmPhases)}`);
     lines.push(
-      `    JavaScript: cold ${s.jsCold.files} file(s), ${kib(s.jsCold.transferBytes)} KiB gzip over the network, ${kib(s.jsCold.rawBytes)} KiB raw; ` +
+      `    JavaScript: cold ${s.jsCold.files} file(s), ${kib(s.jsCold.transferBytes)} KiB compressed over the network (brotli or gzip), ${kib(s.jsCold.rawBytes)} KiB raw; ` +
         `warm ${kib(s.jsWarm.transferBytes)} KiB over the network (${s.jsWarm.fromNetwork} of ${s.jsWarm.files} file(s))`,
     );
   }

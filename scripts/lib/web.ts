@@ -6,6 +6,7 @@
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
+import { precompress } from './precompress';
 import { addOfflineShell, PWA_SOURCES } from './pwa';
 import { runInherit, say } from './run';
 
@@ -19,6 +20,7 @@ const SOURCES = [
   'babel.config.js',
   'metro.config.js',
   'package-lock.json',
+  'scripts/lib/precompress.ts',
   ...PWA_SOURCES,
 ];
 
@@ -62,6 +64,7 @@ export async function buildWebIfStale(distDir = path.join(root, 'dist')): Promis
   if (code !== 0) throw new Error(`expo export failed with exit code ${code}.`);
   const shell = await addOfflineShell(distDir);
   say(`service worker precaches ${shell.count} files (${Math.round(shell.size / 1024)} KB).`);
+  say(`${await precompress(distDir)} files compressed ahead (brotli 11, gzip 9).`);
   fs.writeFileSync(stampFile, hash + '\n');
   say(`web app built in ${Math.round((Date.now() - started) / 1000)} s.`);
 }

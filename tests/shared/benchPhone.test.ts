@@ -175,7 +175,7 @@ describe('the printed summary', () => {
     expect(text).toContain('cold: median 3,100 ms, max 3,500 ms [3500, 2900, 3100] NOT met (target < 3,000 ms)');
     expect(text).toContain('warm: median 800 ms, max 900 ms [700, 800, 900] met (target < 1,000 ms)');
     expect(formatPhone({ ...figures, screens: [{ ...figures.screens[0]!, warm: spread([700, 800, 1100]) }] })).toContain('[700, 800, 1100] met at the median, NOT by the slowest run (target < 1,000 ms)');
-    expect(text).toContain('cold 1 file(s), 727.8 KiB gzip over the network, 3017.5 KiB raw');
+    expect(text).toContain('cold 1 file(s), 727.8 KiB compressed over the network (brotli or gzip), 3017.5 KiB raw');
     expect(text).toContain('picked 3290.9 KiB, uploaded 801.1 KiB');
     expect(text).toContain('(24 %)');
   });

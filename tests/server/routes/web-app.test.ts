@@ -16,6 +16,7 @@ import zlib from 'node:zlib';
 import sharp from 'sharp';
 import request from 'supertest';
 import { colors } from '../../../components/theme';
+import { precompress } from '../../../scripts/lib/precompress';
 import { addOfflineShell, APPLE_TOUCH_ICON } from '../../../scripts/lib/pwa';
 import type { TrimoutApp } from '../../../server/app';
 import type { Database } from '../../../server/db';
@@ -40,11 +41,12 @@ beforeAll(async () => {
   fs.writeFileSync(path.join(dist, 'index.html'), `<!doctype html><html><head><title>Trimout</title></head><body><div id="root"></div><script src="${BUNDLE}" defer></script></body></html>`);
   // The rest of what `expo export` writes: a font (hashed name) and the favicon.
   fs.mkdirSync(path.join(dist, path.dirname(FONT)), { recursive: true });
-  fs.writeFileSync(path.join(dist, FONT), 'font bytes');
+  fs.writeFileSync(path.join(dist, FONT), 'font bytes '.repeat(500));
   fs.writeFileSync(path.join(dist, 'favicon.ico'), 'icon bytes');
   // and public/, copied as it is (the page's early session read)
   fs.copyFileSync(path.resolve(__dirname, '../../../public/early-session.js'), path.join(dist, 'early-session.js'));
   await addOfflineShell(dist);
+  await precompress(dist);
   db = await connectTestDb();
   trimout = buildTestApp(db, { env: testEnv({ WEB_DIST: dist }) });
 });
@@ -83,6 +85,22 @@ it('sends the bundle brotli-compressed to a browser that accepts it, a fraction 
   // node's own zlib decodes it back to the file, byte for byte
   expect(zlib.brotliDecompressSync(res.body).toString('utf8')).toBe(js);
   expect(res.body.length).toBeLessThan(js.length * 0.25);
+  expect(res.headers['content-type']).toMatch(/^(application|text)\/javascript/);
+  // the file compressed at build time at brotli's highest quality, not a quick one on the fly
+  expect(res.body.equals(fs.readFileSync(path.join(dist, `${BUNDLE}.br`)))).toBe(true);
+  const quick = zlib.brotliCompressSync(Buffer.from(js), { params: { [zlib.constants.BROTLI_PARAM_QUALITY]: 4 } });
+  expect(res.body.length).toBeLessThan(quick.length);
+});
+
+it('sends the fonts compressed ahead too, and the service worker compressed on the fly', async () => {
+  const font = await wire(FONT, 'br');
+  expect(font.headers['content-encoding']).toBe('br');
+  expect(font.headers['cache-control']).toBe('public, max-age=31536000, immutable');
+  expect(zlib.brotliDecompressSync(font.body).equals(fs.readFileSync(path.join(dist, FONT)))).toBe(true);
+  expect(fs.existsSync(path.join(dist, 'sw.js.br'))).toBe(false);
+  const worker = await wire('/sw.js', 'br');
+  expect(worker.headers['content-encoding']).toBe('br');
+  expect(zlib.brotliDecompressSync(worker.body).equals(fs.readFileSync(path.join(dist, 'sw.js')))).toBe(true);
 });
 
 it('falls back to gzip, and to the plain file for a client that accepts neither', async () => {
