@@ -10,11 +10,11 @@ export const spaceKeys = {
 };
 
 /** Spaces of the job, or of one level. */
-export function useSpacesQuery(jobId: string, levelId?: string, options: { enabled?: boolean } = {}) {
+export function useSpacesQuery(jobId: string, levelId?: string) {
   return useQuery({
     queryKey: spaceKeys.list(jobId, levelId),
     queryFn: () => fetchAll<SpaceDto>(jobPath(jobId, 'spaces'), { levelId }),
-    enabled: Boolean(jobId) && options.enabled !== false,
+    enabled: Boolean(jobId),
   });
 }
 

@@ -11,11 +11,11 @@ export const systemKeys = {
   detail: (jobId: string, systemId: string) => [...systemKeys.all(jobId), 'detail', systemId] as const,
 };
 
-export function useSystemsQuery(jobId: string, options: { enabled?: boolean } = {}) {
+export function useSystemsQuery(jobId: string) {
   return useQuery({
     queryKey: systemKeys.list(jobId),
     queryFn: () => fetchAll<SystemDto>(jobPath(jobId, 'systems')),
-    enabled: Boolean(jobId) && options.enabled !== false,
+    enabled: Boolean(jobId),
   });
 }
 

@@ -44,7 +44,7 @@ export function refreshWalkData(queryClient: QueryClient, jobId: string): void {
 }
 
 /** GET /levels/:levelId/walk-units: units with their state, counts and the level's coverage; "Load more" pages. */
-export function useWalkUnitsQuery(jobId: string, levelId: string, filters: WalkUnitFilters, options: { enabled?: boolean } = {}) {
+export function useWalkUnitsQuery(jobId: string, levelId: string, filters: WalkUnitFilters) {
   return useInfiniteQuery({
     queryKey: walkKeys.units(jobId, levelId, filters),
     queryFn: ({ pageParam }) =>
@@ -53,7 +53,7 @@ export function useWalkUnitsQuery(jobId: string, levelId: string, filters: WalkU
       ),
     initialPageParam: null as string | null,
     getNextPageParam: (last) => last.nextCursor,
-    enabled: Boolean(jobId && levelId) && options.enabled !== false,
+    enabled: Boolean(jobId && levelId),
   });
 }
 

@@ -48,17 +48,6 @@ export function LevelWalkScreen({
   const job = useJobQuery(jobId);
   const levels = useLevelsQuery(jobId);
   const level = levels.data?.find((l) => l.id === levelId);
-  // The level's lists start beside the job's reads, not after them (one round trip less on a slow
-  // phone), for those who walk the job: the session's role until the job's own answer is in.
-  // Read here once and handed to the body (a second observer would ask again on mount).
-  const session = useSessionQuery();
-  const role = job.data?.role ?? session.data?.jobs.find((j) => j.id === jobId)?.role;
-  const walks = role !== undefined && role !== 'subcontractor';
-  const lists: WalkLists = {
-    units: useWalkUnitsQuery(jobId, levelId, filters, { enabled: walks }),
-    spaces: useSpacesQuery(jobId, levelId, { enabled: walks }),
-    systems: useSystemsQuery(jobId, { enabled: walks }),
-  };
   return (
     <Screen testID="level-walk-screen" maxWidth={720}>
       <Link href={links.walk(jobId)} style={styles.back} testID="level-walk-back">
@@ -80,15 +69,7 @@ export function LevelWalkScreen({
       ) : job.data.role === 'subcontractor' ? (
         <InspectorsOnly jobId={jobId} />
       ) : (
-        <LevelWalkBody
-          job={job.data}
-          levelId={level.id}
-          levelName={level.name}
-          saved={saved}
-          filters={filters}
-          onFiltersChange={onFiltersChange}
-          lists={lists}
-        />
+        <LevelWalkBody job={job.data} levelId={level.id} levelName={level.name} saved={saved} filters={filters} onFiltersChange={onFiltersChange} />
       )}
     </Screen>
   );
@@ -110,12 +91,6 @@ export function InspectorsOnly({ jobId }: { jobId: string }) {
   );
 }
 
-interface WalkLists {
-  units: ReturnType<typeof useWalkUnitsQuery>;
-  spaces: ReturnType<typeof useSpacesQuery>;
-  systems: ReturnType<typeof useSystemsQuery>;
-}
-
 function LevelWalkBody({
   job,
   levelId,
@@ -123,7 +98,6 @@ function LevelWalkBody({
   saved,
   filters,
   onFiltersChange,
-  lists: { units, spaces, systems },
 }: {
   job: JobDetail;
   levelId: string;
@@ -131,9 +105,11 @@ function LevelWalkBody({
   saved?: string;
   filters: WalkUnitFilters;
   onFiltersChange: (next: WalkUnitFilters) => void;
-  lists: WalkLists;
 }) {
+  const units = useWalkUnitsQuery(job.id, levelId, filters);
   const savedWords = useSavedCheckWords(job.id, saved);
+  const spaces = useSpacesQuery(job.id, levelId);
+  const systems = useSystemsQuery(job.id);
   const first = units.data?.pages[0];
   const rows = units.data?.pages.flatMap((p) => p.items) ?? [];
   const filtered = Boolean(filters.q || filters.spaceId || filters.systemId || filters.kind || filters.state);
