@@ -7,7 +7,7 @@
  * GET /jobs/:jobId/recurring     every role (subcontractor: their company's findings only)
  * GET /jobs/:jobId/trend         every role (subcontractor: their company's findings only); ?levelId&days
  */
-import { Router } from 'express';
+import { Router, type Request, type Response } from 'express';
 import { readinessQuerySchema, trendQuerySchema, type ReadinessQuery, type TrendQuery } from '../../shared/schemas/board';
 import { jobParamsSchema } from '../../shared/schemas/setup';
 import { notFound } from '../errors';
@@ -15,8 +15,22 @@ import { valid, validate } from '../middleware/validate';
 import { policy } from '../policies';
 import { loadBoard, loadFloorSystems, loadReadiness, loadRecurring, loadScorecards, loadTrend } from '../services/board';
 import { sequelizeOf } from '../services/records';
+import { writeJson } from '../services/statCache';
 
 const SCORECARD_ROLES = ['gc_manager', 'inspector'] as const;
+
+/**
+ * res.json for figures that may come from the exact cache: their JSON and entity tag are written
+ * once per cached value (statCache.ts writeJson), not on every request; the answer is the same
+ * bytes, type and ETag (Express's own etag function, so If-None-Match still gives 304).
+ */
+function sendJson(req: Request, res: Response, value: unknown): void {
+  const etagFn = req.app.get('etag fn') as ((body: Buffer, encoding?: string) => string) | undefined;
+  const { body, etag } = writeJson(value, etagFn ? (b) => etagFn(b) : undefined);
+  res.type('json');
+  if (etag && !res.get('ETag')) res.set('ETag', etag);
+  res.send(body);
+}
 
 export function boardRouter(): Router {
   const router = Router();
@@ -33,7 +47,7 @@ export function boardRouter(): Router {
     const query = valid<ReadinessQuery>(req.valid.query);
     const body = await loadReadiness(sequelizeOf(req), req.scope!, query);
     if (!body) throw notFound('Level or system not found on this job.');
-    res.json(body);
+    sendJson(req, res, body);
   });
 
   router.get('/jobs/:jobId/scorecards', policy.jobMember(SCORECARD_ROLES), validate({ params: jobParamsSchema }), async (req, res) => {
@@ -41,7 +55,7 @@ export function boardRouter(): Router {
   });
 
   router.get('/jobs/:jobId/recurring', policy.jobMember(), validate({ params: jobParamsSchema }), async (req, res) => {
-    res.json(await loadRecurring(sequelizeOf(req), req.scope!));
+    sendJson(req, res, await loadRecurring(sequelizeOf(req), req.scope!));
   });
 
   router.get('/jobs/:jobId/trend', policy.jobMember(), validate({ params: jobParamsSchema, query: trendQuerySchema }), async (req, res) => {

@@ -135,23 +135,25 @@ export interface WaitingFixes {
 }
 
 /**
+ * Fixes waiting for the inspector per level and company ($1 = the job), index-only on the partial
+ * indexes findings_job_fix_submitted and finding_events_fix_submitted_at (migration 20261205000000).
+ */
+export const WAITING_FIXES_SQL = `SELECT f.level_id, f.company_id, count(*) AS n, min(lf.submitted_at) AS oldest
+       FROM findings f
+       -- The latest fix_submitted event (read backwards): the history is the record of when the
+       -- fix was submitted, for every way a finding reached this status.
+       JOIN LATERAL (SELECT e.at AS submitted_at FROM finding_events e
+                      WHERE e.finding_id = f.id AND e.kind = 'fix_submitted' ORDER BY e.at DESC LIMIT 1) lf ON true
+      WHERE f.job_id = $1 AND f.status = 'fix_submitted'
+      GROUP BY f.level_id, f.company_id`;
+
+/**
  * The job's findings waiting for re-inspection, grouped by level and company, with the oldest
  * wait (the latest fix of each, since a returned finding waits again from its new fix). Not cached:
  * the days are counted from it on the job's clock at each request (shared/rules/waiting.ts), and
  * it reads only fix-submitted findings and one index probe each into fixes.
  */
 export async function loadWaitingFixes(sequelize: Sequelize, jobId: string): Promise<WaitingFixes[]> {
-  const rows = await select<{ level_id: string; company_id: string; n: string; oldest: Date }>(
-    sequelize,
-    `SELECT f.level_id, f.company_id, count(*) AS n, min(lf.submitted_at) AS oldest
-       FROM findings f
-       -- The latest fix_submitted event (finding_events_finding_at, read backwards): the history is
-       -- the record of when the fix was submitted, for every way a finding reached this status.
-       JOIN LATERAL (SELECT e.at AS submitted_at FROM finding_events e
-                      WHERE e.finding_id = f.id AND e.kind = 'fix_submitted' ORDER BY e.at DESC LIMIT 1) lf ON true
-      WHERE f.job_id = $1 AND f.status = 'fix_submitted'
-      GROUP BY f.level_id, f.company_id`,
-    [jobId],
-  );
+  const rows = await select<{ level_id: string; company_id: string; n: string; oldest: Date }>(sequelize, WAITING_FIXES_SQL, [jobId]);
   return rows.map((r) => ({ levelId: r.level_id, companyId: r.company_id, count: num(r.n), oldestSubmittedAt: new Date(r.oldest) }));
 }

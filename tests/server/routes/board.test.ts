@@ -10,6 +10,7 @@
  *    = 5; first pass 2 of 3; a reassignment and a reopened finding; the trend day by day).
  * 3. 401 / 403 / 404 / 400, and another job's ids.
  */
+import { createHash } from 'node:crypto';
 import { QueryTypes } from 'sequelize';
 import request from 'supertest';
 import type { TrimoutApp } from '../../../server/app';
@@ -637,6 +638,29 @@ describe('the demo job', () => {
     expect(bySystem.systems).toEqual([system]);
     expect(bySystem.unitsWithoutSystem).toEqual([]);
     expect(bySystem.levels.map((l) => l.levelId).sort()).toEqual([...new Set(system.units.map((u) => u.levelId))].sort());
+  });
+
+  it('readiness and recurring: cached answers are sent as JSON with an entity tag of their bytes, and 304 when it still matches', async () => {
+    // The JSON of a cached figure is written once (statCache.ts writeJson); what is sent must be
+    // what res.json would send: the same type, bytes and weak entity tag (RFC 9110 8.8.3).
+    const { agent } = await signIn(trimout.app, DEMO_ACCOUNTS.find((a) => a.email.startsWith('gc.manager'))!.email, DEMO_PASSWORD);
+    for (const rest of ['/readiness', '/recurring']) {
+      const first = await agent.get(jobPath(jobId, rest));
+      const second = await agent.get(jobPath(jobId, rest));
+      for (const res of [first, second]) {
+        expect(res.status).toBe(200);
+        expect(res.headers['content-type']).toBe('application/json; charset=utf-8');
+        // The text as sent (decompressed), byte for byte what JSON.stringify writes.
+        expect(res.text).toBe(JSON.stringify(res.body));
+        const bytes = Buffer.from(res.text, 'utf8');
+        // Express's default: W/"<length in hex>-<first 27 characters of the base64 SHA-1>".
+        const sha1 = createHash('sha1').update(bytes).digest('base64').slice(0, 27);
+        expect(res.headers.etag).toBe(`W/"${bytes.length.toString(16)}-${sha1}"`);
+      }
+      expect(second.headers.etag).toBe(first.headers.etag);
+      const again = await agent.get(jobPath(jobId, rest)).set('If-None-Match', first.headers.etag as string);
+      expect(again.status).toBe(304);
+    }
   });
 
   it('scorecards: every value matches the seeded rows and events (GC manager, inspector); subcontractor 403', async () => {
