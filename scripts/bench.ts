@@ -14,7 +14,7 @@
  * 4. Per read endpoint, the SQL the route itself sends (captured from one request, without the
  *    session / user / membership queries every request pays) is replayed directly on PostgreSQL;
  *    printed next to the API's latency with one client and under load, as ratios.
- * 5. Exports (scripts/lib/benchExport.ts when present), the web bundle size (gzip), the time
+ * 5. Exports (scripts/lib/benchExport.ts when present), the web bundle size (raw, gzip, brotli as sent), the time
  *    until the sign-in page is usable in headless chromium, and the local save of a finding with
  *    2 photos with the CPU slowed 4x (scripts/lib/benchLocalSave.ts), and the sync rate of
  *    BENCH_SYNC_COUNT (50) findings with 1-2 photos queued offline in the outbox, next to the same
@@ -624,16 +624,28 @@ async function cpuPerEndpoint(server: ServerProcess, clients: BenchClient[], fx:
 // Web
 // ---------------------------------------------------------------------------------------------
 
+/**
+ * The web app's scripts: raw, gzip 9, and the brotli copies the build keeps beside them
+ * (scripts/lib/precompress.ts), which is what a browser is sent. Only the .js files count: the
+ * .br and .gz copies are the same scripts again.
+ */
 function bundleSize() {
   const dir = path.join(root, 'dist', '_expo', 'static', 'js', 'web');
   let raw = 0;
   let gzip = 0;
+  let brotli = 0;
+  const files: string[] = [];
   for (const file of fs.readdirSync(dir)) {
+    if (!file.endsWith('.js')) continue;
     const body = fs.readFileSync(path.join(dir, file));
     raw += body.length;
     gzip += zlib.gzipSync(body, { level: 9 }).length;
+    const br = path.join(dir, `${file}.br`);
+    const sent = fs.existsSync(br) ? fs.statSync(br).size : zlib.brotliCompressSync(body).length;
+    brotli += sent;
+    files.push(`${file.replace(/-[0-9a-f]{32}\.js$/, '')} ${(sent / 1024).toFixed(0)} KiB`);
   }
-  return { raw, gzip };
+  return { raw, gzip, brotli, files };
 }
 
 async function signInPageUsable(baseUrl: string): Promise<number> {
@@ -985,7 +997,12 @@ async function main() {
       );
     } else if (exportResult) console.log(`\nExport: ${JSON.stringify(exportResult)}`);
     if (reportResult) console.log(`\n${describeReportBench(reportResult)}`);
-    if (bundle) console.log(`\nweb bundle: ${(bundle.raw / 1024).toFixed(0)} KiB raw, ${(bundle.gzip / 1024).toFixed(0)} KiB gzip`);
+    if (bundle) {
+      console.log(
+        `\nweb bundle: ${(bundle.raw / 1024).toFixed(0)} KiB raw, ${(bundle.gzip / 1024).toFixed(0)} KiB gzip, ` +
+          `${(bundle.brotli / 1024).toFixed(0)} KiB brotli as sent (${bundle.files.join(', ')}; the scanner's piece only when a code is first read)`,
+      );
+    }
     if (usableMs !== null) console.log(`sign-in page usable in headless chromium (median of 5): ${usableMs} ms`);
     if (localSave) {
       console.log(
