@@ -64,9 +64,9 @@ declare module 'express-session' {
 
 export const HOUR = 60 * 60 * 1000;
 
-/** The service worker and the web app manifest (written by scripts/lib/pwa.ts): never taken from an HTTP cache unchecked. */
 /** An exported asset named by its content (Metro's md5 before the extension): assets/…/font.<md5>.ttf */
 const HASHED_ASSET = /^assets[\\/].+\.[0-9a-f]{32}(@\dx)?\.\w+(\.br|\.gz)?$/;
+/** The service worker and the web app manifest (written by scripts/lib/pwa.ts) and public/early-session.js: never taken from an HTTP cache unchecked. */
 const OFFLINE_SHELL_FILES = new Set(['sw.js', 'manifest.webmanifest', 'early-session.js']);
 
 export interface AppOptions {
