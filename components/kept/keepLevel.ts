@@ -86,8 +86,13 @@ function sizeOf(data: unknown): number {
  * disabled observer held for a moment lifts the query's gcTime (and clears a removal already
  * scheduled with the old one).
  */
-function seed(client: QueryClient, key: QueryKey, data: unknown): void {
+function seed(client: QueryClient, key: QueryKey, data: unknown, readFrom?: number): void {
+  // A screen that read this key after the keep began reading (the walk's first check, saved while
+  // the keep fetched) has newer data than the keep's copy: the copy is kept, and the screen reads
+  // again, so it never goes back in time (a walk banner stuck at no unit checked).
+  const newer = readFrom !== undefined && (client.getQueryState(key)?.dataUpdatedAt ?? 0) >= readFrom;
   client.setQueryData(key, data);
+  if (newer) void client.invalidateQueries({ queryKey: key, exact: true });
   const hold = new QueryObserver(client, { queryKey: key, enabled: false, gcTime: Infinity });
   hold.subscribe(() => undefined)();
 }
@@ -216,6 +221,7 @@ async function keepNow(client: QueryClient, input: KeepInput, save: () => Promis
   void askForPersistentStorage();
   setKeepProgress(jobId, levelId, { done: 0, total: 0 });
   try {
+    const readFrom = Date.now();
     const { level, entries, photos, tick } = await fetchLevel(input, (done, total) => setKeepProgress(jobId, levelId, { done, total }));
     const pictures = await keepThumbnails(photos, tick);
     const session = client.getQueryData<SessionResponse>(sessionKeys.all);
@@ -236,7 +242,7 @@ async function keepNow(client: QueryClient, input: KeepInput, save: () => Promis
     const others = before.owner === userId ? keptState().levels.filter((l) => !(l.jobId === jobId && l.levelId === levelId)) : [];
     // The keys are listed before the data goes in, so every cache change from here on is persisted.
     await saveKeptState({ owner: userId, levels: [...others, kept] });
-    for (const [key, data] of entries) seed(client, key, data);
+    for (const [key, data] of entries) seed(client, key, data, readFrom);
     if (session) seed(client, sessionKeys.all, session);
     await pruneKept(client, save, kept);
     await save();

@@ -158,9 +158,10 @@ it('a kept query is never collected, even when no screen watches it; a list a sc
   // Screens had the level open before keeping (queries with the usual 5-minute lifetime).
   const observer = new QueryObserver(client, { queryKey: ['walk', JOB, 'coverage', LEVEL], queryFn: async () => coverage });
   const off = observer.subscribe(() => undefined);
+  // The screens read what the server answers (the keep reads them again when they read meanwhile).
   const list = new InfiniteQueryObserver(client, {
     queryKey: walkKeys.units(JOB, LEVEL, {}),
-    queryFn: async () => ({ items: [], nextCursor: null }),
+    queryFn: async () => ({ items: [walkUnit], nextCursor: null, coverage }),
     initialPageParam: null as string | null,
     getNextPageParam: () => null,
   });
@@ -218,6 +219,26 @@ it('starting a walk keeps its level', async () => {
   expect(keptState().levels.map((l) => l.levelName)).toEqual(['Level 3']);
   disconnect();
   client.clear();
+});
+
+it('a screen that read newer data while the keep was fetching reads it again, not left with the keep\'s older copy', async () => {
+  // The first check of a walk starts the walk and the keep of its level at once: the walk banner
+  // read the walk with its check while the keep still held the walk as it was before the check.
+  api();
+  const client = newClient();
+  const openKey = walkKeys.open(JOB, LEVEL, USER);
+  const fetchMock = globalThis.fetch as jest.Mock;
+  const answer = fetchMock.getMockImplementation()!;
+  fetchMock.mockImplementation(async (path: string) => {
+    // The screen's own read lands while the keep is fetching the level.
+    if (String(path).includes('/walks?')) client.setQueryData(openKey, { id: 'w1', levelId: LEVEL, unitsChecked: 1 });
+    return answer(path);
+  });
+  await keepLevel(client, { jobId: JOB, levelId: LEVEL, userId: USER }, save);
+  expect(client.getQueryState(openKey)?.isInvalidated).toBe(true);
+  // Keys no screen read meanwhile are kept as fetched, not read again.
+  expect(client.getQueryState(walkKeys.units(JOB, LEVEL, {}))?.isInvalidated).toBe(false);
+  expect(client.getQueryState(['walk', JOB, 'coverage', LEVEL])?.isInvalidated).toBe(false);
 });
 
 it('over the budget, drops the level brought up to date longest ago; stopping keeps thumbnails another kept level uses', async () => {
